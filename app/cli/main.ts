@@ -1,0 +1,23 @@
+/**
+ * The `waymark` command line. From a checkout: `npm run -s cli -- <command> ...`; installed:
+ * `waymark <command> ...`. Every command takes `--json` for machine-readable output.
+ */
+import { Command } from 'commander';
+import { addCalcCommands } from './commands/calc.ts';
+
+export function buildProgram(): Command {
+  const program = new Command();
+  program
+    .name('waymark')
+    .description('Mission planning for invented star systems (fictional and educational use only).')
+    .version('0.1.0')
+    .showHelpAfterError()
+    .configureOutput({ writeErr: (s) => process.stderr.write(s) });
+  addCalcCommands(program);
+  return program;
+}
+
+const isMain = import.meta.url === `file://${process.argv[1]}` || /app[\\/]cli[\\/](main\.ts|bin\.js)$/.test(process.argv[1] ?? '');
+if (isMain) {
+  await buildProgram().parseAsync(process.argv);
+}
