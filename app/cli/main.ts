@@ -4,6 +4,8 @@
  */
 import { Command } from 'commander';
 import { addCalcCommands } from './commands/calc.ts';
+import { addPlanCommands } from './commands/check.ts';
+import { addWindowsCommand } from './commands/windows.ts';
 
 export function buildProgram(): Command {
   const program = new Command();
@@ -14,6 +16,8 @@ export function buildProgram(): Command {
     .showHelpAfterError()
     .configureOutput({ writeErr: (s) => process.stderr.write(s) });
   addCalcCommands(program);
+  addPlanCommands(program);
+  addWindowsCommand(program);
   return program;
 }
 

@@ -1,0 +1,337 @@
+/**
+ * One patched-conic transfer between two bodies for a departure time and a time of flight:
+ * the Lambert arc about the central body, the departure burn from a parking orbit and the
+ * capture burn into a target orbit (or a flyby). The porkchop grid and the window refinement
+ * both evaluate transfers through this file, so a grid cell and a refined window agree.
+ *
+ * Method: Lambert arc by Izzo's method (core/orbit/lambert.ts); departure and capture burns
+ * tangential at periapsis of the hyperbola, v_p = √(v∞² + 2μ/r_p), Δv = v_p − v_orbit
+ * (Curtis, Orbital Mechanics for Engineering Students, §8.7–8.9; the same formulas as
+ * core/orbit/hyperbolic.ts, written inline here so the hot loop allocates nothing).
+ *
+ * Geometries (`TransferSetup.kind`)
+ * - SIBLINGS: both bodies orbit the same parent (two planets of the star, or two moons of a
+ *   planet). The arc runs about the parent with the parent's μ, from the departure body's
+ *   centre to the arrival body's centre; v∞ = arc velocity − body velocity at each end.
+ * - FROM_PARENT: a planet to one of its moons, inside the planet's sphere of influence. The arc
+ *   runs about the planet with the planet's μ, from a point of the parking orbit to the moon's
+ *   centre. The departure point is taken opposite the moon's arrival position (r1 = −r_park·r̂2,
+ *   a 180° transfer — the Hohmann geometry), with the parking orbit in the transfer plane and
+ *   in the same sense; the burn is |v1 − v_park|, C3 = v1² − 2μ/r_park (negative for a bound
+ *   arc), v∞ departure = √max(0, C3). This assumes the parking orbit's phase can be chosen
+ *   freely (any revolution of it), so for a circular moon orbit the cost depends only on the
+ *   time of flight, not on the departure time.
+ * - TO_PARENT: a moon to its planet, the mirror image: the arc ends on the target orbit opposite
+ *   the moon's departure position (r2 = −r_target·r̂1); the capture burn is |v2 − v_target|
+ *   (0 for a flyby), v∞ arrival = √max(0, v2² − 2μ/r_target).
+ *
+ * Conventions: velocities m/s, C3 m²/s²; all burns are positive magnitudes. A transfer that
+ * cannot be solved (Lambert failure, coincident points, tof ≤ 0, non-finite result) is
+ * "unsolved": every value is +Infinity and revs/branch are −1 — never NaN.
+ */
+import { InputError } from '../math/errors.ts';
+import { lambertBest, lambertCodeRevs, lambertSingleRev } from '../orbit/lambert.ts';
+import { bodyState } from '../system/ephemeris.ts';
+import type { StarSystem } from '../system/model.ts';
+import { normalizeRequest, type PorkchopMetric, type PorkchopRequest } from './request.ts';
+
+export const SIBLINGS = 0;
+export const FROM_PARENT = 1;
+export const TO_PARENT = 2;
+
+/** Metric codes used in the hot loop. */
+export const METRIC_CODE: Readonly<Record<PorkchopMetric, number>> = { total: 0, departure: 1, arrival: 2, c3: 3 };
+
+/** Everything a cell evaluation needs, resolved once per request. */
+export interface TransferSetup {
+  kind: typeof SIBLINGS | typeof FROM_PARENT | typeof TO_PARENT;
+  /** Index of the body the arc runs about. */
+  central: number;
+  /** μ of the central body (the arc's μ), m³/s². */
+  mu: number;
+  from: number;
+  to: number;
+  /** μ of the departure body (the central body's for FROM_PARENT). */
+  muFrom: number;
+  /** Parking-orbit periapsis radius, m. */
+  rPark: number;
+  /** Parking-orbit speed at periapsis √(μ(1+e)/r_p), m/s. */
+  vPark: number;
+  /** μ of the arrival body (the central body's for TO_PARENT). */
+  muTo: number;
+  /** Arrival periapsis radius, m. */
+  rArrive: number;
+  /** Target-orbit speed at periapsis, m/s (unused for a flyby). */
+  vTarget: number;
+  flyby: boolean;
+  maxRevs: number;
+  retrograde: boolean;
+  metric: number;
+  /** The request with defaults filled in. */
+  request: Required<PorkchopRequest>;
+}
+
+/** Resolves the bodies and orbits of a request; InputError when the pair or an orbit is unusable. */
+export function prepareTransfer(system: StarSystem, request: PorkchopRequest): TransferSetup {
+  const req = normalizeRequest(request);
+  const n = system.bodies.length;
+  for (const f of ['from', 'to'] as const) {
+    if (req[f] >= n) throw new InputError(f, `must be a body index below ${n}`, req[f]);
+    if (req[f] === 0) throw new InputError(f, 'must name a body with an orbit (not the star)', system.bodies[0].id);
+  }
+  if (req.from === req.to) throw new InputError('to', 'must differ from the departure body', system.bodies[req.to].id);
+  const a = system.bodies[req.from];
+  const b = system.bodies[req.to];
+  let kind: TransferSetup['kind'];
+  let central: number;
+  if (a.parentIndex === b.parentIndex) {
+    kind = SIBLINGS;
+    central = a.parentIndex;
+  } else if (b.parentIndex === a.index) {
+    kind = FROM_PARENT;
+    central = a.index;
+  } else if (a.parentIndex === b.index) {
+    kind = TO_PARENT;
+    central = b.index;
+  } else {
+    throw new InputError('to', `must orbit the same body as ${a.id}, or be ${a.id}'s parent or moon`, b.id);
+  }
+  const mu = system.bodies[central].mu;
+  const rPark = a.radius + req.parkingAltitude;
+  const rArrive = b.radius + req.arrivalAltitude;
+  const flyby = req.arrivalEccentricity === 'flyby';
+  const eArr = flyby ? 0 : (req.arrivalEccentricity as number);
+  return {
+    kind,
+    central,
+    mu,
+    from: req.from,
+    to: req.to,
+    muFrom: a.mu,
+    rPark,
+    vPark: Math.sqrt((a.mu * (1 + req.parkingEccentricity)) / rPark),
+    muTo: b.mu,
+    rArrive,
+    vTarget: flyby ? 0 : Math.sqrt((b.mu * (1 + eArr)) / rArrive),
+    flyby,
+    maxRevs: req.maxRevs,
+    retrograde: req.retrograde,
+    metric: METRIC_CODE[req.metric],
+    request: req,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Allocation-free cell evaluation (module scratch).
+
+/** Offsets into the result of the last cell solve (`lastCell`). */
+export const CELL_DV_DEPART = 0;
+export const CELL_DV_ARRIVE = 1;
+export const CELL_DV_TOTAL = 2;
+export const CELL_C3 = 3;
+export const CELL_VINF_DEPART = 4;
+export const CELL_VINF_ARRIVE = 5;
+export const CELL_REVS = 6;
+export const CELL_BRANCH = 7;
+export const CELL_METRIC = 8;
+
+/** Result of the last `solveCell`: the CELL_* slots above. */
+export const lastCell = new Float64Array(9);
+
+const R1 = new Float64Array(3);
+const R2 = new Float64Array(3);
+const VF = new Float64Array(3);
+const VT = new Float64Array(3);
+const V1 = new Float64Array(3);
+const V2 = new Float64Array(3);
+let current: TransferSetup | null = null;
+
+function unsolved(): false {
+  lastCell.fill(Infinity);
+  lastCell[CELL_REVS] = -1;
+  lastCell[CELL_BRANCH] = -1;
+  return false;
+}
+
+// Fills lastCell from the arc's terminal velocities; returns the metric (Infinity if not finite).
+function finish(s: TransferSetup, v1x: number, v1y: number, v1z: number, v2x: number, v2y: number, v2z: number): number {
+  let dvD: number;
+  let c3: number;
+  let vInfD: number;
+  if (s.kind === FROM_PARENT) {
+    // burn from the parking orbit at r1, in the arc's plane and sense
+    const hx = R1[1] * v1z - R1[2] * v1y;
+    const hy = R1[2] * v1x - R1[0] * v1z;
+    const hz = R1[0] * v1y - R1[1] * v1x;
+    const k = s.vPark / (Math.sqrt(hx * hx + hy * hy + hz * hz) * s.rPark);
+    const px = (hy * R1[2] - hz * R1[1]) * k;
+    const py = (hz * R1[0] - hx * R1[2]) * k;
+    const pz = (hx * R1[1] - hy * R1[0]) * k;
+    dvD = Math.sqrt((v1x - px) * (v1x - px) + (v1y - py) * (v1y - py) + (v1z - pz) * (v1z - pz));
+    c3 = v1x * v1x + v1y * v1y + v1z * v1z - (2 * s.mu) / s.rPark;
+    vInfD = c3 > 0 ? Math.sqrt(c3) : 0;
+  } else {
+    const dx = v1x - VF[0];
+    const dy = v1y - VF[1];
+    const dz = v1z - VF[2];
+    c3 = dx * dx + dy * dy + dz * dz;
+    vInfD = Math.sqrt(c3);
+    dvD = Math.sqrt(c3 + (2 * s.muFrom) / s.rPark) - s.vPark;
+  }
+  let dvA: number;
+  let vInfA: number;
+  if (s.kind === TO_PARENT) {
+    const e2 = v2x * v2x + v2y * v2y + v2z * v2z - (2 * s.mu) / s.rArrive;
+    vInfA = e2 > 0 ? Math.sqrt(e2) : 0;
+    if (s.flyby) dvA = 0;
+    else {
+      const hx = R2[1] * v2z - R2[2] * v2y;
+      const hy = R2[2] * v2x - R2[0] * v2z;
+      const hz = R2[0] * v2y - R2[1] * v2x;
+      const k = s.vTarget / (Math.sqrt(hx * hx + hy * hy + hz * hz) * s.rArrive);
+      const px = (hy * R2[2] - hz * R2[1]) * k;
+      const py = (hz * R2[0] - hx * R2[2]) * k;
+      const pz = (hx * R2[1] - hy * R2[0]) * k;
+      dvA = Math.sqrt((v2x - px) * (v2x - px) + (v2y - py) * (v2y - py) + (v2z - pz) * (v2z - pz));
+    }
+  } else {
+    const dx = v2x - VT[0];
+    const dy = v2y - VT[1];
+    const dz = v2z - VT[2];
+    const w2 = dx * dx + dy * dy + dz * dz;
+    vInfA = Math.sqrt(w2);
+    dvA = s.flyby ? 0 : Math.sqrt(w2 + (2 * s.muTo) / s.rArrive) - s.vTarget;
+  }
+  const total = dvD + dvA;
+  const m = s.metric === 0 ? total : s.metric === 1 ? dvD : s.metric === 2 ? dvA : c3;
+  lastCell[CELL_DV_DEPART] = dvD;
+  lastCell[CELL_DV_ARRIVE] = dvA;
+  lastCell[CELL_DV_TOTAL] = total;
+  lastCell[CELL_C3] = c3;
+  lastCell[CELL_VINF_DEPART] = vInfD;
+  lastCell[CELL_VINF_ARRIVE] = vInfA;
+  lastCell[CELL_METRIC] = m;
+  // one test catches NaN and ±Infinity in any slot
+  return Math.abs(total + c3 + vInfD + vInfA) < Infinity && m === m ? m : Infinity;
+}
+
+const cost = (v1x: number, v1y: number, v1z: number, v2x: number, v2y: number, v2z: number): number =>
+  finish(current as TransferSetup, v1x, v1y, v1z, v2x, v2y, v2z);
+
+/**
+ * Solves one cell into `lastCell` from the departure body's state `dep6` and the arrival
+ * body's state `arr6` (each relative to the central body; the central body's own end is
+ * ignored) and the time of flight. Returns false (and an unsolved cell) when there is no
+ * usable transfer. Allocates nothing.
+ */
+export function solveCell(s: TransferSetup, dep6: Float64Array, arr6: Float64Array, tof: number): boolean {
+  if (!(tof > 0)) return unsolved();
+  if (s.kind !== FROM_PARENT) {
+    R1[0] = dep6[0]; R1[1] = dep6[1]; R1[2] = dep6[2];
+    VF[0] = dep6[3]; VF[1] = dep6[4]; VF[2] = dep6[5];
+  }
+  if (s.kind !== TO_PARENT) {
+    R2[0] = arr6[0]; R2[1] = arr6[1]; R2[2] = arr6[2];
+    VT[0] = arr6[3]; VT[1] = arr6[4]; VT[2] = arr6[5];
+  }
+  if (s.kind === FROM_PARENT) {
+    const k = -s.rPark / Math.sqrt(R2[0] * R2[0] + R2[1] * R2[1] + R2[2] * R2[2]);
+    R1[0] = R2[0] * k; R1[1] = R2[1] * k; R1[2] = R2[2] * k;
+  } else if (s.kind === TO_PARENT) {
+    const k = -s.rArrive / Math.sqrt(R1[0] * R1[0] + R1[1] * R1[1] + R1[2] * R1[2]);
+    R2[0] = R1[0] * k; R2[1] = R1[1] * k; R2[2] = R1[2] * k;
+  }
+  if (s.maxRevs === 0) {
+    if (lambertSingleRev(s.mu, R1[0], R1[1], R1[2], R2[0], R2[1], R2[2], tof, s.retrograde, V1, V2) < 0) return unsolved();
+    if (finish(s, V1[0], V1[1], V1[2], V2[0], V2[1], V2[2]) === Infinity) return unsolved();
+    lastCell[CELL_REVS] = 0;
+    lastCell[CELL_BRANCH] = 0;
+    return true;
+  }
+  current = s;
+  const code = lambertBest(s.mu, R1, R2, tof, s.maxRevs, s.retrograde, cost, V1, V2);
+  current = null;
+  if (code < 0) return unsolved();
+  if (finish(s, V1[0], V1[1], V1[2], V2[0], V2[1], V2[2]) === Infinity) return unsolved();
+  lastCell[CELL_REVS] = lambertCodeRevs(code);
+  lastCell[CELL_BRANCH] = code === 0 ? 0 : code % 2 === 1 ? 1 : 2;
+  return true;
+}
+
+const DEP6 = new Float64Array(6);
+const ARR6 = new Float64Array(6);
+
+/** State of body `index` relative to the setup's central body into out6 (zeros for the central body itself). */
+export function stateAboutCentral(system: StarSystem, s: TransferSetup, index: number, t: number, out6: Float64Array): Float64Array {
+  if (index === s.central) {
+    out6.fill(0);
+    return out6;
+  }
+  return bodyState(system, index, t, out6, s.central);
+}
+
+/**
+ * Metric of the transfer leaving at tDepart with time of flight tof (Infinity when unsolved);
+ * leaves the whole cell in `lastCell`. Allocation-free; used by the window refinement.
+ */
+export function transferMetric(system: StarSystem, s: TransferSetup, tDepart: number, tof: number): number {
+  if (!(tof > 0) || !Number.isFinite(tDepart) || !Number.isFinite(tof)) {
+    unsolved();
+    return Infinity;
+  }
+  stateAboutCentral(system, s, s.from, tDepart, DEP6);
+  stateAboutCentral(system, s, s.to, tDepart + tof, ARR6);
+  return solveCell(s, DEP6, ARR6, tof) ? lastCell[CELL_METRIC] : Infinity;
+}
+
+/** One transfer, spelled out (SI). Unsolved transfers carry Infinity and revs = branch = −1. */
+export interface TransferCell {
+  /** Departure time, s from the epoch. */
+  departure: number;
+  /** Arrival time, s from the epoch. */
+  arrival: number;
+  /** Time of flight, s. */
+  tof: number;
+  /** Departure burn, m/s. */
+  dvDepart: number;
+  /** Capture burn, m/s (0 for a flyby). */
+  dvArrive: number;
+  /** dvDepart + dvArrive, m/s. */
+  dvTotal: number;
+  /** Characteristic energy at departure, m²/s². */
+  c3: number;
+  /** Excess speed at departure, m/s. */
+  vInfDepart: number;
+  /** Excess speed at arrival, m/s. */
+  vInfArrive: number;
+  /** Complete revolutions on the arc (−1 unsolved). */
+  revs: number;
+  /** 'single', 'left', 'right' (Izzo's branches), or 'none' when unsolved. */
+  branch: 'single' | 'left' | 'right' | 'none';
+  /** Value of the setup's metric. */
+  metric: number;
+  solved: boolean;
+}
+
+const BRANCH_NAMES = ['single', 'left', 'right'] as const;
+
+/** The whole transfer leaving at tDepart with time of flight tof, as a plain object (allocates). */
+export function evaluateTransfer(system: StarSystem, s: TransferSetup, tDepart: number, tof: number): TransferCell {
+  const m = transferMetric(system, s, tDepart, tof);
+  const solved = m < Infinity;
+  return {
+    departure: tDepart,
+    arrival: tDepart + tof,
+    tof,
+    dvDepart: lastCell[CELL_DV_DEPART],
+    dvArrive: lastCell[CELL_DV_ARRIVE],
+    dvTotal: lastCell[CELL_DV_TOTAL],
+    c3: lastCell[CELL_C3],
+    vInfDepart: lastCell[CELL_VINF_DEPART],
+    vInfArrive: lastCell[CELL_VINF_ARRIVE],
+    revs: lastCell[CELL_REVS],
+    branch: solved ? BRANCH_NAMES[lastCell[CELL_BRANCH]] : 'none',
+    metric: solved ? m : Infinity,
+    solved,
+  };
+}
