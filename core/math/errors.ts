@@ -55,7 +55,8 @@ export type SolverReason =
   | 'no-bracket'
   | 'no-solution'
   | 'non-finite'
-  | 'cancelled';
+  | 'cancelled'
+  | 'singular';
 
 export class SolverError extends WaymarkError {
   override name = 'SolverError';
