@@ -79,7 +79,19 @@ export type BurnFrame = 'vnb' | 'rtn' | 'inertial';
  */
 export type BurnSolve =
   | { kind: 'fixed' }
-  | { kind: 'transfer'; to: string; arrive: number; revs?: number; retrograde?: boolean }
+  | {
+      kind: 'transfer';
+      to: string;
+      arrive: number;
+      revs?: number;
+      retrograde?: boolean;
+      /**
+       * Direct transfers only (the target orbits the ship's central body, e.g. a mid-course
+       * correction): aim off the target's centre so the arrival hyperbola's periapsis is at this
+       * altitude above the target's mean radius, m. Omitted: aim at the centre.
+       */
+      periapsisAltitude?: number;
+    }
   | { kind: 'capture'; e: number }
   | { kind: 'plane'; i: number }
   | { kind: 'apsis'; altitude: number };
@@ -108,8 +120,12 @@ export interface BurnEvent {
 export type CoastUntil =
   | { kind: 'time'; t: number }
   | { kind: 'duration'; dt: number }
-  | { kind: 'periapsis' }
-  | { kind: 'apoapsis' }
+  /**
+   * Next apsis passage of the ship's conic; with `body`, only while the ship is in that body's
+   * sphere of influence (e.g. "periapsis at the target"), otherwise whichever conic it is on.
+   */
+  | { kind: 'periapsis'; body?: string }
+  | { kind: 'apoapsis'; body?: string }
   | { kind: 'soi-change' }
   /** First crossing of an altitude above the central body's mean radius (either direction). */
   | { kind: 'altitude'; altitude: number }

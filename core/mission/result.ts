@@ -69,7 +69,13 @@ export type FlagCode =
   | 'impact'
   | 'target-missed'
   | 'out-of-propellant'
-  | 'solve-failed';
+  | 'solve-failed'
+  /** A burn or coast time lies before the end of the preceding event; it was flown at once. */
+  | 'out-of-order'
+  /** A 'stage' event found no stage left to drop. */
+  | 'no-stage-left'
+  /** A coast condition was not met within the evaluation's maxDuration (the coast stopped there). */
+  | 'condition-not-met';
 
 export interface Flag {
   code: FlagCode;
@@ -102,6 +108,8 @@ export interface BudgetRow {
   stages: string[];
   /** Δv the vehicle can still deliver after this burn, m/s. */
   dvLeft: number;
+  /** Δv the burn could not deliver for want of propellant, m/s (0 when it was completed). */
+  dvMissing?: number;
   /** Finite burns: Δv lost to gravity against the impulsive burn, m/s; null for impulsive. */
   gravityLoss: number | null;
   /** Duration as a fraction of the orbital period at the burn (Infinity on a hyperbola: null). */

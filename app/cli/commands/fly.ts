@@ -1,0 +1,120 @@
+/**
+ * `waymark fly PLAN [--model conic|nbody] [--oem FILE] [--csv FILE] [--burns FILE]
+ *  [--report FILE] [--step T] [--json]` — flies a plan file and exports what it flew.
+ *
+ * - `--model conic` (default): patched conics (core/mission/evaluate.ts). `--model nbody` is
+ *   refused with exit code 2 ("the n-body model is not available yet") until the n-body
+ *   verification is wired in; nothing is flown or written then.
+ * - `--step T` (default 1 h): the fixed step of the exported ephemeris (a duration with a unit,
+ *   e.g. 600, 10min, 1h); samples come from each segment's exact conic
+ *   (core/mission/ephemerisSampler.ts).
+ * - `--oem FILE`: CCSDS OEM (KVN), one metadata block per central-body span (core/io/oem.ts);
+ *   `--csv FILE`: ephemeris CSV; `--burns FILE`: burn-table CSV; `--report FILE`: Markdown
+ *   budget report. Every file is saved atomically, the previous version kept as FILE.bak.
+ * Text output: the flown span, the trajectory events and the margin; `--json`: { model, t0, t1,
+ * events, budget, flags, target, files } in SI. Exit code 0 when flown (the margin verdict is
+ * `waymark check`'s), 2 for a bad file or option, 3 for a numerical failure.
+ */
+import type { Command } from 'commander';
+import { burnTableCsv, ephemerisCsv } from '../../../core/io/csv.ts';
+import { writeOem } from '../../../core/io/oem.ts';
+import { budgetReport } from '../../../core/io/report.ts';
+import { parseQuantity } from '../../../core/io/units.ts';
+import { InputError } from '../../../core/math/errors.ts';
+import { sampleEphemeris } from '../../../core/mission/ephemerisSampler.ts';
+import { evaluate } from '../../../core/mission/evaluate.ts';
+import type { PlanResult } from '../../../core/mission/result.ts';
+import { formatCompactDate } from '../../../core/system/calendar.ts';
+import { atomicWriteFile, loadPlanFile } from '../../node/files.ts';
+import { EXIT_OK, guard, num, printJson } from '../output.ts';
+
+export const MODELS = ['conic', 'nbody'] as const;
+/** Default export step, s. */
+export const DEFAULT_STEP = 3600;
+
+/** Burns inside each span, as OEM comments (impulsive burns make the velocity jump there). */
+function burnComments(result: PlanResult, spans: { t: Float64Array }[]): string[][] {
+  return spans.map((span) => {
+    const t0 = span.t[0];
+    const t1 = span.t[span.t.length - 1];
+    return result.budget.rows
+      .filter((r) => r.t >= t0 && r.t <= t1)
+      .map((r) => `burn ${r.planEventId} (${r.name}) at t = ${r.t} s, dv ${num(r.dv, 3)} m/s; do not interpolate across it`);
+  });
+}
+
+export function addFlyCommand(program: Command): void {
+  program
+    .command('fly')
+    .description('fly a plan (patched conics) and export its ephemeris (CCSDS OEM, CSV), burn table and report')
+    .argument('<plan>', 'plan file (.plan.json)')
+    .option('--model <model>', 'conic (patched conics) or nbody', 'conic')
+    .option('--oem <file>', 'write the ephemeris as a CCSDS OEM (KVN)')
+    .option('--csv <file>', 'write the ephemeris as CSV')
+    .option('--burns <file>', 'write the burn table as CSV')
+    .option('--report <file>', 'write the Markdown budget report')
+    .option('--step <t>', 'ephemeris step (s, min, h, d)', String(DEFAULT_STEP))
+    .option('--json', 'machine-readable output')
+    .action((planPath: string, o: { model: string; oem?: string; csv?: string; burns?: string; report?: string; step: string; json?: boolean }) =>
+      guard(!!o.json, () => {
+        if (!(MODELS as readonly string[]).includes(o.model)) throw new InputError('--model', `must be one of: ${MODELS.join(', ')}`, o.model);
+        if (o.model === 'nbody') {
+          throw new InputError('--model', 'nbody: the n-body model is not available yet; use --model conic');
+        }
+        const step = parseQuantity('--step', o.step, 'time');
+        if (!(step > 0)) throw new InputError('--step', 'must be > 0', o.step);
+        const loaded = loadPlanFile(planPath);
+        const { system, plan } = loaded;
+        const result = evaluate(system, plan);
+
+        const files: Record<string, string> = {};
+        if (o.oem || o.csv) {
+          const eph = sampleEphemeris(system, result, { step });
+          if (o.oem) {
+            const text = writeOem(system, eph, {
+              objectName: plan.vehicle.name,
+              creationDate: new Date().toISOString().slice(0, 19),
+              comments: [`Plan: ${plan.name}; patched-conic model; step ${step} s.`],
+              spanComments: burnComments(result, eph.spans),
+            });
+            atomicWriteFile(o.oem, text);
+            files.oem = o.oem;
+          }
+          if (o.csv) {
+            atomicWriteFile(o.csv, ephemerisCsv(system, eph));
+            files.csv = o.csv;
+          }
+        }
+        if (o.burns) {
+          atomicWriteFile(o.burns, burnTableCsv(result.budget));
+          files.burns = o.burns;
+        }
+        if (o.report) {
+          atomicWriteFile(o.report, budgetReport(system, plan, result));
+          files.report = o.report;
+        }
+
+        if (o.json) {
+          printJson({
+            model: result.model,
+            t0: result.t0,
+            t1: result.t1,
+            events: result.events,
+            budget: result.budget,
+            flags: result.flags,
+            target: result.target,
+            warnings: loaded.warnings,
+            files,
+          });
+        } else {
+          for (const w of loaded.warnings) process.stderr.write(`warning: ${w.path || '(document)'} ${w.rule}\n`);
+          const cal = system.calendar;
+          console.log(`flew ${plan.name} (patched conics) from ${formatCompactDate(cal, result.t0)} to ${formatCompactDate(cal, result.t1)}`);
+          for (const e of result.events) console.log(`  ${formatCompactDate(cal, e.t, { seconds: true })}  ${e.label}`);
+          console.log(`margin ${num(result.budget.margin, 1)} m/s`);
+          for (const [kind, path] of Object.entries(files)) console.log(`wrote ${kind}: ${path}`);
+        }
+        return EXIT_OK;
+      }),
+    );
+}

@@ -1,0 +1,80 @@
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { ROOT, runCli } from './runCli.ts';
+
+const DEMO = 'assets/plans/tessel-to-ochre.plan.json';
+const HEAVY = 'assets/plans/tessel-to-ochre-heavy.plan.json';
+const work = mkdtempSync(join(tmpdir(), 'waymark-check-'));
+afterAll(() => rmSync(work, { recursive: true, force: true }));
+
+/** The demo plan, edited, written beside nothing: its system named by absolute path. */
+function editedDemo(name: string, edit: (d: Record<string, any>) => void): string {
+  const d = JSON.parse(readFileSync(join(ROOT, DEMO), 'utf8'));
+  d.system = { path: join(ROOT, 'assets/systems/ilmar.system.json') };
+  edit(d);
+  const p = join(work, name);
+  writeFileSync(p, JSON.stringify(d, null, 2));
+  return p;
+}
+
+describe.concurrent('waymark check', () => {
+  it('the demo plan: prints the budget and exits 0', async () => {
+    const r = await runCli(['check', DEMO]);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    expect(r.stdout).toMatch(/^plan Long Patience to Ochre — vehicle Long Patience, system Ilmar/);
+    for (const burn of ['Departure', 'Mid-course correction', 'Ochre capture', 'Plane change', 'Apoapsis trim']) expect(r.stdout).toContain(burn);
+    expect(r.stdout).toMatch(/margin\s+\d+\.\d m\/s {2}HOLDS/);
+    expect(r.stdout).toMatch(/target Ochre: reached/);
+  });
+
+  it('the negative-margin demo: exits 1 and says why', async () => {
+    const r = await runCli(['check', HEAVY]);
+    expect(r.code).toBe(1);
+    expect(r.stdout).toMatch(/margin\s+-\d+\.\d m\/s {2}DOES NOT HOLD/);
+    expect(r.stdout).toContain('negative-margin');
+  });
+
+  it('--json: one document with the verdict and the budget in SI', async () => {
+    const r = await runCli(['check', DEMO, '--json']);
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.holds).toBe(true);
+    expect(out.budget.rows.length).toBe(5);
+    expect(out.budget.margin).toBeGreaterThan(0);
+    expect(out.budget.margin).toBeCloseTo(out.budget.dvLeft - out.budget.reserve, 9);
+  });
+
+  it('a bad file: exits 2 with the field-precise message', async () => {
+    const p = editedDemo('bad.plan.json', (d) => {
+      d.events[4].dv_mps[0] = 'fast';
+      d.vehicle.stages[1].isp_s = -3;
+    });
+    const r = await runCli(['check', p]);
+    expect(r.code).toBe(2);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toContain(`waymark: plan file ${p}: 2 problems`);
+    expect(r.stderr).toContain('  vehicle.stages[1].isp_s must be > 0');
+    expect(r.stderr).toContain('  events[4].dv_mps[0] must be a number');
+  });
+
+  it('a bad file with --json: exit 2 and the issues as data', async () => {
+    const p = editedDemo('bad2.plan.json', (d) => (d.events[0].frame = 'sideways'));
+    const r = await runCli(['check', p, '--json']);
+    expect(r.code).toBe(2);
+    const out = JSON.parse(r.stdout);
+    expect(out.error.type).toBe('ValidationError');
+    expect(out.error.issues).toEqual([{ path: 'events[0].frame', rule: 'must be one of: "vnb", "rtn", "inertial"', severity: 'error' }]);
+  });
+
+  it('a plan whose system file is missing, or a plan file that does not exist: exit 2', async () => {
+    const p = editedDemo('lost.plan.json', (d) => (d.system = { path: 'gone.system.json' }));
+    const [a, b] = await Promise.all([runCli(['check', p]), runCli(['check', join(work, 'none.plan.json')])]);
+    expect(a.code).toBe(2);
+    expect(a.stderr).toMatch(/system\.path names "gone\.system\.json", which does not exist/);
+    expect(b.code).toBe(2);
+    expect(b.stderr).toMatch(/cannot read .*none\.plan\.json: .*does not exist \(ENOENT\)/);
+  });
+});

@@ -1,0 +1,225 @@
+import { spawn } from 'node:child_process';
+import { chmodSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { ValidationError } from '../../../core/math/errors.ts';
+import { parsePlanFile, serializePlanFile, type PlanSystemRef } from '../../../core/io/planFile.ts';
+import { FileError, atomicWriteFile, backupPath, loadPlanFile, resolveSystemPath, savePlanFile } from '../../../app/node/files.ts';
+import { samplePlan, stateStartPlan } from '../../core/io/planSamples.ts';
+
+const ROOT = new URL('../../../', import.meta.url).pathname;
+const CHILD = new URL('./saveChild.ts', import.meta.url).pathname;
+const SYSTEM = join(ROOT, 'assets/systems/ilmar.system.json');
+const work = mkdtempSync(join(tmpdir(), 'waymark-files-'));
+afterAll(() => rmSync(work, { recursive: true, force: true }));
+
+let n = 0;
+function freshDir(): string {
+  const d = join(work, `case-${n++}`);
+  mkdirSync(d);
+  return d;
+}
+
+const ref = (dir: string): PlanSystemRef => ({ kind: 'path', path: relativeTo(dir, SYSTEM) });
+function relativeTo(dir: string, file: string): string {
+  // Plans name their system relative to themselves.
+  const a = dir.split('/').filter(Boolean);
+  const b = file.split('/').filter(Boolean);
+  let k = 0;
+  while (k < a.length && a[k] === b[k]) k++;
+  return [...a.slice(k).map(() => '..'), ...b.slice(k)].join('/');
+}
+
+/** Runs the child script; resolves when it prints `signal` (then SIGKILLs it after `delayMs`). */
+function runAndKill(args: string[], signal: string, delayMs = 0): Promise<void> {
+  return new Promise((resolvePromise, reject) => {
+    const child = spawn(process.execPath, ['--import', 'tsx', CHILD, ...args], { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] });
+    let out = '';
+    let err = '';
+    let killed = false;
+    child.stdout.on('data', (b: Buffer) => {
+      out += b.toString();
+      if (!killed && out.includes(signal)) {
+        killed = true;
+        setTimeout(() => child.kill('SIGKILL'), delayMs);
+      }
+    });
+    child.stderr.on('data', (b: Buffer) => (err += b.toString()));
+    child.on('exit', (code, sig) => {
+      if (sig === 'SIGKILL' && killed) resolvePromise();
+      else reject(new Error(`child ended (code ${code}, signal ${sig}) before it was killed: ${err}`));
+    });
+  });
+}
+
+const tmpFiles = (dir: string) => readdirSync(dir).filter((f) => f.endsWith('.tmp'));
+
+describe('atomicWriteFile', () => {
+  it('writes the file and keeps the previous version as <name>.bak', () => {
+    const dir = freshDir();
+    const p = join(dir, 'a.txt');
+    atomicWriteFile(p, 'first\n');
+    expect(readFileSync(p, 'utf8')).toBe('first\n');
+    expect(existsSync(backupPath(p))).toBe(false);
+    atomicWriteFile(p, 'second\n');
+    expect(readFileSync(p, 'utf8')).toBe('second\n');
+    expect(readFileSync(`${p}.bak`, 'utf8')).toBe('first\n');
+    atomicWriteFile(p, 'third\n');
+    expect(readFileSync(`${p}.bak`, 'utf8')).toBe('second\n');
+    expect(tmpFiles(dir)).toEqual([]);
+  });
+
+  it('backup: false keeps no backup', () => {
+    const dir = freshDir();
+    const p = join(dir, 'a.txt');
+    atomicWriteFile(p, 'one');
+    atomicWriteFile(p, 'two', { backup: false });
+    expect(existsSync(`${p}.bak`)).toBe(false);
+    expect(readFileSync(p, 'utf8')).toBe('two');
+  });
+
+  it('a target that is a folder: the save fails, says why, and changes nothing', () => {
+    const dir = freshDir();
+    const p = join(dir, 'plan.json');
+    mkdirSync(p);
+    writeFileSync(join(p, 'inside.txt'), 'keep');
+    expect(() => atomicWriteFile(p, 'x')).toThrow(FileError);
+    expect(() => atomicWriteFile(p, 'x')).toThrow(/is a folder, not a file/);
+    expect(statSync(p).isDirectory()).toBe(true);
+    expect(readFileSync(join(p, 'inside.txt'), 'utf8')).toBe('keep');
+    expect(tmpFiles(dir)).toEqual([]);
+  });
+
+  it('a folder that does not exist: the save fails and says so', () => {
+    const p = join(work, 'no-such-folder', 'plan.json');
+    expect(() => atomicWriteFile(p, 'x')).toThrow(/cannot save .*plan\.json: the folder .*no-such-folder does not exist \(ENOENT\)/);
+  });
+
+  it('a backup that cannot be kept: the save fails, the old file stays, no temporary file is left', () => {
+    const dir = freshDir();
+    const p = join(dir, 'plan.json');
+    atomicWriteFile(p, 'old contents');
+    mkdirSync(`${p}.bak`);
+    writeFileSync(join(`${p}.bak`, 'blocker'), 'x'); // a non-empty folder cannot be renamed over
+    expect(() => atomicWriteFile(p, 'new contents')).toThrow(/cannot keep the previous version as .*plan\.json\.bak: .*plan\.json is unchanged/);
+    expect(readFileSync(p, 'utf8')).toBe('old contents');
+    expect(tmpFiles(dir)).toEqual([]);
+  });
+
+  it.skipIf(process.getuid?.() === 0)('a folder that is not writable: the save fails, says why, and the old file stays', () => {
+    const dir = freshDir();
+    const p = join(dir, 'plan.json');
+    atomicWriteFile(p, 'old contents');
+    chmodSync(dir, 0o555);
+    try {
+      expect(() => atomicWriteFile(p, 'new')).toThrow(/cannot create a temporary file: permission denied/);
+      expect(readFileSync(p, 'utf8')).toBe('old contents');
+    } finally {
+      chmodSync(dir, 0o755);
+    }
+  });
+
+  it('a process killed in the middle of writing leaves the old file intact', async () => {
+    const dir = freshDir();
+    const p = join(dir, 'plan.json');
+    const old = serializePlanFile(samplePlan(), ref(dir));
+    atomicWriteFile(p, old);
+    const bytes = 8 << 20;
+    await runAndKill(['mid-write', p, String(bytes)], 'half');
+    expect(readFileSync(p, 'utf8')).toBe(old);
+    expect(parsePlanFile(readFileSync(p, 'utf8')).plan).toEqual(samplePlan());
+    // The save really was cut short: a partial temporary file is left beside the target.
+    const tmps = tmpFiles(dir);
+    expect(tmps.length).toBe(1);
+    const size = statSync(join(dir, tmps[0])).size;
+    expect(size).toBeGreaterThan(0);
+    expect(size).toBeLessThan(bytes);
+    // The next save is not disturbed by the stray file.
+    atomicWriteFile(p, old.replace('Sample run', 'Sample run 2'));
+    expect(parsePlanFile(readFileSync(p, 'utf8')).plan.name).toBe('Sample run 2');
+  });
+
+  it('a process killed at a random moment of a run of saves leaves one of the two valid versions', async () => {
+    const dir = freshDir();
+    const p = join(dir, 'plan.json');
+    // Two versions with long descriptions, so that a save takes many write calls.
+    const a = samplePlan();
+    a.description = 'A'.repeat(3 << 20);
+    const b = stateStartPlan();
+    b.description = 'B'.repeat(3 << 20);
+    const fa = join(dir, 'a.src');
+    const fb = join(dir, 'b.src');
+    writeFileSync(fa, serializePlanFile(a, ref(dir)));
+    writeFileSync(fb, serializePlanFile(b, ref(dir)));
+    for (const delay of [0, 7, 23]) {
+      await runAndKill(['loop', p, fa, fb], 'started', delay);
+      const got = parsePlanFile(readFileSync(p, 'utf8')).plan;
+      expect([a.name, b.name]).toContain(got.name);
+      expect(got).toEqual(got.name === a.name ? a : b);
+      if (existsSync(`${p}.bak`)) expect(() => parsePlanFile(readFileSync(`${p}.bak`, 'utf8'))).not.toThrow();
+    }
+  });
+});
+
+describe('loadPlanFile and savePlanFile', () => {
+  it('resolves the system path relative to the plan file', () => {
+    expect(resolveSystemPath('/x/plans/a.plan.json', '../systems/s.json')).toBe('/x/systems/s.json');
+    expect(resolveSystemPath('/x/plans/a.plan.json', '/abs/s.json')).toBe('/abs/s.json');
+  });
+
+  it('saves and loads a plan with its system; a second save keeps the backup', () => {
+    const dir = freshDir();
+    const p = join(dir, 'trip.plan.json');
+    savePlanFile(p, samplePlan(), ref(dir));
+    const loaded = loadPlanFile(p);
+    expect(loaded.plan).toEqual(samplePlan());
+    expect(loaded.system.name).toBe('Ilmar');
+    expect(loaded.systemPath).toBe(SYSTEM);
+    const changed = { ...loaded.plan, name: 'Changed' };
+    savePlanFile(p, changed, loaded.systemRef);
+    expect(loadPlanFile(p).plan.name).toBe('Changed');
+    expect(parsePlanFile(readFileSync(`${p}.bak`, 'utf8')).plan.name).toBe('Sample run');
+  });
+
+  it('loads an embedded system without reading another file', () => {
+    const dir = freshDir();
+    const p = join(dir, 'e.plan.json');
+    const sys = loadPlanFile((() => {
+      const q = join(dir, 'with-path.plan.json');
+      savePlanFile(q, samplePlan(), ref(dir));
+      return q;
+    })()).system;
+    savePlanFile(p, samplePlan(), { kind: 'embedded', system: sys });
+    const loaded = loadPlanFile(p);
+    expect(loaded.systemPath).toBeNull();
+    expect(loaded.system.bodies.length).toBe(sys.bodies.length);
+  });
+
+  it('a missing system file is reported against system.path', () => {
+    const dir = freshDir();
+    const p = join(dir, 'lost.plan.json');
+    savePlanFile(p, samplePlan(), { kind: 'path', path: 'nowhere/none.system.json' });
+    try {
+      loadPlanFile(p);
+      expect.unreachable();
+    } catch (e) {
+      expect(e).toBeInstanceOf(ValidationError);
+      expect((e as ValidationError).issues[0].path).toBe('system.path');
+      expect((e as ValidationError).issues[0].rule).toMatch(/^names "nowhere\/none\.system\.json", which does not exist \(looked for .*nowhere\/none\.system\.json\)$/);
+    }
+  });
+
+  it('a plan naming a body the system lacks is refused after the system is read', () => {
+    const dir = freshDir();
+    const p = join(dir, 'bad.plan.json');
+    const plan = samplePlan();
+    plan.target = { ...plan.target!, body: 'atlantis' };
+    savePlanFile(p, plan, ref(dir));
+    expect(() => loadPlanFile(p)).toThrow(/target\.body names no body of system "Ilmar" \(got "atlantis"/);
+  });
+
+  it('a missing plan file is a FileError saying so', () => {
+    expect(() => loadPlanFile(join(work, 'nope.plan.json'))).toThrow(/cannot read .*nope\.plan\.json: .*does not exist \(ENOENT\)/);
+  });
+});
