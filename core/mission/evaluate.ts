@@ -423,6 +423,8 @@ class Flight {
       } else if (kind === 'node') {
         const asc = this.st[5] > 0;
         this.event('node', this.t, -1, this.radius(), planEventId, `${asc ? 'ascending' : 'descending'} node at ${body.name}`);
+      } else if (kind === 'altitude') {
+        this.event('altitude', this.t, -1, this.radius(), planEventId, `${km(this.radius() - body.radius)} above ${body.name}`);
       }
       return 'condition';
     }
@@ -536,7 +538,8 @@ class Flight {
     // correction / fixed components in the burn frame
     let frameOk = true;
     try {
-      burnToInertial(ev.frame, rScratch, vScratch, ev.dv, dvCorr);
+      if (ev.dv[0] === 0 && ev.dv[1] === 0 && ev.dv[2] === 0) dvCorr[0] = dvCorr[1] = dvCorr[2] = 0;
+      else burnToInertial(ev.frame, rScratch, vScratch, ev.dv, dvCorr);
     } catch (e) {
       if (!(e instanceof WaymarkError)) throw e;
       frameOk = false;
@@ -549,8 +552,12 @@ class Flight {
     const dv = Math.hypot(dvTot[0], dvTot[1], dvTot[2]);
     let dvFrame: [number, number, number] = [dvTot[0], dvTot[1], dvTot[2]];
     if (frameOk && ev.frame !== 'inertial') {
-      inertialToBurn(ev.frame, rScratch, vScratch, dvTot, dvLocal);
-      dvFrame = [dvLocal[0], dvLocal[1], dvLocal[2]];
+      try {
+        inertialToBurn(ev.frame, rScratch, vScratch, dvTot, dvLocal);
+        dvFrame = [dvLocal[0], dvLocal[1], dvLocal[2]];
+      } catch (e) {
+        if (!(e instanceof WaymarkError)) throw e; // frame undefined (r ∥ v): components left inertial
+      }
     }
     const info = conicInfo(this.mu, st, legInfo);
     const period = info.period;

@@ -19,8 +19,16 @@
  * as thrust → ∞ (burn time → 0). When ε_f cannot be reached along û (discriminant < 0) k is the
  * closest value, −v_c·û.
  *
+ * The loss can come out slightly negative when the steering departs from û (velocity pointing
+ * of a burn with a large normal or binormal part: the frame turns with the velocity the burn
+ * itself rotates, so the thrust does not stay along û) — the figure then says "the finite burn
+ * put more energy in than the impulsive one", not "no loss".
+ *
  * Limits: only the central body's gravity acts (patched conic); an SOI crossing during the burn
- * is not looked for — the next coast starts from the burn's end state in the same SOI.
+ * is not looked for — the next coast starts from the burn's end state (the evaluation then
+ * moves the ship to the SOI it is in). The burn is centred in time on the planned instant
+ * (common practice); with the mass falling, the impulse is not centred exactly, which shifts
+ * the end state by an amount of first order in the burn time.
  */
 import { rk45 } from '../integrate/rk45.ts';
 import type { DenseOutput } from '../integrate/dense.ts';

@@ -39,6 +39,8 @@ export type TrajectoryEventKind =
   | 'periapsis'
   | 'apoapsis'
   | 'node'
+  /** The altitude a coast waited for ('altitude' coast condition). */
+  | 'altitude'
   | 'closest-approach'
   | 'atmosphere-entry'
   | 'impact'

@@ -18,7 +18,9 @@
  * central body), the distance cannot shrink by more than v0·h + A·h²/2 in a time h. The step
  * h = 2g / (v0 + √(v0² + 2·A·g)) solves v0·h + A·h²/2 = g, so no crossing can happen before it.
  * Steps have a floor of ENTRY_MIN_STEP (a grazing crossing shallower than ~v·ENTRY_MIN_STEP can
- * be missed). Each child keeps its own schedule, so far-away bodies are rarely evaluated.
+ * be missed). Each child keeps its own schedule, so far-away bodies are rarely evaluated, and a
+ * child whose distance range from the central body [q − R_soi, Q + R_soi] does not overlap the
+ * ship's [r_p, r_a] is not evaluated at all.
  *
  * Conventions: a (near-)circular orbit (e < CIRCULAR_E) has no periapsis of its own: its
  * "periapsis" is taken at the current point (a coast until periapsis on it ends at once). Times
@@ -355,7 +357,10 @@ export function findSoiEntry(q: EntrySearch, out?: EntryResult): EntryResult {
   const c = conicInfo(q.mu, q.state0, infoScratch);
   const open = !(c.e < 1);
   for (let j = 0; j < nk; j++) {
-    nextT[j] = q.t0;
+    const bd = bodies[kids[j]].derived;
+    // radius ranges that cannot meet: [rp, ra] of the ship vs the child's [q − R, Q + R]
+    const never = c.ra < bd.periapsis - bd.soiRadius || c.rp > bd.apoapsis + bd.soiRadius;
+    nextT[j] = never && kids[j] !== q.track ? Infinity : q.t0;
     prevT[j] = q.t0;
     prevS[j] = NaN;
     armed[j] = 0;
