@@ -5,6 +5,8 @@
 import { Command } from 'commander';
 import { addCalcCommands } from './commands/calc.ts';
 import { addPlanCommands } from './commands/check.ts';
+import { addCorrectCommand } from './commands/correct.ts';
+import { addDisperseCommand } from './commands/disperse.ts';
 import { addWindowsCommand } from './commands/windows.ts';
 
 export function buildProgram(): Command {
@@ -18,6 +20,8 @@ export function buildProgram(): Command {
   addCalcCommands(program);
   addPlanCommands(program);
   addWindowsCommand(program);
+  addCorrectCommand(program);
+  addDisperseCommand(program);
   return program;
 }
 

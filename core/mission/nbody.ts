@@ -49,7 +49,8 @@
  *
  * Drawing samples: taken from the dense output of every integration piece, about one every
  * SAMPLE_ANGLE radians of arc about the origin body (so low orbits are drawn as finely as the
- * cruise), as positions relative to the star and to the target.
+ * cruise), as positions relative to the star and to the target. For ephemeris exports, `step`
+ * adds full states on a fixed time grid (relative to the origin body of each state).
  *
  * Limits: no oblateness, drag or radiation pressure; bodies do not feel each other beyond their
  * conics; the ship's mass only matters for finite burns.
@@ -308,6 +309,19 @@ export interface FlyOptions {
   /** Called after every integration piece with (flight seconds done, flight seconds in all). */
   onProgress?: (done: number, total: number) => void;
   signal?: { aborted: boolean };
+  /** Record the first periapsis passage (x·v = 0, rising) about this body while it is the origin. */
+  periapsisOf?: number;
+  /** Also keep full states on a fixed time grid start.t + k·step (for ephemeris exports), s. */
+  step?: number;
+}
+
+/** Ship states on a fixed time grid (a grid time at a burn instant gets the state after the burn). */
+export interface NBodyStates {
+  t: Float64Array;
+  /** Origin body of each state. */
+  origin: Int32Array;
+  /** [x, v] relative to the origin body, 6 per state, m and m/s. */
+  state: Float64Array;
 }
 
 export interface NBodySamples {
@@ -334,6 +348,12 @@ export interface FlyResult {
   /** SOI changes of the n-body flight: time, body left/entered. */
   soiChanges: { t: number; kind: 'exit' | 'entry'; body: number }[];
   samples: NBodySamples | null;
+  /** First periapsis passage about `periapsisOf` (burns included), or null. */
+  periapsis: NBodyState | null;
+  /** States on the `step` grid, or null without `step`. */
+  states: NBodyStates | null;
+  /** State just before the first burn flown while `periapsisOf` is the origin, or null. */
+  preBurn: NBodyState | null;
   notes: string[];
 }
 
@@ -406,7 +426,6 @@ class Sampler {
   }
 }
 
-const flyPos = new Float64Array(3);
 const fly6 = new Float64Array(6);
 
 /**
@@ -427,9 +446,21 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
   const soiChanges: FlyResult['soiChanges'] = [];
   const notes: string[] = [];
   const sampler = options.samples ? new Sampler(model, options.sampleTarget ?? -1) : null;
+  let step = 0;
+  if (options.step !== undefined) {
+    requireFinite('options.step', options.step);
+    if (!(options.step > 0)) throw new InputError('options.step', 'must be > 0', options.step);
+    step = options.step;
+    if ((tEnd - start.t) / step > MAX_SAMPLES * 25) throw new InputError('options.step', `would give more than ${MAX_SAMPLES * 25} states`, step);
+  }
+  const grid = step > 0 ? { t: [] as number[], origin: [] as number[], state: [] as number[], next: 0 } : null;
+  const gy = new Float64Array(6);
   const total = tEnd - start.t;
   const signal = options.signal;
   let impact: FlyResult['impact'] = null;
+  let periapsis: NBodyState | null = null;
+  let preBurn: NBodyState | null = null;
+  const periOf = options.periapsisOf ?? -1;
 
   const cancelled = (): never => {
     throw new SolverError('nbody', 'cancelled', `n-body flight cancelled at t = ${cur.t} s`, { t: cur.t });
@@ -443,7 +474,7 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
       const o = cur.origin;
       model.origin = o;
       const events: EventSpec[] = [];
-      const kinds: { kind: 'exit' | 'entry' | 'impact'; body: number }[] = [];
+      const kinds: { kind: 'exit' | 'entry' | 'impact' | 'periapsis'; body: number }[] = [];
       const b = bodies[o];
       if (o !== 0 && Number.isFinite(b.derived.soiRadius)) {
         const R2 = b.derived.soiRadius * b.derived.soiRadius;
@@ -472,6 +503,10 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
         events.push({ g: (_t, y) => y[0] * y[0] + y[1] * y[1] + y[2] * y[2] - Rb2, direction: -1, terminal: true, name: `impact ${b.id}` });
         kinds.push({ kind: 'impact', body: o });
       }
+      if (o === periOf && periapsis === null) {
+        events.push({ g: (_t, y) => y[0] * y[3] + y[1] * y[4] + y[2] * y[5], direction: 1, terminal: false, name: `periapsis ${b.id}` });
+        kinds.push({ kind: 'periapsis', body: o });
+      }
       // osculating period about o, for the front door's long-coast policy
       let period: number | undefined;
       if (bodies[o].mu > 0) {
@@ -491,7 +526,7 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
         atol: model.atol,
         maxSteps: model.maxSteps,
         events,
-        dense: sampler !== null,
+        dense: sampler !== null || grid !== null,
         period,
         signal,
       });
@@ -513,12 +548,31 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
         }
       }
       if (sampler && res.dense && res.t > cur.t) sampler.piece(res.dense, cur.t, res.t, o);
+      if (grid && res.dense && res.t > cur.t) {
+        for (;;) {
+          const tg = start.t + grid.next * step;
+          if (!(tg < res.t)) break;
+          if (tg >= cur.t) {
+            res.dense.at(tg, gy);
+            grid.t.push(tg);
+            grid.origin.push(o);
+            for (let i = 0; i < 6; i++) grid.state.push(gy[i]);
+          }
+          grid.next++;
+        }
+      }
       cur.t = res.t;
       cur.x.set(res.x);
       cur.v.set(res.v);
       options.onProgress?.(cur.t - start.t, total);
+      for (const h of res.events) {
+        if (periapsis === null && kinds[h.index].kind === 'periapsis') {
+          periapsis = { t: h.t, origin: o, x: Float64Array.from(h.y.subarray(0, 3)), v: Float64Array.from(h.y.subarray(3, 6)) };
+        }
+      }
       if (res.status === 'event') {
-        const hit = res.events[res.events.length - 1];
+        let hit = res.events[res.events.length - 1];
+        for (const h of res.events) if (kinds[h.index].kind !== 'periapsis') hit = h;
         const what = kinds[hit.index];
         if (what.kind === 'impact') {
           impact = { t: cur.t, body: o };
@@ -540,7 +594,7 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
           }
           cur.origin = what.body;
         }
-        soiChanges.push({ t: cur.t, kind: what.kind, body: what.body });
+        soiChanges.push({ t: cur.t, kind: what.kind === 'exit' ? 'exit' : 'entry', body: what.body });
       }
     }
     return true;
@@ -551,6 +605,7 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
     if (!alive) break;
     alive = coastTo(a.t);
     if (!alive) break;
+    if (a.kind !== 'checkpoint' && preBurn === null && cur.origin === periOf) preBurn = cloneState(cur);
     if (a.kind === 'checkpoint') {
       checkpoints.set(a.id, cloneState(cur));
     } else if (a.kind === 'impulse') {
@@ -571,8 +626,14 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
     }
   }
   if (alive) coastTo(tEnd);
+  if (grid) {
+    // the end of the flight closes the grid
+    grid.t.push(cur.t);
+    grid.origin.push(cur.origin);
+    for (let i = 0; i < 3; i++) grid.state.push(cur.x[i]);
+    for (let i = 0; i < 3; i++) grid.state.push(cur.v[i]);
+  }
   if (sampler?.full) notes.push(`drawing samples stop after ${MAX_SAMPLES} points`);
-  void flyPos;
   return {
     state: cur,
     status: impact ? 'impact' : 'done',
@@ -582,6 +643,9 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
     stats,
     soiChanges,
     samples: sampler ? sampler.result() : null,
+    periapsis,
+    preBurn,
+    states: grid ? { t: Float64Array.from(grid.t), origin: Int32Array.from(grid.origin), state: Float64Array.from(grid.state) } : null,
     notes,
   };
 }
@@ -752,54 +816,60 @@ const arr6 = new Float64Array(6);
 const infoN = createConicInfo();
 const infoC = createConicInfo();
 
-/**
- * The n-body arrival from the n-body state at the conic periapsis time (before any burn), and
- * its comparison with the conic arrival. The probe flies without burns, relative to the target.
- */
-export function compareArrival(model: NBodyModel, at: NBodyState, conic: ConicArrival, signal?: { aborted: boolean }): { comparison: ArrivalComparison; spans: FlownSpan[]; stats: NBodyStats } {
-  const system = model.system;
-  const k = conic.target;
-  const body = system.bodies[k];
-  const mu = body.mu;
-  // state relative to the target
-  bodyState(system, at.origin, at.t, arr6, k);
-  const xT = new Float64Array(6);
+/** State of the ship relative to body k (position and velocity), from an n-body state. */
+export function stateRelativeTo(model: NBodyModel, at: NBodyState, k: number, out: Float64Array = new Float64Array(6)): Float64Array {
+  bodyState(model.system, at.origin, at.t, arr6, k);
   for (let i = 0; i < 3; i++) {
-    xT[i] = at.x[i] + arr6[i];
-    xT[i + 3] = at.v[i] + arr6[i + 3];
+    out[i] = at.x[i] + arr6[i];
+    out[i + 3] = at.v[i] + arr6[i + 3];
   }
-  const oscN = conicInfo(mu, xT, infoN);
-  const oscC = conicInfo(mu, conic.state, infoC);
-  const axes = bPlaneAxes(oscC);
-  const bc = axes ? bPlane(oscC, axes) : null;
-  const bn = axes ? bPlane(oscN, axes) : null;
-  const missDistance = Math.hypot(xT[0] - conic.state[0], xT[1] - conic.state[1], xT[2] - conic.state[2]);
-  // nearest periapsis of the osculating conic
-  const dtp = oscN.n > 0 ? -oscN.M / oscN.n : 0;
-  let method: ArrivalComparison['method'] = 'osculating';
-  let tp = at.t + dtp;
+  return out;
+}
+
+/**
+ * The n-body periapsis about body k nearest to time t, from the state xT relative to k: the
+ * osculating conic's nearest periapsis, then a probe flight (no burns, relative to k) to
+ * x·v = 0 when it is more than a millisecond away and within PROBE_MAX; 'osculating' when the
+ * probe is not flown or finds no crossing.
+ */
+export function probePeriapsis(
+  model: NBodyModel,
+  t: number,
+  xT: Float64Array,
+  k: number,
+  signal?: { aborted: boolean },
+): { report: PeriapsisReport; method: 'probe' | 'osculating'; spans: FlownSpan[]; stats: NBodyStats } {
+  const body = model.system.bodies[k];
+  const mu = body.mu;
+  const osc = conicInfo(mu, xT, infoN);
+  const dtp = osc.n > 0 ? -osc.M / osc.n : 0;
+  let method: 'probe' | 'osculating' = 'osculating';
+  let tp = t + dtp;
   let peri = xT;
   const spans: FlownSpan[] = [];
   const stats: NBodyStats = { steps: 0, rejected: 0, fevals: 0, pieces: 0 };
   if (Number.isFinite(dtp) && Math.abs(dtp) > 1e-3 && Math.abs(dtp) <= PROBE_MAX) {
     const sign = dtp > 0 ? 1 : -1;
-    const tEnd = at.t + dtp * 1.5 + sign * 600;
     const savedOrigin = model.origin;
     model.origin = k;
-    const res = propagate({
-      accel: model.accel,
-      t0: at.t,
-      x0: xT.subarray(0, 3),
-      v0: xT.subarray(3, 6),
-      tEnd,
-      method: model.method,
-      rtol: model.rtol,
-      atol: model.atol,
-      maxSteps: model.maxSteps,
-      events: [{ g: (_t, y) => y[0] * y[3] + y[1] * y[4] + y[2] * y[5], terminal: true, name: 'periapsis' }],
-      signal,
-    });
-    model.origin = savedOrigin;
+    let res;
+    try {
+      res = propagate({
+        accel: model.accel,
+        t0: t,
+        x0: xT.subarray(0, 3),
+        v0: xT.subarray(3, 6),
+        tEnd: t + dtp * 1.5 + sign * 600,
+        method: model.method,
+        rtol: model.rtol,
+        atol: model.atol,
+        maxSteps: model.maxSteps,
+        events: [{ g: (_t, y) => y[0] * y[3] + y[1] * y[4] + y[2] * y[5], terminal: true, name: 'periapsis' }],
+        signal,
+      });
+    } finally {
+      model.origin = savedOrigin;
+    }
     stats.pieces++;
     for (const s of res.spans) {
       spans.push(s);
@@ -819,8 +889,26 @@ export function compareArrival(model: NBodyModel, at: NBodyState, conic: ConicAr
     method = 'probe';
   }
   const pn = conicInfo(mu, peri, infoN);
-  const rpN = method === 'probe' ? Math.hypot(peri[0], peri[1], peri[2]) : pn.rp;
-  const nbody: PeriapsisReport = { t: tp, altitude: rpN - body.radius, e: pn.e, i: pn.i };
+  const rp = method === 'probe' ? Math.hypot(peri[0], peri[1], peri[2]) : pn.rp;
+  return { report: { t: tp, altitude: rp - body.radius, e: pn.e, i: pn.i }, method, spans, stats };
+}
+
+/**
+ * The n-body arrival from the n-body state at the conic periapsis time (before any burn), and
+ * its comparison with the conic arrival. The probe flies without burns, relative to the target.
+ */
+export function compareArrival(model: NBodyModel, at: NBodyState, conic: ConicArrival, signal?: { aborted: boolean }): { comparison: ArrivalComparison; spans: FlownSpan[]; stats: NBodyStats } {
+  const k = conic.target;
+  const mu = model.system.bodies[k].mu;
+  const xT = stateRelativeTo(model, at, k);
+  const oscN = conicInfo(mu, xT, infoN);
+  const oscC = conicInfo(mu, conic.state, infoC);
+  const axes = bPlaneAxes(oscC);
+  const bc = axes ? bPlane(oscC, axes) : null;
+  const bn = axes ? bPlane(oscN, axes) : null;
+  const missDistance = Math.hypot(xT[0] - conic.state[0], xT[1] - conic.state[1], xT[2] - conic.state[2]);
+  const probe = probePeriapsis(model, at.t, xT, k, signal);
+  const nbody = probe.report;
   const conicR: PeriapsisReport = { t: conic.t, altitude: conic.periapsisAltitude, e: conic.e, i: conic.i };
   const comparison: ArrivalComparison = {
     target: k,
@@ -829,9 +917,9 @@ export function compareArrival(model: NBodyModel, at: NBodyState, conic: ConicAr
     difference: { t: nbody.t - conicR.t, altitude: nbody.altitude - conicR.altitude, e: nbody.e - conicR.e, i: nbody.i - conicR.i },
     missDistance,
     bPlane: bc && bn ? { conic: bc, nbody: bn, dbt: bn.bt - bc.bt, dbr: bn.br - bc.br, offset: Math.hypot(bn.bt - bc.bt, bn.br - bc.br) } : null,
-    method,
+    method: probe.method,
   };
-  return { comparison, spans, stats };
+  return { comparison, spans: probe.spans, stats: probe.stats };
 }
 
 // --- verification ---------------------------------------------------------------------------------
@@ -841,6 +929,8 @@ export interface VerifyOptions extends NBodyModelOptions {
   samples?: boolean;
   /** Stop the flight here instead of at the conic result's end, s. */
   until?: number;
+  /** Also return states on a fixed grid of this step from the start (ephemeris exports), s. */
+  step?: number;
   onProgress?: (done: number, total: number) => void;
   signal?: { aborted: boolean };
 }
@@ -866,11 +956,15 @@ export interface NBodyResult {
   soiChanges: { t: number; kind: 'exit' | 'entry'; body: number }[];
   /** Arrival at the target in both models (null without a target or a conic arrival). */
   arrival: ArrivalComparison | null;
+  /** The n-body flight's own first periapsis about the target (burns included), or null. */
+  nbodyArrival: PeriapsisReport | null;
   /** Final orbit about the target (null without a target, or when the flight ends in an impact). */
   final: FinalComparison | null;
   /** End state of the flight (relative to `end.origin`). */
   end: NBodyState;
   samples: NBodySamples | null;
+  /** States on the `step` grid (null without `step`); the last one is the end of the flight. */
+  states: NBodyStates | null;
   notes: string[];
 }
 
@@ -897,6 +991,8 @@ export function verifyNBody(system: StarSystem, plan: Plan, conicResult: PlanRes
     sampleTarget: targetIndex,
     onProgress: options.onProgress,
     signal: options.signal,
+    periapsisOf: targetIndex,
+    step: options.step,
   });
   const spans = [...fly.spans];
   const stats = { ...fly.stats };
@@ -912,6 +1008,25 @@ export function verifyNBody(system: StarSystem, plan: Plan, conicResult: PlanRes
     stats.pieces += c.stats.pieces;
   } else if (arrival && fly.status === 'impact') {
     notes.push('the n-body flight ends before the conic arrival time: no arrival comparison');
+  }
+  // the n-body flight's own arrival: its first periapsis about the target, unless a burn there
+  // comes first — then the periapsis of the approach, probed from the state before that burn
+  let nbodyArrival: PeriapsisReport | null = null;
+  if (targetIndex >= 0) {
+    const tb = system.bodies[targetIndex];
+    const p = fly.periapsis;
+    if (p && (!fly.preBurn || p.t <= fly.preBurn.t)) {
+      const pi = conicInfo(tb.mu, [p.x[0], p.x[1], p.x[2], p.v[0], p.v[1], p.v[2]]);
+      nbodyArrival = { t: p.t, altitude: Math.hypot(p.x[0], p.x[1], p.x[2]) - tb.radius, e: pi.e, i: pi.i };
+    } else if (fly.preBurn) {
+      const pr = probePeriapsis(model, fly.preBurn.t, stateRelativeTo(model, fly.preBurn, targetIndex), targetIndex, options.signal);
+      nbodyArrival = pr.report;
+      spans.push(...pr.spans);
+      stats.steps += pr.stats.steps;
+      stats.rejected += pr.stats.rejected;
+      stats.fevals += pr.stats.fevals;
+      stats.pieces += pr.stats.pieces;
+    }
   }
   let final: FinalComparison | null = null;
   if (targetIndex >= 0 && fly.status === 'done') {
@@ -953,9 +1068,11 @@ export function verifyNBody(system: StarSystem, plan: Plan, conicResult: PlanRes
       }),
     soiChanges: fly.soiChanges,
     arrival: comparison,
+    nbodyArrival,
     final,
     end: fly.state,
     samples: fly.samples,
+    states: fly.states,
     notes: [...notes, ...fly.notes],
   };
 }
