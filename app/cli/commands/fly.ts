@@ -2,9 +2,10 @@
  * `waymark fly PLAN [--model conic|nbody] [--oem FILE] [--csv FILE] [--burns FILE]
  *  [--report FILE] [--step T] [--json]` — flies a plan file and exports what it flew.
  *
- * - `--model conic` (default): patched conics (core/mission/evaluate.ts). `--model nbody` is
- *   refused with exit code 2 ("the n-body model is not available yet") until the n-body
- *   verification is wired in; nothing is flown or written then.
+ * - `--model conic` (default): patched conics (core/mission/evaluate.ts). `--model nbody`: the
+ *   same burns flown through the restricted n-body model (core/mission/nbody.ts, RK45 through
+ *   the propagation front door); prints the arrival difference from the patched-conic plan and
+ *   which method flew each span, and exports the n-body states.
  * - `--step T` (default 1 h): the fixed step of the exported ephemeris (a duration with a unit,
  *   e.g. 600, 10min, 1h); samples come from each segment's exact conic
  *   (core/mission/ephemerisSampler.ts).
@@ -23,6 +24,8 @@ import { parseQuantity } from '../../../core/io/units.ts';
 import { InputError } from '../../../core/math/errors.ts';
 import { sampleEphemeris } from '../../../core/mission/ephemerisSampler.ts';
 import { evaluate } from '../../../core/mission/evaluate.ts';
+import { verifyNBody, type NBodyResult } from '../../../core/mission/nbody.ts';
+import { nbodyStatesToEphemeris } from '../../../core/mission/nbodyStates.ts';
 import type { PlanResult } from '../../../core/mission/result.ts';
 import { formatCompactDate } from '../../../core/system/calendar.ts';
 import { atomicWriteFile, loadPlanFile } from '../../node/files.ts';
@@ -58,23 +61,21 @@ export function addFlyCommand(program: Command): void {
     .action((planPath: string, o: { model: string; oem?: string; csv?: string; burns?: string; report?: string; step: string; json?: boolean }) =>
       guard(!!o.json, () => {
         if (!(MODELS as readonly string[]).includes(o.model)) throw new InputError('--model', `must be one of: ${MODELS.join(', ')}`, o.model);
-        if (o.model === 'nbody') {
-          throw new InputError('--model', 'nbody: the n-body model is not available yet; use --model conic');
-        }
         const step = parseQuantity('--step', o.step, 'time');
         if (!(step > 0)) throw new InputError('--step', 'must be > 0', o.step);
         const loaded = loadPlanFile(planPath);
         const { system, plan } = loaded;
         const result = evaluate(system, plan);
+        const nbody: NBodyResult | null = o.model === 'nbody' ? verifyNBody(system, plan, result, { samples: false, step }) : null;
 
         const files: Record<string, string> = {};
         if (o.oem || o.csv) {
-          const eph = sampleEphemeris(system, result, { step });
+          const eph = nbody?.states ? nbodyStatesToEphemeris(nbody.states, result, step) : sampleEphemeris(system, result, { step });
           if (o.oem) {
             const text = writeOem(system, eph, {
               objectName: plan.vehicle.name,
               creationDate: new Date().toISOString().slice(0, 19),
-              comments: [`Plan: ${plan.name}; patched-conic model; step ${step} s.`],
+              comments: [`Plan: ${plan.name}; ${nbody ? 'restricted n-body model (RK45)' : 'patched-conic model'}; step ${step} s.`],
               spanComments: burnComments(result, eph.spans),
             });
             atomicWriteFile(o.oem, text);
@@ -96,7 +97,10 @@ export function addFlyCommand(program: Command): void {
 
         if (o.json) {
           printJson({
-            model: result.model,
+            model: nbody ? 'nbody' : result.model,
+            nbody: nbody
+              ? { status: nbody.status, impact: nbody.impact, spans: nbody.spans, stats: nbody.stats, arrival: nbody.arrival, final: nbody.final, notes: nbody.notes }
+              : undefined,
             t0: result.t0,
             t1: result.t1,
             events: result.events,
@@ -112,9 +116,25 @@ export function addFlyCommand(program: Command): void {
           console.log(`flew ${plan.name} (patched conics) from ${formatCompactDate(cal, result.t0)} to ${formatCompactDate(cal, result.t1)}`);
           for (const e of result.events) console.log(`  ${formatCompactDate(cal, e.t, { seconds: true })}  ${e.label}`);
           console.log(`margin ${num(result.budget.margin, 1)} m/s`);
+          if (nbody) printNBody(system.bodies.map((b) => b.name), nbody);
           for (const [kind, path] of Object.entries(files)) console.log(`wrote ${kind}: ${path}`);
         }
         return EXIT_OK;
       }),
     );
+}
+
+function printNBody(names: string[], nb: NBodyResult): void {
+  console.log(`\nn-body verification: ${nb.status}${nb.impact ? ` (impact on ${names[nb.impact.body]})` : ''}`);
+  for (const s of nb.spans) console.log(`  ${s.method.padEnd(16)} ${num(s.t0, 0)} .. ${num(s.t1, 0)} s  ${s.reason}`);
+  const a = nb.arrival;
+  if (a) {
+    const deg = 180 / Math.PI;
+    console.log(`  arrival at ${names[a.target]}: patched conic vs n-body`);
+    console.log(`    periapsis altitude  ${num(a.conic.altitude / 1e3, 1)} km  vs ${num(a.nbody.altitude / 1e3, 1)} km`);
+    console.log(`    inclination         ${num(a.conic.i * deg, 3)} deg vs ${num(a.nbody.i * deg, 3)} deg`);
+    console.log(`    periapsis time      difference ${num(a.difference.t, 1)} s`);
+    console.log(`    miss distance       ${num(a.missDistance / 1e3, 1)} km`);
+  }
+  for (const n of nb.notes) console.log(`  note: ${n}`);
 }

@@ -66,12 +66,20 @@ describe('waymark fly', () => {
     expect(md).toContain('**The margin holds.**');
   });
 
-  it('--model nbody: exit 2 with a clear message, and nothing is written', async () => {
+  it('--model nbody: flies the same burns through n-body gravity, reports the arrival difference and writes a valid OEM', async () => {
     const file = join(work, 'nbody.oem');
-    const r = await runCli(['fly', DEMO, '--model', 'nbody', '--oem', file]);
-    expect(r.code).toBe(2);
-    expect(r.stderr).toContain('n-body model is not available yet');
-    expect(existsSync(file)).toBe(false);
+    const r = await runCli(['fly', DEMO, '--model', 'nbody', '--oem', file, '--step', '6h', '--json']);
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.model).toBe('nbody');
+    expect(out.nbody.spans.length).toBeGreaterThan(0);
+    for (const s of out.nbody.spans) expect(typeof s.reason).toBe('string');
+    expect(out.nbody.arrival.conic.altitude).toBeGreaterThan(0);
+    expect(Number.isFinite(out.nbody.arrival.missDistance)).toBe(true);
+    const oem = parseOem(readFileSync(file, 'utf8'));
+    expect(oem.segments.length).toBeGreaterThan(1);
+    for (const seg of oem.segments) expect(seg.states.length).toBeGreaterThan(0);
+    expect(oem.comments.join(' ')).toContain('n-body');
   });
 
   it('an unknown model or a bad step: exit 2 naming the option', async () => {
