@@ -17,6 +17,18 @@ export interface WaymarkElectronConfig {
   };
   /** Host and port of browser mode, used where the Electron runtime is not installed. */
   browserMode: { host: string; port: number };
+  /** Build outputs, relative to the repository root (all under the gitignored dist/). */
+  build: { outDir: string; main: string; preload: string; rendererDir: string };
+  /** Files and safety of work. */
+  files: {
+    /** Autosave of unsaved work to the recovery file, every this many ms. */
+    autosaveIntervalMs: number;
+    /** Length of the recent-files list. */
+    recentLimit: number;
+    /** The demo the app opens on first start (relative to the repository root). */
+    demoSystem: string;
+    demoPlan: string;
+  };
 }
 
 const config: WaymarkElectronConfig = {
@@ -37,6 +49,13 @@ const config: WaymarkElectronConfig = {
       "default-src 'self'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; worker-src 'self' blob:; connect-src 'self'; object-src 'none'; base-uri 'none'; frame-ancestors 'none'",
   },
   browserMode: { host: '127.0.0.1', port: 5317 },
+  build: { outDir: 'dist', main: 'dist/main/main.js', preload: 'dist/preload/preload.cjs', rendererDir: 'dist/renderer' },
+  files: {
+    autosaveIntervalMs: 4000,
+    recentLimit: 10,
+    demoSystem: 'assets/systems/ilmar.system.json',
+    demoPlan: 'assets/plans/tessel-to-ochre.plan.json',
+  },
 };
 
 export default config;

@@ -1,0 +1,102 @@
+/**
+ * The narrow API the preload script exposes to the renderer as `window.waymark`, and the IPC
+ * channel names behind it. Types only plus constants: main, preload and renderer all import
+ * this file, and nothing in it touches Electron.
+ */
+
+/** IPC channels (renderer → main are `invoke` handlers; `menu` is main → renderer). */
+export const IPC = {
+  openDialog: 'waymark:file-open-dialog',
+  openRecent: 'waymark:file-open-recent',
+  openSystemDialog: 'waymark:system-open-dialog',
+  readSystemBeside: 'waymark:system-read-beside',
+  save: 'waymark:file-save',
+  saveAs: 'waymark:file-save-as',
+  exportFile: 'waymark:file-export',
+  recentList: 'waymark:recent-list',
+  recoveryRead: 'waymark:recovery-read',
+  recoveryWrite: 'waymark:recovery-write',
+  recoveryClear: 'waymark:recovery-clear',
+  documentState: 'waymark:document-state',
+  closeConfirmed: 'waymark:close-confirmed',
+  menu: 'waymark:menu',
+} as const;
+
+/** Largest text the main process reads or writes through the API (bytes of UTF-16 text). */
+export const MAX_FILE_CHARS = 32 * 1024 * 1024;
+
+/** A file the user opened: its path, display name and text. */
+export interface OpenedFile {
+  path: string;
+  name: string;
+  text: string;
+}
+
+/** Where a save went. */
+export interface SavedFile {
+  path: string;
+  name: string;
+}
+
+export interface RecentEntry {
+  path: string;
+  name: string;
+  /** ms since 1970 of the last open or save. */
+  at: number;
+}
+
+/** The autosaved copy of unsaved work. */
+export interface RecoverySnapshot {
+  /** Display name of the document ("Untitled plan" when never saved). */
+  name: string;
+  /** Path of the file it came from, or null. */
+  path: string | null;
+  text: string;
+  /** ms since 1970. */
+  savedAt: number;
+}
+
+/** oem: CCSDS OEM ephemeris; csv: ephemeris CSV; burns-csv: the burn table as CSV; report: Markdown budget report. */
+export type ExportKind = 'oem' | 'csv' | 'burns-csv' | 'report';
+
+/** What a menu item asks the renderer to do. */
+export type MenuCommand =
+  | { command: 'new' }
+  | { command: 'open' }
+  | { command: 'open-recent'; path: string }
+  | { command: 'save' }
+  | { command: 'save-as' }
+  | { command: 'export'; kind: ExportKind }
+  | { command: 'undo' }
+  | { command: 'redo' }
+  /** The user chose "Save" when closing with unsaved changes: save, then call closeConfirmed. */
+  | { command: 'save-and-close' };
+
+export interface DocumentState {
+  /** Window title, e.g. "demo.plan.json — Waymark". */
+  title: string;
+  /** True when there are unsaved changes (the close asks first). */
+  dirty: boolean;
+}
+
+/** `window.waymark` in Electron. Every call is validated again in main. */
+export interface WaymarkBridge {
+  readonly kind: 'electron';
+  openDialog(): Promise<OpenedFile | null>;
+  openRecent(path: string): Promise<OpenedFile>;
+  /** Open dialog for a system file (a plan names one main could not find). */
+  openSystemDialog(): Promise<OpenedFile | null>;
+  /** Reads the system file a plan opened this session names, relative to the plan's folder. */
+  readSystemBeside(planPath: string, relativePath: string): Promise<OpenedFile>;
+  save(path: string, text: string): Promise<SavedFile>;
+  saveAs(suggestedName: string, text: string): Promise<SavedFile | null>;
+  exportFile(kind: ExportKind, suggestedName: string, text: string): Promise<SavedFile | null>;
+  recentList(): Promise<RecentEntry[]>;
+  recoveryRead(): Promise<RecoverySnapshot | null>;
+  recoveryWrite(snapshot: RecoverySnapshot): Promise<void>;
+  recoveryClear(): Promise<void>;
+  setDocumentState(state: DocumentState): Promise<void>;
+  closeConfirmed(): Promise<void>;
+  /** Subscribes to menu commands; returns the unsubscribe function. */
+  onMenu(listener: (command: MenuCommand) => void): () => void;
+}

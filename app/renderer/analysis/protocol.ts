@@ -1,0 +1,21 @@
+/** Messages between the renderer and the analysis worker (n-body verification, correction, dispersion). */
+import type { CorrectResult } from '../../../core/mission/correct.ts';
+import type { DispersionOptions, DispersionResult } from '../../../core/mission/disperse.ts';
+import type { NBodyResult } from '../../../core/mission/nbody.ts';
+import type { Plan } from '../../../core/mission/plan.ts';
+import type { PlanResult } from '../../../core/mission/result.ts';
+import type { StarSystem } from '../../../core/system/model.ts';
+
+export type AnalysisJob =
+  | { kind: 'verify'; system: StarSystem; plan: Plan; result: PlanResult }
+  | { kind: 'correct'; system: StarSystem; plan: Plan }
+  | { kind: 'disperse'; system: StarSystem; plan: Plan; options: DispersionOptions };
+
+export type AnalysisOutput = { kind: 'verify'; nbody: NBodyResult } | { kind: 'correct'; correction: CorrectResult } | { kind: 'disperse'; dispersion: DispersionResult };
+
+export type ToAnalysisWorker = { type: 'run'; id: number; job: AnalysisJob };
+
+export type FromAnalysisWorker =
+  | { type: 'progress'; id: number; fraction: number; note: string }
+  | { type: 'done'; id: number; output: AnalysisOutput; ms: number }
+  | { type: 'error'; id: number; message: string };

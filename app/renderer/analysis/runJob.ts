@@ -1,0 +1,31 @@
+/**
+ * One analysis job as the worker runs it: n-body verification (core/mission/nbody.ts),
+ * differential correction (core/mission/correct.ts) or a dispersion run (core/mission/disperse.ts),
+ * with progress as a fraction and a note. Plain code, tested without a Worker.
+ */
+import { correctPlan } from '../../../core/mission/correct.ts';
+import { disperse } from '../../../core/mission/disperse.ts';
+import { verifyNBody } from '../../../core/mission/nbody.ts';
+import type { AnalysisJob, AnalysisOutput } from './protocol.ts';
+
+export function runAnalysisJob(job: AnalysisJob, onProgress: (fraction: number, note: string) => void): AnalysisOutput {
+  switch (job.kind) {
+    case 'verify':
+      return {
+        kind: 'verify',
+        nbody: verifyNBody(job.system, job.plan, job.result, { onProgress: (done, total) => onProgress(total > 0 ? done / total : 0, 'flying the plan in n-body gravity') }),
+      };
+    case 'correct':
+      return {
+        kind: 'correct',
+        correction: correctPlan(job.system, job.plan, {
+          onProgress: (it, max, norm) => onProgress(it / max, `iteration ${it}: residual ${norm.toPrecision(3)}`),
+        }),
+      };
+    case 'disperse':
+      return {
+        kind: 'disperse',
+        dispersion: disperse(job.system, job.plan, { ...job.options, onProgress: (done, total) => onProgress(total > 0 ? done / total : 0, `${done} of ${total} samples`) }),
+      };
+  }
+}

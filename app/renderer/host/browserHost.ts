@@ -1,0 +1,224 @@
+/**
+ * The host in a plain browser (browser mode of `npm start`).
+ * - Open: the File System Access API's picker where present (Save then writes back to the same
+ *   file), otherwise an <input type="file"> picker.
+ * - Save: writes through the file handle when there is one; otherwise downloads the file.
+ * - Recent files: names and a copy of the text in localStorage (a browser cannot reopen a file
+ *   by path), newest first, at most RECENT_LIMIT; reopening one gives a copy that saves as a download.
+ * - Recovery copy of unsaved work: localStorage.
+ * - Closing the tab with unsaved changes: the browser's "leave site?" prompt (beforeunload).
+ * Everything that touches the page comes in through `BrowserEnv`, so tests pass fakes.
+ */
+import config from '../../../electron.config.ts';
+import type { ExportKind, RecoverySnapshot } from '../../preload/api.ts';
+import type { FileRef, Host, OpenedFile, RecentFile } from './host.ts';
+
+export const RECENT_LIMIT = config.files.recentLimit;
+export const STORAGE_KEYS = { recent: 'waymark.recent', recentText: 'waymark.recent.', recovery: 'waymark.recovery' } as const;
+
+/** The subset of the File System Access API the host uses. */
+export interface WritableHandle {
+  name: string;
+  getFile(): Promise<{ text(): Promise<string> }>;
+  createWritable(): Promise<{ write(data: string): Promise<void>; close(): Promise<void> }>;
+}
+
+export interface FilePickerType {
+  description: string;
+  accept: Record<string, string[]>;
+}
+
+export interface BrowserEnv {
+  storage: Pick<Storage, 'getItem' | 'setItem' | 'removeItem'>;
+  /** <input type="file"> picker: name and text of the chosen file, or null when cancelled. */
+  pickFile(accept: string): Promise<{ name: string; text: string } | null>;
+  /** Saves text as a download. */
+  download(name: string, text: string, mime: string): void;
+  /** File System Access API pickers, when the browser has them. */
+  fsAccess: {
+    showOpenFilePicker(o: { types: FilePickerType[]; multiple: false }): Promise<WritableHandle[]>;
+    showSaveFilePicker(o: { suggestedName: string; types: FilePickerType[] }): Promise<WritableHandle>;
+  } | null;
+  setTitle(title: string): void;
+  /** Registers the before-unload check: `dirty()` true asks the user before leaving. */
+  onBeforeUnload(dirty: () => boolean): void;
+  now(): number;
+}
+
+const PLAN_TYPES: FilePickerType[] = [{ description: 'Waymark plan', accept: { 'application/json': ['.json'] } }];
+const SYSTEM_TYPES: FilePickerType[] = [{ description: 'Waymark star system', accept: { 'application/json': ['.json'] } }];
+const EXPORT_MIME: Record<ExportKind, string> = { oem: 'text/plain', csv: 'text/csv', 'burns-csv': 'text/csv', report: 'text/markdown' };
+
+function isAbort(err: unknown): boolean {
+  return err instanceof Error && err.name === 'AbortError';
+}
+
+function readJson<T>(storage: BrowserEnv['storage'], key: string, fallback: T): T {
+  try {
+    const s = storage.getItem(key);
+    return s === null ? fallback : (JSON.parse(s) as T);
+  } catch {
+    return fallback;
+  }
+}
+
+export function createBrowserHost(env: BrowserEnv): Host {
+  let dirty = false;
+  env.onBeforeUnload(() => dirty);
+
+  function remember(name: string, text: string): void {
+    const list = readJson<RecentFile[]>(env.storage, STORAGE_KEYS.recent, []).filter((r) => r.name !== name);
+    const key = `${name}`;
+    const next = [{ key, name, at: env.now() }, ...list].slice(0, RECENT_LIMIT);
+    try {
+      env.storage.setItem(STORAGE_KEYS.recentText + key, text);
+      for (const old of list.slice(RECENT_LIMIT - 1)) env.storage.removeItem(STORAGE_KEYS.recentText + old.key);
+      env.storage.setItem(STORAGE_KEYS.recent, JSON.stringify(next));
+    } catch {
+      /* storage full: the recent list is a convenience */
+    }
+  }
+
+  async function open(types: FilePickerType[], record: boolean): Promise<OpenedFile | null> {
+    if (env.fsAccess) {
+      try {
+        const [handle] = await env.fsAccess.showOpenFilePicker({ types, multiple: false });
+        const text = await (await handle.getFile()).text();
+        if (record) remember(handle.name, text);
+        return { ref: { name: handle.name, path: null, handle }, text };
+      } catch (err) {
+        if (isAbort(err)) return null;
+        throw err;
+      }
+    }
+    const f = await env.pickFile('.json,application/json');
+    if (!f) return null;
+    if (record) remember(f.name, f.text);
+    return { ref: { name: f.name, path: null, handle: null }, text: f.text };
+  }
+
+  async function writeHandle(handle: WritableHandle, text: string): Promise<void> {
+    const w = await handle.createWritable();
+    await w.write(text);
+    await w.close();
+  }
+
+  const host: Host = {
+    kind: 'browser',
+    openPlan: () => open(PLAN_TYPES, true),
+    openSystem: () => open(SYSTEM_TYPES, false),
+    readSystemBeside: async () => null,
+    recentFiles: async () => readJson<RecentFile[]>(env.storage, STORAGE_KEYS.recent, []),
+    async openRecent(key) {
+      const text = env.storage.getItem(STORAGE_KEYS.recentText + key);
+      if (text === null) throw new Error(`the copy of ${key} is no longer in this browser's storage`);
+      const entry = readJson<RecentFile[]>(env.storage, STORAGE_KEYS.recent, []).find((r) => r.key === key);
+      remember(entry?.name ?? key, text);
+      return { ref: { name: entry?.name ?? key, path: null, handle: null }, text };
+    },
+    async save(ref, text) {
+      const handle = ref.handle as WritableHandle | null;
+      if (handle && typeof handle.createWritable === 'function') {
+        await writeHandle(handle, text);
+        remember(ref.name, text);
+        return ref;
+      }
+      env.download(ref.name, text, 'application/json');
+      remember(ref.name, text);
+      return { name: ref.name, path: null, handle: null };
+    },
+    async saveAs(suggestedName, text) {
+      if (env.fsAccess) {
+        try {
+          const handle = await env.fsAccess.showSaveFilePicker({ suggestedName, types: PLAN_TYPES });
+          await writeHandle(handle, text);
+          remember(handle.name, text);
+          return { name: handle.name, path: null, handle } satisfies FileRef;
+        } catch (err) {
+          if (isAbort(err)) return null;
+          throw err;
+        }
+      }
+      env.download(suggestedName, text, 'application/json');
+      remember(suggestedName, text);
+      return { name: suggestedName, path: null, handle: null };
+    },
+    async exportFile(kind, suggestedName, text) {
+      env.download(suggestedName, text, EXPORT_MIME[kind]);
+      return true;
+    },
+    readRecovery: async () => readJson<RecoverySnapshot | null>(env.storage, STORAGE_KEYS.recovery, null),
+    async writeRecovery(snapshot) {
+      env.storage.setItem(STORAGE_KEYS.recovery, JSON.stringify(snapshot));
+    },
+    async clearRecovery() {
+      env.storage.removeItem(STORAGE_KEYS.recovery);
+    },
+    setDocumentState(title, d) {
+      dirty = d;
+      env.setTitle(title);
+    },
+    closeConfirmed: async () => undefined,
+    onCommand: () => () => undefined,
+  };
+  return host;
+}
+
+/** The real page's environment. */
+export function pageEnv(win: Window & typeof globalThis): BrowserEnv {
+  const w = win as unknown as {
+    showOpenFilePicker?: NonNullable<BrowserEnv['fsAccess']>['showOpenFilePicker'];
+    showSaveFilePicker?: NonNullable<BrowserEnv['fsAccess']>['showSaveFilePicker'];
+  };
+  return {
+    storage: win.localStorage,
+    pickFile(accept) {
+      return new Promise((resolve, reject) => {
+        const input = win.document.createElement('input');
+        input.type = 'file';
+        input.accept = accept;
+        input.style.display = 'none';
+        input.dataset.role = 'file-picker';
+        input.addEventListener('change', () => {
+          const file = input.files?.[0];
+          input.remove();
+          if (!file) return resolve(null);
+          file.text().then((text) => resolve({ name: file.name, text }), reject);
+        });
+        input.addEventListener('cancel', () => {
+          input.remove();
+          resolve(null);
+        });
+        win.document.body.append(input);
+        input.click();
+      });
+    },
+    download(name, text, mime) {
+      const url = URL.createObjectURL(new Blob([text], { type: mime }));
+      const a = win.document.createElement('a');
+      a.href = url;
+      a.download = name;
+      a.style.display = 'none';
+      win.document.body.append(a);
+      a.click();
+      a.remove();
+      setTimeout(() => URL.revokeObjectURL(url), 10_000);
+    },
+    fsAccess:
+      typeof w.showOpenFilePicker === 'function' && typeof w.showSaveFilePicker === 'function'
+        ? { showOpenFilePicker: w.showOpenFilePicker.bind(win), showSaveFilePicker: w.showSaveFilePicker.bind(win) }
+        : null,
+    setTitle(title) {
+      win.document.title = title;
+    },
+    onBeforeUnload(isDirty) {
+      win.addEventListener('beforeunload', (e) => {
+        if (isDirty()) {
+          e.preventDefault();
+          e.returnValue = '';
+        }
+      });
+    },
+    now: () => Date.now(),
+  };
+}

@@ -1,0 +1,688 @@
+/**
+ * The System view's imperative three.js code (the Svelte component only creates it and passes
+ * data in). Everything that depends on the system or the result is built once per change of
+ * either; moving the time cursor only moves objects and rescales markers, so a scrub frame is
+ * a handful of ephemeris evaluations plus one render.
+ *
+ * Precision: positions are kept in metres in double precision and written to the GPU relative
+ * to a floating origin, the focused object ("render relative to eye", common practice for
+ * planet-scale scenes), so the parking orbit around a planet 10¹¹ m from the star does not
+ * jitter in 32-bit floats. A logarithmic depth buffer covers metres to light-hours.
+ *
+ * Sizes: with "scaled for visibility" on, each body is drawn at least MIN_PIXELS across
+ * (its true radius when that is bigger); the ship, burn markers and Δv arrows keep a constant
+ * size on screen. "True scale" draws bodies at their mean radius.
+ */
+import * as THREE from 'three';
+import { OrbitControls } from 'three/examples/jsm/controls/OrbitControls.js';
+import { CSS2DObject, CSS2DRenderer } from 'three/examples/jsm/renderers/CSS2DRenderer.js';
+import type { BudgetRow, PlanResult } from '../../../core/mission/result.ts';
+import type { StarSystem } from '../../../core/system/model.ts';
+import { bodyPosition, sampleOrbit } from '../../../core/system/ephemeris.ts';
+import { burnToInertial } from '../../../core/mission/burnFrame.ts';
+import { AXIS_HUE, FRAME_AXES, PALETTE, bodyColour } from './palette.ts';
+import { shipStateAt } from './shipState.ts';
+import { isSoftwareRenderer } from './webglInfo.ts';
+
+/** Scene units per metre: one unit is 1 000 km. */
+export const UNITS_PER_METRE = 1e-6;
+const U = UNITS_PER_METRE;
+/** Smallest drawn diameter in pixels, "scaled for visibility": star, planets, moons. */
+export const MIN_PIXELS = { star: 18, planet: 9, moon: 6 } as const;
+/** Screen sizes of the ship diamond, burn markers and Δv arrows, pixels. */
+const SHIP_PX = 7;
+const MARKER_PX = 5;
+const ARROW_PX = 64;
+/** Ring spacing of the reference-plane grid, m (100 Gm). */
+export const GRID_RING = 1e11;
+/** Points per body orbit line. */
+const ORBIT_POINTS = 720;
+
+export type FocusTarget = { kind: 'body'; index: number } | { kind: 'ship' };
+
+export interface SceneOptions {
+  trueScale: boolean;
+  showSoi: boolean;
+  showOrbits: boolean;
+  showLabels: boolean;
+  showArrows: boolean;
+}
+
+export const DEFAULT_OPTIONS: SceneOptions = { trueScale: false, showSoi: true, showOrbits: true, showLabels: true, showArrows: true };
+
+interface BodyView {
+  group: THREE.Group;
+  mesh: THREE.Mesh;
+  /** The SOI shell's outline as seen from the camera (a circle kept facing it), or null. */
+  soi: THREE.LineLoop | null;
+  orbit: THREE.LineLoop | null;
+  label: CSS2DObject;
+  radius: number;
+  soiRadius: number;
+  minPx: number;
+  parent: number;
+  depth: number;
+}
+
+interface BurnMarker {
+  /** Central body whose frame the marker sits in, and its position relative to it (m). */
+  central: number;
+  rel: THREE.Vector3;
+  group: THREE.Group;
+  arrows: THREE.Group;
+  rowId: string;
+}
+
+/** What one frame cost, for the status line and the scrub benchmark. */
+export interface FrameStats {
+  /** JS time of the last frame: scene update plus render calls, ms. */
+  lastMs: number;
+  frames: number;
+}
+
+function makeLabel(text: string, cls: string, onClick?: () => void): CSS2DObject {
+  const el = document.createElement('div');
+  el.className = `scene-label ${cls}`;
+  el.textContent = text;
+  if (onClick) {
+    el.style.pointerEvents = 'auto';
+    el.addEventListener('click', (e) => {
+      e.stopPropagation();
+      onClick();
+    });
+  }
+  const obj = new CSS2DObject(el);
+  obj.center.set(-0.08, 1.1);
+  return obj;
+}
+
+function glowTexture(colour: string): THREE.CanvasTexture {
+  const c = document.createElement('canvas');
+  c.width = c.height = 128;
+  const g = c.getContext('2d')!;
+  const grad = g.createRadialGradient(64, 64, 0, 64, 64, 64);
+  const col = new THREE.Color(colour);
+  const rgb = `${Math.round(col.r * 255)},${Math.round(col.g * 255)},${Math.round(col.b * 255)}`;
+  grad.addColorStop(0, `rgba(${rgb},0.85)`);
+  grad.addColorStop(0.25, `rgba(${rgb},0.35)`);
+  grad.addColorStop(1, `rgba(${rgb},0)`);
+  g.fillStyle = grad;
+  g.fillRect(0, 0, 128, 128);
+  const tex = new THREE.CanvasTexture(c);
+  tex.colorSpace = THREE.SRGBColorSpace;
+  return tex;
+}
+
+/**
+ * Materials and geometries of the plan's drawing, made once per scene and shared by every
+ * rebuild: disposing the last user of a material would free its shader program, and the next
+ * edit would compile it again (tens of ms on a software rasteriser).
+ */
+class SharedDrawing {
+  readonly coast = new THREE.LineBasicMaterial({ color: PALETTE.path, transparent: true, opacity: 0.95 });
+  readonly nbody = new THREE.LineDashedMaterial({ color: PALETTE.nbody, dashSize: 1, gapSize: 0.6 });
+  readonly burnLine = new THREE.LineBasicMaterial({ color: PALETTE.burn });
+  readonly burnDots = new THREE.PointsMaterial({ color: PALETTE.burn, size: 4.5, sizeAttenuation: false });
+  readonly markerDot = new THREE.MeshBasicMaterial({ color: PALETTE.burn });
+  readonly markerRing = new THREE.MeshBasicMaterial({ color: PALETTE.burn, side: THREE.DoubleSide, transparent: true, opacity: 0.7 });
+  readonly dotGeometry = new THREE.SphereGeometry(1, 12, 8);
+  /** Unit circle in the x–y plane (SOI outlines). */
+  readonly circle = new THREE.BufferGeometry().setFromPoints(Array.from({ length: 160 }, (_, k) => new THREE.Vector3(Math.cos((2 * Math.PI * k) / 160), Math.sin((2 * Math.PI * k) / 160), 0)));
+  readonly ringGeometry = new THREE.RingGeometry(1.6, 2.1, 24);
+  /** Arrow shaft from the origin to (0, 1, 0) and a unit cone for the head. */
+  readonly shaft = new THREE.BufferGeometry().setAttribute('position', new THREE.Float32BufferAttribute([0, 0, 0, 0, 1, 0], 3));
+  readonly head = new THREE.ConeGeometry(0.5, 1, 10, 1).translate(0, -0.5, 0);
+  readonly hues = new Map<string, { line: THREE.LineBasicMaterial; mesh: THREE.MeshBasicMaterial }>();
+
+  arrowMaterials(hue: string): { line: THREE.LineBasicMaterial; mesh: THREE.MeshBasicMaterial } {
+    let m = this.hues.get(hue);
+    if (!m) {
+      m = { line: new THREE.LineBasicMaterial({ color: hue }), mesh: new THREE.MeshBasicMaterial({ color: hue }) };
+      this.hues.set(hue, m);
+    }
+    return m;
+  }
+
+  /** An arrow along unit vector `dir`, `length` long (ArrowHelper's shape with shared materials). */
+  arrow(dir: THREE.Vector3, length: number, hue: string, headLength: number, headWidth: number): THREE.Object3D {
+    const m = this.arrowMaterials(hue);
+    const g = new THREE.Group();
+    const shaft = new THREE.Line(this.shaft, m.line);
+    shaft.scale.set(1, Math.max(1e-4, length - headLength), 1);
+    const head = new THREE.Mesh(this.head, m.mesh);
+    head.scale.set(headWidth, headLength, headWidth);
+    head.position.y = length;
+    g.add(shaft, head);
+    g.quaternion.setFromUnitVectors(new THREE.Vector3(0, 1, 0), dir);
+    return g;
+  }
+
+  dispose(): void {
+    for (const x of [this.coast, this.nbody, this.burnLine, this.burnDots, this.markerDot, this.markerRing, this.dotGeometry, this.ringGeometry, this.shaft, this.head, this.circle]) x.dispose();
+    for (const m of this.hues.values()) {
+      m.line.dispose();
+      m.mesh.dispose();
+    }
+  }
+}
+
+export class SystemScene {
+  readonly renderer: THREE.WebGLRenderer;
+  readonly labels: CSS2DRenderer;
+  readonly camera: THREE.PerspectiveCamera;
+  readonly controls: OrbitControls;
+  readonly stats: FrameStats = { lastMs: 0, frames: 0 };
+  /** WebGL runs on a software rasteriser (no GPU). */
+  readonly software: boolean;
+  /** Called after every rendered frame. */
+  onFrame: ((stats: FrameStats) => void) | null = null;
+  /** Called when a label is clicked (the component turns it into a focus change). */
+  onPick: ((target: FocusTarget) => void) | null = null;
+
+  private scene = new THREE.Scene();
+  private shared = new SharedDrawing();
+  private system: StarSystem | null = null;
+  private result: PlanResult | null = null;
+  private bodies: BodyView[] = [];
+  private systemRoot = new THREE.Group();
+  private resultRoot = new THREE.Group();
+  /** One group per central body for the trajectory and markers drawn in that body's frame. */
+  private frames = new Map<number, THREE.Group>();
+  private markers: BurnMarker[] = [];
+  private ship: THREE.Mesh;
+  private shipLabel: CSS2DObject;
+  private starLight = new THREE.PointLight(0xffffff, 2.6, 0, 0);
+  private glow: THREE.Sprite | null = null;
+  /** The n-body verification's path (positions relative to the star), or null. */
+  private nbodyLine: THREE.Line | null = null;
+  private grid: THREE.Object3D | null = null;
+
+  private t = 0;
+  private focus: FocusTarget = { kind: 'body', index: 0 };
+  private options: SceneOptions = { ...DEFAULT_OPTIONS };
+  private raf = 0;
+  private disposed = false;
+
+  // Scratch (double precision): body positions relative to the star, ship state, origin.
+  private world = new Float64Array(0);
+  private ship6 = new Float64Array(6);
+  private shipWorld = new Float64Array(3);
+  private shipCentral = -1;
+  private tmp3 = new Float64Array(3);
+  private origin = new Float64Array(3);
+  private v = new THREE.Vector3();
+
+  constructor(private readonly container: HTMLElement) {
+    // Multisampling roughly doubles the frame time of a software rasteriser (SwiftShader,
+    // llvmpipe): off there, on with a GPU.
+    this.software = isSoftwareRenderer();
+    this.renderer = new THREE.WebGLRenderer({ antialias: !this.software, logarithmicDepthBuffer: true, powerPreference: 'high-performance' });
+    this.renderer.setPixelRatio(Math.min(window.devicePixelRatio || 1, 2));
+    this.renderer.setClearColor(new THREE.Color(PALETTE.ground), 1);
+    this.renderer.domElement.className = 'scene-canvas';
+    container.append(this.renderer.domElement);
+
+    this.labels = new CSS2DRenderer();
+    this.labels.domElement.className = 'scene-labels';
+    container.append(this.labels.domElement);
+
+    this.camera = new THREE.PerspectiveCamera(40, 1, 1e-4, 1e9);
+    this.camera.position.set(0, -4e5, 2.4e5);
+    this.camera.up.set(0, 0, 1);
+    this.controls = new OrbitControls(this.camera, this.renderer.domElement);
+    this.controls.target.set(0, 0, 0);
+    this.controls.minDistance = 1e-3;
+    this.controls.maxDistance = 5e7;
+    this.controls.zoomSpeed = 1.4;
+    this.controls.addEventListener('change', () => this.requestRender());
+
+    this.scene.add(new THREE.AmbientLight(0xffffff, 0.22));
+    this.scene.add(this.starLight);
+    this.scene.add(this.systemRoot, this.resultRoot);
+
+    this.ship = new THREE.Mesh(new THREE.OctahedronGeometry(1, 0), new THREE.MeshBasicMaterial({ color: PALETTE.ship }));
+    this.ship.visible = false;
+    this.shipLabel = makeLabel('ship', 'ship', () => this.onPick?.({ kind: 'ship' }));
+    this.shipLabel.center.set(-0.12, -0.35); // below right of the ship, clear of body labels
+    this.ship.add(this.shipLabel);
+    this.scene.add(this.ship);
+    this.resize();
+  }
+
+  // ---------------------------------------------------------------- building (on data change)
+
+  setSystem(system: StarSystem): void {
+    this.clearGroup(this.systemRoot);
+    this.bodies = [];
+    this.system = system;
+    this.world = new Float64Array(3 * system.bodies.length);
+    for (const b of system.bodies) {
+      const colour = bodyColour(b.colour, b.index);
+      const group = new THREE.Group();
+      const isStar = b.index === 0;
+      const mat = isStar
+        ? new THREE.MeshBasicMaterial({ color: colour })
+        : new THREE.MeshLambertMaterial({ color: colour, emissive: new THREE.Color(colour).multiplyScalar(0.08) });
+      const mesh = new THREE.Mesh(new THREE.SphereGeometry(1, isStar ? 48 : 32, isStar ? 24 : 16), mat);
+      group.add(mesh);
+      let soi: THREE.LineLoop | null = null;
+      if (!isStar && Number.isFinite(b.derived.soiRadius)) {
+        soi = new THREE.LineLoop(this.shared.circle, new THREE.LineDashedMaterial({ color: colour, transparent: true, opacity: 0.55, dashSize: 0.035, gapSize: 0.025, depthWrite: false }));
+        soi.computeLineDistances();
+        this.systemRoot.add(soi);
+      }
+      const label = makeLabel(b.name, `depth-${Math.min(b.derived.depth, 2)}`, () => this.onPick?.({ kind: 'body', index: b.index }));
+      group.add(label);
+      this.systemRoot.add(group);
+      let orbit: THREE.LineLoop | null = null;
+      if (!isStar) {
+        const pts = sampleOrbit(system, b.index, ORBIT_POINTS);
+        const f32 = new Float32Array(pts.length);
+        for (let k = 0; k < pts.length; k++) f32[k] = pts[k] * U;
+        const geo = new THREE.BufferGeometry();
+        geo.setAttribute('position', new THREE.BufferAttribute(f32, 3));
+        orbit = new THREE.LineLoop(geo, new THREE.LineBasicMaterial({ color: colour, transparent: true, opacity: b.derived.depth > 1 ? 0.22 : 0.34 }));
+        this.systemRoot.add(orbit);
+      }
+      if (isStar) {
+        this.glow = new THREE.Sprite(new THREE.SpriteMaterial({ map: glowTexture(colour), blending: THREE.AdditiveBlending, depthWrite: false, transparent: true }));
+        group.add(this.glow);
+      }
+      this.bodies.push({
+        group,
+        mesh,
+        soi,
+        orbit,
+        label,
+        radius: b.radius * U,
+        soiRadius: b.derived.soiRadius * U,
+        minPx: isStar ? MIN_PIXELS.star : b.derived.depth > 1 ? MIN_PIXELS.moon : MIN_PIXELS.planet,
+        parent: b.parentIndex,
+        depth: b.derived.depth,
+      });
+    }
+    // A faint polar grid in the reference plane around the star, rings every GRID_RING metres.
+    const outer = Math.max(...system.bodies.map((b) => (b.parentIndex === 0 ? b.derived.apoapsis : 0)), GRID_RING);
+    const rings = Math.max(2, Math.ceil(outer / GRID_RING));
+    const grid = new THREE.PolarGridHelper(rings * GRID_RING * U, 12, rings, 72, PALETTE.grid, PALETTE.grid);
+    grid.rotation.x = Math.PI / 2; // the helper lies in x–z; the reference plane is x–y
+    (grid.material as THREE.Material).transparent = true;
+    (grid.material as THREE.Material).opacity = 0.7;
+    this.grid = grid;
+    this.systemRoot.add(grid);
+    this.applyOptions();
+    this.requestRender();
+  }
+
+  setResult(result: PlanResult | null, shipName = 'ship'): void {
+    this.clearResult();
+    this.frames.clear();
+    this.markers = [];
+    this.result = result;
+    (this.shipLabel.element as HTMLElement).textContent = shipName;
+    if (!result || !this.system) {
+      this.ship.visible = false;
+      this.requestRender();
+      return;
+    }
+    const frameOf = (central: number): THREE.Group => {
+      let g = this.frames.get(central);
+      if (!g) {
+        g = new THREE.Group();
+        this.frames.set(central, g);
+        this.resultRoot.add(g);
+      }
+      return g;
+    };
+    for (const seg of result.segments) {
+      const n = seg.sampleT.length;
+      if (n < 2) continue;
+      const pos = new Float32Array(3 * n);
+      for (let k = 0; k < 3 * n; k++) pos[k] = seg.samples[k] * U;
+      const burn = seg.kind === 'burn';
+      let line: THREE.Object3D;
+      const geo = new THREE.BufferGeometry();
+      geo.setAttribute('position', new THREE.BufferAttribute(pos, 3));
+      if (burn) {
+        // Finite burns: an amber line beaded with screen-size dots, so it reads as a bold band
+        // (GL points and lines stay cheap on software rasterisers, unlike wide-line shaders).
+        line = new THREE.Group();
+        line.add(new THREE.Line(geo, this.shared.burnLine));
+        line.add(new THREE.Points(geo, this.shared.burnDots));
+      } else {
+        // Coasts: a thin mint line.
+        line = new THREE.Line(geo, this.shared.coast);
+      }
+      line.userData.kind = seg.kind;
+      frameOf(seg.central).add(line);
+    }
+    for (const row of result.budget.rows) this.addMarker(row, frameOf);
+    this.ship.visible = true;
+    this.applyOptions();
+    this.requestRender();
+  }
+
+  private addMarker(row: BudgetRow, frameOf: (central: number) => THREE.Group): void {
+    if (!this.result) return;
+    // State just before the burn: its frame axes are defined there.
+    const s6 = new Float64Array(6);
+    const k = shipStateAt(this.result, row.tStart - Math.max(1e-3, Math.abs(row.tStart) * 1e-12), s6);
+    if (k < 0) return;
+    const central = this.result.segments[k].central;
+    const r = [s6[0], s6[1], s6[2]];
+    const v = [s6[3], s6[4], s6[5]];
+    const group = new THREE.Group();
+    const dot = new THREE.Mesh(this.shared.dotGeometry, this.shared.markerDot);
+    const ring = new THREE.Mesh(this.shared.ringGeometry, this.shared.markerRing);
+    group.add(dot, ring);
+    const arrows = new THREE.Group();
+    const mag = Math.hypot(...row.dvFrame);
+    if (mag > 0) {
+      const axes = FRAME_AXES[row.frame];
+      const axis = [0, 0, 0];
+      for (let j = 0; j < 3; j++) {
+        const c = row.dvFrame[j];
+        if (Math.abs(c) < 1e-6 * mag) continue;
+        axis[0] = axis[1] = axis[2] = 0;
+        axis[j] = Math.sign(c);
+        let dir: number[];
+        try {
+          dir = burnToInertial(row.frame, r, v, axis) as number[];
+        } catch {
+          continue; // degenerate frame (r ∥ v): no arrows for that axis
+        }
+        const len = 0.3 + 0.7 * (Math.abs(c) / mag);
+        const hue = AXIS_HUE[axes[j].role];
+        arrows.add(this.shared.arrow(new THREE.Vector3(dir[0], dir[1], dir[2]).normalize(), len, hue, 0.16, 0.08));
+      }
+      const d = row.dvInertial;
+      const dm = Math.hypot(d[0], d[1], d[2]);
+      if (dm > 0) arrows.add(this.shared.arrow(new THREE.Vector3(d[0] / dm, d[1] / dm, d[2] / dm), 1.12, AXIS_HUE.total, 0.14, 0.07));
+    }
+    group.add(arrows);
+    frameOf(central).add(group);
+    this.markers.push({ central, rel: new THREE.Vector3(r[0] * U, r[1] * U, r[2] * U), group, arrows, rowId: row.planEventId });
+  }
+
+  /** Empties the plan's drawing: per-segment geometry is freed, shared materials and geometry kept. */
+  private clearResult(): void {
+    const keep = new Set<unknown>([this.shared.dotGeometry, this.shared.ringGeometry, this.shared.shaft, this.shared.head]);
+    this.resultRoot.traverse((o) => {
+      const g = (o as THREE.Mesh).geometry;
+      if (g && !keep.has(g)) {
+        keep.add(g); // burn lines and dots share one geometry: dispose once
+        g.dispose();
+      }
+    });
+    this.resultRoot.clear();
+  }
+
+  private clearGroup(g: THREE.Group): void {
+    g.traverse((o) => {
+      const m = o as THREE.Mesh;
+      if (m.geometry !== this.shared.circle) m.geometry?.dispose();
+      const mat = m.material as THREE.Material | THREE.Material[] | undefined;
+      if (Array.isArray(mat)) mat.forEach((x) => x.dispose());
+      else mat?.dispose();
+      if (o instanceof CSS2DObject) o.element.remove();
+    });
+    g.clear();
+  }
+
+  /** Draws (or, with null, removes) the n-body flight's path: positions relative to the star, m. */
+  setNBody(starPositions: Float64Array | null): void {
+    if (this.nbodyLine) {
+      this.nbodyLine.geometry.dispose();
+      this.nbodyLine.removeFromParent();
+      this.nbodyLine = null;
+    }
+    if (starPositions && starPositions.length >= 6) {
+      const f32 = new Float32Array(starPositions.length);
+      for (let k = 0; k < f32.length; k++) f32[k] = starPositions[k] * U;
+      const geo = new THREE.BufferGeometry();
+      geo.setAttribute('position', new THREE.BufferAttribute(f32, 3));
+      const line = new THREE.Line(geo, this.shared.nbody);
+      line.computeLineDistances();
+      // Dashes about 2 % of the path's extent long.
+      geo.computeBoundingSphere();
+      const scale = (geo.boundingSphere?.radius ?? 1) * 0.02;
+      this.shared.nbody.dashSize = scale;
+      this.shared.nbody.gapSize = scale * 0.6;
+      this.nbodyLine = line;
+      this.scene.add(line);
+    }
+    this.requestRender();
+  }
+
+  // ---------------------------------------------------------------- cheap changes
+
+  setTime(t: number): void {
+    if (t === this.t) return;
+    this.t = t;
+    this.requestRender();
+  }
+
+  getTime(): number {
+    return this.t;
+  }
+
+  setFocus(focus: FocusTarget, frame = true): void {
+    this.focus = focus;
+    if (frame) this.frameFocus();
+    this.requestRender();
+  }
+
+  getFocus(): FocusTarget {
+    return this.focus;
+  }
+
+  setOptions(o: Partial<SceneOptions>): void {
+    this.options = { ...this.options, ...o };
+    this.applyOptions();
+    this.requestRender();
+  }
+
+  private applyOptions(): void {
+    const o = this.options;
+    for (const b of this.bodies) {
+      if (b.soi) b.soi.visible = o.showSoi;
+      if (b.orbit) b.orbit.visible = o.showOrbits;
+    }
+    this.labels.domElement.style.display = o.showLabels ? '' : 'none';
+    for (const m of this.markers) m.arrows.visible = o.showArrows;
+  }
+
+  /** Puts the camera at a distance that shows the focused object and its surroundings. */
+  frameFocus(): void {
+    const sys = this.system;
+    if (!sys) return;
+    let dist: number;
+    if (this.focus.kind === 'ship') dist = 60;
+    else if (this.focus.index === 0) {
+      // The star: frame the plan's heliocentric path, or the inner worlds.
+      let r = 0;
+      for (const seg of this.result?.segments ?? []) {
+        if (seg.central !== 0) continue;
+        for (let k = 0; k < seg.samples.length; k += 3) r = Math.max(r, Math.hypot(seg.samples[k], seg.samples[k + 1], seg.samples[k + 2]));
+      }
+      if (r === 0) for (const b of sys.bodies) if (b.parentIndex === 0) r = Math.max(r, Math.min(b.derived.apoapsis, 3e11));
+      dist = 2.6 * r * U;
+    } else {
+      const b = this.bodies[this.focus.index];
+      const moons = sys.bodies[this.focus.index].children.map((c) => sys.bodies[c].derived.apoapsis * U);
+      dist = Math.max(b.radius * 7, Math.min(b.soiRadius * 0.6, moons.length ? Math.max(...moons) * 2.2 : b.radius * 40));
+    }
+    const dir = this.camera.position.clone().sub(this.controls.target);
+    if (dir.lengthSq() === 0) dir.set(0, -1, 0.6);
+    dir.normalize().multiplyScalar(dist);
+    this.controls.target.set(0, 0, 0);
+    this.camera.position.copy(dir);
+    this.controls.update();
+  }
+
+  resize(): void {
+    const w = Math.max(1, this.container.clientWidth);
+    const h = Math.max(1, this.container.clientHeight);
+    this.renderer.setSize(w, h, false);
+    this.labels.setSize(w, h);
+    this.camera.aspect = w / h;
+    this.camera.updateProjectionMatrix();
+    this.requestRender();
+  }
+
+  requestRender(): void {
+    if (this.raf || this.disposed) return;
+    this.raf = requestAnimationFrame(() => {
+      this.raf = 0;
+      this.renderNow();
+    });
+  }
+
+  /** Updates every position for the current time and renders synchronously; returns the JS time, ms. */
+  renderNow(): number {
+    if (this.disposed) return 0;
+    const t0 = performance.now();
+    this.update();
+    this.renderer.render(this.scene, this.camera);
+    if (this.options.showLabels) this.labels.render(this.scene, this.camera);
+    const ms = performance.now() - t0;
+    this.stats.lastMs = ms;
+    this.stats.frames++;
+    this.onFrame?.(this.stats);
+    return ms;
+  }
+
+  /** Ship position relative to the star at the current time (m), or null without a result. */
+  shipPosition(): Float64Array | null {
+    return this.result && this.shipCentral >= 0 ? this.shipWorld : null;
+  }
+
+  private update(): void {
+    const sys = this.system;
+    if (!sys) return;
+    const n = sys.bodies.length;
+    const w = this.world;
+    for (let i = 1; i < n; i++) {
+      bodyPosition(sys, i, this.t, this.tmp3, 0);
+      w[3 * i] = this.tmp3[0];
+      w[3 * i + 1] = this.tmp3[1];
+      w[3 * i + 2] = this.tmp3[2];
+    }
+    // Ship.
+    this.shipCentral = -1;
+    if (this.result) {
+      const k = shipStateAt(this.result, this.t, this.ship6);
+      if (k >= 0) {
+        const c = this.result.segments[k].central;
+        this.shipCentral = c;
+        for (let j = 0; j < 3; j++) this.shipWorld[j] = w[3 * c + j] + this.ship6[j];
+      }
+    }
+    // Floating origin.
+    const o = this.origin;
+    if (this.focus.kind === 'ship' && this.shipCentral >= 0) {
+      o[0] = this.shipWorld[0];
+      o[1] = this.shipWorld[1];
+      o[2] = this.shipWorld[2];
+    } else {
+      const i = this.focus.kind === 'body' ? this.focus.index : 0;
+      o[0] = w[3 * i];
+      o[1] = w[3 * i + 1];
+      o[2] = w[3 * i + 2];
+    }
+    const cam = this.camera.position;
+    const pxPerRad = this.renderer.domElement.height / this.renderer.getPixelRatio() / (2 * Math.tan((this.camera.fov * Math.PI) / 360));
+    // World units per pixel at distance d: d / pxPerRad.
+    for (let i = 0; i < n; i++) {
+      const b = this.bodies[i];
+      const x = (w[3 * i] - o[0]) * U;
+      const y = (w[3 * i + 1] - o[1]) * U;
+      const z = (w[3 * i + 2] - o[2]) * U;
+      b.group.position.set(x, y, z);
+      const d = Math.hypot(x - cam.x, y - cam.y, z - cam.z);
+      const upp = d / pxPerRad;
+      const r = this.options.trueScale ? b.radius : Math.max(b.radius, 0.5 * b.minPx * upp);
+      b.mesh.scale.setScalar(r);
+      if (i === 0 && this.glow) this.glow.scale.setScalar(r * 9);
+      if (b.orbit) {
+        const p = b.parent;
+        b.orbit.position.set((w[3 * p] - o[0]) * U, (w[3 * p + 1] - o[1]) * U, (w[3 * p + 2] - o[2]) * U);
+      }
+      // Declutter: a moon's label, orbit and shell only when it stands clear of its parent on screen.
+      if (b.depth > 1) {
+        const p = b.parent;
+        const sep = Math.hypot(w[3 * i] - w[3 * p], w[3 * i + 1] - w[3 * p + 1], w[3 * i + 2] - w[3 * p + 2]) * U;
+        const clear = sep / upp > 26;
+        b.label.visible = clear;
+        if (b.orbit) b.orbit.visible = this.options.showOrbits && clear;
+        if (b.soi) b.soi.visible = this.options.showSoi && clear;
+      }
+      if (b.soi && b.depth === 1) b.soi.visible = this.options.showSoi && b.soiRadius / upp > 2;
+      if (b.soi) {
+        // The outline (limb) of the sphere seen from the camera: a circle of radius
+        // R·√(1 − R²/d²) facing the camera, R²/d towards it from the centre; none from inside.
+        const R = b.soiRadius;
+        if (d <= R * 1.01) b.soi.visible = false;
+        else if (b.soi.visible) {
+          const k = (R * R) / (d * d);
+          b.soi.position.set(x + (cam.x - x) * k, y + (cam.y - y) * k, z + (cam.z - z) * k);
+          b.soi.scale.setScalar(R * Math.sqrt(1 - k));
+          b.soi.quaternion.copy(this.camera.quaternion);
+        }
+      }
+    }
+    this.starLight.position.copy(this.bodies[0].group.position);
+    this.nbodyLine?.position.copy(this.bodies[0].group.position);
+    for (const [c, g] of this.frames) g.position.set((w[3 * c] - o[0]) * U, (w[3 * c + 1] - o[1]) * U, (w[3 * c + 2] - o[2]) * U);
+    for (const m of this.markers) {
+      m.group.position.copy(m.rel);
+      const gp = this.frames.get(m.central)!.position;
+      const d = this.v.copy(m.rel).add(gp).sub(cam).length();
+      const upp = d / pxPerRad;
+      m.group.scale.setScalar(upp);
+      m.group.children[0].scale.setScalar(MARKER_PX * 0.5);
+      m.group.children[1].scale.setScalar(MARKER_PX * 0.5);
+      m.group.children[1].quaternion.copy(this.camera.quaternion);
+      m.arrows.scale.setScalar(ARROW_PX);
+    }
+    if (this.shipCentral >= 0) {
+      const x = (this.shipWorld[0] - o[0]) * U;
+      const y = (this.shipWorld[1] - o[1]) * U;
+      const z = (this.shipWorld[2] - o[2]) * U;
+      this.ship.position.set(x, y, z);
+      this.ship.scale.setScalar((SHIP_PX * 0.5 * Math.hypot(x - cam.x, y - cam.y, z - cam.z)) / pxPerRad);
+      this.ship.visible = true;
+    } else this.ship.visible = false;
+  }
+
+  /** Fraction of canvas pixels that differ from the background (for tests: "not blank"); renders first. */
+  nonBackgroundFraction(): number {
+    this.renderNow();
+    const gl = this.renderer.getContext();
+    const w = gl.drawingBufferWidth;
+    const h = gl.drawingBufferHeight;
+    const px = new Uint8Array(w * h * 4);
+    gl.readPixels(0, 0, w, h, gl.RGBA, gl.UNSIGNED_BYTE, px);
+    const hex = parseInt(PALETTE.ground.slice(1), 16);
+    const br = (hex >> 16) & 255;
+    const bgG = (hex >> 8) & 255;
+    const bb = hex & 255;
+    let differ = 0;
+    for (let k = 0; k < px.length; k += 4) {
+      if (Math.abs(px[k] - br) + Math.abs(px[k + 1] - bgG) + Math.abs(px[k + 2] - bb) > 24) differ++;
+    }
+    return differ / (w * h);
+  }
+
+  dispose(): void {
+    this.disposed = true;
+    if (this.raf) cancelAnimationFrame(this.raf);
+    this.controls.dispose();
+    this.clearGroup(this.systemRoot);
+    this.clearResult();
+    this.shared.dispose();
+    this.renderer.dispose();
+    this.renderer.domElement.remove();
+    this.labels.domElement.remove();
+  }
+}

@@ -1,0 +1,452 @@
+/**
+ * The app's session: the open document, its evaluation, the time cursor, and the file actions
+ * (New, Open, Open Recent, Save, Save As, Export, Undo, Redo, recovery of unsaved work).
+ *
+ * Loading a plan is all-or-nothing: the file is parsed and checked (core/io/planFile.ts), its
+ * system resolved and checked against it; any problem becomes one notice listing every issue
+ * with its field path, and the open document stays as it was.
+ *
+ * Systems named by path are looked for, in order: beside the plan file (desktop), among the
+ * systems bundled with the app (by file name), then by asking the user for the file.
+ */
+import { parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../../core/io/planFile.ts';
+import { parseSystemFile } from '../../../core/io/systemFile.ts';
+import { ValidationError, type ValidationIssue } from '../../../core/math/errors.ts';
+import type { Plan } from '../../../core/mission/plan.ts';
+import { checkPlanAgainstSystem, checkPlanDocument } from '../../../core/io/planSchema.ts';
+import { planToDocument } from '../../../core/io/planFile.ts';
+import type { StarSystem } from '../../../core/system/model.ts';
+import type { ExportKind, FileRef, Host, MenuCommand, RecentFile, RecoverySnapshot } from '../host/host.ts';
+import { fileToMemoryPath } from '../plan/paths.ts';
+import { CursorStore } from './cursor.ts';
+import { PlanDocumentStore, UNTITLED, type LoadedDocument } from './document.ts';
+import { EvaluationStore, describeError, type Evaluate } from './evaluation.ts';
+import { exportFile } from './exports.ts';
+import { Observable } from './observable.ts';
+import { AnalysisClient, type AnalysisWorkerLike } from '../analysis/client.ts';
+import { AnalysisStore } from '../analysis/store.ts';
+
+export interface Notice {
+  id: number;
+  kind: 'error' | 'warning' | 'info';
+  title: string;
+  detail?: string;
+  issues?: ValidationIssue[];
+  /** Buttons; the notice closes after one is chosen. */
+  actions?: { label: string; run: () => void | Promise<void> }[];
+}
+
+export interface Question {
+  title: string;
+  message: string;
+  choices: { id: string; label: string; primary?: boolean }[];
+}
+
+export interface SessionDeps {
+  host: Host;
+  evaluate: Evaluate;
+  /** System files bundled with the app, by file name ("ilmar.system.json" → text). */
+  bundledSystems: Record<string, string>;
+  /** The demo plan the app opens on first start, or null. */
+  demo: { name: string; text: string } | null;
+  /** Asks the user (an in-app dialog); resolves to the chosen id. */
+  ask(q: Question): Promise<string>;
+  autosaveMs: number;
+  now?: () => number;
+  /** Worker for n-body verification, correction and dispersion (default: the bundled analysis worker). */
+  analysisWorker?: () => AnalysisWorkerLike;
+}
+
+/** Field-precise issues of a plan in memory (file checks + system checks), paths in memory names. */
+export function planIssues(plan: Plan, system: StarSystem, ref: PlanSystemRef): ValidationIssue[] {
+  let issues: ValidationIssue[];
+  try {
+    issues = [...checkPlanDocument(planToDocument(plan, ref)), ...checkPlanAgainstSystem(plan, system)];
+  } catch (err) {
+    issues = [{ path: '', rule: describeError(err).message, severity: 'error' }];
+  }
+  return issues.map((i) => ({ ...i, path: fileToMemoryPath(i.path) }));
+}
+
+function baseNameOf(path: string): string {
+  return path.split(/[\\/]/).pop() ?? path;
+}
+
+/** A new plan in `system`: a circular parking orbit 300 km above the home world, one stage, no events. */
+export function blankPlan(system: StarSystem): Plan {
+  const home = system.calendar.homeIndex > 0 ? system.calendar.homeIndex : system.bodies.length > 1 ? 1 : 0;
+  const b = system.bodies[home];
+  return {
+    name: 'New plan',
+    description: '',
+    vehicle: { name: 'Ship', payloadMass: 2000, stages: [{ name: 'Stage 1', dryMass: 1500, propellantMass: 8000, isp: 330, thrust: 30000 }] },
+    start: { kind: 'parking', body: b.id, epoch: 0, periapsisAltitude: Math.max(300_000, b.safeAlt + 50_000), e: 0, i: 0, raan: 0, argp: 0, nu: 0 },
+    events: [],
+    target: null,
+    reserve: { percent: 5, absolute: 50 },
+    end: null,
+  };
+}
+
+export class Session {
+  readonly doc: PlanDocumentStore;
+  readonly evaluation: EvaluationStore;
+  readonly analysis: AnalysisStore;
+  readonly cursor = new CursorStore();
+  readonly notices = new Observable<Notice[]>([]);
+  readonly recent = new Observable<RecentFile[]>([]);
+  readonly busy = new Observable<string | null>(null);
+  #noticeId = 0;
+  #timer: ReturnType<typeof setInterval> | null = null;
+  #autosavedRevision = -1;
+  #recoveryWritten = false;
+
+  private constructor(
+    private readonly deps: SessionDeps,
+    initial: LoadedDocument,
+  ) {
+    this.doc = new PlanDocumentStore(initial, planIssues);
+    this.evaluation = new EvaluationStore(this.doc, deps.evaluate);
+    this.analysis = new AnalysisStore(this.doc, this.evaluation, new AnalysisClient(deps.analysisWorker));
+    // The cursor follows the flown span; a new document puts it at the start.
+    let generation = -1;
+    this.evaluation.subscribe((e) => {
+      if (!e.result) return;
+      if (e.generation !== generation) {
+        generation = e.generation;
+        this.cursor.setSpan(e.result.t0, e.result.t1, e.result.t0);
+      } else this.cursor.setSpan(e.result.t0, e.result.t1);
+    });
+    // Title and unsaved marker: only when they change (a title change is not free in a browser).
+    let shown = '';
+    this.doc.subscribe((s) => {
+      const title = `${s.dirty ? '• ' : ''}${s.name} — Waymark`;
+      if (title + s.dirty !== shown) {
+        shown = title + s.dirty;
+        deps.host.setDocumentState(title, s.dirty);
+      }
+    });
+  }
+
+  /** Opens on the demo plan (or a blank plan when there is none), then offers any recovery copy. */
+  static async create(deps: SessionDeps): Promise<Session> {
+    let initial: LoadedDocument | null = null;
+    let demoProblem: unknown = null;
+    if (deps.demo) {
+      try {
+        // No path and no handle: saving the demo asks where (desktop) or downloads it (browser).
+        initial = await loadPlanText(deps, deps.demo.text, { name: deps.demo.name, path: null, handle: null }, false);
+      } catch (err) {
+        demoProblem = err;
+      }
+    }
+    if (!initial) {
+      const [name, text] = Object.entries(deps.bundledSystems)[0] ?? [];
+      if (!text) throw new Error('no star system is bundled with the app');
+      const system = parseSystemFile(text).system;
+      initial = { plan: blankPlan(system), system, systemRef: { kind: 'path', path: `../systems/${name}` }, file: null };
+    }
+    const s = new Session(deps, initial);
+    if (demoProblem) s.noticeFromError('The demo plan did not load', demoProblem);
+    await s.refreshRecent();
+    await s.offerRecovery();
+    s.startAutosave();
+    return s;
+  }
+
+  // ------------------------------------------------------------------ notices
+
+  notify(n: Omit<Notice, 'id'>): number {
+    const id = ++this.#noticeId;
+    this.notices.update((list) => [...list.filter((x) => x.title !== n.title), { ...n, id }]);
+    return id;
+  }
+
+  dismiss(id: number): void {
+    this.notices.update((list) => list.filter((n) => n.id !== id));
+  }
+
+  noticeFromError(title: string, err: unknown): void {
+    const d = describeError(err);
+    this.notify({ kind: 'error', title, detail: d.message, issues: err instanceof ValidationError ? err.issues : undefined });
+  }
+
+  // ------------------------------------------------------------------ edits
+
+  undo(): void {
+    this.doc.undo();
+  }
+
+  redo(): void {
+    this.doc.redo();
+  }
+
+  // ------------------------------------------------------------------ files
+
+  /** Asks to save unsaved changes first; false when the user cancelled. */
+  async confirmDiscard(action: string): Promise<boolean> {
+    const s = this.doc.get();
+    if (!s.dirty) return true;
+    const choice = await this.deps.ask({
+      title: 'Unsaved changes',
+      message: `${s.name} has unsaved changes. Save them before you ${action}?`,
+      choices: [
+        { id: 'save', label: 'Save', primary: true },
+        { id: 'discard', label: 'Discard changes' },
+        { id: 'cancel', label: 'Cancel' },
+      ],
+    });
+    if (choice === 'save') return this.save();
+    return choice === 'discard';
+  }
+
+  async newPlan(): Promise<void> {
+    if (!(await this.confirmDiscard('start a new plan'))) return;
+    const s = this.doc.get();
+    this.doc.load({ plan: blankPlan(s.system), system: s.system, systemRef: s.systemRef, file: null });
+    await this.deps.host.clearRecovery();
+  }
+
+  async open(): Promise<void> {
+    if (!(await this.confirmDiscard('open another plan'))) return;
+    let opened;
+    try {
+      opened = await this.deps.host.openPlan();
+    } catch (err) {
+      this.noticeFromError('The file could not be opened', err);
+      return;
+    }
+    if (opened) await this.openText(opened.text, opened.ref);
+  }
+
+  async openRecent(key: string): Promise<void> {
+    if (!(await this.confirmDiscard('open another plan'))) return;
+    try {
+      const opened = await this.deps.host.openRecent(key);
+      await this.openText(opened.text, opened.ref);
+    } catch (err) {
+      this.noticeFromError(`${baseNameOf(key)} could not be opened`, err);
+    }
+  }
+
+  /** Loads plan text as the open document; on any problem shows the issues and changes nothing. */
+  async openText(text: string, ref: FileRef): Promise<boolean> {
+    this.busy.set(`Opening ${ref.name}…`);
+    try {
+      const loaded = await loadPlanText(this.deps, text, ref, true);
+      this.doc.load(loaded);
+      const warnings = loaded.warnings ?? [];
+      if (warnings.length) this.notify({ kind: 'warning', title: `${ref.name} opened with warnings`, issues: warnings });
+      await this.refreshRecent();
+      return true;
+    } catch (err) {
+      this.noticeFromError(`${ref.name} was not opened`, err);
+      return false;
+    } finally {
+      this.busy.set(null);
+    }
+  }
+
+  planText(): string {
+    const s = this.doc.get();
+    return serializePlanFile(s.plan, s.systemRef);
+  }
+
+  suggestedName(): string {
+    const s = this.doc.get();
+    if (s.file) return s.file.name;
+    const slug = s.plan.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'plan';
+    return `${slug}.plan.json`;
+  }
+
+  /** Saves to the document's file (Save As when it has none); true when saved. */
+  async save(): Promise<boolean> {
+    const s = this.doc.get();
+    if (!s.file) return this.saveAs();
+    try {
+      const ref = await this.deps.host.save(s.file, this.planText());
+      if (!ref) return false;
+      return this.saved(ref);
+    } catch (err) {
+      this.noticeFromError(`${s.name} was not saved`, err);
+      return false;
+    }
+  }
+
+  async saveAs(): Promise<boolean> {
+    try {
+      const ref = await this.deps.host.saveAs(this.suggestedName(), this.planText());
+      if (!ref) return false;
+      return this.saved(ref);
+    } catch (err) {
+      this.noticeFromError('The plan was not saved', err);
+      return false;
+    }
+  }
+
+  private async saved(ref: FileRef): Promise<boolean> {
+    this.doc.markSaved(ref);
+    await this.deps.host.clearRecovery();
+    this.#recoveryWritten = false;
+    await this.refreshRecent();
+    return true;
+  }
+
+  async exportAs(kind: ExportKind): Promise<void> {
+    const s = this.doc.get();
+    const e = this.evaluation.get();
+    if (!e.result || e.stale) {
+      this.notify({ kind: 'error', title: 'Nothing to export', detail: e.error ? `The plan does not evaluate: ${e.error.message}` : 'The plan has no result yet.' });
+      return;
+    }
+    try {
+      const f = exportFile(kind, s.system, s.plan, e.result, s.file?.name ?? this.suggestedName());
+      await this.deps.host.exportFile(kind, f.name, f.text);
+    } catch (err) {
+      this.noticeFromError('The export failed', err);
+    }
+  }
+
+  async refreshRecent(): Promise<void> {
+    try {
+      this.recent.set(await this.deps.host.recentFiles());
+    } catch {
+      this.recent.set([]);
+    }
+  }
+
+  // ------------------------------------------------------------------ recovery
+
+  async offerRecovery(): Promise<void> {
+    let snap: RecoverySnapshot | null = null;
+    try {
+      snap = await this.deps.host.readRecovery();
+    } catch {
+      return;
+    }
+    if (!snap) return;
+    const when = new Date(snap.savedAt).toLocaleString();
+    const id = this.notify({
+      kind: 'info',
+      title: 'Unsaved work was found',
+      detail: `${snap.name}, autosaved ${when}, was not saved before the app closed.`,
+      actions: [
+        { label: 'Recover it', run: async () => void (await this.recover(snap!)) },
+        {
+          label: 'Discard it',
+          run: async () => {
+            await this.deps.host.clearRecovery();
+          },
+        },
+      ],
+    });
+    void id;
+  }
+
+  async recover(snap: RecoverySnapshot): Promise<boolean> {
+    try {
+      // The recovered copy is unsaved work: no file to save back to without asking.
+      const loaded = await loadPlanText(this.deps, snap.text, { name: snap.name, path: snap.path, handle: null }, true);
+      loaded.file = snap.name === UNTITLED ? null : { name: snap.name, path: null, handle: null };
+      this.doc.load(loaded, true);
+      return true;
+    } catch (err) {
+      this.noticeFromError('The recovered copy could not be read', err);
+      return false;
+    }
+  }
+
+  /** One autosave step (also run by the timer): writes the recovery copy when there are unsaved changes. */
+  async autosave(): Promise<void> {
+    const s = this.doc.get();
+    if (!s.dirty) {
+      if (this.#recoveryWritten) {
+        this.#recoveryWritten = false;
+        await this.deps.host.clearRecovery();
+      }
+      return;
+    }
+    if (s.revision === this.#autosavedRevision) return;
+    let text: string;
+    try {
+      text = this.planText();
+    } catch {
+      return; // not writable yet (e.g. a non-finite number mid-edit)
+    }
+    this.#autosavedRevision = s.revision;
+    await this.deps.host.writeRecovery({ name: s.name, path: s.file?.path ?? null, text, savedAt: (this.deps.now ?? Date.now)() });
+    this.#recoveryWritten = true;
+  }
+
+  startAutosave(): void {
+    if (this.#timer || this.deps.autosaveMs <= 0) return;
+    this.#timer = setInterval(() => void this.autosave(), this.deps.autosaveMs);
+  }
+
+  stopAutosave(): void {
+    if (this.#timer) clearInterval(this.#timer);
+    this.#timer = null;
+  }
+
+  // ------------------------------------------------------------------ menu
+
+  async command(c: MenuCommand): Promise<void> {
+    switch (c.command) {
+      case 'new':
+        return this.newPlan();
+      case 'open':
+        return this.open();
+      case 'open-recent':
+        return this.openRecent(c.path);
+      case 'save':
+        await this.save();
+        return;
+      case 'save-as':
+        await this.saveAs();
+        return;
+      case 'export':
+        return this.exportAs(c.kind);
+      case 'undo':
+        return this.undo();
+      case 'redo':
+        return this.redo();
+      case 'save-and-close':
+        if (await this.save()) await this.deps.host.closeConfirmed();
+        return;
+    }
+  }
+}
+
+/** Parses plan text and resolves its system; throws ValidationError (or the host's error) on any problem. */
+export async function loadPlanText(deps: Pick<SessionDeps, 'host' | 'bundledSystems'>, text: string, ref: FileRef, mayAsk: boolean): Promise<LoadedDocument> {
+  const parsed = parsePlanFile(text);
+  if (parsed.system.kind === 'embedded') {
+    return { plan: parsed.plan, system: parsed.system.system, systemRef: parsed.system, file: ref, warnings: parsed.warnings };
+  }
+  const path = parsed.system.path;
+  let systemText: string | null = null;
+  try {
+    systemText = await deps.host.readSystemBeside(ref, path);
+  } catch {
+    systemText = null;
+  }
+  systemText ??= deps.bundledSystems[baseNameOf(path)] ?? null;
+  if (systemText === null && mayAsk) {
+    const picked = await deps.host.openSystem(`The plan names the system file "${path}"; choose it.`);
+    systemText = picked?.text ?? null;
+  }
+  if (systemText === null) {
+    throw new ValidationError('plan file', [{ path: 'system.path', rule: `names "${path}", which was not found (not beside the plan, not bundled, none chosen)`, severity: 'error' }]);
+  }
+  let system: StarSystem;
+  try {
+    system = parseSystemFile(systemText).system;
+  } catch (err) {
+    if (err instanceof ValidationError) {
+      throw new ValidationError('plan file', err.issues.map((i) => ({ ...i, path: `system (${baseNameOf(path)}) ${i.path}`.trim() })));
+    }
+    throw err;
+  }
+  const warnings = [...parsed.warnings, ...requirePlanFitsSystem(parsed.plan, system)];
+  return { plan: parsed.plan, system, systemRef: parsed.system, file: ref, warnings };
+}

@@ -1,0 +1,342 @@
+/**
+ * The Timeline's imperative d3 code: a calendar time axis with zoom (wheel) and pan (drag on the
+ * lanes), lanes for burns, sphere-of-influence spans and events, three charts against time, and
+ * the time cursor (drag its handle or the axis strip, click anywhere to place it). The Svelte
+ * component passes data in and receives cursor intents; moving the cursor only moves one group.
+ */
+import * as d3 from 'd3';
+import type { SystemCalendar } from '../../../core/system/model.ts';
+import { PALETTE } from '../scene/palette.ts';
+import type { Series, TimelineData } from './series.ts';
+import { calendarTicks } from './ticks.ts';
+
+export const LAYOUT = {
+  left: 118,
+  right: 14,
+  axis: 26,
+  lane: 20,
+  chart: 46,
+  gap: 6,
+} as const;
+
+const LANES = ['Burns', 'Sphere of influence', 'Events'] as const;
+const CHARTS = [
+  { key: 'propellant', label: 'Propellant', colour: PALETTE.warn },
+  { key: 'dvLeft', label: 'Δv left', colour: PALETTE.path },
+  { key: 'distance', label: 'To target', colour: '#9fb7ff' },
+] as const;
+
+export interface TimelineCallbacks {
+  /** The user moved the cursor (drag or click). */
+  onCursor(t: number): void;
+  /** The user clicked a burn bar. */
+  onSelectBurn?(id: string): void;
+}
+
+type ChartKey = (typeof CHARTS)[number]['key'];
+
+export class TimelineChart {
+  private svg: d3.Selection<SVGSVGElement, unknown, null, undefined>;
+  private gAxis: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private gLanes: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private gCharts: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private gCursor: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private clipId = `tl-clip-${Math.random().toString(36).slice(2, 8)}`;
+  private x0 = d3.scaleLinear();
+  private x = d3.scaleLinear();
+  private zoom: d3.ZoomBehavior<SVGSVGElement, unknown>;
+  private data: TimelineData | null = null;
+  private cal: SystemCalendar | null = null;
+  private width = 600;
+  private height = 0;
+  private cursorT = 0;
+
+  constructor(
+    private readonly container: HTMLElement,
+    private readonly cb: TimelineCallbacks,
+  ) {
+    this.height = LAYOUT.axis + LANES.length * LAYOUT.lane + LAYOUT.gap + CHARTS.length * (LAYOUT.chart + LAYOUT.gap);
+    this.svg = d3.select(container).append('svg').attr('class', 'timeline-svg').attr('height', this.height);
+    this.svg.append('defs').append('clipPath').attr('id', this.clipId).append('rect');
+    const plot = this.svg.append('g').attr('class', 'plot');
+    this.gAxis = plot.append('g').attr('class', 'axis');
+    this.gLanes = plot.append('g').attr('class', 'lanes');
+    this.gCharts = plot.append('g').attr('class', 'charts');
+    this.gCursor = plot.append('g').attr('class', 'cursor');
+    this.buildStatic();
+
+    this.zoom = d3
+      .zoom<SVGSVGElement, unknown>()
+      .filter((ev: Event) => {
+        const target = ev.target as Element;
+        if (target.closest('.cursor-handle, .axis-strip')) return false;
+        return (ev.type === 'wheel' || (ev as MouseEvent).button === 0) && !(ev as MouseEvent).ctrlKey;
+      })
+      .on('zoom', (ev: d3.D3ZoomEvent<SVGSVGElement, unknown>) => {
+        this.x = ev.transform.rescaleX(this.x0);
+        this.redraw();
+      });
+    this.svg.call(this.zoom).on('dblclick.zoom', null);
+
+    // Click (without drag) on the lanes or charts places the cursor.
+    let down: [number, number] | null = null;
+    this.svg.on('pointerdown.cursor', (ev: PointerEvent) => {
+      down = [ev.clientX, ev.clientY];
+    });
+    this.svg.on('click.cursor', (ev: MouseEvent) => {
+      if (!down || Math.hypot(ev.clientX - down[0], ev.clientY - down[1]) > 3) return;
+      const target = ev.target as Element;
+      const burn = target.closest('.burn-bar') as SVGElement | null;
+      if (burn?.dataset.id) this.cb.onSelectBurn?.(burn.dataset.id);
+      const [px] = d3.pointer(ev, this.svg.node());
+      if (px >= LAYOUT.left) this.cb.onCursor(this.clampT(this.x.invert(px)));
+    });
+
+    // Dragging the handle or the axis strip moves the cursor.
+    const drag = d3
+      .drag<SVGGElement, unknown>()
+      .on('start drag', (ev: d3.D3DragEvent<SVGGElement, unknown, unknown>) => {
+        const [px] = d3.pointer(ev.sourceEvent as Event, this.svg.node());
+        this.cb.onCursor(this.clampT(this.x.invert(Math.max(LAYOUT.left, Math.min(this.width - LAYOUT.right, px)))));
+      });
+    this.gAxis.select<SVGGElement>('.axis-strip-group').call(drag);
+    this.gCursor.select<SVGGElement>('.cursor-handle').call(drag);
+    this.resize();
+  }
+
+  private clampT(t: number): number {
+    if (!this.data) return t;
+    return Math.min(this.data.t1, Math.max(this.data.t0, t));
+  }
+
+  private buildStatic(): void {
+    const L = LAYOUT;
+    const strip = this.gAxis.append('g').attr('class', 'axis-strip-group');
+    strip.append('rect').attr('class', 'axis-strip').attr('x', L.left).attr('y', 0).attr('height', L.axis).attr('fill', PALETTE.panel);
+    this.gAxis.append('g').attr('class', 'ticks');
+    LANES.forEach((name, k) => {
+      const y = L.axis + k * L.lane;
+      const g = this.gLanes.append('g').attr('class', `lane lane-${k}`).attr('transform', `translate(0,${y})`);
+      g.append('text').attr('class', 'lane-label').attr('x', 10).attr('y', L.lane / 2 + 4).text(name);
+      g.append('line').attr('class', 'lane-rule').attr('x1', L.left).attr('y1', L.lane).attr('y2', L.lane);
+      g.append('g').attr('class', 'items').attr('clip-path', `url(#${this.clipId})`);
+    });
+    const chartTop = L.axis + LANES.length * L.lane + L.gap;
+    CHARTS.forEach((c, k) => {
+      const y = chartTop + k * (L.chart + L.gap);
+      const g = this.gCharts.append('g').attr('class', `chart chart-${c.key}`).attr('transform', `translate(0,${y})`);
+      g.append('text').attr('class', 'lane-label').attr('x', 10).attr('y', 14).text(c.label);
+      g.append('text').attr('class', 'chart-scale chart-max').attr('x', 10).attr('y', 28);
+      g.append('text').attr('class', 'chart-scale chart-min').attr('x', 10).attr('y', L.chart - 2);
+      g.append('rect').attr('class', 'chart-bg').attr('x', L.left).attr('y', 0).attr('height', L.chart);
+      const inner = g.append('g').attr('clip-path', `url(#${this.clipId})`);
+      inner.append('path').attr('class', 'chart-area').attr('fill', c.colour).attr('fill-opacity', 0.12);
+      inner.append('path').attr('class', 'chart-line').attr('stroke', c.colour).attr('fill', 'none').attr('stroke-width', 1.5);
+    });
+    this.gCursor.append('line').attr('class', 'cursor-line').attr('y1', 0).attr('y2', this.height).attr('stroke', PALETTE.cursor);
+    const handle = this.gCursor.append('g').attr('class', 'cursor-handle');
+    handle.append('path').attr('d', 'M-7,0 H7 V12 L0,19 L-7,12 Z').attr('fill', PALETTE.cursor);
+  }
+
+  setCalendar(cal: SystemCalendar): void {
+    this.cal = cal;
+    this.redraw();
+  }
+
+  setData(data: TimelineData | null, keepView = false): void {
+    const prev = this.data;
+    this.data = data;
+    if (!data) {
+      this.redraw();
+      return;
+    }
+    const pad = Math.max(1, (data.t1 - data.t0) * 0.01);
+    const sameSpan = prev && prev.t0 === data.t0 && prev.t1 === data.t1;
+    this.x0.domain([data.t0 - pad, data.t1 + pad]);
+    if (!(keepView && sameSpan)) {
+      this.svg.call(this.zoom.transform, d3.zoomIdentity);
+      this.x = this.x0.copy();
+    } else this.x = d3.zoomTransform(this.svg.node()!).rescaleX(this.x0);
+    const span = data.t1 - data.t0 + 2 * pad;
+    this.zoom.scaleExtent([1, Math.max(1, span / 20)]).translateExtent([
+      [LAYOUT.left, 0],
+      [this.width - LAYOUT.right, this.height],
+    ]);
+    this.redraw();
+  }
+
+  /** Zooms so [a, b] fills the plot. */
+  zoomTo(a: number, b: number): void {
+    if (!this.data || !(b > a)) return;
+    // screen = k·x0(t) + tx: put a at the left edge and b at the right edge of the plot.
+    const k = (this.width - LAYOUT.right - LAYOUT.left) / (this.x0(b) - this.x0(a));
+    const tx = LAYOUT.left - k * this.x0(a);
+    this.svg.call(this.zoom.transform, d3.zoomIdentity.translate(tx, 0).scale(k));
+  }
+
+  resetZoom(): void {
+    this.svg.call(this.zoom.transform, d3.zoomIdentity);
+  }
+
+  /** Visible time span, s. */
+  visibleSpan(): [number, number] {
+    const [a, b] = this.x.domain();
+    return [a, b];
+  }
+
+  resize(): void {
+    this.width = Math.max(320, this.container.clientWidth);
+    this.svg.attr('width', this.width).attr('viewBox', `0 0 ${this.width} ${this.height}`);
+    const range: [number, number] = [LAYOUT.left, this.width - LAYOUT.right];
+    this.x0.range(range);
+    this.x.range(range);
+    this.svg
+      .select(`#${this.clipId} rect`)
+      .attr('x', LAYOUT.left)
+      .attr('y', -2)
+      .attr('width', this.width - LAYOUT.left - LAYOUT.right)
+      .attr('height', this.height + 4);
+    this.gAxis.select('.axis-strip').attr('width', this.width - LAYOUT.left - LAYOUT.right);
+    this.gLanes.selectAll('.lane-rule').attr('x2', this.width - LAYOUT.right);
+    this.gCharts.selectAll('.chart-bg').attr('width', this.width - LAYOUT.left - LAYOUT.right);
+    this.zoom.extent([
+      [LAYOUT.left, 0],
+      [this.width - LAYOUT.right, this.height],
+    ]);
+    if (this.data) this.setData(this.data, true);
+    else this.redraw();
+  }
+
+  setCursor(t: number): void {
+    this.cursorT = t;
+    this.placeCursor();
+  }
+
+  private placeCursor(): void {
+    const px = this.x(this.cursorT);
+    const visible = Number.isFinite(px) && px >= LAYOUT.left - 0.5 && px <= this.width - LAYOUT.right + 0.5;
+    this.gCursor.attr('transform', `translate(${px},0)`).attr('display', visible ? null : 'none');
+  }
+
+  private redraw(): void {
+    const L = LAYOUT;
+    const x = this.x;
+    const data = this.data;
+    // Axis.
+    const ticks = data && this.cal ? calendarTicks(this.cal, x.domain()[0], x.domain()[1], Math.max(3, Math.floor((this.width - L.left) / 110))) : [];
+    const tg = this.gAxis
+      .select('.ticks')
+      .selectAll<SVGGElement, (typeof ticks)[number]>('g.tick')
+      .data(ticks, (d) => String(d.t))
+      .join((enter) => {
+        const g = enter.append('g').attr('class', 'tick');
+        g.append('line').attr('y1', L.axis - 6).attr('y2', this.height);
+        g.append('text').attr('y', L.axis - 9).attr('x', 3);
+        return g;
+      });
+    tg.attr('transform', (d) => `translate(${x(d.t)},0)`)
+      .classed('major', (d) => d.major)
+      .select('text')
+      .text((d) => d.label);
+    tg.select('line').attr('y2', this.height);
+
+    if (!data) {
+      this.gLanes.selectAll('.items').selectAll('*').remove();
+      this.gCharts.selectAll('path').attr('d', null);
+      this.placeCursor();
+      return;
+    }
+    const lane = (k: number) => this.gLanes.select(`.lane-${k} .items`);
+    const minW = 3;
+    // Burns: bars as long as the burn (at least 3 px so an impulsive burn shows).
+    lane(0)
+      .selectAll<SVGRectElement, TimelineData['burns'][number]>('rect.burn-bar')
+      .data(data.burns, (d) => d.id)
+      .join('rect')
+      .attr('class', (d) => `burn-bar${d.flagged ? ` flag-${d.flagged}` : ''}`)
+      .attr('data-id', (d) => d.id)
+      .attr('x', (d) => Math.min(x(d.tStart), x(d.t) - minW / 2))
+      .attr('width', (d) => Math.max(minW, x(d.tEnd) - x(d.tStart)))
+      .attr('y', 3)
+      .attr('height', L.lane - 6)
+      .selectAll('title')
+      .data((d) => [d])
+      .join('title')
+      .text((d) => `${d.name}: ${d.dv.toFixed(1)} m/s`);
+    // SOI spans.
+    const soiSel = lane(1)
+      .selectAll<SVGGElement, TimelineData['soi'][number]>('g.soi')
+      .data(data.soi, (d) => `${d.central}-${d.t0}`)
+      .join((enter) => {
+        const g = enter.append('g').attr('class', 'soi');
+        g.append('rect').attr('y', 3).attr('height', L.lane - 6);
+        g.append('text').attr('y', L.lane / 2 + 4);
+        return g;
+      });
+    soiSel
+      .select('rect')
+      .attr('x', (d) => x(d.t0))
+      .attr('width', (d) => Math.max(1, x(d.t1) - x(d.t0)))
+      .attr('fill', (d) => d.colour);
+    soiSel
+      .select('text')
+      .attr('x', (d) => Math.max(x(d.t0), L.left) + 4)
+      .text((d) => (x(d.t1) - Math.max(x(d.t0), L.left) > 50 ? d.name : ''));
+    // Events: ticks with a tooltip.
+    lane(2)
+      .selectAll<SVGPathElement, TimelineData['events'][number]>('path.event')
+      .data(data.events, (d) => `${d.kind}-${d.t}`)
+      .join('path')
+      .attr('class', (d) => `event event-${d.kind}`)
+      .attr('d', (d) => `M${x(d.t)},4 l4,6 l-4,6 l-4,-6 Z`)
+      .selectAll('title')
+      .data((d) => [d])
+      .join('title')
+      .text((d) => d.label);
+    // Charts.
+    CHARTS.forEach((c) => this.drawChart(c.key, data[c.key] as Series));
+    this.placeCursor();
+  }
+
+  private drawChart(key: ChartKey, s: Series): void {
+    const L = LAYOUT;
+    const g = this.gCharts.select(`.chart-${key}`);
+    const n = s.t.length;
+    if (n === 0) {
+      g.selectAll('path').attr('d', null);
+      g.select('.chart-max').text('');
+      g.select('.chart-min').text(key === 'distance' ? 'no target' : '');
+      return;
+    }
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (let k = 0; k < n; k++) {
+      lo = Math.min(lo, s.v[k]);
+      hi = Math.max(hi, s.v[k]);
+    }
+    const log = key === 'distance';
+    let y: d3.ScaleContinuousNumeric<number, number>;
+    if (log) y = d3.scaleLog().domain([Math.max(1, lo) * 0.8, Math.max(hi, lo * 2) * 1.2]).range([L.chart - 2, 3]);
+    else y = d3.scaleLinear().domain([Math.min(0, lo), hi > lo ? hi * 1.05 : lo + 1]).range([L.chart - 2, 3]);
+    const idx = d3.range(n);
+    const line = d3
+      .line<number>()
+      .x((k) => this.x(s.t[k]))
+      .y((k) => y(Math.max(log ? 1 : -Infinity, s.v[k])));
+    const area = d3
+      .area<number>()
+      .x((k) => this.x(s.t[k]))
+      .y0(L.chart - 2)
+      .y1((k) => y(Math.max(log ? 1 : -Infinity, s.v[k])));
+    g.select('.chart-line').attr('d', line(idx));
+    g.select('.chart-area').attr('d', area(idx));
+    const fmt = (v: number) =>
+      key === 'propellant' ? `${(v / 1000).toFixed(1)} t` : key === 'dvLeft' ? `${(v / 1000).toFixed(2)} km/s` : `${(v / 1e9).toFixed(v < 1e9 ? 3 : 1)} Gm`;
+    g.select('.chart-max').text(`max ${fmt(hi)}`);
+    g.select('.chart-min').text(`min ${fmt(lo)}`);
+  }
+
+  dispose(): void {
+    this.svg.remove();
+  }
+}

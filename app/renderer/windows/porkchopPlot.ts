@@ -1,0 +1,261 @@
+/**
+ * The porkchop plot's imperative d3 code: filled contours (d3-contour, marching squares) of a
+ * Δv plane over departure (x, system calendar) × time of flight (y, days), the transfer
+ * windows marked and numbered, a crosshair with a hover callback, and clicks reported as
+ * (departure, time of flight). Low Δv is bright, high Δv fades into the ground.
+ */
+import * as d3 from 'd3';
+import type { PorkchopGrid } from '../../../core/search/porkchop.ts';
+import { metricPlane } from '../../../core/search/porkchop.ts';
+import type { PorkchopMetric } from '../../../core/search/request.ts';
+import type { TransferWindow } from '../../../core/search/windows.ts';
+import type { SystemCalendar } from '../../../core/system/model.ts';
+import { calendarTicks } from '../timeline/ticks.ts';
+
+export const PLOT_MARGIN = { left: 58, right: 86, top: 12, bottom: 40 } as const;
+/** Contour levels: from the grid minimum up to LEVEL_SPAN × minimum, in LEVELS steps. */
+export const LEVELS = 22;
+export const LEVEL_SPAN = 2.2;
+/** Most samples per side the contours are traced on. */
+export const CONTOUR_CELLS = 200;
+
+/** Sand (best) → mint → deep teal (worst): the Windows view's own ramp. */
+export const RAMP = d3.interpolateRgbBasis(['#f6ecbd', '#9fdcae', '#3fa08f', '#1e5a61', '#16303a']);
+
+export interface HoverCell {
+  i: number;
+  j: number;
+  departure: number;
+  tof: number;
+}
+
+export interface PlotCallbacks {
+  onHover(cell: HoverCell | null): void;
+  onPick(departure: number, tof: number): void;
+}
+
+export class PorkchopPlot {
+  private svg: d3.Selection<SVGSVGElement, unknown, null, undefined>;
+  private gContours: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private gAxes: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private gMarks: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private gLegend: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private cross: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private grid: PorkchopGrid | null = null;
+  private cal: SystemCalendar | null = null;
+  private metric: PorkchopMetric = 'total';
+  private windows: TransferWindow[] = [];
+  private width = 600;
+  private height = 400;
+  private x = d3.scaleLinear();
+  private y = d3.scaleLinear();
+
+  constructor(
+    private readonly container: HTMLElement,
+    private readonly cb: PlotCallbacks,
+  ) {
+    this.svg = d3.select(container).append('svg').attr('class', 'porkchop-svg');
+    this.svg.append('rect').attr('class', 'plot-bg').attr('fill', '#16303a');
+    this.gContours = this.svg.append('g').attr('class', 'contours');
+    this.gAxes = this.svg.append('g').attr('class', 'axes');
+    this.gMarks = this.svg.append('g').attr('class', 'marks');
+    this.gLegend = this.svg.append('g').attr('class', 'legend');
+    this.cross = this.svg.append('g').attr('class', 'cross').attr('pointer-events', 'none').attr('display', 'none');
+    this.cross.append('line').attr('class', 'cx').attr('stroke', '#dfe6e1').attr('stroke-opacity', 0.5);
+    this.cross.append('line').attr('class', 'cy').attr('stroke', '#dfe6e1').attr('stroke-opacity', 0.5);
+    this.svg.append('rect').attr('class', 'hit').attr('fill', 'transparent').style('cursor', 'crosshair');
+    const hit = this.svg.select<SVGRectElement>('rect.hit');
+    hit.on('pointermove', (ev: PointerEvent) => this.hover(ev));
+    hit.on('pointerleave', () => {
+      this.cross.attr('display', 'none');
+      this.cb.onHover(null);
+    });
+    hit.on('click', (ev: MouseEvent) => {
+      if (!this.grid) return;
+      const [px, py] = d3.pointer(ev, this.svg.node());
+      this.cb.onPick(this.x.invert(px), this.y.invert(py) * 86400);
+    });
+    this.resize();
+  }
+
+  setGrid(grid: PorkchopGrid | null, cal: SystemCalendar, metric: PorkchopMetric = 'total'): void {
+    this.grid = grid;
+    this.cal = cal;
+    this.metric = metric;
+    this.draw();
+  }
+
+  setWindows(windows: TransferWindow[]): void {
+    this.windows = windows;
+    this.drawMarks();
+  }
+
+  resize(): void {
+    this.width = Math.max(300, this.container.clientWidth);
+    this.height = Math.max(220, this.container.clientHeight);
+    this.svg.attr('width', this.width).attr('height', this.height);
+    this.draw();
+  }
+
+  private layout(): { x0: number; x1: number; y0: number; y1: number } {
+    const M = PLOT_MARGIN;
+    return { x0: M.left, x1: this.width - M.right, y0: M.top, y1: this.height - M.bottom };
+  }
+
+  private draw(): void {
+    const L = this.layout();
+    this.svg.select('rect.plot-bg').attr('x', L.x0).attr('y', L.y0).attr('width', L.x1 - L.x0).attr('height', L.y1 - L.y0);
+    this.svg.select('rect.hit').attr('x', L.x0).attr('y', L.y0).attr('width', L.x1 - L.x0).attr('height', L.y1 - L.y0);
+    const g = this.grid;
+    if (!g || !this.cal) {
+      this.gContours.selectAll('*').remove();
+      this.gAxes.selectAll('*').remove();
+      this.gLegend.selectAll('*').remove();
+      this.gMarks.selectAll('*').remove();
+      return;
+    }
+    const nDep = g.departTimes.length;
+    const nSec = g.secondValues.length;
+    const tofs = g.request.secondAxis === 'tof';
+    const d0 = g.departTimes[0];
+    const d1 = g.departTimes[nDep - 1];
+    // y is the time of flight in days; an arrival-axis grid is drawn over its flight-time span.
+    const yMin = tofs ? g.secondValues[0] / 86400 : (g.secondValues[0] - d1) / 86400;
+    const yMax = tofs ? g.secondValues[nSec - 1] / 86400 : (g.secondValues[nSec - 1] - d0) / 86400;
+    this.x.domain([d0, d1]).range([L.x0, L.x1]);
+    this.y.domain([yMin, yMax]).range([L.y1, L.y0]);
+
+    // Values on a departure (x) × second-axis (y) grid, row-major in y; unsolved cells become the
+    // cap. Grids finer than CONTOUR_CELLS per side are drawn from every k-th sample (the picture
+    // needs no more; the hover readout reads the full grid).
+    const plane = metricPlane(g.planes, this.metric);
+    let lo = Infinity;
+    for (let k = 0; k < plane.length; k++) if (plane[k] < lo) lo = plane[k];
+    const hiLevel = Number.isFinite(lo) ? lo * LEVEL_SPAN : 1;
+    const stride = Math.max(1, Math.ceil(Math.max(nDep, nSec) / CONTOUR_CELLS));
+    const mDep = Math.ceil((nDep - 1) / stride) + 1;
+    const mSec = Math.ceil((nSec - 1) / stride) + 1;
+    const at = (k: number, n: number) => Math.min(n - 1, k * stride);
+    const values = new Array<number>(mDep * mSec);
+    for (let a = 0; a < mDep; a++) {
+      const i = at(a, nDep);
+      for (let b = 0; b < mSec; b++) {
+        const v = plane[i * nSec + at(b, nSec)];
+        values[b * mDep + a] = Number.isFinite(v) ? Math.min(v, hiLevel * 1.5) : hiLevel * 1.5;
+      }
+    }
+    const thresholds = d3.range(LEVELS).map((k) => lo + ((hiLevel - lo) * k) / (LEVELS - 1));
+    const colour = d3.scaleSequential(RAMP).domain([lo, hiLevel]);
+    const contours = d3.contours().size([mDep, mSec]).thresholds(thresholds)(values);
+    // Contour coordinates (sample centres at half-integers) → continuous grid indices → pixels.
+    const gi = (gx: number) => Math.min(nDep - 1, Math.max(0, (gx - 0.5) * stride));
+    const gj = (gy: number) => Math.min(nSec - 1, Math.max(0, (gy - 0.5) * stride));
+    const px = (gx: number) => L.x0 + (gi(gx) / Math.max(1, nDep - 1)) * (L.x1 - L.x0);
+    const pyOf = (gx: number, gy: number) => {
+      const i = Math.round(gi(gx));
+      const secVal = g.secondValues[0] + (gj(gy) / Math.max(1, nSec - 1)) * (g.secondValues[nSec - 1] - g.secondValues[0]);
+      const days = (tofs ? secVal : secVal - g.departTimes[i]) / 86400;
+      return this.y(days);
+    };
+    const proj = d3.geoTransform({
+      point(gx: number, gy: number) {
+        this.stream.point(px(gx), pyOf(gx, gy));
+      },
+    });
+    const path = d3.geoPath(proj);
+    this.gContours.attr('clip-path', null);
+    this.gContours
+      .selectAll<SVGPathElement, d3.ContourMultiPolygon>('path')
+      .data(contours)
+      .join('path')
+      .attr('d', (c) => path(c))
+      .attr('fill', (c) => colour(c.value))
+      .attr('stroke', (c, k) => (k % 4 === 0 ? '#0f1416' : 'none'))
+      .attr('stroke-opacity', 0.35)
+      .attr('stroke-width', 0.6);
+
+    // Axes.
+    this.gAxes.selectAll('*').remove();
+    const ticks = calendarTicks(this.cal, d0, d1, Math.max(3, Math.floor((L.x1 - L.x0) / 95)));
+    const ax = this.gAxes.append('g').attr('class', 'axis').attr('transform', `translate(0,${L.y1})`);
+    for (const t of ticks) {
+      const gx = ax.append('g').attr('transform', `translate(${this.x(t.t)},0)`);
+      gx.append('line').attr('y2', 5);
+      gx.append('text').attr('y', 16).attr('text-anchor', 'middle').text(t.label);
+    }
+    ax.append('text').attr('class', 'axis-title').attr('x', (L.x0 + L.x1) / 2).attr('y', 34).attr('text-anchor', 'middle').text('departure (system calendar)');
+    const ay = this.gAxes.append('g').attr('class', 'axis').attr('transform', `translate(${L.x0},0)`);
+    for (const d of this.y.ticks(6)) {
+      const gy = ay.append('g').attr('transform', `translate(0,${this.y(d)})`);
+      gy.append('line').attr('x2', -5);
+      gy.append('text').attr('x', -8).attr('dy', '0.32em').attr('text-anchor', 'end').text(`${d}`);
+    }
+    ay.append('text').attr('class', 'axis-title').attr('transform', `translate(-44,${(L.y0 + L.y1) / 2}) rotate(-90)`).attr('text-anchor', 'middle').text('flight time, days');
+
+    // Legend: the colour ramp with Δv labels.
+    this.gLegend.selectAll('*').remove();
+    const lg = this.gLegend.attr('transform', `translate(${L.x1 + 18},${L.y0})`);
+    const lh = L.y1 - L.y0;
+    const steps = 40;
+    for (let k = 0; k < steps; k++) {
+      lg.append('rect')
+        .attr('x', 0)
+        .attr('y', (lh * k) / steps)
+        .attr('width', 12)
+        .attr('height', lh / steps + 0.5)
+        .attr('fill', colour(lo + ((hiLevel - lo) * k) / (steps - 1)));
+    }
+    const unit = this.metric === 'c3' ? 'km²/s²' : 'km/s';
+    const scale = this.metric === 'c3' ? 1e-6 : 1e-3;
+    for (const f of [0, 0.25, 0.5, 0.75, 1]) {
+      lg.append('text')
+        .attr('class', 'axis')
+        .attr('x', 16)
+        .attr('y', lh * f + 4)
+        .attr('fill', '#8c9b95')
+        .attr('font-size', 10)
+        .attr('font-family', 'var(--mono)')
+        .text(`${((lo + (hiLevel - lo) * f) * scale).toFixed(2)}`);
+    }
+    lg.append('text').attr('x', 0).attr('y', lh + 16).attr('fill', '#8c9b95').attr('font-size', 10).text(`${this.metric === 'c3' ? 'C3' : 'Δv'} ${unit}`);
+    this.drawMarks();
+  }
+
+  private drawMarks(): void {
+    const g = this.grid;
+    this.gMarks.selectAll('*').remove();
+    if (!g) return;
+    this.windows.forEach((w, k) => {
+      const m = this.gMarks.append('g').attr('class', 'window-mark').attr('transform', `translate(${this.x(w.departure)},${this.y(w.tof / 86400)})`);
+      m.append('circle').attr('r', 5).attr('fill', 'none').attr('stroke', '#0f1416').attr('stroke-width', 3);
+      m.append('circle').attr('r', 5).attr('fill', 'none').attr('stroke', '#ff9b45').attr('stroke-width', 1.6);
+      m.append('text').attr('x', 8).attr('y', -6).attr('fill', '#ff9b45').attr('font-size', 11).attr('font-weight', 600).text(String(k + 1));
+    });
+  }
+
+  private hover(ev: PointerEvent): void {
+    const g = this.grid;
+    if (!g) return;
+    const [px, py] = d3.pointer(ev, this.svg.node());
+    const L = this.layout();
+    this.cross.attr('display', null);
+    this.cross.select('.cx').attr('x1', px).attr('x2', px).attr('y1', L.y0).attr('y2', L.y1);
+    this.cross.select('.cy').attr('x1', L.x0).attr('x2', L.x1).attr('y1', py).attr('y2', py);
+    const departure = this.x.invert(px);
+    const tofDays = this.y.invert(py);
+    const nDep = g.departTimes.length;
+    const nSec = g.secondValues.length;
+    const i = Math.round(((departure - g.departTimes[0]) / (g.departTimes[nDep - 1] - g.departTimes[0] || 1)) * (nDep - 1));
+    const secVal = g.request.secondAxis === 'tof' ? tofDays * 86400 : departure + tofDays * 86400;
+    const j = Math.round(((secVal - g.secondValues[0]) / (g.secondValues[nSec - 1] - g.secondValues[0] || 1)) * (nSec - 1));
+    if (i < 0 || j < 0 || i >= nDep || j >= nSec) {
+      this.cb.onHover(null);
+      return;
+    }
+    this.cb.onHover({ i, j, departure, tof: tofDays * 86400 });
+  }
+
+  dispose(): void {
+    this.svg.remove();
+  }
+}

@@ -1,0 +1,50 @@
+import { describe, expect, it, vi } from 'vitest';
+import type { WaymarkBridge } from '../../../../app/preload/api.ts';
+import { createElectronHost } from '../../../../app/renderer/host/electronHost.ts';
+import { createHost } from '../../../../app/renderer/host/index.ts';
+
+function bridge(): WaymarkBridge {
+  return {
+    kind: 'electron',
+    openDialog: vi.fn(async () => ({ path: '/p/a.plan.json', name: 'a.plan.json', text: 'A' })),
+    openRecent: vi.fn(async (p: string) => ({ path: p, name: 'r.plan.json', text: 'R' })),
+    openSystemDialog: vi.fn(async () => null),
+    readSystemBeside: vi.fn(async () => ({ path: '/s/s.json', name: 's.json', text: 'S' })),
+    save: vi.fn(async (p: string) => ({ path: p, name: 'a.plan.json' })),
+    saveAs: vi.fn(async () => ({ path: '/p/new.plan.json', name: 'new.plan.json' })),
+    exportFile: vi.fn(async () => null),
+    recentList: vi.fn(async () => [{ path: '/p/a.plan.json', name: 'a.plan.json', at: 1 }]),
+    recoveryRead: vi.fn(async () => null),
+    recoveryWrite: vi.fn(async () => undefined),
+    recoveryClear: vi.fn(async () => undefined),
+    setDocumentState: vi.fn(async () => undefined),
+    closeConfirmed: vi.fn(async () => undefined),
+    onMenu: vi.fn(() => () => undefined),
+  };
+}
+
+describe('Electron host', () => {
+  it('maps the preload API onto the host interface', async () => {
+    const b = bridge();
+    const host = createElectronHost(b);
+    expect(await host.openPlan()).toEqual({ ref: { name: 'a.plan.json', path: '/p/a.plan.json', handle: null }, text: 'A' });
+    expect(await host.recentFiles()).toEqual([{ key: '/p/a.plan.json', name: 'a.plan.json', at: 1 }]);
+    expect(await host.readSystemBeside({ name: 'a', path: '/p/a.plan.json', handle: null }, '../s.json')).toBe('S');
+    expect(b.readSystemBeside).toHaveBeenCalledWith('/p/a.plan.json', '../s.json');
+  });
+
+  it('saves to the path, or asks (Save As) when there is none', async () => {
+    const b = bridge();
+    const host = createElectronHost(b);
+    await host.save({ name: 'a.plan.json', path: '/p/a.plan.json', handle: null }, 'T');
+    expect(b.save).toHaveBeenCalledWith('/p/a.plan.json', 'T');
+    const ref = await host.save({ name: 'demo.plan.json', path: null, handle: null }, 'T');
+    expect(b.saveAs).toHaveBeenCalledWith('demo.plan.json', 'T');
+    expect(ref?.path).toBe('/p/new.plan.json');
+  });
+
+  it('is chosen when the preload exposed window.waymark', () => {
+    const w = { waymark: bridge() } as unknown as Window & typeof globalThis;
+    expect(createHost(w).kind).toBe('electron');
+  });
+});

@@ -1,0 +1,56 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { parsePlanFile } from '../../../../core/io/planFile.ts';
+import { parseSystemFile } from '../../../../core/io/systemFile.ts';
+import { evaluate } from '../../../../core/mission/evaluate.ts';
+import { segmentIndexAt, shipStateAt } from '../../../../app/renderer/scene/shipState.ts';
+
+const root = new URL('../../../../', import.meta.url);
+const system = parseSystemFile(readFileSync(new URL('assets/systems/ilmar.system.json', root), 'utf8')).system;
+const plan = parsePlanFile(readFileSync(new URL('assets/plans/tessel-to-ochre.plan.json', root), 'utf8')).plan;
+const result = evaluate(system, plan);
+const s6 = new Float64Array(6);
+
+describe('ship state at the time cursor', () => {
+  it('agrees with the drawing samples of every coast (sampled in the universal anomaly, an independent parametrisation)', () => {
+    for (const seg of result.segments) {
+      if (seg.kind !== 'coast') continue;
+      for (let k = 0; k < seg.sampleT.length; k += 7) {
+        const t = seg.sampleT[k];
+        if (t > seg.t1) break;
+        shipStateAt(result, t, s6);
+        const r = Math.hypot(seg.samples[3 * k], seg.samples[3 * k + 1], seg.samples[3 * k + 2]);
+        const d = Math.hypot(s6[0] - seg.samples[3 * k], s6[1] - seg.samples[3 * k + 1], s6[2] - seg.samples[3 * k + 2]);
+        expect(d / r).toBeLessThan(1e-8);
+      }
+    }
+  });
+
+  it('stands at the SOI radius when the evaluation says the ship crosses it', () => {
+    for (const e of result.events.filter((x) => x.kind === 'soi-exit')) {
+      const k = shipStateAt(result, e.t - 1e-3, s6);
+      expect(result.segments[k].central).toBe(e.central);
+      expect(Math.hypot(s6[0], s6[1], s6[2]) / system.bodies[e.central].derived.soiRadius).toBeCloseTo(1, 6);
+    }
+  });
+
+  it('is continuous in position across an impulsive burn', () => {
+    // The demo's mid-course correction: impulsive, about the star.
+    const row = result.budget.rows.find((r) => /mid-course/i.test(r.name))!;
+    const a = new Float64Array(6);
+    const b = new Float64Array(6);
+    const ka = shipStateAt(result, row.t - 1e-3, a);
+    const kb = shipStateAt(result, row.t + 1e-3, b);
+    expect(ka).not.toBe(kb);
+    expect(result.segments[ka].central).toBe(result.segments[kb].central);
+    // 1 ms at ~30 km/s moves 30 m; the velocity jumps by the burn's Δv.
+    expect(Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2])).toBeLessThan(100);
+    expect(Math.hypot(a[3] - b[3], a[4] - b[4], a[5] - b[5])).toBeCloseTo(row.dv, 3);
+  });
+
+  it('clamps to the first and last segment outside the flight', () => {
+    expect(segmentIndexAt(result.segments, -1e12)).toBe(0);
+    expect(segmentIndexAt(result.segments, 1e12)).toBe(result.segments.length - 1);
+    expect(segmentIndexAt([], 0)).toBe(-1);
+  });
+});

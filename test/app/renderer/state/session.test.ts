@@ -1,0 +1,175 @@
+import { readFileSync } from 'node:fs';
+import { describe, expect, it, vi } from 'vitest';
+import { parsePlanFile } from '../../../../core/io/planFile.ts';
+import { evaluate } from '../../../../core/mission/evaluate.ts';
+import * as edits from '../../../../app/renderer/plan/edits.ts';
+import { Session, blankPlan, type SessionDeps } from '../../../../app/renderer/state/session.ts';
+import { fakeHost, type FakeHost } from './fakeHost.ts';
+
+const root = new URL('../../../../', import.meta.url);
+const systemText = readFileSync(new URL('assets/systems/ilmar.system.json', root), 'utf8');
+const demoText = readFileSync(new URL('assets/plans/tessel-to-ochre.plan.json', root), 'utf8');
+
+async function session(host: FakeHost = fakeHost(), ask: SessionDeps['ask'] = async () => 'cancel') {
+  const s = await Session.create({
+    host,
+    evaluate: (sys, plan) => evaluate(sys, plan),
+    bundledSystems: { 'ilmar.system.json': systemText },
+    demo: { name: 'tessel-to-ochre.plan.json', text: demoText },
+    ask,
+    autosaveMs: 0,
+    now: () => 1234,
+  });
+  return { s, host };
+}
+
+describe('session: the open document and its files', () => {
+  it('opens on the demo plan, evaluated, with nothing unsaved', async () => {
+    const { s, host } = await session();
+    const d = s.doc.get();
+    expect(d.name).toBe('tessel-to-ochre.plan.json');
+    expect(d.dirty).toBe(false);
+    expect(d.plan.vehicle.name).toBe('Long Patience');
+    const e = s.evaluation.get();
+    expect(e.error).toBeNull();
+    expect(e.result!.budget.rows.length).toBeGreaterThan(0);
+    expect(s.cursor.get().t).toBe(e.result!.t0);
+    expect(host.titles.at(-1)).toBe('tessel-to-ochre.plan.json — Waymark');
+  });
+
+  it('re-evaluates after every edit, marks it unsaved, and undo takes it back', async () => {
+    const { s, host } = await session();
+    const before = s.evaluation.get().result!.budget.rows.length;
+    s.doc.edit('Add burn', (p) => edits.addEvent(p, 'burn'));
+    expect(s.evaluation.get().result!.budget.rows.length).toBe(before + 1);
+    expect(s.doc.get().dirty).toBe(true);
+    expect(host.titles.at(-1)).toMatch(/^• /);
+    await s.command({ command: 'undo' });
+    expect(s.evaluation.get().result!.budget.rows.length).toBe(before);
+    expect(s.doc.get().dirty).toBe(false);
+    await s.command({ command: 'redo' });
+    expect(s.evaluation.get().result!.budget.rows.length).toBe(before + 1);
+  });
+
+  it('saves, and the saved file reads back to the same plan', async () => {
+    const { s, host } = await session();
+    s.doc.edit('Edit reserve', (p) => edits.setReserve(p, { percent: 4.5 }));
+    expect(await s.save()).toBe(true);
+    expect(host.save).toHaveBeenCalledOnce();
+    const text = host.files.get('tessel-to-ochre.plan.json')!;
+    expect(parsePlanFile(text).plan).toEqual(s.doc.get().plan);
+    expect(s.doc.get().dirty).toBe(false);
+    expect(await s.saveAs()).toBe(true);
+    expect(s.doc.get().file?.path).toBe('/plans/tessel-to-ochre.plan.json');
+  });
+
+  it('a bad plan file shows every issue and changes nothing', async () => {
+    const { s } = await session();
+    const before = s.doc.get();
+    const bad = JSON.parse(demoText);
+    bad.vehicle.stages[0].isp_s = -5;
+    bad.events[0].frame = 'sideways';
+    const ok = await s.openText(JSON.stringify(bad), { name: 'bad.plan.json', path: null, handle: null });
+    expect(ok).toBe(false);
+    const n = s.notices.get().at(-1)!;
+    expect(n.kind).toBe('error');
+    expect(n.title).toMatch(/bad\.plan\.json was not opened/);
+    const paths = n.issues!.map((i) => i.path);
+    expect(paths).toContain('vehicle.stages[0].isp_s');
+    expect(paths).toContain('events[0].frame');
+    expect(s.doc.get().plan).toBe(before.plan);
+    expect(s.doc.get().revision).toBe(before.revision);
+  });
+
+  it('not JSON at all: one issue, nothing changed', async () => {
+    const { s } = await session();
+    const before = s.doc.get().plan;
+    expect(await s.openText('{ nope', { name: 'x.json', path: null, handle: null })).toBe(false);
+    expect(s.notices.get().at(-1)!.issues![0].rule).toMatch(/not valid JSON/);
+    expect(s.doc.get().plan).toBe(before);
+  });
+
+  it('asks for a system file it cannot find, and refuses the plan without one', async () => {
+    const { s, host } = await session();
+    const other = demoText.replace('../systems/ilmar.system.json', '../systems/elsewhere.system.json');
+    expect(await s.openText(other, { name: 'o.plan.json', path: null, handle: null })).toBe(false);
+    expect(host.openSystem).toHaveBeenCalled();
+    expect(s.notices.get().at(-1)!.issues![0].path).toBe('system.path');
+    host.nextSystem = { ref: { name: 'elsewhere.system.json', path: null, handle: null }, text: systemText };
+    expect(await s.openText(other, { name: 'o.plan.json', path: null, handle: null })).toBe(true);
+    expect(s.doc.get().name).toBe('o.plan.json');
+  });
+
+  it('asks before discarding unsaved changes; Cancel keeps them', async () => {
+    const ask = vi.fn(async () => 'cancel');
+    const { s, host } = await session(fakeHost(), ask);
+    s.doc.edit('Rename', (p) => edits.setPlanInfo(p, { name: 'Changed' }));
+    host.nextOpen = { ref: { name: 'n.plan.json', path: null, handle: null }, text: demoText };
+    await s.open();
+    expect(ask).toHaveBeenCalledOnce();
+    expect(host.openPlan).not.toHaveBeenCalled();
+    expect(s.doc.get().plan.name).toBe('Changed');
+  });
+
+  it('Discard opens the other plan', async () => {
+    const { s, host } = await session(fakeHost(), async () => 'discard');
+    s.doc.edit('Rename', (p) => edits.setPlanInfo(p, { name: 'Changed' }));
+    host.nextOpen = { ref: { name: 'n.plan.json', path: null, handle: null }, text: demoText };
+    await s.open();
+    expect(s.doc.get().name).toBe('n.plan.json');
+    expect(s.doc.get().dirty).toBe(false);
+    expect(s.doc.get().canUndo).toBe(false);
+  });
+
+  it('autosaves unsaved work and offers it back after a restart', async () => {
+    const host = fakeHost();
+    const { s } = await session(host);
+    s.doc.edit('Rename', (p) => edits.setPlanInfo(p, { name: 'Unsaved work' }));
+    await s.autosave();
+    expect(host.recovery?.name).toBe('tessel-to-ochre.plan.json');
+    // "crash": a new session on the same host
+    const { s: s2 } = await session(host);
+    const offer = s2.notices.get().find((n) => n.title === 'Unsaved work was found')!;
+    expect(offer).toBeTruthy();
+    await offer.actions![0].run();
+    expect(s2.doc.get().plan.name).toBe('Unsaved work');
+    expect(s2.doc.get().dirty).toBe(true);
+  });
+
+  it('clears the recovery copy once the work is saved', async () => {
+    const host = fakeHost();
+    const { s } = await session(host);
+    s.doc.edit('Rename', (p) => edits.setPlanInfo(p, { name: 'X' }));
+    await s.autosave();
+    expect(host.recovery).not.toBeNull();
+    await s.save();
+    expect(host.recovery).toBeNull();
+  });
+
+  it('New starts a blank plan in the same system', async () => {
+    const { s } = await session();
+    await s.newPlan();
+    const d = s.doc.get();
+    expect(d.name).toBe('Untitled plan');
+    expect(d.plan.events).toEqual([]);
+    expect(d.plan).toEqual(blankPlan(d.system));
+    expect(d.issues.filter((i) => i.severity === 'error')).toEqual([]);
+  });
+
+  it('exports the report, the burn table, CSV and OEM ephemerides', async () => {
+    const { s, host } = await session();
+    for (const kind of ['report', 'burns-csv', 'csv', 'oem'] as const) await s.exportAs(kind);
+    expect(host.exported.map((x) => x.name)).toEqual(['tessel-to-ochre.report.md', 'tessel-to-ochre.burns.csv', 'tessel-to-ochre.ephemeris.csv', 'tessel-to-ochre.oem']);
+    expect(host.exported[0].text).toMatch(/Δv budget/);
+    expect(host.exported[3].text).toMatch(/^CCSDS_OEM_VERS\s+=\s+2\.0/);
+  });
+
+  it('an edit that breaks the plan keeps the last result, marked stale, with the field named', async () => {
+    const { s } = await session();
+    s.doc.edit('Break isp', (p) => edits.updateStage(p, 0, { isp: -1 }));
+    const e = s.evaluation.get();
+    expect(e.stale).toBe(true);
+    expect(e.result).not.toBeNull();
+    expect(e.error?.field).toBe('vehicle.stages[0].isp');
+  });
+});

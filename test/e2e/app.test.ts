@@ -1,0 +1,235 @@
+/**
+ * End to end: the built renderer served in browser mode, driven in Debian's headless chromium
+ * (software WebGL) through playwright-core. The steps share one page and run in order, as a
+ * new user would: the demo plan loads, the 3D view draws, the timeline cursor moves the scene,
+ * edits update the budget, undo/redo, save/reopen, a bad file, a porkchop click.
+ * Screenshots go to test/output/e2e/.
+ */
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import config from '../../electron.config.ts';
+import { buildRenderer } from '../../app/renderer/build/buildRenderer.ts';
+import { serveStatic, type Served } from '../../app/renderer/build/serve.ts';
+import { parsePlanFile } from '../../core/io/planFile.ts';
+
+const CHROMIUM = '/usr/bin/chromium';
+const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+const OUT = new URL('../output/e2e/', import.meta.url).pathname;
+const have = existsSync(CHROMIUM);
+if (!have && process.env.CI) throw new Error(`${CHROMIUM} is missing: CI must install Debian chromium (apt-get install -y chromium)`);
+if (!have) console.warn(`e2e skipped: ${CHROMIUM} not found (apt-get install -y chromium); in CI this fails instead`);
+
+let served: Served;
+let browser: Browser;
+let page: Page;
+const pageErrors: string[] = [];
+
+/** Reads a value from the page's debug handle (window.waymarkDebug). */
+const js = <T>(expr: string): Promise<T> => page.evaluate(expr) as Promise<T>;
+const plan = () => js<Record<string, unknown>>('window.waymarkDebug.session.doc.get().plan');
+const budgetRows = () => page.locator('[data-testid=budget-table] tbody tr.row').count();
+/** A checksum of the 3D canvas pixels (the renderer keeps its drawing buffer). */
+const canvasSum = () =>
+  js<number>(`(() => {
+    const s = window.waymarkDebug.scene; s.renderNow();
+    const gl = s.renderer.getContext(); const w = gl.drawingBufferWidth, h = gl.drawingBufferHeight;
+    const px = new Uint8Array(w * h * 4); gl.readPixels(0, 0, w, h, gl.RGBA, gl.UNSIGNED_BYTE, px);
+    let a = 0; for (let k = 0; k < px.length; k += 4) a = (a * 31 + px[k] * 7 + px[k + 1] * 3 + px[k + 2]) % 1000000007;
+    return a; })()`);
+
+describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
+  beforeAll(async () => {
+    mkdirSync(OUT, { recursive: true });
+    const root = await buildRenderer();
+    served = await serveStatic({ root, host: '127.0.0.1', port: 0, contentSecurityPolicy: config.security.contentSecurityPolicy });
+    browser = await chromium.launch({ executablePath: CHROMIUM, headless: true, args: ARGS });
+    const ctx = await browser.newContext({ viewport: { width: 1440, height: 900 }, acceptDownloads: true });
+    // Use the <input type=file> picker and downloads (the File System Access pickers are native dialogs).
+    await ctx.addInitScript('delete window.showOpenFilePicker; delete window.showSaveFilePicker;');
+    page = await ctx.newPage();
+    page.on('pageerror', (e) => pageErrors.push(e.message));
+    page.on('console', (m) => {
+      if (m.type() === 'error') pageErrors.push(m.text());
+    });
+    await page.goto(served.url);
+    await page.waitForSelector('[data-testid=budget-table] tbody tr.row', { timeout: 15_000 });
+  });
+
+  afterAll(async () => {
+    await browser?.close();
+    await served?.close();
+  });
+
+  async function openFile(path: string): Promise<void> {
+    await page.click('[data-testid=menu-file]');
+    const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.click('[data-action=open]')]);
+    await chooser.setFiles(path);
+  }
+
+  it('opens on the demo plan with its budget and a positive margin, without page errors', async () => {
+    await expect.poll(() => page.textContent('[data-testid=doc-name]')).toContain('tessel-to-ochre.plan.json');
+    expect(await budgetRows()).toBe(5);
+    const margin = Number(await page.getAttribute('[data-margin]', 'data-margin'));
+    expect(margin).toBeGreaterThan(0);
+    expect(await page.textContent('[data-testid=status]')).toMatch(/margin/);
+    expect(await page.locator('[data-testid=unsaved]').count()).toBe(0);
+    await page.screenshot({ path: `${OUT}01-demo.png` });
+    expect(pageErrors).toEqual([]);
+  });
+
+  it('draws the 3D view with software WebGL (the canvas is not blank)', async () => {
+    const frac = await js<number>('window.waymarkDebug.scene.nonBackgroundFraction()');
+    expect(frac).toBeGreaterThan(0.003);
+    const colours = await js<number>(`(() => {
+      const s = window.waymarkDebug.scene; s.renderNow();
+      const gl = s.renderer.getContext(); const w = gl.drawingBufferWidth, h = gl.drawingBufferHeight;
+      const px = new Uint8Array(w * h * 4); gl.readPixels(0, 0, w, h, gl.RGBA, gl.UNSIGNED_BYTE, px);
+      const set = new Set(); for (let k = 0; k < px.length; k += 16) set.add((px[k] >> 3) << 10 | (px[k + 1] >> 3) << 5 | (px[k + 2] >> 3));
+      return set.size; })()`);
+    expect(colours).toBeGreaterThan(20);
+    await page.locator('[data-testid=system-canvas]').screenshot({ path: `${OUT}02-system-view.png` });
+  });
+
+  it('dragging the timeline cursor moves the ship and the bodies and changes the readouts', async () => {
+    const before = { date: await page.textContent('[data-testid=cursor-date]'), met: await page.textContent('[data-testid=cursor-met]'), sum: await canvasSum(), ship: await js<number[]>('Array.from(window.waymarkDebug.scene.shipPosition())') };
+    const handle = page.locator('.cursor-handle');
+    const box = (await handle.boundingBox())!;
+    const svg = (await page.locator('.timeline-svg').boundingBox())!;
+    await page.mouse.move(box.x + box.width / 2, box.y + 5);
+    await page.mouse.down();
+    await page.mouse.move(svg.x + svg.width * 0.45, box.y + 5, { steps: 8 });
+    await page.mouse.up();
+    await page.waitForTimeout(100);
+    const after = { date: await page.textContent('[data-testid=cursor-date]'), met: await page.textContent('[data-testid=cursor-met]'), sum: await canvasSum(), ship: await js<number[]>('Array.from(window.waymarkDebug.scene.shipPosition())') };
+    expect(after.date).not.toBe(before.date);
+    expect(after.met).not.toBe(before.met);
+    expect(after.met).toMatch(/^T\+ \d+d/);
+    expect(after.sum).not.toBe(before.sum);
+    expect(Math.hypot(after.ship[0] - before.ship[0], after.ship[1] - before.ship[1], after.ship[2] - before.ship[2])).toBeGreaterThan(1e9);
+    // Arrow keys step the cursor.
+    await page.focus('[data-testid=timeline]');
+    await page.keyboard.press('ArrowRight');
+    expect(await page.textContent('[data-testid=cursor-date]')).not.toBe(after.date);
+    await page.screenshot({ path: `${OUT}03-scrubbed.png` });
+  });
+
+  it('adding a burn adds a budget row and raises the planned total; undo and redo take it back and forth', async () => {
+    const rows = await budgetRows();
+    const total = await page.textContent('[data-testid=total]');
+    await page.click('[data-action=add-burn]');
+    await expect.poll(budgetRows).toBe(rows + 1);
+    expect(await page.textContent('[data-testid=total]')).not.toBe(total);
+    expect(await page.locator('[data-testid=unsaved]').count()).toBe(1);
+    await page.click('[data-action=undo]');
+    await expect.poll(budgetRows).toBe(rows);
+    expect(await page.textContent('[data-testid=total]')).toBe(total);
+    await page.click('[data-action=redo]');
+    await expect.poll(budgetRows).toBe(rows + 1);
+    // Keyboard: Ctrl+Z / Ctrl+Y outside a field.
+    await page.focus('[data-testid=timeline]');
+    await page.keyboard.press('Control+z');
+    await expect.poll(budgetRows).toBe(rows);
+    await page.keyboard.press('Control+y');
+    await expect.poll(budgetRows).toBe(rows + 1);
+    await page.screenshot({ path: `${OUT}04-burn-added.png` });
+  });
+
+  it('a field typed wrong shows a message naming it and changes nothing', async () => {
+    const rev = await js<number>('window.waymarkDebug.session.doc.get().revision');
+    const field = page.locator('input[data-path="vehicle.stages[0].isp"]');
+    await field.fill('fast');
+    await field.press('Enter');
+    await expect.poll(() => page.locator('[data-field-message="vehicle.stages[0].isp"]').first().textContent()).toMatch(/Stage 1 Isp must be a number/);
+    expect(await js<number>('window.waymarkDebug.session.doc.get().revision')).toBe(rev);
+    await field.fill('339');
+    await field.press('Enter');
+    await expect.poll(() => js<number>('window.waymarkDebug.session.doc.get().plan.vehicle.stages[0].isp')).toBe(339);
+  });
+
+  it('saves (download), reopens the file, and gets the same plan back', async () => {
+    const inMemory = await plan();
+    await page.click('[data-testid=menu-file]');
+    const [download] = await Promise.all([page.waitForEvent('download'), page.click('[data-action=save]')]);
+    const saved = `${OUT}saved.plan.json`;
+    await download.saveAs(saved);
+    expect(download.suggestedFilename()).toBe('tessel-to-ochre.plan.json');
+    await expect.poll(() => page.locator('[data-testid=unsaved]').count()).toBe(0);
+    const fromDisk = parsePlanFile(readFileSync(saved, 'utf8')).plan;
+    expect(fromDisk).toEqual(inMemory);
+    await openFile(saved);
+    await expect.poll(() => page.textContent('[data-testid=doc-name]')).toContain('saved.plan.json');
+    expect(await plan()).toEqual(inMemory);
+    expect(await js<boolean>('window.waymarkDebug.session.doc.get().canUndo')).toBe(false);
+  });
+
+  it('a bad plan file shows its messages with field paths and changes nothing', async () => {
+    const before = await plan();
+    const rev = await js<number>('window.waymarkDebug.session.doc.get().revision');
+    const bad = JSON.parse(readFileSync(`${OUT}saved.plan.json`, 'utf8'));
+    bad.vehicle.stages[1].thrust_N = 'lots';
+    bad.events[0].frame = 'sideways';
+    writeFileSync(`${OUT}bad.plan.json`, JSON.stringify(bad, null, 2));
+    await openFile(`${OUT}bad.plan.json`);
+    const notice = page.locator('[data-testid=notice-error]').last();
+    await expect.poll(() => notice.textContent()).toMatch(/bad\.plan\.json was not opened/);
+    const text = (await notice.textContent())!;
+    expect(text).toContain('vehicle.stages[1].thrust_N');
+    expect(text).toContain('events[0].frame');
+    await page.screenshot({ path: `${OUT}05-bad-file.png` });
+    expect(await plan()).toEqual(before);
+    expect(await js<number>('window.waymarkDebug.session.doc.get().revision')).toBe(rev);
+    expect(await page.textContent('[data-testid=doc-name]')).toContain('saved.plan.json');
+    await notice.locator('button[aria-label=Dismiss]').click();
+  });
+
+  it('verifies the plan in n-body gravity, corrects the mid-course burn and runs a dispersion, each in a worker', async () => {
+    await page.click('[data-action=nbody-verify]');
+    await page.waitForSelector('[data-testid=nbody-result]', { timeout: 20_000 });
+    expect(await page.textContent('[data-testid=nbody-miss]')).toMatch(/(km|Gm)$/);
+    expect(await page.textContent('[data-testid=status-nbody]')).toMatch(/n-body: RK45/);
+    expect(await js<boolean>('window.waymarkDebug.scene.nbodyLine !== null')).toBe(true);
+    await page.click('[data-action=nbody-correct]');
+    await page.waitForSelector('[data-action=nbody-apply]', { timeout: 20_000 });
+    const before = await plan();
+    await page.click('[data-action=nbody-apply]');
+    expect(await plan()).not.toEqual(before);
+    // The edit makes the verification stale: its path leaves the 3D view.
+    await expect.poll(() => js<boolean>('window.waymarkDebug.scene.nbodyLine === null')).toBe(true);
+    await page.click('[data-action=undo]');
+    expect(await plan()).toEqual(before);
+    await page.click('[data-action=disperse]');
+    await page.waitForSelector('[data-testid=dispersion-result]', { timeout: 20_000 });
+    expect(await page.textContent('[data-testid=dispersion-result]')).toMatch(/of 500 runs keep a margin/);
+    await page.screenshot({ path: `${OUT}06-nbody-dispersion.png` });
+  });
+
+  it('computes a porkchop in the worker, and a click on a window puts its transfer burns in the plan', async () => {
+    await page.click('[data-tab=windows]');
+    await page.selectOption('[data-testid=win-grid]', '100');
+    await page.click('[data-testid=win-compute]');
+    await page.waitForSelector('[data-testid=windows-list] tr[data-window]', { timeout: 20_000 });
+    const paths = await page.locator('[data-testid=porkchop] svg .contours path').count();
+    expect(paths).toBeGreaterThan(5);
+    const plot = (await page.locator('[data-testid=porkchop] svg rect.hit').boundingBox())!;
+    await page.mouse.move(plot.x + plot.width * 0.3, plot.y + plot.height * 0.4);
+    await expect.poll(() => page.textContent('[data-testid=porkchop-readout]')).toMatch(/Δv total/);
+    await page.screenshot({ path: `${OUT}07-porkchop.png` });
+    const before = await plan();
+    await page.click('[data-testid=windows-list] tr[data-window="0"]');
+    await expect.poll(() => page.textContent('[data-testid=win-message]')).toMatch(/put in the plan/);
+    const after = (await plan()) as { events: { type: string; solve?: { kind: string } }[]; start: unknown };
+    expect(after).not.toEqual(before);
+    const transfers = after.events.filter((e) => e.type === 'burn' && e.solve?.kind === 'transfer');
+    expect(transfers.length).toBeGreaterThanOrEqual(1);
+    expect(await budgetRows()).toBeGreaterThanOrEqual(2);
+    // One undoable edit.
+    await page.click('[data-action=undo]');
+    expect(await plan()).toEqual(before);
+    await page.click('[data-action=redo]');
+    await page.click('[data-tab=system]');
+    await page.waitForTimeout(150);
+    await page.screenshot({ path: `${OUT}08-after-window.png` });
+    expect(pageErrors).toEqual([]);
+  });
+});
