@@ -5,6 +5,8 @@
 import { Command } from 'commander';
 import { addCalcCommands } from './commands/calc.ts';
 import { addPlanCommands } from './commands/check.ts';
+import { addGamestepCommand } from './commands/gamestep.ts';
+import { addStabilityCommand } from './commands/stability.ts';
 import { addCorrectCommand } from './commands/correct.ts';
 import { addDisperseCommand } from './commands/disperse.ts';
 import { addWindowsCommand } from './commands/windows.ts';
@@ -20,6 +22,8 @@ export function buildProgram(): Command {
   addCalcCommands(program);
   addPlanCommands(program);
   addWindowsCommand(program);
+  addGamestepCommand(program);
+  addStabilityCommand(program);
   addCorrectCommand(program);
   addDisperseCommand(program);
   return program;
