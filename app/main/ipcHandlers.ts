@@ -3,21 +3,33 @@
  * access, recent list, recovery file, the window), so tests can call them without Electron.
  *
  * Rules at the boundary:
- * - every handler checks that the call comes from the app's own page (`isTrustedSender`);
- * - every argument is validated (validate.ts) before use;
+ * - every handler checks that the call comes from the app's own page (`isTrustedSender`), from
+ *   its top frame (a frame inside the page gets no access);
+ * - every argument is validated (validate.ts) before use: types, the exact number of arguments,
+ *   paths (absolute, no control characters, at most 4096 characters, the right extension), texts
+ *   at most MAX_FILE_CHARS (32 Mi characters) long, plan texts with a plan header;
  * - the renderer can only read files the user picked in a dialog or that are on the recent list,
- *   and only write paths the user picked or opened in this session;
- * - saves are atomic (atomicWrite.ts) and keep the previous version as a backup.
+ *   and a system file beside a plan it opened; only write paths the user picked or opened in
+ *   this session;
+ * - what is read must be the kind of file the channel carries (a plan, a system file: its JSON
+ *   header says so, in a version this program reads), else it is refused: a crafted plan cannot
+ *   make main hand over an arbitrary JSON file through `readSystemBeside`;
+ * - a file a newer Waymark wrote is never overwritten (the renderer offers Save As instead);
+ * - saves are atomic (app/node/files.ts `atomicWriteFileAsync`) and keep the previous version
+ *   as a backup.
  */
 import { basename, dirname, isAbsolute, resolve } from 'node:path';
 import { IPC, MAX_FILE_CHARS, type DocumentState, type ExportKind, type OpenedFile, type RecentEntry, type RecoverySnapshot, type SavedFile } from '../preload/api.ts';
+import { headerProblem, type FileKind } from '../preload/fileHeader.ts';
 import type { RecentStore } from './recentFiles.ts';
 import {
   ArgumentError,
+  requireArguments,
   requireDocumentState,
   requireExportKind,
   requireFileName,
   requireFilePath,
+  requireFileText,
   requireNoArguments,
   requireRecoverySnapshot,
   requireText,
@@ -68,9 +80,10 @@ export interface HandlerDeps {
   isTrustedSender(url: string): boolean;
 }
 
-/** Who called: the URL of the sending frame. */
+/** Who called: the URL of the sending frame, and whether it is the page's top frame. */
 export interface Sender {
   url: string;
+  topFrame: boolean;
 }
 
 export type Handler = (sender: Sender, ...args: unknown[]) => Promise<unknown>;
@@ -83,23 +96,42 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
     <A extends unknown[]>(fn: (...args: A) => Promise<unknown>, check: (args: unknown[]) => A): Handler =>
     async (sender, ...args) => {
       if (!deps.isTrustedSender(sender.url)) throw new ArgumentError('sender', `is not the app's page (${sender.url})`);
+      if (sender.topFrame !== true) throw new ArgumentError('sender', 'is not the top frame of the app\'s page');
       return fn(...check(args));
     };
 
-  async function readOnly(path: string): Promise<OpenedFile> {
+  /** Reads a `kind` file: within the size limit, and its header says it is one this program reads. */
+  async function readOnly(path: string, kind: FileKind): Promise<OpenedFile> {
     const size = await deps.files.size(path);
     if (size > MAX_FILE_CHARS) throw new ArgumentError('path', `names a file of ${size} bytes, over the limit of ${MAX_FILE_CHARS}`);
-    return { path, name: basename(path), text: await deps.files.readText(path) };
+    const text = await deps.files.readText(path);
+    const problem = headerProblem(text, kind);
+    if (problem) throw new ArgumentError(basename(path), problem.rule);
+    return { path, name: basename(path), text };
   }
 
   async function read(path: string): Promise<OpenedFile> {
-    const opened = await readOnly(path);
+    const opened = await readOnly(path, 'plan');
     writable.add(path);
     await deps.recent.add(path);
     return opened;
   }
 
+  /** Refuses to replace a plan file a newer Waymark wrote (a file that cannot be read counts as none). */
+  async function refuseNewer(path: string): Promise<void> {
+    let text: string;
+    try {
+      if ((await deps.files.size(path)) > MAX_FILE_CHARS) return;
+      text = await deps.files.readText(path);
+    } catch {
+      return; // no file there yet
+    }
+    const problem = headerProblem(text, 'plan');
+    if (problem?.newer) throw new ArgumentError(basename(path), `${problem.rule}: it is not overwritten; use Save As to save under another name`);
+  }
+
   async function write(path: string, text: string): Promise<SavedFile> {
+    await refuseNewer(path);
     await deps.files.writeAtomic(path, text);
     writable.add(path);
     await deps.recent.add(path);
@@ -122,21 +154,24 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
         if (!(await deps.recent.has(path))) throw new ArgumentError('path', 'is not on the recent-files list');
         return read(path);
       },
-      (args): [string] => [requireFilePath('path', args[0], PLAN_EXTENSIONS)],
+      (args): [string] => {
+        requireArguments(args, ['path']);
+        return [requireFilePath('path', args[0], PLAN_EXTENSIONS)];
+      },
     ),
 
     [IPC.openSystemDialog]: guard(async (): Promise<OpenedFile | null> => {
       const path = await deps.dialogs.showOpen(SYSTEM_FILTERS);
-      return path === null ? null : readOnly(requireFilePath('path', path, PLAN_EXTENSIONS));
+      return path === null ? null : readOnly(requireFilePath('path', path, PLAN_EXTENSIONS), 'system');
     }, none),
 
     [IPC.readSystemBeside]: guard(
       async (planPath: string, relativePath: string): Promise<OpenedFile> => {
         if (!writable.has(planPath)) throw new ArgumentError('planPath', 'is not a plan opened or saved in this session');
-        return readOnly(resolve(dirname(planPath), relativePath));
+        return readOnly(resolve(dirname(planPath), relativePath), 'system');
       },
       (args): [string, string] => {
-        if (args.length !== 2) throw new ArgumentError('arguments', 'must be (planPath, relativePath)');
+        requireArguments(args, ['planPath', 'relativePath']);
         const planPath = requireFilePath('planPath', args[0], PLAN_EXTENSIONS);
         const rel = requireText('relativePath', args[1], 4096);
         if (rel === '' || isAbsolute(rel) || /[\u0000-\u001f]/.test(rel) || !rel.toLowerCase().endsWith('.json')) {
@@ -152,8 +187,8 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
         return write(path, text);
       },
       (args): [string, string] => {
-        if (args.length !== 2) throw new ArgumentError('arguments', 'must be (path, text)');
-        return [requireFilePath('path', args[0], PLAN_EXTENSIONS), requireText('text', args[1])];
+        requireArguments(args, ['path', 'text']);
+        return [requireFilePath('path', args[0], PLAN_EXTENSIONS), requireFileText('text', args[1], 'plan')];
       },
     ),
 
@@ -163,8 +198,8 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
         return path === null ? null : write(requireFilePath('path', path, PLAN_EXTENSIONS), text);
       },
       (args): [string, string] => {
-        if (args.length !== 2) throw new ArgumentError('arguments', 'must be (suggestedName, text)');
-        return [requireFileName('suggestedName', args[0]), requireText('text', args[1])];
+        requireArguments(args, ['suggestedName', 'text']);
+        return [requireFileName('suggestedName', args[0]), requireFileText('text', args[1], 'plan')];
       },
     ),
 
@@ -177,7 +212,7 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
         return { path, name: basename(path) };
       },
       (args): [ExportKind, string, string] => {
-        if (args.length !== 3) throw new ArgumentError('arguments', 'must be (kind, suggestedName, text)');
+        requireArguments(args, ['kind', 'suggestedName', 'text']);
         return [requireExportKind('kind', args[0]), requireFileName('suggestedName', args[1]), requireText('text', args[2])];
       },
     ),
@@ -189,7 +224,7 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
     [IPC.recoveryWrite]: guard(
       async (snapshot: RecoverySnapshot) => deps.recovery.write(snapshot),
       (args): [RecoverySnapshot] => {
-        if (args.length !== 1) throw new ArgumentError('arguments', 'must be (snapshot)');
+        requireArguments(args, ['snapshot']);
         return [requireRecoverySnapshot('snapshot', args[0])];
       },
     ),
@@ -199,7 +234,7 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
     [IPC.documentState]: guard(
       async (state: DocumentState) => deps.window.setDocumentState(state),
       (args): [DocumentState] => {
-        if (args.length !== 1) throw new ArgumentError('arguments', 'must be (state)');
+        requireArguments(args, ['state']);
         return [requireDocumentState('state', args[0])];
       },
     ),

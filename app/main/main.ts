@@ -12,14 +12,14 @@ import { mkdir, readFile, rm, stat } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import config from '../../electron.config.ts';
+import { atomicWriteFileAsync } from '../node/files.ts';
 import { IPC, type MenuCommand } from '../preload/api.ts';
-import { atomicWriteFile } from './atomicWrite.ts';
 import { createCloseGuard } from './closeGuard.ts';
 import { createIpcHandlers, createRecoveryStore } from './ipcHandlers.ts';
 import { menuTemplate } from './menuTemplate.ts';
 import { createRecentStore } from './recentFiles.ts';
 import { createAppProtocolHandler } from './appProtocol.ts';
-import { APP_INDEX_URL, APP_SCHEME, isAllowedRequest, trustedSender, webPreferences, withCsp } from './security.ts';
+import { APP_INDEX_URL, APP_SCHEME, lockDownContents, lockDownSession, trustedSender, webPreferences } from './security.ts';
 
 const here = dirname(fileURLToPath(import.meta.url)); // dist/main
 const rendererDir = join(here, '..', 'renderer');
@@ -35,7 +35,7 @@ let win: BrowserWindow | null = null;
 const files = {
   readText: (p: string) => readFile(p, 'utf8'),
   size: async (p: string) => (await stat(p)).size,
-  writeAtomic: (p: string, text: string) => atomicWriteFile(p, text),
+  writeAtomic: (p: string, text: string) => atomicWriteFileAsync(p, text),
   remove: (p: string) => rm(p, { force: true }),
 };
 
@@ -113,7 +113,7 @@ function createWindow(): void {
     backgroundColor: w.backgroundColor,
     title: w.title,
     show: false,
-    webPreferences: webPreferences(config, preloadPath),
+    webPreferences: webPreferences(config, preloadPath, { devTools: !app.isPackaged }),
   });
   win.once('ready-to-show', () => win?.show());
   win.on('close', (e) => {
@@ -125,25 +125,16 @@ function createWindow(): void {
   void win.loadURL(APP_INDEX_URL);
 }
 
-app.on('web-contents-created', (_e, contents) => {
-  // No navigation away from the app, no new windows, no webviews.
-  contents.on('will-navigate', (e) => e.preventDefault());
-  contents.on('will-redirect', (e) => e.preventDefault());
-  contents.on('will-attach-webview', (e) => e.preventDefault());
-  contents.setWindowOpenHandler(() => ({ action: 'deny' }));
-});
+// No navigation away from the app, no new windows, no webviews, for every web contents.
+app.on('web-contents-created', (_e, contents) => lockDownContents(contents));
 
 void app.whenReady().then(async () => {
   await mkdir(app.getPath('userData'), { recursive: true });
   protocol.handle(APP_SCHEME, createAppProtocolHandler(rendererDir, (p) => readFile(p), config.security.contentSecurityPolicy));
-  const ses = session.defaultSession;
-  ses.setPermissionRequestHandler((_wc, _permission, callback) => callback(false));
-  ses.webRequest.onBeforeRequest((details, callback) => callback({ cancel: !isAllowedRequest(details.url) }));
-  ses.webRequest.onHeadersReceived((details, callback) =>
-    callback({ responseHeaders: withCsp(details.responseHeaders, config.security.contentSecurityPolicy) }),
-  );
+  lockDownSession(session.defaultSession, config.security.contentSecurityPolicy);
   for (const [channel, handler] of Object.entries(handlers)) {
-    ipcMain.handle(channel, (event, ...args: unknown[]) => handler({ url: event.senderFrame?.url ?? '' }, ...args));
+    // The sending frame: its URL must be the app's page, and it must be the top frame (parent null).
+    ipcMain.handle(channel, (event, ...args: unknown[]) => handler({ url: event.senderFrame?.url ?? '', topFrame: event.senderFrame?.parent === null }, ...args));
   }
   await rebuildMenu();
   createWindow();

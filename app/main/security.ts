@@ -1,12 +1,18 @@
 /**
- * The security settings the main process applies, as pure functions of electron.config.ts so
- * they can be tested without Electron: web preferences of every window, which requests may
- * load (local files only: no remote content), and which page may call the IPC handlers.
+ * The security settings the main process applies, as functions of electron.config.ts so they
+ * can be tested without Electron: web preferences of every window, what every web contents may
+ * do (no navigation, no new windows, no webviews), what the session allows (no permissions, no
+ * downloads, local requests only, the CSP on every response), and which page may call the IPC
+ * handlers. The Electron security checklist (electronjs.org, "Security") is the reference.
  */
-import type { WebPreferences } from 'electron';
+import type { Session, WebContents, WebPreferences } from 'electron';
 import type { WaymarkElectronConfig } from '../../electron.config.ts';
 
-export function webPreferences(config: WaymarkElectronConfig, preloadPath: string): WebPreferences {
+/**
+ * Web preferences of every window. `devTools` only in a development run (the packaged app has
+ * none, so a page cannot be opened up from its keyboard shortcut).
+ */
+export function webPreferences(config: WaymarkElectronConfig, preloadPath: string, options: { devTools: boolean } = { devTools: false }): WebPreferences {
   const s = config.security;
   return {
     preload: preloadPath,
@@ -20,8 +26,38 @@ export function webPreferences(config: WaymarkElectronConfig, preloadPath: strin
     webviewTag: false,
     navigateOnDragDrop: false,
     spellcheck: false,
-    devTools: true,
+    experimentalFeatures: false,
+    devTools: options.devTools,
   };
+}
+
+/** Navigation events every web contents refuses: the app is one page and stays on it. */
+export const DENIED_NAVIGATION = ['will-navigate', 'will-frame-navigate', 'will-redirect', 'will-attach-webview'] as const;
+
+/** Locks a web contents (window, frame or webview) in place: no navigation, redirects, webviews or new windows. */
+export function lockDownContents(contents: Pick<WebContents, 'on' | 'setWindowOpenHandler'>): void {
+  for (const ev of DENIED_NAVIGATION) {
+    (contents.on as (e: string, fn: (event: { preventDefault(): void }) => void) => unknown)(ev, (event) => event.preventDefault());
+  }
+  contents.setWindowOpenHandler(() => ({ action: 'deny' }));
+}
+
+/**
+ * Locks the session: every permission request and check is refused (camera, geolocation,
+ * notifications, clipboard, HID/serial/USB devices ...), downloads are cancelled, every
+ * request but the app's own (isAllowedRequest) is cancelled, and every response carries the
+ * app's Content-Security-Policy (withCsp).
+ */
+export function lockDownSession(
+  ses: Pick<Session, 'setPermissionRequestHandler' | 'setPermissionCheckHandler' | 'setDevicePermissionHandler' | 'on' | 'webRequest'>,
+  contentSecurityPolicy: string,
+): void {
+  ses.setPermissionRequestHandler((_wc, _permission, callback) => callback(false));
+  ses.setPermissionCheckHandler(() => false);
+  ses.setDevicePermissionHandler(() => false);
+  (ses.on as (e: string, fn: (event: { preventDefault(): void }) => void) => unknown)('will-download', (event) => event.preventDefault());
+  ses.webRequest.onBeforeRequest((details, callback) => callback({ cancel: !isAllowedRequest(details.url) }));
+  ses.webRequest.onHeadersReceived((details, callback) => callback({ responseHeaders: withCsp(details.responseHeaders, contentSecurityPolicy) }));
 }
 
 /** The privileged scheme the renderer is served from (`waymark://app/index.html`). */

@@ -4,6 +4,7 @@
  */
 import { isAbsolute } from 'node:path';
 import { MAX_FILE_CHARS, type DocumentState, type ExportKind, type RecoverySnapshot } from '../preload/api.ts';
+import { headerProblem, type FileKind } from '../preload/fileHeader.ts';
 
 /** A bad argument from the renderer: names the argument and the rule it broke. */
 export class ArgumentError extends Error {
@@ -23,6 +24,17 @@ export function requireText(name: string, v: unknown, max = MAX_FILE_CHARS): str
   if (typeof v !== 'string') throw new ArgumentError(name, 'must be a string');
   if (v.length > max) throw new ArgumentError(name, `must be at most ${max} characters`);
   return v;
+}
+
+/**
+ * Text of a `kind` file (plan or system): a string within the size limit whose JSON header
+ * declares that kind, in a version this program reads. (The renderer checks the rest, field by field.)
+ */
+export function requireFileText(name: string, v: unknown, kind: FileKind): string {
+  const text = requireText(name, v);
+  const problem = headerProblem(text, kind);
+  if (problem) throw new ArgumentError(name, problem.rule);
+  return text;
 }
 
 /** An absolute path without control characters, ending in one of `extensions`. */
@@ -62,7 +74,7 @@ export function requireRecoverySnapshot(name: string, v: unknown): RecoverySnaps
   if (keys !== 'name,path,savedAt,text') throw new ArgumentError(name, 'must have exactly the fields name, path, text, savedAt');
   const snapshotName = requireText(`${name}.name`, v.name, 300);
   const path = v.path === null ? null : requireText(`${name}.path`, v.path, 4096);
-  const text = requireText(`${name}.text`, v.text);
+  const text = requireFileText(`${name}.text`, v.text, 'plan');
   if (typeof v.savedAt !== 'number' || !Number.isFinite(v.savedAt)) throw new ArgumentError(`${name}.savedAt`, 'must be a finite number');
   return { name: snapshotName, path, text, savedAt: v.savedAt };
 }
@@ -76,4 +88,9 @@ export function requireDocumentState(name: string, v: unknown): DocumentState {
 
 export function requireNoArguments(args: readonly unknown[]): void {
   if (args.length !== 0) throw new ArgumentError('arguments', 'must be empty');
+}
+
+/** Exactly the named arguments, no more and no fewer. */
+export function requireArguments(args: readonly unknown[], names: readonly string[]): void {
+  if (args.length !== names.length) throw new ArgumentError('arguments', `must be (${names.join(', ')})`);
 }

@@ -19,8 +19,12 @@
  * target untouched (the old version or, after step 4, the new one — never a mix) and at worst
  * a stray `.<name>.*.tmp` file beside it.
  *
- * Limits: synchronous (plans and exports are small; a save blocks for milliseconds); stray
- * temporary files of killed saves are not cleaned up automatically.
+ * `atomicWriteFileAsync` is the same save with node:fs/promises (the desktop app's main process,
+ * which must not block its event loop), the same steps, names and messages; its file-system
+ * calls can be injected (tests make one step fail).
+ *
+ * Limits: `atomicWriteFile` is synchronous (plans and exports are small; a save blocks for
+ * milliseconds); stray temporary files of killed saves are not cleaned up automatically.
  */
 import {
   closeSync,
@@ -36,10 +40,11 @@ import {
   unlinkSync,
   writeSync,
 } from 'node:fs';
+import * as fsp from 'node:fs/promises';
 import { randomBytes } from 'node:crypto';
 import { basename, dirname, isAbsolute, join, resolve } from 'node:path';
 import { ValidationError, WaymarkError, type ValidationIssue } from '../../core/math/errors.ts';
-import { parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../core/io/planFile.ts';
+import { PLAN_FORMAT, PLAN_VERSION, parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../core/io/planFile.ts';
 import { parseSystemFile } from '../../core/io/systemFile.ts';
 import type { Plan } from '../../core/mission/plan.ts';
 import type { StarSystem } from '../../core/system/model.ts';
@@ -91,40 +96,74 @@ export function backupPath(path: string): string {
   return `${path}.bak`;
 }
 
-/** Saves `data` to `path` atomically, keeping the previous version as `<path>.bak`. */
-export function atomicWriteFile(path: string, data: string | Uint8Array, options: AtomicWriteOptions = {}): void {
+/** A fresh temporary name in `dir` for the file `name` (`.<name>.<pid>-<random>.tmp`; `tag` "bak" for the backup's). */
+function tempPath(dir: string, name: string, tag = ''): string {
+  return join(dir, `.${name}${tag ? `.${tag}` : ''}.${process.pid}-${randomBytes(4).toString('hex')}.tmp`);
+}
+
+/** What step 1 found: the resolved target, its folder and whether it exists. */
+interface SaveTarget {
+  target: string;
+  dir: string;
+  name: string;
+  exists: boolean;
+}
+
+/** Step 1 over the results of stat(folder) and stat(target) (a thrown error stands for each failure). */
+function checkTarget(path: string, dirStat: () => { isDirectory(): boolean }, targetStat: () => { isDirectory(): boolean }): SaveTarget {
   const target = resolve(path);
   const dir = dirname(target);
-  const name = basename(target);
+  let d;
+  try {
+    d = dirStat();
+  } catch (e) {
+    const w = why(e, `the folder ${dir}`);
+    throw new FileError(path, 'save', w.reason, w.code);
+  }
+  if (!d.isDirectory()) throw new FileError(path, 'save', `${dir} is not a folder`);
+  let exists = false;
+  try {
+    if (targetStat().isDirectory()) throw new FileError(path, 'save', `${target} is a folder, not a file`, 'EISDIR');
+    exists = true;
+  } catch (e) {
+    if (e instanceof FileError) throw e;
+    if ((e as NodeJS.ErrnoException).code !== 'ENOENT') {
+      const w = why(e, target);
+      throw new FileError(path, 'save', w.reason, w.code);
+    }
+  }
+  return { target, dir, name: basename(target), exists };
+}
+
+/** Settles a promise into a value-or-error pair, so checkTarget can serve the async save too. */
+async function settle<T>(p: Promise<T>): Promise<() => T> {
+  try {
+    const v = await p;
+    return () => v;
+  } catch (e) {
+    return () => {
+      throw e;
+    };
+  }
+}
+
+/** Saves `data` to `path` atomically, keeping the previous version as `<path>.bak`. */
+export function atomicWriteFile(path: string, data: string | Uint8Array, options: AtomicWriteOptions = {}): void {
   const fail = (reason: string, code: string | null = null): never => {
     throw new FileError(path, 'save', reason, code);
   };
 
   // 1. The folder and the target.
-  let dirStat;
-  try {
-    dirStat = statSync(dir);
-  } catch (e) {
-    const w = why(e, `the folder ${dir}`);
-    fail(w.reason, w.code);
-  }
-  if (!dirStat!.isDirectory()) fail(`${dir} is not a folder`);
-  let targetExists = false;
-  try {
-    const st = statSync(target);
-    if (st.isDirectory()) fail(`${target} is a folder, not a file`, 'EISDIR');
-    targetExists = true;
-  } catch (e) {
-    if (e instanceof FileError) throw e;
-    if ((e as NodeJS.ErrnoException).code !== 'ENOENT') {
-      const w = why(e, target);
-      fail(w.reason, w.code);
-    }
-  }
+  const resolved = resolve(path);
+  const { target, dir, name, exists: targetExists } = checkTarget(
+    path,
+    () => statSync(dirname(resolved)),
+    () => statSync(resolved),
+  );
 
   const bytes = typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
   const chunk = Math.max(1, Math.floor(options.chunkSize ?? 1 << 20));
-  const tmp = join(dir, `.${name}.${process.pid}-${randomBytes(4).toString('hex')}.tmp`);
+  const tmp = tempPath(dir, name);
   let fd = -1;
   const cleanup = (): void => {
     if (fd >= 0) {
@@ -169,7 +208,7 @@ export function atomicWriteFile(path: string, data: string | Uint8Array, options
   // 3. Backup of the previous version.
   if (targetExists && options.backup !== false) {
     const bak = backupPath(target);
-    const bakTmp = join(dir, `.${name}.bak.${process.pid}-${randomBytes(4).toString('hex')}.tmp`);
+    const bakTmp = tempPath(dir, name, 'bak');
     try {
       try {
         linkSync(target, bakTmp);
@@ -203,6 +242,100 @@ export function atomicWriteFile(path: string, data: string | Uint8Array, options
       fsyncSync(dfd);
     } finally {
       closeSync(dfd);
+    }
+  } catch {
+    // Some platforms (Windows) cannot fsync a folder; the rename has happened regardless.
+  }
+}
+
+/** The part of node:fs/promises the async save uses (injectable: tests make one step fail). */
+export type AtomicFs = Pick<typeof fsp, 'stat' | 'open' | 'link' | 'copyFile' | 'rename' | 'unlink'>;
+
+/**
+ * `atomicWriteFile` with node:fs/promises: the same four steps, backup and messages, without
+ * blocking the event loop (the desktop app's main process saves through it).
+ */
+export async function atomicWriteFileAsync(path: string, data: string | Uint8Array, options: AtomicWriteOptions = {}, fs: AtomicFs = fsp): Promise<void> {
+  const fail = (reason: string, code: string | null = null): never => {
+    throw new FileError(path, 'save', reason, code);
+  };
+
+  // 1. The folder and the target.
+  const resolved = resolve(path);
+  const dirStat = await settle(fs.stat(dirname(resolved)));
+  const targetStat = await settle(fs.stat(resolved));
+  const { target, dir, name, exists: targetExists } = checkTarget(path, dirStat, targetStat);
+
+  const bytes = typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
+  const chunk = Math.max(1, Math.floor(options.chunkSize ?? 1 << 20));
+  const tmp = tempPath(dir, name);
+  let fh: fsp.FileHandle | null = null;
+  const cleanup = async (): Promise<void> => {
+    if (fh) {
+      await fh.close().catch(() => undefined); // already closed: nothing left to release
+      fh = null;
+    }
+    await fs.unlink(tmp).catch(() => undefined); // never created, or already gone
+  };
+
+  // 2. Temporary file, written and flushed.
+  try {
+    fh = await fs.open(tmp, 'wx', 0o644);
+  } catch (e) {
+    const w = why(e, `the folder ${dir}`);
+    fail(`cannot create a temporary file: ${w.reason}`, w.code);
+  }
+  try {
+    let written = 0;
+    while (written < bytes.length) {
+      const { bytesWritten } = await fh!.write(bytes, written, Math.min(chunk, bytes.length - written));
+      written += bytesWritten;
+      options.onProgress?.(written, bytes.length);
+    }
+    if (bytes.length === 0) options.onProgress?.(0, 0);
+    await fh!.sync();
+    const open = fh!;
+    fh = null;
+    await open.close();
+  } catch (e) {
+    await cleanup();
+    const w = why(e, tmp);
+    fail(`writing the temporary file failed: ${w.reason}; ${path} is unchanged`, w.code);
+  }
+
+  // 3. Backup of the previous version.
+  if (targetExists && options.backup !== false) {
+    const bak = backupPath(target);
+    const bakTmp = tempPath(dir, name, 'bak');
+    try {
+      try {
+        await fs.link(target, bakTmp);
+      } catch {
+        await fs.copyFile(target, bakTmp);
+      }
+      await fs.rename(bakTmp, bak);
+    } catch (e) {
+      await fs.unlink(bakTmp).catch(() => undefined); // not created
+      await cleanup();
+      const w = why(e, bak);
+      fail(`cannot keep the previous version as ${bak}: ${w.reason}; ${path} is unchanged`, w.code);
+    }
+  }
+
+  // 4. Rename over the target; make the rename durable.
+  try {
+    await fs.rename(tmp, target);
+  } catch (e) {
+    await cleanup();
+    const w = why(e, target);
+    fail(`${w.reason}; ${path} is unchanged`, w.code);
+  }
+  try {
+    const d = await fs.open(dir, 'r');
+    try {
+      await d.sync();
+    } finally {
+      await d.close();
     }
   } catch {
     // Some platforms (Windows) cannot fsync a folder; the rename has happened regardless.
@@ -292,7 +425,39 @@ export function loadPlanFile(path: string): LoadedPlan {
   return { plan: parsed.plan, system: sys.system, systemRef: parsed.system, systemPath, warnings, fileVersion: parsed.fileVersion };
 }
 
-/** Saves a plan atomically (keeping `<path>.bak`). */
+/**
+ * Saves a plan atomically (keeping `<path>.bak`). Refuses (FileError, nothing written) to save
+ * over a plan file written by a newer version of the program: this one would silently drop
+ * whatever the newer format holds. A target that is not a readable plan file (missing, another
+ * kind of file, damaged JSON) is saved over as usual.
+ */
 export function savePlanFile(path: string, plan: Plan, systemRef: PlanSystemRef, options: AtomicWriteOptions = {}): void {
+  const newer = newerPlanVersion(path);
+  if (newer !== null) {
+    throw new FileError(
+      path,
+      'save',
+      `it was written by a newer Waymark (plan file version ${newer}; this program writes version ${PLAN_VERSION}); saving would lose what that version added — save under another name`,
+    );
+  }
   atomicWriteFile(path, serializePlanFile(plan, systemRef), options);
+}
+
+/** The version of the plan file at `path` when it is newer than PLAN_VERSION, else null. */
+function newerPlanVersion(path: string): number | null {
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch {
+    return null;
+  }
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch {
+    return null;
+  }
+  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) return null;
+  const doc = raw as Record<string, unknown>;
+  return doc.format === PLAN_FORMAT && typeof doc.version === 'number' && doc.version > PLAN_VERSION ? doc.version : null;
 }

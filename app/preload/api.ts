@@ -22,7 +22,11 @@ export const IPC = {
   menu: 'waymark:menu',
 } as const;
 
-/** Largest text the main process reads or writes through the API (bytes of UTF-16 text). */
+/**
+ * The payload limit of the IPC boundary, 32 Mi (33,554,432): the most characters of text the
+ * renderer may hand main to write (plans, exports, the recovery copy), and the most bytes of a
+ * file main reads for it. A plan is kilobytes; the limit only stops absurd or hostile payloads.
+ */
 export const MAX_FILE_CHARS = 32 * 1024 * 1024;
 
 /** A file the user opened: its path, display name and text. */

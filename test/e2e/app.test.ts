@@ -3,27 +3,19 @@
  * (software WebGL) through playwright-core. The steps share one page and run in order, as a
  * new user would: the demo plan loads, the 3D view draws, the timeline cursor moves the scene,
  * edits update the budget, undo/redo, save/reopen, a bad file, a porkchop click.
- * Screenshots go to test/output/e2e/.
+ * Screenshots go to test/output/e2e/. Setup (build, server, chromium) is in harness.ts.
  */
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
-import { chromium, type Browser, type Page } from 'playwright-core';
+import { readFileSync, writeFileSync } from 'node:fs';
+import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import config from '../../electron.config.ts';
-import { buildRenderer } from '../../app/renderer/build/buildRenderer.ts';
-import { serveStatic, type Served } from '../../app/renderer/build/serve.ts';
 import { parsePlanFile } from '../../core/io/planFile.ts';
+import { OUT, buildApp, openFile as openThroughPicker, requireChromium, startApp, type E2eApp } from './harness.ts';
 
-const CHROMIUM = '/usr/bin/chromium';
-const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
-const OUT = new URL('../output/e2e/', import.meta.url).pathname;
-const have = existsSync(CHROMIUM);
-if (!have && process.env.CI) throw new Error(`${CHROMIUM} is missing: CI must install Debian chromium (apt-get install -y chromium)`);
-if (!have) console.warn(`e2e skipped: ${CHROMIUM} not found (apt-get install -y chromium); in CI this fails instead`);
+const have = requireChromium();
 
-let served: Served;
-let browser: Browser;
+let app: E2eApp;
 let page: Page;
-const pageErrors: string[] = [];
+let pageErrors: string[] = [];
 
 /** Reads a value from the page's debug handle (window.waymarkDebug). */
 const js = <T>(expr: string): Promise<T> => page.evaluate(expr) as Promise<T>;
@@ -40,31 +32,18 @@ const canvasSum = () =>
 
 describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
   beforeAll(async () => {
-    mkdirSync(OUT, { recursive: true });
-    const root = await buildRenderer();
-    served = await serveStatic({ root, host: '127.0.0.1', port: 0, contentSecurityPolicy: config.security.contentSecurityPolicy });
-    browser = await chromium.launch({ executablePath: CHROMIUM, headless: true, args: ARGS });
-    const ctx = await browser.newContext({ viewport: { width: 1440, height: 900 }, acceptDownloads: true });
-    // Use the <input type=file> picker and downloads (the File System Access pickers are native dialogs).
-    await ctx.addInitScript('delete window.showOpenFilePicker; delete window.showSaveFilePicker;');
-    page = await ctx.newPage();
-    page.on('pageerror', (e) => pageErrors.push(e.message));
-    page.on('console', (m) => {
-      if (m.type() === 'error') pageErrors.push(m.text());
-    });
-    await page.goto(served.url);
-    await page.waitForSelector('[data-testid=budget-table] tbody tr.row', { timeout: 15_000 });
+    // The renderer's own dist/renderer (what `npm start` serves); the page loads the demo and waits for its budget.
+    app = await startApp(await buildApp());
+    pageErrors = app.pageErrors;
+    ({ page } = await app.openPage());
   });
 
   afterAll(async () => {
-    await browser?.close();
-    await served?.close();
+    await app?.close();
   });
 
   async function openFile(path: string): Promise<void> {
-    await page.click('[data-testid=menu-file]');
-    const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.click('[data-action=open]')]);
-    await chooser.setFiles(path);
+    await openThroughPicker(page, path);
   }
 
   it('opens on the demo plan with its budget and a positive margin, without page errors', async () => {

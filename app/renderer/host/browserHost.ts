@@ -2,7 +2,9 @@
  * The host in a plain browser (browser mode of `npm start`).
  * - Open: the File System Access API's picker where present (Save then writes back to the same
  *   file), otherwise an <input type="file"> picker.
- * - Save: writes through the file handle when there is one; otherwise downloads the file.
+ * - Save: writes through the file handle when there is one; otherwise downloads the file. A file
+ *   a newer Waymark wrote is not overwritten through a handle (NewerVersionError: the session
+ *   offers Save As); a download never replaces a file by itself.
  * - Recent files: names and a copy of the text in localStorage (a browser cannot reopen a file
  *   by path), newest first, at most RECENT_LIMIT; reopening one gives a copy that saves as a download.
  * - Recovery copy of unsaved work: localStorage.
@@ -11,7 +13,8 @@
  */
 import config from '../../../electron.config.ts';
 import type { ExportKind, RecoverySnapshot } from '../../preload/api.ts';
-import type { FileRef, Host, OpenedFile, RecentFile } from './host.ts';
+import { headerProblem } from '../../preload/fileHeader.ts';
+import { NewerVersionError, type FileRef, type Host, type OpenedFile, type RecentFile } from './host.ts';
 
 export const RECENT_LIMIT = config.files.recentLimit;
 export const STORAGE_KEYS = { recent: 'waymark.recent', recentText: 'waymark.recent.', recovery: 'waymark.recovery' } as const;
@@ -98,6 +101,14 @@ export function createBrowserHost(env: BrowserEnv): Host {
   }
 
   async function writeHandle(handle: WritableHandle, text: string): Promise<void> {
+    let current: string | null = null;
+    try {
+      current = await (await handle.getFile()).text();
+    } catch {
+      current = null; // nothing there yet, or not readable: nothing to protect
+    }
+    const problem = current === null ? null : headerProblem(current, 'plan');
+    if (problem?.newer) throw new NewerVersionError(handle.name, `${handle.name} ${problem.rule}: it is not overwritten; use Save As to save under another name`);
     const w = await handle.createWritable();
     await w.write(text);
     await w.close();

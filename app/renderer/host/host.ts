@@ -9,6 +9,21 @@ import type { ExportKind, MenuCommand, RecoverySnapshot } from '../../preload/ap
 
 export type { ExportKind, MenuCommand, RecoverySnapshot };
 
+/**
+ * A save refused because the file there was written by a newer Waymark (its format may hold
+ * what this version would drop): the session offers Save As instead of overwriting it.
+ */
+export class NewerVersionError extends Error {
+  override name = 'NewerVersionError';
+  constructor(
+    /** Display name of the file that was not overwritten. */
+    readonly fileName: string,
+    message: string,
+  ) {
+    super(message);
+  }
+}
+
 /** Where a document lives: a path (desktop), a file handle (File System Access API), or only a name (download). */
 export interface FileRef {
   name: string;
@@ -44,8 +59,12 @@ export interface Host {
   readSystemBeside(plan: FileRef, relativePath: string): Promise<string | null>;
   recentFiles(): Promise<RecentFile[]>;
   openRecent(key: string): Promise<OpenedFile>;
-  /** Writes `text` back to `ref` when it can; otherwise behaves as saveAs. Null when cancelled. */
+  /**
+   * Writes `text` back to `ref` when it can; otherwise behaves as saveAs. Null when cancelled.
+   * Throws NewerVersionError, writing nothing, when the file there was written by a newer Waymark.
+   */
   save(ref: FileRef, text: string): Promise<FileRef | null>;
+  /** Asks where, then writes; NewerVersionError as for save. */
   saveAs(suggestedName: string, text: string): Promise<FileRef | null>;
   exportFile(kind: ExportKind, suggestedName: string, text: string): Promise<boolean>;
   readRecovery(): Promise<RecoverySnapshot | null>;

@@ -8,6 +8,16 @@
  *
  * Systems named by path are looked for, in order: beside the plan file (desktop), among the
  * systems bundled with the app (by file name), then by asking the user for the file.
+ *
+ * A plan file written by a newer Waymark is refused on open (core/io/planFile.ts says which
+ * version), and Save never overwrites one: the host refuses (NewerVersionError) and the session
+ * offers Save As instead.
+ *
+ * Recovery: while there are unsaved changes, autosave writes a copy through the host (a file in
+ * the user-data folder on the desktop, localStorage in a browser). On start, a copy left by a
+ * session that ended without saving (a crash, a killed process) is offered back; until the
+ * user recovers or discards it, autosave does not write, so new edits cannot replace the older
+ * copy, and the offer cannot be dismissed without a choice.
  */
 import { parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../../core/io/planFile.ts';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
@@ -16,7 +26,7 @@ import type { Plan } from '../../../core/mission/plan.ts';
 import { checkPlanAgainstSystem, checkPlanDocument } from '../../../core/io/planSchema.ts';
 import { planToDocument } from '../../../core/io/planFile.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
-import type { ExportKind, FileRef, Host, MenuCommand, RecentFile, RecoverySnapshot } from '../host/host.ts';
+import { NewerVersionError, type ExportKind, type FileRef, type Host, type MenuCommand, type RecentFile, type RecoverySnapshot } from '../host/host.ts';
 import { fileToMemoryPath } from '../plan/paths.ts';
 import { CursorStore } from './cursor.ts';
 import { PlanDocumentStore, UNTITLED, type LoadedDocument } from './document.ts';
@@ -34,6 +44,8 @@ export interface Notice {
   issues?: ValidationIssue[];
   /** Buttons; the notice closes after one is chosen. */
   actions?: { label: string; run: () => void | Promise<void> }[];
+  /** True when the notice can only be closed by one of its actions (no dismiss button). */
+  sticky?: boolean;
 }
 
 export interface Question {
@@ -100,6 +112,8 @@ export class Session {
   #timer: ReturnType<typeof setInterval> | null = null;
   #autosavedRevision = -1;
   #recoveryWritten = false;
+  /** A recovery copy from an earlier session is on offer and not yet answered: autosave waits. */
+  #recoveryOffered = false;
 
   private constructor(
     private readonly deps: SessionDeps,
@@ -166,6 +180,11 @@ export class Session {
     this.notices.update((list) => list.filter((n) => n.id !== id));
   }
 
+  /** True while a recovery copy from an earlier session waits for the user's answer. */
+  get recoveryPending(): boolean {
+    return this.#recoveryOffered;
+  }
+
   noticeFromError(title: string, err: unknown): void {
     const d = describeError(err);
     this.notify({ kind: 'error', title, detail: d.message, issues: err instanceof ValidationError ? err.issues : undefined });
@@ -204,7 +223,7 @@ export class Session {
     if (!(await this.confirmDiscard('start a new plan'))) return;
     const s = this.doc.get();
     this.doc.load({ plan: blankPlan(s.system), system: s.system, systemRef: s.systemRef, file: null });
-    await this.deps.host.clearRecovery();
+    await this.clearOwnRecovery();
   }
 
   async open(): Promise<void> {
@@ -268,9 +287,25 @@ export class Session {
       if (!ref) return false;
       return this.saved(ref);
     } catch (err) {
+      if (err instanceof NewerVersionError) return this.offerSaveAs(err);
       this.noticeFromError(`${s.name} was not saved`, err);
       return false;
     }
+  }
+
+  /** Save found a file a newer Waymark wrote: it stays as it is; the user may save elsewhere. */
+  private async offerSaveAs(err: NewerVersionError): Promise<boolean> {
+    const choice = await this.deps.ask({
+      title: 'Written by a newer Waymark',
+      message: `${err.fileName} was written by a newer version of Waymark. Saving over it could lose what this version cannot read, so it is not overwritten. Save this plan under another name?`,
+      choices: [
+        { id: 'save-as', label: 'Save As…', primary: true },
+        { id: 'cancel', label: 'Cancel' },
+      ],
+    });
+    if (choice === 'save-as') return this.saveAs();
+    this.notify({ kind: 'warning', title: `${err.fileName} was not overwritten`, detail: err.message });
+    return false;
   }
 
   async saveAs(): Promise<boolean> {
@@ -286,8 +321,7 @@ export class Session {
 
   private async saved(ref: FileRef): Promise<boolean> {
     this.doc.markSaved(ref);
-    await this.deps.host.clearRecovery();
-    this.#recoveryWritten = false;
+    await this.clearOwnRecovery();
     await this.refreshRecent();
     return true;
   }
@@ -326,21 +360,30 @@ export class Session {
     }
     if (!snap) return;
     const when = new Date(snap.savedAt).toLocaleString();
-    const id = this.notify({
+    this.#recoveryOffered = true;
+    this.notify({
       kind: 'info',
       title: 'Unsaved work was found',
       detail: `${snap.name}, autosaved ${when}, was not saved before the app closed.`,
+      sticky: true,
       actions: [
-        { label: 'Recover it', run: async () => void (await this.recover(snap!)) },
+        {
+          label: 'Recover it',
+          run: async () => {
+            // A copy that does not load cannot be recovered by this version: either way the offer is settled.
+            await this.recover(snap!);
+            this.#recoveryOffered = false;
+          },
+        },
         {
           label: 'Discard it',
           run: async () => {
             await this.deps.host.clearRecovery();
+            this.#recoveryOffered = false;
           },
         },
       ],
     });
-    void id;
   }
 
   async recover(snap: RecoverySnapshot): Promise<boolean> {
@@ -356,8 +399,16 @@ export class Session {
     }
   }
 
+  /** Removes the recovery copy this session wrote; an earlier session's copy on offer is left alone. */
+  private async clearOwnRecovery(): Promise<void> {
+    if (this.#recoveryOffered) return;
+    this.#recoveryWritten = false;
+    await this.deps.host.clearRecovery();
+  }
+
   /** One autosave step (also run by the timer): writes the recovery copy when there are unsaved changes. */
   async autosave(): Promise<void> {
+    if (this.#recoveryOffered) return; // the older copy stays until the user answers its offer
     const s = this.doc.get();
     if (!s.dirty) {
       if (this.#recoveryWritten) {

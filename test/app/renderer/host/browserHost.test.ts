@@ -1,5 +1,6 @@
 import { describe, expect, it, vi } from 'vitest';
 import { RECENT_LIMIT, STORAGE_KEYS, createBrowserHost, type BrowserEnv, type WritableHandle } from '../../../../app/renderer/host/browserHost.ts';
+import { NewerVersionError } from '../../../../app/renderer/host/host.ts';
 
 function memoryStorage() {
   const m = new Map<string, string>();
@@ -66,6 +67,22 @@ describe('browser host', () => {
     await host.save(f!.ref, 'new');
     expect(written).toEqual(['new']);
     expect(e.download).not.toHaveBeenCalled();
+  });
+
+  it('does not write over a file a newer version wrote (Save and Save As), and says so', async () => {
+    const newer = '{"format":"waymark-plan","version":2,"name":"future"}';
+    const { h, written } = handle('f.plan.json', newer);
+    const { e } = env({ fsAccess: { showOpenFilePicker: async () => [h], showSaveFilePicker: async () => h } });
+    const host = createBrowserHost(e);
+    const ref = { name: 'f.plan.json', path: null, handle: h };
+    await expect(host.save(ref, 'new')).rejects.toThrow(NewerVersionError);
+    await expect(host.save(ref, 'new')).rejects.toThrow(/f\.plan\.json was written by a newer version of Waymark \(version 2; this one reads up to 1\): it is not overwritten; use Save As/);
+    await expect(host.saveAs('f.plan.json', 'new')).rejects.toThrow(NewerVersionError);
+    expect(written).toEqual([]);
+    // A current-version file (or an empty new one) is written as usual.
+    const ok = handle('g.plan.json', '{"format":"waymark-plan","version":1}');
+    await host.save({ name: 'g.plan.json', path: null, handle: ok.h }, 'new');
+    expect(ok.written).toEqual(['new']);
   });
 
   it('treats an aborted picker as cancelled', async () => {

@@ -1,6 +1,7 @@
 import { describe, expect, it, vi } from 'vitest';
 import type { WaymarkBridge } from '../../../../app/preload/api.ts';
-import { createElectronHost } from '../../../../app/renderer/host/electronHost.ts';
+import { createElectronHost, fromMain } from '../../../../app/renderer/host/electronHost.ts';
+import { NewerVersionError } from '../../../../app/renderer/host/host.ts';
 import { createHost } from '../../../../app/renderer/host/index.ts';
 
 function bridge(): WaymarkBridge {
@@ -41,6 +42,27 @@ describe('Electron host', () => {
     const ref = await host.save({ name: 'demo.plan.json', path: null, handle: null }, 'T');
     expect(b.saveAs).toHaveBeenCalledWith('demo.plan.json', 'T');
     expect(ref?.path).toBe('/p/new.plan.json');
+  });
+
+  it("shows main's error message without Electron's IPC wrapping", async () => {
+    const b = bridge();
+    b.openDialog = vi.fn(async () => {
+      throw new Error("Error invoking remote method 'waymark:file-open-dialog': ArgumentError: x.json is not a Waymark plan file (not a JSON object)");
+    });
+    const host = createElectronHost(b);
+    await expect(host.openPlan()).rejects.toThrow(/^x\.json is not a Waymark plan file \(not a JSON object\)$/);
+    expect(fromMain(new Error('plain'), 'f').message).toBe('plain');
+  });
+
+  it("turns main's refusal to overwrite a newer file into NewerVersionError (for the Save As offer)", async () => {
+    const b = bridge();
+    b.save = vi.fn(async () => {
+      throw new Error("Error invoking remote method 'waymark:file-save': ArgumentError: a.plan.json was written by a newer version of Waymark (version 2; this one reads up to 1): it is not overwritten; use Save As");
+    });
+    const err = await createElectronHost(b).save({ name: 'a.plan.json', path: '/p/a.plan.json', handle: null }, 'T').catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(NewerVersionError);
+    expect((err as NewerVersionError).fileName).toBe('a.plan.json');
+    expect((err as Error).message).toMatch(/^a\.plan\.json was written by a newer version of Waymark/);
   });
 
   it('is chosen when the preload exposed window.waymark', () => {

@@ -4,6 +4,7 @@ import { parsePlanFile } from '../../../../core/io/planFile.ts';
 import { evaluate } from '../../../../core/mission/evaluate.ts';
 import * as edits from '../../../../app/renderer/plan/edits.ts';
 import { Session, blankPlan, type SessionDeps } from '../../../../app/renderer/state/session.ts';
+import { NewerVersionError } from '../../../../app/renderer/host/host.ts';
 import { fakeHost, type FakeHost } from './fakeHost.ts';
 
 const root = new URL('../../../../', import.meta.url);
@@ -144,6 +145,45 @@ describe('session: the open document and its files', () => {
     expect(host.recovery).not.toBeNull();
     await s.save();
     expect(host.recovery).toBeNull();
+  });
+
+  it('a plan written by a newer version says so and is not opened', async () => {
+    const { s } = await session();
+    const before = s.doc.get();
+    const newer = JSON.stringify({ ...JSON.parse(demoText), version: 2, some_future_field: {} });
+    expect(await s.openText(newer, { name: 'future.plan.json', path: '/plans/future.plan.json', handle: null })).toBe(false);
+    const n = s.notices.get().at(-1)!;
+    expect(n.title).toBe('future.plan.json was not opened');
+    expect(n.issues).toEqual([expect.objectContaining({ path: 'version', rule: expect.stringMatching(/is 2, newer than this program reads \(up to 1\); use a newer Waymark/) })]);
+    expect(s.doc.get().plan).toBe(before.plan);
+    expect(s.doc.get().file).toBe(before.file);
+  });
+
+  it('Save does not overwrite a file a newer version wrote: it offers Save As', async () => {
+    const ask = vi.fn(async () => 'save-as');
+    const { s, host } = await session(fakeHost(), ask);
+    await s.saveAs(); // the document now lives at /plans/tessel-to-ochre.plan.json
+    const written = host.files.get('tessel-to-ochre.plan.json');
+    vi.mocked(host.save).mockRejectedValueOnce(new NewerVersionError('tessel-to-ochre.plan.json', 'tessel-to-ochre.plan.json was written by a newer version of Waymark (version 2; this one reads up to 1)'));
+    vi.mocked(host.saveAs).mockClear();
+    s.doc.edit('Edit reserve', (p) => edits.setReserve(p, { percent: 4.5 }));
+    expect(await s.save()).toBe(true);
+    expect(ask).toHaveBeenCalledWith(expect.objectContaining({ title: 'Written by a newer Waymark', message: expect.stringMatching(/tessel-to-ochre\.plan\.json was written by a newer version of Waymark/) }));
+    expect(host.saveAs).toHaveBeenCalledOnce();
+    expect(host.files.get('tessel-to-ochre.plan.json')).not.toBe(written); // the Save As copy (the fake writes by name)
+    expect(s.doc.get().dirty).toBe(false);
+  });
+
+  it('declining the Save As offer leaves the newer file alone and the edits unsaved', async () => {
+    const { s, host } = await session(fakeHost(), async () => 'cancel');
+    await s.saveAs();
+    vi.mocked(host.save).mockRejectedValueOnce(new NewerVersionError('t.plan.json', 't.plan.json was written by a newer version of Waymark (version 3; this one reads up to 1)'));
+    vi.mocked(host.saveAs).mockClear();
+    s.doc.edit('Edit reserve', (p) => edits.setReserve(p, { percent: 4.5 }));
+    expect(await s.save()).toBe(false);
+    expect(host.saveAs).not.toHaveBeenCalled();
+    expect(s.doc.get().dirty).toBe(true);
+    expect(s.notices.get().at(-1)).toMatchObject({ kind: 'warning', title: 't.plan.json was not overwritten' });
   });
 
   it('New starts a blank plan in the same system', async () => {
