@@ -1,17 +1,27 @@
-/** Messages between the renderer and the analysis worker (n-body verification, correction, dispersion). */
+/**
+ * Messages between the renderer and the analysis worker (n-body verification, correction,
+ * dispersion, and the checks of analysis/checkJobs.ts: game-step check, step sweep, system
+ * stability and its run-time estimate).
+ */
 import type { CorrectResult } from '../../../core/mission/correct.ts';
 import type { DispersionOptions, DispersionResult } from '../../../core/mission/disperse.ts';
 import type { NBodyResult } from '../../../core/mission/nbody.ts';
 import type { Plan } from '../../../core/mission/plan.ts';
 import type { PlanResult } from '../../../core/mission/result.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
+import type { CheckJob, CheckOutput } from './checkJobs.ts';
 
 export type AnalysisJob =
   | { kind: 'verify'; system: StarSystem; plan: Plan; result: PlanResult }
   | { kind: 'correct'; system: StarSystem; plan: Plan }
-  | { kind: 'disperse'; system: StarSystem; plan: Plan; options: DispersionOptions };
+  | { kind: 'disperse'; system: StarSystem; plan: Plan; options: DispersionOptions }
+  | CheckJob;
 
-export type AnalysisOutput = { kind: 'verify'; nbody: NBodyResult } | { kind: 'correct'; correction: CorrectResult } | { kind: 'disperse'; dispersion: DispersionResult };
+export type AnalysisOutput =
+  | { kind: 'verify'; nbody: NBodyResult }
+  | { kind: 'correct'; correction: CorrectResult }
+  | { kind: 'disperse'; dispersion: DispersionResult }
+  | CheckOutput;
 
 export type ToAnalysisWorker = { type: 'run'; id: number; job: AnalysisJob };
 

@@ -1,12 +1,13 @@
 /**
  * One analysis job as the worker runs it: n-body verification (core/mission/nbody.ts),
- * differential correction (core/mission/correct.ts) or a dispersion run (core/mission/disperse.ts),
- * with progress as a fraction and a note. Plain code, tested without a Worker.
+ * differential correction (core/mission/correct.ts), a dispersion run (core/mission/disperse.ts)
+ * or one of the checks (analysis/checkJobs.ts), with progress as a fraction and a note. Plain code, tested without a Worker.
  */
 import { correctPlan } from '../../../core/mission/correct.ts';
 import { disperse } from '../../../core/mission/disperse.ts';
 import { verifyNBody } from '../../../core/mission/nbody.ts';
 import type { AnalysisJob, AnalysisOutput } from './protocol.ts';
+import { runCheckJob } from './checkJobs.ts';
 
 export function runAnalysisJob(job: AnalysisJob, onProgress: (fraction: number, note: string) => void): AnalysisOutput {
   switch (job.kind) {
@@ -27,5 +28,7 @@ export function runAnalysisJob(job: AnalysisJob, onProgress: (fraction: number, 
         kind: 'disperse',
         dispersion: disperse(job.system, job.plan, { ...job.options, onProgress: (done, total) => onProgress(total > 0 ? done / total : 0, `${done} of ${total} samples`) }),
       };
+    default:
+      return runCheckJob(job, onProgress);
   }
 }

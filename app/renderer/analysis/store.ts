@@ -90,7 +90,7 @@ export class AnalysisStore implements Readable<AnalysisState> {
       const o = done.output;
       if (o.kind === 'verify') this.#out.set({ ...s, running: null, verify: { ...slot, value: o.nbody } });
       else if (o.kind === 'correct') this.#out.set({ ...s, running: null, correct: { ...slot, value: o.correction } });
-      else this.#out.set({ ...s, running: null, disperse: { ...slot, value: o.dispersion } });
+      else if (o.kind === 'disperse') this.#out.set({ ...s, running: null, disperse: { ...slot, value: o.dispersion } });
     } catch (err) {
       if (seq === this.#seq) this.fail(kind, err instanceof Error ? err.message : String(err));
     }

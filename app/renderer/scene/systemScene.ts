@@ -23,6 +23,8 @@ import { burnToInertial } from '../../../core/mission/burnFrame.ts';
 import { AXIS_HUE, FRAME_AXES, PALETTE, bodyColour } from './palette.ts';
 import { shipStateAt } from './shipState.ts';
 import { isSoftwareRenderer } from './webglInfo.ts';
+import { GAME_STYLE } from '../gamestep/style.ts';
+import type { TrackPath } from '../gamestep/trackPaths.ts';
 
 /** Scene units per metre: one unit is 1 000 km. */
 export const UNITS_PER_METRE = 1e-6;
@@ -37,6 +39,8 @@ const ARROW_PX = 64;
 export const GRID_RING = 1e11;
 /** Points per body orbit line. */
 const ORBIT_POINTS = 720;
+/** Dashes along each game-step path. */
+const GAME_DASHES = 90;
 
 export type FocusTarget = { kind: 'body'; index: number } | { kind: 'ship' };
 
@@ -121,6 +125,11 @@ function glowTexture(colour: string): THREE.CanvasTexture {
 class SharedDrawing {
   readonly coast = new THREE.LineBasicMaterial({ color: PALETTE.path, transparent: true, opacity: 0.95 });
   readonly nbody = new THREE.LineDashedMaterial({ color: PALETTE.nbody, dashSize: 1, gapSize: 0.6 });
+  /** The game-step check's flight (dashes in units of its own length, see setGameStep) and its reference. */
+  readonly gameLine = new THREE.LineDashedMaterial({ color: GAME_STYLE.game, dashSize: 0.6, gapSize: 0.4 });
+  readonly gameReference = new THREE.LineBasicMaterial({ color: GAME_STYLE.reference, transparent: true, opacity: 0.5 });
+  /** Beads at the game-step samples, so its path reads apart from the plan's line it lies on. */
+  readonly gameDots = new THREE.PointsMaterial({ color: GAME_STYLE.game, size: 3, sizeAttenuation: false });
   readonly burnLine = new THREE.LineBasicMaterial({ color: PALETTE.burn });
   readonly burnDots = new THREE.PointsMaterial({ color: PALETTE.burn, size: 4.5, sizeAttenuation: false });
   readonly markerDot = new THREE.MeshBasicMaterial({ color: PALETTE.burn });
@@ -158,7 +167,7 @@ class SharedDrawing {
   }
 
   dispose(): void {
-    for (const x of [this.coast, this.nbody, this.burnLine, this.burnDots, this.markerDot, this.markerRing, this.dotGeometry, this.ringGeometry, this.shaft, this.head, this.circle]) x.dispose();
+    for (const x of [this.coast, this.nbody, this.gameLine, this.gameReference, this.gameDots, this.burnLine, this.burnDots, this.markerDot, this.markerRing, this.dotGeometry, this.ringGeometry, this.shaft, this.head, this.circle]) x.dispose();
     for (const m of this.hues.values()) {
       m.line.dispose();
       m.mesh.dispose();
@@ -195,6 +204,9 @@ export class SystemScene {
   private glow: THREE.Sprite | null = null;
   /** The n-body verification's path (positions relative to the star), or null. */
   private nbodyLine: THREE.Line | null = null;
+  /** The game-step check's paths, one group per central body (positioned like `frames`). */
+  private gameRoot = new THREE.Group();
+  private gameFrames = new Map<number, THREE.Group>();
   private grid: THREE.Object3D | null = null;
 
   private t = 0;
@@ -238,7 +250,7 @@ export class SystemScene {
 
     this.scene.add(new THREE.AmbientLight(0xffffff, 0.22));
     this.scene.add(this.starLight);
-    this.scene.add(this.systemRoot, this.resultRoot);
+    this.scene.add(this.systemRoot, this.resultRoot, this.gameRoot);
 
     this.ship = new THREE.Mesh(new THREE.OctahedronGeometry(1, 0), new THREE.MeshBasicMaterial({ color: PALETTE.ship }));
     this.ship.visible = false;
@@ -454,6 +466,64 @@ export class SystemScene {
     this.requestRender();
   }
 
+  /**
+   * Draws (or, with null, removes) the game-step check's flight (dashed and beaded at its sample
+   * times, GAME_STYLE.game) and its
+   * reference flight (thin chalk), each path in its central body's frame (gamestep/trackPaths.ts).
+   * Dashes are measured along each path in units of 1/GAME_DASHES of its length, so every span
+   * shows about the same number of dashes whatever its size.
+   */
+  setGameStep(paths: TrackPath[] | null): void {
+    this.gameRoot.traverse((o) => (o as THREE.Line).geometry?.dispose());
+    this.gameRoot.clear();
+    this.gameFrames.clear();
+    for (const p of paths ?? []) {
+      let g = this.gameFrames.get(p.central);
+      if (!g) {
+        g = new THREE.Group();
+        this.gameFrames.set(p.central, g);
+        this.gameRoot.add(g);
+      }
+      const n = p.game.length / 3;
+      const game = new Float32Array(p.game.length);
+      const ref = new Float32Array(p.reference.length);
+      for (let k = 0; k < game.length; k++) {
+        game[k] = p.game[k] * U;
+        ref[k] = p.reference[k] * U;
+      }
+      const along = new Float32Array(n);
+      for (let k = 1; k < n; k++) along[k] = along[k - 1] + Math.hypot(game[3 * k] - game[3 * k - 3], game[3 * k + 1] - game[3 * k - 2], game[3 * k + 2] - game[3 * k - 1]);
+      const total = along[n - 1] || 1;
+      for (let k = 0; k < n; k++) along[k] *= GAME_DASHES / total;
+      const gg = new THREE.BufferGeometry();
+      gg.setAttribute('position', new THREE.BufferAttribute(game, 3));
+      gg.setAttribute('lineDistance', new THREE.BufferAttribute(along, 1));
+      const gl = new THREE.Line(gg, this.shared.gameLine);
+      gl.renderOrder = 3;
+      gl.userData.kind = 'game';
+      const dots = new THREE.Points(gg, this.shared.gameDots);
+      dots.renderOrder = 3;
+      const rg = new THREE.BufferGeometry();
+      rg.setAttribute('position', new THREE.BufferAttribute(ref, 3));
+      const rl = new THREE.Line(rg, this.shared.gameReference);
+      rl.renderOrder = 2;
+      rl.userData.kind = 'game-reference';
+      g.add(rl, gl, dots);
+    }
+    this.requestRender();
+  }
+
+  /** Shows or hides the game-step paths without rebuilding them. */
+  setGameStepVisible(visible: boolean): void {
+    this.gameRoot.visible = visible;
+    this.requestRender();
+  }
+
+  /** Whether game-step paths are drawn and shown (for tests). */
+  hasGameStep(): boolean {
+    return this.gameRoot.visible && this.gameRoot.children.length > 0;
+  }
+
   // ---------------------------------------------------------------- cheap changes
 
   setTime(t: number): void {
@@ -634,6 +704,7 @@ export class SystemScene {
     this.starLight.position.copy(this.bodies[0].group.position);
     this.nbodyLine?.position.copy(this.bodies[0].group.position);
     for (const [c, g] of this.frames) g.position.set((w[3 * c] - o[0]) * U, (w[3 * c + 1] - o[1]) * U, (w[3 * c + 2] - o[2]) * U);
+    for (const [c, g] of this.gameFrames) g.position.set((w[3 * c] - o[0]) * U, (w[3 * c + 1] - o[1]) * U, (w[3 * c + 2] - o[2]) * U);
     for (const m of this.markers) {
       m.group.position.copy(m.rel);
       const gp = this.frames.get(m.central)!.position;
@@ -680,6 +751,7 @@ export class SystemScene {
     this.controls.dispose();
     this.clearGroup(this.systemRoot);
     this.clearResult();
+    this.setGameStep(null);
     this.shared.dispose();
     this.renderer.dispose();
     this.renderer.domElement.remove();

@@ -35,12 +35,28 @@ export interface TimelineCallbacks {
 
 type ChartKey = (typeof CHARTS)[number]['key'];
 
+/**
+ * Extra lanes below the charts (e.g. the game-step check's error lanes), drawn against the
+ * Timeline's own time scale, so they zoom and pan with it and the cursor crosses them.
+ */
+export interface TimelineExtra {
+  /** Height, px. */
+  readonly height: number;
+  /** Called once with the group to draw into (its origin at the extra lanes' top left) and the plot's clip-path id. */
+  mount(g: SVGGElement, clipId: string): void;
+  /** Called on every redraw with the time scale (range [LAYOUT.left, width − LAYOUT.right]) and the svg width. */
+  draw(x: d3.ScaleLinear<number, number>, width: number): void;
+}
+
 export class TimelineChart {
   private svg: d3.Selection<SVGSVGElement, unknown, null, undefined>;
   private gAxis: d3.Selection<SVGGElement, unknown, null, undefined>;
   private gLanes: d3.Selection<SVGGElement, unknown, null, undefined>;
   private gCharts: d3.Selection<SVGGElement, unknown, null, undefined>;
   private gCursor: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private gExtra: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private extra: TimelineExtra | null = null;
+  private baseHeight = 0;
   private clipId = `tl-clip-${Math.random().toString(36).slice(2, 8)}`;
   private x0 = d3.scaleLinear();
   private x = d3.scaleLinear();
@@ -56,12 +72,14 @@ export class TimelineChart {
     private readonly cb: TimelineCallbacks,
   ) {
     this.height = LAYOUT.axis + LANES.length * LAYOUT.lane + LAYOUT.gap + CHARTS.length * (LAYOUT.chart + LAYOUT.gap);
+    this.baseHeight = this.height;
     this.svg = d3.select(container).append('svg').attr('class', 'timeline-svg').attr('height', this.height);
     this.svg.append('defs').append('clipPath').attr('id', this.clipId).append('rect');
     const plot = this.svg.append('g').attr('class', 'plot');
     this.gAxis = plot.append('g').attr('class', 'axis');
     this.gLanes = plot.append('g').attr('class', 'lanes');
     this.gCharts = plot.append('g').attr('class', 'charts');
+    this.gExtra = plot.append('g').attr('class', 'extra').attr('transform', `translate(0,${this.baseHeight})`);
     this.gCursor = plot.append('g').attr('class', 'cursor');
     this.buildStatic();
 
@@ -136,6 +154,18 @@ export class TimelineChart {
     this.gCursor.append('line').attr('class', 'cursor-line').attr('y1', 0).attr('y2', this.height).attr('stroke', PALETTE.cursor);
     const handle = this.gCursor.append('g').attr('class', 'cursor-handle');
     handle.append('path').attr('d', 'M-7,0 H7 V12 L0,19 L-7,12 Z').attr('fill', PALETTE.cursor);
+  }
+
+  /** Shows extra lanes below the charts (null: none); the Timeline grows by their height. */
+  setExtra(extra: TimelineExtra | null): void {
+    if (extra === this.extra) return;
+    this.gExtra.selectAll('*').remove();
+    this.extra = extra;
+    this.height = this.baseHeight + (extra ? extra.height : 0);
+    this.svg.attr('height', this.height);
+    this.gCursor.select('.cursor-line').attr('y2', this.height);
+    if (extra) extra.mount(this.gExtra.node()!, this.clipId);
+    this.resize();
   }
 
   setCalendar(cal: SystemCalendar): void {
@@ -295,6 +325,7 @@ export class TimelineChart {
       .text((d) => d.label);
     // Charts.
     CHARTS.forEach((c) => this.drawChart(c.key, data[c.key] as Series));
+    this.extra?.draw(x, this.width);
     this.placeCursor();
   }
 

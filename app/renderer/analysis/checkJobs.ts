@@ -1,0 +1,127 @@
+/**
+ * The checks as analysis-worker jobs: the game-step check of the plan (core/mission/gameStep.ts),
+ * its time-step sweep (core/mission/gameStepSweep.ts), the system stability check
+ * (core/system/stability.ts) and a quick estimate of how long a stability run will take.
+ * Plain code, run by runJob.ts in the worker and tested without one.
+ *
+ * The estimate flies two short stability runs (moons flown, moons merged) of about
+ * ESTIMATE_STEPS steps each and reports their step sizes and measured step rates; the panel
+ * multiplies them out for the span the user asks for (stability/summary.ts runEstimate). A
+ * warm-up run goes first; short runs still warm the JIT less than a long one, so the estimate
+ * errs long (in the demo about 8–10 s estimated against 6 s flown for 10,000 years). After a
+ * real run the store takes its measured rate instead.
+ */
+import { gameStepCheck, type GamePhysicsInput, type GameStepResult } from '../../../core/mission/gameStep.ts';
+import { gameStepSweep, type SweepResult } from '../../../core/mission/gameStepSweep.ts';
+import type { Plan } from '../../../core/mission/plan.ts';
+import type { PlanResult } from '../../../core/mission/result.ts';
+import type { StarSystem } from '../../../core/system/model.ts';
+import { checkStability, DEFAULT_MAX_STEPS, type StabilityResult } from '../../../core/system/stability.ts';
+
+/** Options of a game-step check that the app passes through (SI). */
+export interface GameStepJobOptions {
+  physics: GamePhysicsInput;
+  /** Position tolerance, m (omitted: the plan target's tolerance, else the core's default). */
+  tolerance?: number;
+  /** Tolerance on the relative energy drift per orbit. */
+  energyTolerance?: number;
+  /** Time-warp step for long coasts, s (omitted: long coasts are extrapolated). */
+  warpDt?: number;
+  /** Series points per span. */
+  samplesPerSpan?: number;
+}
+
+export interface StabilityJobOptions {
+  years: number;
+  mergeMoons: boolean | 'auto';
+}
+
+/** What a stability run of this system costs: per merge mode, the step and the measured step rate. */
+export interface StabilityEstimate {
+  /** Seconds per calendar year. */
+  yearLength: number;
+  /** Whether the system has moons (else `merged` equals `moons`). */
+  hasMoons: boolean;
+  /** Moons flown: step, s, and steps per second measured. */
+  moons: { h: number; stepsPerSecond: number };
+  /** Moons merged into their planets. */
+  merged: { h: number; stepsPerSecond: number };
+  /** The core's step budget (a run needing more is refused; 'auto' merges moons above it). */
+  maxSteps: number;
+}
+
+/** Steps of each timing run of the estimate, and of the warm-up run before it. */
+export const ESTIMATE_STEPS = 20_000;
+export const ESTIMATE_WARMUP = 5_000;
+/** Series points per span of an app game-step run (the core's default is 200). */
+export const APP_SAMPLES_PER_SPAN = 240;
+
+export type CheckJob =
+  | ({ kind: 'gamestep'; system: StarSystem; plan: Plan; result: PlanResult | null } & GameStepJobOptions)
+  | { kind: 'sweep'; system: StarSystem; plan: Plan; result: PlanResult | null; physics: GamePhysicsInput; tolerance?: number; energyTolerance?: number }
+  | ({ kind: 'stability'; system: StarSystem } & StabilityJobOptions)
+  | { kind: 'stability-estimate'; system: StarSystem };
+
+export type CheckOutput =
+  | { kind: 'gamestep'; check: GameStepResult }
+  | { kind: 'sweep'; sweep: SweepResult }
+  | { kind: 'stability'; stability: StabilityResult }
+  | { kind: 'stability-estimate'; estimate: StabilityEstimate };
+
+const now = (): number => (typeof performance !== 'undefined' ? performance.now() : Date.now());
+
+/** One timing run: the step at this merge mode, and the step rate over about ESTIMATE_STEPS steps. */
+function timeStability(system: StarSystem, mergeMoons: boolean): { h: number; stepsPerSecond: number } {
+  // a short run gives about the step (h = span / ⌈span / h₀⌉ ≤ h₀); a run of about ESTIMATE_STEPS steps then gives h₀ closely, and the rate
+  const probe = checkStability(system, { span: 0.01 * system.calendar.yearLength, mergeMoons, samples: 2 });
+  const h = probe.h;
+  checkStability(system, { span: ESTIMATE_WARMUP * h, mergeMoons, samples: 2 }); // warms the JIT
+  const t0 = now();
+  const r = checkStability(system, { span: ESTIMATE_STEPS * h, mergeMoons, samples: 2 });
+  const ms = Math.max(1, now() - t0);
+  return { h: r.h, stepsPerSecond: (1000 * r.steps) / ms };
+}
+
+export function runCheckJob(job: CheckJob, onProgress: (fraction: number, note: string) => void): CheckOutput {
+  switch (job.kind) {
+    case 'gamestep':
+      return {
+        kind: 'gamestep',
+        check: gameStepCheck(job.system, job.plan, {
+          physics: job.physics,
+          tolerance: job.tolerance,
+          energyTolerance: job.energyTolerance,
+          warpDt: job.warpDt,
+          samplesPerSpan: job.samplesPerSpan ?? APP_SAMPLES_PER_SPAN,
+          result: job.result ?? undefined,
+          onProgress: (f) => onProgress(f, "flying the plan with the game's physics"),
+        }),
+      };
+    case 'sweep':
+      return {
+        kind: 'sweep',
+        sweep: gameStepSweep(job.system, job.plan, {
+          physics: job.physics,
+          tolerance: job.tolerance,
+          energyTolerance: job.energyTolerance,
+          result: job.result ?? undefined,
+          onProgress: (done, total) => onProgress(total > 0 ? done / total : 0, `flight ${Math.min(done + 1, total)} of at most ${total}`),
+        }),
+      };
+    case 'stability':
+      return {
+        kind: 'stability',
+        stability: checkStability(job.system, {
+          years: job.years,
+          mergeMoons: job.mergeMoons,
+          onProgress: (f) => onProgress(f, `${Math.round(f * job.years).toLocaleString('en')} of ${job.years.toLocaleString('en')} years`),
+        }),
+      };
+    case 'stability-estimate': {
+      const hasMoons = job.system.bodies.some((b) => b.derived.depth > 1);
+      const moons = timeStability(job.system, false);
+      const merged = hasMoons ? timeStability(job.system, true) : moons;
+      return { kind: 'stability-estimate', estimate: { yearLength: job.system.calendar.yearLength, hasMoons, moons, merged, maxSteps: DEFAULT_MAX_STEPS } };
+    }
+  }
+}
