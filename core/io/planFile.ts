@@ -2,7 +2,8 @@
  * Plan files: text ↔ `Plan` (core/mission/plan.ts).
  *
  * Loading (`parsePlanFile`) runs, in order, stopping at the first stage with errors:
- *  1. JSON syntax, top level must be an object;
+ *  1. JSON syntax, top level must be an object nested at most MAX_JSON_DEPTH levels deep
+ *     (systemFile.ts);
  *  2. `format` must be "waymark-plan"; `version` an integer no newer than PLAN_VERSION; older
  *     versions pass through the migration table one step at a time;
  *  3. JSON Schema (assets/schema/plan.schema.json, draft 2020-12, ajv with allErrors);
@@ -54,7 +55,7 @@ import {
   type TargetDocument,
   type UntilDocument,
 } from './planSchema.ts';
-import { parseSystemFile, pointerToPath, schemaIssues, serializeSystemFile } from './systemFile.ts';
+import { nestingIssue, parseSystemFile, pointerToPath, schemaIssues, serializeSystemFile } from './systemFile.ts';
 
 export { PLAN_FORMAT, PLAN_VERSION, checkPlanAgainstSystem, checkPlanDocument } from './planSchema.ts';
 
@@ -112,11 +113,14 @@ export function parsePlanFile(text: string, options: PlanParseOptions = {}): Par
   if (typeof text !== 'string') fail([err('', 'must be text')]);
   let raw: unknown;
   try {
-    raw = JSON.parse(text);
+    // A leading byte-order mark (as some Windows editors save) is not part of the JSON text.
+    raw = JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
   } catch (e) {
     fail([err('', `is not valid JSON (${(e as Error).message})`)]);
   }
   if (!isObject(raw)) fail([err('', 'must be a JSON object')]);
+  const deep = nestingIssue(raw);
+  if (deep) fail([deep]);
   if (!('format' in raw)) fail([err('format', `is required (must be "${PLAN_FORMAT}")`)]);
   if (raw.format !== PLAN_FORMAT) {
     const hint = raw.format === 'waymark-system' ? 'this is a system file, not a plan file' : 'this is not a plan file';

@@ -6,8 +6,9 @@
  * angles in DEGREES. planFile.ts converts it to and from the in-memory `Plan` (SI, radians).
  *
  * Two passes of semantic checks, both returning every issue found (errors and warnings):
- * - `checkPlanDocument(doc)` on a schema-valid document: unique event ids, a vehicle with mass,
- *   explicit times in order, target consistency, staging within the stage count ...
+ * - `checkPlanDocument(doc)` on a schema-valid document: unique event ids, a vehicle with mass
+ *   (and a burnout mass), explicit times in order, target consistency, staging within the stage
+ *   count, state and Δv magnitudes the evaluator accepts ...
  * - `checkPlanAgainstSystem(plan, system)` once the system is known: every body id exists, the
  *   start and target orbits clear the body's surface (errors) and its minimum safe altitude
  *   (warnings).
@@ -16,7 +17,9 @@
  */
 
 import type { ValidationIssue } from '../math/errors.ts';
+import { MAX_PLAN_SPEED, MAX_START_DISTANCE } from '../mission/checkPlan.ts';
 import type { Plan } from '../mission/plan.ts';
+import { MIN_BURNOUT_FRACTION, MIN_STAGE_THRUST } from '../mission/vehicle.ts';
 import type { StarSystem } from '../system/model.ts';
 
 export const PLAN_FORMAT = 'waymark-plan';
@@ -143,8 +146,18 @@ export function checkPlanDocument(doc: PlanDocument): ValidationIssue[] {
   v.stages.forEach((s, k) => {
     mass += s.dry_kg + s.propellant_kg;
     if (s.propellant_kg === 0) issues.push(warn(`vehicle.stages[${k}].propellant_kg`, 'is 0: the stage cannot burn'));
+    if (!(s.thrust_N >= MIN_STAGE_THRUST)) issues.push(err(`vehicle.stages[${k}].thrust_N`, `must be at least ${MIN_STAGE_THRUST} N`));
   });
   if (!(mass > 0)) issues.push(err('vehicle', 'must have a total mass > 0 (payload, dry and propellant masses are all 0)'));
+  else if (v.stages.length > 0 && !(v.payload_kg + v.stages[v.stages.length - 1].dry_kg >= MIN_BURNOUT_FRACTION * mass)) {
+    // the evaluator's rule (vehicle.ts checkVehicle): enough must be left when the propellant is gone
+    issues.push(
+      err(
+        'vehicle.payload_kg',
+        `plus the last stage's dry_kg (vehicle.stages[${v.stages.length - 1}].dry_kg) must be > 0 and at least ${MIN_BURNOUT_FRACTION} of the total mass (the burnout mass)`,
+      ),
+    );
+  }
   const stageNames = new Map<string, number>();
   v.stages.forEach((s, k) => {
     const first = stageNames.get(s.name);
@@ -155,6 +168,13 @@ export function checkPlanDocument(doc: PlanDocument): ValidationIssue[] {
   // Start.
   const start = doc.start;
   if (start.kind === 'state' && start.r_m.every((x) => x === 0)) issues.push(err('start.r_m', 'must not be the zero vector'));
+  // Magnitudes the evaluator refuses (checkPlan.ts): past them the state's squares overflow.
+  if (start.kind === 'state' && !(Math.hypot(...start.r_m) <= MAX_START_DISTANCE)) {
+    issues.push(err('start.r_m', `must have a magnitude of at most ${MAX_START_DISTANCE} m`));
+  }
+  if (start.kind === 'state' && !(Math.hypot(...start.v_mps) <= MAX_PLAN_SPEED)) {
+    issues.push(err('start.v_mps', `must have a magnitude of at most ${MAX_PLAN_SPEED} m/s`));
+  }
 
   // Events: unique ids, explicit times in order, staging within the stage count.
   const ids = new Map<string, number>();
@@ -177,6 +197,7 @@ export function checkPlanDocument(doc: PlanDocument): ValidationIssue[] {
 
     if (ev.type === 'burn') {
       if (ev.t_s !== null) inOrder(ev.t_s, `${at}.t_s`);
+      if (!(Math.hypot(...ev.dv_mps) <= MAX_PLAN_SPEED)) issues.push(err(`${at}.dv_mps`, `must have a magnitude of at most ${MAX_PLAN_SPEED} m/s`));
       const solve = ev.solve ?? { kind: 'fixed' };
       if (solve.kind === 'transfer') {
         if (!(solve.arrive_s > lastTime)) issues.push(err(`${at}.solve.arrive_s`, `must be later than ${lastTimePath} (${lastTime} s)`));

@@ -2,7 +2,7 @@
  * System files: text ↔ `StarSystem`.
  *
  * Loading (`parseSystemFile`) runs, in order, stopping at the first stage with errors:
- *  1. JSON syntax, top level must be an object;
+ *  1. JSON syntax, top level must be an object nested at most MAX_JSON_DEPTH levels deep;
  *  2. `format` must be "waymark-system"; `version` must be an integer no newer than
  *     SYSTEM_VERSION; older versions pass through the migration table one step at a time;
  *  3. JSON Schema (assets/schema/system.schema.json, draft 2020-12, ajv with allErrors): every
@@ -76,11 +76,14 @@ export function parseSystemFile(text: string, options: ParseOptions = {}): Parse
   if (typeof text !== 'string') fail([err('', 'must be text')]);
   let raw: unknown;
   try {
-    raw = JSON.parse(text);
+    // A leading byte-order mark (as some Windows editors save) is not part of the JSON text.
+    raw = JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
   } catch (e) {
     fail([err('', `is not valid JSON (${(e as Error).message})`)]);
   }
   if (!isObject(raw)) fail([err('', 'must be a JSON object')]);
+  const deep = nestingIssue(raw);
+  if (deep) fail([deep]);
 
   if (!('format' in raw)) fail([err('format', `is required (must be "${SYSTEM_FORMAT}")`)]);
   if (raw.format !== SYSTEM_FORMAT) {
@@ -95,6 +98,37 @@ export function parseSystemFile(text: string, options: ParseOptions = {}): Parse
     fail([...issues.filter((i) => i.severity === 'error'), ...issues.filter((i) => i.severity === 'warning')]);
   }
   return { system: buildStarSystem(sysDoc), warnings: issues, fileVersion };
+}
+
+/**
+ * Deepest nesting of arrays and objects a system or plan file may have. The formats need about
+ * six levels (a plan embedding a system: system.embedded.bodies[k].orbit.a_m); a deeper file is
+ * refused before anything walks it recursively (JSON.stringify, messages quoting a value), which
+ * on a file of 10⁵ nested arrays would overflow the stack.
+ */
+export const MAX_JSON_DEPTH = 64;
+
+interface NestingStep {
+  key: string | number;
+  up: NestingStep | null;
+}
+
+/** An issue naming the first value nested deeper than MAX_JSON_DEPTH, or null. Iterative. */
+export function nestingIssue(raw: unknown): ValidationIssue | null {
+  const stack: { v: unknown; at: NestingStep | null; depth: number }[] = [{ v: raw, at: null, depth: 0 }];
+  while (stack.length > 0) {
+    const { v, at, depth } = stack.pop()!;
+    if (typeof v !== 'object' || v === null) continue;
+    if (depth >= MAX_JSON_DEPTH) {
+      const keys: (string | number)[] = [];
+      for (let s = at; s; s = s.up) keys.unshift(s.key);
+      const path = keys.reduce<string>((p, k) => (typeof k === 'number' ? `${p}[${k}]` : join(p, k)), '');
+      return err(path, `is nested too deeply (more than ${MAX_JSON_DEPTH} levels of arrays and objects)`);
+    }
+    if (Array.isArray(v)) v.forEach((x, i) => stack.push({ v: x, at: { key: i, up: at }, depth: depth + 1 }));
+    else for (const [k, x] of Object.entries(v)) stack.push({ v: x, at: { key: k, up: at }, depth: depth + 1 });
+  }
+  return null;
 }
 
 /** Brings a document of any supported version to SYSTEM_VERSION. */

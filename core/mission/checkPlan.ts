@@ -25,9 +25,22 @@ function bodyId(system: StarSystem, field: string, id: unknown): number {
   return k;
 }
 
-function vec3(field: string, v: unknown): void {
+/**
+ * Largest position magnitude of a state start, m: the system file's bound on semi-major axes
+ * (1e17 m, about ten light-years). Beyond it squares of the state overflow the arithmetic.
+ */
+export const MAX_START_DISTANCE = 1e17;
+/**
+ * Largest speed (start velocity, burn Δv magnitude) in a plan, m/s: a sanity bound like the
+ * plan file's others (1e12, 1e13), far past the speed of light (the model is Newtonian); it
+ * keeps the arithmetic finite (a Δv of 1e308 m/s overflowed the budget to −Infinity).
+ */
+export const MAX_PLAN_SPEED = 1e13;
+
+function vec3(field: string, v: unknown, max = Infinity, unit = ''): void {
   if (!Array.isArray(v) || v.length !== 3) throw new InputError(field, 'must be an array of 3 numbers', v);
   for (let i = 0; i < 3; i++) requireFinite(`${field}[${i}]`, v[i] as number);
+  if (!(Math.hypot(v[0], v[1], v[2]) <= max)) throw new InputError(field, `must have a magnitude of at most ${max} ${unit}`.trim(), v);
 }
 
 function eccentricity(field: string, e: number): void {
@@ -56,8 +69,8 @@ export function checkPlan(system: StarSystem, plan: Plan): void {
     requireFinite('start.argp', s.argp);
     requireFinite('start.nu', s.nu);
   } else if (s.kind === 'state') {
-    vec3('start.r', s.r);
-    vec3('start.v', s.v);
+    vec3('start.r', s.r, MAX_START_DISTANCE, 'm');
+    vec3('start.v', s.v, MAX_PLAN_SPEED, 'm/s');
     if (s.r[0] === 0 && s.r[1] === 0 && s.r[2] === 0) throw new InputError('start.r', 'must not be the zero vector', s.r);
   } else {
     throw new InputError('start.kind', "must be 'parking' or 'state'", (s as { kind: unknown }).kind);
@@ -74,7 +87,7 @@ export function checkPlan(system: StarSystem, plan: Plan): void {
     if (ev.type === 'burn') {
       if (ev.t !== null) requireFinite(`${p}.t`, ev.t);
       if (ev.frame !== 'vnb' && ev.frame !== 'rtn' && ev.frame !== 'inertial') throw new InputError(`${p}.frame`, "must be 'vnb', 'rtn' or 'inertial'", ev.frame);
-      vec3(`${p}.dv`, ev.dv);
+      vec3(`${p}.dv`, ev.dv, MAX_PLAN_SPEED, 'm/s');
       if (ev.mode !== 'impulsive' && ev.mode !== 'finite') throw new InputError(`${p}.mode`, "must be 'impulsive' or 'finite'", ev.mode);
       if (ev.pointing !== 'velocity' && ev.pointing !== 'inertial') throw new InputError(`${p}.pointing`, "must be 'velocity' or 'inertial'", ev.pointing);
       const sv = ev.solve;

@@ -334,8 +334,13 @@ class Flight {
       case 'periapsis':
       case 'apoapsis':
         if (until.body !== undefined && findBodyIndex(this.system, until.body) !== this.central) return Infinity;
+        // a periapsis below the surface comes after the impact (and on a fall from rest it is the
+        // centre itself, where the conic is singular)
+        if (until.kind === 'periapsis' && info.rp < this.bodies[this.central].radius) return Infinity;
         return timeToApsis(this.mu, this.st, until.kind, dtMax, MIN_EVENT_DT, info);
       case 'altitude':
+        // below the surface: only after the impact
+        if (!(until.altitude > 0) && info.rp < this.bodies[this.central].radius) return Infinity;
         return timeToRadius(this.mu, this.st, this.bodies[this.central].radius + until.altitude, 0, dtMax, MIN_EVENT_DT, info);
       case 'node':
         return timeToNode(this.mu, this.st, until.which, dtMax, MIN_EVENT_DT, info);
@@ -373,15 +378,26 @@ class Flight {
     const mu = this.mu;
     const info = conicInfo(mu, this.st, legInfo);
     const body = this.bodies[this.central];
-    // immediate exit: on or beyond the SOI surface, moving out
-    if (this.central !== 0 && info.r >= body.derived.soiRadius && info.rv > 0) {
+    // A crossing closer than the distance flown in MIN_EVENT_DT happens now: a coast that ends
+    // at a crossing's time (e.g. a timed coast to exactly the SOI exit) leaves the ship on the
+    // old conic a hair short of it, where the crossing estimate, behind by rounding, would be
+    // missed (an open conic) or found a period later (an ellipse).
+    const nearby = info.v * MIN_EVENT_DT;
+    // immediate exit: on or beyond the SOI surface, moving out (moving in, it has just entered)
+    if (this.central !== 0 && info.rv > 0 && info.r >= body.derived.soiRadius - nearby) {
       this.closeSegment();
       this.exitSoi(planEventId);
       return 'exit';
     }
     const dtExit = this.central !== 0 ? timeToRadius(mu, this.st, body.derived.soiRadius, 1, dtMax, 0, info) : Infinity;
     const dtCond = this.conditionTime(until, info, dtMax);
-    const dtImpact = info.rp < body.radius ? timeToRadius(mu, this.st, body.radius, -1, dtMax, 0, info) : Infinity;
+    // immediate impact: on the surface moving in
+    const dtImpact =
+      info.rv < 0 && info.r <= body.radius + nearby
+        ? 0
+        : info.rp < body.radius
+          ? timeToRadius(mu, this.st, body.radius, -1, dtMax, 0, info)
+          : Infinity;
     const dtB = Math.min(dtMax, dtExit, dtCond, dtImpact);
     let tNext = this.t + dtB;
     let entered = -1;

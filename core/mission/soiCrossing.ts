@@ -17,6 +17,7 @@
  * acceleration (A = μ/r_min,ship² + μ_child,orbit/r_min,child², both bodies being pulled only by the
  * central body), the distance cannot shrink by more than v0·h + A·h²/2 in a time h. The step
  * h = 2g / (v0 + √(v0² + 2·A·g)) solves v0·h + A·h²/2 = g, so no crossing can happen before it.
+ * r_min,ship is at least the central body's radius: the search window ends at an impact.
  * Steps have a floor of ENTRY_MIN_STEP (a grazing crossing shallower than ~v·ENTRY_MIN_STEP can
  * be missed). Each child keeps its own schedule, so far-away bodies are rarely evaluated, and a
  * child whose distance range from the central body [q − R_soi, Q + R_soi] does not overlap the
@@ -128,7 +129,19 @@ export function conicInfo(mu: number, state: ArrayLike<number>, out: ConicInfo =
     P[1] = ey / e;
     P[2] = ez / e;
   }
-  const wx = hx / h, wy = hy / h, wz = hz / h;
+  let wx = hx / h, wy = hy / h, wz = hz / h;
+  if (!(h > 0)) {
+    // rectilinear (r ∥ v, or at rest): no orbit plane; any normal to P serves, ν is then ±π or 0
+    const ax = Math.abs(P[0]) < 0.9 ? 1 : 0;
+    const ay = 1 - ax;
+    wx = -P[2] * ay;
+    wy = P[2] * ax;
+    wz = P[0] * ay - P[1] * ax;
+    const wn = Math.sqrt(wx * wx + wy * wy + wz * wz);
+    wx /= wn;
+    wy /= wn;
+    wz /= wn;
+  }
   Q[0] = wy * P[2] - wz * P[1];
   Q[1] = wz * P[0] - wx * P[2];
   Q[2] = wx * P[1] - wy * P[0];
@@ -233,6 +246,65 @@ export function timeToApsis(mu: number, state: ArrayLike<number>, which: 'periap
   return dt >= minDt && dt <= tMax ? dt : Infinity;
 }
 
+/** |α·r0| below which radius crossings are estimated from the true anomaly (near-parabolic). */
+const PARABOLIC_ALPHA_R = 1e-12;
+
+/**
+ * First estimate of the time to the next crossing of radius R (≥ minDt ahead), s; Infinity
+ * when the conic does not cross R in that direction; NaN for a (near-)parabola. From the
+ * eccentric or hyperbolic anomaly written in terms of the state itself (Vallado, Fundamentals
+ * of Astrodynamics and Applications, 4th ed., §2.2): on an ellipse e·cos E = 1 − r/a and
+ * e·sin E = r·v/√(μa); on a hyperbola e·cosh H = 1 + r/|a| and e·sinh H = r·v/√(μ|a|); time
+ * from Kepler's equation. Unlike the true anomaly, which piles up at ±π on a (nearly)
+ * rectilinear orbit (angular momentum → 0, a fall from rest), this stays well defined there.
+ */
+function radiusEstimate(mu: number, state: ArrayLike<number>, R: number, direction: 1 | -1 | 0, minDt: number): number {
+  const x = state[0], y = state[1], z = state[2];
+  const r0 = Math.sqrt(x * x + y * y + z * z);
+  const v2 = state[3] * state[3] + state[4] * state[4] + state[5] * state[5];
+  const rv = x * state[3] + y * state[4] + z * state[5];
+  const alpha = 2 / r0 - v2 / mu;
+  if (!(Math.abs(alpha * r0) > PARABOLIC_ALPHA_R)) return NaN;
+  let best = Infinity;
+  if (alpha > 0) {
+    const a = 1 / alpha;
+    const ec = 1 - r0 / a;
+    const es = rv / Math.sqrt(mu * a);
+    const e = Math.hypot(ec, es);
+    const cosE = (1 - R / a) / e;
+    if (!(cosE >= -1 && cosE <= 1)) return Infinity;
+    const Er = Math.acos(cosE);
+    const n = Math.sqrt(mu * alpha * alpha * alpha);
+    const M0 = Math.atan2(es, ec) - es;
+    for (let side = -1; side <= 1; side += 2) {
+      if (direction !== 0 && direction !== side) continue;
+      const E = side * Er; // outbound crossings have sin E > 0
+      let d = E - e * Math.sin(E) - M0;
+      d -= TWO_PI * Math.floor(d / TWO_PI);
+      let dt = d / n;
+      if (dt < minDt) dt += TWO_PI / n;
+      if (dt < best) best = dt;
+    }
+    return best;
+  }
+  const a = -1 / alpha;
+  const ech = 1 + r0 / a;
+  const esh = rv / Math.sqrt(mu * a);
+  const e = Math.sqrt((ech - esh) * (ech + esh));
+  const coshH = (1 + R / a) / e;
+  if (!(coshH >= 1)) return Infinity;
+  const Hr = Math.acosh(coshH);
+  const n = Math.sqrt(-mu * alpha * alpha * alpha);
+  const M0 = esh - Math.asinh(esh / e);
+  for (let side = -1; side <= 1; side += 2) {
+    if (direction !== 0 && direction !== side) continue;
+    const H = side * Hr;
+    const dt = (e * Math.sinh(H) - H - M0) / n;
+    if (dt >= minDt && dt < best) best = dt;
+  }
+  return best;
+}
+
 /**
  * Time to the next crossing of radius R (≥ minDt ahead, ≤ tMax), s, or Infinity.
  * direction +1: outbound only (r increasing), −1: inbound only, 0: either.
@@ -241,12 +313,16 @@ export function timeToRadius(mu: number, state: ArrayLike<number>, R: number, di
   const c = info ?? conicInfo(mu, state, infoScratch);
   if (!(R > 0) || !Number.isFinite(R)) return Infinity;
   if (c.e < CIRCULAR_E) return Infinity;
-  const cosNu = (c.p / R - 1) / c.e;
-  if (!(cosNu >= -1 && cosNu <= 1)) return Infinity;
-  const nuR = Math.acos(cosNu);
-  let est = Infinity;
-  if (direction >= 0) est = Math.min(est, timeToTrueAnomaly(c, nuR, minDt));
-  if (direction <= 0) est = Math.min(est, timeToTrueAnomaly(c, -nuR, minDt));
+  let est = radiusEstimate(mu, state, R, direction, minDt);
+  if (est !== est) {
+    // (near-)parabolic: from the true anomaly
+    const cosNu = (c.p / R - 1) / c.e;
+    if (!(cosNu >= -1 && cosNu <= 1)) return Infinity;
+    const nuR = Math.acos(cosNu);
+    est = Infinity;
+    if (direction >= 0) est = Math.min(est, timeToTrueAnomaly(c, nuR, minDt));
+    if (direction <= 0) est = Math.min(est, timeToTrueAnomaly(c, -nuR, minDt));
+  }
   if (!(est <= tMax + 1)) return Infinity;
   radiusTarget = R;
   // bracket half-width: stay inside the arc between the two crossings
@@ -290,7 +366,10 @@ export interface EntrySearch {
   /** Ship state relative to the central body at t0. */
   state0: ArrayLike<number>;
   t0: number;
-  /** End of the search window (absolute time, s). */
+  /**
+   * End of the search window (absolute time, s); no later than an impact on the central body
+   * (the safe step assumes the ship stays above its surface).
+   */
   tEnd: number;
   /** Child the ship has just left: it must be seen outside before an entry counts. −1: none. */
   justLeft: number;
@@ -356,6 +435,7 @@ export function findSoiEntry(q: EntrySearch, out?: EntryResult): EntryResult {
   ensure(nk);
   const c = conicInfo(q.mu, q.state0, infoScratch);
   const open = !(c.e < 1);
+  const rSurface = bodies[q.central].radius;
   for (let j = 0; j < nk; j++) {
     const bd = bodies[kids[j]].derived;
     // radius ranges that cannot meet: [rp, ra] of the ship vs the child's [q − R, Q + R]
@@ -416,9 +496,13 @@ export function findSoiEntry(q: EntrySearch, out?: EntryResult): EntryResult {
     }
     // safe step: relative speed now plus a bound on relative acceleration
     const v0 = Math.sqrt(dvx * dvx + dvy * dvy + dvz * dvz);
-    const rShipMin = open && ship[0] * ship[3] + ship[1] * ship[4] + ship[2] * ship[5] >= 0
-      ? Math.sqrt(ship[0] * ship[0] + ship[1] * ship[1] + ship[2] * ship[2])
-      : c.rp;
+    // the window ends at an impact (callers cap tEnd there), so the ship stays above the surface
+    const rShipMin = Math.max(
+      rSurface,
+      open && ship[0] * ship[3] + ship[1] * ship[4] + ship[2] * ship[5] >= 0
+        ? Math.sqrt(ship[0] * ship[0] + ship[1] * ship[1] + ship[2] * ship[2])
+        : c.rp,
+    );
     const A = q.mu / (rShipMin * rShipMin) + body.derived.orbitMu / (body.derived.periapsis * body.derived.periapsis);
     const ga = Math.abs(g);
     let h = (2 * ga) / (v0 + Math.sqrt(v0 * v0 + 2 * A * ga));

@@ -67,6 +67,20 @@ export interface BurnBook {
   phaseExhaust: Float64Array;
 }
 
+/**
+ * Smallest stage thrust accepted, N (a micro-newton, below any real thruster): burn durations
+ * m·v_e/F stay finite for every mass and exhaust velocity the plan file allows.
+ */
+export const MIN_STAGE_THRUST = 1e-6;
+
+/**
+ * Smallest burnout mass (payload plus the last stage's dry mass) as a fraction of the full
+ * vehicle's mass: below it m0 − m_propellant loses every digit (a burnout mass of 1e-300 kg
+ * under 20 kg of propellant came out as 0 and the Δv capacity as Infinity). A mass ratio of 1e9
+ * is far past any rocket (Δv ≈ 20.7 exhaust velocities).
+ */
+export const MIN_BURNOUT_FRACTION = 1e-9;
+
 /** Throws InputError (field path under `path`) unless the vehicle is well formed. */
 export function checkVehicle(vehicle: Vehicle, path = 'vehicle'): void {
   if (!vehicle || typeof vehicle !== 'object') throw new InputError(path, 'must be a vehicle object', vehicle);
@@ -83,10 +97,15 @@ export function checkVehicle(vehicle: Vehicle, path = 'vehicle'): void {
     requireNonNeg(`${sp}.propellantMass`, s.propellantMass);
     requirePos(`${sp}.isp`, s.isp);
     requirePos(`${sp}.thrust`, s.thrust);
+    if (!(s.thrust >= MIN_STAGE_THRUST)) throw new InputError(`${sp}.thrust`, `must be at least ${MIN_STAGE_THRUST} N`, s.thrust);
   });
   const last = vehicle.stages[vehicle.stages.length - 1];
   if (!(vehicle.payloadMass + last.dryMass > 0)) {
     throw new InputError(`${path}.payloadMass`, 'plus the last stage dry mass must be > 0 (the burnout mass)', vehicle.payloadMass);
+  }
+  const total = vehicle.stages.reduce((m, s) => m + s.dryMass + s.propellantMass, vehicle.payloadMass);
+  if (!(vehicle.payloadMass + last.dryMass >= MIN_BURNOUT_FRACTION * total)) {
+    throw new InputError(`${path}.payloadMass`, `plus the last stage dry mass must be at least ${MIN_BURNOUT_FRACTION} of the total mass ${total} kg (a smaller burnout mass is lost to rounding)`, vehicle.payloadMass);
   }
 }
 

@@ -138,6 +138,9 @@ function solveEllipticReduced(m: number, e: number): number {
     const fpp = e * sinE;
     const hd = fp - (0.5 * f * fpp) / fp;
     const step = hd > 0 ? -f / hd : -f / fp;
+    // converged: tested before the bracket, since a last step below the rounding of E leaves
+    // En === E === lo (or hi), which the bracket test would keep bisecting away from
+    if (Math.abs(step) <= STEP_TOL * E + TINY) return E + step;
     let En = E + step;
     if (!(En > lo && En < hi)) {
       En = 0.5 * (lo + hi);
@@ -146,7 +149,6 @@ function solveEllipticReduced(m: number, e: number): number {
       continue;
     }
     E = En;
-    if (Math.abs(step) <= STEP_TOL * E + TINY) return E;
   }
   throw new SolverError('kepler-elliptic', 'no-convergence', `no eccentric anomaly after ${ANOMALY_MAX_ITER} iterations`, { M: m, e });
 }
@@ -210,7 +212,10 @@ export function solveHyperbolicKepler(M: number, e: number, eMinus1: number): nu
   const s2 = s * s;
   s += (0.071 * s2 * s2 * s) / ((1 + 0.45 * s2) * (1 + 4 * s2) * e);
   let H = 3 * Math.asinh(s);
-  if (!(H > lo && H < hi)) H = 0.5 * (lo + hi);
+  // outside the bracket: start from its nearer end (the midpoint of a bracket as wide as
+  // [asinh(m/e), ∛(6m/e)] is far up the exponential, where Newton creeps one unit per step)
+  if (!(H > lo)) H = lo;
+  else if (!(H < hi)) H = hi;
   for (let it = 0; it < ANOMALY_MAX_ITER; it++) {
     const f = eMinus1 * H + e * sinhMinusX(H) - m;
     if (f === 0) return M < 0 ? -H : H;
@@ -218,11 +223,14 @@ export function solveHyperbolicKepler(M: number, e: number, eMinus1: number): nu
     else hi = H;
     const sh = Math.sinh(H);
     const ch = Math.cosh(H);
-    // f' = e cosh H − 1 = (e − 1) + e (cosh H − 1), cosh H − 1 = sinh²H/(cosh H + 1)
-    const fp = eMinus1 + (e * sh * sh) / (ch + 1);
+    // f' = e cosh H − 1 = (e − 1) + e (cosh H − 1), cosh H − 1 = sinh²H/(cosh H + 1) near 0
+    // (for large H the square would overflow where cosh H itself does not)
+    const fp = eMinus1 + e * (ch < 2 ? (sh * sh) / (ch + 1) : ch - 1);
     const fpp = e * sh;
-    const hd = fp - (0.5 * f * fpp) / fp;
+    const hd = fp - 0.5 * f * (fpp / fp); // f·f'' alone can overflow
     const step = hd > 0 ? -f / hd : -f / fp;
+    // converged: tested before the bracket (see solveEllipticReduced)
+    if (Math.abs(step) <= STEP_TOL * H + TINY) return M < 0 ? -(H + step) : H + step;
     let Hn = H + step;
     if (!(Hn > lo && Hn < hi)) {
       Hn = 0.5 * (lo + hi);
@@ -231,7 +239,6 @@ export function solveHyperbolicKepler(M: number, e: number, eMinus1: number): nu
       continue;
     }
     H = Hn;
-    if (Math.abs(step) <= STEP_TOL * H + TINY) return M < 0 ? -H : H;
   }
   throw new SolverError('kepler-hyperbolic', 'no-convergence', `no hyperbolic anomaly after ${ANOMALY_MAX_ITER} iterations`, { M, e });
 }

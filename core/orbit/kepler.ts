@@ -22,7 +22,10 @@
  *   (π + 2)/√α — is the other. A step that leaves the bracket is replaced by bisection, and
  *   from the 8th step on every 4th step bisects, so a slow crawl cannot exhaust the budget.
  * - Stop: when |F| falls to the rounding level of its own terms (KEPLER_RESIDUAL_FACTOR·ε
- *   times their magnitudes), i.e. χ cannot be improved in double precision.
+ *   times their magnitudes), i.e. χ cannot be improved in double precision — unless that
+ *   rounding exceeds KEPLER_UNRESOLVED·√μ·|Δt|: there the terms cancel so badly that F ≈ 0
+ *   says nothing (a nearly rectilinear hyperbola far out, from a starter far past the root, gave
+ *   a point on the way out instead of on the way in), and the bracket shrinks toward χ = 0.
  * - Hyperbolas with a large change of hyperbolic anomaly (ΔH ≳ HYPERBOLIC_ANOMALY_SWITCH):
  *   the terms of F grow like e·sinh H0·cosh ΔH while their sum is only
  *   e·sinh H1 − e·sinh H0 − ΔH. Flying from far out back toward periapsis they cancel by many
@@ -50,6 +53,11 @@ import { stumpffCS } from './stumpff.ts';
 export const KEPLER_MAX_ITER = 60;
 /** Converged when |F| ≤ KEPLER_RESIDUAL_FACTOR·ε·(sum of |terms of F|). */
 export const KEPLER_RESIDUAL_FACTOR = 32;
+/**
+ * A χ where the rounding of F exceeds this fraction of √μ·|Δt| is not accepted as a root (the
+ * terms of F cancel there by more than eleven orders of magnitude): the bracket shrinks instead.
+ */
+export const KEPLER_UNRESOLVED = 1e-3;
 /** |α·r0| below this uses the parabolic (Barker) starter. */
 export const NEAR_PARABOLIC = 1e-6;
 /**
@@ -193,7 +201,17 @@ function solve(mu: number, state: ArrayLike<number>, dt: number, c: Float64Array
       chi = 0.5 * (lo + hi);
       continue;
     }
-    if (Math.abs(F) <= KEPLER_RESIDUAL_FACTOR * EPS * (Math.abs(t1) + Math.abs(t2) + Math.abs(t3) + absSdt)) {
+    const rounding = KEPLER_RESIDUAL_FACTOR * EPS * (Math.abs(t1) + Math.abs(t2) + Math.abs(t3) + absSdt);
+    if (rounding > KEPLER_UNRESOLVED * absSdt) {
+      // the terms of F cancel so far that F cannot resolve the time here (a nearly rectilinear
+      // hyperbola far out, from a guess far past the root, where they grow like cosh): do not
+      // take F ≈ 0 for a root; |χ| is too large, so shrink the bracket toward 0
+      if (chi > 0) hi = chi;
+      else lo = chi;
+      chi = 0.5 * (lo + hi);
+      continue;
+    }
+    if (Math.abs(F) <= rounding) {
       converged = true;
       break;
     }

@@ -3,12 +3,13 @@
  * schema cannot express (references between bodies, mass ordering, geometry, plausibility).
  *
  * Errors (the file does not load): duplicate ids, unknown or self parents, parent cycles,
- * a child at least as massive as its parent, a periapsis that puts the body's surface inside
+ * a mass so small that G·mass underflows to 0, a child at least as massive as its parent, a periapsis that puts the body's surface inside
  * the parent, a calendar home that is missing, the star, without rotation or tidally locked,
  * an explicit day longer than the year.
  *
  * Warnings (the file loads): a moon whose apoapsis leaves the parent's sphere of influence or
- * lies beyond half the parent's Hill radius, sibling orbits whose distance ranges overlap,
+ * lies beyond half the parent's Hill radius, sibling orbits whose distance ranges overlap
+ * (at most MAX_OVERLAP_WARNINGS of them, then one warning counting the rest),
  * a periapsis inside the parent's atmosphere / terrain band, an implausible minimum safe
  * altitude (larger than the body's radius), an implausible mean density, a sphere of
  * influence smaller than the body itself.
@@ -26,6 +27,9 @@ export const PLAUSIBLE_DENSITY_KG_M3: readonly [number, number] = [200, 30000];
  * (Domingos, Winter & Yokoyama, MNRAS 373 (2006) 1227: ≈ 0.49 R_H for prograde orbits).
  */
 export const STABLE_HILL_FRACTION = 0.5;
+
+/** Sibling-overlap warnings listed one by one; further overlapping pairs are counted in one warning. */
+export const MAX_OVERLAP_WARNINGS = 100;
 
 interface Node {
   path: string;
@@ -150,6 +154,11 @@ export function checkSystemDocument(doc: SystemDocument): ValidationIssue[] {
   for (let k = 1; k < nodes.length; k++) {
     const n = nodes[k];
     const p = nodes[n.parent];
+    if (!(n.mu > 0)) {
+      // a mass so small that G·mass underflows to 0 (the schema only asks for mass > 0)
+      error(`${n.path}.${n.muField}`, `gives μ = G·mass = ${n.mu} m³/s²; it must be > 0 (the mass is too small to represent)`);
+      continue;
+    }
     if (!(n.mu < p.mu)) {
       error(`${n.path}.${n.muField}`, `must give a smaller μ than the parent "${p.id}" (${sci(n.mu)} >= ${sci(p.mu)} m³/s²)`);
       continue;
@@ -204,6 +213,9 @@ export function checkSystemDocument(doc: SystemDocument): ValidationIssue[] {
       );
     }
   }
+  // Pairs grow as n²: past MAX_OVERLAP_WARNINGS the rest are counted in one closing warning
+  // (a file of a thousand asteroids would otherwise carry hundreds of thousands of warnings).
+  let overlaps = 0;
   for (let k = 1; k < nodes.length; k++) {
     for (let j = 1; j < k; j++) {
       const a = nodes[j];
@@ -214,12 +226,16 @@ export function checkSystemDocument(doc: SystemDocument): ValidationIssue[] {
       const qb = b.a * (1 - b.e);
       const Qb = b.a * (1 + b.e);
       if (qa <= Qb && qb <= Qa) {
+        if (++overlaps > MAX_OVERLAP_WARNINGS) continue;
         warn(
           `${b.path}.orbit`,
           `distance range ${km(qb)}–${km(Qb)} overlaps that of sibling "${a.id}" (${km(qa)}–${km(Qa)}); the orbits may cross`,
         );
       }
     }
+  }
+  if (overlaps > MAX_OVERLAP_WARNINGS) {
+    warn('bodies', `${overlaps - MAX_OVERLAP_WARNINGS} more pairs of sibling orbits overlap in distance (only the first ${MAX_OVERLAP_WARNINGS} are listed)`);
   }
   return issues;
 }
