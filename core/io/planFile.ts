@@ -31,6 +31,7 @@
  * its nearest degree value and reads back within 1 ulp.
  */
 
+import { migrateDocument, type Migration } from './migrate.ts';
 import { Ajv2020, type ErrorObject } from 'ajv/dist/2020.js';
 import schema from '../../assets/schema/plan.schema.json' with { type: 'json' };
 import { ValidationError, type ValidationIssue } from '../math/errors.ts';
@@ -65,7 +66,7 @@ const RAD_PER_DEG = Math.PI / 180;
 /** Where a plan's system comes from: a system file named relative to the plan file, or embedded. */
 export type PlanSystemRef = { kind: 'path'; path: string } | { kind: 'embedded'; system: StarSystem };
 
-export type PlanMigration = (doc: Record<string, unknown>) => Record<string, unknown>;
+export type PlanMigration = Migration;
 
 /** Migration from version v (the key) to v + 1. Empty: version 1 is the first format. */
 export const PLAN_MIGRATIONS: Readonly<Record<number, PlanMigration>> = {};
@@ -177,19 +178,7 @@ export function migratePlan(
   raw: Record<string, unknown>,
   table: Readonly<Record<number, PlanMigration>> = PLAN_MIGRATIONS,
 ): { doc: Record<string, unknown>; fileVersion: number } {
-  if (!('version' in raw)) fail([err('version', 'is required')]);
-  const v = raw.version;
-  if (typeof v !== 'number' || !Number.isInteger(v)) fail([err('version', `must be an integer (got ${JSON.stringify(v)})`)]);
-  if (v > PLAN_VERSION) {
-    fail([err('version', `is ${v}, newer than this program reads (up to ${PLAN_VERSION}); use a newer Waymark`)]);
-  }
-  let doc = raw;
-  for (let from = v; from < PLAN_VERSION; from++) {
-    const step = table[from];
-    if (!step) fail([err('version', `is ${v}, which this program cannot read or migrate (it reads ${PLAN_VERSION})`)]);
-    doc = { ...step(doc), version: from + 1 };
-  }
-  return { doc, fileVersion: v };
+  return migrateDocument(WHAT, raw, PLAN_VERSION, table);
 }
 
 /**

@@ -24,6 +24,7 @@
  * that read back to the same double; angles rounded to 12 significant digits in degrees.
  */
 
+import { migrateDocument, type Migration } from './migrate.ts';
 import { Ajv2020, type ErrorObject } from 'ajv/dist/2020.js';
 import schema from '../../assets/schema/system.schema.json' with { type: 'json' };
 import { ValidationError, type ValidationIssue } from '../math/errors.ts';
@@ -34,7 +35,7 @@ import { checkSystemDocument } from '../system/validate.ts';
 
 const WHAT = 'system file';
 
-export type SystemMigration = (doc: Record<string, unknown>) => Record<string, unknown>;
+export type SystemMigration = Migration;
 
 /** Migration from version v (the key) to v + 1. Empty: version 1 is the first format. */
 export const SYSTEM_MIGRATIONS: Readonly<Record<number, SystemMigration>> = {};
@@ -136,19 +137,7 @@ export function migrate(
   raw: Record<string, unknown>,
   table: Readonly<Record<number, SystemMigration>> = SYSTEM_MIGRATIONS,
 ): { doc: Record<string, unknown>; fileVersion: number } {
-  if (!('version' in raw)) fail([err('version', 'is required')]);
-  const v = raw.version;
-  if (typeof v !== 'number' || !Number.isInteger(v)) fail([err('version', `must be an integer (got ${JSON.stringify(v)})`)]);
-  if (v > SYSTEM_VERSION) {
-    fail([err('version', `is ${v}, newer than this program reads (up to ${SYSTEM_VERSION}); use a newer Waymark`)]);
-  }
-  let doc = raw;
-  for (let from = v; from < SYSTEM_VERSION; from++) {
-    const step = table[from];
-    if (!step) fail([err('version', `is ${v}, which this program cannot read or migrate (it reads ${SYSTEM_VERSION})`)]);
-    doc = { ...step(doc), version: from + 1 };
-  }
-  return { doc, fileVersion: v };
+  return migrateDocument(WHAT, raw, SYSTEM_VERSION, table);
 }
 
 /** "/bodies/3/orbit/e" → "bodies[3].orbit.e". */
