@@ -5,12 +5,14 @@
  * the calling thread would compute.
  *
  * - Progress is reported once per finished chunk, in cells.
- * - Cancellation: abort the AbortSignal given to `compute`; queued chunks are dropped and
- *   running workers are stopped (piscina terminates their threads), and `compute` rejects
- *   with SolverError('porkchop', 'cancelled').
+ * - Cancellation: abort the AbortSignal given to `compute`; `compute` rejects at once with
+ *   SolverError('porkchop', 'cancelled'), no further chunk is sent, and the chunks already
+ *   running (at most one per worker, each a few rows) finish in the background and are dropped.
+ *   Chunks are handed out one per free worker rather than all queued with piscina's own abort
+ *   signal: aborting piscina tasks terminates worker threads, and a reply racing the
+ *   termination surfaces as an uncaught "Unexpected message from Worker".
  * - Validation happens in the calling thread before any work is sent.
  */
-import { setMaxListeners } from 'node:events';
 import { Piscina } from 'piscina';
 import { SolverError } from '../../core/math/errors.ts';
 import { mergeChunk, partitionRows } from '../../core/search/chunks.ts';
@@ -49,38 +51,38 @@ export class PorkchopPool {
     const { nRows, nCols } = grid.planes;
     const chunks = partitionRows(nRows, options.chunks ?? this.workers * CHUNKS_PER_WORKER);
     const total = nRows * nCols;
-    const outer = options.signal;
-    const inner = new AbortController();
-    setMaxListeners(0, inner.signal); // one listener per queued chunk
-    const relay = (): void => inner.abort();
-    if (outer?.aborted) inner.abort();
-    else outer?.addEventListener('abort', relay, { once: true });
+    const signal = options.signal;
     let done = 0;
+    let next = 0;
     let failure: unknown = null;
-    try {
-      await Promise.all(
-        chunks.map((c) => {
-          const task: ChunkTask = { system, request: grid.request, rowStart: c.rowStart, rowEnd: c.rowEnd };
-          return this.pool.run(task, { signal: inner.signal }).then(
-            (r: ChunkResult) => {
-              if (inner.signal.aborted) return;
-              mergeChunk(grid.planes, r.planes);
-              grid.unsolved += r.unsolved;
-              done += r.planes.nRows * nCols;
-              options.onProgress?.(done, total);
-            },
-            (err: unknown) => {
-              if (failure === null && !inner.signal.aborted) failure = err;
-              inner.abort();
-            },
-          );
-        }),
-      );
-    } finally {
-      outer?.removeEventListener('abort', relay);
-    }
+    const cancelled = (): boolean => signal?.aborted === true;
+    const worker = async (): Promise<void> => {
+      while (next < chunks.length && failure === null && !cancelled()) {
+        const c = chunks[next++];
+        const task: ChunkTask = { system, request: grid.request, rowStart: c.rowStart, rowEnd: c.rowEnd };
+        try {
+          const r: ChunkResult = await this.pool.run(task);
+          if (cancelled()) return;
+          mergeChunk(grid.planes, r.planes);
+          grid.unsolved += r.unsolved;
+          done += r.planes.nRows * nCols;
+          options.onProgress?.(done, total);
+        } catch (err) {
+          if (failure === null) failure = err;
+        }
+      }
+    };
+    const all = Promise.all(Array.from({ length: Math.min(this.workers, chunks.length) }, worker));
+    // Reject as soon as the caller aborts, without waiting for the chunks in flight.
+    const aborted = new Promise<void>((resolve) => {
+      if (!signal) return;
+      if (signal.aborted) resolve();
+      else signal.addEventListener('abort', () => resolve(), { once: true });
+    });
+    await Promise.race([all, aborted]);
     if (failure !== null) throw failure;
-    if (inner.signal.aborted) {
+    if (cancelled()) {
+      all.catch(() => undefined);
       throw new SolverError('porkchop', 'cancelled', `cancelled after ${done} of ${total} cells`, { done, total });
     }
     return grid;
