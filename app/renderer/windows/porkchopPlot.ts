@@ -176,9 +176,11 @@ export class PorkchopPlot {
 
     // Axes.
     this.gAxes.selectAll('*').remove();
-    const ticks = calendarTicks(this.cal, d0, d1, Math.max(3, Math.floor((L.x1 - L.x0) / 95)));
+    const ticks = calendarTicks(this.cal, d0, d1, Math.max(4, Math.floor((L.x1 - L.x0) / 44)));
     const ax = this.gAxes.append('g').attr('class', 'axis').attr('transform', `translate(0,${L.y1})`);
     for (const t of ticks) {
+      // A label centred within 22 px of the right edge would run into the colour ramp's unit.
+      if (this.x(t.t) > L.x1 - 22) continue;
       const gx = ax.append('g').attr('transform', `translate(${this.x(t.t)},0)`);
       gx.append('line').attr('y2', 5);
       gx.append('text').attr('y', 16).attr('text-anchor', 'middle').text(t.label);
