@@ -46,7 +46,7 @@ import { basename, dirname, isAbsolute, join, resolve } from 'node:path';
 import { ValidationError, WaymarkError, type ValidationIssue } from '../../core/math/errors.ts';
 import { PLAN_FORMAT, PLAN_VERSION, parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../core/io/planFile.ts';
 import { parseSystemFile } from '../../core/io/systemFile.ts';
-import type { Plan } from '../../core/mission/plan.ts';
+import type { Plan } from '../../core/plan/plan.ts';
 import type { StarSystem } from '../../core/system/model.ts';
 
 /** A file could not be read or written; `reason` is the plain explanation, `code` the OS code. */

@@ -13,8 +13,8 @@
  */
 
 import { InputError } from '../math/errors.ts';
-import type { SampledEphemeris } from '../mission/ephemerisSampler.ts';
-import type { Budget } from '../mission/result.ts';
+import type { SampledEphemeris } from '../conic/ephemerisSampler.ts';
+import type { Budget } from '../plan/result.ts';
 import type { StarSystem } from '../system/model.ts';
 
 const EOL = '\r\n';

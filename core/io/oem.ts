@@ -8,7 +8,7 @@
  *             TIME_SYSTEM, START_TIME, USEABLE_START_TIME, USEABLE_STOP_TIME, STOP_TIME,
  *             META_STOP, then data lines "epoch x y z x_dot y_dot z_dot" (km, km/s).
  * One metadata block (the standard's "segment") per central-body span of the sampled
- * ephemeris (core/mission/ephemerisSampler.ts), since the centre is a metadata item.
+ * ephemeris (core/conic/ephemerisSampler.ts), since the centre is a metadata item.
  *
  * Choices for invented star systems (they have no UTC, no Earth and no ICRF):
  * - TIME_SYSTEM = TDB. The system clock is a uniform coordinate time with no leap seconds,
@@ -37,7 +37,7 @@
  */
 
 import { InputError, ValidationError, type ValidationIssue } from '../math/errors.ts';
-import type { SampledEphemeris } from '../mission/ephemerisSampler.ts';
+import type { SampledEphemeris } from '../conic/ephemerisSampler.ts';
 import type { StarSystem } from '../system/model.ts';
 
 export const OEM_VERSION = '2.0';

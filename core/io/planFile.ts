@@ -1,5 +1,5 @@
 /**
- * Plan files: text ↔ `Plan` (core/mission/plan.ts).
+ * Plan files: text ↔ `Plan` (core/plan/plan.ts).
  *
  * Loading (`parsePlanFile`) runs, in order, stopping at the first stage with errors:
  *  1. JSON syntax, top level must be an object nested at most MAX_JSON_DEPTH levels deep
@@ -43,7 +43,7 @@ import type {
   PlanEvent,
   PlanStart,
   PlanTarget,
-} from '../mission/plan.ts';
+} from '../plan/plan.ts';
 import type { StarSystem } from '../system/model.ts';
 import {
   PLAN_FORMAT,

@@ -17,9 +17,9 @@
  */
 
 import type { ValidationIssue } from '../math/errors.ts';
-import { MAX_PLAN_SPEED, MAX_START_DISTANCE } from '../mission/checkPlan.ts';
-import type { Plan } from '../mission/plan.ts';
-import { MIN_BURNOUT_FRACTION, MIN_STAGE_THRUST } from '../mission/vehicle.ts';
+import { MAX_PLAN_SPEED, MAX_START_DISTANCE } from '../plan/checkPlan.ts';
+import type { Plan } from '../plan/plan.ts';
+import { MIN_BURNOUT_FRACTION, MIN_STAGE_THRUST } from '../plan/vehicle.ts';
 import type { StarSystem } from '../system/model.ts';
 
 export const PLAN_FORMAT = 'waymark-plan';

@@ -6,9 +6,9 @@
  * tables; `|` in names is escaped.
  */
 
-import { G0 } from '../mission/rocket.ts';
-import type { Plan } from '../mission/plan.ts';
-import type { Flag, PlanResult } from '../mission/result.ts';
+import { G0 } from '../plan/rocket.ts';
+import type { Plan } from '../plan/plan.ts';
+import type { Flag, PlanResult } from '../plan/result.ts';
 import { formatDate, formatElapsed } from '../system/calendar.ts';
 import type { StarSystem } from '../system/model.ts';
 

@@ -1,5 +1,5 @@
 /**
- * Plan evaluation speed (core/mission/evaluate.ts, patched conics).
+ * Plan evaluation speed (core/conic/evaluate.ts, patched conics).
  *
  * Figures: the demo plan (test/fixtures/demoPlan.ts) re-evaluated as on every keystroke (96
  * drawing samples per segment; goal: median under 5 ms) and a 10-burn plan (the demo plus five
@@ -12,8 +12,8 @@
  */
 import { readFileSync } from 'node:fs';
 import { parseSystemFile } from '../../core/io/systemFile.ts';
-import { evaluate } from '../../core/mission/evaluate.ts';
-import type { Plan, PlanEvent } from '../../core/mission/plan.ts';
+import { evaluate } from '../../core/conic/evaluate.ts';
+import type { Plan, PlanEvent } from '../../core/plan/plan.ts';
 import { propagateKepler } from '../../core/orbit/kepler.ts';
 import { clonePlan, demoPlan } from '../fixtures/demoPlan.ts';
 import { printTable, timeMedian } from './table.ts';

@@ -18,8 +18,8 @@
  */
 import { readFileSync } from 'node:fs';
 import { parseSystemFile } from '../../core/io/systemFile.ts';
-import { gameStepCheck, prepareGameStep } from '../../core/mission/gameStep.ts';
-import { checkStability } from '../../core/system/stability.ts';
+import { gameStepCheck, prepareGameStep } from '../../core/gamestep/check.ts';
+import { checkStability } from '../../core/checks/stability.ts';
 import { initialStates } from '../../core/system/nbodyEphemeris.ts';
 import { demoPlan } from '../fixtures/demoPlan.ts';
 import { printTable } from './table.ts';

@@ -1,5 +1,5 @@
 /**
- * n-body verification, correction and dispersion speed (core/mission/nbody.ts, correct.ts,
+ * n-body verification, correction and dispersion speed (core/nbody/verify.ts, correct.ts,
  * disperse.ts).
  *
  * Figures (goal: n-body verification of a one-year cruise with all demo bodies under 150 ms;
@@ -18,11 +18,11 @@ import { createRequire } from 'node:module';
 import { readFileSync } from 'node:fs';
 import { parseSystemFile } from '../../core/io/systemFile.ts';
 import { propagate } from '../../core/integrate/propagate.ts';
-import { correctPlan } from '../../core/mission/correct.ts';
-import { prepareDispersion, runSamples } from '../../core/mission/disperse.ts';
-import { evaluate } from '../../core/mission/evaluate.ts';
-import { verifyNBody } from '../../core/mission/nbody.ts';
-import type { Plan } from '../../core/mission/plan.ts';
+import { correctPlan } from '../../core/nbody/correct.ts';
+import { prepareDispersion, runSamples } from '../../core/nbody/disperse.ts';
+import { evaluate } from '../../core/conic/evaluate.ts';
+import { verifyNBody } from '../../core/nbody/verify.ts';
+import type { Plan } from '../../core/plan/plan.ts';
 import { clonePlan, demoPlan } from '../fixtures/demoPlan.ts';
 import { printTable, timeMedian } from './table.ts';
 

@@ -5,7 +5,7 @@
  * evaluator too, and must come back as flags, not exceptions.
  */
 import { parseSystemFile } from '../../core/io/systemFile.ts';
-import type { Plan } from '../../core/mission/plan.ts';
+import type { Plan } from '../../core/plan/plan.ts';
 import type { StarSystem } from '../../core/system/model.ts';
 import { built } from './draw.ts';
 import { evaluateChecked } from './evaluation.ts';

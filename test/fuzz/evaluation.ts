@@ -4,9 +4,9 @@
  * an InputError naming the field; nothing else may come out.
  */
 import { InputError } from '../../core/math/errors.ts';
-import { evaluate, type EvaluateOptions } from '../../core/mission/evaluate.ts';
-import type { Plan } from '../../core/mission/plan.ts';
-import type { PlanResult } from '../../core/mission/result.ts';
+import { evaluate, type EvaluateOptions } from '../../core/conic/evaluate.ts';
+import type { Plan } from '../../core/plan/plan.ts';
+import type { PlanResult } from '../../core/plan/result.ts';
 import type { StarSystem } from '../../core/system/model.ts';
 import { findNonFinite } from './finite.ts';
 import { CaseFailure, typedOrFail } from './verdict.ts';

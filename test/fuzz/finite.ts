@@ -1,6 +1,6 @@
 /**
  * Walks a result (plain objects, arrays, typed arrays) and lists every number that is NaN or
- * infinite, with its path. `PlanResult` (core/mission/result.ts) documents no infinite field:
+ * infinite, with its path. `PlanResult` (core/plan/result.ts) documents no infinite field:
  * open orbits and missing quantities are written as null (apoapsis altitude, period fraction,
  * closest approach), so every number in it must be finite.
  */

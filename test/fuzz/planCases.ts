@@ -8,7 +8,7 @@
  */
 import { ValidationError, type ValidationIssue } from '../../core/math/errors.ts';
 import { parsePlanFile, requirePlanFitsSystem, serializePlanFile } from '../../core/io/planFile.ts';
-import type { Plan } from '../../core/mission/plan.ts';
+import type { Plan } from '../../core/plan/plan.ts';
 import type { StarSystem } from '../../core/system/model.ts';
 import { samplePlan, stateStartPlan } from '../core/io/planSamples.ts';
 import { built, type Draw } from './draw.ts';

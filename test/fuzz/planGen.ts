@@ -5,7 +5,7 @@
  * inside the plan file's schema ranges, so a plan written with serializePlanFile reads back.
  * Also the demo plan with a few of its numbers moved.
  */
-import type { BurnEvent, CoastUntil, Plan, PlanEvent, PlanStart, Stage } from '../../core/mission/plan.ts';
+import type { BurnEvent, CoastUntil, Plan, PlanEvent, PlanStart, Stage } from '../../core/plan/plan.ts';
 import type { StarSystem } from '../../core/system/model.ts';
 import type { Draw } from './draw.ts';
 

@@ -7,7 +7,7 @@
 import { ValidationError, type ValidationIssue } from '../../core/math/errors.ts';
 import { parsePlanFile, requirePlanFitsSystem } from '../../core/io/planFile.ts';
 import { parseSystemFile } from '../../core/io/systemFile.ts';
-import type { Plan } from '../../core/mission/plan.ts';
+import type { Plan } from '../../core/plan/plan.ts';
 import { G_NEWTON } from '../../core/system/document.ts';
 import { laplaceSoiRadius } from '../../core/system/derived.ts';
 import type { StarSystem } from '../../core/system/model.ts';

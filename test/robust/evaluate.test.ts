@@ -5,13 +5,13 @@
  * result with flags, never an exception — and the cases that failed once, kept as regressions.
  */
 import { describe, expect, it } from 'vitest';
-import { evaluate } from '../../core/mission/evaluate.ts';
-import type { Plan, PlanEvent } from '../../core/mission/plan.ts';
-import type { PlanResult } from '../../core/mission/result.ts';
-import { conicInfo, MIN_EVENT_DT } from '../../core/mission/soiCrossing.ts';
+import { evaluate } from '../../core/conic/evaluate.ts';
+import type { Plan, PlanEvent } from '../../core/plan/plan.ts';
+import type { PlanResult } from '../../core/plan/result.ts';
+import { conicInfo, MIN_EVENT_DT } from '../../core/conic/soiCrossing.ts';
 import { propagateKepler } from '../../core/orbit/kepler.ts';
 import { clonePlan, demoPlan } from '../fixtures/demoPlan.ts';
-import { bigVehicle, MU_EARTH, MU_SUN, plan, R_EARTH, stateStart, testSystem } from '../core/mission/helpers.ts';
+import { bigVehicle, MU_EARTH, MU_SUN, plan, R_EARTH, stateStart, testSystem } from '../core/plan/helpers.ts';
 import { checkResult } from '../fuzz/evaluation.ts';
 import { demoSystem } from '../fuzz/files.ts';
 import { TARGETS } from '../fuzz/targets.ts';

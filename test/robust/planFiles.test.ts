@@ -7,8 +7,8 @@
 import { describe, expect, it } from 'vitest';
 import { InputError, ValidationError } from '../../core/math/errors.ts';
 import { parsePlanFile, requirePlanFitsSystem, serializePlanFile } from '../../core/io/planFile.ts';
-import { evaluate } from '../../core/mission/evaluate.ts';
-import type { Plan } from '../../core/mission/plan.ts';
+import { evaluate } from '../../core/conic/evaluate.ts';
+import type { Plan } from '../../core/plan/plan.ts';
 import { samplePlan, stateStartPlan as stateStartPlanForTest } from '../core/io/planSamples.ts';
 import { demoPlanText, demoSystem, demoSystemDoc } from '../fuzz/files.ts';
 import { deepText, withRawValue, type Json } from '../fuzz/json.ts';

@@ -5,7 +5,7 @@
 import type { Command } from 'commander';
 import { parseQuantity, parseVector } from '../../../core/io/units.ts';
 import { InputError } from '../../../core/math/errors.ts';
-import { burnDuration, propellantForDeltaV, rocketDeltaV } from '../../../core/mission/rocket.ts';
+import { burnDuration, propellantForDeltaV, rocketDeltaV } from '../../../core/plan/rocket.ts';
 import { propagateKepler } from '../../../core/orbit/kepler.ts';
 import { elementsToState, stateToElements } from '../../../core/orbit/elements.ts';
 import { solveLambert } from '../../../core/orbit/lambert.ts';

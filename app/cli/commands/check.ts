@@ -11,9 +11,9 @@
  * warnings go to stderr. `--json`: { plan, holds, budget, flags, target, warnings } in SI.
  */
 import type { Command } from 'commander';
-import { evaluate } from '../../../core/mission/evaluate.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
-import type { PlanResult } from '../../../core/mission/result.ts';
+import { evaluate } from '../../../core/conic/evaluate.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
+import type { PlanResult } from '../../../core/plan/result.ts';
 import { formatCompactDate } from '../../../core/system/calendar.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import { loadPlanFile } from '../../node/files.ts';

@@ -1,6 +1,6 @@
 /**
  * `waymark correct PLAN -o NEW_PLAN [--burn ID]... [--time] [--max-iterations N] [--json]` —
- * differential correction in the n-body model (core/mission/correct.ts): adjusts the chosen
+ * differential correction in the n-body model (core/nbody/correct.ts): adjusts the chosen
  * burns (default: the mid-course burn) until the n-body flight reaches the patched-conic arrival
  * (periapsis altitude, inclination and time at the target), then writes the corrected plan with
  * the atomic save of app/node/files.ts (the previous NEW_PLAN kept as NEW_PLAN.bak). A plan that
@@ -14,7 +14,7 @@
 import { dirname, relative, resolve } from 'node:path';
 import type { Command } from 'commander';
 import { InputError } from '../../../core/math/errors.ts';
-import { correctPlan } from '../../../core/mission/correct.ts';
+import { correctPlan } from '../../../core/nbody/correct.ts';
 import type { PlanSystemRef } from '../../../core/io/planFile.ts';
 import { loadPlanFile, savePlanFile } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson, vecText } from '../output.ts';

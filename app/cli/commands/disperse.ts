@@ -1,7 +1,7 @@
 /**
  * `waymark disperse PLAN --samples N [--seed S] [--mag-sigma PCT] [--point-sigma DEG]
  *  [--resolve frozen|retarget] [--workers N] [--json]` — Monte Carlo over burn execution errors
- * (core/mission/disperse.ts): each sample flies the plan with patched conics with every burn's
+ * (core/nbody/disperse.ts): each sample flies the plan with patched conics with every burn's
  * magnitude and pointing perturbed (1σ values, all burns).
  *
  * Samples are spread over `--workers` worker threads (piscina; default: the machine's cores,
@@ -15,8 +15,8 @@ import type { Command } from 'commander';
 import { Piscina } from 'piscina';
 import { parseQuantity } from '../../../core/io/units.ts';
 import { InputError } from '../../../core/math/errors.ts';
-import { mergeBlocks, prepareDispersion, runSamples, summarizeDispersion, type DispersionOptions, type DispersionResult, type SampleBlock } from '../../../core/mission/disperse.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
+import { mergeBlocks, prepareDispersion, runSamples, summarizeDispersion, type DispersionOptions, type DispersionResult, type SampleBlock } from '../../../core/nbody/disperse.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import { loadPlanFile } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson } from '../output.ts';

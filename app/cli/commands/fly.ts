@@ -2,13 +2,13 @@
  * `waymark fly PLAN [--model conic|nbody] [--oem FILE] [--csv FILE] [--burns FILE]
  *  [--report FILE] [--step T] [--json]` — flies a plan file and exports what it flew.
  *
- * - `--model conic` (default): patched conics (core/mission/evaluate.ts). `--model nbody`: the
- *   same burns flown through the restricted n-body model (core/mission/nbody.ts, RK45 through
+ * - `--model conic` (default): patched conics (core/conic/evaluate.ts). `--model nbody`: the
+ *   same burns flown through the restricted n-body model (core/nbody/verify.ts, RK45 through
  *   the propagation front door); prints the arrival difference from the patched-conic plan and
  *   which method flew each span, and exports the n-body states.
  * - `--step T` (default 1 h): the fixed step of the exported ephemeris (a duration with a unit,
  *   e.g. 600, 10min, 1h); samples come from each segment's exact conic
- *   (core/mission/ephemerisSampler.ts).
+ *   (core/conic/ephemerisSampler.ts).
  * - `--oem FILE`: CCSDS OEM (KVN), one metadata block per central-body span (core/io/oem.ts);
  *   `--csv FILE`: ephemeris CSV; `--burns FILE`: burn-table CSV; `--report FILE`: Markdown
  *   budget report. Every file is saved atomically, the previous version kept as FILE.bak.
@@ -22,11 +22,11 @@ import { writeOem } from '../../../core/io/oem.ts';
 import { budgetReport } from '../../../core/io/report.ts';
 import { parseQuantity } from '../../../core/io/units.ts';
 import { InputError } from '../../../core/math/errors.ts';
-import { sampleEphemeris } from '../../../core/mission/ephemerisSampler.ts';
-import { evaluate } from '../../../core/mission/evaluate.ts';
-import { verifyNBody, type NBodyResult } from '../../../core/mission/nbody.ts';
-import { nbodyStatesToEphemeris } from '../../../core/mission/nbodyStates.ts';
-import type { PlanResult } from '../../../core/mission/result.ts';
+import { sampleEphemeris } from '../../../core/conic/ephemerisSampler.ts';
+import { evaluate } from '../../../core/conic/evaluate.ts';
+import { verifyNBody, type NBodyResult } from '../../../core/nbody/verify.ts';
+import { nbodyStatesToEphemeris } from '../../../core/nbody/states.ts';
+import type { PlanResult } from '../../../core/plan/result.ts';
 import { formatCompactDate } from '../../../core/system/calendar.ts';
 import { atomicWriteFile, loadPlanFile } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson } from '../output.ts';

@@ -1,9 +1,9 @@
 /**
  * `waymark gamestep PLAN --integrator NAME --dt SECONDS [--float32] [--rebase] [--sweep]
  *  [--tolerance KM] [--json]` — flies a plan file with a game's own physics and compares it with
- * the reference flight (core/mission/gameStep.ts); with --sweep also the largest step per
+ * the reference flight (core/gamestep/check.ts); with --sweep also the largest step per
  * integrator, the cheapest integrator and the float32 / floating-origin verdict
- * (core/mission/gameStepSweep.ts).
+ * (core/gamestep/sweep.ts).
  *
  * Options: --dt takes seconds, a fraction (1/60) or a duration with a unit (10ms); --tolerance
  * is in km (or with a unit, 500m; default: the plan target's periapsis tolerance, else 10 km);
@@ -27,8 +27,8 @@ import {
   type GameIntegrator,
   type GamePhysicsInput,
   type GameStepResult,
-} from '../../../core/mission/gameStep.ts';
-import { gameStepSweep, type SweepResult } from '../../../core/mission/gameStepSweep.ts';
+} from '../../../core/gamestep/check.ts';
+import { gameStepSweep, type SweepResult } from '../../../core/gamestep/sweep.ts';
 import { formatCompactDate } from '../../../core/system/calendar.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import { loadPlanFile } from '../../node/files.ts';

@@ -1,7 +1,7 @@
 /**
  * `waymark stability SYSTEM [--years N] [--json]` — flies the mutual gravity of the star and
  * every body of a system file for N years of its calendar (default 10,000) with a symplectic
- * method and reports what happened to each orbit (core/system/stability.ts).
+ * method and reports what happened to each orbit (core/checks/stability.ts).
  *
  * Options: --merge-moons / --no-merge-moons (default: merge when flying the moons would exceed
  * the step budget, and say so), --method yoshida4|verlet, --steps-per-orbit N, --max-steps N,
@@ -13,7 +13,7 @@
  */
 import type { Command } from 'commander';
 import { InputError } from '../../../core/math/errors.ts';
-import { checkStability, DEFAULT_YEARS, type StabilityResult } from '../../../core/system/stability.ts';
+import { checkStability, DEFAULT_YEARS, type StabilityResult } from '../../../core/checks/stability.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import { loadSystemFile } from '../../node/files.ts';
 import { EXIT_NO, EXIT_OK, guard, num, printJson } from '../output.ts';

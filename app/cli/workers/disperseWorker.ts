@@ -1,12 +1,12 @@
 /**
  * Body of a dispersion pool worker: flies one chunk of samples with the same core functions the
- * in-thread path uses (core/mission/disperse.ts prepareDispersion + runSamples), and hands the
+ * in-thread path uses (core/nbody/disperse.ts prepareDispersion + runSamples), and hands the
  * per-sample arrays back by transfer. Sample k always uses random stream k of the seed, so the
  * merged result does not depend on the number of workers or the chunking.
  */
 import { move, transferableSymbol, valueSymbol } from 'piscina';
-import { prepareDispersion, runSamples, type DispersionOptions, type SampleBlock } from '../../../core/mission/disperse.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
+import { prepareDispersion, runSamples, type DispersionOptions, type SampleBlock } from '../../../core/nbody/disperse.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 
 export interface DisperseTask {

@@ -1,7 +1,7 @@
 /**
- * The checks as analysis-worker jobs: the game-step check of the plan (core/mission/gameStep.ts),
- * its time-step sweep (core/mission/gameStepSweep.ts), the system stability check
- * (core/system/stability.ts) and a quick estimate of how long a stability run will take.
+ * The checks as analysis-worker jobs: the game-step check of the plan (core/gamestep/check.ts),
+ * its time-step sweep (core/gamestep/sweep.ts), the system stability check
+ * (core/checks/stability.ts) and a quick estimate of how long a stability run will take.
  * Plain code, run by runJob.ts in the worker and tested without one.
  *
  * The estimate flies two short stability runs (moons flown, moons merged) of about
@@ -11,12 +11,12 @@
  * errs long (in the demo about 8–10 s estimated against 6 s flown for 10,000 years). After a
  * real run the store takes its measured rate instead.
  */
-import { gameStepCheck, type GamePhysicsInput, type GameStepResult } from '../../../core/mission/gameStep.ts';
-import { gameStepSweep, type SweepResult } from '../../../core/mission/gameStepSweep.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
-import type { PlanResult } from '../../../core/mission/result.ts';
+import { gameStepCheck, type GamePhysicsInput, type GameStepResult } from '../../../core/gamestep/check.ts';
+import { gameStepSweep, type SweepResult } from '../../../core/gamestep/sweep.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
+import type { PlanResult } from '../../../core/plan/result.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
-import { checkStability, DEFAULT_MAX_STEPS, type StabilityResult } from '../../../core/system/stability.ts';
+import { checkStability, DEFAULT_MAX_STEPS, type StabilityResult } from '../../../core/checks/stability.ts';
 
 /** Options of a game-step check that the app passes through (SI). */
 export interface GameStepJobOptions {

@@ -3,11 +3,11 @@
  * dispersion, and the checks of analysis/checkJobs.ts: game-step check, step sweep, system
  * stability and its run-time estimate).
  */
-import type { CorrectResult } from '../../../core/mission/correct.ts';
-import type { DispersionOptions, DispersionResult } from '../../../core/mission/disperse.ts';
-import type { NBodyResult } from '../../../core/mission/nbody.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
-import type { PlanResult } from '../../../core/mission/result.ts';
+import type { CorrectResult } from '../../../core/nbody/correct.ts';
+import type { DispersionOptions, DispersionResult } from '../../../core/nbody/disperse.ts';
+import type { NBodyResult } from '../../../core/nbody/verify.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
+import type { PlanResult } from '../../../core/plan/result.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import type { CheckJob, CheckOutput } from './checkJobs.ts';
 

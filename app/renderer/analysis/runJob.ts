@@ -1,11 +1,11 @@
 /**
- * One analysis job as the worker runs it: n-body verification (core/mission/nbody.ts),
- * differential correction (core/mission/correct.ts), a dispersion run (core/mission/disperse.ts)
+ * One analysis job as the worker runs it: n-body verification (core/nbody/verify.ts),
+ * differential correction (core/nbody/correct.ts), a dispersion run (core/nbody/disperse.ts)
  * or one of the checks (analysis/checkJobs.ts), with progress as a fraction and a note. Plain code, tested without a Worker.
  */
-import { correctPlan } from '../../../core/mission/correct.ts';
-import { disperse } from '../../../core/mission/disperse.ts';
-import { verifyNBody } from '../../../core/mission/nbody.ts';
+import { correctPlan } from '../../../core/nbody/correct.ts';
+import { disperse } from '../../../core/nbody/disperse.ts';
+import { verifyNBody } from '../../../core/nbody/verify.ts';
 import type { AnalysisJob, AnalysisOutput } from './protocol.ts';
 import { runCheckJob } from './checkJobs.ts';
 

@@ -8,7 +8,7 @@
  * lengths are km unless a unit is given ("500 m").
  */
 import { parseQuantity } from '../../../core/io/units.ts';
-import { DEFAULT_ENERGY_TOLERANCE, DEFAULT_REBASE, type GameIntegrator, type GamePhysicsInput } from '../../../core/mission/gameStep.ts';
+import { DEFAULT_ENERGY_TOLERANCE, DEFAULT_REBASE, type GameIntegrator, type GamePhysicsInput } from '../../../core/gamestep/check.ts';
 import type { GameStepJobOptions } from '../analysis/checkJobs.ts';
 
 export interface PhysicsForm {

@@ -5,7 +5,7 @@
  * drawn (a parking orbit closes around its planet instead of smearing along the planet's
  * motion). Reading the ephemeris at the sample times is all this does.
  */
-import type { GameStepResult } from '../../../core/mission/gameStep.ts';
+import type { GameStepResult } from '../../../core/gamestep/check.ts';
 import { bodyPosition } from '../../../core/system/ephemeris.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import { DIVERGED } from './logAxis.ts';

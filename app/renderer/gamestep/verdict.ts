@@ -5,8 +5,8 @@
  * core's results only; every number goes through a formatter that shows "—" for a value that
  * is not there, never NaN.
  */
-import type { GameStepResult } from '../../../core/mission/gameStep.ts';
-import type { PrecisionVerdict, SweepResult } from '../../../core/mission/gameStepSweep.ts';
+import type { GameStepResult } from '../../../core/gamestep/check.ts';
+import type { PrecisionVerdict, SweepResult } from '../../../core/gamestep/sweep.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import { compactDate, duration, elapsed, grouped } from '../format/format.ts';
 import { INTEGRATOR_NAMES } from './physicsForm.ts';

@@ -2,7 +2,7 @@
  * Edits of a plan as pure functions Plan → Plan (a new object; the input is never changed).
  * The editor calls them through the document store, which records each on the undo history.
  */
-import type { BurnEvent, CoastEvent, Plan, PlanEvent, PlanStart, PlanTarget, ReservePolicy, Stage, StageEvent, Vehicle } from '../../../core/mission/plan.ts';
+import type { BurnEvent, CoastEvent, Plan, PlanEvent, PlanStart, PlanTarget, ReservePolicy, Stage, StageEvent, Vehicle } from '../../../core/plan/plan.ts';
 
 function clone(plan: Plan): Plan {
   return structuredClone(plan);
@@ -154,7 +154,7 @@ export function setPlanInfo(plan: Plan, patch: Partial<Pick<Plan, 'name' | 'desc
 }
 
 /**
- * Puts a transfer built from a porkchop pick (core/mission/fromWindow.ts: departure burn,
+ * Puts a transfer built from a porkchop pick (core/conic/fromWindow.ts: departure burn,
  * coasts, mid-course burn, coast to periapsis, capture burn) into a plan, replacing the plan's
  * own transfer:
  * - the start becomes the pick's parking orbit (phased for the new departure);

@@ -1,10 +1,10 @@
 /**
  * What the vehicle editor shows under each stage: its Δv stacked in firing order (the rocket
- * equation, core/mission/vehicle.ts), its ignition mass, and its thrust-to-weight at ignition
+ * equation, core/plan/vehicle.ts), its ignition mass, and its thrust-to-weight at ignition
  * against a body's surface gravity (g = μ / R²).
  */
-import type { Vehicle } from '../../../core/mission/plan.ts';
-import { stageDeltaVs } from '../../../core/mission/vehicle.ts';
+import type { Vehicle } from '../../../core/plan/plan.ts';
+import { stageDeltaVs } from '../../../core/plan/vehicle.ts';
 
 export interface StageSummary {
   /** Δv of the stage with everything above it still attached, m/s. */

@@ -8,7 +8,7 @@
  */
 import * as d3 from 'd3';
 import type { StarSystem } from '../../../core/system/model.ts';
-import type { StabilityResult } from '../../../core/system/stability.ts';
+import type { StabilityResult } from '../../../core/checks/stability.ts';
 
 export type PanelKey = 'a' | 'e' | 'i' | 'energy';
 

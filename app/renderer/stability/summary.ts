@@ -4,10 +4,10 @@
  * on a log bar against the 3-mutual-Hill-radius flag threshold, and how long a run of N years
  * will take (from the measured step rate of analysis/checkJobs.ts's estimate; the merge rule is
  * the core's own: with mergeMoons 'auto' moons are merged when flying them needs more than the
- * step budget, core/system/stability.ts).
+ * step budget, core/checks/stability.ts).
  */
 import type { StarSystem } from '../../../core/system/model.ts';
-import { CLOSE_ENCOUNTER_HILL, GLADMAN_SPACING, type StabilityFlagCode, type StabilityResult } from '../../../core/system/stability.ts';
+import { CLOSE_ENCOUNTER_HILL, GLADMAN_SPACING, type StabilityFlagCode, type StabilityResult } from '../../../core/checks/stability.ts';
 import type { StabilityEstimate } from '../analysis/checkJobs.ts';
 import { grouped } from '../format/format.ts';
 

@@ -8,7 +8,7 @@
  * (`events[2].dv_mps`) the editor shows beside the fields.
  */
 import type { ValidationIssue } from '../../../core/math/errors.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
 import type { PlanSystemRef } from '../../../core/io/planFile.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import type { FileRef } from '../host/host.ts';

@@ -4,8 +4,8 @@
  * the error beside it (so a half-typed edit does not blank the views).
  */
 import { InputError, SolverError, ValidationError, type ValidationIssue } from '../../../core/math/errors.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
-import type { PlanResult } from '../../../core/mission/result.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
+import type { PlanResult } from '../../../core/plan/result.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import type { DocumentSnapshot } from './document.ts';
 import { Observable, type Readable } from './observable.ts';

@@ -6,9 +6,9 @@
 import { burnTableCsv, ephemerisCsv } from '../../../core/io/csv.ts';
 import { writeOem } from '../../../core/io/oem.ts';
 import { budgetReport } from '../../../core/io/report.ts';
-import { sampleEphemeris } from '../../../core/mission/ephemerisSampler.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
-import type { PlanResult } from '../../../core/mission/result.ts';
+import { sampleEphemeris } from '../../../core/conic/ephemerisSampler.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
+import type { PlanResult } from '../../../core/plan/result.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import type { ExportKind } from '../host/host.ts';
 

@@ -22,7 +22,7 @@
 import { parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../../core/io/planFile.ts';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
 import { ValidationError, type ValidationIssue } from '../../../core/math/errors.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
 import { checkPlanAgainstSystem, checkPlanDocument } from '../../../core/io/planSchema.ts';
 import { planToDocument } from '../../../core/io/planFile.ts';
 import type { StarSystem } from '../../../core/system/model.ts';

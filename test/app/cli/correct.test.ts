@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { loadPlanFile } from '../../../app/node/files.ts';
-import type { BurnEvent } from '../../../core/mission/plan.ts';
+import type { BurnEvent } from '../../../core/plan/plan.ts';
 import { ROOT, runCli } from './runCli.ts';
 
 const DEMO = 'assets/plans/tessel-to-ochre.plan.json';

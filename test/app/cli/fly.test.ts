@@ -6,8 +6,8 @@ import { parseCsv } from '../../../core/io/csv.ts';
 import { parseOem } from '../../../core/io/oem.ts';
 import { parsePlanFile } from '../../../core/io/planFile.ts';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
-import { sampleEphemeris } from '../../../core/mission/ephemerisSampler.ts';
-import { evaluate } from '../../../core/mission/evaluate.ts';
+import { sampleEphemeris } from '../../../core/conic/ephemerisSampler.ts';
+import { evaluate } from '../../../core/conic/evaluate.ts';
 import { ROOT, runCli, type CliRun } from './runCli.ts';
 
 const DEMO = 'assets/plans/tessel-to-ochre.plan.json';

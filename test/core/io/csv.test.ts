@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { BURN_CSV_COLUMNS, EPHEMERIS_CSV_COLUMNS, burnTableCsv, csvField, ephemerisCsv, parseCsv } from '../../../core/io/csv.ts';
-import { sampleEphemeris } from '../../../core/mission/ephemerisSampler.ts';
+import { sampleEphemeris } from '../../../core/conic/ephemerisSampler.ts';
 import { ilmar, syntheticBudget, syntheticResult } from './syntheticResult.ts';
 
 describe('CSV (RFC 4180)', () => {

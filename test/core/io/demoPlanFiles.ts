@@ -7,7 +7,7 @@
  */
 import { fileURLToPath } from 'node:url';
 import { serializePlanFile, type PlanSystemRef } from '../../../core/io/planFile.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
 import { demoPlan, heavyDemoPlan } from '../../fixtures/demoPlan.ts';
 
 export const DEMO_SYSTEM_REF: PlanSystemRef = { kind: 'path', path: '../systems/ilmar.system.json' };

@@ -2,8 +2,8 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { parsePlanFile, serializePlanFile } from '../../../core/io/planFile.ts';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
-import { evaluate } from '../../../core/mission/evaluate.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
+import { evaluate } from '../../../core/conic/evaluate.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
 import { DEMO_PLAN_FILES, DEMO_SYSTEM_REF, PLANS_DIR, demoPlanText } from './demoPlanFiles.ts';
 
 const ilmar = parseSystemFile(readFileSync(new URL('../../../assets/systems/ilmar.system.json', import.meta.url), 'utf8')).system;

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { ValidationError } from '../../../core/math/errors.ts';
 import { OEM_DIGITS, formatOemEpoch, parseOem, parseOemEpoch, writeOem } from '../../../core/io/oem.ts';
-import { sampleEphemeris } from '../../../core/mission/ephemerisSampler.ts';
+import { sampleEphemeris } from '../../../core/conic/ephemerisSampler.ts';
 import { TESSEL, ilmar, syntheticResult } from './syntheticResult.ts';
 
 const eph = sampleEphemeris(ilmar, syntheticResult(), { step: 700 });

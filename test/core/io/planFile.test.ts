@@ -12,7 +12,7 @@ import {
   type PlanSystemRef,
 } from '../../../core/io/planFile.ts';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
-import type { Plan } from '../../../core/mission/plan.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
 import { samplePlan, stateStartPlan } from './planSamples.ts';
 
 type Doc = Record<string, any>;

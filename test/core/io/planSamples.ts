@@ -1,5 +1,5 @@
 /** Hand-made plans for the file tests (invented values; the demo plans live in test/fixtures). */
-import type { Plan } from '../../../core/mission/plan.ts';
+import type { Plan } from '../../../core/plan/plan.ts';
 
 const RAD = Math.PI / 180;
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { budgetReport } from '../../../core/io/report.ts';
-import type { PlanResult } from '../../../core/mission/result.ts';
+import type { PlanResult } from '../../../core/plan/result.ts';
 import { samplePlan } from './planSamples.ts';
 import { ilmar, syntheticBudget, syntheticResult } from './syntheticResult.ts';
 

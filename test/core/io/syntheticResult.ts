@@ -10,7 +10,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
-import type { Budget, PlanResult, TrajectorySegment } from '../../../core/mission/result.ts';
+import type { Budget, PlanResult, TrajectorySegment } from '../../../core/plan/result.ts';
 import { propagateKepler } from '../../../core/orbit/kepler.ts';
 import { bodyState } from '../../../core/system/ephemeris.ts';
 import type { StarSystem } from '../../../core/system/model.ts';

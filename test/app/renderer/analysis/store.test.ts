@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { evaluate } from '../../../../core/mission/evaluate.ts';
+import { evaluate } from '../../../../core/conic/evaluate.ts';
 import { AnalysisClient, type AnalysisWorkerLike } from '../../../../app/renderer/analysis/client.ts';
 import { methodGroups, methodSummary } from '../../../../app/renderer/analysis/methods.ts';
 import type { FromAnalysisWorker, ToAnalysisWorker } from '../../../../app/renderer/analysis/protocol.ts';

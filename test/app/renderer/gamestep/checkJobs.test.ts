@@ -6,9 +6,9 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { evaluate } from '../../../../core/mission/evaluate.ts';
+import { evaluate } from '../../../../core/conic/evaluate.ts';
 import { InputError, SolverError } from '../../../../core/math/errors.ts';
-import { normalizePhysics } from '../../../../core/mission/gameStep.ts';
+import { normalizePhysics } from '../../../../core/gamestep/check.ts';
 import { AnalysisClient, type AnalysisWorkerLike } from '../../../../app/renderer/analysis/client.ts';
 import { checkError } from '../../../../app/renderer/analysis/checkErrors.ts';
 import type { CheckJob } from '../../../../app/renderer/analysis/checkJobs.ts';

@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { BASIS_EXTRAPOLATED, BASIS_MEASURED, BASIS_MEASURED_PLUS } from '../../../../core/mission/gameStep.ts';
+import { BASIS_EXTRAPOLATED, BASIS_MEASURED, BASIS_MEASURED_PLUS } from '../../../../core/gamestep/check.ts';
 import { errorLanes, splitByBasis, styleOf } from '../../../../app/renderer/gamestep/errorSeries.ts';
 import { demoCheck } from './fixture.ts';
 

@@ -3,10 +3,10 @@
  * low step budget per span, so the long cruise is extrapolated (both bases appear) and the run
  * takes a fraction of a second.
  */
-import { evaluate } from '../../../../core/mission/evaluate.ts';
-import { gameStepCheck, type GameStepResult } from '../../../../core/mission/gameStep.ts';
+import { evaluate } from '../../../../core/conic/evaluate.ts';
+import { gameStepCheck, type GameStepResult } from '../../../../core/gamestep/check.ts';
 import { demoPlan } from '../../../fixtures/demoPlan.ts';
-import { demoSystem } from '../../../core/mission/helpers.ts';
+import { demoSystem } from '../../../core/plan/helpers.ts';
 
 export const system = demoSystem();
 export const plan = demoPlan;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { normalizePhysics } from '../../../../core/mission/gameStep.ts';
+import { normalizePhysics } from '../../../../core/gamestep/check.ts';
 import { DEFAULT_FORM, parseForm, parseKm, parseStep, physicsCaption } from '../../../../app/renderer/gamestep/physicsForm.ts';
 
 describe("the game-step panel's form", () => {

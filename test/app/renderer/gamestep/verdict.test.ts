@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import type { SweepResult } from '../../../../core/mission/gameStepSweep.ts';
-import { ulp32 } from '../../../../core/mission/float32.ts';
+import type { SweepResult } from '../../../../core/gamestep/sweep.ts';
+import { ulp32 } from '../../../../core/gamestep/float32.ts';
 import { laneValue } from '../../../../app/renderer/gamestep/errorChart.ts';
 import { errorLength, errorSpeed, gameVerdict, ratio, stepText, sweepView } from '../../../../app/renderer/gamestep/verdict.ts';
 import { demoCheck, system } from './fixture.ts';

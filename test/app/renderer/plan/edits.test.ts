@@ -60,7 +60,7 @@ describe('field paths', () => {
 
 describe('putting a porkchop transfer into a plan', async () => {
   const { parseSystemFile } = await import('../../../../core/io/systemFile.ts');
-  const { planFromWindow } = await import('../../../../core/mission/fromWindow.ts');
+  const { planFromWindow } = await import('../../../../core/conic/fromWindow.ts');
   const system = parseSystemFile(readFileSync(new URL('../../../../assets/systems/ilmar.system.json', import.meta.url), 'utf8')).system;
   const DAY = 86400;
   const transfer = planFromWindow(system, {

@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { parsePlanFile } from '../../../../core/io/planFile.ts';
 import { parseSystemFile } from '../../../../core/io/systemFile.ts';
-import { evaluate } from '../../../../core/mission/evaluate.ts';
+import { evaluate } from '../../../../core/conic/evaluate.ts';
 import { segmentIndexAt, shipStateAt } from '../../../../app/renderer/scene/shipState.ts';
 
 const root = new URL('../../../../', import.meta.url);

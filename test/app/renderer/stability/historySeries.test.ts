@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { checkStability } from '../../../../core/system/stability.ts';
+import { checkStability } from '../../../../core/checks/stability.ts';
 import { histories, linearTicks, paddedDomain, tickLabels, yearTicks } from '../../../../app/renderer/stability/historySeries.ts';
-import { demoSystem } from '../../../core/mission/helpers.ts';
+import { demoSystem } from '../../../core/plan/helpers.ts';
 
 const system = demoSystem();
 const run = checkStability(system, { years: 20, samples: 200 });

@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { CLOSE_ENCOUNTER_HILL, checkStability } from '../../../../core/system/stability.ts';
+import { CLOSE_ENCOUNTER_HILL, checkStability } from '../../../../core/checks/stability.ts';
 import type { StabilityEstimate } from '../../../../app/renderer/analysis/checkJobs.ts';
 import { durationWords, pairRows, runEstimate, stabilitySummary } from '../../../../app/renderer/stability/summary.ts';
-import { demoSystem } from '../../../core/mission/helpers.ts';
+import { demoSystem } from '../../../core/plan/helpers.ts';
 import { planet, smallSystem } from '../../../core/system/fixtures.ts';
 
 const system = demoSystem();

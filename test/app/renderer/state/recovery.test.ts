@@ -12,7 +12,7 @@ import { readFile, rm, stat } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, afterEach, describe, expect, it, vi } from 'vitest';
-import { evaluate } from '../../../../core/mission/evaluate.ts';
+import { evaluate } from '../../../../core/conic/evaluate.ts';
 import { createIpcHandlers, createRecoveryStore, type Handler } from '../../../../app/main/ipcHandlers.ts';
 import { createRecentStore } from '../../../../app/main/recentFiles.ts';
 import { atomicWriteFileAsync } from '../../../../app/node/files.ts';

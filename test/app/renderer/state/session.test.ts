@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it, vi } from 'vitest';
 import { parsePlanFile } from '../../../../core/io/planFile.ts';
-import { evaluate } from '../../../../core/mission/evaluate.ts';
+import { evaluate } from '../../../../core/conic/evaluate.ts';
 import * as edits from '../../../../app/renderer/plan/edits.ts';
 import { Session, blankPlan, type SessionDeps } from '../../../../app/renderer/state/session.ts';
 import { NewerVersionError } from '../../../../app/renderer/host/host.ts';

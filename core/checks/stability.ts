@@ -1,0 +1,542 @@
+/**
+ * System stability check: the mutual point-mass gravity of the star and every body, flown with
+ * a symplectic fixed-step method for a long span (default 10,000 years of the home world), and
+ * what happened to each orbit.
+ *
+ * Method: Yoshida's 4th-order composition of leapfrog (default; Yoshida, Phys. Lett. A 150
+ * (1990) 262, core/integrate/yoshida4.ts) or leapfrog itself, on `mutualAccel`
+ * (core/integrate/gravity.ts), from the barycentric epoch states of `initialStates`
+ * (nbodyEphemeris.ts: each conic read as the orbit of its body's subsystem barycentre).
+ * Symplectic methods keep the energy error bounded over long runs (Hairer, Lubich & Wanner,
+ * Geometric Numerical Integration, 2nd ed., ch. X); the run's relative energy error is
+ * reported so the reader can judge the run.
+ * Step: h = min over the flown bodies of T·(1 − e)^{3/2} / stepsPerOrbit (the periapsis
+ * passage sets the time scale of an eccentric orbit).
+ *
+ * Moons make the step small. With mergeMoons (default 'auto': when the run with moons would
+ * need more than maxSteps steps) each planet and everything orbiting it fly as one body at the
+ * subsystem's barycentre with the subsystem's μ; the result says so and why.
+ *
+ * Reported, per body: osculating a, e, i about its parent (planets: the subsystem barycentre
+ * about the star, μ = μ_star + μ_subsystem; moons: about their planet, μ = μ_planet + μ_moon;
+ * stateToElements, core/orbit/elements.ts), their ranges and sampled histories. Per pair of
+ * siblings (same parent): the mutual Hill radius R_H = ((μ₁ + μ₂)/(3μ_parent))^{1/3}·(a₁ + a₂)/2
+ * from the epoch elements (Gladman, "Dynamics of systems of two close planets", Icarus 106
+ * (1993) 247), the epoch spacing Δa/R_H and the closest approach in units of R_H (checked after
+ * every step).
+ * Flags:
+ * - 'hill-criterion' (warning): siblings with Δa < 2√3·R_H at the epoch, Gladman's criterion
+ *   for Hill stability of two planets on circular, coplanar orbits;
+ * - 'close-encounter' (warning): siblings closer than CLOSE_ENCOUNTER_HILL (3) mutual Hill radii;
+ * - 'crossing-orbits' (warning): at a sample, the outer sibling's periapsis inside the inner
+ *   one's apoapsis (osculating);
+ * - 'ejection' (error): e ≥ 1 about the parent, or a planet beyond ejectionFactor × the largest
+ *   epoch apoapsis of the planets, or a moon beyond its planet's Hill radius;
+ * - 'collision' (error): two bodies closer than the sum of their radii (checked after every
+ *   step); the run stops there.
+ * Limits: point masses only (no tides, no relativity, no collisions' outcome); close approaches
+ * are found at the step times (between steps a pass may come a little closer).
+ */
+import { InputError, SolverError, WaymarkError, requireFinite } from '../math/errors.ts';
+import { fixedStepper } from '../integrate/fixed.ts';
+import { mutualAccel } from '../integrate/gravity.ts';
+import { stateToElements } from '../orbit/elements.ts';
+import type { StarSystem } from '../system/model.ts';
+import { initialStates } from '../system/nbodyEphemeris.ts';
+
+export type StabilityMethod = 'yoshida4' | 'verlet';
+
+export interface StabilityOptions {
+  /** Span in years of the system's calendar (default DEFAULT_YEARS). */
+  years?: number;
+  /** Span, s (overrides years). */
+  span?: number;
+  method?: StabilityMethod;
+  /** Steps per periapsis time scale of the fastest orbit (default DEFAULT_STEPS_PER_ORBIT). */
+  stepsPerOrbit?: number;
+  /** Merge moons into their planets: true, false or 'auto' (default: merge when the run with moons exceeds maxSteps). */
+  mergeMoons?: boolean | 'auto';
+  /** Step budget (default DEFAULT_MAX_STEPS); a run that needs more even with moons merged is refused. */
+  maxSteps?: number;
+  /** Element-history samples (default DEFAULT_SAMPLES, ≥ 2). */
+  samples?: number;
+  /** A planet farther from the star than this × the largest epoch apoapsis of the planets counts as ejected (default 10). */
+  ejectionFactor?: number;
+  onProgress?: (fraction: number) => void;
+  signal?: { aborted: boolean };
+}
+
+export const DEFAULT_YEARS = 10_000;
+export const DEFAULT_STEPS_PER_ORBIT = 200;
+export const DEFAULT_MAX_STEPS = 20_000_000;
+export const DEFAULT_SAMPLES = 1000;
+export const DEFAULT_EJECTION_FACTOR = 10;
+/** Close-encounter threshold in mutual Hill radii. */
+export const CLOSE_ENCOUNTER_HILL = 3;
+/** Gladman's (1993) Hill-stability spacing for two planets on circular, coplanar orbits, in mutual Hill radii. */
+export const GLADMAN_SPACING = 2 * Math.sqrt(3);
+/** Steps between cancellation checks. */
+const CANCEL_CHECK_STEPS = 2000;
+
+export interface Range {
+  initial: number;
+  min: number;
+  max: number;
+}
+
+export interface StabilityBody {
+  /** Index in StarSystem.bodies. */
+  index: number;
+  id: string;
+  name: string;
+  /** Parent's index in StarSystem.bodies. */
+  parent: number;
+  /** Moons flown inside this body (merged), as system indices. */
+  merged: number[];
+  /** Semi-major axis (m), eccentricity and inclination (rad) over the span (samples where the orbit is bound). */
+  a: Range;
+  e: Range;
+  i: Range;
+  /** Sampled histories at StabilityResult.t (a: negative once unbound). */
+  history: { a: Float64Array; e: Float64Array; i: Float64Array };
+}
+
+export interface StabilityPair {
+  /** System indices of the two siblings. */
+  a: number;
+  b: number;
+  /** Mutual Hill radius at the epoch, m. */
+  mutualHill: number;
+  /** Epoch |Δa| in mutual Hill radii. */
+  spacing: number;
+  /** Closest approach over the run, m and in mutual Hill radii, and when. */
+  minDistance: number;
+  minHill: number;
+  tMin: number;
+}
+
+export type StabilityFlagCode = 'hill-criterion' | 'close-encounter' | 'crossing-orbits' | 'ejection' | 'collision';
+
+export interface StabilityFlag {
+  code: StabilityFlagCode;
+  severity: 'warning' | 'error';
+  /** System indices of the bodies concerned. */
+  bodies: number[];
+  /** When it was first seen, s (null for the epoch criterion). */
+  t: number | null;
+  message: string;
+}
+
+export interface StabilityResult {
+  /** Span flown, s, and in calendar years. */
+  span: number;
+  years: number;
+  method: StabilityMethod;
+  /** Step, s, steps taken, acceleration evaluations. */
+  h: number;
+  steps: number;
+  fevals: number;
+  /** Whether moons were merged into their planets, and why. */
+  mergedMoons: boolean;
+  mergeReason: string | null;
+  /** Sample times, s. */
+  t: Float64Array;
+  bodies: StabilityBody[];
+  pairs: StabilityPair[];
+  flags: StabilityFlag[];
+  energy: {
+    /** Total energy over G at the epoch (m⁵/s⁴). */
+    initial: number;
+    /** Largest and final |E − E₀|/|E₀| over the samples. */
+    maxRelativeError: number;
+    finalRelativeError: number;
+    /** Relative error (E − E₀)/|E₀| at each sample. */
+    history: Float64Array;
+  };
+  /** 'done', or 'collision' (the run stopped at the first collision). */
+  status: 'done' | 'collision';
+  notes: string[];
+}
+
+interface Particle {
+  /** System index this particle stands for. */
+  index: number;
+  mu: number;
+  radius: number;
+  /** Index of its parent particle (−1 for the star). */
+  parent: number;
+  merged: number[];
+}
+
+function posInt(field: string, v: number | undefined, dflt: number, min: number): number {
+  const x = v ?? dflt;
+  if (!Number.isInteger(x) || x < min) throw new InputError(field, `must be an integer >= ${min}`, x);
+  return x;
+}
+
+/** Descendants of body k (children, grandchildren ...). */
+function descendants(system: StarSystem, k: number): number[] {
+  const out: number[] = [];
+  const visit = (i: number): void => {
+    for (const c of system.bodies[i].children) {
+      out.push(c);
+      visit(c);
+    }
+  };
+  visit(k);
+  return out;
+}
+
+/** Step for a set of bodies (system indices, star excluded). */
+function stepFor(system: StarSystem, indices: number[], stepsPerOrbit: number): number {
+  let h = Infinity;
+  for (const k of indices) {
+    const b = system.bodies[k];
+    if (!b.elements) continue;
+    h = Math.min(h, (b.derived.period * Math.pow(1 - b.elements.e, 1.5)) / stepsPerOrbit);
+  }
+  return h;
+}
+
+/** Runs the stability check (see the module comment). */
+export function checkStability(system: StarSystem, options: StabilityOptions = {}): StabilityResult {
+  if (!system || !Array.isArray(system.bodies) || system.bodies.length < 2) {
+    throw new InputError('system', 'must have a star and at least one body');
+  }
+  const bodies = system.bodies;
+  const yearLength = system.calendar.yearLength;
+  let span: number;
+  if (options.span !== undefined) {
+    span = requireFinite('span', options.span);
+    if (!(span > 0)) throw new InputError('span', 'must be > 0 (s)', span);
+  } else {
+    const years = requireFinite('years', options.years ?? DEFAULT_YEARS);
+    if (!(years > 0)) throw new InputError('years', 'must be > 0', years);
+    span = years * yearLength;
+  }
+  const method = options.method ?? 'yoshida4';
+  if (method !== 'yoshida4' && method !== 'verlet') throw new InputError('method', "must be 'yoshida4' or 'verlet'", method);
+  const stepsPerOrbit = posInt('stepsPerOrbit', options.stepsPerOrbit, DEFAULT_STEPS_PER_ORBIT, 4);
+  const maxSteps = posInt('maxSteps', options.maxSteps, DEFAULT_MAX_STEPS, 1);
+  const nSamples = posInt('samples', options.samples, DEFAULT_SAMPLES, 2);
+  const ejectionFactor = requireFinite('ejectionFactor', options.ejectionFactor ?? DEFAULT_EJECTION_FACTOR);
+  if (!(ejectionFactor > 1)) throw new InputError('ejectionFactor', 'must be > 1', ejectionFactor);
+  const merge = options.mergeMoons ?? 'auto';
+  if (merge !== true && merge !== false && merge !== 'auto') throw new InputError('mergeMoons', "must be true, false or 'auto'", merge);
+
+  const planets = bodies[0].children;
+  const all = bodies.slice(1).map((b) => b.index);
+  const hAll = stepFor(system, all, stepsPerOrbit);
+  const hPlanets = stepFor(system, planets, stepsPerOrbit);
+  const hasMoons = all.length > planets.length;
+  let merged = merge === true && hasMoons;
+  let mergeReason: string | null = merged ? 'moons merged into their planets on request' : null;
+  if (merge === 'auto' && hasMoons && span / hAll > maxSteps) {
+    merged = true;
+    mergeReason = `moons merged into their planets: flying them needs ${Math.ceil(span / hAll).toExponential(2)} steps, more than the budget of ${maxSteps.toExponential(2)}`;
+  }
+  const h0 = merged ? hPlanets : hAll;
+  const nSteps = Math.max(1, Math.ceil(span / h0 - 1e-9));
+  if (nSteps > maxSteps) {
+    throw new InputError('span', `needs ${nSteps} steps (more than maxSteps = ${maxSteps}${merged ? ', with moons merged' : ''}); shorten the span or raise maxSteps`, span);
+  }
+  const h = span / nSteps;
+
+  // particles: the star, then planets (with their subsystems merged, or not), then moons
+  const { x0: xAll, v0: vAll, mus: muAll } = initialStates(system);
+  const parts: Particle[] = [];
+  const idx = new Map<number, number>();
+  const add = (k: number, parent: number, mergedInto: number[]): void => {
+    idx.set(k, parts.length);
+    let mu = muAll[k];
+    for (const m of mergedInto) mu += muAll[m];
+    parts.push({ index: k, mu, radius: bodies[k].radius, parent, merged: mergedInto });
+  };
+  add(0, -1, []);
+  for (const p of planets) add(p, 0, merged ? descendants(system, p) : []);
+  if (!merged) for (const k of all) if (!idx.has(k)) add(k, idx.get(bodies[k].parentIndex) as number, []);
+  const N = parts.length;
+  const x = new Float64Array(3 * N);
+  const v = new Float64Array(3 * N);
+  parts.forEach((q, j) => {
+    const group = [q.index, ...q.merged];
+    let m = 0;
+    for (const k of group) {
+      m += muAll[k];
+      for (let c = 0; c < 3; c++) {
+        x[3 * j + c] += muAll[k] * xAll[3 * k + c];
+        v[3 * j + c] += muAll[k] * vAll[3 * k + c];
+      }
+    }
+    for (let c = 0; c < 3; c++) {
+      x[3 * j + c] /= m;
+      v[3 * j + c] /= m;
+    }
+  });
+  const mus = Float64Array.from(parts.map((q) => q.mu));
+
+  // sibling pairs and their mutual Hill radii; collision radii for every pair
+  const pairs: (StabilityPair & { i: number; j: number })[] = [];
+  for (let i = 1; i < N; i++) {
+    for (let j = i + 1; j < N; j++) {
+      if (parts[i].parent !== parts[j].parent) continue;
+      const ei = bodies[parts[i].index].elements!;
+      const ej = bodies[parts[j].index].elements!;
+      const muP = mus[parts[i].parent];
+      const rh = Math.cbrt((mus[i] + mus[j]) / (3 * muP)) * 0.5 * (ei.a + ej.a);
+      pairs.push({ i, j, a: parts[i].index, b: parts[j].index, mutualHill: rh, spacing: Math.abs(ej.a - ei.a) / rh, minDistance: Infinity, minHill: Infinity, tMin: 0 });
+    }
+  }
+  const flags: StabilityFlag[] = [];
+  const name = (j: number): string => bodies[parts[j].index].name;
+  for (const p of pairs) {
+    if (p.spacing < GLADMAN_SPACING) {
+      flags.push({
+        code: 'hill-criterion',
+        severity: 'warning',
+        bodies: [p.a, p.b],
+        t: null,
+        message: `${name(p.i)} and ${name(p.j)} are ${p.spacing.toFixed(2)} mutual Hill radii apart at the epoch, under Gladman's 2√3 ≈ 3.46 for Hill stability`,
+      });
+    }
+  }
+  let maxApo = 0;
+  for (const k of planets) maxApo = Math.max(maxApo, bodies[k].derived.apoapsis);
+  const ejectR = ejectionFactor * maxApo;
+
+  // histories
+  const tS = new Float64Array(nSamples);
+  const hist = parts.map(() => ({ a: new Float64Array(nSamples), e: new Float64Array(nSamples), i: new Float64Array(nSamples) }));
+  const ranges = parts.map(() => ({ a: emptyRange(), e: emptyRange(), i: emptyRange() }));
+  const energyHist = new Float64Array(nSamples);
+  const ejected = new Set<number>();
+  const crossed = new Set<string>();
+  const rel = new Float64Array(6);
+  const sample = (s: number, t: number): void => {
+    tS[s] = t;
+    for (let j = 1; j < N; j++) {
+      const el = osculating(parts, j, x, v, mus, rel);
+      const H = hist[j];
+      H.a[s] = el ? el.a : 0;
+      H.e[s] = el ? el.e : 0;
+      H.i[s] = el ? el.i : 0;
+      if (el && el.e < 1) {
+        grow(ranges[j].a, el.a, s === 0);
+        grow(ranges[j].e, el.e, s === 0);
+        grow(ranges[j].i, el.i, s === 0);
+      }
+      const r = Math.hypot(rel[0], rel[1], rel[2]);
+      const parent = parts[j].parent;
+      const limit = parent === 0 ? ejectR : bodies[parts[parent].index].derived.hillRadius;
+      if (!ejected.has(j) && ((el && el.e >= 1) || r > limit)) {
+        ejected.add(j);
+        flags.push({
+          code: 'ejection',
+          severity: 'error',
+          bodies: [parts[j].index],
+          t,
+          message: `${name(j)} ${el && el.e >= 1 ? `is on an escape orbit (e = ${el.e.toFixed(3)})` : `is ${(r / limit).toFixed(1)} × the ejection distance from ${name(parent)}`} at ${years(t, yearLength)} years`,
+        });
+      }
+    }
+    for (const p of pairs) {
+      const key = `${p.i}-${p.j}`;
+      if (crossed.has(key)) continue;
+      const ai = hist[p.i].a[s], aj = hist[p.j].a[s];
+      const ei = hist[p.i].e[s], ej = hist[p.j].e[s];
+      if (!(ai > 0 && aj > 0 && ei < 1 && ej < 1)) continue;
+      const [inner, outer] = ai <= aj ? [p.i, p.j] : [p.j, p.i];
+      const Qin = hist[inner].a[s] * (1 + hist[inner].e[s]);
+      const qout = hist[outer].a[s] * (1 - hist[outer].e[s]);
+      if (qout < Qin) {
+        crossed.add(key);
+        flags.push({
+          code: 'crossing-orbits',
+          severity: 'warning',
+          bodies: [parts[inner].index, parts[outer].index],
+          t,
+          message: `${name(outer)}'s periapsis falls inside ${name(inner)}'s apoapsis at ${years(t, yearLength)} years: the orbits cross`,
+        });
+      }
+    }
+    energyHist[s] = totalEnergy(x, v, mus);
+  };
+
+  const stepper = fixedStepper(method, mutualAccel(mus), 3 * N);
+  sample(0, 0);
+  const E0 = energyHist[0];
+  const sampleAt = (s: number): number => Math.round((s * nSteps) / (nSamples - 1));
+  let nextSample = 1;
+  let fevals = 0;
+  let status: StabilityResult['status'] = 'done';
+  const radii = Float64Array.from(parts.map((q) => q.radius));
+  const notes: string[] = [];
+  let k = 0;
+  for (k = 0; k < nSteps; k++) {
+    if (k % CANCEL_CHECK_STEPS === 0 && options.signal?.aborted) {
+      throw new SolverError('stability', 'cancelled', `cancelled at ${years(k * h, yearLength)} years`, { t: k * h });
+    }
+    fevals += stepper.step(k * h, h, x, v);
+    const t = (k + 1) * h;
+    // closest approaches of siblings
+    for (const p of pairs) {
+      const d = Math.hypot(x[3 * p.j] - x[3 * p.i], x[3 * p.j + 1] - x[3 * p.i + 1], x[3 * p.j + 2] - x[3 * p.i + 2]);
+      if (d < p.minDistance) {
+        p.minDistance = d;
+        p.tMin = t;
+      }
+    }
+    // collisions, any pair
+    let hit = -1;
+    let hitJ = -1;
+    for (let i = 0; i < N && hit < 0; i++) {
+      for (let j = i + 1; j < N; j++) {
+        const dx = x[3 * j] - x[3 * i], dy = x[3 * j + 1] - x[3 * i + 1], dz = x[3 * j + 2] - x[3 * i + 2];
+        const rr = radii[i] + radii[j];
+        if (dx * dx + dy * dy + dz * dz < rr * rr) {
+          hit = i;
+          hitJ = j;
+          break;
+        }
+      }
+    }
+    if (!Number.isFinite(x[0] + x[3 * N - 1] + v[0] + v[3 * N - 1])) {
+      throw new SolverError('stability', 'non-finite', `the state became non-finite at ${years(t, yearLength)} years`, { t });
+    }
+    while (nextSample < nSamples && k + 1 >= sampleAt(nextSample)) {
+      sample(nextSample, t);
+      nextSample++;
+      options.onProgress?.((k + 1) / nSteps);
+    }
+    if (hit >= 0) {
+      flags.push({
+        code: 'collision',
+        severity: 'error',
+        bodies: [parts[hit].index, parts[hitJ].index],
+        t,
+        message: `${name(hit)} and ${name(hitJ)} collide at ${years(t, yearLength)} years; the run stops there`,
+      });
+      status = 'collision';
+      k++;
+      break;
+    }
+  }
+  const stepsDone = Math.min(k, nSteps);
+  const nDone = status === 'done' ? nSamples : nextSample;
+  if (status === 'collision' && nDone < nSamples) notes.push(`the run stopped at the collision, ${years(stepsDone * h, yearLength)} years in`);
+  for (const p of pairs) {
+    p.minHill = p.minDistance / p.mutualHill;
+    if (p.minHill < CLOSE_ENCOUNTER_HILL) {
+      flags.push({
+        code: 'close-encounter',
+        severity: 'warning',
+        bodies: [p.a, p.b],
+        t: p.tMin,
+        message: `${name(p.i)} and ${name(p.j)} come within ${p.minHill.toFixed(2)} mutual Hill radii (${(p.minDistance / 1e3).toExponential(3)} km) at ${years(p.tMin, yearLength)} years`,
+      });
+    }
+  }
+  flags.sort((a, b) => (a.t ?? -1) - (b.t ?? -1));
+  const eRel = new Float64Array(nDone);
+  let eMax = 0;
+  for (let s = 0; s < nDone; s++) {
+    eRel[s] = (energyHist[s] - E0) / Math.abs(E0);
+    eMax = Math.max(eMax, Math.abs(eRel[s]));
+  }
+  if (merged) notes.push(mergeReason as string);
+  return {
+    span: stepsDone * h,
+    years: (stepsDone * h) / yearLength,
+    method,
+    h,
+    steps: stepsDone,
+    fevals,
+    mergedMoons: merged,
+    mergeReason,
+    t: tS.slice(0, nDone),
+    bodies: parts.slice(1).map((q, jj) => {
+      const j = jj + 1;
+      const R = ranges[j];
+      return {
+        index: q.index,
+        id: bodies[q.index].id,
+        name: bodies[q.index].name,
+        parent: parts[q.parent].index,
+        merged: q.merged,
+        a: finishRange(R.a),
+        e: finishRange(R.e),
+        i: finishRange(R.i),
+        history: { a: hist[j].a.slice(0, nDone), e: hist[j].e.slice(0, nDone), i: hist[j].i.slice(0, nDone) },
+      };
+    }),
+    pairs: pairs.map(({ i: _i, j: _j, ...p }) => p),
+    flags,
+    energy: { initial: E0, maxRelativeError: eMax, finalRelativeError: Math.abs(eRel[nDone - 1]), history: eRel },
+    status,
+    notes,
+  };
+}
+
+function emptyRange(): Range {
+  return { initial: 0, min: Infinity, max: -Infinity };
+}
+
+function grow(r: Range, x: number, first: boolean): void {
+  if (first) r.initial = x;
+  if (x < r.min) r.min = x;
+  if (x > r.max) r.max = x;
+}
+
+function finishRange(r: Range): Range {
+  return Number.isFinite(r.min) ? r : { initial: r.initial, min: r.initial, max: r.initial };
+}
+
+function years(t: number, yearLength: number): string {
+  return (t / yearLength).toFixed(1);
+}
+
+/**
+ * Osculating elements of particle j about its parent (planets: the barycentre of the planet's
+ * flown subsystem about the star); writes the relative state into rel. Null when undefined.
+ */
+function osculating(parts: Particle[], j: number, x: Float64Array, v: Float64Array, mus: Float64Array, rel: Float64Array): { a: number; e: number; i: number } | null {
+  const p = parts[j].parent;
+  // the body's flown subsystem: itself and the particles whose parent chain leads to it
+  let m = 0;
+  const c = [0, 0, 0, 0, 0, 0];
+  for (let q = 0; q < parts.length; q++) {
+    let r = q;
+    while (r !== -1 && r !== j) r = parts[r].parent;
+    if (r !== j || (p !== 0 && q !== j)) continue; // moons: the moon itself
+    m += mus[q];
+    for (let k = 0; k < 3; k++) {
+      c[k] += mus[q] * x[3 * q + k];
+      c[3 + k] += mus[q] * v[3 * q + k];
+    }
+  }
+  for (let k = 0; k < 3; k++) {
+    rel[k] = c[k] / m - x[3 * p + k];
+    rel[3 + k] = c[3 + k] / m - v[3 * p + k];
+  }
+  try {
+    const el = stateToElements(mus[p] + m, [rel[0], rel[1], rel[2]], [rel[3], rel[4], rel[5]]);
+    return { a: el.a, e: el.e, i: el.i };
+  } catch (e) {
+    if (e instanceof WaymarkError) return null;
+    throw e;
+  }
+}
+
+/** Total energy over G: Σ ½ μ_i v_i² − Σ_{i<j} μ_i μ_j / r_ij (m⁵/s⁴). */
+export function totalEnergy(x: Float64Array, v: Float64Array, mus: Float64Array): number {
+  const N = mus.length;
+  let kin = 0;
+  let pot = 0;
+  for (let i = 0; i < N; i++) {
+    kin += 0.5 * mus[i] * (v[3 * i] ** 2 + v[3 * i + 1] ** 2 + v[3 * i + 2] ** 2);
+    for (let j = i + 1; j < N; j++) {
+      pot -= (mus[i] * mus[j]) / Math.hypot(x[3 * j] - x[3 * i], x[3 * j + 1] - x[3 * i + 1], x[3 * j + 2] - x[3 * i + 2]);
+    }
+  }
+  return kin + pot;
+}

@@ -1,0 +1,222 @@
+/**
+ * Finite burns: the ship's motion under the central body's gravity and a constant thrust, with
+ * the mass falling at ṁ = −F/(g0·Isp), integrated with Dormand–Prince RK45 (core/integrate/rk45.ts)
+ * stage phase by stage phase (the phases and their durations come from the rocket-equation
+ * bookkeeping of vehicle.ts, so the propellant burned is exactly what the impulsive budget
+ * spends: the propellant delivers the same Δv = Σ c·ln(m0/m1)).
+ *
+ * Pointing
+ * - 'inertial': thrust held along the fixed inertial direction û of the impulsive Δv.
+ * - 'velocity': thrust held fixed in the rotating VNB frame (velocity, normal, binormal) at the
+ *   VNB components that û has at the burn centre — for a prograde or retrograde burn that is
+ *   thrust along ±velocity, the usual "follow the velocity vector" steering.
+ *
+ * Gravity loss (defined here): the impulsive burn at the centre time t_c adds Δv along û to the
+ * coast state (r_c, v_c). The finite burn ends with specific orbital energy ε_f. The
+ * energy-equivalent impulsive Δv is the k ≥ 0 with |v_c + k·û|²/2 − μ/|r_c| = ε_f (the root nearer
+ * |Δv|); the gravity loss is Δv_propellant − k: the part of the propellant's Δv that did not go
+ * into orbital energy because the thrust acted over an arc instead of at one point. It tends to 0
+ * as thrust → ∞ (burn time → 0). When ε_f cannot be reached along û (discriminant < 0) k is the
+ * closest value, −v_c·û.
+ *
+ * The loss can come out slightly negative when the steering departs from û (velocity pointing
+ * of a burn with a large normal or binormal part: the frame turns with the velocity the burn
+ * itself rotates, so the thrust does not stay along û) — the figure then says "the finite burn
+ * put more energy in than the impulsive one", not "no loss".
+ *
+ * Limits: only the central body's gravity acts (patched conic); an SOI crossing during the burn
+ * is not looked for — the next coast starts from the burn's end state (the evaluation then
+ * moves the ship to the SOI it is in). The burn is centred in time on the planned instant
+ * (common practice); with the mass falling, the impulse is not centred exactly, which shifts
+ * the end state by an amount of first order in the burn time.
+ */
+import { rk45 } from '../integrate/rk45.ts';
+import type { DenseOutput } from '../integrate/dense.ts';
+import { SolverError } from '../math/errors.ts';
+import { inertialToVnb } from '../math/frames.ts';
+import type { BurnBook } from '../plan/vehicle.ts';
+
+/** Relative tolerance of the burn integration. */
+export const FINITE_BURN_RTOL = 1e-10;
+
+export interface FiniteBurnInput {
+  /** μ of the central body. */
+  mu: number;
+  /** Ship state relative to the central body at tStart. */
+  state: ArrayLike<number>;
+  tStart: number;
+  /** The impulsive Δv at the burn centre (inertial, m/s): direction and loss reference. */
+  dvImpulsive: ArrayLike<number>;
+  /** Coast state at the burn centre (reference of the gravity loss). */
+  centreState: ArrayLike<number>;
+  pointing: 'velocity' | 'inertial';
+  /** Stage phases from vehicle.ts spendBurn. */
+  book: BurnBook;
+  /** Drawing samples over the burn (0: none). */
+  samples: number;
+}
+
+export interface FiniteBurnResult {
+  tEnd: number;
+  /** State at tEnd relative to the central body. */
+  state: Float64Array;
+  massEnd: number;
+  /** Δv the propellant delivered, Σ c·ln(m0/m1) over the phases, m/s. */
+  dvPropellant: number;
+  /** Energy-equivalent impulsive Δv k (see the module comment), m/s. */
+  dvEquivalent: number;
+  /** dvPropellant − dvEquivalent, m/s. */
+  gravityLoss: number;
+  sampleT: Float64Array;
+  samples: Float64Array;
+  /** RK45 accepted steps and function evaluations over all phases. */
+  steps: number;
+  fevals: number;
+}
+
+const EMPTY = new Float64Array(0);
+
+/** Integrates the burn (see the module comment). */
+export function flyFiniteBurn(input: FiniteBurnInput): FiniteBurnResult {
+  const { mu, book } = input;
+  const dvn = Math.hypot(input.dvImpulsive[0], input.dvImpulsive[1], input.dvImpulsive[2]);
+  const ux = dvn > 0 ? input.dvImpulsive[0] / dvn : 0;
+  const uy = dvn > 0 ? input.dvImpulsive[1] / dvn : 0;
+  const uz = dvn > 0 ? input.dvImpulsive[2] / dvn : 0;
+  // VNB components of û at the centre (velocity pointing)
+  let lv = 0, ln = 0, lb = 0;
+  let useVnb = input.pointing === 'velocity' && dvn > 0;
+  if (useVnb) {
+    try {
+      const l = inertialToVnb(
+        [input.centreState[0], input.centreState[1], input.centreState[2]],
+        [input.centreState[3], input.centreState[4], input.centreState[5]],
+        [ux, uy, uz],
+      );
+      lv = l[0];
+      ln = l[1];
+      lb = l[2];
+    } catch {
+      useVnb = false; // r ∥ v: no VNB frame, hold the inertial direction
+    }
+  }
+  let thrust = 0;
+  let exhaust = 1;
+  const f = (_t: number, y: Float64Array, d: Float64Array): void => {
+    const x = y[0], yy = y[1], z = y[2];
+    const vx = y[3], vy = y[4], vz = y[5];
+    const m = y[6];
+    const r2 = x * x + yy * yy + z * z;
+    const k = -mu / (r2 * Math.sqrt(r2));
+    let dx = ux, dy = uy, dz = uz;
+    if (useVnb) {
+      const v = Math.sqrt(vx * vx + vy * vy + vz * vz);
+      const Vx = vx / v, Vy = vy / v, Vz = vz / v;
+      let Nx = yy * vz - z * vy, Ny = z * vx - x * vz, Nz = x * vy - yy * vx;
+      const hn = Math.sqrt(Nx * Nx + Ny * Ny + Nz * Nz);
+      Nx /= hn;
+      Ny /= hn;
+      Nz /= hn;
+      const Bx = Vy * Nz - Vz * Ny, By = Vz * Nx - Vx * Nz, Bz = Vx * Ny - Vy * Nx;
+      dx = lv * Vx + ln * Nx + lb * Bx;
+      dy = lv * Vy + ln * Ny + lb * By;
+      dz = lv * Vz + ln * Nz + lb * Bz;
+    }
+    const a = thrust / m;
+    d[0] = vx;
+    d[1] = vy;
+    d[2] = vz;
+    d[3] = k * x + a * dx;
+    d[4] = k * yy + a * dy;
+    d[5] = k * z + a * dz;
+    d[6] = -thrust / exhaust;
+  };
+  const y = new Float64Array(7);
+  for (let i = 0; i < 6; i++) y[i] = input.state[i];
+  y[6] = book.massBefore;
+  const r0 = Math.hypot(y[0], y[1], y[2]);
+  const v0 = Math.hypot(y[3], y[4], y[5]) || 1;
+  const atol = [1e-9 * r0, 1e-9 * r0, 1e-9 * r0, 1e-10 * v0, 1e-10 * v0, 1e-10 * v0, 1e-9 * book.massBefore];
+  let t = input.tStart;
+  let steps = 0;
+  let fevals = 0;
+  let dvProp = 0;
+  const spans: { t0: number; t1: number; dense: DenseOutput | undefined }[] = [];
+  for (let ph = 0; ph < book.phases; ph++) {
+    const dur = book.phaseDuration[ph];
+    // mass at the phase start: a dropped stage's dry mass leaves between phases
+    y[6] = book.phaseMass0[ph];
+    if (!(dur > 0)) continue;
+    thrust = book.phaseThrust[ph];
+    exhaust = book.phaseExhaust[ph];
+    const res = rk45(f, t, y, t + dur, { rtol: FINITE_BURN_RTOL, atol, dense: input.samples > 0 });
+    if (res.status !== 'done') {
+      throw new SolverError('finite-burn', 'no-convergence', `burn integration stopped: ${res.message}`, { tStart: t, duration: dur });
+    }
+    steps += res.stats.accepted;
+    fevals += res.stats.fevals;
+    dvProp += exhaust * Math.log(book.phaseMass0[ph] / res.y[6]);
+    spans.push({ t0: t, t1: t + dur, dense: res.dense });
+    y.set(res.y);
+    t += dur;
+  }
+  const state = new Float64Array(6);
+  for (let i = 0; i < 6; i++) state[i] = y[i];
+  for (let i = 0; i < 6; i++) {
+    if (!Number.isFinite(state[i])) throw new SolverError('finite-burn', 'non-finite', 'burn end state is not finite', { tStart: input.tStart });
+  }
+  // energy-equivalent impulsive Δv at the centre
+  const c = input.centreState;
+  const rc = Math.hypot(c[0], c[1], c[2]);
+  const rf = Math.hypot(state[0], state[1], state[2]);
+  const vf2 = state[3] * state[3] + state[4] * state[4] + state[5] * state[5];
+  const epsF = 0.5 * vf2 - mu / rf;
+  const vdotu = c[3] * ux + c[4] * uy + c[5] * uz;
+  const vc2 = c[3] * c[3] + c[4] * c[4] + c[5] * c[5];
+  const disc = vdotu * vdotu - vc2 + 2 * (epsF + mu / rc);
+  let k: number;
+  if (disc >= 0) {
+    const sq = Math.sqrt(disc);
+    const k1 = -vdotu + sq;
+    const k2 = -vdotu - sq;
+    k = Math.abs(k1 - dvn) <= Math.abs(k2 - dvn) ? k1 : k2;
+  } else {
+    k = -vdotu;
+  }
+  if (dvn === 0) k = 0;
+  let sampleT = EMPTY;
+  let samples = EMPTY;
+  const n = input.samples;
+  if (n > 0 && spans.length > 0) {
+    sampleT = new Float64Array(n);
+    samples = new Float64Array(3 * n);
+    const ts = input.tStart;
+    const te = t;
+    const tmp = new Float64Array(7);
+    let sp = 0;
+    for (let j = 0; j < n; j++) {
+      const tj = n === 1 ? ts : ts + ((te - ts) * j) / (n - 1);
+      while (sp < spans.length - 1 && tj > spans[sp].t1) sp++;
+      const d = spans[sp].dense;
+      sampleT[j] = tj;
+      if (d) {
+        d.at(Math.min(Math.max(tj, spans[sp].t0), spans[sp].t1), tmp);
+        samples[3 * j] = tmp[0];
+        samples[3 * j + 1] = tmp[1];
+        samples[3 * j + 2] = tmp[2];
+      }
+    }
+  }
+  return {
+    tEnd: t,
+    state,
+    massEnd: y[6],
+    dvPropellant: dvProp,
+    dvEquivalent: k,
+    gravityLoss: dvProp - k,
+    sampleT,
+    samples,
+    steps,
+    fevals,
+  };
+}

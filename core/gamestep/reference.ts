@@ -1,0 +1,427 @@
+/**
+ * The reference flight of the game-step check: the same plan, the same gravity model and the
+ * same burn model as the game, integrated with Dormand–Prince RK45 at a tight tolerance
+ * (core/integrate/rk45.ts) and kept as dense output, so the game's state at any of its step
+ * times can be compared with it.
+ *
+ * Gravity models
+ * - 'central' (patched conics, what most games do): only the central body pulls; the state is
+ *   kept relative to it. The sphere-of-influence changes are RK45 events: leaving the central
+ *   body's SOI (|r| rising through its Laplace radius) and entering a child's (distance to the
+ *   child falling through the child's radius); at an event the state is re-expressed about the
+ *   new central body with the conic ephemeris (core/system/ephemeris.ts).
+ * - 'all': the star and every body pull (point masses on their conic ephemerides). The state is
+ *   kept relative to a frame body — the plan's central body of the time, switched at the plan's
+ *   segment boundaries (a change of coordinates only) — with the frame body's own acceleration
+ *   subtracted (the indirect term; its conic acceleration −μ_orbit·c/|c|³ summed along its
+ *   chain of parents; the star is fixed, as in the conic ephemeris). Keeping the state small
+ *   keeps the reference precise in double.
+ *
+ * Burns (their Δv from guidance.ts: re-solved from the flight's own state, or the
+ * plan's): impulsive — the Δv added at the burn time; spread — a thrust acceleration F/m(t)
+ * along the fixed inertial direction of the Δv from tStart until |Δv| is delivered, with
+ * m(t) = m0 − ṁ·(t − tStart) and F = |Δv_plan|·ṁ / ln(m0/m1) (Tsiolkovsky; for a single-stage
+ * burn F is the stage's thrust), so the plan's own Δv takes the plan's duration. Burn times,
+ * burn ends and frame switches are breakpoints: no RK45 step crosses them.
+ */
+import { InputError, SolverError } from '../math/errors.ts';
+import type { DenseOutput } from '../integrate/dense.ts';
+import { rk45, type EventSpec } from '../integrate/rk45.ts';
+import { bodyPosition, bodyState, bodyStateRelativeToParent } from '../system/ephemeris.ts';
+import type { StarSystem } from '../system/model.ts';
+import { burnDv, spreadDuration, type GameGuidance } from './guidance.ts';
+import type { BurnEvent } from '../plan/plan.ts';
+
+export type GameGravity = 'central' | 'all';
+export type GameBurnModel = 'impulsive' | 'spread';
+
+/** One burn of the plan as the game-step check flies it (from the plan's budget rows). */
+export interface GameBurn {
+  id: string;
+  name: string;
+  /** Burn centre, s. */
+  t: number;
+  /** Start of the spread burn (centre − duration/2), s. */
+  tStart: number;
+  /** Duration at the vehicle's thrust, s (0: impulsive only). */
+  duration: number;
+  /** Inertial Δv delivered in the plan's evaluation, m/s (what 'open-loop' guidance flies). */
+  dv: [number, number, number];
+  /** |dv|, m/s. */
+  dvMag: number;
+  /** Mass at the start and end of the burn, kg. */
+  mass0: number;
+  mass1: number;
+  /** Propellant flow, kg/s, and the thrust that delivers |dv| over the duration with it, N. */
+  mdot: number;
+  thrust: number;
+  /** The plan's burn event (its solve and frame components), for 'resolve' guidance; null: fly dv. */
+  event: BurnEvent | null;
+  /** The plan's central body at the burn (what its solve is relative to). */
+  central: number;
+  /** Fraction of the Δv the vehicle delivers (< 1 when it runs out of propellant). */
+  fraction: number;
+}
+
+/** Default relative tolerance of the reference flight. */
+export const REFERENCE_RTOL = 1e-12;
+/** Default absolute tolerance (m and m/s) of the reference flight. */
+export const REFERENCE_ATOL = 1e-9;
+/** RK45 step budget per reference piece. */
+export const REFERENCE_MAX_STEPS = 2_000_000;
+
+export interface ReferenceSettings {
+  system: StarSystem;
+  gravity: GameGravity;
+  burnModel: GameBurnModel;
+  burns: GameBurn[];
+  guidance: GameGuidance;
+  /** 'all': frame body schedule — frame body frames.central[k] from frames.t[k] on (t ascending, t[0] ≤ start). */
+  frames: { t: number[]; central: number[] };
+  rtol?: number;
+  atol?: number;
+  signal?: { aborted: boolean };
+}
+
+export interface ReferencePiece {
+  t0: number;
+  t1: number;
+  /** Central (or frame) body the piece's state is relative to. */
+  central: number;
+  dense: DenseOutput | null;
+}
+
+export interface ReferenceStats {
+  steps: number;
+  rejected: number;
+  fevals: number;
+  /** SOI changes ('central' model). */
+  soiChanges: number;
+  /** Burns whose solve failed (flown with the plan's Δv instead). */
+  solveFailures: string[];
+}
+
+export interface ReferenceFlight {
+  pieces: ReferencePiece[];
+  /** End time, state (relative to `central`) and central body. */
+  t: number;
+  y: Float64Array;
+  central: number;
+  stats: ReferenceStats;
+}
+
+/** Frame body of the 'all' model at time t. */
+export function frameAt(frames: { t: number[]; central: number[] }, t: number): number {
+  let k = 0;
+  while (k + 1 < frames.t.length && frames.t[k + 1] <= t) k++;
+  return frames.central[k];
+}
+
+/** Thrust acceleration magnitude of a spread burn at time t (inside its window), m/s². */
+export function spreadAccel(b: GameBurn, t: number): number {
+  if (!(b.mdot > 0) || !(b.mass0 > b.mass1)) return b.duration > 0 ? b.dvMag / b.duration : 0;
+  return b.thrust / (b.mass0 - b.mdot * (t - b.tStart));
+}
+
+const abs6 = new Float64Array(6);
+const rel6 = new Float64Array(6);
+const p3 = new Float64Array(3);
+
+/**
+ * Flies the reference from absolute (star-frame) state `absState` at t0 about `central`
+ * ('central' model; ignored by 'all', which takes its frame body from the schedule) to tEnd.
+ * Burns whose time (impulsive) or window (spread) lies in [t0, tEnd) are flown.
+ */
+export function flyReference(
+  s: ReferenceSettings,
+  t0: number,
+  absState: ArrayLike<number>,
+  central: number,
+  tEnd: number,
+  keepDense: boolean,
+): ReferenceFlight {
+  const system = s.system;
+  const bodies = system.bodies;
+  if (!(tEnd >= t0)) throw new InputError('tEnd', 'must not be before t0', tEnd);
+  const rtol = s.rtol ?? REFERENCE_RTOL;
+  const atol = s.atol ?? REFERENCE_ATOL;
+  let c = s.gravity === 'all' ? frameAt(s.frames, t0) : central;
+  const y = new Float64Array(6);
+  bodyState(system, c, t0, abs6);
+  for (let i = 0; i < 6; i++) y[i] = absState[i] - abs6[i];
+  const burns = s.burns;
+  const isSpread = (b: GameBurn): boolean => s.burnModel === 'spread' && b.duration > 0;
+  // burns before t0 are done (as GameFlight.reset counts them)
+  const done = burns.map((b) => (isSpread(b) ? b.tStart < t0 : b.t < t0));
+  let active: { b: GameBurn; dv: [number, number, number]; tEnd: number } | null = null;
+  const pieces: ReferencePiece[] = [];
+  const stats: ReferenceStats = { steps: 0, rejected: 0, fevals: 0, soiChanges: 0, solveFailures: [] };
+  const dv: [number, number, number] = [0, 0, 0];
+  let t = t0;
+  let guard = 0;
+  for (;;) {
+    if (++guard > 100_000) throw new SolverError('game-step reference', 'step-budget', 'too many pieces (SOI changes)');
+    if (s.signal?.aborted) throw new SolverError('game-step reference', 'cancelled', `cancelled at t = ${t} s`);
+    // what happens at t: impulses, spread starts and ends, frame switches
+    if (active && active.tEnd <= t) active = null;
+    for (let i = 0; i < burns.length; i++) {
+      if (done[i] || t >= tEnd) continue;
+      const b = burns[i];
+      if (!isSpread(b) && b.t <= t) {
+        toAbs(system, c, t, y, abs6);
+        if (!burnDv(system, b, s.guidance, t, abs6, false, dv)) stats.solveFailures.push(b.id);
+        addDv(y, dv);
+        done[i] = true;
+      } else if (isSpread(b) && b.tStart <= t && !active) {
+        toAbs(system, c, t, y, abs6);
+        const d: [number, number, number] = [0, 0, 0];
+        if (!burnDv(system, b, s.guidance, t, abs6, true, d)) stats.solveFailures.push(b.id);
+        active = { b, dv: d, tEnd: t + spreadDuration(b, Math.hypot(d[0], d[1], d[2])) };
+        done[i] = true;
+      }
+    }
+    if (s.gravity === 'all') {
+      const nf = frameAt(s.frames, t);
+      if (nf !== c) {
+        shiftFrame(system, c, nf, t, y);
+        c = nf;
+      }
+    }
+    if (t >= tEnd) break;
+    let tb = tEnd;
+    for (let i = 0; i < burns.length; i++) {
+      if (done[i]) continue;
+      const tn = isSpread(burns[i]) ? burns[i].tStart : burns[i].t;
+      if (tn > t && tn < tb) tb = tn;
+    }
+    if (active && active.tEnd > t && active.tEnd < tb) tb = active.tEnd;
+    if (s.gravity === 'all') for (const tf of s.frames.t) if (tf > t && tf < tb) tb = tf;
+    const f = makeOde(s, c, active ? active.b : null, active ? active.dv : null);
+    const events = s.gravity === 'central' ? soiEvents(system, c) : [];
+    const res = rk45(f, t, y, tb, { rtol, atol, dense: keepDense, events, maxSteps: REFERENCE_MAX_STEPS, signal: s.signal });
+    stats.steps += res.stats.accepted;
+    stats.rejected += res.stats.rejected;
+    stats.fevals += res.stats.fevals;
+    if (res.status === 'cancelled') throw new SolverError('game-step reference', 'cancelled', `cancelled at t = ${res.t} s`);
+    if (res.status !== 'done' && res.status !== 'event') {
+      throw new SolverError('game-step reference', res.status === 'step-budget' ? 'step-budget' : 'step-underflow', `${res.message} (t = ${res.t} s)`, { t: res.t });
+    }
+    if (res.t > t) pieces.push({ t0: t, t1: res.t, central: c, dense: res.dense ?? null });
+    t = res.t;
+    y.set(res.y);
+    if (res.status === 'event') {
+      const hit = res.events[res.events.length - 1];
+      const next = hit.index === 0 && c !== 0 ? bodies[c].parentIndex : eventChild(system, c, hit.index);
+      changeCentral(system, c, next, t, y);
+      c = next;
+      stats.soiChanges++;
+    }
+  }
+  return { pieces, t, y, central: c, stats };
+}
+
+function toAbs(system: StarSystem, c: number, t: number, y: Float64Array, out: Float64Array): void {
+  bodyState(system, c, t, out);
+  for (let i = 0; i < 6; i++) out[i] += y[i];
+}
+
+function addDv(y: Float64Array, dv: ArrayLike<number>): void {
+  y[3] += dv[0];
+  y[4] += dv[1];
+  y[5] += dv[2];
+}
+
+// Index of event k (k ≥ 1 for children; k = 0 is the exit when the central body is not the star).
+function eventChild(system: StarSystem, c: number, k: number): number {
+  const kids = system.bodies[c].children;
+  return kids[c === 0 ? k : k - 1];
+}
+
+function soiEvents(system: StarSystem, c: number): EventSpec[] {
+  const bodies = system.bodies;
+  const ev: EventSpec[] = [];
+  if (c !== 0) {
+    const R = bodies[c].derived.soiRadius;
+    ev.push({ name: 'soi-exit', terminal: true, direction: 1, g: (_t, y) => Math.hypot(y[0], y[1], y[2]) - R });
+  }
+  for (const k of bodies[c].children) {
+    const R = bodies[k].derived.soiRadius;
+    const q = new Float64Array(3);
+    ev.push({
+      name: `soi-entry-${k}`,
+      terminal: true,
+      direction: -1,
+      g: (t, y) => {
+        bodyPosition(system, k, t, q, c);
+        return Math.hypot(y[0] - q[0], y[1] - q[1], y[2] - q[2]) - R;
+      },
+    });
+  }
+  return ev;
+}
+
+/** Re-expresses y (relative to `from`) about `to`, a parent or a child of `from`, at time t. */
+export function changeCentral(system: StarSystem, from: number, to: number, t: number, y: Float64Array): void {
+  if (system.bodies[from].parentIndex === to) {
+    bodyStateRelativeToParent(system, from, t, rel6);
+    for (let i = 0; i < 6; i++) y[i] += rel6[i];
+  } else {
+    bodyStateRelativeToParent(system, to, t, rel6);
+    for (let i = 0; i < 6; i++) y[i] -= rel6[i];
+  }
+}
+
+function shiftFrame(system: StarSystem, from: number, to: number, t: number, y: Float64Array): void {
+  bodyState(system, to, t, rel6, from);
+  for (let i = 0; i < 6; i++) y[i] -= rel6[i];
+}
+
+/** Absolute positions (star frame) of every body at t, 3 per body, parents before children. */
+export function absolutePositions(system: StarSystem, order: readonly number[], t: number, out: Float64Array): void {
+  const bodies = system.bodies;
+  out[0] = out[1] = out[2] = 0;
+  for (const j of order) {
+    if (j === 0) continue;
+    const p = bodies[j].parentIndex;
+    bodyPosition(system, j, t, p3, p);
+    out[3 * j] = out[3 * p] + p3[0];
+    out[3 * j + 1] = out[3 * p + 1] + p3[1];
+    out[3 * j + 2] = out[3 * p + 2] + p3[2];
+  }
+}
+
+/** Body indices ordered parents first. */
+export function treeOrder(system: StarSystem): number[] {
+  const out: number[] = [];
+  const visit = (i: number): void => {
+    out.push(i);
+    for (const k of system.bodies[i].children) visit(k);
+  };
+  visit(0);
+  return out;
+}
+
+// The right-hand side y' = (v, a) of one piece.
+function makeOde(s: ReferenceSettings, c: number, thrust: GameBurn | null, dir: ArrayLike<number> | null): (t: number, y: Float64Array, dydt: Float64Array) => void {
+  const system = s.system;
+  const bodies = system.bodies;
+  let ux = 0, uy = 0, uz = 0;
+  const m = dir ? Math.hypot(dir[0], dir[1], dir[2]) : 0;
+  if (thrust && dir && m > 0) {
+    ux = dir[0] / m;
+    uy = dir[1] / m;
+    uz = dir[2] / m;
+  }
+  const addThrust = (t: number, d: Float64Array): void => {
+    if (!thrust) return;
+    const a = spreadAccel(thrust, t);
+    d[3] += a * ux;
+    d[4] += a * uy;
+    d[5] += a * uz;
+  };
+  if (s.gravity === 'central') {
+    const mu = bodies[c].mu;
+    return (t, y, d) => {
+      const r2 = y[0] * y[0] + y[1] * y[1] + y[2] * y[2];
+      const k = -mu / (r2 * Math.sqrt(r2));
+      d[0] = y[3];
+      d[1] = y[4];
+      d[2] = y[5];
+      d[3] = k * y[0];
+      d[4] = k * y[1];
+      d[5] = k * y[2];
+      addThrust(t, d);
+    };
+  }
+  const N = bodies.length;
+  const order = treeOrder(system);
+  const P = new Float64Array(3 * N);
+  const mus = Float64Array.from(bodies.map((b) => b.mu));
+  // chain of the frame body up to the star, for its conic acceleration
+  const chain: number[] = [];
+  for (let j = c; j !== 0; j = bodies[j].parentIndex) chain.push(j);
+  const orbitMu = chain.map((j) => bodies[j].derived.orbitMu);
+  return (t, y, d) => {
+    absolutePositions(system, order, t, P);
+    const fx = P[3 * c], fy = P[3 * c + 1], fz = P[3 * c + 2];
+    let ax = 0, ay = 0, az = 0;
+    for (let j = 0; j < N; j++) {
+      const dx = y[0] - (P[3 * j] - fx);
+      const dy = y[1] - (P[3 * j + 1] - fy);
+      const dz = y[2] - (P[3 * j + 2] - fz);
+      const r2 = dx * dx + dy * dy + dz * dz;
+      const k = -mus[j] / (r2 * Math.sqrt(r2));
+      ax += k * dx;
+      ay += k * dy;
+      az += k * dz;
+    }
+    // indirect term: the frame body's own acceleration (conic, summed along its chain)
+    for (let q = 0; q < chain.length; q++) {
+      const j = chain[q];
+      const p = bodies[j].parentIndex;
+      const cx = P[3 * j] - P[3 * p];
+      const cy = P[3 * j + 1] - P[3 * p + 1];
+      const cz = P[3 * j + 2] - P[3 * p + 2];
+      const r2 = cx * cx + cy * cy + cz * cz;
+      const k = -orbitMu[q] / (r2 * Math.sqrt(r2));
+      ax -= k * cx;
+      ay -= k * cy;
+      az -= k * cz;
+    }
+    d[0] = y[3];
+    d[1] = y[4];
+    d[2] = y[5];
+    d[3] = ax;
+    d[4] = ay;
+    d[5] = az;
+    addThrust(t, d);
+  };
+}
+
+/**
+ * Dense lookup over the pieces of a reference flight: the absolute (star-frame) state at any
+ * time of the flight. At a piece boundary the later piece wins (the state after an impulse).
+ */
+export class ReferenceTrack {
+  private readonly starts: Float64Array;
+  private readonly y = new Float64Array(6);
+  private readonly b = new Float64Array(6);
+
+  constructor(
+    readonly system: StarSystem,
+    readonly flight: ReferenceFlight,
+  ) {
+    const p = flight.pieces;
+    if (p.length === 0 || p.some((x) => !x.dense)) throw new InputError('flight', 'must hold at least one piece with dense output');
+    this.starts = Float64Array.from(p.map((x) => x.t0));
+  }
+
+  get t0(): number {
+    return this.flight.pieces[0].t0;
+  }
+
+  get t1(): number {
+    return this.flight.pieces[this.flight.pieces.length - 1].t1;
+  }
+
+  /** Absolute state at t (clamped to the flight's span) into out6; returns the piece's central body. */
+  at(t: number, out6: Float64Array): number {
+    const pieces = this.flight.pieces;
+    const tc = Math.min(Math.max(t, this.t0), this.t1);
+    const s = this.starts;
+    let lo = 0;
+    let hi = s.length - 1;
+    while (lo < hi) {
+      const mid = (lo + hi + 1) >> 1;
+      if (s[mid] <= tc) lo = mid;
+      else hi = mid - 1;
+    }
+    let piece = pieces[lo];
+    if (tc > piece.t1) piece = pieces[Math.min(lo + 1, pieces.length - 1)];
+    const tt = Math.min(Math.max(tc, piece.t0), piece.t1);
+    (piece.dense as DenseOutput).at(tt, this.y);
+    bodyState(this.system, piece.central, tt, this.b);
+    for (let i = 0; i < 6; i++) out6[i] = this.y[i] + this.b[i];
+    return piece.central;
+  }
+}
