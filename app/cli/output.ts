@@ -4,7 +4,7 @@
  * exit code: 2 for bad input or a bad file, 3 for a numerical failure, 1 is reserved for
  * "the answer is no" (a plan whose margin does not hold).
  */
-import { InputError, SolverError, ValidationError, WaymarkError } from '../../core/math/errors.ts';
+import { InputError, SolverError, ValidationError, WaymarkError } from '../../core/math/index.ts';
 
 export const EXIT_OK = 0;
 export const EXIT_NO = 1;

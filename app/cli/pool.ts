@@ -14,11 +14,11 @@
  * - Validation happens in the calling thread before any work is sent.
  */
 import { Piscina } from 'piscina';
-import { SolverError } from '../../core/math/errors.ts';
-import { mergeChunk, partitionRows } from '../../core/search/chunks.ts';
-import { createGrid, type PorkchopGrid } from '../../core/search/porkchop.ts';
-import type { PorkchopRequest } from '../../core/search/request.ts';
-import type { StarSystem } from '../../core/system/model.ts';
+import { SolverError } from '../../core/math/index.ts';
+import { mergeChunk, partitionRows } from '../../core/search/index.ts';
+import { createGrid, type PorkchopGrid } from '../../core/search/index.ts';
+import type { PorkchopRequest } from '../../core/search/index.ts';
+import type { StarSystem } from '../../core/system/index.ts';
 import type { ChunkResult, ChunkTask } from './workers/porkchopWorker.ts';
 
 /** The worker entry (a .mjs bootstrap that registers tsx, then loads porkchopWorker.ts). */

@@ -43,11 +43,11 @@ import {
 import * as fsp from 'node:fs/promises';
 import { randomBytes } from 'node:crypto';
 import { basename, dirname, isAbsolute, join, resolve } from 'node:path';
-import { ValidationError, WaymarkError, type ValidationIssue } from '../../core/math/errors.ts';
-import { PLAN_FORMAT, PLAN_VERSION, parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../core/io/planFile.ts';
-import { parseSystemFile } from '../../core/io/systemFile.ts';
-import type { Plan } from '../../core/plan/plan.ts';
-import type { StarSystem } from '../../core/system/model.ts';
+import { ValidationError, WaymarkError, type ValidationIssue } from '../../core/math/index.ts';
+import { PLAN_FORMAT, PLAN_VERSION, parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../core/io/index.ts';
+import { parseSystemFile } from '../../core/io/index.ts';
+import type { Plan } from '../../core/plan/index.ts';
+import type { StarSystem } from '../../core/system/index.ts';
 
 /** A file could not be read or written; `reason` is the plain explanation, `code` the OS code. */
 export class FileError extends WaymarkError {

@@ -4,8 +4,8 @@
  * a channel carries) and the renderer's hosts (neither overwrites a file a newer Waymark wrote).
  * The full, field-precise checks stay in core/io (planFile.ts, systemFile.ts), run by the renderer.
  */
-import { PLAN_FORMAT, PLAN_VERSION } from '../../core/io/planSchema.ts';
-import { SYSTEM_FORMAT, SYSTEM_VERSION } from '../../core/system/document.ts';
+import { PLAN_FORMAT, PLAN_VERSION } from '../../core/io/index.ts';
+import { SYSTEM_FORMAT, SYSTEM_VERSION } from '../../core/system/index.ts';
 
 export type FileKind = 'plan' | 'system';
 

@@ -5,7 +5,7 @@
 import { mount } from 'svelte';
 import App from './App.svelte';
 import config from '../../electron.config.ts';
-import { evaluate } from '../../core/conic/evaluate.ts';
+import { evaluate } from '../../core/conic/index.ts';
 import { createHost } from './host/index.ts';
 import { Session } from './state/session.ts';
 import { askUser, pendingQuestion } from './state/ask.ts';

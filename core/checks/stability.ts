@@ -37,12 +37,12 @@
  * Limits: point masses only (no tides, no relativity, no collisions' outcome); close approaches
  * are found at the step times (between steps a pass may come a little closer).
  */
-import { InputError, SolverError, WaymarkError, requireFinite } from '../math/errors.ts';
-import { fixedStepper } from '../integrate/fixed.ts';
-import { mutualAccel } from '../integrate/gravity.ts';
-import { stateToElements } from '../orbit/elements.ts';
-import type { StarSystem } from '../system/model.ts';
-import { initialStates } from '../system/nbodyEphemeris.ts';
+import { InputError, SolverError, WaymarkError, requireFinite } from '../math/index.ts';
+import { fixedStepper } from '../integrate/index.ts';
+import { mutualAccel } from '../integrate/index.ts';
+import { stateToElements } from '../orbit/index.ts';
+import type { StarSystem } from '../system/index.ts';
+import { initialStates } from '../system/index.ts';
 
 export type StabilityMethod = 'yoshida4' | 'verlet';
 

@@ -22,11 +22,11 @@
  * sample shows the state just after it.
  */
 
-import { InputError } from '../math/errors.ts';
-import { propagateKepler } from '../orbit/kepler.ts';
-import { bodyState } from '../system/ephemeris.ts';
-import type { StarSystem } from '../system/model.ts';
-import type { PlanResult, TrajectorySegment } from '../plan/result.ts';
+import { InputError } from '../math/index.ts';
+import { propagateKepler } from '../orbit/index.ts';
+import { bodyState } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
+import type { PlanResult, TrajectorySegment } from '../plan/index.ts';
 
 /** Most samples one call may produce. */
 export const MAX_EPHEMERIS_SAMPLES = 5_000_000;

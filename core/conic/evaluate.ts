@@ -35,16 +35,16 @@
  * search works in module scratch. With samplesPerSegment = 0 no drawing samples are made (what a
  * dispersion run wants).
  */
-import { InputError, SolverError, WaymarkError, requireFinite } from '../math/errors.ts';
-import { propagateKepler } from '../orbit/kepler.ts';
-import { elementsToState } from '../orbit/elements.ts';
-import { bodyStateRelativeToParent } from '../system/ephemeris.ts';
-import { findBodyIndex, type StarSystem } from '../system/model.ts';
-import { burnToInertial, inertialToBurn } from '../plan/burnFrame.ts';
-import { summarizeBudget } from '../plan/budget.ts';
-import { checkPlan } from '../plan/checkPlan.ts';
+import { InputError, SolverError, WaymarkError, requireFinite } from '../math/index.ts';
+import { propagateKepler } from '../orbit/index.ts';
+import { elementsToState } from '../orbit/index.ts';
+import { bodyStateRelativeToParent } from '../system/index.ts';
+import { findBodyIndex, type StarSystem } from '../system/index.ts';
+import { burnToInertial, inertialToBurn } from '../plan/index.ts';
+import { summarizeBudget } from '../plan/index.ts';
+import { checkPlan } from '../plan/index.ts';
 import { flyFiniteBurn } from './finiteBurn.ts';
-import type { BurnEvent, CoastUntil, Plan } from '../plan/plan.ts';
+import type { BurnEvent, CoastUntil, Plan } from '../plan/index.ts';
 import type {
   BudgetRow,
   Flag,
@@ -53,7 +53,7 @@ import type {
   TrajectoryEvent,
   TrajectoryEventKind,
   TrajectorySegment,
-} from '../plan/result.ts';
+} from '../plan/index.ts';
 import { sampleConic } from './sampleConic.ts';
 import {
   CIRCULAR_E,
@@ -69,7 +69,7 @@ import {
   type EntryResult,
 } from './soiCrossing.ts';
 import { solveBurn } from './solveBurn.ts';
-import { createBurnBook, createVehicleState, deltaVLeft, dropStage, spendBurn, type BurnBook, type VehicleState } from '../plan/vehicle.ts';
+import { createBurnBook, createVehicleState, deltaVLeft, dropStage, spendBurn, type BurnBook, type VehicleState } from '../plan/index.ts';
 
 export interface EvaluateOptions {
   /** Drawing samples per segment (default DEFAULT_SAMPLES_PER_SEGMENT; 0: none). */

@@ -30,11 +30,11 @@
  * (common practice); with the mass falling, the impulse is not centred exactly, which shifts
  * the end state by an amount of first order in the burn time.
  */
-import { rk45 } from '../integrate/rk45.ts';
-import type { DenseOutput } from '../integrate/dense.ts';
-import { SolverError } from '../math/errors.ts';
-import { inertialToVnb } from '../math/frames.ts';
-import type { BurnBook } from '../plan/vehicle.ts';
+import { rk45 } from '../integrate/index.ts';
+import type { DenseOutput } from '../integrate/index.ts';
+import { SolverError } from '../math/index.ts';
+import { inertialToVnb } from '../math/index.ts';
+import type { BurnBook } from '../plan/index.ts';
 
 /** Relative tolerance of the burn integration. */
 export const FINITE_BURN_RTOL = 1e-10;

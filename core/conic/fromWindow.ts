@@ -17,14 +17,14 @@
  * The target is that capture orbit (periapsis altitude ± 10 km, e ± 0.01).
  * Limits: single-revolution, prograde transfers only; circular parking orbit.
  */
-import { InputError, requireFinite, requireNonNegative, requirePositive } from '../math/errors.ts';
-import { propagateKepler } from '../orbit/kepler.ts';
-import { solveLambert } from '../orbit/lambert.ts';
-import { stateToElements } from '../orbit/elements.ts';
-import { bodyPosition, bodyState } from '../system/ephemeris.ts';
-import { findBodyIndex, type StarSystem } from '../system/model.ts';
-import type { Plan, ReservePolicy, Vehicle } from '../plan/plan.ts';
-import { checkVehicle } from '../plan/vehicle.ts';
+import { InputError, requireFinite, requireNonNegative, requirePositive } from '../math/index.ts';
+import { propagateKepler } from '../orbit/index.ts';
+import { solveLambert } from '../orbit/index.ts';
+import { stateToElements } from '../orbit/index.ts';
+import { bodyPosition, bodyState } from '../system/index.ts';
+import { findBodyIndex, type StarSystem } from '../system/index.ts';
+import type { Plan, ReservePolicy, Vehicle } from '../plan/index.ts';
+import { checkVehicle } from '../plan/index.ts';
 
 export interface WindowPick {
   /** Departure body id and target body id (siblings: same parent). */

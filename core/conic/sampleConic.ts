@@ -9,8 +9,8 @@
  * A coast longer than one period of an ellipse is drawn over its first full revolution (the
  * curve closes; later revolutions retrace it), so the last sample time is then t0 + period.
  */
-import { keplerCoefficients } from '../orbit/kepler.ts';
-import { stumpffCS } from '../orbit/stumpff.ts';
+import { keplerCoefficients } from '../orbit/index.ts';
+import { stumpffCS } from '../orbit/index.ts';
 
 const coef = new Float64Array(5);
 const cs = new Float64Array(2);

@@ -27,11 +27,11 @@
  * "periapsis" is taken at the current point (a coast until periapsis on it ends at once). Times
  * are offsets Δt from the state given; Infinity means "not on this conic".
  */
-import { brent } from '../math/roots.ts';
-import { propagateKepler } from '../orbit/kepler.ts';
-import { eccentricToMean, hyperbolicToMean, trueToEccentric, trueToHyperbolic } from '../orbit/anomaly.ts';
-import { bodyStateRelativeToParent } from '../system/ephemeris.ts';
-import type { StarSystem } from '../system/model.ts';
+import { brent } from '../math/index.ts';
+import { propagateKepler } from '../orbit/index.ts';
+import { eccentricToMean, hyperbolicToMean, trueToEccentric, trueToHyperbolic } from '../orbit/index.ts';
+import { bodyStateRelativeToParent } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
 
 /** Eccentricity below which an orbit counts as circular (periapsis undefined). */
 export const CIRCULAR_E = 1e-9;

@@ -28,14 +28,14 @@
  *   is an apsis (vis-viva with a = (r + r_target)/2). Exact at an apsis; elsewhere the opposite
  *   apsis lands near, not at, the altitude (fly it after "coast until periapsis/apoapsis").
  */
-import { SolverError } from '../math/errors.ts';
-import { brent } from '../math/roots.ts';
-import { propagateKepler } from '../orbit/kepler.ts';
-import { solveLambert, type LambertSolution } from '../orbit/lambert.ts';
-import { bodyPosition, bodyState } from '../system/ephemeris.ts';
-import { findBodyIndex, type StarSystem } from '../system/model.ts';
-import type { Vec3 } from '../math/vec3.ts';
-import type { BurnSolve } from '../plan/plan.ts';
+import { SolverError } from '../math/index.ts';
+import { brent } from '../math/index.ts';
+import { propagateKepler } from '../orbit/index.ts';
+import { solveLambert, type LambertSolution } from '../orbit/index.ts';
+import { bodyPosition, bodyState } from '../system/index.ts';
+import { findBodyIndex, type StarSystem } from '../system/index.ts';
+import type { Vec3 } from '../math/index.ts';
+import type { BurnSolve } from '../plan/index.ts';
 import { conicInfo, createConicInfo } from './soiCrossing.ts';
 
 /** Newton steps on the aim offset of a direct transfer with a periapsis altitude. */

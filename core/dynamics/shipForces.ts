@@ -20,10 +20,10 @@
  * Limits: no oblateness, drag or radiation pressure; bodies do not feel each other beyond their
  * conics; the ship's mass only matters for finite burns.
  */
-import type { MethodChoice } from '../integrate/propagate.ts';
-import { InputError, requireFinite } from '../math/errors.ts';
-import { bodyPosition } from '../system/ephemeris.ts';
-import { findBodyIndex, type StarSystem } from '../system/model.ts';
+import type { MethodChoice } from '../integrate/index.ts';
+import { InputError, requireFinite } from '../math/index.ts';
+import { bodyPosition } from '../system/index.ts';
+import { findBodyIndex, type StarSystem } from '../system/index.ts';
 
 /** Relative tolerance of the n-body integration. */
 export const DEFAULT_NBODY_RTOL = 1e-10;

@@ -46,9 +46,9 @@
  * compare with them (an increment below the spacing is rounded away: the game cannot represent
  * the motion). The precision verdict itself comes from flying the plan (sweep.ts).
  */
-import { InputError, SolverError, requireFinite } from '../math/errors.ts';
-import { bodyState } from '../system/ephemeris.ts';
-import type { StarSystem } from '../system/model.ts';
+import { InputError, SolverError, requireFinite } from '../math/index.ts';
+import { bodyState } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
 import { GameFlight } from './flight.ts';
 import { driftPerOrbit } from './fit.ts';
 import { EVALS_PER_STEP } from './kernel.ts';
@@ -82,8 +82,8 @@ import { energyOf, energyScale } from './measure.ts';
 import { extrapolate } from './extrapolate.ts';
 import { float32Table } from './precision.ts';
 import { fmtM } from './format.ts';
-import type { Plan } from '../plan/plan.ts';
-import type { PlanResult } from '../plan/result.ts';
+import type { Plan } from '../plan/index.ts';
+import type { PlanResult } from '../plan/index.ts';
 
 export type { GameIntegrator, GamePrecision } from './kernel.ts';
 export type { GameBurn, GameBurnModel, GameGravity } from './reference.ts';

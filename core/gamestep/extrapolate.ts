@@ -28,9 +28,9 @@
  * window much shorter than an orbit can miss growth that sets in later. With `warpDt`, or
  * `maxStepsPerSpan` above the region's steps, nothing is extrapolated.
  */
-import { SolverError } from '../math/errors.ts';
-import { bodyState } from '../system/ephemeris.ts';
-import type { StarSystem } from '../system/model.ts';
+import { SolverError } from '../math/index.ts';
+import { bodyState } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
 import { GameFlight } from './flight.ts';
 import { fitPowerLaw, powerLawAt, trendSlope } from './fit.ts';
 import { METHOD_ORDER } from './kernel.ts';

@@ -23,9 +23,9 @@
  *   kernel.ts.
  * A flight whose state becomes non-finite stops with status 'diverged'.
  */
-import { InputError } from '../math/errors.ts';
-import { bodyState, bodyStateRelativeToParent } from '../system/ephemeris.ts';
-import type { StarSystem } from '../system/model.ts';
+import { InputError } from '../math/index.ts';
+import { bodyState, bodyStateRelativeToParent } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
 import { noRound } from './float32.ts';
 import { burnDv, type GameGuidance } from './guidance.ts';
 import { GameCraft, kernelFor, type GameIntegrator, type GameKernel, type GamePrecision } from './kernel.ts';

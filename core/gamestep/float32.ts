@@ -10,7 +10,7 @@
  *   A position stored in binary32 at distance x from its origin moves in steps of ulp32(x), and
  *   rounding puts it up to ulp32(x)/2 off.
  */
-import { InputError, requireFinite } from '../math/errors.ts';
+import { InputError, requireFinite } from '../math/index.ts';
 
 /** Largest finite binary32 value, (2 − 2^−23)·2^127. */
 export const FLOAT32_MAX = 3.4028234663852886e38;

@@ -15,13 +15,13 @@
  *
  * A solve that fails falls back to the plan's inertial Δv (and the caller says so).
  */
-import { WaymarkError } from '../math/errors.ts';
-import { propagateKepler } from '../orbit/kepler.ts';
-import { bodyState } from '../system/ephemeris.ts';
-import type { StarSystem } from '../system/model.ts';
-import { burnToInertial } from '../plan/burnFrame.ts';
+import { WaymarkError } from '../math/index.ts';
+import { propagateKepler } from '../orbit/index.ts';
+import { bodyState } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
+import { burnToInertial } from '../plan/index.ts';
 import type { GameBurn } from './reference.ts';
-import { solveBurn } from '../conic/solveBurn.ts';
+import { solveBurn } from '../conic/index.ts';
 
 export type GameGuidance = 'resolve' | 'open-loop';
 

@@ -3,11 +3,11 @@
  * plan's burns as the game flies them, the mission's spans and the reference flight (RK45,
  * reference.ts) with an estimate of its own error, shared by every run of the plan.
  */
-import { InputError, requireFinite } from '../math/errors.ts';
-import { bodyState } from '../system/ephemeris.ts';
-import type { StarSystem } from '../system/model.ts';
-import { MIN_RTOL } from '../integrate/rk45.ts';
-import { evaluate } from '../conic/evaluate.ts';
+import { InputError, requireFinite } from '../math/index.ts';
+import { bodyState } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
+import { MIN_RTOL } from '../integrate/index.ts';
+import { evaluate } from '../conic/index.ts';
 import type { GameGuidance } from './guidance.ts';
 import { GAME_INTEGRATORS } from './kernel.ts';
 import {
@@ -29,8 +29,8 @@ import {
   type GamePhysics,
   type GamePhysicsInput,
 } from './types.ts';
-import type { Plan } from '../plan/plan.ts';
-import type { PlanResult } from '../plan/result.ts';
+import type { Plan } from '../plan/index.ts';
+import type { PlanResult } from '../plan/index.ts';
 
 /** One span of the mission: a trajectory segment of the plan. */
 export interface SpanDef {

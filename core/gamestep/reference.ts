@@ -24,13 +24,13 @@
  * burn F is the stage's thrust), so the plan's own Δv takes the plan's duration. Burn times,
  * burn ends and frame switches are breakpoints: no RK45 step crosses them.
  */
-import { InputError, SolverError } from '../math/errors.ts';
-import type { DenseOutput } from '../integrate/dense.ts';
-import { rk45, type EventSpec } from '../integrate/rk45.ts';
-import { bodyPosition, bodyState, bodyStateRelativeToParent } from '../system/ephemeris.ts';
-import type { StarSystem } from '../system/model.ts';
+import { InputError, SolverError } from '../math/index.ts';
+import type { DenseOutput } from '../integrate/index.ts';
+import { rk45, type EventSpec } from '../integrate/index.ts';
+import { bodyPosition, bodyState, bodyStateRelativeToParent } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
 import { burnDv, spreadDuration, type GameGuidance } from './guidance.ts';
-import type { BurnEvent } from '../plan/plan.ts';
+import type { BurnEvent } from '../plan/index.ts';
 
 export type GameGravity = 'central' | 'all';
 export type GameBurnModel = 'impulsive' | 'spread';

@@ -12,14 +12,14 @@
  * full gameStepCheck sharing one reference flight. Steps are multiples of dt by powers of two,
  * like a game's time-warp rates.
  */
-import { InputError, requireFinite } from '../math/errors.ts';
-import { bodyState } from '../system/ephemeris.ts';
-import type { StarSystem } from '../system/model.ts';
+import { InputError, requireFinite } from '../math/index.ts';
+import { bodyState } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
 import type { Float32Row, GamePhysics, GamePhysicsInput, GameStepResult, PreparedGameStep } from './check.ts';
 import { DEFAULT_REBASE, gameStepCheck, normalizePhysics, prepareGameStep } from './check.ts';
 import { EVALS_PER_STEP, GAME_INTEGRATORS, type GameIntegrator } from './kernel.ts';
-import type { Plan } from '../plan/plan.ts';
-import type { PlanResult } from '../plan/result.ts';
+import type { Plan } from '../plan/index.ts';
+import type { PlanResult } from '../plan/index.ts';
 
 /** Default largest step: this fraction of the shortest bound orbital period flown. */
 export const DEFAULT_DT_MAX_FRACTION = 1 / 20;

@@ -13,7 +13,7 @@
  *
  * Integration may run backward (t decreasing); the object covers [min, max] of tStart, tEnd.
  */
-import { InputError, requireFinite } from '../math/errors.ts';
+import { InputError, requireFinite } from '../math/index.ts';
 
 export class DenseOutput {
   /** Number of components of y. */

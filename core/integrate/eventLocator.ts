@@ -16,8 +16,8 @@
  *
  * Allocation-free unless a crossing is found (then one state copy per hit).
  */
-import { InputError, SolverError } from '../math/errors.ts';
-import { brent } from '../math/roots.ts';
+import { InputError, SolverError } from '../math/index.ts';
+import { brent } from '../math/index.ts';
 import { evalCoefficients } from './dense.ts';
 
 export interface EventSpec {

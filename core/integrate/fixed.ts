@@ -10,7 +10,7 @@
  * computed, not accumulated. Give one of the two.
  * After each step the state is checked: a non-finite component throws SolverError 'non-finite'.
  */
-import { InputError, SolverError, requireFinite } from '../math/errors.ts';
+import { InputError, SolverError, requireFinite } from '../math/index.ts';
 import { explicitEulerStepper } from './explicitEuler.ts';
 import type { AccelFunction, FixedStepper } from './ode.ts';
 import { rk4Stepper } from './rk4.ts';

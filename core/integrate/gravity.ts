@@ -14,7 +14,7 @@
  * per call. A craft exactly at a source's centre gets a non-finite acceleration, which the
  * integrators reject.
  */
-import { InputError, requireNonNegative } from '../math/errors.ts';
+import { InputError, requireNonNegative } from '../math/index.ts';
 import type { AccelFunction, OdeFunction } from './ode.ts';
 
 export interface GravitySource {

@@ -21,7 +21,7 @@
  * fixed-step spans events and dense output use the cubic Hermite interpolant through (x, v, a)
  * at the step ends, which costs one extra acceleration evaluation per step (counted in fevals).
  */
-import { InputError, requireFinite } from '../math/errors.ts';
+import { InputError, requireFinite } from '../math/index.ts';
 import { DenseOutput, hermiteCoefficients } from './dense.ts';
 import { EventLocator, checkEvents, type EventHit, type EventSpec } from './eventLocator.ts';
 import { FIXED_METHODS, integrateFixed, requireStatePair, type FixedMethod } from './fixed.ts';

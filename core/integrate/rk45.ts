@@ -20,7 +20,7 @@
  *   the state and stages in local variables (far fewer typed-array accesses); it does the same
  *   arithmetic in the same order as the generic loop, so the two agree bit for bit (tested).
  */
-import { InputError, SolverError, requireFinite } from '../math/errors.ts';
+import { InputError, SolverError, requireFinite } from '../math/index.ts';
 import { DenseOutput } from './dense.ts';
 import { EventLocator, checkEvents, type EventHit, type EventSpec } from './eventLocator.ts';
 import type { OdeFunction, SolveStats } from './ode.ts';

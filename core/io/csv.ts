@@ -12,10 +12,10 @@
  * `parseCsv` reads the same dialect back (tests and pipelines).
  */
 
-import { InputError } from '../math/errors.ts';
-import type { SampledEphemeris } from '../conic/ephemerisSampler.ts';
-import type { Budget } from '../plan/result.ts';
-import type { StarSystem } from '../system/model.ts';
+import { InputError } from '../math/index.ts';
+import type { SampledEphemeris } from '../conic/index.ts';
+import type { Budget } from '../plan/index.ts';
+import type { StarSystem } from '../system/index.ts';
 
 const EOL = '\r\n';
 

@@ -3,7 +3,7 @@
  * version is brought to the current one step by step (table[v] turns version v into v + 1);
  * a missing, non-integer, newer or unmigratable version is a ValidationError on `version`.
  */
-import { ValidationError } from '../math/errors.ts';
+import { ValidationError } from '../math/index.ts';
 
 export type Migration = (doc: Record<string, unknown>) => Record<string, unknown>;
 

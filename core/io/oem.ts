@@ -36,9 +36,9 @@
  * are turned back into system seconds with the same nominal origin, assuming no leap seconds.
  */
 
-import { InputError, ValidationError, type ValidationIssue } from '../math/errors.ts';
-import type { SampledEphemeris } from '../conic/ephemerisSampler.ts';
-import type { StarSystem } from '../system/model.ts';
+import { InputError, ValidationError, type ValidationIssue } from '../math/index.ts';
+import type { SampledEphemeris } from '../conic/index.ts';
+import type { StarSystem } from '../system/index.ts';
 
 export const OEM_VERSION = '2.0';
 /** Calendar date written for system time t = 0 (nominal; no Earth time is implied). */

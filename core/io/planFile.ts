@@ -34,7 +34,7 @@
 import { migrateDocument, type Migration } from './migrate.ts';
 import { Ajv2020, type ErrorObject } from 'ajv/dist/2020.js';
 import schema from '../../assets/schema/plan.schema.json' with { type: 'json' };
-import { ValidationError, type ValidationIssue } from '../math/errors.ts';
+import { ValidationError, type ValidationIssue } from '../math/index.ts';
 import type {
   BurnEvent,
   BurnSolve,
@@ -43,8 +43,8 @@ import type {
   PlanEvent,
   PlanStart,
   PlanTarget,
-} from '../plan/plan.ts';
-import type { StarSystem } from '../system/model.ts';
+} from '../plan/index.ts';
+import type { StarSystem } from '../system/index.ts';
 import {
   PLAN_FORMAT,
   PLAN_VERSION,

@@ -16,11 +16,11 @@
  * since that is what the user edits.
  */
 
-import type { ValidationIssue } from '../math/errors.ts';
-import { MAX_PLAN_SPEED, MAX_START_DISTANCE } from '../plan/checkPlan.ts';
-import type { Plan } from '../plan/plan.ts';
-import { MIN_BURNOUT_FRACTION, MIN_STAGE_THRUST } from '../plan/vehicle.ts';
-import type { StarSystem } from '../system/model.ts';
+import type { ValidationIssue } from '../math/index.ts';
+import { MAX_PLAN_SPEED, MAX_START_DISTANCE } from '../plan/index.ts';
+import type { Plan } from '../plan/index.ts';
+import { MIN_BURNOUT_FRACTION, MIN_STAGE_THRUST } from '../plan/index.ts';
+import type { StarSystem } from '../system/index.ts';
 
 export const PLAN_FORMAT = 'waymark-plan';
 export const PLAN_VERSION = 1;

@@ -6,11 +6,11 @@
  * tables; `|` in names is escaped.
  */
 
-import { G0 } from '../plan/rocket.ts';
-import type { Plan } from '../plan/plan.ts';
-import type { Flag, PlanResult } from '../plan/result.ts';
-import { formatDate, formatElapsed } from '../system/calendar.ts';
-import type { StarSystem } from '../system/model.ts';
+import { G0 } from '../plan/index.ts';
+import type { Plan } from '../plan/index.ts';
+import type { Flag, PlanResult } from '../plan/index.ts';
+import { formatDate, formatElapsed } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
 
 const DEG = 180 / Math.PI;
 

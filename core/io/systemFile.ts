@@ -27,11 +27,11 @@
 import { migrateDocument, type Migration } from './migrate.ts';
 import { Ajv2020, type ErrorObject } from 'ajv/dist/2020.js';
 import schema from '../../assets/schema/system.schema.json' with { type: 'json' };
-import { ValidationError, type ValidationIssue } from '../math/errors.ts';
-import { buildStarSystem, systemToDocument } from '../system/build.ts';
-import { SYSTEM_FORMAT, SYSTEM_VERSION, type SystemDocument } from '../system/document.ts';
-import type { StarSystem } from '../system/model.ts';
-import { checkSystemDocument } from '../system/validate.ts';
+import { ValidationError, type ValidationIssue } from '../math/index.ts';
+import { buildStarSystem, systemToDocument } from '../system/index.ts';
+import { SYSTEM_FORMAT, SYSTEM_VERSION, type SystemDocument } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
+import { checkSystemDocument } from '../system/index.ts';
 
 const WHAT = 'system file';
 

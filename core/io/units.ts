@@ -7,7 +7,7 @@
  * each with its own optional unit: `5000km,10000km,2100km`. Without a suffix a value is SI.
  * `d` is the mean solar day of 86 400 s (common practice), not an invented world's day.
  */
-import { InputError } from '../math/errors.ts';
+import { InputError } from '../math/index.ts';
 
 export type Dimension = 'length' | 'speed' | 'time' | 'angle' | 'mu' | 'mass' | 'force' | 'accel' | 'none';
 

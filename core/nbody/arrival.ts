@@ -20,20 +20,20 @@
  * the target at the conic periapsis time); the B-plane offset (B·T, B·R of both osculating
  * hyperbolas at that time, on the conic hyperbola's T, R axes; see bPlane.ts).
  */
-import type { FlownSpan } from '../integrate/propagate.ts';
-import { propagate } from '../integrate/propagate.ts';
-import { InputError, SolverError } from '../math/errors.ts';
-import { inertialToVnb } from '../math/frames.ts';
-import { propagateKepler } from '../orbit/kepler.ts';
-import { bodyState } from '../system/ephemeris.ts';
-import { findBodyIndex, type StarSystem } from '../system/model.ts';
-import type { Plan } from '../plan/plan.ts';
-import type { PlanResult } from '../plan/result.ts';
-import { conicInfo, createConicInfo } from '../conic/soiCrossing.ts';
-import { createBurnBook, createVehicleState, dropStage, spendBurn } from '../plan/vehicle.ts';
+import type { FlownSpan } from '../integrate/index.ts';
+import { propagate } from '../integrate/index.ts';
+import { InputError, SolverError } from '../math/index.ts';
+import { inertialToVnb } from '../math/index.ts';
+import { propagateKepler } from '../orbit/index.ts';
+import { bodyState } from '../system/index.ts';
+import { findBodyIndex, type StarSystem } from '../system/index.ts';
+import type { Plan } from '../plan/index.ts';
+import type { PlanResult } from '../plan/index.ts';
+import { conicInfo, createConicInfo } from '../conic/index.ts';
+import { createBurnBook, createVehicleState, dropStage, spendBurn } from '../plan/index.ts';
 import { bPlane, bPlaneAxes, type BPlane } from './bPlane.ts';
 import type { NBodyAction, NBodyStats } from './flight.ts';
-import type { NBodyModel, NBodyState, ThrustPhase, Vec3Tuple } from '../dynamics/shipForces.ts';
+import type { NBodyModel, NBodyState, ThrustPhase, Vec3Tuple } from '../dynamics/index.ts';
 
 /** Farthest the arrival probe looks for the n-body periapsis from the conic periapsis time, s. */
 export const PROBE_MAX = 30 * 86400;

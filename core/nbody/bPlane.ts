@@ -4,8 +4,8 @@
  * Fundamentals of Astrodynamics and Applications, 4th ed., §12.4 "B-plane targeting", from
  * memory). Used by the n-body arrival comparison (arrival.ts).
  */
-import type { ConicInfo } from '../conic/soiCrossing.ts';
-import type { Vec3Tuple } from '../dynamics/shipForces.ts';
+import type { ConicInfo } from '../conic/index.ts';
+import type { Vec3Tuple } from '../dynamics/index.ts';
 
 /** B-plane coordinates of an osculating hyperbola (Vallado §12.4, from memory). */
 export interface BPlane {

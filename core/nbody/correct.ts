@@ -46,10 +46,10 @@
  * differs (demo: e 1.636 vs 1.621 at arrival; final orbit 405 × 2,683 km at 30.6° instead of
  * 400 × 2,000 km at 30°). Re-solving those burns in the n-body model is not done.
  */
-import { InputError, SolverError, WaymarkError, requireFinite } from '../math/errors.ts';
-import { dampedLeastSquares } from '../math/linalg.ts';
-import { findBodyIndex, type StarSystem } from '../system/model.ts';
-import { evaluate } from '../conic/evaluate.ts';
+import { InputError, SolverError, WaymarkError, requireFinite } from '../math/index.ts';
+import { dampedLeastSquares } from '../math/index.ts';
+import { findBodyIndex, type StarSystem } from '../system/index.ts';
+import { evaluate } from '../conic/index.ts';
 import {
   NBodyModel,
   bPlane,
@@ -68,9 +68,9 @@ import {
   type PeriapsisReport,
   type Vec3Tuple,
 } from './verify.ts';
-import type { BurnEvent, CoastEvent, Plan } from '../plan/plan.ts';
-import type { PlanResult } from '../plan/result.ts';
-import { conicInfo, createConicInfo } from '../conic/soiCrossing.ts';
+import type { BurnEvent, CoastEvent, Plan } from '../plan/index.ts';
+import type { PlanResult } from '../plan/index.ts';
+import { conicInfo, createConicInfo } from '../conic/index.ts';
 
 export interface CorrectTolerance {
   /** Periapsis altitude, m (default 100). */

@@ -32,16 +32,16 @@
  * arrive) periapsis altitude, by linear interpolation between order statistics (Hyndman & Fan,
  * "Sample quantiles in statistical packages", The American Statistician 50(4), 1996, type 7).
  */
-import { InputError, SolverError, WaymarkError, requireFinite } from '../math/errors.ts';
-import { stream, type Seed } from '../math/random.ts';
-import { findBodyIndex, type StarSystem } from '../system/model.ts';
-import { inertialToBurn } from '../plan/burnFrame.ts';
+import { InputError, SolverError, WaymarkError, requireFinite } from '../math/index.ts';
+import { stream, type Seed } from '../math/index.ts';
+import { findBodyIndex, type StarSystem } from '../system/index.ts';
+import { inertialToBurn } from '../plan/index.ts';
 import { freezePlan } from './correct.ts';
-import { evaluate } from '../conic/evaluate.ts';
+import { evaluate } from '../conic/index.ts';
 import { conicArrival } from './verify.ts';
-import type { BurnEvent, Plan } from '../plan/plan.ts';
-import type { PlanResult } from '../plan/result.ts';
-import { propagateKepler } from '../orbit/kepler.ts';
+import type { BurnEvent, Plan } from '../plan/index.ts';
+import type { PlanResult } from '../plan/index.ts';
+import { propagateKepler } from '../orbit/index.ts';
 
 export interface BurnSigma {
   /** 1σ magnitude error, percent of |Δv|. */

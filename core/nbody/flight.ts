@@ -19,16 +19,16 @@
  * cruise), as positions relative to the star and to the target. For ephemeris exports, `step`
  * adds full states on a fixed time grid (relative to the origin body of each state).
  */
-import type { FlownSpan } from '../integrate/propagate.ts';
-import { propagate } from '../integrate/propagate.ts';
-import type { EventSpec } from '../integrate/eventLocator.ts';
-import type { DenseOutput } from '../integrate/dense.ts';
-import { InputError, SolverError, requireFinite } from '../math/errors.ts';
-import { bodyStateRelativeToParent } from '../system/ephemeris.ts';
-import type { NBodyModel, NBodyState, ThrustPhase, Vec3Tuple } from '../dynamics/shipForces.ts';
+import type { FlownSpan } from '../integrate/index.ts';
+import { propagate } from '../integrate/index.ts';
+import type { EventSpec } from '../integrate/index.ts';
+import type { DenseOutput } from '../integrate/index.ts';
+import { InputError, SolverError, requireFinite } from '../math/index.ts';
+import { bodyStateRelativeToParent } from '../system/index.ts';
+import type { NBodyModel, NBodyState, ThrustPhase, Vec3Tuple } from '../dynamics/index.ts';
 
 // defined beside the model (NBodyModel.setThrust takes it), re-exported as part of the flight's API
-export type { ThrustPhase } from '../dynamics/shipForces.ts';
+export type { ThrustPhase } from '../dynamics/index.ts';
 
 /** Drawing samples: one about every this many radians of arc about the origin body (3°). */
 export const SAMPLE_ANGLE = Math.PI / 60;

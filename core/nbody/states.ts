@@ -4,9 +4,9 @@
  * is not integrated by the n-body flight's impulsive burns, so each sample takes the mass of the
  * patched-conic segment at that time (the same burns, the same propellant).
  */
-import type { SampledEphemeris, EphemerisSpan } from '../conic/ephemerisSampler.ts';
+import type { SampledEphemeris, EphemerisSpan } from '../conic/index.ts';
 import type { NBodyStates } from './verify.ts';
-import type { PlanResult } from '../plan/result.ts';
+import type { PlanResult } from '../plan/index.ts';
 
 /** Ship mass at time t from the patched-conic segments (mass at the segment's start; last mass after the end). */
 export function massAt(result: PlanResult, t: number): number {

@@ -12,19 +12,19 @@
  * approach probed from the state before that burn) and the osculating orbit about the target at
  * the end of the flight against the conic result's achieved orbit.
  */
-import type { FlownSpan } from '../integrate/propagate.ts';
-import { InputError, requireFinite } from '../math/errors.ts';
-import { bodyState } from '../system/ephemeris.ts';
-import { findBodyIndex, type StarSystem } from '../system/model.ts';
-import type { Plan } from '../plan/plan.ts';
-import type { PlanResult } from '../plan/result.ts';
-import { conicInfo } from '../conic/soiCrossing.ts';
-import { NBodyModel, type NBodyModelOptions, type NBodyState, type Vec3Tuple } from '../dynamics/shipForces.ts';
+import type { FlownSpan } from '../integrate/index.ts';
+import { InputError, requireFinite } from '../math/index.ts';
+import { bodyState } from '../system/index.ts';
+import { findBodyIndex, type StarSystem } from '../system/index.ts';
+import type { Plan } from '../plan/index.ts';
+import type { PlanResult } from '../plan/index.ts';
+import { conicInfo } from '../conic/index.ts';
+import { NBodyModel, type NBodyModelOptions, type NBodyState, type Vec3Tuple } from '../dynamics/index.ts';
 import { flyNBody, type NBodySamples, type NBodyStates, type NBodyStats } from './flight.ts';
 import { burnActions, compareArrival, conicArrival, conicStart, probePeriapsis, stateRelativeTo, type ArrivalComparison, type PeriapsisReport } from './arrival.ts';
 
-export { DEFAULT_ATOL_FACTOR, DEFAULT_NBODY_RTOL, NBodyModel } from '../dynamics/shipForces.ts';
-export type { NBodyModelOptions, NBodyState, Vec3Tuple } from '../dynamics/shipForces.ts';
+export { DEFAULT_ATOL_FACTOR, DEFAULT_NBODY_RTOL, NBodyModel } from '../dynamics/index.ts';
+export type { NBodyModelOptions, NBodyState, Vec3Tuple } from '../dynamics/index.ts';
 export { MAX_SAMPLES, SAMPLE_ANGLE, flyNBody, sortActions } from './flight.ts';
 export type { FlyOptions, FlyResult, NBodyAction, NBodySamples, NBodyStates, NBodyStats, ThrustPhase } from './flight.ts';
 export { bPlane, bPlaneAxes } from './bPlane.ts';

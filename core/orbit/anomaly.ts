@@ -32,7 +32,7 @@
  *   "A note on the relations between true and eccentric anomalies in the two-body problem",
  *   Celestial Mechanics 7, 388–389, 1973), continuous across revolutions.
  */
-import { InputError, SolverError, requireFinite, requirePositive } from '../math/errors.ts';
+import { InputError, SolverError, requireFinite, requirePositive } from '../math/index.ts';
 
 const TWO_PI = 2 * Math.PI;
 const EPS = Number.EPSILON;

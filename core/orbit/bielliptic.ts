@@ -8,7 +8,7 @@
  * radii, dv1 and dv2 are positive and dv3 negative. dvTotal is the sum of magnitudes.
  * rb = Infinity gives the limiting case (two parabolic legs, dv2 = 0, infinite tof).
  */
-import { InputError, requirePositive } from '../math/errors.ts';
+import { InputError, requirePositive } from '../math/index.ts';
 
 export interface BiellipticTransfer {
   /** Burn at r1 onto the first ellipse (m/s). */

@@ -25,9 +25,9 @@
  * ν ∈ (−ν∞, ν∞) ⊂ (−π, π) for e ≥ 1. The range follows the computed e, so a parabolic state
  * whose e rounds to 1 − 1e-16 gets ν in [0, 2π) like any ellipse.
  */
-import { InputError, requireFinite, requireFiniteVector, requireNonNegative, requirePositive } from '../math/errors.ts';
-import { perifocalToInertial } from '../math/frames.ts';
-import type { Vec3Like } from '../math/vec3.ts';
+import { InputError, requireFinite, requireFiniteVector, requireNonNegative, requirePositive } from '../math/index.ts';
+import { perifocalToInertial } from '../math/index.ts';
+import type { Vec3Like } from '../math/index.ts';
 
 export interface Elements {
   /** Semi-major axis, m (negative for a hyperbola, Infinity for the parabola). */

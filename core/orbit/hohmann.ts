@@ -8,7 +8,7 @@
  * transfer), negative slows down (inward transfer). dvTotal is the sum of their magnitudes.
  * Equal radii give a zero transfer (both burns 0) with tof half that orbit's period.
  */
-import { requirePositive } from '../math/errors.ts';
+import { requirePositive } from '../math/index.ts';
 
 export interface HohmannTransfer {
   /** Burn at r1, along the velocity (m/s; negative = retrograde burn). */

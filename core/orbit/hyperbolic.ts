@@ -13,7 +13,7 @@
  * the frame of the given vector: the xy-plane is the body's equator, x the reference direction.
  * With v∞ = 0 the asymptote has no direction: declination and right ascension are returned as 0.
  */
-import { InputError, requireFiniteVector, requireNonNegative, requirePositive } from '../math/errors.ts';
+import { InputError, requireFiniteVector, requireNonNegative, requirePositive } from '../math/index.ts';
 
 export interface DepartureInput {
   /** Gravitational parameter of the departure body (m³/s²). */

@@ -45,7 +45,7 @@
  * double-precision method would. Hyperbolic flights so long
  * that cosh(√−ψ) overflows (hyperbolic anomaly ≳ 700) raise SolverError.
  */
-import { InputError, SolverError } from '../math/errors.ts';
+import { InputError, SolverError } from '../math/index.ts';
 import { hyperbolicMeanAccurate, solveHyperbolicKepler } from './anomaly.ts';
 import { stumpffCS } from './stumpff.ts';
 

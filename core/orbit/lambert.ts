@@ -38,7 +38,7 @@
  *   30,000× (measured against the Kepler propagator).
  * - Multi-revolution solutions are not ordered by cost; callers pick (see lambertBest).
  */
-import { InputError, SolverError, requireFiniteVector, requirePositive } from '../math/errors.ts';
+import { InputError, SolverError, requireFiniteVector, requirePositive } from '../math/index.ts';
 
 export interface LambertSolution {
   /** Complete revolutions before arrival. */

@@ -9,7 +9,7 @@
  * m and M may be masses or gravitational parameters (only their ratio enters), both in the same
  * units; the formulas assume m ≪ M, and m < M is required.
  */
-import { InputError, requireNonNegative, requirePositive } from '../math/errors.ts';
+import { InputError, requireNonNegative, requirePositive } from '../math/index.ts';
 
 function checkMasses(m: number, M: number): void {
   requirePositive('m', m);

@@ -6,7 +6,7 @@
  * Phase angle convention: the angle by which the target body leads the departure body, measured
  * in their common sense of motion, wrapped into (−π, π].
  */
-import { InputError, requireFinite, requirePositive } from '../math/errors.ts';
+import { InputError, requireFinite, requirePositive } from '../math/index.ts';
 
 /** Synodic period 1 / |1/T1 − 1/T2| of two orbital periods (s). Throws for equal periods. */
 export function synodicPeriod(T1: number, T2: number): number {

@@ -8,9 +8,9 @@
  * Both local frames need r and v non-zero and not parallel; otherwise InputError (from frames.ts).
  * Allocation-free when `out` is given; `out` may alias the input vector.
  */
-import { inertialToRtn, inertialToVnb, rtnToInertial, vnbToInertial } from '../math/frames.ts';
-import { InputError } from '../math/errors.ts';
-import type { Vec3, Vec3Like } from '../math/vec3.ts';
+import { inertialToRtn, inertialToVnb, rtnToInertial, vnbToInertial } from '../math/index.ts';
+import { InputError } from '../math/index.ts';
+import type { Vec3, Vec3Like } from '../math/index.ts';
 import type { BurnFrame } from './plan.ts';
 
 /** Inertial vector of burn components given in `frame` at state (r, v). */

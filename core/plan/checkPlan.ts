@@ -4,8 +4,8 @@
  * `vehicle.stages[1].isp`, and whose rule says what is wrong. (The plan file reader reports every
  * problem of a file at once; this is the evaluator's own guard against bad data.)
  */
-import { InputError, requireFinite } from '../math/errors.ts';
-import { findBodyIndex, type StarSystem } from '../system/model.ts';
+import { InputError, requireFinite } from '../math/index.ts';
+import { findBodyIndex, type StarSystem } from '../system/index.ts';
 import type { Plan, PlanEvent } from './plan.ts';
 import { checkVehicle } from './vehicle.ts';
 

@@ -3,7 +3,7 @@
  * Tsiolkovsky: Δv = g0 · Isp · ln(m0 / mf), with standard gravity g0 = 9.80665 m/s²
  * (the conventional value, CGPM 1901), mass flow ṁ = F / (g0 · Isp).
  */
-import { InputError, requirePositive, requireNonNegative } from '../math/errors.ts';
+import { InputError, requirePositive, requireNonNegative } from '../math/index.ts';
 
 /** Standard gravity, m/s² (conventional value used with specific impulse in seconds). */
 export const G0 = 9.80665;

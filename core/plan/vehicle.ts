@@ -20,8 +20,8 @@
  * The state is a small mutable record so the evaluation can run without allocating; copy it with
  * `copyVehicleState` to try a burn without committing it.
  */
-import { InputError, requireFinite } from '../math/errors.ts';
-import type { Body } from '../system/model.ts';
+import { InputError, requireFinite } from '../math/index.ts';
+import type { Body } from '../system/index.ts';
 import type { Vehicle } from './plan.ts';
 import { G0 } from './rocket.ts';
 

@@ -2,7 +2,7 @@
  * Splitting a porkchop grid into bands of departure rows (chunks) that workers compute
  * independently, and merging a finished band back into the full grid.
  */
-import { InputError } from '../math/errors.ts';
+import { InputError } from '../math/index.ts';
 import { FLOAT_PLANES, INT_PLANES, type PorkchopPlanes } from './planes.ts';
 
 export interface RowChunk {

@@ -17,8 +17,8 @@
  * non-finite result) hold +Infinity in every float plane and −1 in revs/branch; their number
  * is returned as `unsolved`. No cell is ever NaN.
  */
-import { InputError, SolverError } from '../math/errors.ts';
-import type { StarSystem } from '../system/model.ts';
+import { InputError, SolverError } from '../math/index.ts';
+import type { StarSystem } from '../system/index.ts';
 import { createPlanes, type PorkchopPlanes } from './planes.ts';
 import { axisValue, axisValues, type PorkchopMetric, type PorkchopRequest } from './request.ts';
 import {

@@ -11,7 +11,7 @@
  * Stops when the spread of f over the simplex is ≤ fTol and the simplex fits in xTol per
  * coordinate (in units of the initial step), or when the evaluation budget is spent.
  */
-import { InputError, SolverError, requireFinite } from '../math/errors.ts';
+import { InputError, SolverError, requireFinite } from '../math/index.ts';
 
 export interface SimplexOptions {
   /** Spread of f over the simplex to stop at (same unit as f). Default 1e-3. */

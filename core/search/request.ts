@@ -9,7 +9,7 @@
  * - Samples are evenly spaced and include both ends: value k of an axis of n samples is
  *   start + (end − start)·k/(n − 1); an axis of one sample is `start` alone (`axisValue`).
  */
-import { InputError, requireFinite, requireNonNegative } from '../math/errors.ts';
+import { InputError, requireFinite, requireNonNegative } from '../math/index.ts';
 
 /** What "best" means on a grid and for windows. */
 export type PorkchopMetric = 'total' | 'departure' | 'arrival' | 'c3';

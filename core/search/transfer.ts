@@ -29,10 +29,10 @@
  * cannot be solved (Lambert failure, coincident points, tof ≤ 0, non-finite result) is
  * "unsolved": every value is +Infinity and revs/branch are −1 — never NaN.
  */
-import { InputError } from '../math/errors.ts';
-import { lambertBest, lambertCodeRevs, lambertSingleRev } from '../orbit/lambert.ts';
-import { bodyState } from '../system/ephemeris.ts';
-import type { StarSystem } from '../system/model.ts';
+import { InputError } from '../math/index.ts';
+import { lambertBest, lambertCodeRevs, lambertSingleRev } from '../orbit/index.ts';
+import { bodyState } from '../system/index.ts';
+import type { StarSystem } from '../system/index.ts';
 import { normalizeRequest, type PorkchopMetric, type PorkchopRequest } from './request.ts';
 
 export const SIBLINGS = 0;

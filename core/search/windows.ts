@@ -20,9 +20,9 @@
  * A window whose refined point lies on the boundary of the searched ranges is flagged
  * `atEdge`: its true minimum may lie outside the grid (widen the ranges to see it).
  */
-import { InputError, requireFinite } from '../math/errors.ts';
-import { synodicPeriod } from '../orbit/synodic.ts';
-import type { StarSystem } from '../system/model.ts';
+import { InputError, requireFinite } from '../math/index.ts';
+import { synodicPeriod } from '../orbit/index.ts';
+import type { StarSystem } from '../system/index.ts';
 import { metricPlane, type PorkchopGrid } from './porkchop.ts';
 import { nelderMead } from './refine.ts';
 import { axisStep, PORKCHOP_METRICS, type PorkchopMetric, type PorkchopRequest } from './request.ts';

@@ -8,7 +8,7 @@
  * InputError rather than building a broken model.
  */
 
-import { InputError } from '../math/errors.ts';
+import { InputError } from '../math/index.ts';
 import { bodyDerived, meanSolarDay, starDerived } from './derived.ts';
 import {
   G_NEWTON,

@@ -21,7 +21,7 @@
  * parseDate reads the compact form and the long form (with or without the era label).
  */
 
-import { InputError } from '../math/errors.ts';
+import { InputError } from '../math/index.ts';
 import type { SystemCalendar } from './model.ts';
 
 export interface DateParts {

@@ -3,7 +3,7 @@
  * periapsis/apoapsis, sphere of influence, Hill radius, depth in the body tree.
  */
 
-import { hillRadius, sphereOfInfluence } from '../orbit/soi.ts';
+import { hillRadius, sphereOfInfluence } from '../orbit/index.ts';
 import type { BodyDerived, OrbitalElements } from './model.ts';
 
 /** Orbital period T = 2π √(a³/μ), s (Kepler's third law). */

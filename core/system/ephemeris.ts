@@ -16,7 +16,7 @@
  * chain sums use module-scope scratch.
  */
 
-import { InputError, SolverError } from '../math/errors.ts';
+import { InputError, SolverError } from '../math/index.ts';
 import type { Body, StarSystem } from './model.ts';
 
 /** Number of doubles per body in `EphemerisTables.k`. */

@@ -30,9 +30,9 @@
  * wrap it again with `new NBodyEphemeris(data)`.
  */
 
-import { InputError, SolverError } from '../math/errors.ts';
-import { integrateFixed } from '../integrate/fixed.ts';
-import { mutualAccel } from '../integrate/gravity.ts';
+import { InputError, SolverError } from '../math/index.ts';
+import { integrateFixed } from '../integrate/index.ts';
+import { mutualAccel } from '../integrate/index.ts';
 import { bodyStateRelativeToParent } from './ephemeris.ts';
 import type { StarSystem } from './model.ts';
 

@@ -15,7 +15,7 @@
  * influence smaller than the body itself.
  */
 
-import type { ValidationIssue } from '../math/errors.ts';
+import type { ValidationIssue } from '../math/index.ts';
 import { G_NEWTON, type SystemDocument } from './document.ts';
 import { hillRadiusOf, laplaceSoiRadius, meanSolarDay, orbitalPeriod } from './derived.ts';
 

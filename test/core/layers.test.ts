@@ -1,13 +1,16 @@
 /**
- * The layers of core/ (DESIGN.md): math ← integrate ← orbit ← system ← mission ← search ← io.
- * A layer imports only itself and the layers below it, and core/ imports no Node built-in,
- * no DOM-only module and no UI package, so it runs unchanged in the renderer, workers and the CLI.
+ * The layers of core/ (DESIGN.md, DEVELOPERS.md):
+ *   math ← integrate ← orbit ← system ← dynamics ← plan ← conic ← nbody ← gamestep ← checks ← search ← io.
+ * A folder imports only itself and the folders below it, and another folder only through its
+ * front door (index.ts); no module takes part in an import cycle; and core/ imports no Node
+ * built-in, no DOM-only module and no UI package, so it runs unchanged in the renderer, workers
+ * and the command line.
  */
-import { readdirSync, readFileSync, statSync } from 'node:fs';
-import { join } from 'node:path';
+import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
+import { dirname, join, normalize, relative } from 'node:path';
 import { describe, expect, it } from 'vitest';
 
-const LAYERS = ['math', 'integrate', 'orbit', 'system', 'mission', 'search', 'io'];
+const LAYERS = ['math', 'integrate', 'orbit', 'system', 'dynamics', 'plan', 'conic', 'nbody', 'gamestep', 'checks', 'search', 'io'];
 const core = new URL('../../core/', import.meta.url).pathname;
 
 function files(dir: string): string[] {
@@ -19,31 +22,97 @@ function files(dir: string): string[] {
 
 const imports = (text: string): string[] => [...text.matchAll(/(?:import|export)[^'"]*?from\s+['"]([^'"]+)['"]/g)].map((m) => m[1]);
 
+/** Folder of core/ that a path lies in ('' outside core/). */
+const folderOf = (p: string): string => relative(core, p).split('/')[0] ?? '';
+
+/** Module-level import graph of core/ (relative imports only). */
+function graph(): Map<string, string[]> {
+  const g = new Map<string, string[]>();
+  for (const f of files(core)) {
+    const deps = imports(readFileSync(f, 'utf8'))
+      .filter((s) => s.startsWith('.') && s.endsWith('.ts'))
+      .map((s) => normalize(join(dirname(f), s)));
+    g.set(f, deps);
+  }
+  return g;
+}
+
+/** Every cycle found by depth-first search, each as the list of modules around it. */
+function cycles(g: Map<string, string[]>): string[][] {
+  const state = new Map<string, 1 | 2>();
+  const stack: string[] = [];
+  const found: string[][] = [];
+  const visit = (n: string): void => {
+    state.set(n, 1);
+    stack.push(n);
+    for (const d of g.get(n) ?? []) {
+      if (state.get(d) === 1) found.push(stack.slice(stack.indexOf(d)).map((p) => relative(core, p)));
+      else if (!state.has(d)) visit(d);
+    }
+    stack.pop();
+    state.set(n, 2);
+  };
+  for (const n of g.keys()) if (!state.has(n)) visit(n);
+  return found;
+}
+
 describe('core layering', () => {
-  it('every layer imports only itself and lower layers', () => {
+  it('core/ holds exactly the capability folders of the layer list, each with a front door', () => {
+    const dirs = readdirSync(core).filter((d) => statSync(join(core, d)).isDirectory());
+    expect(dirs.sort()).toEqual([...LAYERS].sort());
+    for (const d of LAYERS) expect(existsSync(join(core, d, 'index.ts')), `core/${d}/index.ts`).toBe(true);
+  });
+
+  it('every folder imports only itself and lower folders', () => {
     const bad: string[] = [];
     for (const [level, layer] of LAYERS.entries()) {
       for (const f of files(join(core, layer))) {
         for (const spec of imports(readFileSync(f, 'utf8'))) {
-          const m = /^\.\.\/([a-z]+)\//.exec(spec);
-          if (m && LAYERS.indexOf(m[1]) > level) bad.push(`${f.slice(core.length)} imports ${spec}`);
+          if (!spec.startsWith('.')) continue;
+          const target = folderOf(normalize(join(dirname(f), spec)));
+          if (LAYERS.indexOf(target) > level) bad.push(`${relative(core, f)} imports ${spec}`);
         }
       }
     }
     expect(bad).toEqual([]);
   });
 
-  it('imports no Node built-ins, DOM-only or UI packages', () => {
+  it('another folder is entered only through its front door (index.ts)', () => {
     const bad: string[] = [];
     for (const f of files(core)) {
       for (const spec of imports(readFileSync(f, 'utf8'))) {
-        if (/^(node:|fs$|path$|os$|child_process|worker_threads|electron|svelte|three|d3)/.test(spec)) bad.push(`${f.slice(core.length)} imports ${spec}`);
+        if (!spec.startsWith('.') || !spec.endsWith('.ts')) continue;
+        const target = normalize(join(dirname(f), spec));
+        if (!target.startsWith(core)) continue; // schema JSON under assets/ and the like
+        if (folderOf(target) !== folderOf(f) && !target.endsWith('/index.ts')) bad.push(`${relative(core, f)} imports ${spec}`);
       }
     }
     expect(bad).toEqual([]);
   });
 
-  it('the scan sees the imports it checks (it can fail)', () => {
-    expect(imports("import { a } from '../mission/x.ts';\nexport type { b } from 'node:fs';")).toEqual(['../mission/x.ts', 'node:fs']);
+  it('no module of core/ takes part in an import cycle', () => {
+    expect(cycles(graph())).toEqual([]);
+  });
+
+  it('imports no Node built-ins, DOM-only or UI packages', () => {
+    const bad: string[] = [];
+    for (const f of files(core)) {
+      for (const spec of imports(readFileSync(f, 'utf8'))) {
+        if (/^(node:|fs$|path$|os$|child_process|worker_threads|electron|svelte|three|d3)/.test(spec)) bad.push(`${relative(core, f)} imports ${spec}`);
+      }
+    }
+    expect(bad).toEqual([]);
+  });
+
+  it('the scans see what they check (they can fail)', () => {
+    expect(imports("import { a } from '../plan/x.ts';\nexport type { b } from 'node:fs';")).toEqual(['../plan/x.ts', 'node:fs']);
+    const g = new Map([
+      ['a', ['b']],
+      ['b', ['c']],
+      ['c', ['a']],
+      ['d', ['a']],
+    ]);
+    expect(cycles(g)).toHaveLength(1);
+    expect(cycles(new Map([['a', ['b']], ['b', []]]))).toEqual([]);
   });
 });

@@ -3,15 +3,15 @@
  * is given (km, km/s, d, deg, km3/s2 ...); vectors are comma-separated components.
  */
 import type { Command } from 'commander';
-import { parseQuantity, parseVector } from '../../../core/io/units.ts';
-import { InputError } from '../../../core/math/errors.ts';
-import { burnDuration, propellantForDeltaV, rocketDeltaV } from '../../../core/plan/rocket.ts';
-import { propagateKepler } from '../../../core/orbit/kepler.ts';
-import { elementsToState, stateToElements } from '../../../core/orbit/elements.ts';
-import { solveLambert } from '../../../core/orbit/lambert.ts';
-import { hohmann } from '../../../core/orbit/hohmann.ts';
-import { bielliptic } from '../../../core/orbit/bielliptic.ts';
-import { hillRadius, sphereOfInfluence } from '../../../core/orbit/soi.ts';
+import { parseQuantity, parseVector } from '../../../core/io/index.ts';
+import { InputError } from '../../../core/math/index.ts';
+import { burnDuration, propellantForDeltaV, rocketDeltaV } from '../../../core/plan/index.ts';
+import { propagateKepler } from '../../../core/orbit/index.ts';
+import { elementsToState, stateToElements } from '../../../core/orbit/index.ts';
+import { solveLambert } from '../../../core/orbit/index.ts';
+import { hohmann } from '../../../core/orbit/index.ts';
+import { bielliptic } from '../../../core/orbit/index.ts';
+import { hillRadius, sphereOfInfluence } from '../../../core/orbit/index.ts';
 import { guard, num, printJson, vecText } from '../output.ts';
 
 const DEG = 180 / Math.PI;

@@ -11,11 +11,11 @@
  * warnings go to stderr. `--json`: { plan, holds, budget, flags, target, warnings } in SI.
  */
 import type { Command } from 'commander';
-import { evaluate } from '../../../core/conic/evaluate.ts';
-import type { Plan } from '../../../core/plan/plan.ts';
-import type { PlanResult } from '../../../core/plan/result.ts';
-import { formatCompactDate } from '../../../core/system/calendar.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import { evaluate } from '../../../core/conic/index.ts';
+import type { Plan } from '../../../core/plan/index.ts';
+import type { PlanResult } from '../../../core/plan/index.ts';
+import { formatCompactDate } from '../../../core/system/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import { loadPlanFile } from '../../node/files.ts';
 import { addFlyCommand } from './fly.ts';
 import { EXIT_NO, EXIT_OK, guard, num, printJson } from '../output.ts';

@@ -13,9 +13,9 @@
  */
 import { dirname, relative, resolve } from 'node:path';
 import type { Command } from 'commander';
-import { InputError } from '../../../core/math/errors.ts';
-import { correctPlan } from '../../../core/nbody/correct.ts';
-import type { PlanSystemRef } from '../../../core/io/planFile.ts';
+import { InputError } from '../../../core/math/index.ts';
+import { correctPlan } from '../../../core/nbody/index.ts';
+import type { PlanSystemRef } from '../../../core/io/index.ts';
 import { loadPlanFile, savePlanFile } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson, vecText } from '../output.ts';
 

@@ -13,11 +13,11 @@
 import { availableParallelism } from 'node:os';
 import type { Command } from 'commander';
 import { Piscina } from 'piscina';
-import { parseQuantity } from '../../../core/io/units.ts';
-import { InputError } from '../../../core/math/errors.ts';
-import { mergeBlocks, prepareDispersion, runSamples, summarizeDispersion, type DispersionOptions, type DispersionResult, type SampleBlock } from '../../../core/nbody/disperse.ts';
-import type { Plan } from '../../../core/plan/plan.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import { parseQuantity } from '../../../core/io/index.ts';
+import { InputError } from '../../../core/math/index.ts';
+import { mergeBlocks, prepareDispersion, runSamples, summarizeDispersion, type DispersionOptions, type DispersionResult, type SampleBlock } from '../../../core/nbody/index.ts';
+import type { Plan } from '../../../core/plan/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import { loadPlanFile } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson } from '../output.ts';
 import { createProgress, progressEnabled } from '../progress.ts';

@@ -17,17 +17,17 @@
  * `waymark check`'s), 2 for a bad file or option, 3 for a numerical failure.
  */
 import type { Command } from 'commander';
-import { burnTableCsv, ephemerisCsv } from '../../../core/io/csv.ts';
-import { writeOem } from '../../../core/io/oem.ts';
-import { budgetReport } from '../../../core/io/report.ts';
-import { parseQuantity } from '../../../core/io/units.ts';
-import { InputError } from '../../../core/math/errors.ts';
-import { sampleEphemeris } from '../../../core/conic/ephemerisSampler.ts';
-import { evaluate } from '../../../core/conic/evaluate.ts';
-import { verifyNBody, type NBodyResult } from '../../../core/nbody/verify.ts';
-import { nbodyStatesToEphemeris } from '../../../core/nbody/states.ts';
-import type { PlanResult } from '../../../core/plan/result.ts';
-import { formatCompactDate } from '../../../core/system/calendar.ts';
+import { burnTableCsv, ephemerisCsv } from '../../../core/io/index.ts';
+import { writeOem } from '../../../core/io/index.ts';
+import { budgetReport } from '../../../core/io/index.ts';
+import { parseQuantity } from '../../../core/io/index.ts';
+import { InputError } from '../../../core/math/index.ts';
+import { sampleEphemeris } from '../../../core/conic/index.ts';
+import { evaluate } from '../../../core/conic/index.ts';
+import { verifyNBody, type NBodyResult } from '../../../core/nbody/index.ts';
+import { nbodyStatesToEphemeris } from '../../../core/nbody/index.ts';
+import type { PlanResult } from '../../../core/plan/index.ts';
+import { formatCompactDate } from '../../../core/system/index.ts';
 import { atomicWriteFile, loadPlanFile } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson } from '../output.ts';
 

@@ -18,8 +18,8 @@
  * tolerance), 1 it does not, 2 bad input or file, 3 numerical failure.
  */
 import type { Command } from 'commander';
-import { parseQuantity } from '../../../core/io/units.ts';
-import { InputError } from '../../../core/math/errors.ts';
+import { parseQuantity } from '../../../core/io/index.ts';
+import { InputError } from '../../../core/math/index.ts';
 import {
   DEFAULT_REBASE,
   GAME_INTEGRATORS,
@@ -27,10 +27,10 @@ import {
   type GameIntegrator,
   type GamePhysicsInput,
   type GameStepResult,
-} from '../../../core/gamestep/check.ts';
-import { gameStepSweep, type SweepResult } from '../../../core/gamestep/sweep.ts';
-import { formatCompactDate } from '../../../core/system/calendar.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+} from '../../../core/gamestep/index.ts';
+import { gameStepSweep, type SweepResult } from '../../../core/gamestep/index.ts';
+import { formatCompactDate } from '../../../core/system/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import { loadPlanFile } from '../../node/files.ts';
 import { EXIT_NO, EXIT_OK, guard, num, printJson } from '../output.ts';
 import { createProgress, progressEnabled } from '../progress.ts';

@@ -12,9 +12,9 @@
  * raised, 2 bad input or file, 3 numerical failure.
  */
 import type { Command } from 'commander';
-import { InputError } from '../../../core/math/errors.ts';
-import { checkStability, DEFAULT_YEARS, type StabilityResult } from '../../../core/checks/stability.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import { InputError } from '../../../core/math/index.ts';
+import { checkStability, DEFAULT_YEARS, type StabilityResult } from '../../../core/checks/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import { loadSystemFile } from '../../node/files.ts';
 import { EXIT_NO, EXIT_OK, guard, num, printJson } from '../output.ts';
 import { createProgress, progressEnabled } from '../progress.ts';

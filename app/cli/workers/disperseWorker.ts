@@ -5,9 +5,9 @@
  * merged result does not depend on the number of workers or the chunking.
  */
 import { move, transferableSymbol, valueSymbol } from 'piscina';
-import { prepareDispersion, runSamples, type DispersionOptions, type SampleBlock } from '../../../core/nbody/disperse.ts';
-import type { Plan } from '../../../core/plan/plan.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import { prepareDispersion, runSamples, type DispersionOptions, type SampleBlock } from '../../../core/nbody/index.ts';
+import type { Plan } from '../../../core/plan/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 
 export interface DisperseTask {
   system: StarSystem;

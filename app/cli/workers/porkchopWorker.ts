@@ -4,10 +4,10 @@
  * (no copy). Runs in a Node worker thread under piscina (see ../pool.ts).
  */
 import { move, transferableSymbol, valueSymbol } from 'piscina';
-import { computePorkchopRows } from '../../../core/search/porkchop.ts';
-import { createPlanes, planeBuffers, type PorkchopPlanes } from '../../../core/search/planes.ts';
-import type { PorkchopRequest } from '../../../core/search/request.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import { computePorkchopRows } from '../../../core/search/index.ts';
+import { createPlanes, planeBuffers, type PorkchopPlanes } from '../../../core/search/index.ts';
+import type { PorkchopRequest } from '../../../core/search/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 
 export interface ChunkTask {
   system: StarSystem;

@@ -11,12 +11,12 @@
  * errs long (in the demo about 8–10 s estimated against 6 s flown for 10,000 years). After a
  * real run the store takes its measured rate instead.
  */
-import { gameStepCheck, type GamePhysicsInput, type GameStepResult } from '../../../core/gamestep/check.ts';
-import { gameStepSweep, type SweepResult } from '../../../core/gamestep/sweep.ts';
-import type { Plan } from '../../../core/plan/plan.ts';
-import type { PlanResult } from '../../../core/plan/result.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
-import { checkStability, DEFAULT_MAX_STEPS, type StabilityResult } from '../../../core/checks/stability.ts';
+import { gameStepCheck, type GamePhysicsInput, type GameStepResult } from '../../../core/gamestep/index.ts';
+import { gameStepSweep, type SweepResult } from '../../../core/gamestep/index.ts';
+import type { Plan } from '../../../core/plan/index.ts';
+import type { PlanResult } from '../../../core/plan/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
+import { checkStability, DEFAULT_MAX_STEPS, type StabilityResult } from '../../../core/checks/index.ts';
 
 /** Options of a game-step check that the app passes through (SI). */
 export interface GameStepJobOptions {

@@ -11,10 +11,10 @@
  * their messages and are shown in the panel's words (checkErrors.ts); a failed run leaves the
  * previous result in place beside its error.
  */
-import type { GamePhysicsInput, GameStepResult } from '../../../core/gamestep/check.ts';
-import type { SweepResult } from '../../../core/gamestep/sweep.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
-import type { StabilityResult } from '../../../core/checks/stability.ts';
+import type { GamePhysicsInput, GameStepResult } from '../../../core/gamestep/index.ts';
+import type { SweepResult } from '../../../core/gamestep/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
+import type { StabilityResult } from '../../../core/checks/index.ts';
 import type { DocumentSnapshot } from '../state/document.ts';
 import type { EvaluationState } from '../state/evaluation.ts';
 import { Observable, type Readable } from '../state/observable.ts';

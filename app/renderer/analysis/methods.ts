@@ -3,7 +3,7 @@
  * reason, in order of first use, with their total flight time — for the status line and the
  * n-body panel.
  */
-import type { FlownSpan } from '../../../core/integrate/propagate.ts';
+import type { FlownSpan } from '../../../core/integrate/index.ts';
 
 export interface MethodGroup {
   method: string;

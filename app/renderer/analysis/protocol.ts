@@ -3,12 +3,12 @@
  * dispersion, and the checks of analysis/checkJobs.ts: game-step check, step sweep, system
  * stability and its run-time estimate).
  */
-import type { CorrectResult } from '../../../core/nbody/correct.ts';
-import type { DispersionOptions, DispersionResult } from '../../../core/nbody/disperse.ts';
-import type { NBodyResult } from '../../../core/nbody/verify.ts';
-import type { Plan } from '../../../core/plan/plan.ts';
-import type { PlanResult } from '../../../core/plan/result.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import type { CorrectResult } from '../../../core/nbody/index.ts';
+import type { DispersionOptions, DispersionResult } from '../../../core/nbody/index.ts';
+import type { NBodyResult } from '../../../core/nbody/index.ts';
+import type { Plan } from '../../../core/plan/index.ts';
+import type { PlanResult } from '../../../core/plan/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import type { CheckJob, CheckOutput } from './checkJobs.ts';
 
 export type AnalysisJob =

@@ -3,9 +3,9 @@
  * differential correction (core/nbody/correct.ts), a dispersion run (core/nbody/disperse.ts)
  * or one of the checks (analysis/checkJobs.ts), with progress as a fraction and a note. Plain code, tested without a Worker.
  */
-import { correctPlan } from '../../../core/nbody/correct.ts';
-import { disperse } from '../../../core/nbody/disperse.ts';
-import { verifyNBody } from '../../../core/nbody/verify.ts';
+import { correctPlan } from '../../../core/nbody/index.ts';
+import { disperse } from '../../../core/nbody/index.ts';
+import { verifyNBody } from '../../../core/nbody/index.ts';
 import type { AnalysisJob, AnalysisOutput } from './protocol.ts';
 import { runCheckJob } from './checkJobs.ts';
 

@@ -3,10 +3,10 @@
  * dispersion run. Each remembers the document revision it was run for; after an edit it is
  * stale (shown as such, and the n-body path leaves the 3D view) until run again.
  */
-import type { DispersionOptions } from '../../../core/nbody/disperse.ts';
-import type { CorrectResult } from '../../../core/nbody/correct.ts';
-import type { DispersionResult } from '../../../core/nbody/disperse.ts';
-import type { NBodyResult } from '../../../core/nbody/verify.ts';
+import type { DispersionOptions } from '../../../core/nbody/index.ts';
+import type { CorrectResult } from '../../../core/nbody/index.ts';
+import type { DispersionResult } from '../../../core/nbody/index.ts';
+import type { NBodyResult } from '../../../core/nbody/index.ts';
 import type { DocumentSnapshot } from '../state/document.ts';
 import type { EvaluationState } from '../state/evaluation.ts';
 import { Observable, type Readable } from '../state/observable.ts';

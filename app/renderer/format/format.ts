@@ -4,8 +4,8 @@
  * ambiguity); a true minus sign (U+2212) is used for negatives. Times use the system calendar
  * (core/system/calendar.ts).
  */
-import { formatCompactDate, formatDate, formatElapsed } from '../../../core/system/calendar.ts';
-import type { SystemCalendar } from '../../../core/system/model.ts';
+import { formatCompactDate, formatDate, formatElapsed } from '../../../core/system/index.ts';
+import type { SystemCalendar } from '../../../core/system/index.ts';
 
 const NNBSP = '\u202f';
 const MINUS = '\u2212';

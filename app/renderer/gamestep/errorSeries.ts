@@ -8,7 +8,7 @@
  * both of its ends were measured. Neighbouring runs share their boundary sample, so the curve
  * is continuous.
  */
-import { BASIS_EXTRAPOLATED, BASIS_MEASURED_PLUS, type GameStepResult } from '../../../core/gamestep/check.ts';
+import { BASIS_EXTRAPOLATED, BASIS_MEASURED_PLUS, type GameStepResult } from '../../../core/gamestep/index.ts';
 import { logDomain, type LogDomain } from './logAxis.ts';
 
 /** 'measured'; 'extrapolated'; 'carried': measured after an extrapolated region (the game resumed from a state holding its extrapolated error). */

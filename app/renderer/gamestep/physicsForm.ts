@@ -7,8 +7,8 @@
  * Steps accept seconds ("0.02"), a fraction ("1/60") or a duration with a unit ("20 ms");
  * lengths are km unless a unit is given ("500 m").
  */
-import { parseQuantity } from '../../../core/io/units.ts';
-import { DEFAULT_ENERGY_TOLERANCE, DEFAULT_REBASE, type GameIntegrator, type GamePhysicsInput } from '../../../core/gamestep/check.ts';
+import { parseQuantity } from '../../../core/io/index.ts';
+import { DEFAULT_ENERGY_TOLERANCE, DEFAULT_REBASE, type GameIntegrator, type GamePhysicsInput } from '../../../core/gamestep/index.ts';
 import type { GameStepJobOptions } from '../analysis/checkJobs.ts';
 
 export interface PhysicsForm {

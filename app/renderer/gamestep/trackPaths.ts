@@ -5,9 +5,9 @@
  * drawn (a parking orbit closes around its planet instead of smearing along the planet's
  * motion). Reading the ephemeris at the sample times is all this does.
  */
-import type { GameStepResult } from '../../../core/gamestep/check.ts';
-import { bodyPosition } from '../../../core/system/ephemeris.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import type { GameStepResult } from '../../../core/gamestep/index.ts';
+import { bodyPosition } from '../../../core/system/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import { DIVERGED } from './logAxis.ts';
 
 export interface TrackPath {

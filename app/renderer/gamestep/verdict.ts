@@ -5,9 +5,9 @@
  * core's results only; every number goes through a formatter that shows "—" for a value that
  * is not there, never NaN.
  */
-import type { GameStepResult } from '../../../core/gamestep/check.ts';
-import type { PrecisionVerdict, SweepResult } from '../../../core/gamestep/sweep.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import type { GameStepResult } from '../../../core/gamestep/index.ts';
+import type { PrecisionVerdict, SweepResult } from '../../../core/gamestep/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import { compactDate, duration, elapsed, grouped } from '../format/format.ts';
 import { INTEGRATOR_NAMES } from './physicsForm.ts';
 

@@ -2,7 +2,7 @@
  * Edits of a plan as pure functions Plan → Plan (a new object; the input is never changed).
  * The editor calls them through the document store, which records each on the undo history.
  */
-import type { BurnEvent, CoastEvent, Plan, PlanEvent, PlanStart, PlanTarget, ReservePolicy, Stage, StageEvent, Vehicle } from '../../../core/plan/plan.ts';
+import type { BurnEvent, CoastEvent, Plan, PlanEvent, PlanStart, PlanTarget, ReservePolicy, Stage, StageEvent, Vehicle } from '../../../core/plan/index.ts';
 
 function clone(plan: Plan): Plan {
   return structuredClone(plan);

@@ -1,5 +1,5 @@
 /** Ready-made format/parse pairs for the editor's fields (see fieldText.ts). */
-import type { SystemCalendar } from '../../../core/system/model.ts';
+import type { SystemCalendar } from '../../../core/system/index.ts';
 import { UNITS, formatNumber, formatTime, parseNumber, parseTime, type NumberUnit, type Parsed } from './fieldText.ts';
 
 type V = number | string | null;

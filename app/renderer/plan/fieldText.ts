@@ -4,10 +4,10 @@
  * display unit, or a number with any unit suffix core/io/units.ts knows ("5000km", "2.5d").
  * A parse failure is a message that names the field, shown beside it; nothing is committed.
  */
-import { parseQuantity, type Dimension } from '../../../core/io/units.ts';
-import { InputError } from '../../../core/math/errors.ts';
-import { formatCompactDate, parseDate } from '../../../core/system/calendar.ts';
-import type { SystemCalendar } from '../../../core/system/model.ts';
+import { parseQuantity, type Dimension } from '../../../core/io/index.ts';
+import { InputError } from '../../../core/math/index.ts';
+import { formatCompactDate, parseDate } from '../../../core/system/index.ts';
+import type { SystemCalendar } from '../../../core/system/index.ts';
 
 export type Parsed<T> = { ok: true; value: T } | { ok: false; message: string };
 

@@ -3,8 +3,8 @@
  * equation, core/plan/vehicle.ts), its ignition mass, and its thrust-to-weight at ignition
  * against a body's surface gravity (g = μ / R²).
  */
-import type { Vehicle } from '../../../core/plan/plan.ts';
-import { stageDeltaVs } from '../../../core/plan/vehicle.ts';
+import type { Vehicle } from '../../../core/plan/index.ts';
+import { stageDeltaVs } from '../../../core/plan/index.ts';
 
 export interface StageSummary {
   /** Δv of the stage with everything above it still attached, m/s. */

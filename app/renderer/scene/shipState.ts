@@ -5,8 +5,8 @@
  * finite burn's samples. Before the plan starts the ship is at its start state; after it ends,
  * at the end of the last segment. Allocation-free per call.
  */
-import type { PlanResult, TrajectorySegment } from '../../../core/plan/result.ts';
-import { propagateKepler } from '../../../core/orbit/kepler.ts';
+import type { PlanResult, TrajectorySegment } from '../../../core/plan/index.ts';
+import { propagateKepler } from '../../../core/orbit/index.ts';
 
 /** Index of the segment flown at time t (clamped to the first/last), or −1 when there are none. */
 export function segmentIndexAt(segments: readonly TrajectorySegment[], t: number): number {

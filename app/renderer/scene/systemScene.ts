@@ -16,10 +16,10 @@
 import * as THREE from 'three';
 import { OrbitControls } from 'three/examples/jsm/controls/OrbitControls.js';
 import { CSS2DObject, CSS2DRenderer } from 'three/examples/jsm/renderers/CSS2DRenderer.js';
-import type { BudgetRow, PlanResult } from '../../../core/plan/result.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
-import { bodyPosition, sampleOrbit } from '../../../core/system/ephemeris.ts';
-import { burnToInertial } from '../../../core/plan/burnFrame.ts';
+import type { BudgetRow, PlanResult } from '../../../core/plan/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
+import { bodyPosition, sampleOrbit } from '../../../core/system/index.ts';
+import { burnToInertial } from '../../../core/plan/index.ts';
 import { AXIS_HUE, FRAME_AXES, PALETTE, bodyColour } from './palette.ts';
 import { shipStateAt } from './shipState.ts';
 import { isSoftwareRenderer } from './webglInfo.ts';

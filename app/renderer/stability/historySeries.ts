@@ -7,8 +7,8 @@
  * tiny or huge values).
  */
 import * as d3 from 'd3';
-import type { StarSystem } from '../../../core/system/model.ts';
-import type { StabilityResult } from '../../../core/checks/stability.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
+import type { StabilityResult } from '../../../core/checks/index.ts';
 
 export type PanelKey = 'a' | 'e' | 'i' | 'energy';
 

@@ -6,8 +6,8 @@
  * the core's own: with mergeMoons 'auto' moons are merged when flying them needs more than the
  * step budget, core/checks/stability.ts).
  */
-import type { StarSystem } from '../../../core/system/model.ts';
-import { CLOSE_ENCOUNTER_HILL, GLADMAN_SPACING, type StabilityFlagCode, type StabilityResult } from '../../../core/checks/stability.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
+import { CLOSE_ENCOUNTER_HILL, GLADMAN_SPACING, type StabilityFlagCode, type StabilityResult } from '../../../core/checks/index.ts';
 import type { StabilityEstimate } from '../analysis/checkJobs.ts';
 import { grouped } from '../format/format.ts';
 

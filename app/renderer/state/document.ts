@@ -7,10 +7,10 @@
  * history and re-runs the field-precise checks of the plan file (planSchema.ts), whose paths
  * (`events[2].dv_mps`) the editor shows beside the fields.
  */
-import type { ValidationIssue } from '../../../core/math/errors.ts';
-import type { Plan } from '../../../core/plan/plan.ts';
-import type { PlanSystemRef } from '../../../core/io/planFile.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import type { ValidationIssue } from '../../../core/math/index.ts';
+import type { Plan } from '../../../core/plan/index.ts';
+import type { PlanSystemRef } from '../../../core/io/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import type { FileRef } from '../host/host.ts';
 import { History } from './history.ts';
 import { Observable, type Readable } from './observable.ts';

@@ -3,10 +3,10 @@
  * view draws from. A failed evaluation keeps the last good result on screen, marked stale, with
  * the error beside it (so a half-typed edit does not blank the views).
  */
-import { InputError, SolverError, ValidationError, type ValidationIssue } from '../../../core/math/errors.ts';
-import type { Plan } from '../../../core/plan/plan.ts';
-import type { PlanResult } from '../../../core/plan/result.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import { InputError, SolverError, ValidationError, type ValidationIssue } from '../../../core/math/index.ts';
+import type { Plan } from '../../../core/plan/index.ts';
+import type { PlanResult } from '../../../core/plan/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import type { DocumentSnapshot } from './document.ts';
 import { Observable, type Readable } from './observable.ts';
 

@@ -3,13 +3,13 @@
  * ephemeris and burn table (core/io/csv.ts), Markdown budget report (core/io/report.ts). The
  * ephemeris step keeps an export under EXPORT_MAX_SAMPLES samples (and no coarser than needed).
  */
-import { burnTableCsv, ephemerisCsv } from '../../../core/io/csv.ts';
-import { writeOem } from '../../../core/io/oem.ts';
-import { budgetReport } from '../../../core/io/report.ts';
-import { sampleEphemeris } from '../../../core/conic/ephemerisSampler.ts';
-import type { Plan } from '../../../core/plan/plan.ts';
-import type { PlanResult } from '../../../core/plan/result.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import { burnTableCsv, ephemerisCsv } from '../../../core/io/index.ts';
+import { writeOem } from '../../../core/io/index.ts';
+import { budgetReport } from '../../../core/io/index.ts';
+import { sampleEphemeris } from '../../../core/conic/index.ts';
+import type { Plan } from '../../../core/plan/index.ts';
+import type { PlanResult } from '../../../core/plan/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import type { ExportKind } from '../host/host.ts';
 
 export const EXPORT_MAX_SAMPLES = 20_000;

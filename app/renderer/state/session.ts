@@ -19,13 +19,13 @@
  * user recovers or discards it, autosave does not write, so new edits cannot replace the older
  * copy, and the offer cannot be dismissed without a choice.
  */
-import { parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../../core/io/planFile.ts';
-import { parseSystemFile } from '../../../core/io/systemFile.ts';
-import { ValidationError, type ValidationIssue } from '../../../core/math/errors.ts';
-import type { Plan } from '../../../core/plan/plan.ts';
-import { checkPlanAgainstSystem, checkPlanDocument } from '../../../core/io/planSchema.ts';
-import { planToDocument } from '../../../core/io/planFile.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import { parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../../core/io/index.ts';
+import { parseSystemFile } from '../../../core/io/index.ts';
+import { ValidationError, type ValidationIssue } from '../../../core/math/index.ts';
+import type { Plan } from '../../../core/plan/index.ts';
+import { checkPlanAgainstSystem, checkPlanDocument } from '../../../core/io/index.ts';
+import { planToDocument } from '../../../core/io/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import { NewerVersionError, type ExportKind, type FileRef, type Host, type MenuCommand, type RecentFile, type RecoverySnapshot } from '../host/host.ts';
 import { fileToMemoryPath } from '../plan/paths.ts';
 import { CursorStore } from './cursor.ts';

@@ -7,11 +7,11 @@
  * Series are plain arrays of (t, value) with jumps written as two points at the same t, so a
  * d3 line draws steps, and `valueAt` reads the value at the cursor by binary search.
  */
-import type { Plan } from '../../../core/plan/plan.ts';
-import type { PlanResult, TrajectoryEventKind } from '../../../core/plan/result.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
-import { bodyPosition } from '../../../core/system/ephemeris.ts';
-import { findBodyIndex } from '../../../core/system/model.ts';
+import type { Plan } from '../../../core/plan/index.ts';
+import type { PlanResult, TrajectoryEventKind } from '../../../core/plan/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
+import { bodyPosition } from '../../../core/system/index.ts';
+import { findBodyIndex } from '../../../core/system/index.ts';
 import { bodyColour } from '../scene/palette.ts';
 
 export interface Series {

@@ -4,8 +4,8 @@
  * a day start of the system's day, restarting at each year like the calendar's day numbers), so
  * labels read as round calendar values.
  */
-import { dateParts } from '../../../core/system/calendar.ts';
-import type { SystemCalendar } from '../../../core/system/model.ts';
+import { dateParts } from '../../../core/system/index.ts';
+import type { SystemCalendar } from '../../../core/system/index.ts';
 
 export interface Tick {
   t: number;

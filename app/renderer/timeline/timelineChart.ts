@@ -5,7 +5,7 @@
  * component passes data in and receives cursor intents; moving the cursor only moves one group.
  */
 import * as d3 from 'd3';
-import type { SystemCalendar } from '../../../core/system/model.ts';
+import type { SystemCalendar } from '../../../core/system/index.ts';
 import { PALETTE } from '../scene/palette.ts';
 import type { Series, TimelineData } from './series.ts';
 import { calendarTicks } from './ticks.ts';

@@ -2,9 +2,9 @@
  * Runs porkchop jobs in a Web Worker: one job at a time (a new run cancels the previous one),
  * progress callbacks, cancel. The worker factory is injectable for tests.
  */
-import type { PorkchopRequest } from '../../../core/search/request.ts';
-import type { WindowOptions } from '../../../core/search/windows.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import type { PorkchopRequest } from '../../../core/search/index.ts';
+import type { WindowOptions } from '../../../core/search/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 import type { FromWorker, ToWorker } from './protocol.ts';
 
 export type DoneMessage = Extract<FromWorker, { type: 'done' }>;

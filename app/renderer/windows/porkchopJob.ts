@@ -4,11 +4,11 @@
  * can arrive, reporting progress, then the transfer windows (core/search/windows.ts). Plain
  * code over injected hooks so vitest runs it without a Worker.
  */
-import { SolverError } from '../../../core/math/errors.ts';
-import { computePorkchopRows, createGrid, type PorkchopGrid } from '../../../core/search/porkchop.ts';
-import type { PorkchopRequest } from '../../../core/search/request.ts';
-import { findWindows, type TransferWindow, type WindowOptions } from '../../../core/search/windows.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import { SolverError } from '../../../core/math/index.ts';
+import { computePorkchopRows, createGrid, type PorkchopGrid } from '../../../core/search/index.ts';
+import type { PorkchopRequest } from '../../../core/search/index.ts';
+import { findWindows, type TransferWindow, type WindowOptions } from '../../../core/search/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 
 /** Cells per block between yields (and progress reports). */
 export const CELLS_PER_BLOCK = 10_000;

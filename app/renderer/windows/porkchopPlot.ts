@@ -5,11 +5,11 @@
  * (departure, time of flight). Low Δv is bright, high Δv fades into the ground.
  */
 import * as d3 from 'd3';
-import type { PorkchopGrid } from '../../../core/search/porkchop.ts';
-import { metricPlane } from '../../../core/search/porkchop.ts';
-import type { PorkchopMetric } from '../../../core/search/request.ts';
-import type { TransferWindow } from '../../../core/search/windows.ts';
-import type { SystemCalendar } from '../../../core/system/model.ts';
+import type { PorkchopGrid } from '../../../core/search/index.ts';
+import { metricPlane } from '../../../core/search/index.ts';
+import type { PorkchopMetric } from '../../../core/search/index.ts';
+import type { TransferWindow } from '../../../core/search/index.ts';
+import type { SystemCalendar } from '../../../core/system/index.ts';
 import { calendarTicks } from '../timeline/ticks.ts';
 
 export const PLOT_MARGIN = { left: 58, right: 86, top: 12, bottom: 40 } as const;

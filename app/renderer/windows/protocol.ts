@@ -1,8 +1,8 @@
 /** Messages between the Windows view and its porkchop worker. */
-import type { PorkchopGrid } from '../../../core/search/porkchop.ts';
-import type { PorkchopRequest } from '../../../core/search/request.ts';
-import type { TransferWindow, WindowOptions } from '../../../core/search/windows.ts';
-import type { StarSystem } from '../../../core/system/model.ts';
+import type { PorkchopGrid } from '../../../core/search/index.ts';
+import type { PorkchopRequest } from '../../../core/search/index.ts';
+import type { TransferWindow, WindowOptions } from '../../../core/search/index.ts';
+import type { StarSystem } from '../../../core/system/index.ts';
 
 export type ToWorker =
   | { type: 'run'; id: number; system: StarSystem; request: PorkchopRequest; windows: WindowOptions }

@@ -1,7 +1,7 @@
 /// <reference lib="webworker" />
 /** The Windows view's worker: runs porkchop jobs (windows/porkchopJob.ts) with progress and cancel. */
-import { SolverError } from '../../../core/math/errors.ts';
-import { planeBuffers } from '../../../core/search/planes.ts';
+import { SolverError } from '../../../core/math/index.ts';
+import { planeBuffers } from '../../../core/search/index.ts';
 import { runPorkchopJob } from '../windows/porkchopJob.ts';
 import type { FromWorker, ToWorker } from '../windows/protocol.ts';
 

@@ -1,0 +1,13 @@
+/**
+ * Front door of core/io. File formats at the edge: units, system and plan files (schema-checked, versioned, migrated), CCSDS OEM, CSV, reports.
+ * Other folders of core/ and the app import from here only.
+ */
+export { burnTableCsv, ephemerisCsv } from './csv.ts';
+export { writeOem } from './oem.ts';
+export { parsePlanFile, planToDocument, requirePlanFitsSystem, serializePlanFile } from './planFile.ts';
+export type { PlanSystemRef } from './planFile.ts';
+export { PLAN_FORMAT, PLAN_VERSION, checkPlanAgainstSystem, checkPlanDocument } from './planSchema.ts';
+export { budgetReport } from './report.ts';
+export { parseSystemFile } from './systemFile.ts';
+export { parseQuantity, parseVector } from './units.ts';
+export type { Dimension } from './units.ts';

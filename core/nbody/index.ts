@@ -1,0 +1,11 @@
+/**
+ * Front door of core/nbody. n-body flight of a plan: verification, arrival and B-plane, differential correction, dispersion runs, n-body states for exports.
+ * Other folders of core/ and the app import from here only.
+ */
+export { correctPlan } from './correct.ts';
+export type { CorrectResult } from './correct.ts';
+export { disperse, mergeBlocks, prepareDispersion, runSamples, summarizeDispersion } from './disperse.ts';
+export type { DispersionOptions, DispersionResult, SampleBlock } from './disperse.ts';
+export { nbodyStatesToEphemeris } from './states.ts';
+export { verifyNBody } from './verify.ts';
+export type { NBodyResult } from './verify.ts';

@@ -1,0 +1,13 @@
+/**
+ * Front door of core/system. Star systems: the model, semantic validation, building from a document, conic ephemeris, calendar, mutual n-body ephemeris.
+ * Other folders of core/ and the app import from here only.
+ */
+export { buildStarSystem, systemToDocument } from './build.ts';
+export { dateParts, formatCompactDate, formatDate, formatElapsed, parseDate } from './calendar.ts';
+export { SYSTEM_FORMAT, SYSTEM_VERSION } from './document.ts';
+export type { SystemDocument } from './document.ts';
+export { bodyPosition, bodyState, bodyStateRelativeToParent, sampleOrbit } from './ephemeris.ts';
+export { findBodyIndex } from './model.ts';
+export type { Body, StarSystem, SystemCalendar } from './model.ts';
+export { initialStates } from './nbodyEphemeris.ts';
+export { checkSystemDocument } from './validate.ts';
