@@ -20,7 +20,7 @@ import { propagateKepler } from '../orbit/index.ts';
 import { bodyState } from '../system/index.ts';
 import type { StarSystem } from '../system/index.ts';
 import { burnToInertial } from '../plan/index.ts';
-import type { GameBurn } from './reference.ts';
+import type { GameBurn } from './burns.ts';
 import { solveBurn } from '../conic/index.ts';
 
 export type GameGuidance = 'resolve' | 'open-loop';

@@ -4,7 +4,7 @@
  * same code apart from the rounding line below (tested); two modules, so that each call of R is
  * monomorphic and inlined by the JavaScript engine.
  */
-import type { GameAccel, GameCraft, GameIntegrator } from './kernel.ts';
+import type { GameAccel, GameCraft, GameIntegrator } from './craft.ts';
 import { fround } from './float32.ts';
 /** Rounding applied after every arithmetic operation. */
 const R = fround;

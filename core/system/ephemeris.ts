@@ -17,7 +17,7 @@
  */
 
 import { InputError, SolverError } from '../math/index.ts';
-import type { Body, StarSystem } from './model.ts';
+import type { Body, EphemerisTables, StarSystem } from './model.ts';
 
 /** Number of doubles per body in `EphemerisTables.k`. */
 export const EPHEMERIS_STRIDE = 14;
@@ -37,16 +37,7 @@ const QZ = 11;
 const NA = 12; // n·a
 const MU = 13; // μ of the orbit
 
-export interface EphemerisTables {
-  /** Number of bodies including the star. */
-  count: number;
-  /** Parent index per body (−1 for the star). */
-  parent: Int32Array;
-  /** Depth in the body tree per body (0 for the star). */
-  depth: Int32Array;
-  /** EPHEMERIS_STRIDE constants per body; the star's row is zeros. */
-  k: Float64Array;
-}
+export type { EphemerisTables } from './model.ts';
 
 /** Precomputes the per-body constants of the conic ephemeris. */
 export function buildEphemerisTables(bodies: readonly Body[]): EphemerisTables {

@@ -15,7 +15,6 @@
  * cloning into a worker.
  */
 
-import type { EphemerisTables } from './ephemeris.ts';
 
 export interface OrbitalElements {
   /** Semi-major axis, m (> 0). */
@@ -110,4 +109,16 @@ export const STAR_INDEX = 0;
 /** Index of the body with this id, or −1 when there is none. */
 export function findBodyIndex(system: StarSystem, id: string): number {
   return Object.hasOwn(system.indexById, id) ? system.indexById[id] : -1;
+}
+
+/** Per-body constants of the conic ephemeris (built by ephemeris.ts buildEphemerisTables). */
+export interface EphemerisTables {
+  /** Number of bodies including the star. */
+  count: number;
+  /** Parent index per body (−1 for the star). */
+  parent: Int32Array;
+  /** Depth in the body tree per body (0 for the star). */
+  depth: Int32Array;
+  /** EPHEMERIS_STRIDE constants per body; the star's row is zeros. */
+  k: Float64Array;
 }

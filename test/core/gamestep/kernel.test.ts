@@ -37,7 +37,7 @@ describe('game-step kernel', () => {
     const strip = (name: string): string =>
       readFileSync(new URL(`../../../core/gamestep/${name}`, import.meta.url), 'utf8')
         .split('\n')
-        .filter((l) => !/^const R = |^import \{ (noRound|fround) \}|arithmetic \(see gameStepKernel/.test(l))
+        .filter((l) => !/^const R = |^import \{ (noRound|fround) \}|arithmetic \(see kernel/.test(l))
         .join('\n');
     expect(strip('kernelF32.ts')).toBe(strip('kernelF64.ts'));
   });
