@@ -8,4 +8,5 @@ export { evaluate } from './evaluate.ts';
 export { planFromWindow } from './fromWindow.ts';
 export { conicInfo, createConicInfo } from './soiCrossing.ts';
 export type { ConicInfo } from './soiCrossing.ts';
+export { shipStateAt } from './shipState.ts';
 export { solveBurn } from './solveBurn.ts';

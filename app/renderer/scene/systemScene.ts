@@ -21,7 +21,7 @@ import type { StarSystem } from '../../../core/system/index.ts';
 import { bodyPosition, sampleOrbit } from '../../../core/system/index.ts';
 import { burnToInertial } from '../../../core/plan/index.ts';
 import { AXIS_HUE, FRAME_AXES, PALETTE, bodyColour } from './palette.ts';
-import { shipStateAt } from './shipState.ts';
+import { shipStateAt } from '../../../core/conic/index.ts';
 import { isSoftwareRenderer } from './webglInfo.ts';
 import { GAME_STYLE } from '../gamestep/style.ts';
 import type { TrackPath } from '../gamestep/trackPaths.ts';
