@@ -47,10 +47,29 @@ export interface Departure {
   rightAscension: number;
 }
 
+/**
+ * Speed at periapsis r_p of the hyperbola with excess speed² v∞² (= C3): √(v∞² + 2μ/r_p)
+ * (vis-viva with a = −μ/v∞²). No input checks and no allocation: the porkchop's inner loop
+ * calls it per cell.
+ */
+export function hyperbolaPeriapsisSpeed(mu: number, vInf2: number, rp: number): number {
+  return Math.sqrt(vInf2 + (2 * mu) / rp);
+}
+
+/** Speed at periapsis r_p of a closed orbit of eccentricity e: √(μ(1 + e)/r_p) (vis-viva). No input checks. */
+export function orbitPeriapsisSpeed(mu: number, rp: number, e: number): number {
+  return Math.sqrt((mu * (1 + e)) / rp);
+}
+
+/** Eccentricity of the hyperbola with excess speed² v∞² and periapsis r_p: 1 + r_p v∞²/μ. */
+function hyperbolaEccentricity(mu: number, vInf2: number, rp: number): number {
+  return 1 + (rp * vInf2) / mu;
+}
+
 function parkSpeed(mu: number, rp: number, e: number, field: string): number {
   requireNonNegative(field, e);
   if (!(e < 1)) throw new InputError(field, 'must be < 1 (closed orbit)', e);
-  return Math.sqrt((mu * (1 + e)) / rp);
+  return orbitPeriapsisSpeed(mu, rp, e);
 }
 
 /** Departure burn from a parking orbit onto the hyperbola with excess velocity vInf. */
@@ -67,8 +86,8 @@ export function departure(input: DepartureInput): Departure {
   const vz = vInf[2];
   const c3 = vx * vx + vy * vy + vz * vz;
   const vInfMag = Math.sqrt(c3);
-  const vPeriapsis = Math.sqrt(c3 + (2 * mu) / rPark);
-  const eHyperbola = 1 + (rPark * c3) / mu;
+  const vPeriapsis = hyperbolaPeriapsisSpeed(mu, c3, rPark);
+  const eHyperbola = hyperbolaEccentricity(mu, c3, rPark);
   let declination = 0;
   let rightAscension = 0;
   if (vInfMag > 0) {
@@ -130,8 +149,8 @@ export function arrival(input: ArrivalInput): Arrival {
   requirePositive('mu', mu);
   requirePositive('rPeriapsis', rPeriapsis);
   const vInf = vInfMagnitude(input.vInf);
-  const vPeriapsisHyperbola = Math.sqrt(vInf * vInf + (2 * mu) / rPeriapsis);
-  const eHyperbola = 1 + (rPeriapsis * vInf * vInf) / mu;
+  const vPeriapsisHyperbola = hyperbolaPeriapsisSpeed(mu, vInf * vInf, rPeriapsis);
+  const eHyperbola = hyperbolaEccentricity(mu, vInf * vInf, rPeriapsis);
   if (eTarget === 'flyby') {
     return { dv: 0, vPeriapsisHyperbola, vPeriapsisTarget: vPeriapsisHyperbola, eHyperbola, turnAngle: 2 * Math.asin(1 / eHyperbola) };
   }
@@ -145,6 +164,6 @@ export function flyby(mu: number, vInfMag: number, rPeriapsis: number): number {
   requirePositive('mu', mu);
   requireNonNegative('vInfMag', vInfMag);
   requirePositive('rPeriapsis', rPeriapsis);
-  const e = 1 + (rPeriapsis * vInfMag * vInfMag) / mu;
+  const e = hyperbolaEccentricity(mu, vInfMag * vInfMag, rPeriapsis);
   return 2 * Math.asin(1 / e);
 }

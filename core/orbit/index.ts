@@ -6,6 +6,7 @@ export { eccentricToMean, hyperbolicToMean, trueToEccentric, trueToHyperbolic } 
 export { bielliptic } from './bielliptic.ts';
 export { elementsToState, stateToElements } from './elements.ts';
 export { hohmann } from './hohmann.ts';
+export { hyperbolaPeriapsisSpeed, orbitPeriapsisSpeed } from './hyperbolic.ts';
 export { keplerCoefficients, propagateKepler } from './kepler.ts';
 export { lambertBest, lambertCodeRevs, lambertSingleRev, solveLambert } from './lambert.ts';
 export type { LambertSolution } from './lambert.ts';

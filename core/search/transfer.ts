@@ -6,8 +6,8 @@
  *
  * Method: Lambert arc by Izzo's method (core/orbit/lambert.ts); departure and capture burns
  * tangential at periapsis of the hyperbola, v_p = √(v∞² + 2μ/r_p), Δv = v_p − v_orbit
- * (Curtis, Orbital Mechanics for Engineering Students, §8.7–8.9; the same formulas as
- * core/orbit/hyperbolic.ts, written inline here so the hot loop allocates nothing).
+ * (Curtis, Orbital Mechanics for Engineering Students, §8.7–8.9), by the scalar,
+ * allocation-free kernels of core/orbit/hyperbolic.ts that its departure() and arrival() use.
  *
  * Geometries (`TransferSetup.kind`)
  * - SIBLINGS: both bodies orbit the same parent (two planets of the star, or two moons of a
@@ -30,7 +30,7 @@
  * "unsolved": every value is +Infinity and revs/branch are −1 — never NaN.
  */
 import { InputError } from '../math/index.ts';
-import { lambertBest, lambertCodeRevs, lambertSingleRev } from '../orbit/index.ts';
+import { hyperbolaPeriapsisSpeed, lambertBest, lambertCodeRevs, lambertSingleRev, orbitPeriapsisSpeed } from '../orbit/index.ts';
 import { bodyState } from '../system/index.ts';
 import type { StarSystem } from '../system/index.ts';
 import { normalizeRequest, type PorkchopMetric, type PorkchopRequest } from './request.ts';
@@ -109,10 +109,10 @@ export function prepareTransfer(system: StarSystem, request: PorkchopRequest): T
     to: req.to,
     muFrom: a.mu,
     rPark,
-    vPark: Math.sqrt((a.mu * (1 + req.parkingEccentricity)) / rPark),
+    vPark: orbitPeriapsisSpeed(a.mu, rPark, req.parkingEccentricity),
     muTo: b.mu,
     rArrive,
-    vTarget: flyby ? 0 : Math.sqrt((b.mu * (1 + eArr)) / rArrive),
+    vTarget: flyby ? 0 : orbitPeriapsisSpeed(b.mu, rArrive, eArr),
     flyby,
     maxRevs: req.maxRevs,
     retrograde: req.retrograde,
@@ -153,6 +153,22 @@ function unsolved(): false {
   return false;
 }
 
+/**
+ * |v − v_orbit| at the point r (|r| = rOrbit) of an arc with velocity v: v_orbit is the speed
+ * vOrbit along ĥ × r̂, h = r × v, i.e. an orbit through r in the arc's plane and sense, at its
+ * periapsis there.
+ */
+function burnFromOrbitInPlane(r: Float64Array, vx: number, vy: number, vz: number, vOrbit: number, rOrbit: number): number {
+  const hx = r[1] * vz - r[2] * vy;
+  const hy = r[2] * vx - r[0] * vz;
+  const hz = r[0] * vy - r[1] * vx;
+  const k = vOrbit / (Math.sqrt(hx * hx + hy * hy + hz * hz) * rOrbit);
+  const px = (hy * r[2] - hz * r[1]) * k;
+  const py = (hz * r[0] - hx * r[2]) * k;
+  const pz = (hx * r[1] - hy * r[0]) * k;
+  return Math.sqrt((vx - px) * (vx - px) + (vy - py) * (vy - py) + (vz - pz) * (vz - pz));
+}
+
 // Fills lastCell from the arc's terminal velocities; returns the metric (Infinity if not finite).
 function finish(s: TransferSetup, v1x: number, v1y: number, v1z: number, v2x: number, v2y: number, v2z: number): number {
   let dvD: number;
@@ -160,14 +176,7 @@ function finish(s: TransferSetup, v1x: number, v1y: number, v1z: number, v2x: nu
   let vInfD: number;
   if (s.kind === FROM_PARENT) {
     // burn from the parking orbit at r1, in the arc's plane and sense
-    const hx = R1[1] * v1z - R1[2] * v1y;
-    const hy = R1[2] * v1x - R1[0] * v1z;
-    const hz = R1[0] * v1y - R1[1] * v1x;
-    const k = s.vPark / (Math.sqrt(hx * hx + hy * hy + hz * hz) * s.rPark);
-    const px = (hy * R1[2] - hz * R1[1]) * k;
-    const py = (hz * R1[0] - hx * R1[2]) * k;
-    const pz = (hx * R1[1] - hy * R1[0]) * k;
-    dvD = Math.sqrt((v1x - px) * (v1x - px) + (v1y - py) * (v1y - py) + (v1z - pz) * (v1z - pz));
+    dvD = burnFromOrbitInPlane(R1, v1x, v1y, v1z, s.vPark, s.rPark);
     c3 = v1x * v1x + v1y * v1y + v1z * v1z - (2 * s.mu) / s.rPark;
     vInfD = c3 > 0 ? Math.sqrt(c3) : 0;
   } else {
@@ -176,31 +185,21 @@ function finish(s: TransferSetup, v1x: number, v1y: number, v1z: number, v2x: nu
     const dz = v1z - VF[2];
     c3 = dx * dx + dy * dy + dz * dz;
     vInfD = Math.sqrt(c3);
-    dvD = Math.sqrt(c3 + (2 * s.muFrom) / s.rPark) - s.vPark;
+    dvD = hyperbolaPeriapsisSpeed(s.muFrom, c3, s.rPark) - s.vPark;
   }
   let dvA: number;
   let vInfA: number;
   if (s.kind === TO_PARENT) {
     const e2 = v2x * v2x + v2y * v2y + v2z * v2z - (2 * s.mu) / s.rArrive;
     vInfA = e2 > 0 ? Math.sqrt(e2) : 0;
-    if (s.flyby) dvA = 0;
-    else {
-      const hx = R2[1] * v2z - R2[2] * v2y;
-      const hy = R2[2] * v2x - R2[0] * v2z;
-      const hz = R2[0] * v2y - R2[1] * v2x;
-      const k = s.vTarget / (Math.sqrt(hx * hx + hy * hy + hz * hz) * s.rArrive);
-      const px = (hy * R2[2] - hz * R2[1]) * k;
-      const py = (hz * R2[0] - hx * R2[2]) * k;
-      const pz = (hx * R2[1] - hy * R2[0]) * k;
-      dvA = Math.sqrt((v2x - px) * (v2x - px) + (v2y - py) * (v2y - py) + (v2z - pz) * (v2z - pz));
-    }
+    dvA = s.flyby ? 0 : burnFromOrbitInPlane(R2, v2x, v2y, v2z, s.vTarget, s.rArrive);
   } else {
     const dx = v2x - VT[0];
     const dy = v2y - VT[1];
     const dz = v2z - VT[2];
     const w2 = dx * dx + dy * dy + dz * dz;
     vInfA = Math.sqrt(w2);
-    dvA = s.flyby ? 0 : Math.sqrt(w2 + (2 * s.muTo) / s.rArrive) - s.vTarget;
+    dvA = s.flyby ? 0 : hyperbolaPeriapsisSpeed(s.muTo, w2, s.rArrive) - s.vTarget;
   }
   const total = dvD + dvA;
   const m = s.metric === 0 ? total : s.metric === 1 ? dvD : s.metric === 2 ? dvA : c3;

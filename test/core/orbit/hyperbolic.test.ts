@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { arrival, departure, flyby } from '../../../core/orbit/hyperbolic.ts';
+import { arrival, departure, flyby, hyperbolaPeriapsisSpeed, orbitPeriapsisSpeed } from '../../../core/orbit/hyperbolic.ts';
 import { hohmann } from '../../../core/orbit/hohmann.ts';
 import { propagateKepler } from '../../../core/orbit/kepler.ts';
 import { InputError } from '../../../core/math/errors.ts';
@@ -143,5 +143,23 @@ describe('arrival', () => {
     // A slow flyby turns by nearly π, a fast one barely at all.
     expect(flyby(mu, 1e-6, rp)).toBeCloseTo(Math.PI, 6);
     expect(flyby(mu, 1e4, rp)).toBeLessThan(1e-3);
+  });
+});
+
+describe('periapsis speeds (the scalar kernels the porkchop loop calls)', () => {
+  it('equal vis-viva v² = μ(2/r_p − 1/a) with a = −μ/v∞² (hyperbola) and a = r_p/(1 − e) (closed orbit) (analytic)', () => {
+    const mu = 3.986004418e14;
+    for (const rp of [6.578e6, 4.2e7]) {
+      for (const vInf of [0, 850, 3600, 1.2e4]) {
+        const inv = vInf === 0 ? 0 : -(vInf * vInf) / mu; // 1/a
+        // the same sum written two ways: rounding only, a few ulp
+        expect(Math.abs(hyperbolaPeriapsisSpeed(mu, vInf * vInf, rp) / Math.sqrt(mu * (2 / rp - inv)) - 1)).toBeLessThan(1e-15);
+      }
+      for (const e of [0, 0.3, 0.9]) {
+        const a = rp / (1 - e);
+        // (1 + e) against 2 − (1 − e): rounding of the two forms, a few ulp
+        expect(Math.abs(orbitPeriapsisSpeed(mu, rp, e) / Math.sqrt(mu * (2 / rp - 1 / a)) - 1)).toBeLessThan(1e-15);
+      }
+    }
   });
 });
