@@ -33,7 +33,7 @@ import { conicInfo, createConicInfo } from '../conic/index.ts';
 import { createBurnBook, createVehicleState, dropStage, spendBurn } from '../plan/index.ts';
 import { bPlane, bPlaneAxes, type BPlane } from './bPlane.ts';
 import type { NBodyAction, NBodyStats } from './flight.ts';
-import type { NBodyModel, NBodyState, ThrustPhase, Vec3Tuple } from '../dynamics/index.ts';
+import type { NBodyModel, NBodyState, ThrustPhase, Vec3Tuple } from './model.ts';
 
 /** Farthest the arrival probe looks for the n-body periapsis from the conic periapsis time, s. */
 export const PROBE_MAX = 30 * 86400;

@@ -43,7 +43,7 @@
  * ends at it (the coast becomes a timed coast) and is kept within ±timeWindow. Only the arrival
  * periapsis altitude, inclination and time are matched, not v∞: later burns keep their conic
  * inertial vectors, so the orbit after them differs from the conic one by what the n-body v∞
- * differs (demo: e 1.636 vs 1.621 at arrival; final orbit 405 × 2,683 km at 30.6° instead of
+ * differs (demo: e 1.636 vs 1.621 at arrival; final orbit 406 × 2,689 km at 30.6° instead of
  * 400 × 2,000 km at 30°). Re-solving those burns in the n-body model is not done.
  */
 import { InputError, SolverError, WaymarkError, requireFinite } from '../math/index.ts';

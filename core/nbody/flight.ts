@@ -4,9 +4,11 @@
  *
  * The origin body of the equations changes at sphere-of-influence crossings, found as events on
  * the integration (|x| = SOI radius of o, rising; |x − p_c| = SOI radius of a child c, falling).
- * At a change, o's acceleration goes from "its gravity from the other bodies" to "its conic
- * ephemeris" — the two differ by the other bodies' tidal pull on o (≲ 1e-7 m/s² in the demo
- * system), the level at which conic ephemerides are consistent with n-body physics at all.
+ * The state is re-expressed about the new origin with the conic ephemeris (the same conics that
+ * move the origin in the force model), so a change is a change of coordinates only: the flight
+ * is the same whichever body is the origin, to integration and rounding error (tested against an
+ * independent integrator of the star-centred equations). The origin is chosen for precision:
+ * relative tolerances then apply to numbers of the size of the orbit about the nearest body.
  *
  * Integration: every coast and every burn phase goes through the propagation front door
  * (core/integrate/propagate.ts) — Dormand–Prince RK45 at rtol DEFAULT_NBODY_RTOL, with the
@@ -25,10 +27,10 @@ import type { EventSpec } from '../integrate/index.ts';
 import type { DenseOutput } from '../integrate/index.ts';
 import { InputError, SolverError, requireFinite } from '../math/index.ts';
 import { bodyStateRelativeToParent } from '../system/index.ts';
-import type { NBodyModel, NBodyState, ThrustPhase, Vec3Tuple } from '../dynamics/index.ts';
+import type { NBodyModel, NBodyState, ThrustPhase, Vec3Tuple } from './model.ts';
 
-// defined beside the model (NBodyModel.setThrust takes it), re-exported as part of the flight's API
-export type { ThrustPhase } from '../dynamics/index.ts';
+// defined beside the force model (ShipForces.setThrust takes it), re-exported as part of the flight's API
+export type { ThrustPhase } from './model.ts';
 
 /** Drawing samples: one about every this many radians of arc about the origin body (3°). */
 export const SAMPLE_ANGLE = Math.PI / 60;

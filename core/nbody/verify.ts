@@ -2,7 +2,7 @@
  * n-body verification: flies the burns of a patched-conic result through the restricted
  * n-body model and reports how the arrival differs from the patched-conic plan.
  *
- * The parts, each with its own doc: the force model (../dynamics/shipForces.ts), the flight through timed
+ * The parts, each with its own doc: the force model (../dynamics/shipForces.ts, with the integrator settings in model.ts), the flight through timed
  * burns with SOI switching and drawing samples (flight.ts), the conic result as n-body
  * input and the arrival comparison (arrival.ts), the B-plane (bPlane.ts). This module
  * is the front door (verifyNBody) and re-exports the parts' names.
@@ -19,12 +19,12 @@ import { findBodyIndex, type StarSystem } from '../system/index.ts';
 import type { Plan } from '../plan/index.ts';
 import type { PlanResult } from '../plan/index.ts';
 import { conicInfo } from '../conic/index.ts';
-import { NBodyModel, type NBodyModelOptions, type NBodyState, type Vec3Tuple } from '../dynamics/index.ts';
+import { NBodyModel, type NBodyModelOptions, type NBodyState, type Vec3Tuple } from './model.ts';
 import { flyNBody, type NBodySamples, type NBodyStates, type NBodyStats } from './flight.ts';
 import { burnActions, compareArrival, conicArrival, conicStart, probePeriapsis, stateRelativeTo, type ArrivalComparison, type PeriapsisReport } from './arrival.ts';
 
-export { DEFAULT_ATOL_FACTOR, DEFAULT_NBODY_RTOL, NBodyModel } from '../dynamics/index.ts';
-export type { NBodyModelOptions, NBodyState, Vec3Tuple } from '../dynamics/index.ts';
+export { DEFAULT_ATOL_FACTOR, DEFAULT_NBODY_RTOL, NBodyModel } from './model.ts';
+export type { NBodyModelOptions, NBodyState, Vec3Tuple } from './model.ts';
 export { MAX_SAMPLES, SAMPLE_ANGLE, flyNBody, sortActions } from './flight.ts';
 export type { FlyOptions, FlyResult, NBodyAction, NBodySamples, NBodyStates, NBodyStats, ThrustPhase } from './flight.ts';
 export { bPlane, bPlaneAxes } from './bPlane.ts';

@@ -1,0 +1,61 @@
+/**
+ * The n-body flight's model: the ship force model (core/dynamics/shipForces.ts — restricted
+ * n-body on the conic ephemerides, integrated relative to an origin body) with the integrator
+ * settings every n-body flight, probe and correction of one run shares.
+ */
+import type { MethodChoice } from '../integrate/index.ts';
+import { InputError, requireFinite } from '../math/index.ts';
+import type { StarSystem } from '../system/index.ts';
+import { ShipForces, type ShipForcesOptions } from '../dynamics/index.ts';
+
+export type { ThrustPhase, Vec3Tuple } from '../dynamics/index.ts';
+
+/** Relative tolerance of the n-body integration. */
+export const DEFAULT_NBODY_RTOL = 1e-10;
+
+/**
+ * The absolute tolerance is rtol × DEFAULT_ATOL_FACTOR (in metres and metres per second
+ * alike): negligible beside rtol·|x| for positions, so position components crossing zero do not
+ * force tiny steps, and at the level of rtol·|v| for velocities of a few km/s.
+ */
+export const DEFAULT_ATOL_FACTOR = 1;
+
+/** The ship's state in the n-body flight: relative to body `origin` (index), inertial axes. */
+export interface NBodyState {
+  t: number;
+  origin: number;
+  x: Float64Array;
+  v: Float64Array;
+}
+
+export interface NBodyModelOptions extends ShipForcesOptions {
+  /** Relative tolerance (default DEFAULT_NBODY_RTOL). */
+  rtol?: number;
+  /** Absolute tolerance; default DEFAULT_ATOL_FACTOR × rtol. */
+  atol?: number;
+  /** Integrator choice handed to the front door (default 'auto'). */
+  method?: MethodChoice;
+  /** RK45 step budget per integration piece (front-door default when omitted). */
+  maxSteps?: number;
+}
+
+/** The force model and integrator settings of one system (reuse it across flights). */
+export class NBodyModel extends ShipForces {
+  declare readonly system: StarSystem;
+  readonly rtol: number;
+  readonly atol: number;
+  readonly method: MethodChoice;
+  readonly maxSteps: number | undefined;
+
+  constructor(system: StarSystem, options: NBodyModelOptions = {}) {
+    super(system, options);
+    this.rtol = options.rtol ?? DEFAULT_NBODY_RTOL;
+    requireFinite('options.rtol', this.rtol);
+    if (!(this.rtol > 0)) throw new InputError('options.rtol', 'must be > 0', this.rtol);
+    this.atol = options.atol ?? this.rtol * DEFAULT_ATOL_FACTOR;
+    requireFinite('options.atol', this.atol);
+    if (!(this.atol > 0)) throw new InputError('options.atol', 'must be > 0', this.atol);
+    this.method = options.method ?? 'auto';
+    this.maxSteps = options.maxSteps;
+  }
+}
