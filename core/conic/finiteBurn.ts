@@ -1,7 +1,8 @@
 /**
  * Finite burns: the ship's motion under the central body's gravity and a constant thrust, with
- * the mass falling at ṁ = −F/(g0·Isp), integrated with Dormand–Prince RK45 (core/integrate/rk45.ts)
- * stage phase by stage phase (the phases and their durations come from the rocket-equation
+ * the mass falling at ṁ = −F/(g0·Isp) — the two-body mode of the ship force model
+ * (core/dynamics/shipForces.ts, the one model of every non-conic flight, thrust included) —
+ * integrated with Dormand–Prince RK45 (core/integrate/rk45.ts) stage phase by stage phase (the phases and their durations come from the rocket-equation
  * bookkeeping of vehicle.ts, so the propellant burned is exactly what the impulsive budget
  * spends: the propellant delivers the same Δv = Σ c·ln(m0/m1)).
  *
@@ -24,6 +25,9 @@
  * itself rotates, so the thrust does not stay along û) — the figure then says "the finite burn
  * put more energy in than the impulsive one", not "no loss".
  *
+ * The mass is not integrated: within a phase it falls linearly, m(t) = m0 − (F/c)(t − t0), as
+ * the force model holds it, and the mass at a phase's end is that line's value.
+ *
  * Limits: only the central body's gravity acts (patched conic); an SOI crossing during the burn
  * is not looked for — the next coast starts from the burn's end state (the evaluation then
  * moves the ship to the SOI it is in). The burn is centred in time on the planned instant
@@ -34,6 +38,7 @@ import { rk45 } from '../integrate/index.ts';
 import type { DenseOutput } from '../integrate/index.ts';
 import { SolverError } from '../math/index.ts';
 import { inertialToVnb } from '../math/index.ts';
+import { ShipForces } from '../dynamics/index.ts';
 import type { BurnBook } from '../plan/index.ts';
 
 /** Relative tolerance of the burn integration. */
@@ -84,59 +89,27 @@ export function flyFiniteBurn(input: FiniteBurnInput): FiniteBurnResult {
   const uy = dvn > 0 ? input.dvImpulsive[1] / dvn : 0;
   const uz = dvn > 0 ? input.dvImpulsive[2] / dvn : 0;
   // VNB components of û at the centre (velocity pointing)
-  let lv = 0, ln = 0, lb = 0;
-  let useVnb = input.pointing === 'velocity' && dvn > 0;
-  if (useVnb) {
+  let vnb: [number, number, number] | null = null;
+  if (input.pointing === 'velocity' && dvn > 0) {
     try {
       const l = inertialToVnb(
         [input.centreState[0], input.centreState[1], input.centreState[2]],
         [input.centreState[3], input.centreState[4], input.centreState[5]],
         [ux, uy, uz],
       );
-      lv = l[0];
-      ln = l[1];
-      lb = l[2];
+      vnb = [l[0], l[1], l[2]];
     } catch {
-      useVnb = false; // r ∥ v: no VNB frame, hold the inertial direction
+      vnb = null; // r ∥ v: no VNB frame, hold the inertial direction
     }
   }
-  let thrust = 0;
-  let exhaust = 1;
-  const f = (_t: number, y: Float64Array, d: Float64Array): void => {
-    const x = y[0], yy = y[1], z = y[2];
-    const vx = y[3], vy = y[4], vz = y[5];
-    const m = y[6];
-    const r2 = x * x + yy * yy + z * z;
-    const k = -mu / (r2 * Math.sqrt(r2));
-    let dx = ux, dy = uy, dz = uz;
-    if (useVnb) {
-      const v = Math.sqrt(vx * vx + vy * vy + vz * vz);
-      const Vx = vx / v, Vy = vy / v, Vz = vz / v;
-      let Nx = yy * vz - z * vy, Ny = z * vx - x * vz, Nz = x * vy - yy * vx;
-      const hn = Math.sqrt(Nx * Nx + Ny * Ny + Nz * Nz);
-      Nx /= hn;
-      Ny /= hn;
-      Nz /= hn;
-      const Bx = Vy * Nz - Vz * Ny, By = Vz * Nx - Vx * Nz, Bz = Vx * Ny - Vy * Nx;
-      dx = lv * Vx + ln * Nx + lb * Bx;
-      dy = lv * Vy + ln * Ny + lb * By;
-      dz = lv * Vz + ln * Nz + lb * Bz;
-    }
-    const a = thrust / m;
-    d[0] = vx;
-    d[1] = vy;
-    d[2] = vz;
-    d[3] = k * x + a * dx;
-    d[4] = k * yy + a * dy;
-    d[5] = k * z + a * dz;
-    d[6] = -thrust / exhaust;
-  };
-  const y = new Float64Array(7);
+  const forces = ShipForces.centralBody(mu);
+  const u = [ux, uy, uz];
+  const y = new Float64Array(6);
   for (let i = 0; i < 6; i++) y[i] = input.state[i];
-  y[6] = book.massBefore;
+  let mass = book.massBefore;
   const r0 = Math.hypot(y[0], y[1], y[2]);
   const v0 = Math.hypot(y[3], y[4], y[5]) || 1;
-  const atol = [1e-9 * r0, 1e-9 * r0, 1e-9 * r0, 1e-10 * v0, 1e-10 * v0, 1e-10 * v0, 1e-9 * book.massBefore];
+  const atol = [1e-9 * r0, 1e-9 * r0, 1e-9 * r0, 1e-10 * v0, 1e-10 * v0, 1e-10 * v0];
   let t = input.tStart;
   let steps = 0;
   let fevals = 0;
@@ -145,21 +118,24 @@ export function flyFiniteBurn(input: FiniteBurnInput): FiniteBurnResult {
   for (let ph = 0; ph < book.phases; ph++) {
     const dur = book.phaseDuration[ph];
     // mass at the phase start: a dropped stage's dry mass leaves between phases
-    y[6] = book.phaseMass0[ph];
+    mass = book.phaseMass0[ph];
     if (!(dur > 0)) continue;
-    thrust = book.phaseThrust[ph];
-    exhaust = book.phaseExhaust[ph];
-    const res = rk45(f, t, y, t + dur, { rtol: FINITE_BURN_RTOL, atol, dense: input.samples > 0 });
+    const phase = { duration: dur, thrust: book.phaseThrust[ph], exhaust: book.phaseExhaust[ph], mass0: mass };
+    forces.setThrust(phase, t, u, vnb);
+    const res = rk45(forces.deriv, t, y, t + dur, { rtol: FINITE_BURN_RTOL, atol, dense: input.samples > 0 });
     if (res.status !== 'done') {
       throw new SolverError('finite-burn', 'no-convergence', `burn integration stopped: ${res.message}`, { tStart: t, duration: dur });
     }
     steps += res.stats.accepted;
     fevals += res.stats.fevals;
-    dvProp += exhaust * Math.log(book.phaseMass0[ph] / res.y[6]);
+    const massEnd = phase.thrust > 0 ? mass - (phase.thrust / phase.exhaust) * dur : mass;
+    if (massEnd < mass) dvProp += phase.exhaust * Math.log(mass / massEnd);
+    mass = massEnd;
     spans.push({ t0: t, t1: t + dur, dense: res.dense });
     y.set(res.y);
     t += dur;
   }
+  forces.setThrust(null, 0, u, null);
   const state = new Float64Array(6);
   for (let i = 0; i < 6; i++) state[i] = y[i];
   for (let i = 0; i < 6; i++) {
@@ -192,7 +168,7 @@ export function flyFiniteBurn(input: FiniteBurnInput): FiniteBurnResult {
     samples = new Float64Array(3 * n);
     const ts = input.tStart;
     const te = t;
-    const tmp = new Float64Array(7);
+    const tmp = new Float64Array(6);
     let sp = 0;
     for (let j = 0; j < n; j++) {
       const tj = n === 1 ? ts : ts + ((te - ts) * j) / (n - 1);
@@ -200,7 +176,7 @@ export function flyFiniteBurn(input: FiniteBurnInput): FiniteBurnResult {
       const d = spans[sp].dense;
       sampleT[j] = tj;
       if (d) {
-        d.at(Math.min(Math.max(tj, spans[sp].t0), spans[sp].t1), tmp);
+        d.at(Math.min(Math.max(tj, d.tStart), d.tEnd), tmp); // the dense output's own ends (its last step may end a rounding short)
         samples[3 * j] = tmp[0];
         samples[3 * j + 1] = tmp[1];
         samples[3 * j + 2] = tmp[2];
@@ -210,7 +186,7 @@ export function flyFiniteBurn(input: FiniteBurnInput): FiniteBurnResult {
   return {
     tEnd: t,
     state,
-    massEnd: y[6],
+    massEnd: mass,
     dvPropellant: dvProp,
     dvEquivalent: k,
     gravityLoss: dvProp - k,

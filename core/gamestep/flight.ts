@@ -17,7 +17,11 @@
  *   is within the child's radius (checked at times chosen so the craft cannot have crossed in
  *   between: half the gap over the sum of the speeds); the state is then re-expressed about the
  *   new body with the conic ephemeris, in the game's precision.
- * - 'all' gravity: the star and every body pull, in the star frame (the game's world frame).
+ * - 'all' gravity: the star and every body pull, in the star frame (the game's world frame),
+ *   with the star's own acceleration towards the bodies subtracted (the indirect term, one
+ *   vector per time: kernelF64.ts `bodiesGravity`) — the physics of the reference and of the
+ *   n-body verification (core/dynamics/shipForces.ts). A game that flies the plan with
+ *   all-body gravity in a star-centred frame adds this one term to fly the same physics.
  * - Floating origin (`rebase`): when |p| exceeds `distance`, the origin is moved to the craft
  *   (p = 0) and, with `velocity`, its velocity set to the craft's (u = 0); see
  *   kernel.ts.
@@ -278,7 +282,8 @@ export class GameFlight {
         c.tx = c.ty = c.tz = 0;
       }
       if (!this.finite()) return 'diverged';
-      if (done < n) this.stopped(t);
+      // the kernel stops after the step that crosses a threshold, which may be the batch's last
+      this.stopped(t);
       if (this.entryBodies.length > 0) this.checkEntries(t, hs);
       hooks.onSteps?.(done);
       const isCp = cp < cps.length && cps[cp] === k;

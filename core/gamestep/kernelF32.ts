@@ -35,9 +35,14 @@ export function centralGravity(c: GameCraft, mu: number): GameAccel {
 
 /**
  * Point-mass gravity of several bodies whose positions relative to the frame centre come from
- * `positions(t, out)` (3 per body, double; evaluated once per distinct t). Each body's
- * position relative to the origin is rounded to the game's precision, as a game stores it;
- * contributions are summed in body order.
+ * `positions(t, out)` (3 per body, double; evaluated once per distinct t). Body 0 is the star
+ * at the frame centre (the star-centred world frame); the others pull on it, so the frame
+ * accelerates by A(t) = Σ_{j≥1} μ_j P_j/|P_j|³ and the craft's acceleration relative to it is
+ * its gravity minus A (the indirect term; the physics of core/dynamics/shipForces.ts, whose
+ * bodies move on their conics about the star with μ_star + μ_body). A is one vector per time,
+ * computed in the game's precision with the positions. Each body's position relative to the
+ * origin is rounded to the game's precision, as a game stores it; contributions are summed in
+ * body order, then A is subtracted.
  */
 export function bodiesGravity(c: GameCraft, mus: ArrayLike<number>, positions: (t: number, out: Float64Array) => void): GameAccel {
   const n = mus.length;
@@ -45,10 +50,27 @@ export function bodiesGravity(c: GameCraft, mus: ArrayLike<number>, positions: (
   for (let j = 0; j < n; j++) m[j] = R(mus[j]);
   const P = new Float64Array(3 * n);
   let tCached = NaN;
+  let fx = 0;
+  let fy = 0;
+  let fz = 0;
   return (t, px, py, pz, out) => {
     if (t !== tCached) {
       positions(t, P);
       tCached = t;
+      // the star's own acceleration towards the bodies, once per time
+      fx = 0;
+      fy = 0;
+      fz = 0;
+      for (let j = 1; j < n; j++) {
+        const qx = R(P[3 * j]);
+        const qy = R(P[3 * j + 1]);
+        const qz = R(P[3 * j + 2]);
+        const q2 = R(R(R(qx * qx) + R(qy * qy)) + R(qz * qz));
+        const k = R(m[j] / R(q2 * R(Math.sqrt(q2))));
+        fx = R(fx + R(k * qx));
+        fy = R(fy + R(k * qy));
+        fz = R(fz + R(k * qz));
+      }
     }
     const s = t - c.tOrigin;
     const Ox = c.ox + c.wx * s;
@@ -67,9 +89,9 @@ export function bodiesGravity(c: GameCraft, mus: ArrayLike<number>, positions: (
       ay = R(ay + R(k * dy));
       az = R(az + R(k * dz));
     }
-    out[0] = ax;
-    out[1] = ay;
-    out[2] = az;
+    out[0] = R(ax - fx);
+    out[1] = R(ay - fy);
+    out[2] = R(az - fz);
   };
 }
 

@@ -2,33 +2,39 @@
  * The reference flight of the game-step check: the same plan, the same gravity model and the
  * same burn model as the game, integrated with Dormand–Prince RK45 at a tight tolerance
  * (core/integrate/rk45.ts) and kept as dense output, so the game's state at any of its step
- * times can be compared with it.
+ * times can be compared with it. The forces are the ship force model's
+ * (core/dynamics/shipForces.ts), the one every non-conic flight of Waymark uses.
  *
  * Gravity models
- * - 'central' (patched conics, what most games do): only the central body pulls; the state is
- *   kept relative to it. The sphere-of-influence changes are RK45 events: leaving the central
- *   body's SOI (|r| rising through its Laplace radius) and entering a child's (distance to the
- *   child falling through the child's radius); at an event the state is re-expressed about the
- *   new central body with the conic ephemeris (core/system/ephemeris.ts).
- * - 'all': the star and every body pull (point masses on their conic ephemerides). The state is
- *   kept relative to a frame body — the plan's central body of the time, switched at the plan's
- *   segment boundaries (a change of coordinates only) — with the frame body's own acceleration
- *   subtracted (the indirect term; its conic acceleration −μ_orbit·c/|c|³ summed along its
- *   chain of parents; the star is fixed, as in the conic ephemeris). Keeping the state small
- *   keeps the reference precise in double.
+ * - 'central' (patched conics, what most games do): the force model's two-body mode — only the
+ *   central body pulls; the state is kept relative to it. The sphere-of-influence changes are
+ *   RK45 events: leaving the central body's SOI (|r| rising through its Laplace radius) and
+ *   entering a child's (distance to the child falling through the child's radius); at an event
+ *   the state is re-expressed about the new central body with the conic ephemeris
+ *   (core/system/ephemeris.ts).
+ * - 'all': the force model's n-body mode — the star and every body pull (point masses on their
+ *   conic ephemerides), with the star's own acceleration towards the bodies (the indirect term),
+ *   which is the physics of the n-body verification. The state is kept relative to a frame body
+ *   — the plan's central body of the time, switched at the plan's segment boundaries (a change
+ *   of coordinates only; the force model is independent of the origin) — so it stays small and
+ *   the reference precise in double. A game flying the plan with all-body gravity in a
+ *   star-centred world frame flies the same physics when it adds the indirect term (one vector
+ *   per time, kernelF64.ts `bodiesGravity`).
  *
  * Burns (their Δv from guidance.ts: re-solved from the flight's own state, or the
  * plan's): impulsive — the Δv added at the burn time; spread — a thrust acceleration F/m(t)
  * along the fixed inertial direction of the Δv from tStart until |Δv| is delivered, with
  * m(t) = m0 − ṁ·(t − tStart) and F = |Δv_plan|·ṁ / ln(m0/m1) (Tsiolkovsky; for a single-stage
- * burn F is the stage's thrust), so the plan's own Δv takes the plan's duration. Burn times,
- * burn ends and frame switches are breakpoints: no RK45 step crosses them.
+ * burn F is the stage's thrust), so the plan's own Δv takes the plan's duration (the force
+ * model's thrust phase). Burn times, burn ends and frame switches are breakpoints: no RK45 step
+ * crosses them.
  */
 import { InputError, SolverError } from '../math/index.ts';
 import type { DenseOutput } from '../integrate/index.ts';
 import { rk45, type EventSpec } from '../integrate/index.ts';
 import { bodyPosition, bodyState, bodyStateRelativeToParent } from '../system/index.ts';
 import type { StarSystem } from '../system/index.ts';
+import { ShipForces, type ThrustPhase } from '../dynamics/index.ts';
 import { burnDv, spreadDuration, type GameGuidance } from './guidance.ts';
 import type { GameBurn, GameBurnModel, GameGravity } from './burns.ts';
 
@@ -94,6 +100,16 @@ export function spreadAccel(b: GameBurn, t: number): number {
   return b.thrust / (b.mass0 - b.mdot * (t - b.tStart));
 }
 
+/**
+ * A spread burn as a thrust phase of the force model, from tStart: thrust F with the mass
+ * falling at ṁ, or — without a mass flow — the constant acceleration |Δv|/duration (no exhaust
+ * flow: exhaust Infinity, mass 1). Its acceleration is spreadAccel.
+ */
+export function spreadPhase(b: GameBurn): ThrustPhase {
+  if (!(b.mdot > 0) || !(b.mass0 > b.mass1)) return { duration: b.duration, thrust: b.duration > 0 ? b.dvMag / b.duration : 0, exhaust: Infinity, mass0: 1 };
+  return { duration: b.duration, thrust: b.thrust, exhaust: b.thrust / b.mdot, mass0: b.mass0 };
+}
+
 const abs6 = new Float64Array(6);
 const rel6 = new Float64Array(6);
 const p3 = new Float64Array(3);
@@ -128,6 +144,8 @@ export function flyReference(
   const pieces: ReferencePiece[] = [];
   const stats: ReferenceStats = { steps: 0, rejected: 0, fevals: 0, soiChanges: 0, solveFailures: [] };
   const dv: [number, number, number] = [0, 0, 0];
+  const forces = new ShipForces(system, { gravity: s.gravity === 'all' ? 'n-body' : 'two-body' });
+  const u = new Float64Array(3);
   let t = t0;
   let guard = 0;
   for (;;) {
@@ -167,7 +185,15 @@ export function flyReference(
     }
     if (active && active.tEnd > t && active.tEnd < tb) tb = active.tEnd;
     if (s.gravity === 'all') for (const tf of s.frames.t) if (tf > t && tf < tb) tb = tf;
-    const f = makeOde(s, c, active ? active.b : null, active ? active.dv : null);
+    forces.origin = c;
+    const m = active ? Math.hypot(active.dv[0], active.dv[1], active.dv[2]) : 0;
+    if (active && m > 0) {
+      for (let i = 0; i < 3; i++) u[i] = active.dv[i] / m;
+      forces.setThrust(spreadPhase(active.b), active.b.tStart, u, null);
+    } else {
+      forces.setThrust(null, 0, u, null);
+    }
+    const f = forces.deriv;
     const events = s.gravity === 'central' ? soiEvents(system, c) : [];
     const res = rk45(f, t, y, tb, { rtol, atol, dense: keepDense, events, maxSteps: REFERENCE_MAX_STEPS, signal: s.signal });
     stats.steps += res.stats.accepted;
@@ -270,83 +296,6 @@ export function treeOrder(system: StarSystem): number[] {
   };
   visit(0);
   return out;
-}
-
-// The right-hand side y' = (v, a) of one piece.
-function makeOde(s: ReferenceSettings, c: number, thrust: GameBurn | null, dir: ArrayLike<number> | null): (t: number, y: Float64Array, dydt: Float64Array) => void {
-  const system = s.system;
-  const bodies = system.bodies;
-  let ux = 0, uy = 0, uz = 0;
-  const m = dir ? Math.hypot(dir[0], dir[1], dir[2]) : 0;
-  if (thrust && dir && m > 0) {
-    ux = dir[0] / m;
-    uy = dir[1] / m;
-    uz = dir[2] / m;
-  }
-  const addThrust = (t: number, d: Float64Array): void => {
-    if (!thrust) return;
-    const a = spreadAccel(thrust, t);
-    d[3] += a * ux;
-    d[4] += a * uy;
-    d[5] += a * uz;
-  };
-  if (s.gravity === 'central') {
-    const mu = bodies[c].mu;
-    return (t, y, d) => {
-      const r2 = y[0] * y[0] + y[1] * y[1] + y[2] * y[2];
-      const k = -mu / (r2 * Math.sqrt(r2));
-      d[0] = y[3];
-      d[1] = y[4];
-      d[2] = y[5];
-      d[3] = k * y[0];
-      d[4] = k * y[1];
-      d[5] = k * y[2];
-      addThrust(t, d);
-    };
-  }
-  const N = bodies.length;
-  const order = treeOrder(system);
-  const P = new Float64Array(3 * N);
-  const mus = Float64Array.from(bodies.map((b) => b.mu));
-  // chain of the frame body up to the star, for its conic acceleration
-  const chain: number[] = [];
-  for (let j = c; j !== 0; j = bodies[j].parentIndex) chain.push(j);
-  const orbitMu = chain.map((j) => bodies[j].derived.orbitMu);
-  return (t, y, d) => {
-    absolutePositions(system, order, t, P);
-    const fx = P[3 * c], fy = P[3 * c + 1], fz = P[3 * c + 2];
-    let ax = 0, ay = 0, az = 0;
-    for (let j = 0; j < N; j++) {
-      const dx = y[0] - (P[3 * j] - fx);
-      const dy = y[1] - (P[3 * j + 1] - fy);
-      const dz = y[2] - (P[3 * j + 2] - fz);
-      const r2 = dx * dx + dy * dy + dz * dz;
-      const k = -mus[j] / (r2 * Math.sqrt(r2));
-      ax += k * dx;
-      ay += k * dy;
-      az += k * dz;
-    }
-    // indirect term: the frame body's own acceleration (conic, summed along its chain)
-    for (let q = 0; q < chain.length; q++) {
-      const j = chain[q];
-      const p = bodies[j].parentIndex;
-      const cx = P[3 * j] - P[3 * p];
-      const cy = P[3 * j + 1] - P[3 * p + 1];
-      const cz = P[3 * j + 2] - P[3 * p + 2];
-      const r2 = cx * cx + cy * cy + cz * cz;
-      const k = -orbitMu[q] / (r2 * Math.sqrt(r2));
-      ax -= k * cx;
-      ay -= k * cy;
-      az -= k * cz;
-    }
-    d[0] = y[3];
-    d[1] = y[4];
-    d[2] = y[5];
-    d[3] = ax;
-    d[4] = ay;
-    d[5] = az;
-    addThrust(t, d);
-  };
 }
 
 /**
