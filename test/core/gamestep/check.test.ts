@@ -1,11 +1,13 @@
 import { describe, expect, it } from 'vitest';
+import { evaluate } from '../../../core/conic/evaluate.ts';
 import { InputError, SolverError } from '../../../core/math/errors.ts';
-import { gameStepCheck, type GameIntegrator, type GameStepResult } from '../../../core/gamestep/check.ts';
+import { gameStepCheck, prepareGameStep, type GameIntegrator, type GameStepResult } from '../../../core/gamestep/check.ts';
 import type { Plan } from '../../../core/plan/plan.ts';
 import { elementsToState } from '../../../core/orbit/elements.ts';
 import { propagateKepler } from '../../../core/orbit/kepler.ts';
 import { bodyState } from '../../../core/system/ephemeris.ts';
-import { allFinite, MU_EARTH, plan, stateStart, testSystem } from '../plan/helpers.ts';
+import { demoPlan } from '../../fixtures/demoPlan.ts';
+import { allFinite, demoSystem, MU_EARTH, plan, stateStart, testSystem } from '../plan/helpers.ts';
 
 const system = testSystem();
 const TERRA = 1;
@@ -165,5 +167,51 @@ describe('game-step check on a Kepler orbit', () => {
 
   it('stops with SolverError cancelled when the signal is aborted', () => {
     expect(() => gameStepCheck(system, coastPlan(1), { physics: { integrator: 'verlet', dt: 1 }, signal: { aborted: true } })).toThrow(SolverError);
+  });
+});
+
+describe('game-step check of the demo plan (Ilmar, Tessel to Ochre)', () => {
+  const demo = demoSystem();
+  const result = evaluate(demo, demoPlan, { samplesPerSegment: 0 });
+
+  it('flies long coasts at a time-warp step when one is given', () => {
+    const r = gameStepCheck(demo, demoPlan, { physics: { integrator: 'verlet', dt: 4 }, result, maxStepsPerSpan: 1_000_000, warpDt: 60 });
+    const s = r.spans[3];
+    expect(s.mode).toBe('warp');
+    expect(s.region!.dt).toBeGreaterThan(59.9);
+    expect(s.region!.dt).toBeLessThanOrEqual(60);
+    expect(r.stats.warpTime).toBeGreaterThan(200 * 86400);
+    expect(r.arrival!.basis).toBe('measured');
+  });
+
+  it('spread burns: the game and the reference fly the same finite burns', () => {
+    const r = gameStepCheck(demo, demoPlan, { physics: { integrator: 'verlet', dt: 4, burns: 'spread' }, result, maxStepsPerSpan: 1_000_000 });
+    expect(r.passes).toBe(true);
+    expect(r.arrival!.positionError).toBeLessThan(10e3);
+    // the finite departure burn (213 s) puts the reference thousands of km from the impulsive one
+    const prepImp = prepareGameStep(demo, demoPlan, { result });
+    const a = new Float64Array(6);
+    const i = r.track.t.findIndex((x) => x >= result.segments[2].t0); // leaving Tessel's sphere of influence
+    prepImp.reference.at(r.track.t[i], a);
+    const q = r.track.reference;
+    expect(Math.hypot(a[0] - q[3 * i], a[1] - q[3 * i + 1], a[2] - q[3 * i + 2])).toBeGreaterThan(1e6);
+  });
+
+  it('all-body gravity runs and keeps every number finite', () => {
+    const r = gameStepCheck(demo, demoPlan, { physics: { integrator: 'verlet', dt: 16, gravity: 'all' }, result, maxStepsPerSpan: 500_000 });
+    expect(allFinite(r)).toBeNull();
+    expect(r.spans.length).toBe(result.segments.length);
+    expect(r.reference.stats.soiChanges).toBe(0); // no sphere-of-influence switching in this model
+  });
+
+  it('result series are drawable typed arrays of one length', () => {
+    const r: GameStepResult = gameStepCheck(demo, demoPlan, { physics: { integrator: 'rk4', dt: 8 }, result, maxStepsPerSpan: 1_000_000, samplesPerSpan: 20 });
+    const n = r.series.t.length;
+    expect(r.series.t).toBeInstanceOf(Float64Array);
+    for (const a of [r.series.positionError, r.series.velocityError, r.series.energyError]) expect(a.length).toBe(n);
+    expect(r.series.basis.length).toBe(n);
+    expect(r.track.game.length).toBe(3 * n);
+    for (let i = 1; i < n; i++) expect(r.series.t[i]).toBeGreaterThanOrEqual(r.series.t[i - 1]);
+    expect(allFinite(r)).toBeNull();
   });
 });
