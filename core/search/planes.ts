@@ -3,8 +3,8 @@
  * ("plane"), row-major — cell (i, j), departure sample i and second-axis sample j, sits at
  * (i − rowStart)·nCols + j.
  *
- * Float quantities are Float32Array (about 7 significant digits: well below 1 mm/s at the
- * speeds of a transfer; 1000 × 1000 cells take 4 MB per plane). Unsolved cells hold +Infinity
+ * Float quantities are Float32Array (about 7 significant digits: a relative rounding of at
+ * most 2^−24, below 1 mm/s for speeds up to 16.7 km/s; 1000 × 1000 cells take 4 MB per plane). Unsolved cells hold +Infinity
  * in every float plane and −1 in `revs` and `branch` — never NaN.
  */
 
