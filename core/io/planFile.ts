@@ -6,7 +6,8 @@
  *     (systemFile.ts);
  *  2. `format` must be "waymark-plan"; `version` an integer no newer than PLAN_VERSION; older
  *     versions pass through the migration table one step at a time;
- *  3. JSON Schema (assets/schema/plan.schema.json, draft 2020-12, ajv with allErrors);
+ *  3. JSON Schema (assets/schema/plan.schema.json, emitted from the declaration in
+ *     planFileShape.ts; draft 2020-12, ajv with allErrors);
  *  4. semantic checks of the document (planSchema.ts `checkPlanDocument`);
  *  5. an embedded system is loaded by the system-file rules (core/io/systemFile.ts; its issues
  *     come back with paths under `system.embedded.`) and the plan is checked against it
@@ -136,10 +137,11 @@ export function parsePlanFile(text: string, options: PlanParseOptions = {}): Par
   const plan = documentToPlan(planDoc);
 
   let system: PlanSystemRef;
-  if ('embedded' in planDoc.system) {
+  const { path, embedded } = planDoc.system; // the schema's oneOf: exactly one of the two
+  if (embedded !== undefined) {
     let loaded: StarSystem;
     try {
-      const parsed = parseSystemFile(JSON.stringify(planDoc.system.embedded));
+      const parsed = parseSystemFile(JSON.stringify(embedded));
       loaded = parsed.system;
       issues.push(...prefixIssues('system.embedded', parsed.warnings));
     } catch (e) {
@@ -151,7 +153,7 @@ export function parsePlanFile(text: string, options: PlanParseOptions = {}): Par
     if (fit.some((i) => i.severity === 'error')) fail(errorsFirst(issues));
     system = { kind: 'embedded', system: loaded };
   } else {
-    system = { kind: 'path', path: planDoc.system.path };
+    system = { kind: 'path', path: path as string };
   }
   return { plan, system, warnings: issues, fileVersion };
 }

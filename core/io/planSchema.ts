@@ -1,9 +1,11 @@
 /**
- * The plan file's shape and the checks JSON Schema cannot express.
+ * The plan file's document types and the checks JSON Schema cannot express.
  *
- * `PlanDocument` is the plain-data shape of a version-1 plan file
- * (assets/schema/plan.schema.json): unit-bearing field names (`_m`, `_s`, `_mps`, `_kg`, `_N`),
- * angles in DEGREES. planFile.ts converts it to and from the in-memory `Plan` (SI, radians).
+ * `PlanDocument` is the plain-data shape of a version-1 plan file: unit-bearing field names
+ * (`_m`, `_s`, `_mps`, `_kg`, `_N`), angles in DEGREES. The shape is declared once, in
+ * planFileShape.ts (which also gives assets/schema/plan.schema.json); this module names its
+ * types for the rest of the code without loading zod. planFile.ts converts a document to and
+ * from the in-memory `Plan` (SI, radians).
  *
  * Two passes of semantic checks, both returning every issue found (errors and warnings):
  * - `checkPlanDocument(doc)` on a schema-valid document: unique event ids, a vehicle with mass
@@ -21,112 +23,27 @@ import { MAX_PLAN_SPEED, MAX_START_DISTANCE } from '../plan/index.ts';
 import type { Plan } from '../plan/index.ts';
 import { MIN_BURNOUT_FRACTION, MIN_STAGE_THRUST } from '../plan/index.ts';
 import type { StarSystem } from '../system/index.ts';
+import type { PlanDocument } from './planFileShape.ts';
 
-export const PLAN_FORMAT = 'waymark-plan';
-export const PLAN_VERSION = 1;
+export type {
+  BurnEventDocument,
+  CoastEventDocument,
+  EventDocument,
+  ParkingStartDocument,
+  PlanDocument,
+  PlanSystemDocument,
+  SolveDocument,
+  StageDocument,
+  StageEventDocument,
+  StateStartDocument,
+  TargetDocument,
+  UntilDocument,
+  VehicleDocument,
+} from './planFileShape.ts';
 
-export interface StageDocument {
-  name: string;
-  dry_kg: number;
-  propellant_kg: number;
-  isp_s: number;
-  thrust_N: number;
-}
-
-export interface VehicleDocument {
-  name: string;
-  payload_kg: number;
-  stages: StageDocument[];
-}
-
-export interface ParkingStartDocument {
-  kind: 'parking';
-  body: string;
-  epoch_s: number;
-  periapsis_altitude_m: number;
-  e?: number;
-  i_deg?: number;
-  raan_deg?: number;
-  argp_deg?: number;
-  nu_deg?: number;
-}
-
-export interface StateStartDocument {
-  kind: 'state';
-  body: string;
-  epoch_s: number;
-  r_m: [number, number, number];
-  v_mps: [number, number, number];
-}
-
-export type SolveDocument =
-  | { kind: 'fixed' }
-  | { kind: 'transfer'; to: string; arrive_s: number; revs?: number; retrograde?: boolean; periapsis_altitude_m?: number }
-  | { kind: 'capture'; e: number }
-  | { kind: 'plane'; i_deg: number }
-  | { kind: 'apsis'; altitude_m: number };
-
-export interface BurnEventDocument {
-  type: 'burn';
-  id: string;
-  name: string;
-  t_s: number | null;
-  frame: 'vnb' | 'rtn' | 'inertial';
-  dv_mps: [number, number, number];
-  solve?: SolveDocument;
-  mode?: 'impulsive' | 'finite';
-  pointing?: 'velocity' | 'inertial';
-}
-
-export type UntilDocument =
-  | { kind: 'time'; t_s: number }
-  | { kind: 'duration'; dt_s: number }
-  | { kind: 'periapsis'; body?: string }
-  | { kind: 'apoapsis'; body?: string }
-  | { kind: 'soi-change' }
-  | { kind: 'altitude'; altitude_m: number }
-  | { kind: 'node'; which: 'ascending' | 'descending' | 'any' };
-
-export interface CoastEventDocument {
-  type: 'coast';
-  id: string;
-  name: string;
-  until: UntilDocument;
-}
-
-export interface StageEventDocument {
-  type: 'stage';
-  id: string;
-  name: string;
-}
-
-export type EventDocument = BurnEventDocument | CoastEventDocument | StageEventDocument;
-
-export interface TargetDocument {
-  body: string;
-  periapsis_altitude_m: number;
-  e?: number | null;
-  apoapsis_altitude_m?: number | null;
-  i_deg?: number | null;
-  tolerance: { periapsis_altitude_m: number; e: number; i_deg: number };
-}
-
-export type PlanSystemDocument = { path: string } | { embedded: Record<string, unknown> };
-
-export interface PlanDocument {
-  $schema?: string;
-  format: typeof PLAN_FORMAT;
-  version: typeof PLAN_VERSION;
-  name: string;
-  description?: string;
-  system: PlanSystemDocument;
-  vehicle: VehicleDocument;
-  start: ParkingStartDocument | StateStartDocument;
-  events: EventDocument[];
-  target: TargetDocument | null;
-  reserve: { percent: number; absolute_mps: number };
-  end_s?: number | null;
-}
+// The format's tag and version, held to the declaration by the type checker.
+export const PLAN_FORMAT = 'waymark-plan' satisfies PlanDocument['format'];
+export const PLAN_VERSION = 1 satisfies PlanDocument['version'];
 
 function err(path: string, rule: string): ValidationIssue {
   return { path, rule, severity: 'error' };

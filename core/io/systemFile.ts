@@ -5,8 +5,9 @@
  *  1. JSON syntax, top level must be an object nested at most MAX_JSON_DEPTH levels deep;
  *  2. `format` must be "waymark-system"; `version` must be an integer no newer than
  *     SYSTEM_VERSION; older versions pass through the migration table one step at a time;
- *  3. JSON Schema (assets/schema/system.schema.json, draft 2020-12, ajv with allErrors): every
- *     schema violation is reported together;
+ *  3. JSON Schema (assets/schema/system.schema.json, emitted from the declaration in
+ *     core/system/systemFileShape.ts; draft 2020-12, ajv with allErrors): every schema
+ *     violation is reported together;
  *  4. semantic checks (core/system/validate.ts): references, masses, geometry; errors and
  *     warnings are reported together;
  *  5. building the model (radians, derived quantities, ephemeris tables).
