@@ -94,6 +94,21 @@ describe('core layering', () => {
     expect(cycles(graph())).toEqual([]);
   });
 
+  it('the schema declarations (zod, a development dependency) are never loaded at run time: only type imports reach them', () => {
+    const declaring = files(core).filter((f) => /from ['"]zod['"]/.test(readFileSync(f, 'utf8')));
+    expect(declaring.length).toBeGreaterThan(0); // the scan sees the declarations it guards
+    const bad: string[] = [];
+    for (const f of files(core)) {
+      const text = readFileSync(f, 'utf8');
+      for (const m of text.matchAll(/(import|export)(\s+type)?\s[^'"]*?from\s+['"]([^'"]+)['"]/g)) {
+        if (m[2] || !m[3].startsWith('.')) continue;
+        const target = normalize(join(dirname(f), m[3]));
+        if (declaring.includes(target)) bad.push(`${relative(core, f)} loads ${m[3]}`);
+      }
+    }
+    expect(bad).toEqual([]);
+  });
+
   it('imports no Node built-ins, DOM-only or UI packages', () => {
     const bad: string[] = [];
     for (const f of files(core)) {
