@@ -4,6 +4,10 @@ import { integrateFixed } from '../../../core/integrate/fixed.ts';
 import { spacecraftAccel } from '../../../core/integrate/gravity.ts';
 import { noRound } from '../../../core/gamestep/float32.ts';
 import { GAME_INTEGRATORS, GameCraft, kernelFor, type GameIntegrator } from '../../../core/gamestep/kernel.ts';
+import { absolutePositions, treeOrder } from '../../../core/gamestep/reference.ts';
+import { ShipForces } from '../../../core/dynamics/shipForces.ts';
+import { bodyPosition } from '../../../core/system/ephemeris.ts';
+import { demoSystem } from '../plan/helpers.ts';
 
 const MU = 3.986e14; // Earth, Curtis, Orbital Mechanics for Engineering Students, Table A.2 (from memory)
 
@@ -40,6 +44,26 @@ describe('game-step kernel', () => {
         .filter((l) => !/^const R = |^import \{ (noRound|fround) \}|arithmetic \(see kernel/.test(l))
         .join('\n');
     expect(strip('kernelF32.ts')).toBe(strip('kernelF64.ts'));
+  });
+
+  it("all-body gravity in float64 is the ship force model's star-centred acceleration, the star's indirect term included (core/dynamics/shipForces.ts)", () => {
+    const sys = demoSystem();
+    const K = kernelFor('float64');
+    const c = new GameCraft(noRound);
+    const order = treeOrder(sys);
+    const acc = K.bodiesGravity(c, sys.bodies.map((b) => b.mu), (t, out) => absolutePositions(sys, order, t, out));
+    const f = new ShipForces(sys); // origin: the star
+    const got = new Float64Array(3);
+    const want = new Float64Array(3);
+    const t = 14.2e6;
+    const T = bodyPosition(sys, sys.indexById.tessel, t, [0, 0, 0], 0);
+    for (const X of [[1.3e11, 4e10, -2e9], [T[0] + 2e7, T[1] - 1e7, T[2] + 3e6], [-6e11, 2e11, 1e10]]) {
+      acc(t, X[0], X[1], X[2], got);
+      f.accel(t, Float64Array.from(X), new Float64Array(3), want);
+      // the same terms summed in another grouping: a few roundings. Without the indirect term the
+      // two would differ by the star's acceleration, ~2e-7 m/s² (Moravel's pull): 3e-7 to 1e-3 of |a| here
+      expect(Math.hypot(got[0] - want[0], got[1] - want[1], got[2] - want[2])).toBeLessThan(1e-14 * Math.hypot(want[0], want[1], want[2]));
+    }
   });
 
   it('float32 state stays exactly representable in binary32 (IEEE 754 binary32)', () => {

@@ -86,14 +86,17 @@ describe('correctPlan on the demo plan', () => {
   const want = conicArrival(sys, demoPlan, nominal)!;
   const c = correctPlan(sys, demoPlan);
 
-  it('converges on the mid-course burn, and the n-body verification of the corrected plan arrives within 1 km, 0.01° and 10 s of the conic arrival', () => {
+  it("converges on the mid-course burn, and the n-body verification of the corrected plan arrives within the correction's tolerances (100 m, 0.001°, 1 s) of the conic arrival", () => {
     expect(c.burns.map((b) => b.planEventId)).toEqual(['mid-course']);
     expect(c.iterations).toBeLessThanOrEqual(10);
     const v = verifyNBody(sys, c.plan, evaluate(sys, c.plan, { samplesPerSegment: 0 }), { samples: false });
     const a = v.nbodyArrival!;
-    expect(Math.abs(a.altitude - want.periapsisAltitude)).toBeLessThan(1e3);
-    expect(Math.abs(a.i - want.i)).toBeLessThan(0.01 * DEG);
-    expect(Math.abs(a.t - want.t)).toBeLessThan(10);
+    // the verification re-flies the corrected plan from its start in the same model the correction
+    // flew from the burn on, so it lands within the correction's default tolerances (correct.ts);
+    // measured 0.1 m, 1e-6° and 0.04 s
+    expect(Math.abs(a.altitude - want.periapsisAltitude)).toBeLessThan(100);
+    expect(Math.abs(a.i - want.i)).toBeLessThan(1e-3 * DEG);
+    expect(Math.abs(a.t - want.t)).toBeLessThan(1);
     // before the correction the n-body arrival missed by millions of km
     expect(Math.abs(c.initial!.difference.altitude)).toBeGreaterThan(1e9);
   });
