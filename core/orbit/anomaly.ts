@@ -18,13 +18,16 @@
  *   Vallado's n_p·(t − t_p) because n here is √(μ/p³).
  *
  * Methods:
- * - Kepler's equation, elliptic: Mikkola's cubic starter (S. Mikkola, "A cubic approximation
- *   for Kepler's equation", Celestial Mechanics 40, 329–334, 1987), then Halley iteration kept
- *   inside the bracket E ∈ [M, M + e] (bisection fallback). The residual and its derivative are
- *   evaluated as (1−e)·E + e·(E − sin E) and (1−e) + e·(1 − cos E) with series / half-angle
- *   forms near E = 0, which keeps full relative accuracy as e → 1 and M → 0 (the cancellation
- *   discussed by Gooding & Odell, "The hyperbolic Kepler equation (and the elliptic equation
- *   revisited)", Celestial Mechanics 44, 267–282, 1988).
+ * - Kepler's equation, elliptic: Halley iteration kept inside the bracket E ∈ [M, M + e]
+ *   (bisection fallback), from E₀ = M below e = 0.3 and from Mikkola's cubic starter above
+ *   (S. Mikkola, "A cubic approximation for Kepler's equation", Celestial Mechanics 40,
+ *   329–334, 1987); it stops once Halley's cubic error law says the last step is exact to
+ *   rounding. From e = 0.3 the residual and its derivative are evaluated as
+ *   (1−e)·E + e·(E − sin E) and (1−e) + e·(1 − cos E) with series / half-angle forms near E = 0,
+ *   which keeps full relative accuracy as e → 1 and M → 0 (the cancellation discussed by
+ *   Gooding & Odell, "The hyperbolic Kepler equation (and the elliptic equation revisited)",
+ *   Celestial Mechanics 44, 267–282, 1988). The conic ephemeris (core/system) calls this solver
+ *   every evaluation, so its cost matters.
  * - Hyperbolic: Mikkola's hyperbolic starter (same paper), Halley in the bracket
  *   H ∈ [asinh(M/e), min(asinh(M/(e−1)), ∛(6M/e))], the same cancellation-free residual.
  * - Parabolic: Barker's cubic solved in closed form, D = 2·sinh(asinh(3M)/3).
@@ -103,48 +106,119 @@ export function meanToEccentric(M: number, e: number): number {
   if (e === 0) return M;
   const k = Math.round(M / TWO_PI);
   const Mr = k === 0 ? M : M - k * TWO_PI;
-  const m = Math.abs(Mr);
-  const E = m === 0 ? 0 : solveEllipticReduced(m, e);
-  return (Mr < 0 ? -E : E) + k * TWO_PI;
+  return solveEllipticKepler(Mr, e) + k * TWO_PI;
 }
 
-/** Solves E − e sin E = m for m ∈ (0, π]. */
+/**
+ * E with E − e·sin E = M, for M in [−π, π] (the caller reduces M) and 0 ≤ e < 1: the solver
+ * behind meanToEccentric, for hot loops such as the conic ephemeris. No input checks, no
+ * allocation. With `sinCos`, also writes [sin E, cos E] there: the last iteration's values
+ * carried across its final step by the angle-sum formulas — the two evaluations a caller would
+ * otherwise repeat.
+ */
+export function solveEllipticKepler(M: number, e: number, sinCos?: Float64Array): number {
+  const m = Math.abs(M);
+  let E = 0;
+  if (m === 0) {
+    sinOut = 0;
+    cosOut = 1;
+  } else E = solveEllipticReduced(m, e);
+  if (sinCos) {
+    sinCos[0] = M < 0 ? -sinOut : sinOut;
+    sinCos[1] = cosOut;
+  }
+  return M < 0 ? -E : E;
+}
+
+// sin E and cos E of the last solveEllipticReduced result (see solveEllipticKepler).
+let sinOut = 0;
+let cosOut = 1;
+
+function withSinCos(E: number): number {
+  sinOut = Math.sin(E);
+  cosOut = Math.cos(E);
+  return E;
+}
+
+/** Below this eccentricity the iteration starts from E₀ = M and uses the plain residual forms. */
+const LOW_E = 0.3;
+
+/** Solves E − e sin E = m for m ∈ (0, π]; leaves sin E and cos E in sinOut, cosOut. */
 function solveEllipticReduced(m: number, e: number): number {
   // tiny M: E = M/(1 − e) exactly to rounding once the cubic term e·E³/6 is below ε·(1 − e)·E
   const lin = m / (1 - e);
-  if (e * lin * lin < 6 * EPS * (1 - e)) return lin;
+  if (e * lin * lin < 6 * EPS * (1 - e)) return withSinCos(lin);
   let lo = m;
   let hi = Math.min(Math.PI, m + e);
-  // Mikkola (1987) cubic starter
-  const denom = 4 * e + 0.5;
-  const alpha = (1 - e) / denom;
-  const beta = (0.5 * m) / denom;
-  const z = Math.cbrt(beta + Math.sqrt(alpha * alpha * alpha + beta * beta));
-  // s = z − α/z written as 2β/(z² + α + α²/z²) to avoid cancellation when β ≪ α^{3/2}
-  let s = (2 * beta) / (z * z + alpha + (alpha * alpha) / (z * z));
-  const s5 = s * s * s * s * s;
-  s -= (0.078 * s5) / (1 + e);
-  let E = m + e * (3 * s - 4 * s * s * s);
-  if (!(E > lo && E < hi)) E = 0.5 * (lo + hi);
+  let E: number;
+  if (e < LOW_E) {
+    // |E − M| ≤ e: one Halley step leaves about C·e³, within reach of the a-priori stop below
+    E = m;
+  } else {
+    // Mikkola (1987) cubic starter
+    const denom = 4 * e + 0.5;
+    const alpha = (1 - e) / denom;
+    const beta = (0.5 * m) / denom;
+    const z = Math.cbrt(beta + Math.sqrt(alpha * alpha * alpha + beta * beta));
+    // s = z − α/z written as 2β/(z² + α + α²/z²) to avoid cancellation when β ≪ α^{3/2}
+    let s = (2 * beta) / (z * z + alpha + (alpha * alpha) / (z * z));
+    const s5 = s * s * s * s * s;
+    s -= (0.078 * s5) / (1 + e);
+    E = m + e * (3 * s - 4 * s * s * s);
+    if (!(E > lo && E < hi)) E = 0.5 * (lo + hi);
+  }
+  // Halley's error law: next error ≈ C·(error)³ with C = f''²/(4f'²) − f'''/(6f'), and here
+  // f' ≥ 1 − e, |f''| ≤ e, |f'''| ≤ e, so |C| ≤ q²/4 + q/6 with q = e/(1 − e) (Halley's error
+  // constant, Traub, Iterative Methods for the Solution of Equations, 1964, from memory). A step s
+  // with 2·that bound·|s|³ under ε/4
+  // of E (and |s| < 1e-3, where the bound is the law) leaves E + s exact to rounding, with no
+  // further evaluation to confirm it.
+  const q = e / (1 - e);
+  const cubeBound = 2 * (0.25 * q * q + q / 6);
   for (let it = 0; it < ANOMALY_MAX_ITER; it++) {
-    const f = keplerElliptic(E, e) - m;
-    if (f === 0) return E;
-    if (f < 0) lo = E;
-    else hi = E;
     const sinE = Math.sin(E);
     const cosE = Math.cos(E);
-    // f' = 1 − e cos E = (1 − e) + e (1 − cos E), with 1 − cos E = sin²E/(1 + cos E) for cos E > 0
-    const fp = cosE > 0 ? 1 - e + (e * sinE * sinE) / (1 + cosE) : 1 - e * cosE;
-    const fpp = e * sinE;
-    const hd = fp - (0.5 * f * fpp) / fp;
-    const step = hd > 0 ? -f / hd : -f / fp;
+    // f = E − e sin E − m and f' = 1 − e cos E; near e → 1 and E → 0 in the cancellation-free
+    // forms (1 − e)E + e(E − sin E) and (1 − e) + e·sin²E/(1 + cos E). Below LOW_E the plain
+    // forms lose nothing: e sin E ≤ 0.3·E and f' ≥ 0.7.
+    let f: number;
+    let fp: number;
+    if (e < LOW_E) {
+      f = E - e * sinE - m;
+      fp = 1 - e * cosE;
+    } else {
+      // keplerElliptic(E, e), reusing sin E where xMinusSin would evaluate it again (E > 0 here)
+      f = (E >= 0.5 ? (1 - e) * E + e * (E - sinE) : keplerElliptic(E, e)) - m;
+      fp = cosE > 0 ? 1 - e + (e * sinE * sinE) / (1 + cosE) : 1 - e * cosE;
+    }
+    if (f === 0) {
+      sinOut = sinE;
+      cosOut = cosE;
+      return E;
+    }
+    if (f < 0) lo = E;
+    else hi = E;
+    // Halley, s = −f/(f' − f·f''/(2f')) = −f·f'/(f'² − f·f''/2) with f'' = e sin E; Newton where
+    // that denominator is not positive
+    const den = fp * fp - 0.5 * f * e * sinE;
+    const step = den > 0 ? (-f * fp) / den : -f / fp;
     // converged: tested before the bracket, since a last step below the rounding of E leaves
     // En === E === lo (or hi), which the bracket test would keep bisecting away from
-    if (Math.abs(step) <= STEP_TOL * E + TINY) return E + step;
+    const a = Math.abs(step);
+    if (a <= STEP_TOL * E + TINY || (a < 1e-3 && cubeBound * a * a * a <= 0.25 * EPS * E)) {
+      // sin and cos carried across the step: sin(E + s) = sin E·cos s + cos E·sin s, with
+      // cos s and sin s from their series to s⁴ and s⁵ (the next terms are below 2e-21 for |s| < 1e-3)
+      const s2 = step * step;
+      const cs = 1 - s2 * (0.5 - s2 / 24);
+      const sn = step * (1 - s2 * (1 / 6 - s2 / 120));
+      sinOut = sinE * cs + cosE * sn;
+      cosOut = cosE * cs - sinE * sn;
+      return E + step;
+    }
     let En = E + step;
     if (!(En > lo && En < hi)) {
       En = 0.5 * (lo + hi);
-      if (hi - lo <= 4 * EPS * hi + TINY) return En;
+      if (hi - lo <= 4 * EPS * hi + TINY) return withSinCos(En);
       E = En;
       continue;
     }

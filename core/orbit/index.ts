@@ -2,7 +2,7 @@
  * Front door of core/orbit. Two-body orbits: anomalies, elements <-> state, Stumpff functions, universal-variable Kepler, Lambert, Hohmann, bi-elliptic, synodic period, sphere of influence, hyperbolic departure and arrival.
  * Other folders of core/ and the app import from here only.
  */
-export { eccentricToMean, hyperbolicToMean, trueToEccentric, trueToHyperbolic } from './anomaly.ts';
+export { eccentricToMean, hyperbolicToMean, solveEllipticKepler, trueToEccentric, trueToHyperbolic } from './anomaly.ts';
 export { bielliptic } from './bielliptic.ts';
 export { elementsToState, stateToElements } from './elements.ts';
 export { hohmann } from './hohmann.ts';

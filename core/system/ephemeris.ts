@@ -4,9 +4,8 @@
  *
  * Per body, `buildEphemerisTables` precomputes the perifocal unit vectors P (towards
  * periapsis) and Q (90° ahead in the orbit plane), a, b = a√(1−e²), e, √(1−e²), n and M0.
- * An evaluation is then: M = M0 + n t → E by Newton's method on Kepler's equation
- * M = E − e sin E (starter E₀ = M + e sin M, or M ± 0.85 e for e ≥ 0.8, Danby,
- * Fundamentals of Celestial Mechanics, 2nd ed., §6.6) →
+ * An evaluation is then: M = M0 + n t, reduced to [−π, π] → E from Kepler's equation
+ * M = E − e sin E by core/orbit/anomaly.ts (Mikkola's cubic starter, Halley iteration) →
  *   r = a (cos E − e) P + b sin E Q,
  *   v = n a / (1 − e cos E) · (−sin E P + √(1−e²) cos E Q)
  * (Vallado, Fundamentals of Astrodynamics and Applications, 4th ed., §2.2 and §3.3 for
@@ -16,7 +15,8 @@
  * chain sums use module-scope scratch.
  */
 
-import { InputError, SolverError } from '../math/index.ts';
+import { InputError } from '../math/index.ts';
+import { solveEllipticKepler } from '../orbit/index.ts';
 import type { Body, EphemerisTables, StarSystem } from './model.ts';
 
 /** Number of doubles per body in `EphemerisTables.k`. */
@@ -78,39 +78,8 @@ export function buildEphemerisTables(bodies: readonly Body[]): EphemerisTables {
 }
 
 const TWO_PI = 2 * Math.PI;
-/** Newton stops when the correction is below this (rad). */
-export const KEPLER_TOLERANCE = 1e-14;
-/** Newton iteration budget; with the Danby starter convergence takes ≤ ~6 for any e < 1. */
-export const KEPLER_MAX_ITERATIONS = 40;
-
-// Outputs of the last Kepler solve (avoids allocating a tuple).
-let sinE = 0;
-let cosE = 1;
-
-/**
- * Eccentric anomaly E from mean anomaly M (any real) for 0 ≤ e < 1, by Newton's method on
- * Kepler's equation. Returns E in (−π, π]; leaves sin E and cos E in module scratch.
- */
-export function eccentricFromMean(M: number, e: number): number {
-  // Reduce M to (−π, π].
-  let m = M - TWO_PI * Math.floor((M + Math.PI) / TWO_PI);
-  if (m <= -Math.PI) m += TWO_PI;
-  let x = e < 0.8 ? m + e * Math.sin(m) : m + (m >= 0 ? 0.85 * e : -0.85 * e);
-  for (let it = 0; it < KEPLER_MAX_ITERATIONS; it++) {
-    const s = Math.sin(x);
-    const c = Math.cos(x);
-    const dx = (x - e * s - m) / (1 - e * c);
-    x -= dx;
-    if (Math.abs(dx) < KEPLER_TOLERANCE) {
-      // One more sin/cos would be exact at x; the correction is below the tolerance, so
-      // update the pair to first order instead of re-evaluating.
-      sinE = s - c * dx;
-      cosE = c + s * dx;
-      return x;
-    }
-  }
-  throw new SolverError('kepler-equation', 'no-convergence', `Newton did not converge for M = ${M}, e = ${e}`, { M, e });
-}
+// [sin E, cos E] of the last Kepler solve
+const sinCosE = new Float64Array(2);
 
 function checkIndex(tables: EphemerisTables, index: number, field: string): void {
   if (!(index >= 0 && index < tables.count && (index | 0) === index)) {
@@ -126,7 +95,10 @@ function checkTime(t: number): void {
 function accumulate(k: Float64Array, j: number, t: number, out: Float64Array, sign: number, withVelocity: boolean): void {
   const o = j * EPHEMERIS_STRIDE;
   const e = k[o + E];
-  eccentricFromMean(k[o + M0] + k[o + N] * t, e);
+  const M = k[o + M0] + k[o + N] * t;
+  solveEllipticKepler(M - TWO_PI * Math.round(M / TWO_PI), e, sinCosE);
+  const sinE = sinCosE[0];
+  const cosE = sinCosE[1];
   const px = (k[o + A] * (cosE - e)) * sign;
   const qy = k[o + B] * sinE * sign;
   out[0] += px * k[o + PX] + qy * k[o + QX];

@@ -1,7 +1,7 @@
 /**
  * Conic ephemeris throughput: core/system/ephemeris.ts (per-body P, Q, n, b precomputed at
- * load; Newton on Kepler's equation; no allocation) for a planet relative to the star
- * (Tessel) and a moon relative to the star (Quill = Quill rel Tessel + Tessel rel star), on the
+ * load; Kepler's equation by core/orbit/anomaly.ts solveEllipticKepler; no allocation) for a
+ * planet relative to the star (Tessel) and a moon relative to the star (Quill = Quill rel Tessel + Tessel rel star), on the
  * demo system.
  *
  * References, measured in the same run on the same times:

@@ -1,11 +1,10 @@
-import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../../core/math/errors.ts';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
 import { meanToTrue } from '../../../core/orbit/anomaly.ts';
 import { elementsToState } from '../../../core/orbit/elements.ts';
 import { propagateKepler } from '../../../core/orbit/kepler.ts';
-import { bodyPosition, bodyState, bodyStateRelativeToParent, eccentricFromMean, sampleOrbit } from '../../../core/system/ephemeris.ts';
+import { bodyPosition, bodyState, bodyStateRelativeToParent, sampleOrbit } from '../../../core/system/ephemeris.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import { ODEX_CONVERGED, odexSolve, odexTwoBody } from '../integrate/odexRef.ts';
 import { demoText, planet, smallSystem } from './fixtures.ts';
@@ -22,29 +21,6 @@ function maxDiff(a: ArrayLike<number>, b: ArrayLike<number>, from: number, to: n
   for (let k = from; k < to; k++) m = Math.max(m, Math.abs(a[k] - b[k]));
   return m;
 }
-
-describe('eccentricFromMean (Kepler equation)', () => {
-  it('matches Vallado, Fundamentals of Astrodynamics and Applications, 4th ed., Example 2-1: M = 235.4°, e = 0.4 → E = 220.512074767522° (from memory)', () => {
-    const E = eccentricFromMean(235.4 * DEG, 0.4) / DEG;
-    expect(E + 360).toBeCloseTo(220.512074767522, 9);
-  });
-
-  it('matches Curtis, Orbital Mechanics for Engineering Students, 3rd ed., Example 3.2: M = 3.6029 rad, e = 0.37255 → E = 3.4794 rad (from memory)', () => {
-    expect(eccentricFromMean(3.6029, 0.37255) + 2 * Math.PI).toBeCloseTo(3.4794, 4);
-  });
-
-  it('property: satisfies E − e sin E = M (mod 2π) for 0 ≤ e < 1 (analytic)', () => {
-    fc.assert(
-      fc.property(fc.double({ min: -50, max: 50, noNaN: true }), fc.double({ min: 0, max: 0.999, noNaN: true }), (M, e) => {
-        const E = eccentricFromMean(M, e);
-        const r = E - e * Math.sin(E) - M;
-        const wrapped = r - 2 * Math.PI * Math.round(r / (2 * Math.PI));
-        expect(Math.abs(wrapped)).toBeLessThan(1e-12);
-      }),
-      { numRuns: 2000 },
-    );
-  });
-});
 
 describe('conic ephemeris: analytic cases', () => {
   const mu = 1e20;
@@ -219,7 +195,10 @@ describe('relative states through the parent chain', () => {
   it('is antisymmetric and zero relative to itself; the star is at the origin', () => {
     const a = st(idx('lough'), idx('quill'));
     const b = st(idx('quill'), idx('lough'));
-    for (let c = 0; c < 6; c++) expect(a[c]).toBeCloseTo(-b[c], 6);
+    // the two chains add the same four conic states in another order: a few ulps of the largest
+    // (Moravel about the star), not exact equality
+    const big = st(idx('moravel'));
+    for (let c = 0; c < 6; c++) expect(Math.abs(a[c] + b[c])).toBeLessThanOrEqual(4 * Number.EPSILON * norm3(big, c < 3 ? 0 : 3));
     expect(Array.from(st(idx('tessel'), idx('tessel')))).toEqual([0, 0, 0, 0, 0, 0]);
     expect(Array.from(st(0))).toEqual([0, 0, 0, 0, 0, 0]);
     expect(Array.from(st(0, idx('tessel'))).map((x, c) => x + relParent(idx('tessel'))[c])).toEqual([0, 0, 0, 0, 0, 0]);
