@@ -15,7 +15,7 @@ import {
   vnbMatrix,
   vnbToInertial,
 } from '../../../core/math/frames.ts';
-import { cross, dot, norm } from '../../../core/math/vec3.ts';
+import { cross, dot, norm, type V3 } from '../../fuzz/vec.ts';
 
 const finite = fc.double({ min: -1e8, max: 1e8, noNaN: true });
 const vec = fc.tuple(finite, finite, finite).filter((v) => norm(v) > 1);
@@ -54,8 +54,8 @@ describe('VNB and RTN frames', () => {
   });
 
   it('a prograde burn in VNB is along velocity; a radial one in RTN is along r (analytic)', () => {
-    const r1 = [1e7, 2e6, -3e6];
-    const v1 = [-1e3, 6e3, 2e3];
+    const r1: V3 = [1e7, 2e6, -3e6];
+    const v1: V3 = [-1e3, 6e3, 2e3];
     const dv = vnbToInertial(r1, v1, [10, 0, 0]);
     expectClose(dv, v1.map((x) => (10 * x) / norm(v1)), 1e-12);
     const dr = rtnToInertial(r1, v1, [5, 0, 0]);
