@@ -9,5 +9,5 @@ export type { PlanSystemRef } from './planFile.ts';
 export { PLAN_FORMAT, PLAN_VERSION, checkPlanAgainstSystem, checkPlanDocument } from './planSchema.ts';
 export { budgetReport } from './report.ts';
 export { parseSystemFile } from './systemFile.ts';
-export { parseQuantity, parseVector } from './units.ts';
+export { parseQuantity, parseRange, parseVector } from './units.ts';
 export type { Dimension } from './units.ts';

@@ -65,12 +65,17 @@ export function parseVector(field: string, text: string, dim: Dimension, n = 3):
   return parts.map((p, i) => parseQuantity(`${field}[${i}]`, p, dim));
 }
 
-/** Parses `A..B` into two quantities (either may carry a unit). */
-export function parseRange(field: string, text: string, dim: Dimension): [number, number] {
+/**
+ * Parses `A..B` into two values with END > START: quantities of dimension `dim` (either may
+ * carry a unit), or whatever `parse(field, text)` reads (e.g. calendar dates at the command
+ * line). The ends' errors name `<field>.start` and `<field>.end`.
+ */
+export function parseRange(field: string, text: string, dim: Dimension | ((field: string, text: string) => number)): [number, number] {
   const parts = text.split('..');
-  if (parts.length !== 2) throw new InputError(field, 'must be a range written START..END', text);
-  const a = parseQuantity(`${field}.start`, parts[0], dim);
-  const b = parseQuantity(`${field}.end`, parts[1], dim);
+  if (parts.length !== 2 || parts[0].trim() === '' || parts[1].trim() === '') throw new InputError(field, 'must be a range written START..END', text);
+  const parse = typeof dim === 'function' ? dim : (f: string, t: string): number => parseQuantity(f, t, dim);
+  const a = parse(`${field}.start`, parts[0]);
+  const b = parse(`${field}.end`, parts[1]);
   if (!(b > a)) throw new InputError(field, 'must have END > START', text);
   return [a, b];
 }

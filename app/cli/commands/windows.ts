@@ -19,7 +19,7 @@ import { availableParallelism } from 'node:os';
 import { readFileSync, writeFileSync } from 'node:fs';
 import type { Command } from 'commander';
 import { parseSystemFile } from '../../../core/io/index.ts';
-import { parseQuantity } from '../../../core/io/index.ts';
+import { parseQuantity, parseRange } from '../../../core/io/index.ts';
 import { InputError } from '../../../core/math/index.ts';
 import { hohmann } from '../../../core/orbit/index.ts';
 import { synodicPeriod } from '../../../core/orbit/index.ts';
@@ -51,17 +51,6 @@ export function parseTime(cal: SystemCalendar, field: string, text: string): num
     if (/^-?\d+-\d|^year\s/i.test(s)) return parseDate(cal, s, field);
     throw new InputError(field, 'must be a calendar date like "412-037" / "412-037T06:12" or a time from the epoch like "120d"', text);
   }
-}
-
-function splitRange(field: string, text: string): [string, string] {
-  const parts = text.split('..');
-  if (parts.length !== 2 || parts[0].trim() === '' || parts[1].trim() === '') throw new InputError(field, 'must be a range written START..END', text);
-  return [parts[0], parts[1]];
-}
-
-function checkOrder(field: string, a: number, b: number, text: string): [number, number] {
-  if (!(b > a)) throw new InputError(field, 'must have END after START', text);
-  return [a, b];
 }
 
 function parseGrid(text: string): [number, number] {
@@ -157,21 +146,19 @@ export function buildRequest(system: StarSystem, o: WindowsOptions): PorkchopReq
     recurrence = A.derived.period;
     hohmannTof = hohmann(central.mu, A.elements!.a, setup.rArrive).tof;
   }
+  const time = (field: string, text: string): number => parseTime(cal, field, text);
   if (o.depart !== undefined) {
-    const [a, b] = splitRange('--depart', o.depart);
-    const [t0, t1] = checkOrder('--depart', parseTime(cal, '--depart.start', a), parseTime(cal, '--depart.end', b), o.depart);
+    const [t0, t1] = parseRange('--depart', o.depart, time);
     base.depart = { start: t0, end: t1, n: nDepart };
   } else {
     base.depart = { start: 0, end: 1.5 * recurrence, n: nDepart };
   }
   if (o.arrive !== undefined) {
-    const [a, b] = splitRange('--arrive', o.arrive);
-    const [t0, t1] = checkOrder('--arrive', parseTime(cal, '--arrive.start', a), parseTime(cal, '--arrive.end', b), o.arrive);
+    const [t0, t1] = parseRange('--arrive', o.arrive, time);
     base.secondAxis = 'arrival';
     base.second = { start: t0, end: t1, n: nSecond };
   } else if (o.tof !== undefined) {
-    const [a, b] = splitRange('--tof', o.tof);
-    const [t0, t1] = checkOrder('--tof', parseQuantity('--tof.start', a, 'time'), parseQuantity('--tof.end', b, 'time'), o.tof);
+    const [t0, t1] = parseRange('--tof', o.tof, 'time');
     if (!(t0 > 0)) throw new InputError('--tof', 'must start above zero', o.tof);
     base.second = { start: t0, end: t1, n: nSecond };
   } else {

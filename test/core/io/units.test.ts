@@ -18,11 +18,18 @@ describe('units', () => {
   });
   it('parses ranges', () => {
     expect(parseRange('tof', '100d..300d', 'time')).toEqual([8640000, 25920000]);
+    // any reader of the ends, given the ends' field names (the command line reads calendar dates so)
+    const seen: string[] = [];
+    const hex = (field: string, t: string): number => (seen.push(field), parseInt(t, 16));
+    expect(parseRange('depart', 'a..ff', hex)).toEqual([10, 255]);
+    expect(seen).toEqual(['depart.start', 'depart.end']);
   });
   it('names the field and the rule on bad input', () => {
     expect(() => parseQuantity('r', '12parsec', 'length')).toThrow(/r has unknown unit "parsec"/);
     expect(() => parseVector('r1', '1,2', 'length')).toThrow(/r1 must have 3 comma-separated components/);
     expect(() => parseQuantity('x', 'abc', 'none')).toThrow(InputError);
     expect(() => parseRange('tof', '300d..100d', 'time')).toThrow(/END > START/);
+    expect(() => parseRange('tof', '100d..', 'time')).toThrow(/tof must be a range written START..END/);
+    expect(() => parseRange('tof', '1..2..3', 'time')).toThrow(/START..END/);
   });
 });
