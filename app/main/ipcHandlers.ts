@@ -15,7 +15,7 @@
  *   header says so, in a version this program reads), else it is refused: a crafted plan cannot
  *   make main hand over an arbitrary JSON file through `readSystemBeside`;
  * - a file a newer Waymark wrote is never overwritten (the renderer offers Save As instead);
- * - saves are atomic (app/node/files.ts `atomicWriteFileAsync`) and keep the previous version
+ * - saves are atomic (app/node/files.ts `atomicWriteFile`) and keep the previous version
  *   as a backup.
  */
 import { basename, dirname, isAbsolute, resolve } from 'node:path';

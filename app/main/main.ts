@@ -12,7 +12,7 @@ import { mkdir, readFile, rm, stat } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import config from '../../electron.config.ts';
-import { atomicWriteFileAsync } from '../node/files.ts';
+import { atomicWriteFile } from '../node/files.ts';
 import { IPC, type MenuCommand } from '../preload/api.ts';
 import { createCloseGuard } from './closeGuard.ts';
 import { createIpcHandlers, createRecoveryStore } from './ipcHandlers.ts';
@@ -35,7 +35,7 @@ let win: BrowserWindow | null = null;
 const files = {
   readText: (p: string) => readFile(p, 'utf8'),
   size: async (p: string) => (await stat(p)).size,
-  writeAtomic: (p: string, text: string) => atomicWriteFileAsync(p, text),
+  writeAtomic: (p: string, text: string) => atomicWriteFile(p, text),
   remove: (p: string) => rm(p, { force: true }),
 };
 

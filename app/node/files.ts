@@ -6,8 +6,9 @@
  * rename(2) replaces the target atomically within one file system):
  *  1. check the target: its folder must exist and it must not be a folder itself;
  *  2. write the data to a new temporary file in the SAME folder (`.<name>.<pid>-<random>.tmp`,
- *     created exclusively), in chunks, then fsync it so the bytes are on disk before the name
- *     points at them;
+ *     created exclusively), in chunks until every byte is written (a write may take fewer bytes
+ *     than it was given, e.g. on a full disk), then fsync it so the bytes are on disk before
+ *     the name points at them;
  *  3. keep the previous version: `<name>.bak` is replaced by the current target (a hard link,
  *     or a copy where the file system has no hard links), itself through a temporary name so
  *     an old backup is never left half-written;
@@ -19,35 +20,25 @@
  * target untouched (the old version or, after step 4, the new one — never a mix) and at worst
  * a stray `.<name>.*.tmp` file beside it.
  *
- * `atomicWriteFileAsync` is the same save with node:fs/promises (the desktop app's main process,
- * which must not block its event loop), the same steps, names and messages; its file-system
- * calls can be injected (tests make one step fail).
+ * One routine serves the command line and the main process (which must not block its event
+ * loop): it is asynchronous, on node:fs/promises, and its file-system calls can be injected
+ * (tests make one step fail). It is written here rather than taken from the write-file-atomic
+ * package (7.0.1), which would not keep these guarantees: it writes the data with one write
+ * call and does not check how many bytes were taken, so a short write would be renamed over
+ * the target; it keeps no backup and does not fsync the folder after the rename.
  *
- * Limits: `atomicWriteFile` is synchronous (plans and exports are small; a save blocks for
- * milliseconds); stray temporary files of killed saves are not cleaned up automatically.
+ * Limits: stray temporary files of killed saves are not cleaned up automatically.
  */
-import {
-  closeSync,
-  copyFileSync,
-  existsSync,
-  fsyncSync,
-  linkSync,
-  lstatSync,
-  openSync,
-  readFileSync,
-  renameSync,
-  statSync,
-  unlinkSync,
-  writeSync,
-} from 'node:fs';
+import { existsSync, lstatSync, readFileSync } from 'node:fs';
 import * as fsp from 'node:fs/promises';
 import { randomBytes } from 'node:crypto';
 import { basename, dirname, isAbsolute, join, resolve } from 'node:path';
 import { ValidationError, WaymarkError, type ValidationIssue } from '../../core/math/index.ts';
-import { PLAN_FORMAT, PLAN_VERSION, parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../core/io/index.ts';
+import { PLAN_VERSION, parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../core/io/index.ts';
 import { parseSystemFile } from '../../core/io/index.ts';
 import type { Plan } from '../../core/plan/index.ts';
 import type { StarSystem } from '../../core/system/index.ts';
+import { headerProblem, readFileHeader } from '../preload/fileHeader.ts';
 
 /** A file could not be read or written; `reason` is the plain explanation, `code` the OS code. */
 export class FileError extends WaymarkError {
@@ -109,13 +100,13 @@ interface SaveTarget {
   exists: boolean;
 }
 
-/** Step 1 over the results of stat(folder) and stat(target) (a thrown error stands for each failure). */
-function checkTarget(path: string, dirStat: () => { isDirectory(): boolean }, targetStat: () => { isDirectory(): boolean }): SaveTarget {
+/** Step 1: the folder must exist and the target must not be a folder. */
+async function checkTarget(path: string, fs: AtomicFs): Promise<SaveTarget> {
   const target = resolve(path);
   const dir = dirname(target);
   let d;
   try {
-    d = dirStat();
+    d = await fs.stat(dir);
   } catch (e) {
     const w = why(e, `the folder ${dir}`);
     throw new FileError(path, 'save', w.reason, w.code);
@@ -123,7 +114,7 @@ function checkTarget(path: string, dirStat: () => { isDirectory(): boolean }, ta
   if (!d.isDirectory()) throw new FileError(path, 'save', `${dir} is not a folder`);
   let exists = false;
   try {
-    if (targetStat().isDirectory()) throw new FileError(path, 'save', `${target} is a folder, not a file`, 'EISDIR');
+    if ((await fs.stat(target)).isDirectory()) throw new FileError(path, 'save', `${target} is a folder, not a file`, 'EISDIR');
     exists = true;
   } catch (e) {
     if (e instanceof FileError) throw e;
@@ -135,136 +126,17 @@ function checkTarget(path: string, dirStat: () => { isDirectory(): boolean }, ta
   return { target, dir, name: basename(target), exists };
 }
 
-/** Settles a promise into a value-or-error pair, so checkTarget can serve the async save too. */
-async function settle<T>(p: Promise<T>): Promise<() => T> {
-  try {
-    const v = await p;
-    return () => v;
-  } catch (e) {
-    return () => {
-      throw e;
-    };
-  }
-}
-
-/** Saves `data` to `path` atomically, keeping the previous version as `<path>.bak`. */
-export function atomicWriteFile(path: string, data: string | Uint8Array, options: AtomicWriteOptions = {}): void {
-  const fail = (reason: string, code: string | null = null): never => {
-    throw new FileError(path, 'save', reason, code);
-  };
-
-  // 1. The folder and the target.
-  const resolved = resolve(path);
-  const { target, dir, name, exists: targetExists } = checkTarget(
-    path,
-    () => statSync(dirname(resolved)),
-    () => statSync(resolved),
-  );
-
-  const bytes = typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
-  const chunk = Math.max(1, Math.floor(options.chunkSize ?? 1 << 20));
-  const tmp = tempPath(dir, name);
-  let fd = -1;
-  const cleanup = (): void => {
-    if (fd >= 0) {
-      try {
-        closeSync(fd);
-      } catch {
-        // already closed or invalid: nothing left to release
-      }
-      fd = -1;
-    }
-    try {
-      unlinkSync(tmp);
-    } catch {
-      // never created, or already gone
-    }
-  };
-
-  // 2. Temporary file, written and flushed.
-  try {
-    fd = openSync(tmp, 'wx', 0o644);
-  } catch (e) {
-    const w = why(e, `the folder ${dir}`);
-    fail(`cannot create a temporary file: ${w.reason}`, w.code);
-  }
-  try {
-    let written = 0;
-    while (written < bytes.length) {
-      const n = writeSync(fd, bytes, written, Math.min(chunk, bytes.length - written));
-      written += n;
-      options.onProgress?.(written, bytes.length);
-    }
-    if (bytes.length === 0) options.onProgress?.(0, 0);
-    fsyncSync(fd);
-    closeSync(fd);
-    fd = -1;
-  } catch (e) {
-    cleanup();
-    const w = why(e, tmp);
-    fail(`writing the temporary file failed: ${w.reason}; ${path} is unchanged`, w.code);
-  }
-
-  // 3. Backup of the previous version.
-  if (targetExists && options.backup !== false) {
-    const bak = backupPath(target);
-    const bakTmp = tempPath(dir, name, 'bak');
-    try {
-      try {
-        linkSync(target, bakTmp);
-      } catch {
-        copyFileSync(target, bakTmp);
-      }
-      renameSync(bakTmp, bak);
-    } catch (e) {
-      try {
-        unlinkSync(bakTmp);
-      } catch {
-        // not created
-      }
-      cleanup();
-      const w = why(e, bak);
-      fail(`cannot keep the previous version as ${bak}: ${w.reason}; ${path} is unchanged`, w.code);
-    }
-  }
-
-  // 4. Rename over the target; make the rename durable.
-  try {
-    renameSync(tmp, target);
-  } catch (e) {
-    cleanup();
-    const w = why(e, target);
-    fail(`${w.reason}; ${path} is unchanged`, w.code);
-  }
-  try {
-    const dfd = openSync(dir, 'r');
-    try {
-      fsyncSync(dfd);
-    } finally {
-      closeSync(dfd);
-    }
-  } catch {
-    // Some platforms (Windows) cannot fsync a folder; the rename has happened regardless.
-  }
-}
-
-/** The part of node:fs/promises the async save uses (injectable: tests make one step fail). */
+/** The part of node:fs/promises the save uses (injectable: tests make one step fail). */
 export type AtomicFs = Pick<typeof fsp, 'stat' | 'open' | 'link' | 'copyFile' | 'rename' | 'unlink'>;
 
-/**
- * `atomicWriteFile` with node:fs/promises: the same four steps, backup and messages, without
- * blocking the event loop (the desktop app's main process saves through it).
- */
-export async function atomicWriteFileAsync(path: string, data: string | Uint8Array, options: AtomicWriteOptions = {}, fs: AtomicFs = fsp): Promise<void> {
+/** Saves `data` to `path` atomically, keeping the previous version as `<path>.bak` (see the file comment). */
+export async function atomicWriteFile(path: string, data: string | Uint8Array, options: AtomicWriteOptions = {}, fs: AtomicFs = fsp): Promise<void> {
   const fail = (reason: string, code: string | null = null): never => {
     throw new FileError(path, 'save', reason, code);
   };
 
   // 1. The folder and the target.
-  const resolved = resolve(path);
-  const dirStat = await settle(fs.stat(dirname(resolved)));
-  const targetStat = await settle(fs.stat(resolved));
-  const { target, dir, name, exists: targetExists } = checkTarget(path, dirStat, targetStat);
+  const { target, dir, name, exists: targetExists } = await checkTarget(path, fs);
 
   const bytes = typeof data === 'string' ? Buffer.from(data, 'utf8') : data;
   const chunk = Math.max(1, Math.floor(options.chunkSize ?? 1 << 20));
@@ -429,35 +301,22 @@ export function loadPlanFile(path: string): LoadedPlan {
  * Saves a plan atomically (keeping `<path>.bak`). Refuses (FileError, nothing written) to save
  * over a plan file written by a newer version of the program: this one would silently drop
  * whatever the newer format holds. A target that is not a readable plan file (missing, another
- * kind of file, damaged JSON) is saved over as usual.
+ * kind of file, damaged JSON) is saved over as usual. The same header rule
+ * (app/preload/fileHeader.ts) keeps the desktop app's saves off such files.
  */
-export function savePlanFile(path: string, plan: Plan, systemRef: PlanSystemRef, options: AtomicWriteOptions = {}): void {
-  const newer = newerPlanVersion(path);
-  if (newer !== null) {
+export async function savePlanFile(path: string, plan: Plan, systemRef: PlanSystemRef, options: AtomicWriteOptions = {}): Promise<void> {
+  let text: string | null = null;
+  try {
+    text = await fsp.readFile(path, 'utf8');
+  } catch {
+    // nothing readable there: nothing to protect
+  }
+  if (text !== null && headerProblem(text, 'plan')?.newer) {
     throw new FileError(
       path,
       'save',
-      `it was written by a newer Waymark (plan file version ${newer}; this program writes version ${PLAN_VERSION}); saving would lose what that version added — save under another name`,
+      `it was written by a newer Waymark (plan file version ${readFileHeader(text)!.version}; this program writes version ${PLAN_VERSION}); saving would lose what that version added — save under another name`,
     );
   }
-  atomicWriteFile(path, serializePlanFile(plan, systemRef), options);
-}
-
-/** The version of the plan file at `path` when it is newer than PLAN_VERSION, else null. */
-function newerPlanVersion(path: string): number | null {
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch {
-    return null;
-  }
-  let raw: unknown;
-  try {
-    raw = JSON.parse(text);
-  } catch {
-    return null;
-  }
-  if (typeof raw !== 'object' || raw === null || Array.isArray(raw)) return null;
-  const doc = raw as Record<string, unknown>;
-  return doc.format === PLAN_FORMAT && typeof doc.version === 'number' && doc.version > PLAN_VERSION ? doc.version : null;
+  await atomicWriteFile(path, serializePlanFile(plan, systemRef), options);
 }

@@ -1,7 +1,8 @@
 /**
  * The kind and version a Waymark file declares (`"format"`, `"version"`), read without checking
  * the rest. Shared by the main process (its IPC handlers refuse text that is not the kind of file
- * a channel carries) and the renderer's hosts (neither overwrites a file a newer Waymark wrote).
+ * a channel carries), the renderer's hosts and the command line's plan saves (app/node/files.ts)
+ * (none overwrites a file a newer Waymark wrote).
  * The full, field-precise checks stay in core/io (planFile.ts, systemFile.ts), run by the renderer.
  */
 import { PLAN_FORMAT, PLAN_VERSION } from '../../core/io/index.ts';

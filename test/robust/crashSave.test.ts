@@ -129,21 +129,21 @@ describe('a plan file written by a newer version', () => {
     expect(issue.rule).toMatch(/newer/);
   });
 
-  it('regression (savePlanFile over a version-2 file): the save is refused and the file is left as it was', () => {
+  it('regression (savePlanFile over a version-2 file): the save is refused and the file is left as it was', async () => {
     const p = join(work, 'newer-save.plan.json');
     const text = newer();
     writeFileSync(p, text);
-    expect(() => savePlanFile(p, samplePlan(), { kind: 'path', path: SYSTEM })).toThrow(FileError);
-    expect(() => savePlanFile(p, samplePlan(), { kind: 'path', path: SYSTEM })).toThrow(/newer Waymark \(plan file version 2/);
+    await expect(savePlanFile(p, samplePlan(), { kind: 'path', path: SYSTEM })).rejects.toThrow(FileError);
+    await expect(savePlanFile(p, samplePlan(), { kind: 'path', path: SYSTEM })).rejects.toThrow(/newer Waymark \(plan file version 2/);
     expect(readFileSync(p, 'utf8')).toBe(text);
     expect(existsSync(`${p}.bak`)).toBe(false);
   });
 
-  it('a damaged or foreign file in the way is still saved over (only a newer plan file is protected)', () => {
+  it('a damaged or foreign file in the way is still saved over (only a newer plan file is protected)', async () => {
     for (const old of ['{"format": "waymark-plan", "version": 2', '{"format": "waymark-system", "version": 9}', 'not json']) {
       const p = join(work, `overwrite-${old.length}.plan.json`);
       writeFileSync(p, old);
-      savePlanFile(p, samplePlan(), { kind: 'path', path: SYSTEM });
+      await savePlanFile(p, samplePlan(), { kind: 'path', path: SYSTEM });
       expect(parsePlanFile(readFileSync(p, 'utf8')).plan.name).toBe(samplePlan().name);
     }
   });

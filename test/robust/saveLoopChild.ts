@@ -12,6 +12,6 @@ const [target, a, b] = process.argv.slice(2);
 const versions = [a, b].map((f) => parsePlanFile(readFileSync(f, 'utf8')));
 for (let k = 0; ; k++) {
   const v = versions[k % 2];
-  savePlanFile(target, v.plan, v.system);
+  await savePlanFile(target, v.plan, v.system);
   if (k === 0) writeSync(1, 'ready\n');
 }

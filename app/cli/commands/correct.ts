@@ -43,14 +43,14 @@ export function addCorrectCommand(program: Command): void {
     .option('--max-iterations <n>', 'Newton iterations at most', '15')
     .option('--json', 'machine-readable output')
     .action((planPath: string, o: { output: string; burn?: string[]; time?: boolean; maxIterations: string; json?: boolean }) =>
-      guard(!!o.json, () => {
+      guard(!!o.json, async () => {
         const maxIterations = Number(o.maxIterations);
         if (!Number.isInteger(maxIterations) || maxIterations < 1) throw new InputError('--max-iterations', 'must be a whole number >= 1', o.maxIterations);
         if (resolve(o.output) === resolve(planPath)) throw new InputError('--output', 'must not be the input plan (keep the original)', o.output);
         const loaded = loadPlanFile(planPath);
         const { system } = loaded;
         const c = correctPlan(system, loaded.plan, { burns: o.burn, time: !!o.time, maxIterations });
-        savePlanFile(o.output, c.plan, systemRefFor(o.output, loaded.systemRef, loaded.systemPath));
+        await savePlanFile(o.output, c.plan, systemRefFor(o.output, loaded.systemRef, loaded.systemPath));
         if (o.json) {
           printJson({
             plan: loaded.plan.name,

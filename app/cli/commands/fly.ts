@@ -59,7 +59,7 @@ export function addFlyCommand(program: Command): void {
     .option('--step <t>', 'ephemeris step (s, min, h, d)', String(DEFAULT_STEP))
     .option('--json', 'machine-readable output')
     .action((planPath: string, o: { model: string; oem?: string; csv?: string; burns?: string; report?: string; step: string; json?: boolean }) =>
-      guard(!!o.json, () => {
+      guard(!!o.json, async () => {
         if (!(MODELS as readonly string[]).includes(o.model)) throw new InputError('--model', `must be one of: ${MODELS.join(', ')}`, o.model);
         const step = parseQuantity('--step', o.step, 'time');
         if (!(step > 0)) throw new InputError('--step', 'must be > 0', o.step);
@@ -78,20 +78,20 @@ export function addFlyCommand(program: Command): void {
               comments: [`Plan: ${plan.name}; ${nbody ? 'restricted n-body model (RK45)' : 'patched-conic model'}; step ${step} s.`],
               spanComments: burnComments(result, eph.spans),
             });
-            atomicWriteFile(o.oem, text);
+            await atomicWriteFile(o.oem, text);
             files.oem = o.oem;
           }
           if (o.csv) {
-            atomicWriteFile(o.csv, ephemerisCsv(system, eph));
+            await atomicWriteFile(o.csv, ephemerisCsv(system, eph));
             files.csv = o.csv;
           }
         }
         if (o.burns) {
-          atomicWriteFile(o.burns, burnTableCsv(result.budget));
+          await atomicWriteFile(o.burns, burnTableCsv(result.budget));
           files.burns = o.burns;
         }
         if (o.report) {
-          atomicWriteFile(o.report, budgetReport(system, plan, result));
+          await atomicWriteFile(o.report, budgetReport(system, plan, result));
           files.report = o.report;
         }
 

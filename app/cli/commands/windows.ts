@@ -16,7 +16,7 @@
  * ends in .csv). Exit code 1 when no window is found.
  */
 import { availableParallelism } from 'node:os';
-import { readFileSync, writeFileSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
 import { parseSystemFile } from '../../../core/io/index.ts';
 import { parseQuantity, parseRange } from '../../../core/io/index.ts';
@@ -30,6 +30,7 @@ import { FROM_PARENT, prepareTransfer, SIBLINGS, type TransferCell } from '../..
 import { findWindows, type TransferWindow } from '../../../core/search/index.ts';
 import { formatCompactDate, parseDate } from '../../../core/system/index.ts';
 import { findBodyIndex, type StarSystem, type SystemCalendar } from '../../../core/system/index.ts';
+import { atomicWriteFile } from '../../node/files.ts';
 import { EXIT_NO, guard, jsonReplacer, num, printJson } from '../output.ts';
 import { computePorkchopPooled } from '../pool.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
@@ -210,7 +211,8 @@ function windowsCsv(cal: SystemCalendar, ws: TransferWindow[]): string {
   return [CSV_HEADER.join(','), ...rows].join('\n') + '\n';
 }
 
-function gridFile(path: string, grid: PorkchopGrid): void {
+/** Writes the whole grid to `path` (atomically, like every file the command line writes). */
+async function gridFile(path: string, grid: PorkchopGrid): Promise<void> {
   if (path.toLowerCase().endsWith('.csv')) {
     const { nRows, nCols } = grid.planes;
     const lines = [['i', 'j', 'departure_s', grid.request.secondAxis === 'arrival' ? 'arrival_s' : 'tof_s', ...FLOAT_PLANES, ...INT_PLANES].join(',')];
@@ -220,7 +222,7 @@ function gridFile(path: string, grid: PorkchopGrid): void {
         lines.push([i, j, grid.departTimes[i], grid.secondValues[j], ...FLOAT_PLANES.map((p) => grid.planes[p][k]), ...INT_PLANES.map((p) => grid.planes[p][k])].join(','));
       }
     }
-    writeFileSync(path, lines.join('\n') + '\n');
+    await atomicWriteFile(path, lines.join('\n') + '\n');
   } else {
     const doc = {
       request: grid.request,
@@ -230,7 +232,7 @@ function gridFile(path: string, grid: PorkchopGrid): void {
       unsolved: grid.unsolved,
       planes: Object.fromEntries([...FLOAT_PLANES, ...INT_PLANES].map((p) => [p, grid.planes[p]])),
     };
-    writeFileSync(path, JSON.stringify(doc, jsonReplacer) + '\n');
+    await atomicWriteFile(path, JSON.stringify(doc, jsonReplacer) + '\n');
   }
 }
 
@@ -333,7 +335,7 @@ export function addWindowsCommand(program: Command): void {
           bar.stop();
           process.removeListener('SIGINT', onSigint);
         }
-        if (o.gridOut) gridFile(o.gridOut, grid);
+        if (o.gridOut) await gridFile(o.gridOut, grid);
         const m = gridMinimum(grid);
         const min = m ? gridCell(system, grid, m.i, m.j) : null;
         const windows = findWindows(system, grid, { count: top });

@@ -1,5 +1,6 @@
 import { spawn } from 'node:child_process';
 import { chmodSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import * as fsp from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -56,75 +57,128 @@ function runAndKill(args: string[], signal: string, delayMs = 0): Promise<void> 
 const tmpFiles = (dir: string) => readdirSync(dir).filter((f) => f.endsWith('.tmp'));
 
 describe('atomicWriteFile', () => {
-  it('writes the file and keeps the previous version as <name>.bak', () => {
+  it('writes the file and keeps the previous version as <name>.bak', async () => {
     const dir = freshDir();
     const p = join(dir, 'a.txt');
-    atomicWriteFile(p, 'first\n');
+    await atomicWriteFile(p, 'first\n');
     expect(readFileSync(p, 'utf8')).toBe('first\n');
     expect(existsSync(backupPath(p))).toBe(false);
-    atomicWriteFile(p, 'second\n');
+    await atomicWriteFile(p, 'second\n');
     expect(readFileSync(p, 'utf8')).toBe('second\n');
     expect(readFileSync(`${p}.bak`, 'utf8')).toBe('first\n');
-    atomicWriteFile(p, 'third\n');
+    await atomicWriteFile(p, 'third\n');
     expect(readFileSync(`${p}.bak`, 'utf8')).toBe('second\n');
     expect(tmpFiles(dir)).toEqual([]);
   });
 
-  it('backup: false keeps no backup', () => {
+  it('backup: false keeps no backup', async () => {
     const dir = freshDir();
     const p = join(dir, 'a.txt');
-    atomicWriteFile(p, 'one');
-    atomicWriteFile(p, 'two', { backup: false });
+    await atomicWriteFile(p, 'one');
+    await atomicWriteFile(p, 'two', { backup: false });
     expect(existsSync(`${p}.bak`)).toBe(false);
     expect(readFileSync(p, 'utf8')).toBe('two');
   });
 
-  it('a target that is a folder: the save fails, says why, and changes nothing', () => {
+  it('a target that is a folder: the save fails, says why, and changes nothing', async () => {
     const dir = freshDir();
     const p = join(dir, 'plan.json');
     mkdirSync(p);
     writeFileSync(join(p, 'inside.txt'), 'keep');
-    expect(() => atomicWriteFile(p, 'x')).toThrow(FileError);
-    expect(() => atomicWriteFile(p, 'x')).toThrow(/is a folder, not a file/);
+    await expect(atomicWriteFile(p, 'x')).rejects.toThrow(FileError);
+    await expect(atomicWriteFile(p, 'x')).rejects.toThrow(/is a folder, not a file/);
     expect(statSync(p).isDirectory()).toBe(true);
     expect(readFileSync(join(p, 'inside.txt'), 'utf8')).toBe('keep');
     expect(tmpFiles(dir)).toEqual([]);
   });
 
-  it('a folder that does not exist: the save fails and says so', () => {
+  it('a folder that does not exist: the save fails and says so', async () => {
     const p = join(work, 'no-such-folder', 'plan.json');
-    expect(() => atomicWriteFile(p, 'x')).toThrow(/cannot save .*plan\.json: the folder .*no-such-folder does not exist \(ENOENT\)/);
+    await expect(atomicWriteFile(p, 'x')).rejects.toThrow(/cannot save .*plan\.json: the folder .*no-such-folder does not exist \(ENOENT\)/);
   });
 
-  it('a backup that cannot be kept: the save fails, the old file stays, no temporary file is left', () => {
+  it('a backup that cannot be kept: the save fails, the old file stays, no temporary file is left', async () => {
     const dir = freshDir();
     const p = join(dir, 'plan.json');
-    atomicWriteFile(p, 'old contents');
+    await atomicWriteFile(p, 'old contents');
     mkdirSync(`${p}.bak`);
     writeFileSync(join(`${p}.bak`, 'blocker'), 'x'); // a non-empty folder cannot be renamed over
-    expect(() => atomicWriteFile(p, 'new contents')).toThrow(/cannot keep the previous version as .*plan\.json\.bak: .*plan\.json is unchanged/);
+    await expect(atomicWriteFile(p, 'new contents')).rejects.toThrow(/cannot keep the previous version as .*plan\.json\.bak: .*plan\.json is unchanged/);
     expect(readFileSync(p, 'utf8')).toBe('old contents');
     expect(tmpFiles(dir)).toEqual([]);
   });
 
-  it.skipIf(process.getuid?.() === 0)('a folder that is not writable: the save fails, says why, and the old file stays', () => {
+  it.skipIf(process.getuid?.() === 0)('a folder that is not writable: the save fails, says why, and the old file stays', async () => {
     const dir = freshDir();
     const p = join(dir, 'plan.json');
-    atomicWriteFile(p, 'old contents');
+    await atomicWriteFile(p, 'old contents');
     chmodSync(dir, 0o555);
     try {
-      expect(() => atomicWriteFile(p, 'new')).toThrow(/cannot create a temporary file: permission denied/);
+      await expect(atomicWriteFile(p, 'new')).rejects.toThrow(/cannot create a temporary file: permission denied/);
       expect(readFileSync(p, 'utf8')).toBe('old contents');
     } finally {
       chmodSync(dir, 0o755);
     }
   });
 
+  it('writes in chunks until every byte is in (progress reaches the total) and leaves nothing else behind', async () => {
+    const dir = freshDir();
+    const p = join(dir, 'a.txt');
+    const seen: number[] = [];
+    await atomicWriteFile(p, 'x'.repeat(10), { chunkSize: 3, onProgress: (w) => seen.push(w) });
+    expect(seen).toEqual([3, 6, 9, 10]);
+    expect(readdirSync(dir)).toEqual(['a.txt']);
+  });
+
+  it('a write that takes fewer bytes than it was given is continued, not renamed over the target short', async () => {
+    const dir = freshDir();
+    const p = join(dir, 'short.plan.json');
+    await atomicWriteFile(p, 'old');
+    const text = serializePlanFile(samplePlan(), ref(dir));
+    // a file system that takes at most 1000 bytes a call (as write(2) may on a full disk)
+    const stingy = {
+      ...fsp,
+      open: async (path: string, flags: string, mode?: number) => {
+        const fh = await fsp.open(path, flags, mode);
+        const write = fh.write.bind(fh) as (b: Uint8Array, o: number, l: number) => Promise<{ bytesWritten: number }>;
+        return Object.assign(fh, { write: (b: Uint8Array, o: number, l: number) => write(b, o, Math.min(l, 1000)) });
+      },
+    };
+    await atomicWriteFile(p, text, {}, stingy as never);
+    expect(readFileSync(p, 'utf8')).toBe(text);
+    expect(readFileSync(`${p}.bak`, 'utf8')).toBe('old');
+  });
+
+  it('the final rename failing (disk full) leaves the original and no temporary file, and says the file is unchanged', async () => {
+    const dir = freshDir();
+    const p = join(dir, 'a.plan.json');
+    writeFileSync(p, 'original');
+    let calls = 0;
+    const failing = {
+      ...fsp,
+      rename: async (a: string, b: string) => {
+        // the first rename puts the backup in place, the second is the save's own
+        if (++calls === 2) throw Object.assign(new Error('no space left'), { code: 'ENOSPC' });
+        return fsp.rename(a, b);
+      },
+    };
+    await expect(atomicWriteFile(p, 'new', {}, failing as never)).rejects.toThrow(/the disk is full \(ENOSPC\); .*a\.plan\.json is unchanged/);
+    expect(readFileSync(p, 'utf8')).toBe('original');
+    expect(tmpFiles(dir)).toEqual([]);
+  });
+
+  it('writes UTF-8 text exactly (Δv, °)', async () => {
+    const dir = freshDir();
+    const p = join(dir, 'u.json');
+    await atomicWriteFile(p, '{"name":"Δv 3° — ok"}\n');
+    expect(readFileSync(p, 'utf8')).toBe('{"name":"Δv 3° — ok"}\n');
+  });
+
   it('a process killed in the middle of writing leaves the old file intact', async () => {
     const dir = freshDir();
     const p = join(dir, 'plan.json');
     const old = serializePlanFile(samplePlan(), ref(dir));
-    atomicWriteFile(p, old);
+    await atomicWriteFile(p, old);
     const bytes = 8 << 20;
     await runAndKill(['mid-write', p, String(bytes)], 'half');
     expect(readFileSync(p, 'utf8')).toBe(old);
@@ -136,7 +190,7 @@ describe('atomicWriteFile', () => {
     expect(size).toBeGreaterThan(0);
     expect(size).toBeLessThan(bytes);
     // The next save is not disturbed by the stray file.
-    atomicWriteFile(p, old.replace('Sample run', 'Sample run 2'));
+    await atomicWriteFile(p, old.replace('Sample run', 'Sample run 2'));
     expect(parsePlanFile(readFileSync(p, 'utf8')).plan.name).toBe('Sample run 2');
   });
 
@@ -168,38 +222,36 @@ describe('loadPlanFile and savePlanFile', () => {
     expect(resolveSystemPath('/x/plans/a.plan.json', '/abs/s.json')).toBe('/abs/s.json');
   });
 
-  it('saves and loads a plan with its system; a second save keeps the backup', () => {
+  it('saves and loads a plan with its system; a second save keeps the backup', async () => {
     const dir = freshDir();
     const p = join(dir, 'trip.plan.json');
-    savePlanFile(p, samplePlan(), ref(dir));
+    await savePlanFile(p, samplePlan(), ref(dir));
     const loaded = loadPlanFile(p);
     expect(loaded.plan).toEqual(samplePlan());
     expect(loaded.system.name).toBe('Ilmar');
     expect(loaded.systemPath).toBe(SYSTEM);
     const changed = { ...loaded.plan, name: 'Changed' };
-    savePlanFile(p, changed, loaded.systemRef);
+    await savePlanFile(p, changed, loaded.systemRef);
     expect(loadPlanFile(p).plan.name).toBe('Changed');
     expect(parsePlanFile(readFileSync(`${p}.bak`, 'utf8')).plan.name).toBe('Sample run');
   });
 
-  it('loads an embedded system without reading another file', () => {
+  it('loads an embedded system without reading another file', async () => {
     const dir = freshDir();
     const p = join(dir, 'e.plan.json');
-    const sys = loadPlanFile((() => {
-      const q = join(dir, 'with-path.plan.json');
-      savePlanFile(q, samplePlan(), ref(dir));
-      return q;
-    })()).system;
-    savePlanFile(p, samplePlan(), { kind: 'embedded', system: sys });
+    const q = join(dir, 'with-path.plan.json');
+    await savePlanFile(q, samplePlan(), ref(dir));
+    const sys = loadPlanFile(q).system;
+    await savePlanFile(p, samplePlan(), { kind: 'embedded', system: sys });
     const loaded = loadPlanFile(p);
     expect(loaded.systemPath).toBeNull();
     expect(loaded.system.bodies.length).toBe(sys.bodies.length);
   });
 
-  it('a missing system file is reported against system.path', () => {
+  it('a missing system file is reported against system.path', async () => {
     const dir = freshDir();
     const p = join(dir, 'lost.plan.json');
-    savePlanFile(p, samplePlan(), { kind: 'path', path: 'nowhere/none.system.json' });
+    await savePlanFile(p, samplePlan(), { kind: 'path', path: 'nowhere/none.system.json' });
     try {
       loadPlanFile(p);
       expect.unreachable();
@@ -210,12 +262,12 @@ describe('loadPlanFile and savePlanFile', () => {
     }
   });
 
-  it('a plan naming a body the system lacks is refused after the system is read', () => {
+  it('a plan naming a body the system lacks is refused after the system is read', async () => {
     const dir = freshDir();
     const p = join(dir, 'bad.plan.json');
     const plan = samplePlan();
     plan.target = { ...plan.target!, body: 'atlantis' };
-    savePlanFile(p, plan, ref(dir));
+    await savePlanFile(p, plan, ref(dir));
     expect(() => loadPlanFile(p)).toThrow(/target\.body names no body of system "Ilmar" \(got "atlantis"/);
   });
 

@@ -17,7 +17,7 @@ if (mode === 'mid-write') {
   const bytes = Number(rest[0]);
   const data = Buffer.alloc(bytes, 0x7a);
   let told = false;
-  atomicWriteFile(target, data, {
+  await atomicWriteFile(target, data, {
     chunkSize: 1 << 16,
     onProgress(written, total) {
       if (!told && written >= total / 2) {
@@ -30,7 +30,7 @@ if (mode === 'mid-write') {
 } else if (mode === 'loop') {
   const texts = [readFileSync(rest[0], 'utf8'), readFileSync(rest[1], 'utf8')];
   for (let k = 0; ; k++) {
-    atomicWriteFile(target, texts[k % 2], { chunkSize: 1 << 14 });
+    await atomicWriteFile(target, texts[k % 2], { chunkSize: 1 << 14 });
     if (k === 0) writeSync(1, 'started\n');
   }
 } else {

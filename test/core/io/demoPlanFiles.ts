@@ -27,7 +27,7 @@ if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
   const { atomicWriteFile } = await import('../../../app/node/files.ts');
   for (const { file, plan } of DEMO_PLAN_FILES) {
     const path = fileURLToPath(new URL(file, PLANS_DIR));
-    atomicWriteFile(path, demoPlanText(plan), { backup: false });
+    await atomicWriteFile(path, demoPlanText(plan), { backup: false });
     console.log(`wrote ${path}`);
   }
 }

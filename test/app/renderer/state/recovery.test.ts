@@ -15,7 +15,7 @@ import { afterAll, afterEach, describe, expect, it, vi } from 'vitest';
 import { evaluate } from '../../../../core/conic/evaluate.ts';
 import { createIpcHandlers, createRecoveryStore, type Handler } from '../../../../app/main/ipcHandlers.ts';
 import { createRecentStore } from '../../../../app/main/recentFiles.ts';
-import { atomicWriteFileAsync } from '../../../../app/node/files.ts';
+import { atomicWriteFile } from '../../../../app/node/files.ts';
 import { IPC, type WaymarkBridge } from '../../../../app/preload/api.ts';
 import { createBrowserHost, STORAGE_KEYS, type BrowserEnv } from '../../../../app/renderer/host/browserHost.ts';
 import { createElectronHost } from '../../../../app/renderer/host/electronHost.ts';
@@ -162,7 +162,7 @@ function mainProcess(userData: string): Record<string, Handler> {
   const files = {
     readText: (p: string) => readFile(p, 'utf8'),
     size: async (p: string) => (await stat(p)).size,
-    writeAtomic: (p: string, t: string) => atomicWriteFileAsync(p, t),
+    writeAtomic: (p: string, t: string) => atomicWriteFile(p, t),
     remove: (p: string) => rm(p, { force: true }),
   };
   return createIpcHandlers({
@@ -253,7 +253,7 @@ describe('recovery after a crash — Electron host, main process, recovery file 
     crash(s1);
     const file = join(userData, 'recovery.json');
     const text = readFileSync(file, 'utf8');
-    await atomicWriteFileAsync(file, text.slice(0, Math.floor(text.length / 2)), { backup: false });
+    await atomicWriteFile(file, text.slice(0, Math.floor(text.length / 2)), { backup: false });
     const s2 = await start(createElectronHost(bridgeTo(mainProcess(userData))));
     expect(offerOf(s2)).toBeUndefined();
     expect(s2.doc.get().plan.name).toBe('Long Patience to Ochre');
