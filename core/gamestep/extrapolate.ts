@@ -23,7 +23,7 @@
  *   propagate it. Series points carry a basis code: measured, extrapolated, or measured after an
  *   extrapolated region.
  * Checked against flying the demo cruise whole (test/core/gamestep/extrapolate.test.ts: step
- * scaling within 5 % of the flown arrival miss; at 1/60 s semi-implicit Euler 2,243 m
+ * scaling within 2 % of the flown arrival miss; at 1/60 s semi-implicit Euler 2,243 m
  * extrapolated against 2,250 m flown whole). The window fit is cruder: a power law over a
  * window much shorter than an orbit can miss growth that sets in later. With `warpDt`, or
  * `maxStepsPerSpan` above the region's steps, nothing is extrapolated.

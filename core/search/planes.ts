@@ -4,8 +4,9 @@
  * (i − rowStart)·nCols + j.
  *
  * Float quantities are Float32Array (about 7 significant digits: a relative rounding of at
- * most 2^−24, below 1 mm/s for speeds up to 16.7 km/s; 1000 × 1000 cells take 4 MB per plane). Unsolved cells hold +Infinity
- * in every float plane and −1 in `revs` and `branch` — never NaN.
+ * most 2^−24, below 1 mm/s for speeds up to 16.7 km/s; 1000 × 1000 cells take 4 MB per
+ * plane). Unsolved cells hold +Infinity in every float plane and −1 in `revs` and `branch` —
+ * never NaN.
  */
 
 export interface PorkchopPlanes {

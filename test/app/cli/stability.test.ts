@@ -16,7 +16,7 @@ describe.concurrent('waymark stability', () => {
     expect(out.bodies.length).toBe(8);
     expect(out.t.length).toBe(50);
     expect(out.bodies[0].history.a.length).toBe(50);
-    expect(out.energy.maxRelativeError).toBeLessThan(1e-9);
+    expect(out.energy.maxRelativeError).toBeLessThan(2e-12); // Yoshida 4 over 30 years: measured 2.6e-13
   });
 
   it('text output with moons merged on request', async () => {

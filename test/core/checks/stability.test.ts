@@ -31,7 +31,8 @@ describe('system stability check', () => {
     expect(r.pairs[0].spacing).toBeGreaterThan(30);
     for (const b of r.bodies) {
       expect(b.a.max / b.a.min - 1).toBeLessThan(1e-4);
-      expect(b.e.max).toBeLessThan(0.01);
+      // forced by a companion of 3e-6 of the star's mass, amplified by the close spacing: measured 3.7e-4
+      expect(b.e.max).toBeLessThan(1e-3);
       expect(b.history.a.length).toBe(r.t.length);
     }
     expect(r.energy.maxRelativeError).toBeLessThan(1e-9);
@@ -86,10 +87,11 @@ describe('system stability check', () => {
     expect(r.mergedMoons).toBe(false);
     expect(r.bodies.map((b) => b.id).sort()).toEqual(demo.bodies.slice(1).map((b) => b.id).sort());
     expect(r.flags).toEqual([]);
-    expect(r.energy.maxRelativeError).toBeLessThan(1e-10);
+    expect(r.energy.maxRelativeError).toBeLessThan(2e-12); // Yoshida 4 at its default step: measured 3.9e-13
     const quill = r.bodies.find((b) => b.id === 'quill')!;
     expect(quill.parent).toBe(demo.indexById.tessel);
-    expect(quill.a.initial).toBeCloseTo(2.6e8, -6); // osculating about Tessel
+    // osculating about Tessel from ~1.5e11 m barycentric states (ulp 3e-5 m): measured 1.1e-5 m
+    expect(Math.abs(quill.a.initial - 2.6e8)).toBeLessThan(1e-4);
   });
 
   it('merges moons into their planets when the step budget would be exceeded, and says so', () => {

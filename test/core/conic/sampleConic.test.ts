@@ -13,7 +13,8 @@ function check(state: ArrayLike<number>, span: number, n: number): { t: Float64A
     // every sample lies on the conic at its own time (independent: Kepler propagation)
     propagateKepler(MU_EARTH, state, t[j] - 100, out);
     const err = Math.hypot(out[0] - xyz[3 * j], out[1] - xyz[3 * j + 1], out[2] - xyz[3 * j + 2]);
-    expect(err).toBeLessThan(1e-6 * Math.hypot(out[0], out[1], out[2]));
+    // sampled by anomaly, checked by time: measured 1.6e-13 of r here, 4.8e-12 on the demo plan's conics
+    expect(err).toBeLessThan(5e-11 * Math.hypot(out[0], out[1], out[2]));
     if (j > 0) expect(t[j]).toBeGreaterThan(t[j - 1]);
   }
   return { t, xyz };
@@ -39,7 +40,8 @@ describe('conic drawing samples', () => {
     const T = 2 * Math.PI * Math.sqrt(2e7 ** 3 / MU_EARTH);
     const { t, xyz } = check(s, 3.7 * T, 40);
     expect(t[39] - 100).toBeCloseTo(T, 6);
-    expect(Math.hypot(xyz[117] - xyz[0], xyz[118] - xyz[1], xyz[119] - xyz[2])).toBeLessThan(1e-3);
+    // closed after one revolution to the rounding of 1.4e7–2.6e7 m radii (measured 2.2e-8 m)
+    expect(Math.hypot(xyz[117] - xyz[0], xyz[118] - xyz[1], xyz[119] - xyz[2])).toBeLessThan(1e-7);
   });
 
   it('hyperbola: samples crowd near periapsis (even in anomaly, not in time)', () => {

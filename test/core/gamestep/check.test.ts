@@ -76,8 +76,11 @@ describe('game-step check on a Kepler orbit', () => {
     const amp = Math.max(...firstOrbit);
     expect(amp).toBeGreaterThan(0); // the first-order method does have an energy error ...
     expect(Math.max(...lastOrbits)).toBeLessThan(1.5 * amp); // ... that does not grow
-    expect(Math.abs(rs.spans[0].driftPerOrbit as number)).toBeLessThan(0.01 * amp);
-    expect(Math.abs(rs.spans[0].driftPerOrbit as number)).toBeLessThan(0.01 * ee[0]);
+    // no secular drift for a symplectic method (Hairer, Lubich & Wanner, Geometric Numerical
+    // Integration, 2nd ed., ch. X): what the one-period differencing leaves is sampling residue,
+    // measured 9e-7 of the periodic amplitude and 3e-8 of explicit Euler's first-orbit growth
+    expect(Math.abs(rs.spans[0].driftPerOrbit as number)).toBeLessThan(1e-5 * amp);
+    expect(Math.abs(rs.spans[0].driftPerOrbit as number)).toBeLessThan(3e-7 * ee[0]);
   });
 
   const cases: [GameIntegrator, number, number[]][] = [
@@ -106,7 +109,9 @@ describe('game-step check on a Kepler orbit', () => {
       expect(slope(dts, reported)).toBeGreaterThan(order - 0.2);
       expect(slope(dts, reported)).toBeLessThan(order + 0.2);
       expect(Math.abs(slope(dts, kepler) - order)).toBeLessThan(0.2);
-      for (let i = 0; i < dts.length; i++) expect(Math.abs(kepler[i] - reported[i])).toBeLessThan(1e-3 * reported[i] + 1e-3);
+      // the two errors differ by at most the reference's own error, which the next test bounds at
+      // 1 mm (triangle inequality); measured 8.5e-5 m
+      for (let i = 0; i < dts.length; i++) expect(Math.abs(kepler[i] - reported[i])).toBeLessThan(1e-3);
     });
   }
 

@@ -20,7 +20,7 @@ describe('extrapolating a long coast by step scaling (Richardson\'s reasoning; H
     const x = ext.spans[0].extrapolation!;
     expect(x.method).toBe('step-scaling');
     // the coarse flights are in the asymptotic range: measured order 2.00007
-    expect(Math.abs(x.order - 2)).toBeLessThan(1e-3);
+    expect(Math.abs(x.order - 2)).toBeLessThan(2e-4);
     expect(ext.stats.gameSteps + ext.stats.windowSteps).toBeLessThan(0.5 * full.stats.gameSteps);
     // the flown miss is 7.8 m, 1.6e4 times the reference's own error; the estimate agrees to
     // 5.2e-5 of it (the next term of the error expansion, O(h) smaller); 2e-4 leaves 4×
@@ -47,7 +47,8 @@ describe('extrapolating a long coast by step scaling (Richardson\'s reasoning; H
     expect(ext.arrival!.basis).toBe('extrapolated');
     expect(full.arrival!.basis).toBe('measured');
     expect(full.arrival!.positionError).toBeGreaterThan(1e5); // symplectic Euler at 4 s misses by hundreds of km ...
-    expect(Math.abs(ext.arrival!.positionError / full.arrival!.positionError - 1)).toBeLessThan(0.05); // ... and the estimate agrees
+    // ... and the estimate agrees: measured 0.55 % (first order, with the O(h) next term at H ≫ 4 s)
+    expect(Math.abs(ext.arrival!.positionError / full.arrival!.positionError - 1)).toBeLessThan(0.02);
     expect(ext.stats.gameSteps).toBeLessThan(0.5 * full.stats.gameSteps);
     expect(ext.series.basis.some((b) => b === 0)).toBe(true);
     expect(ext.series.basis.some((b) => b === 2)).toBe(true);

@@ -6,10 +6,12 @@ describe('game-step fits', () => {
     const tau = Array.from({ length: 50 }, (_, i) => (i + 1) * 10);
     const e = tau.map((t) => 3e-4 * t ** 1.7);
     const f = fitPowerLaw(tau, e, 0);
-    expect(f.order).toBeCloseTo(1.7, 10);
-    expect(f.coefficient).toBeCloseTo(3e-4, 12);
+    // least squares on exact data: rounding only (measured 2.2e-14, 1.2e-13 relative, 1.3e-14)
+    expect(Math.abs(f.order - 1.7)).toBeLessThan(1e-13);
+    expect(Math.abs(f.coefficient / 3e-4 - 1)).toBeLessThan(1e-12);
     expect(f.r2).toBeCloseTo(1, 12);
-    expect(powerLawAt(f, 1e4)).toBeCloseTo(3e-4 * 1e4 ** 1.7, 6);
+    // extrapolated 20× past the data: the exponent's error times ln τ ≈ 9 (measured 9e-14 relative)
+    expect(Math.abs(powerLawAt(f, 1e4) / (3e-4 * 1e4 ** 1.7) - 1)).toBeLessThan(1e-12);
   });
 
   it('falls back to linear growth through the last point with too few points', () => {
@@ -30,7 +32,9 @@ describe('game-step fits', () => {
     const y = t.map((x) => (2e-7 * x) / T + 3e-5 * Math.sin((2 * Math.PI * x) / T + 0.4));
     const d = driftPerOrbit(t, y, T);
     expect(d.method).toBe('per-orbit');
-    expect(d.perOrbit).toBeCloseTo(2e-7, 12);
+    // the 5 s grid divides the period, so one-period differences cancel the sine exactly; left is
+    // the rounding of its 3e-5 terms, 7e-21 each (measured 3e-21)
+    expect(Math.abs(d.perOrbit - 2e-7)).toBeLessThan(2e-19);
     // the straight-line trend over a quarter orbit counts the periodic part as drift
     const q = driftPerOrbit(t.slice(0, 251), y.slice(0, 251), T);
     expect(q.method).toBe('trend');

@@ -69,9 +69,10 @@ describe("the plan's burns as the game flies them", () => {
     for (const [k, b] of burns.entries()) {
       const stage = longPatience.stages.find((s) => s.name === rows[k].stages[0])!;
       expect(rows[k].stages.length).toBe(1);
-      // budget masses and durations are rounded at ~1e-16; ln(m0/m1) ≥ 0.014 amplifies that to ~1e-14 (measured 1e-15)
-      expect(Math.abs(b.thrust / stage.thrust - 1)).toBeLessThan(1e-12);
-      expect(Math.abs(b.mdot / (stage.thrust / (stage.isp * G0)) - 1)).toBeLessThan(1e-12);
+      // budget masses and durations are rounded at ~1e-16; ln(m0/m1) ≥ 0.014 amplifies that to
+      // ~1e-14 (measured 1.2e-15 and 0)
+      expect(Math.abs(b.thrust / stage.thrust - 1)).toBeLessThan(1e-14);
+      expect(Math.abs(b.mdot / (stage.thrust / (stage.isp * G0)) - 1)).toBeLessThan(1e-14);
       expect(b.tStart).toBe(b.t - b.duration / 2);
       expect(b.fraction).toBe(1);
       expect(b.event?.id).toBe(b.id);
@@ -89,7 +90,7 @@ describe("the plan's burns as the game flies them", () => {
     const st = bigVehicle.stages[0];
     const m0 = bigVehicle.payloadMass + st.dryMass + st.propellantMass;
     const capacity = st.isp * G0 * Math.log(m0 / (m0 - st.propellantMass));
-    expect(Math.abs(b.dvMag / capacity - 1)).toBeLessThan(1e-12); // measured 1e-16
+    expect(Math.abs(b.dvMag / capacity - 1)).toBeLessThan(1e-14); // a few roundings: measured 1.1e-16
     expect(b.fraction).toBeCloseTo(capacity / 20000, 12);
     expect(Math.hypot(...b.dv)).toBeCloseTo(b.dvMag, 6);
   });
@@ -120,8 +121,9 @@ describe('prepared mission', () => {
     const b = bodyState(system, segs[0].central, segs[0].t0, new Float64Array(6));
     for (let i = 0; i < 6; i++) expect(prep.start.abs[i]).toBe(b[i] + segs[0].state0[i]);
     expect(prep.arrival).toEqual({ t: result.target!.closestApproach!.t, body: result.target!.body });
-    expect(prep.referenceError).toBeGreaterThanOrEqual(0);
-    expect(prep.referenceError).toBeLessThan(20); // m: the tighter run's difference, cf. the Kepler arcs above
+    // the RK45 reference against a run at a tenth of its rtol: metres over the 240-day flight
+    // (measured 4.7 m; the Kepler arcs above bound its true error before arrival at 20 m)
+    expect(prep.referenceError).toBeLessThan(20);
   });
 
   it('rejects bad models and a plan that flies nothing', () => {

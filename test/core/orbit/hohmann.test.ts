@@ -18,7 +18,7 @@ describe('hohmann', () => {
     expect(h.dv1).toBeCloseTo(2.426, 3);
     expect(h.dv2).toBeCloseTo(1.467, 3);
     expect(h.dvTotal).toBeCloseTo(3.893, 3);
-    expect(h.tof / 3600).toBeCloseTo(5.275, 2);
+    expect(h.tof / 3600).toBeCloseTo(5.275, 3); // to the quoted 0.001 h (measured 2e-5 h off)
   });
 
   it('equals vis-viva differences computed independently (analytic)', () => {
@@ -33,11 +33,14 @@ describe('hohmann', () => {
       const eps = -mu / (r1 + r2);
       const vp = Math.sqrt(2 * (eps + mu / r1));
       const va = (vp * r1) / r2;
-      expect(h.dv1).toBeCloseTo(vp - Math.sqrt(mu / r1), 6);
-      expect(h.dv2).toBeCloseTo(Math.sqrt(mu / r2) - va, 6);
-      expect(h.dvTotal).toBeCloseTo(Math.abs(vp - Math.sqrt(mu / r1)) + Math.abs(Math.sqrt(mu / r2) - va), 6);
-      // Kepler's third law for the half period.
-      expect(h.tof).toBeCloseTo(Math.PI * Math.sqrt(((r1 + r2) / 2) ** 3 / mu), 3);
+      // the same speeds by another route: a few roundings of speeds of size vp (measured 2.3e-10 m/s at vp = 6.1e6 m/s)
+      const tol = 8 * Number.EPSILON * vp;
+      expect(Math.abs(h.dv1 - (vp - Math.sqrt(mu / r1)))).toBeLessThan(tol);
+      expect(Math.abs(h.dv2 - (Math.sqrt(mu / r2) - va))).toBeLessThan(tol);
+      expect(Math.abs(h.dvTotal - (Math.abs(vp - Math.sqrt(mu / r1)) + Math.abs(Math.sqrt(mu / r2) - va)))).toBeLessThan(2 * tol);
+      // Kepler's third law for the half period (measured: equal)
+      const half = Math.PI * Math.sqrt(((r1 + r2) / 2) ** 3 / mu);
+      expect(Math.abs(h.tof - half)).toBeLessThan(4 * Number.EPSILON * half);
       expect(h.aTransfer).toBe((r1 + r2) / 2);
     }
   });

@@ -211,9 +211,10 @@ describe('analytic checks', () => {
       { el: { p: 2.0e7, e: 3, i: 2.5, raan: 4.0, argp: 5.0, nu: -1.2 }, dt: 8000 },
       { el: { p: 2.0e7, e: 10, i: 0.1, raan: 1.0, argp: 2.0, nu: -1.2 }, dt: -3000 },
     ];
+    // odex at rtol 1e-14 over these arcs: measured 2.2e-13
     for (const { el, dt } of cases) {
       const s = Array.from(elementsToState(MU, el));
-      expect(relDiff(propagateKepler(MU, s, dt), odexPropagate(MU, s, dt))).toBeLessThan(1e-10);
+      expect(relDiff(propagateKepler(MU, s, dt), odexPropagate(MU, s, dt))).toBeLessThan(2e-12);
     }
   });
 });
