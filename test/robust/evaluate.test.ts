@@ -140,13 +140,13 @@ describe('evaluation: cases kept as regressions', () => {
 
   it('regression (same class, at the surface): a timed coast to exactly the impact time ends in the impact there, not a period later', () => {
     const system = testSystem();
-    // an ellipse about Terra whose periapsis is below the surface
+    // an ellipse about Loam whose periapsis is below the surface
     const r0 = 3 * R_EARTH;
     const s = [r0, 0, 0, 0, 0.4 * Math.sqrt(MU_EARTH / r0), 0];
-    const first = evaluate(system, plan(stateStart('terra', s.slice(0, 3), s.slice(3)), [coast('fall', { kind: 'duration', dt: 1e6 })]));
+    const first = evaluate(system, plan(stateStart('loam', s.slice(0, 3), s.slice(3)), [coast('fall', { kind: 'duration', dt: 1e6 })]));
     const hit = first.events.find((e) => e.kind === 'impact')!;
     expect(hit).toBeDefined();
-    const p = plan(stateStart('terra', s.slice(0, 3), s.slice(3)), [coast('to-hit', { kind: 'time', t: hit.t }), coast('after', { kind: 'duration', dt: 1e6 })]);
+    const p = plan(stateStart('loam', s.slice(0, 3), s.slice(3)), [coast('to-hit', { kind: 'time', t: hit.t }), coast('after', { kind: 'duration', dt: 1e6 })]);
     const r = evaluate(system, p);
     checkResult(system, r);
     expect(r.events.filter((e) => e.kind === 'impact')).toHaveLength(1);

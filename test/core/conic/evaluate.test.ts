@@ -21,7 +21,7 @@ describe('patched conics: SOI exit', () => {
     const a = -MU_EARTH / vinf ** 2;
     const e = 1 - rp / a;
     const s = elementsToState(MU_EARTH, { a, e, i: 0.3, raan: 0.2, argp: 0.1, nu: 0 });
-    const p = plan(stateStart('terra', [s[0], s[1], s[2]], [s[3], s[4], s[5]], 1000), [
+    const p = plan(stateStart('loam', [s[0], s[1], s[2]], [s[3], s[4], s[5]], 1000), [
       { type: 'coast', id: 'out', name: 'out', until: { kind: 'soi-change' } },
       { type: 'coast', id: 'on', name: 'on', until: { kind: 'duration', dt: 1000 } },
     ]);
@@ -49,7 +49,7 @@ describe('patched conics: events on a conic', () => {
   const e = 0.4;
   const T = 2 * Math.PI * Math.sqrt(a ** 3 / MU_EARTH);
   const s = elementsToState(MU_EARTH, { a, e, i: 0.5, raan: 0.1, argp: 0.2, nu: 0 });
-  const start = stateStart('terra', [s[0], s[1], s[2]], [s[3], s[4], s[5]], 500);
+  const start = stateStart('loam', [s[0], s[1], s[2]], [s[3], s[4], s[5]], 500);
 
   it('coast to apoapsis takes half a period, to the next periapsis a full one (Kepler’s third law)', () => {
     const res = evaluate(system, plan(start, [
@@ -96,13 +96,13 @@ describe('patched conics: events on a conic', () => {
     const rpLow = R_EARTH + 50e3;
     const raLow = R_EARTH + 2000e3;
     const low = elementsToState(MU_EARTH, { a: (rpLow + raLow) / 2, e: (raLow - rpLow) / (raLow + rpLow), i: 0, raan: 0, argp: 0, nu: Math.PI });
-    const r1 = evaluate(system, plan(stateStart('terra', [low[0], low[1], low[2]], [low[3], low[4], low[5]]), [
+    const r1 = evaluate(system, plan(stateStart('loam', [low[0], low[1], low[2]], [low[3], low[4], low[5]]), [
       { type: 'coast', id: 'c', name: 'c', until: { kind: 'periapsis' } },
     ]));
     expect(r1.flags.map((f) => f.code)).toContain('atmosphere-entry');
     expect(r1.flags.find((f) => f.code === 'atmosphere-entry')?.severity).toBe('warning');
     const crash = elementsToState(MU_EARTH, { a: 5.5e6, e: 0.3, i: 0, raan: 0, argp: 0, nu: Math.PI }); // apoapsis 7,150 km, periapsis 3,850 km from the centre
-    const r2 = evaluate(system, plan(stateStart('terra', [crash[0], crash[1], crash[2]], [crash[3], crash[4], crash[5]]), [
+    const r2 = evaluate(system, plan(stateStart('loam', [crash[0], crash[1], crash[2]], [crash[3], crash[4], crash[5]]), [
       { type: 'coast', id: 'c', name: 'c', until: { kind: 'periapsis' } },
       impulsive('never', null, [10, 0, 0]),
     ]));
@@ -213,12 +213,12 @@ describe('burn handling', () => {
   const system = testSystem();
   const r = R_EARTH + 400e3;
   const c = elementsToState(MU_EARTH, { a: r, e: 0, i: 0, raan: 0, argp: 0, nu: 0 });
-  const start = stateStart('terra', [c[0], c[1], c[2]], [c[3], c[4], c[5]]);
+  const start = stateStart('loam', [c[0], c[1], c[2]], [c[3], c[4], c[5]]);
 
   it('a failing solve flags solve-failed and flies zero Δv (never NaN)', () => {
     const p = plan(start, [
       { type: 'burn', id: 'b', name: 'bad capture', t: 100, frame: 'vnb', dv: [0, 0, 0], solve: { kind: 'plane', i: 0 }, mode: 'impulsive', pointing: 'velocity' },
-      { type: 'burn', id: 'x', name: 'bad transfer', t: 200, frame: 'vnb', dv: [0, 0, 0], solve: { kind: 'transfer', to: 'terra', arrive: 1e6 }, mode: 'impulsive', pointing: 'velocity' },
+      { type: 'burn', id: 'x', name: 'bad transfer', t: 200, frame: 'vnb', dv: [0, 0, 0], solve: { kind: 'transfer', to: 'loam', arrive: 1e6 }, mode: 'impulsive', pointing: 'velocity' },
     ]);
     const res = evaluate(system, p);
     expect(res.budget.rows[1].flags.map((f) => f.code)).toEqual(['solve-failed']);
@@ -298,7 +298,7 @@ describe('burn handling', () => {
 
   it('a finite burn at t = null after "coast until periapsis" is centred on the periapsis', () => {
     const ell = elementsToState(MU_EARTH, { a: 2e7, e: 0.6, i: 0.1, raan: 0, argp: 0, nu: 2 });
-    const p = plan(stateStart('terra', [ell[0], ell[1], ell[2]], [ell[3], ell[4], ell[5]]), [
+    const p = plan(stateStart('loam', [ell[0], ell[1], ell[2]], [ell[3], ell[4], ell[5]]), [
       { type: 'coast', id: 'c', name: 'c', until: { kind: 'periapsis' } },
       { type: 'burn', id: 'b', name: 'b', t: null, frame: 'vnb', dv: [-300, 0, 0], solve: { kind: 'fixed' }, mode: 'finite', pointing: 'velocity' },
     ]);

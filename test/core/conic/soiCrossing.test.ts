@@ -114,14 +114,14 @@ describe('SOI entry search', () => {
   // A ship on heliocentric conics that pass the planet at 0.2 … 1.3 SOI radii: the search must
   // agree with brute-force sampling of the distance (every 20 s) refined by bisection.
   const system = testSystem();
-  const terra = system.indexById['terra'];
-  const R = system.bodies[terra].derived.soiRadius;
+  const loam = system.indexById['loam'];
+  const R = system.bodies[loam].derived.soiRadius;
 
   function shipState(miss: number, tCa: number): Float64Array {
     // at tCa the ship is `miss` from the planet (out of the plane by a third), moving 4 km/s
     // radially outward relative to it; heliocentric state back-propagated to t = 0 on its conic
     const p = new Float64Array(6);
-    bodyStateRelativeToParent(system, terra, tCa, p);
+    bodyStateRelativeToParent(system, loam, tCa, p);
     const rn = Math.hypot(p[0], p[1], p[2]);
     const rhat = [p[0] / rn, p[1] / rn, p[2] / rn];
     const side = [-rhat[1], rhat[0], 0];
@@ -137,7 +137,7 @@ describe('SOI entry search', () => {
     const pl = new Float64Array(6);
     const g = (t: number): number => {
       propagateKepler(MU_SUN, s0, t, sh);
-      bodyStateRelativeToParent(system, terra, t, pl);
+      bodyStateRelativeToParent(system, loam, t, pl);
       return Math.hypot(sh[0] - pl[0], sh[1] - pl[1], sh[2] - pl[2]) - R;
     };
     let prev = g(0);
@@ -164,12 +164,12 @@ describe('SOI entry search', () => {
       const tCa = 5e5;
       const s0 = shipState(m * R, tCa);
       const tEnd = 1.2e6;
-      const res = findSoiEntry({ system, central: 0, mu: MU_SUN, state0: s0, t0: 0, tEnd, justLeft: -1, track: terra });
+      const res = findSoiEntry({ system, central: 0, mu: MU_SUN, state0: s0, t0: 0, tEnd, justLeft: -1, track: loam });
       const ref = bruteForce(s0, tEnd);
       if (ref === Infinity) {
         expect(res.body).toBe(-1);
       } else {
-        expect(res.body).toBe(terra);
+        expect(res.body).toBe(loam);
         // the brute force bisects to rounding; the search polishes to EVENT_TIME_TOL (measured 1.5e-8 s)
         expect(Math.abs(res.t - ref)).toBeLessThan(EVENT_TIME_TOL);
       }
@@ -186,13 +186,13 @@ describe('SOI entry search', () => {
 
   it('follows the closest approach of a flyby outside the SOI (against fine sampling)', () => {
     const s0 = shipState(1.3 * R, 5e5);
-    const res = findSoiEntry({ system, central: 0, mu: MU_SUN, state0: s0, t0: 0, tEnd: 1.2e6, justLeft: -1, track: terra });
+    const res = findSoiEntry({ system, central: 0, mu: MU_SUN, state0: s0, t0: 0, tEnd: 1.2e6, justLeft: -1, track: loam });
     const sh = new Float64Array(6);
     const pl = new Float64Array(6);
     let best = Infinity;
     for (let t = 0; t <= 1.2e6; t += 5) {
       propagateKepler(MU_SUN, s0, t, sh);
-      bodyStateRelativeToParent(system, terra, t, pl);
+      bodyStateRelativeToParent(system, loam, t, pl);
       best = Math.min(best, Math.hypot(sh[0] - pl[0], sh[1] - pl[1], sh[2] - pl[2]));
     }
     expect(res.caDistance).toBeLessThanOrEqual(best + 1e-3);

@@ -11,7 +11,7 @@ import { allFinite, demoSystem, MU_EARTH, plan, stateStart, testSystem } from '.
 
 const system = testSystem();
 const TERRA = 1;
-// an eccentric orbit about terra: periapsis 7,000 km, e = 0.2, started 1 rad past periapsis
+// an eccentric orbit about loam: periapsis 7,000 km, e = 0.2, started 1 rad past periapsis
 // (at periapsis a first-order velocity offset is radial and leaves the period unchanged)
 const RP = 7000e3;
 const E = 0.2;
@@ -20,7 +20,7 @@ const PERIOD = 2 * Math.PI * Math.sqrt(A ** 3 / MU_EARTH);
 const S0 = Array.from(elementsToState(MU_EARTH, { a: A, e: E, i: 0.3, raan: 0.2, argp: 0.5, nu: 1 }));
 
 function coastPlan(orbits: number): Plan {
-  return plan(stateStart('terra', S0.slice(0, 3), S0.slice(3)), [{ type: 'coast', id: 'c', name: 'coast', until: { kind: 'duration', dt: orbits * PERIOD } }]);
+  return plan(stateStart('loam', S0.slice(0, 3), S0.slice(3)), [{ type: 'coast', id: 'c', name: 'coast', until: { kind: 'duration', dt: orbits * PERIOD } }]);
 }
 
 function run(p: Plan, integrator: GameIntegrator, dt: number, extra: Partial<Parameters<typeof gameStepCheck>[2]> = {}): GameStepResult {

@@ -11,7 +11,7 @@ describe('extrapolating a long coast by step scaling (Richardson\'s reasoning; H
     const a = 8750e3;
     const period = 2 * Math.PI * Math.sqrt(a ** 3 / MU_EARTH);
     const s0 = Array.from(elementsToState(MU_EARTH, { a, e: 0.2, i: 0.3, raan: 0.2, argp: 0.5, nu: 1 }));
-    const p = plan(stateStart('terra', s0.slice(0, 3), s0.slice(3)), [{ type: 'coast', id: 'c', name: 'coast', until: { kind: 'duration', dt: 3 * period } }]);
+    const p = plan(stateStart('loam', s0.slice(0, 3), s0.slice(3)), [{ type: 'coast', id: 'c', name: 'coast', until: { kind: 'duration', dt: 3 * period } }]);
     const physics = { integrator: 'verlet' as const, dt: period / 20000 };
     const full = gameStepCheck(system, p, { physics, tolerance: 1e9 });
     const ext = gameStepCheck(system, p, { physics, tolerance: 1e9, maxStepsPerSpan: 10_000 });

@@ -79,7 +79,7 @@ describe('game flight on the step grid', () => {
   });
 
   it('spreads a burn over the Tsiolkovsky duration and delivers exactly its Δv (Curtis, 3rd ed., §11.3)', () => {
-    // heliocentric at 1 AU, far from terra: the tidal term 2μ/r³ ≈ 8e-14 s⁻² is negligible over the burn
+    // heliocentric at 1 AU, far from loam: the tidal term 2μ/r³ ≈ 8e-14 s⁻² is negligible over the burn
     const v = Math.sqrt(system.bodies[SUN].mu / 1.6e11);
     const start = [0, 1.6e11, 0, -v, 0, 0];
     const ve = 450 * G0;
@@ -144,7 +144,7 @@ describe('floating origin', () => {
         const b = f.relState(new Float64Array(6));
         expect(Math.hypot(a[0] - b[0], a[1] - b[1], a[2] - b[2])).toBeLessThan(bound);
       }
-      // the absolute state is the frame's: star frame = terra + relative
+      // the absolute state is the frame's: star frame = loam + relative
       const s = moving.state(new Float64Array(6));
       const t = bodyState(system, TERRA, moving.t, new Float64Array(6));
       const r = moving.relState(new Float64Array(6));

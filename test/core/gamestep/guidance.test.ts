@@ -35,7 +35,7 @@ function burn(over: Partial<GameBurn>): GameBurn {
   };
 }
 
-// absolute state of a circular equatorial orbit about terra at phase θ, at time t
+// absolute state of a circular equatorial orbit about loam at phase θ, at time t
 function circular(theta: number, t: number, z = 0): Float64Array {
   const b = bodyState(system, TERRA, t, new Float64Array(6));
   const rel = [R0 * Math.cos(theta), R0 * Math.sin(theta), z, -V0 * Math.sin(theta), V0 * Math.cos(theta), 0];

@@ -51,7 +51,7 @@ describe('float32 spacing table', () => {
 });
 
 describe('float32 at interplanetary distances (common practice: floating origins)', () => {
-  // a heliocentric coast at 1 AU for 10 days, a quarter orbit ahead of terra: binary32 spacing there is 16 km
+  // a heliocentric coast at 1 AU for 10 days, a quarter orbit ahead of loam: binary32 spacing there is 16 km
   const sys = testSystem();
   const v = Math.sqrt(MU_SUN / AU);
   const p = plan(stateStart('sun', [0, AU, 0], [-v, 0, 0]), [{ type: 'coast', id: 'c', name: 'cruise', until: { kind: 'duration', dt: 10 * 86400 } }]);

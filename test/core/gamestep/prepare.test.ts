@@ -85,7 +85,7 @@ describe("the plan's burns as the game flies them", () => {
   it('flies only what the vehicle can deliver: the rocket-equation capacity ve·ln(m0/m_dry) of a burn beyond it', () => {
     const sys = testSystem();
     const v = Math.sqrt(MU_EARTH / 7000e3);
-    const p = plan(stateStart('terra', [7000e3, 0, 0], [0, v, 0]), [impulsive('big', 100, [20000, 0, 0])]);
+    const p = plan(stateStart('loam', [7000e3, 0, 0], [0, v, 0]), [impulsive('big', 100, [20000, 0, 0])]);
     const [b] = gameBurns(p, evaluate(sys, p, { samplesPerSegment: 0 }));
     const st = bigVehicle.stages[0];
     const m0 = bigVehicle.payloadMass + st.dryMass + st.propellantMass;
@@ -131,7 +131,7 @@ describe('prepared mission', () => {
     expect(() => prepareGameStep(system, demoPlan, { result, burns: 'gradual' as never })).toThrow(InputError);
     expect(() => prepareGameStep(system, demoPlan, { result, guidance: 'auto' as never })).toThrow(InputError);
     const sys = testSystem();
-    const still = plan(stateStart('terra', [7000e3, 0, 0], [0, 7.5e3, 0]), [{ type: 'coast', id: 'c', name: 'c', until: { kind: 'duration', dt: 0 } }]);
+    const still = plan(stateStart('loam', [7000e3, 0, 0], [0, 7.5e3, 0]), [{ type: 'coast', id: 'c', name: 'c', until: { kind: 'duration', dt: 0 } }]);
     let err: unknown;
     try {
       prepareGameStep(sys, still);

@@ -9,7 +9,7 @@ const system = testSystem();
 const A = 8750e3;
 const PERIOD = 2 * Math.PI * Math.sqrt(A ** 3 / MU_EARTH);
 const S0 = Array.from(elementsToState(MU_EARTH, { a: A, e: 0.2, i: 0.3, raan: 0.2, argp: 0.5, nu: 1 }));
-const coast = plan(stateStart('terra', S0.slice(0, 3), S0.slice(3)), [{ type: 'coast', id: 'c', name: 'coast', until: { kind: 'duration', dt: 5 * PERIOD } }]);
+const coast = plan(stateStart('loam', S0.slice(0, 3), S0.slice(3)), [{ type: 'coast', id: 'c', name: 'coast', until: { kind: 'duration', dt: 5 * PERIOD } }]);
 
 describe('game-step sweep', () => {
   const dt = PERIOD / 8192;
@@ -58,7 +58,7 @@ describe('game-step sweep', () => {
     expect(p.rows[0].passes).toBe(true);
     expect(p.rows[1].arrivalMiss as number).toBeGreaterThan(p.rows[0].arrivalMiss as number);
     expect(p.float32.length).toBe(1);
-    expect(p.float32[0].spacing).toBe(1); // ulp32 of ~8,000–10,500 km from terra's centre
+    expect(p.float32[0].spacing).toBe(1); // ulp32 of ~8,000–10,500 km from loam's centre
     const v = p.verdict;
     expect(v).toBe(p.rows[1].passes ? 'float32' : p.rows[2].passes ? 'float32-rebase' : 'float64');
   });

@@ -14,7 +14,7 @@ const DAY = 86400;
 const DEG = Math.PI / 180;
 
 describe('correctPlan: a two-body problem with a known answer', () => {
-  // A sun, terra (helpers) and a tiny body "mote" (μ = 1e3 m³/s², 1 km) on a 1.3 AU orbit; the
+  // A sun, loam (helpers) and a tiny body "mote" (μ = 1e3 m³/s², 1 km) on a 1.3 AU orbit; the
   // n-body model is restricted to the sun's gravity, so the flight after the burn is a Kepler
   // arc and the burn that reaches a chosen closest-approach point at a chosen time is the
   // Lambert solution to that point (core/orbit/lambert.ts, checked there against Curtis,

@@ -32,7 +32,7 @@ export function body(id: string, parent: string, mu: number, radius: number, saf
   };
 }
 
-/** A sun with an Earth-like planet "terra" at 1 AU (circular, in the reference plane) plus extra bodies. */
+/** A sun with an Earth-like planet "loam" at 1 AU (circular, in the reference plane) plus extra bodies. */
 export function testSystem(extra: BodyDocument[] = []): StarSystem {
   const doc: SystemDocument = {
     format: 'waymark-system',
@@ -41,7 +41,7 @@ export function testSystem(extra: BodyDocument[] = []): StarSystem {
     epoch: { label: 'Year 1, day 1' },
     calendar: { year_s: 365 * 86400, day_s: 86400, year_at_epoch: 1 },
     star: { id: 'sun', name: 'Sun', mu_m3_s2: MU_SUN, radius_m: 6.96e8, min_safe_altitude_m: 1e9 },
-    bodies: [body('terra', 'sun', MU_EARTH, R_EARTH, 100e3, {}), ...extra],
+    bodies: [body('loam', 'sun', MU_EARTH, R_EARTH, 100e3, {}), ...extra],
   };
   return buildStarSystem(doc);
 }
