@@ -3,6 +3,7 @@
  * relative error, and differences of states in the radial-transverse-normal (RTN) frame
  * of the reference state.
  */
+import { InputError, rtnMatrix } from '../math/index.ts';
 
 /** Scale of the relative energy error: |ε_ref|, but at least 1e-6·μ/r (near-parabolic orbits). */
 export function energyScale(er: number, r: Float64Array, B: Float64Array, mu: number): number {
@@ -16,28 +17,25 @@ export function energyOf(s: Float64Array, B: Float64Array, mu: number): number {
   return 0.5 * (vx * vx + vy * vy + vz * vz) - mu / Math.hypot(rx, ry, rz);
 }
 
-// Unit radial, transverse, normal vectors of state r (abs) about body B (abs), into u (9).
-function rtnBasis(r: ArrayLike<number>, B: ArrayLike<number>, u: number[]): void {
-  const x = r[0] - B[0], y = r[1] - B[1], z = r[2] - B[2];
-  const vx = r[3] - B[3], vy = r[4] - B[4], vz = r[5] - B[5];
-  const rn = Math.hypot(x, y, z) || 1;
-  let hx = y * vz - z * vy, hy = z * vx - x * vz, hz = x * vy - y * vx;
-  const hn = Math.hypot(hx, hy, hz) || 1;
-  hx /= hn;
-  hy /= hn;
-  hz /= hn;
-  u[0] = x / rn;
-  u[1] = y / rn;
-  u[2] = z / rn;
-  u[3] = hy * u[2] - hz * u[1];
-  u[4] = hz * u[0] - hx * u[2];
-  u[5] = hx * u[1] - hy * u[0];
-  u[6] = hx;
-  u[7] = hy;
-  u[8] = hz;
+// RTN → inertial matrix (core/math/frames.ts, rows x, y, z; columns R, T, N) of state r (abs)
+// about body B (abs), into m. A rectilinear state (r ∥ v: no orbital plane) keeps only its
+// radial axis: T and N are zero, so the difference shows as its radial part alone.
+const rel = new Float64Array(6);
+function rtnBasis(r: ArrayLike<number>, B: ArrayLike<number>, m: Float64Array): void {
+  for (let i = 0; i < 6; i++) rel[i] = r[i] - B[i];
+  try {
+    rtnMatrix(rel.subarray(0, 3), rel.subarray(3, 6), m);
+  } catch (e) {
+    if (!(e instanceof InputError)) throw e;
+    const rn = Math.hypot(rel[0], rel[1], rel[2]) || 1;
+    m.fill(0);
+    m[0] = rel[0] / rn;
+    m[3] = rel[1] / rn;
+    m[6] = rel[2] / rn;
+  }
 }
 
-const basis9 = [0, 0, 0, 0, 0, 0, 0, 0, 0];
+const basis9 = new Float64Array(9);
 
 /** RTN components of the difference g − r (position, velocity) in r's frame about B, into out (6). */
 export function toRtn(r: ArrayLike<number>, B: ArrayLike<number>, g: ArrayLike<number>, out: number[]): void {
@@ -45,7 +43,7 @@ export function toRtn(r: ArrayLike<number>, B: ArrayLike<number>, g: ArrayLike<n
   const u = basis9;
   for (let k = 0; k < 2; k++) {
     const dx = g[3 * k] - r[3 * k], dy = g[3 * k + 1] - r[3 * k + 1], dz = g[3 * k + 2] - r[3 * k + 2];
-    for (let j = 0; j < 3; j++) out[3 * k + j] = u[3 * j] * dx + u[3 * j + 1] * dy + u[3 * j + 2] * dz;
+    for (let j = 0; j < 3; j++) out[3 * k + j] = u[j] * dx + u[3 + j] * dy + u[6 + j] * dz;
   }
 }
 
@@ -54,7 +52,7 @@ export function fromRtn(r: ArrayLike<number>, B: ArrayLike<number>, d: ArrayLike
   rtnBasis(r, B, basis9);
   const u = basis9;
   for (let k = 0; k < 2; k++) {
-    for (let c = 0; c < 3; c++) out[3 * k + c] += u[c] * d[3 * k] + u[3 + c] * d[3 * k + 1] + u[6 + c] * d[3 * k + 2];
+    for (let c = 0; c < 3; c++) out[3 * k + c] += u[3 * c] * d[3 * k] + u[3 * c + 1] * d[3 * k + 1] + u[3 * c + 2] * d[3 * k + 2];
   }
 }
 

@@ -4,7 +4,7 @@
  */
 export { InputError, SolverError, ValidationError, WaymarkError, requireFinite, requireFiniteVector, requireNonNegative, requirePositive } from './errors.ts';
 export type { ValidationIssue } from './errors.ts';
-export { inertialToRtn, inertialToVnb, perifocalToInertial, rtnToInertial, vnbToInertial } from './frames.ts';
+export { inertialToRtn, inertialToVnb, perifocalToInertial, rtnMatrix, rtnToInertial, vnbToInertial } from './frames.ts';
 export { dampedLeastSquares } from './linalg.ts';
 export { stream } from './random.ts';
 export type { Seed } from './random.ts';
