@@ -35,7 +35,7 @@ import { randomBytes } from 'node:crypto';
 import { basename, dirname, isAbsolute, join, resolve } from 'node:path';
 import { ValidationError, WaymarkError, type ValidationIssue } from '../../core/math/index.ts';
 import { PLAN_VERSION, parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../core/io/index.ts';
-import { parseSystemFile } from '../../core/io/index.ts';
+import { decodeUtf8, parseSystemFile } from '../../core/io/index.ts';
 import type { Plan } from '../../core/plan/index.ts';
 import type { StarSystem } from '../../core/system/index.ts';
 import { headerProblem, readFileHeader } from '../preload/fileHeader.ts';
@@ -218,7 +218,7 @@ export async function atomicWriteFile(path: string, data: string | Uint8Array, o
 export function readTextFile(path: string): string {
   try {
     if (lstatSync(path).isDirectory()) throw new FileError(path, 'read', 'it is a folder, not a file', 'EISDIR');
-    return readFileSync(path, 'utf8');
+    return decodeUtf8(readFileSync(path), 'it');
   } catch (e) {
     if (e instanceof FileError) throw e;
     const w = why(e, path);

@@ -11,3 +11,4 @@ export { budgetReport } from './report.ts';
 export { parseSystemFile } from './systemFile.ts';
 export { parseQuantity, parseRange, parseVector } from './units.ts';
 export type { Dimension } from './units.ts';
+export { decodeUtf8, invalidUtf8Offset } from './utf8.ts';
