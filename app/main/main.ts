@@ -9,9 +9,10 @@
  */
 import { app, BrowserWindow, dialog, ipcMain, Menu, protocol, session } from 'electron';
 import { mkdir, readFile, rm, stat } from 'node:fs/promises';
-import { dirname, join } from 'node:path';
+import { basename, dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import config from '../../electron.config.ts';
+import { decodeUtf8 } from '../../core/io/index.ts';
 import { atomicWriteFile } from '../node/files.ts';
 import { IPC, type MenuCommand } from '../preload/api.ts';
 import { createCloseGuard } from './closeGuard.ts';
@@ -33,7 +34,8 @@ protocol.registerSchemesAsPrivileged([{ scheme: APP_SCHEME, privileges: { standa
 let win: BrowserWindow | null = null;
 
 const files = {
-  readText: (p: string) => readFile(p, 'utf8'),
+  // Strict: a file that is not UTF-8 is refused with the offset of its first bad byte.
+  readText: async (p: string) => decodeUtf8(await readFile(p), basename(p)),
   size: async (p: string) => (await stat(p)).size,
   writeAtomic: (p: string, text: string) => atomicWriteFile(p, text),
   remove: (p: string) => rm(p, { force: true }),

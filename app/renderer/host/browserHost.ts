@@ -9,9 +9,12 @@
  *   by path), newest first, at most RECENT_LIMIT; reopening one gives a copy that saves as a download.
  * - Recovery copy of unsaved work: localStorage.
  * - Closing the tab with unsaved changes: the browser's "leave site?" prompt (beforeunload).
+ * - A file that is not valid UTF-8 is refused with the offset of its first bad byte (core/io
+ *   decodeUtf8), not opened with the bad bytes replaced.
  * Everything that touches the page comes in through `BrowserEnv`, so tests pass fakes.
  */
 import config from '../../../electron.config.ts';
+import { decodeUtf8 } from '../../../core/io/index.ts';
 import type { ExportKind, RecoverySnapshot } from '../../preload/api.ts';
 import { headerProblem } from '../../preload/fileHeader.ts';
 import { NewerVersionError, type FileRef, type Host, type OpenedFile, type RecentFile } from './host.ts';
@@ -22,7 +25,7 @@ export const STORAGE_KEYS = { recent: 'waymark.recent', recentText: 'waymark.rec
 /** The subset of the File System Access API the host uses. */
 export interface WritableHandle {
   name: string;
-  getFile(): Promise<{ text(): Promise<string> }>;
+  getFile(): Promise<{ text(): Promise<string>; arrayBuffer(): Promise<ArrayBuffer> }>;
   createWritable(): Promise<{ write(data: string): Promise<void>; close(): Promise<void> }>;
 }
 
@@ -33,8 +36,8 @@ export interface FilePickerType {
 
 export interface BrowserEnv {
   storage: Pick<Storage, 'getItem' | 'setItem' | 'removeItem'>;
-  /** <input type="file"> picker: name and text of the chosen file, or null when cancelled. */
-  pickFile(accept: string): Promise<{ name: string; text: string } | null>;
+  /** <input type="file"> picker: name and bytes of the chosen file, or null when cancelled. */
+  pickFile(accept: string): Promise<{ name: string; bytes: Uint8Array } | null>;
   /** Saves text as a download. */
   download(name: string, text: string, mime: string): void;
   /** File System Access API pickers, when the browser has them. */
@@ -86,7 +89,7 @@ export function createBrowserHost(env: BrowserEnv): Host {
     if (env.fsAccess) {
       try {
         const [handle] = await env.fsAccess.showOpenFilePicker({ types, multiple: false });
-        const text = await (await handle.getFile()).text();
+        const text = decodeUtf8(new Uint8Array(await (await handle.getFile()).arrayBuffer()), handle.name);
         if (record) remember(handle.name, text);
         return { ref: { name: handle.name, path: null, handle }, text };
       } catch (err) {
@@ -96,8 +99,9 @@ export function createBrowserHost(env: BrowserEnv): Host {
     }
     const f = await env.pickFile('.json,application/json');
     if (!f) return null;
-    if (record) remember(f.name, f.text);
-    return { ref: { name: f.name, path: null, handle: null }, text: f.text };
+    const text = decodeUtf8(f.bytes, f.name);
+    if (record) remember(f.name, text);
+    return { ref: { name: f.name, path: null, handle: null }, text };
   }
 
   async function writeHandle(handle: WritableHandle, text: string): Promise<void> {
@@ -194,7 +198,7 @@ export function pageEnv(win: Window & typeof globalThis): BrowserEnv {
           const file = input.files?.[0];
           input.remove();
           if (!file) return resolve(null);
-          file.text().then((text) => resolve({ name: file.name, text }), reject);
+          file.arrayBuffer().then((buf) => resolve({ name: file.name, bytes: new Uint8Array(buf) }), reject);
         });
         input.addEventListener('cancel', () => {
           input.remove();

@@ -7,7 +7,7 @@
  * header); IPC only through validated `handle` channels that check the sending frame; a save
  * going through the atomic writer to disk.
  */
-import { mkdtempSync, readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it, vi } from 'vitest';
@@ -236,6 +236,18 @@ describe('Electron main process (electron mocked)', () => {
     expect(readFileSync(m.dialogPaths.save, 'utf8')).toBe(PLAN('second'));
     expect(readFileSync(`${m.dialogPaths.save}.bak`, 'utf8')).toBe(PLAN('first'));
     await expect(m.handlers.get(IPC.save)!({ senderFrame: { url: 'https://evil.invalid/', parent: null } }, m.dialogPaths.save, PLAN('x'))).rejects.toThrow(/sender/);
+  });
+
+  it('opens a plan through the dialog, and refuses one that is not valid UTF-8 with the offset of the bad byte', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'waymark-main-'));
+    m.dialogPaths.open = join(dir, 'in.plan.json');
+    writeFileSync(m.dialogPaths.open, PLAN('Fénix Δ'));
+    await expect(m.handlers.get(IPC.openDialog)!(fromApp())).resolves.toMatchObject({ text: PLAN('Fénix Δ') });
+    const bad = Buffer.from(PLAN('Ilmar'));
+    bad[bad.indexOf('Ilmar')] = 0xff;
+    writeFileSync(m.dialogPaths.open, bad);
+    await expect(m.handlers.get(IPC.openDialog)!(fromApp())).rejects.toThrow(`in.plan.json is not valid UTF-8 at byte ${bad.indexOf(0xff)}`);
+    m.dialogPaths.open = null;
   });
 
   it('keeps the recovery copy in the user-data folder', async () => {

@@ -2,6 +2,8 @@ import { describe, expect, it, vi } from 'vitest';
 import { RECENT_LIMIT, STORAGE_KEYS, createBrowserHost, type BrowserEnv, type WritableHandle } from '../../../../app/renderer/host/browserHost.ts';
 import { NewerVersionError } from '../../../../app/renderer/host/host.ts';
 
+const utf8 = (s: string): Uint8Array => new TextEncoder().encode(s);
+
 function memoryStorage() {
   const m = new Map<string, string>();
   return { m, getItem: (k: string) => m.get(k) ?? null, setItem: (k: string, v: string) => void m.set(k, v), removeItem: (k: string) => void m.delete(k) };
@@ -12,7 +14,7 @@ function env(over: Partial<BrowserEnv> = {}) {
   let beforeUnload: (() => boolean) | null = null;
   const e: BrowserEnv & { storage: ReturnType<typeof memoryStorage> } = {
     storage,
-    pickFile: vi.fn(async () => ({ name: 'a.plan.json', text: 'A' })),
+    pickFile: vi.fn(async () => ({ name: 'a.plan.json', bytes: utf8('A') })),
     download: vi.fn(),
     fsAccess: null,
     setTitle: vi.fn(),
@@ -27,7 +29,7 @@ function handle(name: string, text: string) {
   const written: string[] = [];
   const h: WritableHandle = {
     name,
-    getFile: async () => ({ text: async () => text }),
+    getFile: async () => ({ text: async () => text, arrayBuffer: async () => utf8(text).buffer as ArrayBuffer }),
     createWritable: async () => ({ write: async (d: string) => void written.push(d), close: async () => undefined }),
   };
   return { h, written };
@@ -97,7 +99,7 @@ describe('browser host', () => {
 
   it(`keeps at most ${RECENT_LIMIT} recent files, newest first, and drops the old copies`, async () => {
     let k = 0;
-    const { e } = env({ pickFile: async () => ({ name: `p${++k}.plan.json`, text: `T${k}` }) });
+    const { e } = env({ pickFile: async () => ({ name: `p${++k}.plan.json`, bytes: utf8(`T${k}`) }) });
     const host = createBrowserHost(e);
     for (let i = 0; i < RECENT_LIMIT + 3; i++) await host.openPlan();
     const list = await host.recentFiles();
@@ -123,6 +125,21 @@ describe('browser host', () => {
     host.setDocumentState('• a — Waymark', true);
     expect(dirty()).toBe(true);
     expect(e.setTitle).toHaveBeenCalledWith('• a — Waymark');
+  });
+
+  it('refuses a file that is not valid UTF-8 with its name and the offset of the bad byte, and does not remember it', async () => {
+    const bad = Uint8Array.from([0x7b, 0x22, 0x6e, 0xc3, 0x28, 0x22, 0x7d]); // {"n\xC3("} : 0xC3 must be followed by 0x80..0xBF
+    const { e } = env({ pickFile: async () => ({ name: 'bad.plan.json', bytes: bad }) });
+    const host = createBrowserHost(e);
+    await expect(host.openPlan()).rejects.toThrow('bad.plan.json is not valid UTF-8 at byte 3');
+    const h: WritableHandle = {
+      name: 'bad2.plan.json',
+      getFile: async () => ({ text: async () => '', arrayBuffer: async () => bad.buffer as ArrayBuffer }),
+      createWritable: async () => ({ write: async () => undefined, close: async () => undefined }),
+    };
+    const { e: e2 } = env({ fsAccess: { showOpenFilePicker: async () => [h], showSaveFilePicker: async () => h } });
+    await expect(createBrowserHost(e2).openPlan()).rejects.toThrow('bad2.plan.json is not valid UTF-8 at byte 3');
+    expect(await host.recentFiles()).toEqual([]);
   });
 
   it('reads no system beside a plan (a browser has no paths)', async () => {
