@@ -10,6 +10,7 @@ import { addStabilityCommand } from './commands/stability.ts';
 import { addCorrectCommand } from './commands/correct.ts';
 import { addDisperseCommand } from './commands/disperse.ts';
 import { addWindowsCommand } from './commands/windows.ts';
+import { termSafe } from './output.ts';
 
 export function buildProgram(): Command {
   const program = new Command();
@@ -18,7 +19,7 @@ export function buildProgram(): Command {
     .description('Mission planning for invented star systems (fictional and educational use only).')
     .version('0.1.0')
     .showHelpAfterError()
-    .configureOutput({ writeErr: (s) => process.stderr.write(s) });
+    .configureOutput({ writeErr: (s) => process.stderr.write(termSafe(s)) });
   addCalcCommands(program);
   addPlanCommands(program);
   addWindowsCommand(program);

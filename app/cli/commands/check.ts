@@ -18,7 +18,7 @@ import { formatCompactDate } from '../../../core/system/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { loadPlanFile } from '../../node/files.ts';
 import { addFlyCommand } from './fly.ts';
-import { EXIT_NO, EXIT_OK, guard, num, printJson } from '../output.ts';
+import { EXIT_NO, EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
 
 const DEG = 180 / Math.PI;
 
@@ -106,8 +106,8 @@ export function addCheckCommand(program: Command): void {
             warnings: loaded.warnings,
           });
         } else {
-          for (const w of loaded.warnings) process.stderr.write(`warning: ${w.path || '(document)'} ${w.rule}\n`);
-          console.log(budgetText(loaded.system, loaded.plan, result));
+          printWarnings(loaded.warnings);
+          printText(budgetText(loaded.system, loaded.plan, result));
         }
         return holds ? EXIT_OK : EXIT_NO;
       }),

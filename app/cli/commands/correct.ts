@@ -17,7 +17,7 @@ import { InputError } from '../../../core/math/index.ts';
 import { correctPlan } from '../../../core/nbody/index.ts';
 import type { PlanSystemRef } from '../../../core/io/index.ts';
 import { loadPlanFile, savePlanFile } from '../../node/files.ts';
-import { EXIT_OK, guard, num, printJson, vecText } from '../output.ts';
+import { EXIT_OK, guard, num, printJson, printText, printWarnings, vecText } from '../output.ts';
 
 const DEG = 180 / Math.PI;
 
@@ -67,7 +67,7 @@ export function addCorrectCommand(program: Command): void {
             file: o.output,
           });
         } else {
-          for (const w of loaded.warnings) process.stderr.write(`warning: ${w.path || '(document)'} ${w.rule}\n`);
+          printWarnings(loaded.warnings);
           const out: string[] = [];
           out.push(`correction of ${loaded.plan.name} in the n-body model: converged in ${c.iterations} iteration${c.iterations === 1 ? '' : 's'} (${c.flights} n-body flights)`);
           out.push('  iter   Δ periapsis km   Δ incl deg   Δ time s');
@@ -83,7 +83,7 @@ export function addCorrectCommand(program: Command): void {
           out.push(`correction Δv ${num(c.correctionDv, 3)} m/s; margin ${num(c.margin.before, 1)} → ${num(c.margin.after, 1)} m/s`);
           for (const n of c.notes) out.push(`note: ${n}`);
           out.push(`wrote ${o.output}`);
-          console.log(out.join('\n'));
+          printText(out.join('\n'));
         }
         return EXIT_OK;
       }),

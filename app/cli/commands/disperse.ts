@@ -19,7 +19,7 @@ import { mergeBlocks, prepareDispersion, runSamples, summarizeDispersion, type D
 import type { Plan } from '../../../core/plan/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { loadPlanFile } from '../../node/files.ts';
-import { EXIT_OK, guard, num, printJson } from '../output.ts';
+import { EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 import type { DisperseTask } from '../workers/disperseWorker.ts';
 
@@ -116,7 +116,7 @@ export function addDisperseCommand(program: Command): void {
         if (o.json) {
           printJson({ plan: loaded.plan.name, ...summary, magnitudeSigma, pointingSigma, workers: Math.min(workers, samples), seconds });
         } else {
-          for (const w of loaded.warnings) process.stderr.write(`warning: ${w.path || '(document)'} ${w.rule}\n`);
+          printWarnings(loaded.warnings);
           const km = (m: number): string => num(m / 1e3, 1);
           const lines = [
             `dispersion of ${loaded.plan.name}: ${samples} samples, seed ${o.seed}, σ magnitude ${num(magnitudeSigma, 3)} %, σ pointing ${num(pointingSigma, 3)}° (${r.resolve})`,
@@ -132,7 +132,7 @@ export function addDisperseCommand(program: Command): void {
           }
           if (r.failed > 0) lines.push(`${r.failed} samples could not be evaluated (counted as not holding)`);
           lines.push(`${num(samples / seconds, 0)} samples/s on ${Math.min(workers, samples)} worker${workers === 1 ? '' : 's'}`);
-          console.log(lines.join('\n'));
+          printText(lines.join('\n'));
         }
         return EXIT_OK;
       }),

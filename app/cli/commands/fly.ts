@@ -29,7 +29,7 @@ import { nbodyStatesToEphemeris } from '../../../core/nbody/index.ts';
 import type { PlanResult } from '../../../core/plan/index.ts';
 import { formatCompactDate } from '../../../core/system/index.ts';
 import { atomicWriteFile, loadPlanFile } from '../../node/files.ts';
-import { EXIT_OK, guard, num, printJson } from '../output.ts';
+import { EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
 
 export const MODELS = ['conic', 'nbody'] as const;
 /** Default export step, s. */
@@ -111,13 +111,13 @@ export function addFlyCommand(program: Command): void {
             files,
           });
         } else {
-          for (const w of loaded.warnings) process.stderr.write(`warning: ${w.path || '(document)'} ${w.rule}\n`);
+          printWarnings(loaded.warnings);
           const cal = system.calendar;
-          console.log(`flew ${plan.name} (patched conics) from ${formatCompactDate(cal, result.t0)} to ${formatCompactDate(cal, result.t1)}`);
-          for (const e of result.events) console.log(`  ${formatCompactDate(cal, e.t, { seconds: true })}  ${e.label}`);
-          console.log(`margin ${num(result.budget.margin, 1)} m/s`);
+          printText(`flew ${plan.name} (patched conics) from ${formatCompactDate(cal, result.t0)} to ${formatCompactDate(cal, result.t1)}`);
+          for (const e of result.events) printText(`  ${formatCompactDate(cal, e.t, { seconds: true })}  ${e.label}`);
+          printText(`margin ${num(result.budget.margin, 1)} m/s`);
           if (nbody) printNBody(system.bodies.map((b) => b.name), nbody);
-          for (const [kind, path] of Object.entries(files)) console.log(`wrote ${kind}: ${path}`);
+          for (const [kind, path] of Object.entries(files)) printText(`wrote ${kind}: ${path}`);
         }
         return EXIT_OK;
       }),
@@ -125,16 +125,16 @@ export function addFlyCommand(program: Command): void {
 }
 
 function printNBody(names: string[], nb: NBodyResult): void {
-  console.log(`\nn-body verification: ${nb.status}${nb.impact ? ` (impact on ${names[nb.impact.body]})` : ''}`);
-  for (const s of nb.spans) console.log(`  ${s.method.padEnd(16)} ${num(s.t0, 0)} .. ${num(s.t1, 0)} s  ${s.reason}`);
+  printText(`\nn-body verification: ${nb.status}${nb.impact ? ` (impact on ${names[nb.impact.body]})` : ''}`);
+  for (const s of nb.spans) printText(`  ${s.method.padEnd(16)} ${num(s.t0, 0)} .. ${num(s.t1, 0)} s  ${s.reason}`);
   const a = nb.arrival;
   if (a) {
     const deg = 180 / Math.PI;
-    console.log(`  arrival at ${names[a.target]}: patched conic vs n-body`);
-    console.log(`    periapsis altitude  ${num(a.conic.altitude / 1e3, 1)} km  vs ${num(a.nbody.altitude / 1e3, 1)} km`);
-    console.log(`    inclination         ${num(a.conic.i * deg, 3)} deg vs ${num(a.nbody.i * deg, 3)} deg`);
-    console.log(`    periapsis time      difference ${num(a.difference.t, 1)} s`);
-    console.log(`    miss distance       ${num(a.missDistance / 1e3, 1)} km`);
+    printText(`  arrival at ${names[a.target]}: patched conic vs n-body`);
+    printText(`    periapsis altitude  ${num(a.conic.altitude / 1e3, 1)} km  vs ${num(a.nbody.altitude / 1e3, 1)} km`);
+    printText(`    inclination         ${num(a.conic.i * deg, 3)} deg vs ${num(a.nbody.i * deg, 3)} deg`);
+    printText(`    periapsis time      difference ${num(a.difference.t, 1)} s`);
+    printText(`    miss distance       ${num(a.missDistance / 1e3, 1)} km`);
   }
-  for (const n of nb.notes) console.log(`  note: ${n}`);
+  for (const n of nb.notes) printText(`  note: ${n}`);
 }

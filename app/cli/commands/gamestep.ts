@@ -32,7 +32,7 @@ import { gameStepSweep, type SweepResult } from '../../../core/gamestep/index.ts
 import { formatCompactDate } from '../../../core/system/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { loadPlanFile } from '../../node/files.ts';
-import { EXIT_NO, EXIT_OK, guard, num, printJson } from '../output.ts';
+import { EXIT_NO, EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 
 interface GamestepOptions {
@@ -289,11 +289,11 @@ export function addGamestepCommand(program: Command): void {
         if (o.json) {
           printJson({ plan: plan.name, system: system.name, check, sweep, warnings: loaded.warnings });
         } else {
-          for (const w of loaded.warnings) process.stderr.write(`warning: ${w.path || '(document)'} ${w.rule}\n`);
-          console.log(checkText(system, plan.name, check));
+          printWarnings(loaded.warnings);
+          printText(checkText(system, plan.name, check));
           if (sweep) {
-            console.log('');
-            console.log(sweepText(sweep));
+            printText('');
+            printText(sweepText(sweep));
           }
         }
         return check.passes ? EXIT_OK : EXIT_NO;

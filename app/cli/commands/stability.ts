@@ -16,7 +16,7 @@ import { InputError } from '../../../core/math/index.ts';
 import { checkStability, DEFAULT_YEARS, type StabilityResult } from '../../../core/checks/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { loadSystemFile } from '../../node/files.ts';
-import { EXIT_NO, EXIT_OK, guard, num, printJson } from '../output.ts';
+import { EXIT_NO, EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 
 const DEG = 180 / Math.PI;
@@ -109,8 +109,8 @@ export function addStabilityCommand(program: Command): void {
         }
         if (o.json) printJson({ system: system.name, ...r, warnings });
         else {
-          for (const w of warnings) process.stderr.write(`warning: ${w.path || '(document)'} ${w.rule}\n`);
-          console.log(stabilityText(system, r));
+          printWarnings(warnings);
+          printText(stabilityText(system, r));
         }
         return r.flags.length === 0 ? EXIT_OK : EXIT_NO;
       }),

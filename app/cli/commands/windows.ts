@@ -31,7 +31,7 @@ import { findWindows, type TransferWindow } from '../../../core/search/index.ts'
 import { formatCompactDate, parseDate } from '../../../core/system/index.ts';
 import { findBodyIndex, type StarSystem, type SystemCalendar } from '../../../core/system/index.ts';
 import { atomicWriteFile } from '../../node/files.ts';
-import { EXIT_NO, guard, jsonReplacer, num, printJson } from '../output.ts';
+import { EXIT_NO, guard, jsonReplacer, num, printData, printJson, printText } from '../output.ts';
 import { computePorkchopPooled } from '../pool.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 
@@ -354,9 +354,9 @@ export function addWindowsCommand(program: Command): void {
             windows: windows.map((w) => windowJson(cal, w)),
           });
         } else if (o.csv) {
-          process.stdout.write(windowsCsv(cal, windows));
+          printData(windowsCsv(cal, windows));
         } else {
-          console.log(textReport(system, grid, min, windows));
+          printText(textReport(system, grid, min, windows));
         }
         return windows.length === 0 ? EXIT_NO : undefined;
       }),
