@@ -9,6 +9,7 @@
  * act (clear the screen, retitle the window, move the cursor); JSON escapes them too.
  */
 import { InputError, SolverError, ValidationError, WaymarkError } from '../../core/math/index.ts';
+import { inFlagWords, type FlagNames } from './flags.ts';
 
 export const EXIT_OK = 0;
 export const EXIT_NO = 1;
@@ -69,12 +70,17 @@ export function jsonReplacer(_key: string, value: unknown): unknown {
   return value;
 }
 
-/** Runs a command body, mapping core errors to messages and exit codes. */
-export async function guard(json: boolean, body: () => Promise<number | void> | number | void): Promise<void> {
+/**
+ * Runs a command body, mapping core errors to messages and exit codes. `output.flags` names
+ * the flag that sets each core field (app/cli/flags.ts), so errors speak of `--revs`, not `maxRevs`.
+ */
+export async function guard(output: boolean | { json: boolean; flags?: FlagNames }, body: () => Promise<number | void> | number | void): Promise<void> {
+  const json = typeof output === 'boolean' ? output : output.json;
   try {
     const code = await body();
     process.exitCode = code ?? EXIT_OK;
-  } catch (err) {
+  } catch (caught) {
+    const err = typeof output === 'boolean' || !output.flags ? caught : inFlagWords(caught, output.flags);
     const code =
       err instanceof InputError || err instanceof ValidationError
         ? EXIT_BAD_INPUT

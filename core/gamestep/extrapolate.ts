@@ -105,8 +105,8 @@ export function extrapolate(run: ExtrapolationRun, s: ExtrapolatedSpan, ta: numb
   const pv = Math.log2(norm3(e2.end, 3) / norm3(e1.end, 3));
   let method: GameExtrapolation['method'] =
     e1.status === 'done' && e2.status === 'done' && p >= 0.6 * order && p <= 1.6 * order + 0.4 ? 'step-scaling' : 'window';
-  const scale = method === 'step-scaling' ? Math.pow(hs / H, p) : 0;
-  const scaleV = method === 'step-scaling' && Number.isFinite(pv) ? Math.pow(hs / H, pv) : scale;
+  const scale = method === 'step-scaling' ? (hs / H) ** p : 0;
+  const scaleV = method === 'step-scaling' && Number.isFinite(pv) ? (hs / H) ** pv : scale;
   // (2) the window at the game's step: the method for 'window', and for float32 a check that
   // rounding at the game's step does not outgrow the scaled truncation error
   let win: GameExtrapolationWindow | null = null;

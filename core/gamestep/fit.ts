@@ -60,7 +60,7 @@ export function fitPowerLaw(tau: ArrayLike<number>, e: ArrayLike<number>, fromFr
 
 /** Value of a power-law fit at τ ≥ 0. */
 export function powerLawAt(f: PowerLawFit, tau: number): number {
-  return tau > 0 ? f.coefficient * Math.pow(tau, f.order) : 0;
+  return tau > 0 ? f.coefficient * tau ** f.order : 0;
 }
 
 /** Least-squares slope of y against t (0 with fewer than 2 distinct t). */

@@ -34,7 +34,7 @@
 import * as kernel32 from './kernelF32.ts';
 import * as kernel64 from './kernelF64.ts';
 
-import { GameCraft, type GameAccel, type GameIntegrator } from './craft.ts';
+import type { GameAccel, GameCraft, GameIntegrator } from './craft.ts';
 
 export { EVALS_PER_STEP, GAME_INTEGRATORS, GameCraft, METHOD_ORDER } from './craft.ts';
 export type { GameAccel, GameIntegrator } from './craft.ts';

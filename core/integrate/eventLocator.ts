@@ -49,7 +49,7 @@ export function checkEvents(events: EventSpec[] | undefined, field = 'events'): 
   if (!Array.isArray(events)) throw new InputError(field, 'must be an array of event specs', events);
   for (let i = 0; i < events.length; i++) {
     const ev = events[i];
-    if (!ev || typeof ev.g !== 'function') throw new InputError(`${field}[${i}].g`, 'must be a function', ev && ev.g);
+    if (!ev || typeof ev.g !== 'function') throw new InputError(`${field}[${i}].g`, 'must be a function', ev?.g);
     const d = ev.direction ?? 0;
     if (d !== 0 && d !== 1 && d !== -1) throw new InputError(`${field}[${i}].direction`, 'must be 1, -1 or 0', d);
   }

@@ -30,7 +30,7 @@ export interface FixedOptions {
   /** End time; the last step lands on it exactly. */
   tEnd?: number;
   /** Called after every step; return false to stop. Do not keep or modify x, v. */
-  onStep?: (t: number, x: Float64Array, v: Float64Array) => void | boolean;
+  onStep?: (t: number, x: Float64Array, v: Float64Array) => boolean | undefined;
   /** Cooperative cancellation, checked before every step. */
   signal?: { aborted: boolean };
 }
@@ -68,9 +68,9 @@ export function fixedStepper(method: FixedMethod, accel: AccelFunction, n: numbe
 /** Checks x0, v0 (same length, a positive multiple of 3, finite) and returns that length. */
 export function requireStatePair(x0: ArrayLike<number>, v0: ArrayLike<number>): number {
   if (!x0 || typeof x0.length !== 'number' || x0.length < 3 || x0.length % 3 !== 0) {
-    throw new InputError('x0', 'must have a positive multiple of 3 components (3 per particle)', x0 && x0.length);
+    throw new InputError('x0', 'must have a positive multiple of 3 components (3 per particle)', x0?.length);
   }
-  if (!v0 || v0.length !== x0.length) throw new InputError('v0', `must have ${x0.length} components, like x0`, v0 && v0.length);
+  if (!v0 || v0.length !== x0.length) throw new InputError('v0', `must have ${x0.length} components, like x0`, v0?.length);
   for (let i = 0; i < x0.length; i++) {
     if (typeof x0[i] !== 'number' || !Number.isFinite(x0[i])) throw new InputError(`x0[${i}]`, 'must be a finite number', x0[i]);
     if (typeof v0[i] !== 'number' || !Number.isFinite(v0[i])) throw new InputError(`v0[${i}]`, 'must be a finite number', v0[i]);
@@ -126,7 +126,7 @@ export function integrateFixed(
   let done = 0;
   let status: FixedResult['status'] = 'done';
   for (let k = 0; k < nSteps; k++) {
-    if (signal && signal.aborted) {
+    if (signal?.aborted) {
       status = 'cancelled';
       break;
     }

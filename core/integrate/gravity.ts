@@ -33,14 +33,14 @@ export interface ThrustModel {
 function checkSources(sources: GravitySource[]): void {
   if (!Array.isArray(sources)) throw new InputError('sources', 'must be an array of gravity sources', sources);
   sources.forEach((s, i) => {
-    if (!s || typeof s.position !== 'function') throw new InputError(`sources[${i}].position`, 'must be a function', s && s.position);
+    if (!s || typeof s.position !== 'function') throw new InputError(`sources[${i}].position`, 'must be a function', s?.position);
     requireNonNegative(`sources[${i}].mu`, s.mu);
   });
 }
 
 function checkThrust(thrust: ThrustModel | undefined): void {
   if (thrust !== undefined && (!thrust || typeof thrust.accel !== 'function')) {
-    throw new InputError('thrust.accel', 'must be a function', thrust && thrust.accel);
+    throw new InputError('thrust.accel', 'must be a function', thrust?.accel);
   }
 }
 

@@ -277,7 +277,7 @@ function flyFixed(
       if (dense) dense.appendStep(tA, hs, rc);
       if (locator.active && locator.detect(t, yB)) {
         stopAt = locator.locate(tA, hs, t, yB, rc);
-        if (stopAt === stopAt) {
+        if (!Number.isNaN(stopAt)) {
           if (dense) dense.truncate(stopAt);
           return false;
         }
@@ -294,7 +294,7 @@ function flyFixed(
       ? { t: t0, x: x0, v: v0, steps: 0, fevals: 0, status: 'done' as const }
       : integrateFixed(method, accel, t0, x0, v0, { h, tEnd, onStep, signal });
   const stats: SolveStats = { accepted: r.steps, rejected: 0, fevals: r.fevals + extra };
-  if (r.status === 'stopped' && stopAt === stopAt) {
+  if (r.status === 'stopped' && !Number.isNaN(stopAt)) {
     const hit = locator.hits[locator.hits.length - 1];
     y.set(hit.y);
     return { t: stopAt, status: 'event', message: `${method}: terminal event ${locator.label(hit.index)} at t=${stopAt}`, stats };

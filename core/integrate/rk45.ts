@@ -257,7 +257,7 @@ function rejectedShrink(lnErr: number): number {
 
 // Why the step loop stops before a step, or '' to go on.
 function limitReached(s: Settings, t: number, h: number, steps: number): RK45Status | '' {
-  if (s.signal && s.signal.aborted) return 'cancelled';
+  if (s.signal?.aborted) return 'cancelled';
   if (steps >= s.maxSteps) return 'step-budget';
   if (!(h > stepFloor(s, t))) return 'step-underflow';
   return '';
@@ -404,7 +404,7 @@ function marchN(f: OdeFunction, t0: number, y0: Float64Array, k10: Float64Array,
     if (hasEvents && locator.detect(tn, ynew)) {
       if (!rcReady) buildCoeffs(n, hs, y, ynew, k1, k3, k4, k5, k6, k7, rc);
       const stopAt = locator.locate(t, hs, tn, ynew, rc);
-      if (stopAt === stopAt) {
+      if (!Number.isNaN(stopAt)) {
         const hit = locator.hits[locator.hits.length - 1];
         y.set(hit.y);
         t = stopAt;
@@ -614,7 +614,7 @@ function march6(f: OdeFunction, t0: number, yIn: Float64Array, k1In: Float64Arra
           buildCoeffs(6, hs, vy, vn, v1, v3, v4, v5, v6, v7, rc);
         }
         const stopAt = locator.locate(t, hs, tn, vn, rc);
-        if (stopAt === stopAt) {
+        if (!Number.isNaN(stopAt)) {
           const hy = locator.hits[locator.hits.length - 1].y;
           y0 = hy[0]; y1 = hy[1]; y2 = hy[2]; y3 = hy[3]; y4 = hy[4]; y5 = hy[5];
           t = stopAt;

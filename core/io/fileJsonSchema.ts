@@ -73,11 +73,12 @@ function rewrite(ctx: { zodSchema: z.core.$ZodTypes; jsonSchema: z.core.JSONSche
     });
   } else if (def.type === 'nullable') {
     const [inner, nul] = js.anyOf as Json[];
-    if (!nul || nul.type !== 'null') throw new Error('unexpected nullable form');
+    if (nul?.type !== 'null') throw new Error('unexpected nullable form');
     const { anyOf: _, ...meta } = js;
     if (typeof inner.$ref === 'string') {
       const t = JSON_TYPE[(def.innerType as z.core.$ZodTypes)._zod.def.type];
       if (!t) throw new Error(`nullable reference to a ${(def.innerType as z.core.$ZodTypes)._zod.def.type}`);
+      // biome-ignore lint/suspicious/noThenProperty: `then` is the JSON Schema keyword (if/then, draft 2020-12), not a thenable
       replace(js, { ...meta, type: [t, 'null'], if: { type: t }, then: inner });
     } else if (typeof inner.type === 'string') {
       replace(js, { ...inner, ...meta, type: [inner.type, 'null'] });

@@ -136,16 +136,17 @@ const EPOCH_DOY = /^(\d{4})-(\d{3})T(\d{2}):(\d{2}):(\d{2})(\.\d+)?Z?$/;
 export function parseOemEpoch(text: string): number | null {
   let days: number;
   let h: string, mi: string, s: string, frac: string | undefined;
-  let m = EPOCH_CAL.exec(text);
-  if (m) {
-    const Y = Number(m[1]), M = Number(m[2]), D = Number(m[3]);
-    [h, mi, s, frac] = [m[4], m[5], m[6], m[7]];
+  const cal = EPOCH_CAL.exec(text);
+  const ord = cal ? null : EPOCH_DOY.exec(text);
+  if (cal) {
+    const Y = Number(cal[1]), M = Number(cal[2]), D = Number(cal[3]);
+    [h, mi, s, frac] = [cal[4], cal[5], cal[6], cal[7]];
     if (M < 1 || M > 12 || D < 1 || D > daysInMonth(Y, M)) return null;
     days = daysFromCivil(Y, M, D) - ORIGIN_DAY;
-  } else if ((m = EPOCH_DOY.exec(text))) {
-    const Y = Number(m[1]);
-    const doy = Number(m[2]);
-    [h, mi, s, frac] = [m[3], m[4], m[5], m[6]];
+  } else if (ord) {
+    const Y = Number(ord[1]);
+    const doy = Number(ord[2]);
+    [h, mi, s, frac] = [ord[3], ord[4], ord[5], ord[6]];
     if (doy < 1 || doy > (isLeap(Y) ? 366 : 365)) return null;
     days = daysFromCivil(Y, 1, 1) - ORIGIN_DAY + doy - 1;
   } else return null;
@@ -312,7 +313,7 @@ export function parseOem(text: string): OemMessage {
     }
     const kv = /^([A-Z_][A-Z0-9_]*)\s*=\s*(.*)$/.exec(line);
     if (state === 'start') {
-      if (!kv || kv[1] !== 'CCSDS_OEM_VERS') {
+      if (kv?.[1] !== 'CCSDS_OEM_VERS') {
         bad(lineNo, 'must be CCSDS_OEM_VERS = ... (the first line of an OEM)');
         break;
       }

@@ -3,7 +3,7 @@
  * Inside the core everything is SI: m, s, kg, rad, m/s, m³/s².
  *
  * A quantity is written as a number with an optional unit suffix: `5000km`, `-3.2km/s`,
- * `28.5deg`, `3600s`, `2.5d`, `3.986004418e14`. A vector is comma-separated components,
+ * `28.5deg`, `20ms`, `3600s`, `2.5d`, `3.986004418e14`. A vector is comma-separated components,
  * each with its own optional unit: `5000km,10000km,2100km`. Without a suffix a value is SI.
  * `d` is the mean solar day of 86 400 s (common practice), not an invented world's day.
  */
@@ -14,7 +14,7 @@ export type Dimension = 'length' | 'speed' | 'time' | 'angle' | 'mu' | 'mass' | 
 const UNITS: Record<Dimension, Record<string, number>> = {
   length: { m: 1, km: 1e3, Mm: 1e6, Gm: 1e9 },
   speed: { 'm/s': 1, 'km/s': 1e3 },
-  time: { s: 1, min: 60, h: 3600, d: 86400 },
+  time: { ms: 1e-3, s: 1, min: 60, h: 3600, d: 86400 },
   angle: { rad: 1, deg: Math.PI / 180 },
   mu: { 'm3/s2': 1, 'km3/s2': 1e9, 'm^3/s^2': 1, 'km^3/s^2': 1e9 },
   mass: { kg: 1, t: 1e3 },

@@ -196,7 +196,7 @@ export function probePeriapsis(
     const sign = dtp > 0 ? 1 : -1;
     const savedOrigin = model.origin;
     model.origin = k;
-    let res;
+    let res: ReturnType<typeof propagate>;
     try {
       res = propagate({
         accel: model.accel,

@@ -83,7 +83,7 @@ const ARRIVAL_ID = '@arrival';
 
 /** n-body verification of a plan's patched-conic result (see the module comment). */
 export function verifyNBody(system: StarSystem, plan: Plan, conicResult: PlanResult, options: VerifyOptions = {}): NBodyResult {
-  if (!conicResult || conicResult.model !== 'conic') throw new InputError('conicResult', "must be a patched-conic PlanResult (model 'conic')", conicResult?.model);
+  if (conicResult?.model !== 'conic') throw new InputError('conicResult', "must be a patched-conic PlanResult (model 'conic')", conicResult?.model);
   const model = new NBodyModel(system, options);
   const start = conicStart(conicResult);
   const { actions, notes } = burnActions(system, plan, conicResult);

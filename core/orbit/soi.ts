@@ -21,7 +21,7 @@ function checkMasses(m: number, M: number): void {
 export function sphereOfInfluence(a: number, m: number, M: number): number {
   requirePositive('a', a);
   checkMasses(m, M);
-  return a * Math.pow(m / M, 0.4);
+  return a * (m / M) ** 0.4;
 }
 
 /** Hill sphere radius a(1 − e)(m/(3M))^(1/3), in the units of a. e must lie in [0, 1). */

@@ -95,7 +95,7 @@ export function computePorkchopRows(
   const onRow = options.onRow;
   let bad = 0;
   for (let i = rowStart; i < rowEnd; i++) {
-    if (signal !== undefined && signal.aborted) throw cancelled(i);
+    if (signal?.aborted) throw cancelled(i);
     const tDep = axisValue(req.depart, i);
     stateAboutCentral(system, s, s.from, tDep, DEP6);
     let idx = (i - out.rowStart) * nCols;

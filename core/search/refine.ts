@@ -78,7 +78,7 @@ export function nelderMead(f: (x: number[]) => number, x0: ArrayLike<number>, st
   const value = (x: number[]): number => {
     evaluations++;
     const y = f(x);
-    return typeof y === 'number' && y === y && y < Infinity ? y : Infinity;
+    return typeof y === 'number' && y < Infinity ? y : Infinity; // NaN < Infinity is false
   };
 
   const start = clamp(Array.from(x0));

@@ -211,7 +211,7 @@ function finish(s: TransferSetup, v1x: number, v1y: number, v1z: number, v2x: nu
   lastCell[CELL_VINF_ARRIVE] = vInfA;
   lastCell[CELL_METRIC] = m;
   // one test catches NaN and ±Infinity in any slot
-  return Math.abs(total + c3 + vInfD + vInfA) < Infinity && m === m ? m : Infinity;
+  return Math.abs(total + c3 + vInfD + vInfA) < Infinity && !Number.isNaN(m) ? m : Infinity;
 }
 
 const cost = (v1x: number, v1y: number, v1z: number, v2x: number, v2y: number, v2z: number): number =>

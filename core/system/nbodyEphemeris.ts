@@ -86,7 +86,7 @@ export interface NBodyEphemerisData {
 /** Flies the system's mutual gravity from the epoch to options.tEnd and stores samples. */
 export function buildNBodyEphemeris(system: StarSystem, options: NBodyOptions): NBodyEphemeris {
   if (!options || !Number.isFinite(options.tEnd) || !(options.tEnd > 0)) {
-    throw new InputError('tEnd', 'must be a finite number > 0 (s after the epoch)', options && options.tEnd);
+    throw new InputError('tEnd', 'must be a finite number > 0 (s after the epoch)', options?.tEnd);
   }
   const method = options.method ?? 'yoshida4';
   if (method !== 'yoshida4' && method !== 'verlet') throw new InputError('method', 'must be one of: yoshida4, verlet', method);

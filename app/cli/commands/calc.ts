@@ -12,6 +12,7 @@ import { solveLambert } from '../../../core/orbit/index.ts';
 import { hohmann } from '../../../core/orbit/index.ts';
 import { bielliptic } from '../../../core/orbit/index.ts';
 import { hillRadius, sphereOfInfluence } from '../../../core/orbit/index.ts';
+import { CALC_FLAGS } from '../flags.ts';
 import { guard, num, printJson, vecText } from '../output.ts';
 
 const DEG = 180 / Math.PI;
@@ -34,7 +35,7 @@ export function addCalcCommands(program: Command): void {
     .requiredOption('--dt <t>', 'time step, may be negative (s, min, h, d)')
     .option('--json', 'machine-readable output')
     .action((o) =>
-      guard(!!o.json, () => {
+      guard({ json: !!o.json, flags: CALC_FLAGS }, () => {
         const mu = parseQuantity('--mu', o.mu, 'mu');
         const r = parseVector('--r', o.r, 'length');
         const v = parseVector('--v', o.v, 'speed');
@@ -61,7 +62,7 @@ export function addCalcCommands(program: Command): void {
     .option('--nu <nu>', 'true anomaly')
     .option('--json', 'machine-readable output')
     .action((o) =>
-      guard(!!o.json, () => {
+      guard({ json: !!o.json, flags: CALC_FLAGS }, () => {
         const mu = parseQuantity('--mu', o.mu, 'mu');
         if (o.r || o.v) {
           const r = parseVector('--r', need(o, 'r'), 'length');
@@ -110,7 +111,7 @@ export function addCalcCommands(program: Command): void {
     .option('--retrograde', 'retrograde transfer (clockwise about +z)')
     .option('--json', 'machine-readable output')
     .action((o) =>
-      guard(!!o.json, () => {
+      guard({ json: !!o.json, flags: CALC_FLAGS }, () => {
         const mu = parseQuantity('--mu', o.mu, 'mu');
         const r1 = parseVector('--r1', o.r1, 'length');
         const r2 = parseVector('--r2', o.r2, 'length');
@@ -134,7 +135,7 @@ export function addCalcCommands(program: Command): void {
     .requiredOption('--r2 <r>', 'final orbit radius')
     .option('--json', 'machine-readable output')
     .action((o) =>
-      guard(!!o.json, () => {
+      guard({ json: !!o.json, flags: CALC_FLAGS }, () => {
         const h = hohmann(parseQuantity('--mu', o.mu, 'mu'), parseQuantity('--r1', o.r1, 'length'), parseQuantity('--r2', o.r2, 'length'));
         if (o.json) printJson(h);
         else
@@ -153,7 +154,7 @@ export function addCalcCommands(program: Command): void {
     .requiredOption('--rb <r>', 'intermediate apoapsis radius')
     .option('--json', 'machine-readable output')
     .action((o) =>
-      guard(!!o.json, () => {
+      guard({ json: !!o.json, flags: CALC_FLAGS }, () => {
         const b = bielliptic(
           parseQuantity('--mu', o.mu, 'mu'),
           parseQuantity('--r1', o.r1, 'length'),
@@ -177,7 +178,7 @@ export function addCalcCommands(program: Command): void {
     .option('--e <e>', 'eccentricity (Hill radius at periapsis)', '0')
     .option('--json', 'machine-readable output')
     .action((o) =>
-      guard(!!o.json, () => {
+      guard({ json: !!o.json, flags: CALC_FLAGS }, () => {
         const a = parseQuantity('--a', o.a, 'length');
         const m = parseQuantity('--m', o.m, 'mass');
         const M = parseQuantity('--M', o.M, 'mass');
@@ -198,7 +199,7 @@ export function addCalcCommands(program: Command): void {
     .option('--thrust <F>', 'thrust (N, kN): also prints the burn duration')
     .option('--json', 'machine-readable output')
     .action((o) =>
-      guard(!!o.json, () => {
+      guard({ json: !!o.json, flags: CALC_FLAGS }, () => {
         const isp = parseQuantity('--isp', o.isp, 'time');
         const m0 = parseQuantity('--m0', o.m0, 'mass');
         let dv: number;

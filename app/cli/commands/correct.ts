@@ -18,6 +18,7 @@ import { correctPlan } from '../../../core/nbody/index.ts';
 import type { PlanSystemRef } from '../../../core/io/index.ts';
 import { loadPlanFile, savePlanFile } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson, printText, printWarnings, vecText } from '../output.ts';
+import { CORRECT_FLAGS } from '../flags.ts';
 
 const DEG = 180 / Math.PI;
 
@@ -43,7 +44,7 @@ export function addCorrectCommand(program: Command): void {
     .option('--max-iterations <n>', 'Newton iterations at most', '15')
     .option('--json', 'machine-readable output')
     .action((planPath: string, o: { output: string; burn?: string[]; time?: boolean; maxIterations: string; json?: boolean }) =>
-      guard(!!o.json, async () => {
+      guard({ json: !!o.json, flags: CORRECT_FLAGS }, async () => {
         const maxIterations = Number(o.maxIterations);
         if (!Number.isInteger(maxIterations) || maxIterations < 1) throw new InputError('--max-iterations', 'must be a whole number >= 1', o.maxIterations);
         if (resolve(o.output) === resolve(planPath)) throw new InputError('--output', 'must not be the input plan (keep the original)', o.output);

@@ -20,6 +20,7 @@ import type { Plan } from '../../../core/plan/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { loadPlanFile } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
+import { DISPERSE_FLAGS } from '../flags.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 import type { DisperseTask } from '../workers/disperseWorker.ts';
 
@@ -90,7 +91,7 @@ export function addDisperseCommand(program: Command): void {
     .option('--workers <n>', 'worker threads (1: in this thread)')
     .option('--json', 'machine-readable output')
     .action((planPath: string, o: { samples: string; seed: string; magSigma: string; pointSigma: string; resolve: string; workers?: string; json?: boolean }) =>
-      guard(!!o.json, async () => {
+      guard({ json: !!o.json, flags: DISPERSE_FLAGS }, async () => {
         const samples = count('--samples', o.samples, 1);
         const seedNum = Number(o.seed);
         if (!Number.isSafeInteger(seedNum)) throw new InputError('--seed', 'must be a whole number', o.seed);

@@ -30,6 +30,7 @@ import type { PlanResult } from '../../../core/plan/index.ts';
 import { formatCompactDate } from '../../../core/system/index.ts';
 import { atomicWriteFile, loadPlanFile } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
+import { FLY_FLAGS } from '../flags.ts';
 
 export const MODELS = ['conic', 'nbody'] as const;
 /** Default export step, s. */
@@ -59,7 +60,7 @@ export function addFlyCommand(program: Command): void {
     .option('--step <t>', 'ephemeris step (s, min, h, d)', String(DEFAULT_STEP))
     .option('--json', 'machine-readable output')
     .action((planPath: string, o: { model: string; oem?: string; csv?: string; burns?: string; report?: string; step: string; json?: boolean }) =>
-      guard(!!o.json, async () => {
+      guard({ json: !!o.json, flags: FLY_FLAGS }, async () => {
         if (!(MODELS as readonly string[]).includes(o.model)) throw new InputError('--model', `must be one of: ${MODELS.join(', ')}`, o.model);
         const step = parseQuantity('--step', o.step, 'time');
         if (!(step > 0)) throw new InputError('--step', 'must be > 0', o.step);

@@ -33,6 +33,7 @@ import { formatCompactDate } from '../../../core/system/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { loadPlanFile } from '../../node/files.ts';
 import { EXIT_NO, EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
+import { GAMESTEP_FLAGS } from '../flags.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 
 interface GamestepOptions {
@@ -252,7 +253,7 @@ export function addGamestepCommand(program: Command): void {
     .option('--dt-max <seconds>', 'largest step of the sweep')
     .option('--json', 'machine-readable output')
     .action((planPath: string, o: GamestepOptions) =>
-      guard(!!o.json, () => {
+      guard({ json: !!o.json, flags: GAMESTEP_FLAGS }, () => {
         const physics = physicsFromOptions(o);
         const tolerance = o.tolerance !== undefined ? parseKm('--tolerance', o.tolerance) : undefined;
         const energyTolerance = o.energyTolerance !== undefined ? parsePositive('--energy-tolerance', o.energyTolerance) : undefined;

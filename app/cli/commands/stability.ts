@@ -17,6 +17,7 @@ import { checkStability, DEFAULT_YEARS, type StabilityResult } from '../../../co
 import type { StarSystem } from '../../../core/system/index.ts';
 import { loadSystemFile } from '../../node/files.ts';
 import { EXIT_NO, EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
+import { STABILITY_FLAGS } from '../flags.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 
 const DEG = 180 / Math.PI;
@@ -88,7 +89,7 @@ export function addStabilityCommand(program: Command): void {
     .option('--samples <n>', 'element-history samples')
     .option('--json', 'machine-readable output')
     .action((systemPath: string, o: StabilityCliOptions) =>
-      guard(!!o.json, () => {
+      guard({ json: !!o.json, flags: STABILITY_FLAGS }, () => {
         const years = positive('--years', o.years, false);
         if (o.method !== 'yoshida4' && o.method !== 'verlet') throw new InputError('--method', 'must be one of: yoshida4, verlet', o.method);
         const { system, warnings } = loadSystemFile(systemPath);

@@ -32,6 +32,7 @@ import { formatCompactDate, parseDate } from '../../../core/system/index.ts';
 import { findBodyIndex, type StarSystem, type SystemCalendar } from '../../../core/system/index.ts';
 import { atomicWriteFile } from '../../node/files.ts';
 import { EXIT_NO, guard, jsonReplacer, num, printData, printJson, printText } from '../output.ts';
+import { windowsFlags } from '../flags.ts';
 import { computePorkchopPooled } from '../pool.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 
@@ -307,7 +308,7 @@ export function addWindowsCommand(program: Command): void {
     .option('--json', 'machine-readable output')
     .option('--csv', 'the windows as CSV')
     .action((o: WindowsOptions) =>
-      guard(!!o.json, async () => {
+      guard({ json: !!o.json, flags: windowsFlags(o.arrive !== undefined ? 'arrival' : 'tof') }, async () => {
         if (o.json && o.csv) throw new InputError('--csv', 'cannot be combined with --json');
         let text: string;
         try {

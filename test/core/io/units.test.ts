@@ -12,6 +12,14 @@ describe('units', () => {
     expect(parseQuantity('mu', '398600km3/s2', 'mu')).toBe(3.986e14);
     expect(parseQuantity('mu', '3.986004418e14', 'mu')).toBe(3.986004418e14);
   });
+  it('reads time in ms, s, min, h and d (SI prefix milli-; 60 s, 3600 s and the 86 400 s mean solar day, common practice)', () => {
+    expect(parseQuantity('dt', '20ms', 'time')).toBe(20e-3);
+    expect(parseQuantity('dt', '1000ms', 'time')).toBe(1);
+    expect(parseQuantity('dt', '2min', 'time')).toBe(120);
+    expect(parseQuantity('dt', '1.5h', 'time')).toBe(5400);
+    // ms is a unit of time only: a length or a speed refuses it and lists its own units
+    expect(() => parseQuantity('r', '20ms', 'length')).toThrow(/r has unknown unit "ms" \(use one of: m, km, Mm, Gm\)/);
+  });
   it('parses vectors with per-component units and leading minus signs', () => {
     expect(parseVector('r2', '-14600km,2500km,7000km', 'length')).toEqual([-14.6e6, 2.5e6, 7e6]);
     expect(parseVector('v', '1,2km/s,-3', 'speed')).toEqual([1, 2000, -3]);

@@ -112,7 +112,7 @@ describe('arrival', () => {
       let best = Infinity;
       let bestRp = 0;
       for (let k = 0; k <= 20000; k++) {
-        const rp = 500 * Math.pow(1000, k / 20000);
+        const rp = 500 * 1000 ** (k / 20000);
         const dv = dvAt(rp);
         if (dv < best) {
           best = dv;
