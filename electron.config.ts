@@ -46,7 +46,7 @@ const config: WaymarkElectronConfig = {
     allowNavigation: false,
     allowNewWindows: false,
     contentSecurityPolicy:
-      "default-src 'self'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; worker-src 'self' blob:; connect-src 'self'; object-src 'none'; frame-src 'none'; base-uri 'none'; frame-ancestors 'none'",
+      "default-src 'self'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:; worker-src 'self' blob:; connect-src 'self'; object-src 'none'; frame-src 'none'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'",
   },
   browserMode: { host: '127.0.0.1', port: 5317 },
   build: { outDir: 'dist', main: 'dist/main/main.js', preload: 'dist/preload/preload.cjs', rendererDir: 'dist/renderer' },

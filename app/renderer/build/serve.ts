@@ -1,25 +1,37 @@
 /**
  * Browser mode's server: serves the built renderer (dist/renderer) on 127.0.0.1 with the app's
  * Content-Security-Policy as a header. Static files only: GET and HEAD, no directory listing,
- * nothing outside the folder, no caching (a rebuild shows at once).
+ * nothing outside the folder, no HTTP caching (a rebuild shows at once).
+ *
+ * - Only requests addressed to this server by a loopback name are answered: the Host header
+ *   must be `127.0.0.1:<port>`, `localhost:<port>` or `[::1]:<port>`. A page on another site
+ *   whose DNS name is re-pointed at 127.0.0.1 (DNS rebinding) sends its own name as the Host and
+ *   gets 421 with no content (RFC 9110 §15.5.20, Misdirected Request).
+ * - Each file is read from disk once and kept in memory while its size and modification time
+ *   stay the same (the built files are a few MB in all); concurrent requests for a file share
+ *   one read, so memory does not grow with the number of requests. Files over MAX_CACHED_BYTES
+ *   are streamed from disk instead.
  */
+import { createReadStream } from 'node:fs';
 import { createServer, type Server } from 'node:http';
 import { readFile, stat } from 'node:fs/promises';
-import { extname, join, normalize, sep } from 'node:path';
+import { join, normalize, sep } from 'node:path';
 import type { AddressInfo } from 'node:net';
+import { mimeType } from './mime.ts';
 
-const MIME: Record<string, string> = {
-  '.html': 'text/html; charset=utf-8',
-  '.js': 'text/javascript; charset=utf-8',
-  '.mjs': 'text/javascript; charset=utf-8',
-  '.css': 'text/css; charset=utf-8',
-  '.json': 'application/json; charset=utf-8',
-  '.map': 'application/json; charset=utf-8',
-  '.svg': 'image/svg+xml',
-  '.png': 'image/png',
-  '.woff2': 'font/woff2',
-  '.txt': 'text/plain; charset=utf-8',
-};
+/** Files up to this size are kept in memory; larger ones are streamed per request. */
+export const MAX_CACHED_BYTES = 32 * 1024 * 1024;
+
+/** Host header values this server answers on `port` (loopback names only). */
+export function allowedHosts(port: number): Set<string> {
+  return new Set([`127.0.0.1:${port}`, `localhost:${port}`, `[::1]:${port}`]);
+}
+
+interface CachedFile {
+  size: number;
+  mtimeMs: number;
+  body: Promise<Buffer>;
+}
 
 export interface ServeOptions {
   root: string;
@@ -27,6 +39,10 @@ export interface ServeOptions {
   /** Preferred port; when taken (or 0), a free one is used. */
   port: number;
   contentSecurityPolicy: string;
+  /** Reads a whole file (default node:fs/promises readFile; tests count the reads). */
+  readFile?: (path: string) => Promise<Buffer>;
+  /** Files larger than this are streamed, not kept (default MAX_CACHED_BYTES). */
+  maxCachedBytes?: number;
 }
 
 export interface Served {
@@ -54,6 +70,17 @@ function listen(server: Server, host: string, port: number): Promise<number> {
 
 export async function serveStatic(o: ServeOptions): Promise<Served> {
   const root = normalize(o.root + sep);
+  const cache = new Map<string, CachedFile>();
+  let hosts = new Set<string>();
+  /** The file's bytes from memory, read once per (size, modification time). */
+  function cached(file: string, size: number, mtimeMs: number): Promise<Buffer> {
+    const hit = cache.get(file);
+    if (hit && hit.size === size && hit.mtimeMs === mtimeMs) return hit.body;
+    const body = (o.readFile ?? readFile)(file);
+    cache.set(file, { size, mtimeMs, body });
+    body.catch(() => cache.delete(file));
+    return body;
+  }
   const server = createServer(async (req, res) => {
     const headers = {
       'Content-Security-Policy': o.contentSecurityPolicy,
@@ -63,6 +90,10 @@ export async function serveStatic(o: ServeOptions): Promise<Served> {
       'Referrer-Policy': 'no-referrer',
       'Cache-Control': 'no-store',
     };
+    if (!hosts.has((req.headers.host ?? '').toLowerCase())) {
+      res.writeHead(421, { ...headers, 'Content-Length': 0 }).end();
+      return;
+    }
     if (req.method !== 'GET' && req.method !== 'HEAD') {
       res.writeHead(405, { ...headers, Allow: 'GET, HEAD' }).end();
       return;
@@ -83,11 +114,18 @@ export async function serveStatic(o: ServeOptions): Promise<Served> {
     try {
       const st = await stat(file);
       if (!st.isFile()) throw new Error('not a file');
-      const body = await readFile(file);
-      res.writeHead(200, { ...headers, 'Content-Type': MIME[extname(file)] ?? 'application/octet-stream', 'Content-Length': body.length });
+      const type = { ...headers, 'Content-Type': mimeType(file) };
+      if (st.size > (o.maxCachedBytes ?? MAX_CACHED_BYTES)) {
+        res.writeHead(200, { ...type, 'Content-Length': st.size });
+        if (req.method === 'HEAD') res.end();
+        else createReadStream(file).on('error', () => res.destroy()).pipe(res);
+        return;
+      }
+      const body = await cached(file, st.size, st.mtimeMs);
+      res.writeHead(200, { ...type, 'Content-Length': body.length });
       res.end(req.method === 'HEAD' ? undefined : body);
     } catch {
-      res.writeHead(404, { ...headers, 'Content-Type': 'text/plain; charset=utf-8' }).end('not found');
+      if (!res.headersSent) res.writeHead(404, { ...headers, 'Content-Type': 'text/plain; charset=utf-8' }).end('not found');
     }
   });
   let port: number;
@@ -97,6 +135,7 @@ export async function serveStatic(o: ServeOptions): Promise<Served> {
     if ((err as NodeJS.ErrnoException).code !== 'EADDRINUSE' && (err as NodeJS.ErrnoException).code !== 'EACCES') throw err;
     port = await listen(server, o.host, 0);
   }
+  hosts = allowedHosts(port);
   return {
     server,
     port,

@@ -27,3 +27,18 @@ describe('app scheme handler', () => {
     expect(await r.text()).not.toContain('secret');
   });
 });
+
+describe('content types', () => {
+  it('the app scheme and browser mode type every built file alike, from one table', async () => {
+    const { MIME } = await import('../../../app/renderer/build/mime.ts');
+    for (const [ext, type] of Object.entries(MIME)) {
+      writeFileSync(join(root, 'renderer', `f${ext}`), 'x');
+      expect((await handle({ url: `waymark://app/f${ext}` })).headers.get('content-type'), ext).toBe(type);
+    }
+    // the extension decides regardless of case; an unknown one is opaque bytes (with nosniff)
+    writeFileSync(join(root, 'renderer', 'g.JS'), 'x');
+    writeFileSync(join(root, 'renderer', 'h.bin'), 'x');
+    expect((await handle({ url: 'waymark://app/g.JS' })).headers.get('content-type')).toBe('text/javascript; charset=utf-8');
+    expect((await handle({ url: 'waymark://app/h.bin' })).headers.get('content-type')).toBe('application/octet-stream');
+  });
+});

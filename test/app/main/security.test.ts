@@ -54,13 +54,15 @@ describe('main-process security settings', () => {
 
   it('locks the session: permissions, devices and downloads refused, remote requests cancelled, CSP set', () => {
     const rec: Record<string, (...a: never[]) => unknown> = {};
-    const keep = (k: string) => (fn: never) => void (rec[k] = fn);
+    const keep = (k: string) => (fn: never) => {
+      rec[k] = fn;
+    };
     lockDownSession(
       {
         setPermissionRequestHandler: keep('request'),
         setPermissionCheckHandler: keep('check'),
         setDevicePermissionHandler: keep('device'),
-        on: ((ev: string, fn: never) => void (rec[`on:${ev}`] = fn)) as never,
+        on: ((ev: string, fn: never) => { rec[`on:${ev}`] = fn; }) as never,
         webRequest: { onBeforeRequest: keep('before'), onHeadersReceived: keep('headers') } as never,
       },
       'default-src none-test',
@@ -142,6 +144,8 @@ describe('main-process security settings', () => {
     expect(directives.get('object-src')).toEqual(["'none'"]);
     expect(directives.get('base-uri')).toEqual(["'none'"]);
     expect(directives.get('frame-ancestors')).toEqual(["'none'"]);
+    // no form may submit anywhere (the app has no forms that post; a form injected into the page cannot send data out)
+    expect(directives.get('form-action')).toEqual(["'none'"]);
     const allowed: Record<string, string[]> = {
       'style-src': ["'self'", "'unsafe-inline'"],
       'img-src': ["'self'", 'data:', 'blob:'],
