@@ -40,7 +40,7 @@ export function createRecentStore(file: string, fs: RecentFs): RecentStore {
     async add(path, at = Date.now()) {
       const next = [{ path, name: basename(path), at }, ...(await load()).filter((e) => e.path !== path)].slice(0, RECENT_LIMIT);
       cache = next;
-      await fs.writeAtomic(file, JSON.stringify(next, null, 2) + '\n');
+      await fs.writeAtomic(file, `${JSON.stringify(next, null, 2)}\n`);
       return [...next];
     },
     has: async (path) => (await load()).some((e) => e.path === path),

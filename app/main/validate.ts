@@ -17,7 +17,7 @@ export class ArgumentError extends Error {
   }
 }
 
-// eslint-disable-next-line no-control-regex
+// biome-ignore lint/suspicious/noControlCharactersInRegex: finding control characters in argument text is the point
 const CONTROL = /[\u0000-\u001f\u007f]/;
 
 export function requireText(name: string, v: unknown, max = MAX_FILE_CHARS): string {

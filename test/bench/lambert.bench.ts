@@ -209,7 +209,7 @@ export async function run(): Promise<void> {
       ['multi-revolution solutions / s', (solutions / mreps) * multiRate, '—', '—'],
       ['iterations per multi-revolution solution', mIter / mSol, '—', '—'],
       ['max |Δv1| / |v1| between the two solvers', maxDiff, '—', '—'],
-      ['failed solves (of ' + n + ')', failIzzo, failRef, '—'],
+      [`failed solves (of ${n})`, failIzzo, failRef, '—'],
     ],
   );
 }

@@ -18,8 +18,8 @@ export function printTable(header: string[], rows: (string | number)[][]): void 
   const cells = [header, ...rows.map((r) => r.map((c) => (typeof c === 'number' ? fmt(c) : c)))];
   const widths = header.map((_, i) => Math.max(...cells.map((r) => String(r[i] ?? '').length)));
   for (const [k, r] of cells.entries()) {
-    console.log('  ' + r.map((c, i) => String(c).padEnd(widths[i])).join('  '));
-    if (k === 0) console.log('  ' + widths.map((w) => '-'.repeat(w)).join('  '));
+    console.log(`  ${r.map((c, i) => String(c).padEnd(widths[i])).join('  ')}`);
+    if (k === 0) console.log(`  ${widths.map((w) => '-'.repeat(w)).join('  ')}`);
   }
 }
 

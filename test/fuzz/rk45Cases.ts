@@ -24,7 +24,7 @@ import { propagate } from '../../core/integrate/propagate.ts';
 import { EVENT_TIME_TOL, rk45, type RK45Result } from '../../core/integrate/rk45.ts';
 import { built } from './draw.ts';
 import { CaseFailure, typedOrFail } from './verdict.ts';
-import { norm, perpendicular, scale, type V3 } from './vec.ts';
+import { norm, perpendicular, scale } from './vec.ts';
 
 /**
  * Relative agreement of an event time with the analytic time: EVENT_TOL_PER_RTOL times the

@@ -26,7 +26,7 @@ import type { Plan } from '../../../core/plan/index.ts';
 import { checkPlanAgainstSystem, checkPlanDocument } from '../../../core/io/index.ts';
 import { planToDocument } from '../../../core/io/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
-import { NewerVersionError, type ExportKind, type FileRef, type Host, type MenuCommand, type RecentFile, type RecoverySnapshot } from '../host/host.ts';
+import { NewerVersionError, type ExportKind, type FileRef, type Host, type MenuCommand, type OpenedFile, type RecentFile, type RecoverySnapshot } from '../host/host.ts';
 import { fileToMemoryPath } from '../plan/paths.ts';
 import { CursorStore } from './cursor.ts';
 import { PlanDocumentStore, UNTITLED, type LoadedDocument } from './document.ts';
@@ -228,7 +228,7 @@ export class Session {
 
   async open(): Promise<void> {
     if (!(await this.confirmDiscard('open another plan'))) return;
-    let opened;
+    let opened: OpenedFile | null;
     try {
       opened = await this.deps.host.openPlan();
     } catch (err) {

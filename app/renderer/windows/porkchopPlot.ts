@@ -170,7 +170,7 @@ export class PorkchopPlot {
       .join('path')
       .attr('d', (c) => path(c))
       .attr('fill', (c) => colour(c.value))
-      .attr('stroke', (c, k) => (k % 4 === 0 ? '#0f1416' : 'none'))
+      .attr('stroke', (_c, k) => (k % 4 === 0 ? '#0f1416' : 'none'))
       .attr('stroke-opacity', 0.35)
       .attr('stroke-width', 0.6);
 

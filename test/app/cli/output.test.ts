@@ -14,6 +14,7 @@ import { jsonText, printData, termSafe } from '../../../app/cli/output.ts';
 import { ROOT, runCli } from './runCli.ts';
 
 /** Any character a terminal acts on instead of printing (newline and tab excepted). */
+// biome-ignore lint/suspicious/noControlCharactersInRegex: the test looks for control characters left in the output
 const RAW_CONTROL = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/;
 
 const work = mkdtempSync(join(tmpdir(), 'waymark-output-'));

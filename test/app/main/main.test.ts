@@ -84,13 +84,13 @@ vi.mock('electron', () => {
     },
     session: {
       defaultSession: {
-        setPermissionRequestHandler: (fn: never) => void (m.session.permission = fn),
-        setPermissionCheckHandler: (fn: never) => void (m.session.permissionCheck = fn),
-        setDevicePermissionHandler: (fn: never) => void (m.session.devicePermission = fn),
+        setPermissionRequestHandler: (fn: never) => { m.session.permission = fn; },
+        setPermissionCheckHandler: (fn: never) => { m.session.permissionCheck = fn; },
+        setDevicePermissionHandler: (fn: never) => { m.session.devicePermission = fn; },
         on: (ev: string, fn: never) => void m.session.events.set(ev, fn),
         webRequest: {
-          onBeforeRequest: (fn: never) => void (m.session.beforeRequest = fn),
-          onHeadersReceived: (fn: never) => void (m.session.headers = fn),
+          onBeforeRequest: (fn: never) => { m.session.beforeRequest = fn; },
+          onHeadersReceived: (fn: never) => { m.session.headers = fn; },
         },
       },
     },
@@ -147,9 +147,9 @@ describe('Electron main process (electron mocked)', () => {
     const missing = await handler({ url: 'waymark://app/no-such-file.js' });
     expect(missing.status).toBe(404);
     expect(missing.headers.get('content-security-policy')).toBe(config.security.contentSecurityPolicy);
-    const escape = await handler({ url: 'waymark://app/..%2f..%2fpackage.json' });
-    expect(escape.status).toBe(404);
-    expect(escape.headers.get('content-security-policy')).toBe(config.security.contentSecurityPolicy);
+    const outside = await handler({ url: 'waymark://app/..%2f..%2fpackage.json' });
+    expect(outside.status).toBe(404);
+    expect(outside.headers.get('content-security-policy')).toBe(config.security.contentSecurityPolicy);
   });
 
   it('denies navigation (main frame and sub-frames), redirects, webviews and new windows for every web contents', () => {

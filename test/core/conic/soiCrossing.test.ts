@@ -10,7 +10,7 @@ import {
   timeToRadius,
 } from '../../../core/conic/soiCrossing.ts';
 import { bodyStateRelativeToParent } from '../../../core/system/ephemeris.ts';
-import { AU, MU_EARTH, MU_SUN, testSystem } from '../plan/helpers.ts';
+import { MU_EARTH, MU_SUN, testSystem } from '../plan/helpers.ts';
 
 const DEG = Math.PI / 180;
 

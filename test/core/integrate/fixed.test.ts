@@ -30,7 +30,10 @@ const runs = new Map<string, EnergyRun>();
 function energyRun(method: FixedMethod, orbits: number): EnergyRun {
   const key = `${method}:${orbits}`;
   let run = runs.get(key);
-  if (!run) runs.set(key, (run = flyEnergy(method, orbits)));
+  if (!run) {
+    run = flyEnergy(method, orbits);
+    runs.set(key, run);
+  }
   return run;
 }
 

@@ -160,7 +160,7 @@ describe('rk45 bookkeeping and failure modes', () => {
 
   it('respects maxStep', () => {
     let tPrev = 0, widest = 0;
-    const f = (t: number, y: Float64Array, dy: Float64Array) => {
+    const f = (_t: number, y: Float64Array, dy: Float64Array) => {
       dy[0] = -y[0];
     };
     const r = rk45(f, 0, [1], 10, { maxStep: 0.5, rtol: 1e-3, events: [{ g: (t) => { widest = Math.max(widest, t - tPrev); tPrev = t; return 1; } }] });
@@ -213,7 +213,7 @@ describe('rk45 bookkeeping and failure modes', () => {
   });
 
   it('throws SolverError non-finite when an event function returns NaN', () => {
-    expect(() => rk45((_t, y, dy) => { dy[0] = 1; }, 0, [0], 1, { events: [{ g: (t) => (t > 0.5 ? NaN : -1), name: 'bad' }] })).toThrow(
+    expect(() => rk45((_t, _y, dy) => { dy[0] = 1; }, 0, [0], 1, { events: [{ g: (t) => (t > 0.5 ? NaN : -1), name: 'bad' }] })).toThrow(
       /event function "bad" returned NaN/,
     );
   });

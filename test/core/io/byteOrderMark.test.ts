@@ -10,13 +10,13 @@ const planText = readFileSync(new URL('assets/plans/tessel-to-ochre.plan.json', 
 describe('files saved with a byte-order mark (RFC 8259 §8.1 lets parsers ignore it)', () => {
   it('a system file with a BOM loads like the same file without one', () => {
     const a = parseSystemFile(systemText);
-    const b = parseSystemFile('\ufeff' + systemText);
+    const b = parseSystemFile(`\ufeff${systemText}`);
     expect(b.system.bodies.map((x) => x.id)).toEqual(a.system.bodies.map((x) => x.id));
   });
   it('a plan file with a BOM loads like the same file without one', () => {
-    expect(parsePlanFile('\ufeff' + planText).plan).toEqual(parsePlanFile(planText).plan);
+    expect(parsePlanFile(`\ufeff${planText}`).plan).toEqual(parsePlanFile(planText).plan);
   });
   it('a BOM anywhere else is still invalid JSON', () => {
-    expect(() => parsePlanFile(' \ufeff' + planText)).toThrow(/not valid JSON/);
+    expect(() => parsePlanFile(` \ufeff${planText}`)).toThrow(/not valid JSON/);
   });
 });

@@ -30,7 +30,15 @@ describe('brent (root)', () => {
 
   it('honours an absolute tolerance', () => {
     let calls = 0;
-    const x = brent((t) => (calls++, Math.cos(t) - t), 0, 1, { tol: 1e-4 });
+    const x = brent(
+      (t) => {
+        calls++;
+        return Math.cos(t) - t;
+      },
+      0,
+      1,
+      { tol: 1e-4 },
+    );
     // the fixed point of cos (Dottie number) is 0.7390851332151607 (common practice)
     expect(Math.abs(x - 0.7390851332151607)).toBeLessThan(1e-4);
     expect(calls).toBeLessThan(12);

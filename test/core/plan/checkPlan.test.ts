@@ -29,6 +29,14 @@ const stateStart = (p: Loose): void => {
   p.start = { kind: 'state', body: 'tessel', epoch: 0, r: [7e6, 0, 0], v: [0, 7.5e3, 0] };
 };
 
+/** A state-vector start, then `edit`. */
+const fromStateStart =
+  (edit: Edit): Edit =>
+  (p) => {
+    stateStart(p);
+    edit(p);
+  };
+
 describe('plan input checks', () => {
   it('accepts the demo plan and a state start', () => {
     expect(problem(() => {})).toBe('no error');
@@ -42,12 +50,12 @@ describe('plan input checks', () => {
     expect(problem((p) => (p.start.e = 1))).toBe('start.e');
     for (const k of ['i', 'raan', 'argp', 'nu']) expect(problem((p) => (p.start[k] = Infinity))).toBe(`start.${k}`);
     expect(problem((p) => (p.start.kind = 'orbit'))).toBe('start.kind');
-    expect(problem((p) => (stateStart(p), (p.start.r = [0, 0, 0])))).toBe('start.r');
-    expect(problem((p) => (stateStart(p), (p.start.r = [1, 2])))).toBe('start.r');
-    expect(problem((p) => (stateStart(p), (p.start.r[1] = NaN)))).toBe('start.r[1]');
-    expect(problem((p) => (stateStart(p), (p.start.r = [MAX_START_DISTANCE * 1.01, 0, 0])))).toBe('start.r');
-    expect(problem((p) => (stateStart(p), (p.start.v = [0, 0, MAX_PLAN_SPEED * 1.01])))).toBe('start.v');
-    expect(problem((p) => (stateStart(p), (p.start.r = [MAX_START_DISTANCE, 0, 0])))).toBe('no error');
+    expect(problem(fromStateStart((p) => (p.start.r = [0, 0, 0])))).toBe('start.r');
+    expect(problem(fromStateStart((p) => (p.start.r = [1, 2])))).toBe('start.r');
+    expect(problem(fromStateStart((p) => (p.start.r[1] = NaN)))).toBe('start.r[1]');
+    expect(problem(fromStateStart((p) => (p.start.r = [MAX_START_DISTANCE * 1.01, 0, 0])))).toBe('start.r');
+    expect(problem(fromStateStart((p) => (p.start.v = [0, 0, MAX_PLAN_SPEED * 1.01])))).toBe('start.v');
+    expect(problem(fromStateStart((p) => (p.start.r = [MAX_START_DISTANCE, 0, 0])))).toBe('no error');
   });
 
   it('names the event field at fault', () => {

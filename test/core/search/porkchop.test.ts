@@ -212,7 +212,7 @@ describe('grid cells against solveLambert + hyperbolic.ts, computed independentl
         const j = Math.floor(rng.uniform(0, 30));
         const k = i * 30 + j;
         const { departure: t, tof } = cellTimes(grid, i, j);
-        let ref;
+        let ref: ReturnType<typeof reference>;
         try {
           ref = reference(req, t, tof);
         } catch (e) {

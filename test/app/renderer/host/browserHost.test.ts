@@ -18,7 +18,7 @@ function env(over: Partial<BrowserEnv> = {}) {
     download: vi.fn(),
     fsAccess: null,
     setTitle: vi.fn(),
-    onBeforeUnload: (f: () => boolean) => void (beforeUnload = f),
+    onBeforeUnload: (f: () => boolean) => { beforeUnload = f; },
     now: () => 1000,
     ...over,
   } as never;
@@ -105,7 +105,7 @@ describe('browser host', () => {
     const list = await host.recentFiles();
     expect(list).toHaveLength(RECENT_LIMIT);
     expect(list[0].name).toBe(`p${RECENT_LIMIT + 3}.plan.json`);
-    expect(e.storage.m.has(STORAGE_KEYS.recentText + 'p1.plan.json')).toBe(false);
+    expect(e.storage.m.has(`${STORAGE_KEYS.recentText}p1.plan.json`)).toBe(false);
   });
 
   it('keeps the recovery copy in storage', async () => {

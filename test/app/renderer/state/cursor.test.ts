@@ -3,7 +3,15 @@ import { CursorStore, type FrameClock } from '../../../../app/renderer/state/cur
 
 function manualClock() {
   let cb: ((now: number) => void) | null = null;
-  const clock: FrameClock = { request: (f) => ((cb = f), 1), cancel: () => void (cb = null) };
+  const clock: FrameClock = {
+    request: (f) => {
+      cb = f;
+      return 1;
+    },
+    cancel: () => {
+      cb = null;
+    },
+  };
   return { clock, frame: (now: number) => { const f = cb; cb = null; f?.(now); } };
 }
 
