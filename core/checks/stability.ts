@@ -43,6 +43,7 @@ import { mutualAccel } from '../integrate/index.ts';
 import { stateToElements } from '../orbit/index.ts';
 import type { StarSystem } from '../system/index.ts';
 import { initialStates } from '../system/index.ts';
+import { MAX_STABILITY_BODIES, MAX_STABILITY_SAMPLES, MAX_STABILITY_STEPS, MAX_STABILITY_WORK, requireWithinLimit } from '../system/index.ts';
 
 export type StabilityMethod = 'yoshida4' | 'verlet';
 
@@ -217,8 +218,8 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
   const method = options.method ?? 'yoshida4';
   if (method !== 'yoshida4' && method !== 'verlet') throw new InputError('method', "must be 'yoshida4' or 'verlet'", method);
   const stepsPerOrbit = posInt('stepsPerOrbit', options.stepsPerOrbit, DEFAULT_STEPS_PER_ORBIT, 4);
-  const maxSteps = posInt('maxSteps', options.maxSteps, DEFAULT_MAX_STEPS, 1);
-  const nSamples = posInt('samples', options.samples, DEFAULT_SAMPLES, 2);
+  const maxSteps = requireWithinLimit('maxSteps', posInt('maxSteps', options.maxSteps, DEFAULT_MAX_STEPS, 1), MAX_STABILITY_STEPS, 'steps');
+  const nSamples = requireWithinLimit('samples', posInt('samples', options.samples, DEFAULT_SAMPLES, 2), MAX_STABILITY_SAMPLES, 'samples');
   const ejectionFactor = requireFinite('ejectionFactor', options.ejectionFactor ?? DEFAULT_EJECTION_FACTOR);
   if (!(ejectionFactor > 1)) throw new InputError('ejectionFactor', 'must be > 1', ejectionFactor);
   const merge = options.mergeMoons ?? 'auto';
@@ -229,16 +230,36 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
   const hAll = stepFor(system, all, stepsPerOrbit);
   const hPlanets = stepFor(system, planets, stepsPerOrbit);
   const hasMoons = all.length > planets.length;
+  // the work of a run: steps × force evaluations per step × body pairs (the star counts)
+  const evalsPerStep = method === 'yoshida4' ? 3 : 1;
+  const pairsOf = (flown: number): number => ((flown + 1) * flown) / 2;
+  const workOf = (steps: number, flown: number): number => steps * evalsPerStep * pairsOf(flown);
   let merged = merge === true && hasMoons;
   let mergeReason: string | null = merged ? 'moons merged into their planets on request' : null;
-  if (merge === 'auto' && hasMoons && span / hAll > maxSteps) {
-    merged = true;
-    mergeReason = `moons merged into their planets: flying them needs ${Math.ceil(span / hAll).toExponential(2)} steps, more than the budget of ${maxSteps.toExponential(2)}`;
+  if (merge === 'auto' && hasMoons) {
+    const stepsAll = Math.ceil(span / hAll);
+    if (stepsAll > maxSteps) {
+      merged = true;
+      mergeReason = `moons merged into their planets: flying them needs ${stepsAll.toExponential(2)} steps, more than the budget of ${maxSteps.toExponential(2)}`;
+    } else if (workOf(stepsAll, all.length) > MAX_STABILITY_WORK || all.length > MAX_STABILITY_BODIES) {
+      merged = true;
+      mergeReason = `moons merged into their planets: flying all ${all.length} bodies needs ${workOf(stepsAll, all.length).toExponential(2)} body-pair force evaluations, more than the ${MAX_STABILITY_WORK.toExponential(0)} a stability run may take`;
+    }
   }
+  const flown = merged ? planets.length : all.length;
+  requireWithinLimit('system.bodies', flown, MAX_STABILITY_BODIES, merged ? 'planets to fly (moons merged)' : 'bodies to fly');
   const h0 = merged ? hPlanets : hAll;
   const nSteps = Math.max(1, Math.ceil(span / h0 - 1e-9));
   if (nSteps > maxSteps) {
     throw new InputError('span', `needs ${nSteps} steps (more than maxSteps = ${maxSteps}${merged ? ', with moons merged' : ''}); shorten the span or raise maxSteps`, span);
+  }
+  const work = workOf(nSteps, flown);
+  if (work > MAX_STABILITY_WORK) {
+    throw new InputError(
+      'span',
+      `needs ${work.toExponential(2)} body-pair force evaluations (${nSteps} steps of ${pairsOf(flown)} pairs${merged ? ', moons merged' : ''}), more than the ${MAX_STABILITY_WORK.toExponential(0)} Waymark runs in one stability check; shorten the span${hasMoons && !merged ? ', merge the moons' : ''} or lower stepsPerOrbit`,
+      span,
+    );
   }
   const h = span / nSteps;
 
@@ -312,10 +333,11 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
   const ejected = new Set<number>();
   const crossed = new Set<string>();
   const rel = new Float64Array(6);
+  const groups = subsystems(parts);
   const sample = (s: number, t: number): void => {
     tS[s] = t;
     for (let j = 1; j < N; j++) {
-      const el = osculating(parts, j, x, v, mus, rel);
+      const el = osculating(parts, groups[j], j, x, v, mus, rel);
       const H = hist[j];
       H.a[s] = el ? el.a : 0;
       H.e[s] = el ? el.e : 0;
@@ -496,18 +518,27 @@ function years(t: number, yearLength: number): string {
 }
 
 /**
- * Osculating elements of particle j about its parent (planets: the barycentre of the planet's
- * flown subsystem about the star); writes the relative state into rel. Null when undefined.
+ * The particles each particle's osculating elements are taken from: a planet's flown
+ * subsystem (itself and the particles whose parent chain leads to it), a moon alone. Found once,
+ * in time linear in the particles times the depth of the hierarchy.
  */
-function osculating(parts: Particle[], j: number, x: Float64Array, v: Float64Array, mus: Float64Array, rel: Float64Array): { a: number; e: number; i: number } | null {
+function subsystems(parts: Particle[]): Int32Array[] {
+  const lists: number[][] = parts.map((_, j) => [j]);
+  for (let q = 1; q < parts.length; q++) {
+    for (let r = parts[q].parent; r > 0; r = parts[r].parent) if (parts[r].parent === 0) lists[r].push(q);
+  }
+  return lists.map((l, j) => Int32Array.from(j > 0 && parts[j].parent !== 0 ? [j] : l));
+}
+
+/**
+ * Osculating elements of particle j about its parent (planets: the barycentre of the planet's
+ * flown subsystem `group` about the star); writes the relative state into rel. Null when undefined.
+ */
+function osculating(parts: Particle[], group: Int32Array, j: number, x: Float64Array, v: Float64Array, mus: Float64Array, rel: Float64Array): { a: number; e: number; i: number } | null {
   const p = parts[j].parent;
-  // the body's flown subsystem: itself and the particles whose parent chain leads to it
   let m = 0;
   const c = [0, 0, 0, 0, 0, 0];
-  for (let q = 0; q < parts.length; q++) {
-    let r = q;
-    while (r !== -1 && r !== j) r = parts[r].parent;
-    if (r !== j || (p !== 0 && q !== j)) continue; // moons: the moon itself
+  for (const q of group) {
     m += mus[q];
     for (let k = 0; k < 3; k++) {
       c[k] += mus[q] * x[3 * q + k];

@@ -27,7 +27,7 @@
  * "periapsis" is taken at the current point (a coast until periapsis on it ends at once). Times
  * are offsets Δt from the state given; Infinity means "not on this conic".
  */
-import { brent } from '../math/index.ts';
+import { brent, SolverError } from '../math/index.ts';
 import { propagateKepler } from '../orbit/index.ts';
 import { eccentricToMean, hyperbolicToMean, trueToEccentric, trueToHyperbolic } from '../orbit/index.ts';
 import { bodyStateRelativeToParent } from '../system/index.ts';
@@ -242,7 +242,14 @@ export function timeToApsis(mu: number, state: ArrayLike<number>, which: 'periap
   const est = timeToTrueAnomaly(c, which === 'periapsis' ? 0 : Math.PI, minDt);
   if (!(est <= tMax + 1)) return Infinity;
   const halfWidth = Number.isFinite(c.period) ? 0.25 * c.period : Math.max(1, 0.5 * est);
-  const dt = polish(mu, state, fnRv, est, Math.max(minDt, est - halfWidth), est + halfWidth);
+  let dt: number;
+  try {
+    dt = polish(mu, state, fnRv, est, Math.max(minDt, est - halfWidth), est + halfWidth);
+  } catch (e) {
+    // a radial fall reaches the centre first (kepler.ts refuses to fly through it): never reached
+    if (e instanceof SolverError && e.reason === 'collision') return Infinity;
+    throw e;
+  }
   return dt >= minDt && dt <= tMax ? dt : Infinity;
 }
 

@@ -47,6 +47,7 @@
  * the motion). The precision verdict itself comes from flying the plan (sweep.ts).
  */
 import { InputError, SolverError, requireFinite } from '../math/index.ts';
+import { MAX_GAME_SAMPLES_PER_SPAN, MAX_GAME_STEPS, requireWithinLimit } from '../system/index.ts';
 import { bodyState } from '../system/index.ts';
 import type { StarSystem } from '../system/index.ts';
 import { GameFlight } from './flight.ts';
@@ -203,9 +204,9 @@ export function gameStepCheck(system: StarSystem, plan: Plan, options: GameStepO
   const energyTolerance = options.energyTolerance ?? DEFAULT_ENERGY_TOLERANCE;
   requireFinite('energyTolerance', energyTolerance);
   if (!(energyTolerance > 0)) throw new InputError('energyTolerance', 'must be > 0', energyTolerance);
-  const maxSteps = positiveInteger('maxStepsPerSpan', options.maxStepsPerSpan, DEFAULT_MAX_STEPS_PER_SPAN);
+  const maxSteps = requireWithinLimit('maxStepsPerSpan', positiveInteger('maxStepsPerSpan', options.maxStepsPerSpan, DEFAULT_MAX_STEPS_PER_SPAN), MAX_GAME_STEPS, 'game steps');
   const windowSteps = Math.min(positiveInteger('windowSteps', options.windowSteps, DEFAULT_WINDOW_STEPS, 16), maxSteps);
-  const samples = positiveInteger('samplesPerSpan', options.samplesPerSpan, DEFAULT_SAMPLES_PER_SPAN, 2);
+  const samples = requireWithinLimit('samplesPerSpan', positiveInteger('samplesPerSpan', options.samplesPerSpan, DEFAULT_SAMPLES_PER_SPAN, 2), MAX_GAME_SAMPLES_PER_SPAN, 'samples');
   const warpDt = options.warpDt;
   if (warpDt !== undefined) {
     requireFinite('warpDt', warpDt);
@@ -305,6 +306,15 @@ class GameStepRun {
       } else total += len / this.hs;
     }
     this.totalSteps = Math.max(1, total);
+    // the budget of a check (core/system/limits.ts): refused before the first step
+    if (!(total <= MAX_GAME_STEPS)) {
+      const warped = this.spans.some((sp) => sp.mode === 'warp');
+      throw new InputError(
+        warped ? 'warpDt' : 'physics.dt',
+        `needs about ${total.toExponential(2)} game steps, more than the ${MAX_GAME_STEPS.toExponential(0)} Waymark flies in one check; ${warped ? 'take a longer warp step, or omit it to extrapolate long coasts' : 'take a longer step or lower maxStepsPerSpan'}`,
+        warped ? this.o.warpDt : physics.dt,
+      );
+    }
   }
 
   // Decides how a span is flown.

@@ -3,6 +3,7 @@
  * Other folders of core/ and the app import from here only.
  */
 export { burnTableCsv, ephemerisCsv } from './csv.ts';
+export { inlineLocalRefs } from './fileValidator.ts';
 export { writeOem } from './oem.ts';
 export { parsePlanFile, planToDocument, requirePlanFitsSystem, serializePlanFile } from './planFile.ts';
 export type { PlanSystemRef } from './planFile.ts';

@@ -6,15 +6,18 @@
  *     (systemFile.ts);
  *  2. `format` must be "waymark-plan"; `version` an integer no newer than PLAN_VERSION; older
  *     versions pass through the migration table one step at a time;
+ *     at most MAX_EVENTS events and MAX_STAGES stages (core/system/limits.ts);
  *  3. JSON Schema (assets/schema/plan.schema.json, emitted from the declaration in
- *     planFileShape.ts; draft 2020-12, ajv with allErrors);
+ *     planFileShape.ts; draft 2020-12, ajv with allErrors, compiled by fileValidator.ts so
+ *     the work stays linear in the file);
  *  4. semantic checks of the document (planSchema.ts `checkPlanDocument`);
  *  5. an embedded system is loaded by the system-file rules (core/io/systemFile.ts; its issues
  *     come back with paths under `system.embedded.`) and the plan is checked against it
  *     (`checkPlanAgainstSystem`). A system named by `path` is read by the caller (the file
  *     layer, app/node/files.ts), which then runs `requirePlanFitsSystem`.
- * Any failure throws one `ValidationError('plan file', issues)` with every issue of that stage
- * (and the warnings found so far); paths use the file's field names: `events[2].dv_mps[0]`.
+ * Any failure throws one `ValidationError('plan file', issues)` with the issues of that stage
+ * (and the warnings found so far) — the first MAX_LISTED_ISSUES, then one counting the rest
+ * (core/math/errors.ts); paths use the file's field names: `events[2].dv_mps[0]`.
  *
  * Migrations: `PLAN_MIGRATIONS[v]` turns a version-v document into version v + 1. Version 1 is
  * the first format, so the shipped table is empty; the tests exercise the mechanism with a
@@ -33,9 +36,11 @@
  */
 
 import { migrateDocument, type Migration } from './migrate.ts';
-import { Ajv2020, type ErrorObject } from 'ajv/dist/2020.js';
+import type { ErrorObject } from 'ajv/dist/2020.js';
 import schema from '../../assets/schema/plan.schema.json' with { type: 'json' };
 import { ValidationError, type ValidationIssue } from '../math/index.ts';
+import { MAX_EVENTS, MAX_STAGES, overLimitRule } from '../system/index.ts';
+import { compileFileSchema } from './fileValidator.ts';
 import type {
   BurnEvent,
   BurnSolve,
@@ -57,7 +62,7 @@ import {
   type TargetDocument,
   type UntilDocument,
 } from './planSchema.ts';
-import { nestingIssue, parseSystemFile, pointerToPath, schemaIssues, serializeSystemFile } from './systemFile.ts';
+import { nestingIssue, parseSystemFile, pointerToPath, schemaIssues, serializeSystemFile, tooLarge } from './systemFile.ts';
 
 export { PLAN_FORMAT, PLAN_VERSION, checkPlanAgainstSystem, checkPlanDocument } from './planSchema.ts';
 
@@ -87,11 +92,7 @@ export interface ParsedPlan {
   fileVersion: number;
 }
 
-// strictRequired off: the oneOf branches name properties declared in the enclosing schema.
-const ajv = new Ajv2020({ allErrors: true, verbose: true, strict: true, strictRequired: false, allowUnionTypes: true });
-ajv.addKeyword({ keyword: 'x-rule', schemaType: 'string' });
-ajv.addKeyword({ keyword: 'x-rule-oneOf', schemaType: 'string' });
-const validateSchema = ajv.compile(schema);
+const validateSchema = compileFileSchema(schema);
 
 function fail(issues: ValidationIssue[]): never {
   throw new ValidationError(WHAT, issues);
@@ -129,6 +130,8 @@ export function parsePlanFile(text: string, options: PlanParseOptions = {}): Par
     fail([err('format', `must be "${PLAN_FORMAT}" (got ${JSON.stringify(raw.format)}); ${hint}`)]);
   }
   const { doc, fileVersion } = migratePlan(raw, options.migrations ?? PLAN_MIGRATIONS);
+  const size = sizeIssues(doc);
+  if (size.length > 0) fail(size);
 
   if (!validateSchema(doc)) fail(planSchemaIssues(validateSchema.errors ?? []));
   const planDoc = doc as unknown as PlanDocument;
@@ -156,6 +159,15 @@ export function parsePlanFile(text: string, options: PlanParseOptions = {}): Par
     system = { kind: 'path', path: path as string };
   }
   return { plan, system, warnings: issues, fileVersion };
+}
+
+/** More events than MAX_EVENTS or stages than MAX_STAGES (core/system/limits.ts): refused before the schema walks them. */
+function sizeIssues(doc: Record<string, unknown>): ValidationIssue[] {
+  const out: ValidationIssue[] = [];
+  if (Array.isArray(doc.events) && doc.events.length > MAX_EVENTS) out.push(err('events', overLimitRule(doc.events.length, MAX_EVENTS, 'events')));
+  const stages = isObject(doc.vehicle) ? doc.vehicle.stages : undefined;
+  if (Array.isArray(stages) && stages.length > MAX_STAGES) out.push(err('vehicle.stages', overLimitRule(stages.length, MAX_STAGES, 'stages')));
+  return out;
 }
 
 /**
@@ -204,7 +216,7 @@ export function planSchemaIssues(errors: readonly ErrorObject[]): ValidationIssu
       else out.push(err(path, `must have at most ${String(p.limit)} items`));
     } else if (e.keyword === 'type' && Array.isArray((e.parentSchema as Record<string, unknown> | undefined)?.type)) {
       const types = (e.parentSchema as { type: string[] }).type;
-      out.push(err(path, `must be ${types.map((t) => TYPE_WORD[t] ?? t).join(' or ')}`));
+      out.push(err(path, tooLarge(e) ?? `must be ${types.map((t) => TYPE_WORD[t] ?? t).join(' or ')}`));
     } else rest.push(e);
   }
   const all = [...out, ...schemaIssues(rest)];

@@ -5,14 +5,17 @@
  *  1. JSON syntax, top level must be an object nested at most MAX_JSON_DEPTH levels deep;
  *  2. `format` must be "waymark-system"; `version` must be an integer no newer than
  *     SYSTEM_VERSION; older versions pass through the migration table one step at a time;
+ *     at most MAX_BODIES bodies (core/system/limits.ts);
  *  3. JSON Schema (assets/schema/system.schema.json, emitted from the declaration in
- *     core/system/systemFileShape.ts; draft 2020-12, ajv with allErrors): every schema
- *     violation is reported together;
+ *     core/system/systemFileShape.ts; draft 2020-12, ajv with allErrors, compiled by
+ *     fileValidator.ts so the work stays linear in the file): every schema violation is
+ *     reported together;
  *  4. semantic checks (core/system/validate.ts): references, masses, geometry; errors and
  *     warnings are reported together;
  *  5. building the model (radians, derived quantities, ephemeris tables).
- * Any failure throws one `ValidationError('system file', issues)` carrying every issue of
- * that stage (with the warnings found so far), paths written like `bodies[3].orbit.e`.
+ * Any failure throws one `ValidationError('system file', issues)` carrying the issues of that
+ * stage (with the warnings found so far), paths written like `bodies[3].orbit.e`: the first
+ * MAX_LISTED_ISSUES of them, then one counting the rest (core/math/errors.ts).
  * Semantic checks need a schema-valid document, so a file with schema errors reports only
  * those; fix them and the semantic issues (if any) show next.
  *
@@ -26,10 +29,12 @@
  */
 
 import { migrateDocument, type Migration } from './migrate.ts';
-import { Ajv2020, type ErrorObject } from 'ajv/dist/2020.js';
+import type { ErrorObject } from 'ajv/dist/2020.js';
 import schema from '../../assets/schema/system.schema.json' with { type: 'json' };
 import { ValidationError, type ValidationIssue } from '../math/index.ts';
+import { MAX_BODIES, overLimitRule } from '../system/index.ts';
 import { buildStarSystem, systemToDocument } from '../system/index.ts';
+import { compileFileSchema } from './fileValidator.ts';
 import { SYSTEM_FORMAT, SYSTEM_VERSION, type SystemDocument } from '../system/index.ts';
 import type { StarSystem } from '../system/index.ts';
 import { checkSystemDocument } from '../system/index.ts';
@@ -54,12 +59,7 @@ export interface ParsedSystem {
   fileVersion: number;
 }
 
-// strictRequired off: the oneOf branches name properties declared in the enclosing schema.
-const ajv = new Ajv2020({ allErrors: true, verbose: true, strict: true, strictRequired: false });
-// Annotation keywords carrying the plain-language rule for pattern / not / oneOf failures.
-ajv.addKeyword({ keyword: 'x-rule', schemaType: 'string' });
-ajv.addKeyword({ keyword: 'x-rule-oneOf', schemaType: 'string' });
-const validateSchema = ajv.compile(schema);
+const validateSchema = compileFileSchema(schema);
 
 function fail(issues: ValidationIssue[]): never {
   throw new ValidationError(WHAT, issues);
@@ -92,6 +92,8 @@ export function parseSystemFile(text: string, options: ParseOptions = {}): Parse
     fail([err('format', `must be "${SYSTEM_FORMAT}" (got ${JSON.stringify(raw.format)}); this is not a system file`)]);
   }
   const { doc, fileVersion } = migrate(raw, options.migrations ?? SYSTEM_MIGRATIONS);
+  const size = sizeIssue(doc);
+  if (size) fail([size]);
 
   if (!validateSchema(doc)) fail(schemaIssues(validateSchema.errors ?? []));
   const sysDoc = doc as unknown as SystemDocument;
@@ -100,6 +102,13 @@ export function parseSystemFile(text: string, options: ParseOptions = {}): Parse
     fail([...issues.filter((i) => i.severity === 'error'), ...issues.filter((i) => i.severity === 'warning')]);
   }
   return { system: buildStarSystem(sysDoc), warnings: issues, fileVersion };
+}
+
+/** More bodies than MAX_BODIES (core/system/limits.ts): refused before the schema walks them. */
+function sizeIssue(doc: Record<string, unknown>): ValidationIssue | null {
+  const bodies = doc.bodies;
+  if (Array.isArray(bodies) && bodies.length > MAX_BODIES) return err('bodies', overLimitRule(bodies.length, MAX_BODIES, 'bodies'));
+  return null;
 }
 
 /**
@@ -166,14 +175,24 @@ const TYPE_WORD: Record<string, string> = {
   boolean: 'true or false',
 };
 
-/** Plain-language issues from ajv errors. */
+/**
+ * Plain-language issues from ajv errors, in their order, each (path, rule) once. Linear in the
+ * number of errors: the oneOf failures are looked up by instance path.
+ */
 export function schemaIssues(errors: readonly ErrorObject[]): ValidationIssue[] {
   // oneOf failures get one plain rule; drop the errors of their branches.
-  const oneOfPaths = errors.filter((e) => e.keyword === 'oneOf').map((e) => ({ at: e.instancePath, schema: `${e.schemaPath}/` }));
+  const oneOfAt = new Map<string, string[]>();
+  for (const e of errors) {
+    if (e.keyword !== 'oneOf') continue;
+    const list = oneOfAt.get(e.instancePath);
+    if (list) list.push(`${e.schemaPath}/`);
+    else oneOfAt.set(e.instancePath, [`${e.schemaPath}/`]);
+  }
   const out: ValidationIssue[] = [];
   const seen = new Set<string>();
   for (const e of errors) {
-    if (oneOfPaths.some((o) => o.at === e.instancePath && e.schemaPath.startsWith(o.schema))) continue;
+    const branchOf = oneOfAt.get(e.instancePath);
+    if (branchOf && branchOf.some((prefix) => e.schemaPath.startsWith(prefix))) continue;
     const path = pointerToPath(e.instancePath);
     const p = e.params as Record<string, unknown>;
     const parent = (e.parentSchema ?? {}) as Record<string, unknown>;
@@ -192,7 +211,7 @@ export function schemaIssues(errors: readonly ErrorObject[]): ValidationIssue[] 
         issue = err(path, `must be one of: ${(p.allowedValues as unknown[]).map((x) => JSON.stringify(x)).join(', ')}`);
         break;
       case 'type':
-        issue = err(path, `must be ${TYPE_WORD[String(p.type)] ?? String(p.type)}`);
+        issue = err(path, tooLarge(e) ?? `must be ${TYPE_WORD[String(p.type)] ?? String(p.type)}`);
         break;
       case 'minimum':
       case 'maximum':
@@ -222,6 +241,16 @@ export function schemaIssues(errors: readonly ErrorObject[]): ValidationIssue[] 
     }
   }
   return out;
+}
+
+/**
+ * The rule for a number JSON read as ±Infinity (a literal like 1e999, beyond the largest double,
+ * about 1.8e308): "too large", not "must be a number"; null for any other value.
+ */
+export function tooLarge(e: ErrorObject): string | null {
+  const x = e.data;
+  if (typeof x !== 'number' || Number.isFinite(x) || Number.isNaN(x)) return null;
+  return `is too large: ${x > 0 ? '' : '-'}1.8e308 is the largest magnitude a number can have (it was read as ${x > 0 ? '' : '-'}infinity)`;
 }
 
 /** The file text of a system: stable key order, 2-space indent, trailing newline. */

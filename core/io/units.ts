@@ -45,7 +45,7 @@ export function parseQuantity(field: string, text: string, dim: Dimension): numb
   if (!m) throw new InputError(field, 'must be a number with an optional unit', text);
   const value = Number(m[1]);
   const unit = m[2].trim();
-  if (!Number.isFinite(value)) throw new InputError(field, 'must be a finite number', text);
+  if (!Number.isFinite(value)) throw new InputError(field, TOO_LARGE, text);
   if (unit === '') return value;
   const factor = UNITS[dim][unit];
   if (factor === undefined) {
@@ -55,8 +55,13 @@ export function parseQuantity(field: string, text: string, dim: Dimension): numb
       allowed.length ? `has unknown unit "${unit}" (use one of: ${allowed.join(', ')})` : `takes no unit (got "${unit}")`,
     );
   }
-  return value * factor;
+  const si = value * factor;
+  if (!Number.isFinite(si)) throw new InputError(field, TOO_LARGE, text);
+  return si;
 }
+
+/** The rule of a number past the largest double (1e999 reads as Infinity): say so, not "not a number". */
+const TOO_LARGE = 'is too large: 1.8e308 is the largest magnitude a number can have';
 
 /** Parses a comma-separated vector of `n` components, each with an optional unit, into SI. */
 export function parseVector(field: string, text: string, dim: Dimension, n = 3): number[] {

@@ -8,6 +8,10 @@
  * - `SolverError`: a numerical method could not produce an answer; carries a machine-readable
  *   reason and the inputs that caused it.
  *
+ * A `ValidationError` lists at most MAX_LISTED_ISSUES issues; the rest are folded into one
+ * closing issue that counts them ("… and 4,321 more problems"), so a file with a problem in each
+ * of ten thousand array items gives a readable refusal (and a bounded one to draw).
+ *
  * No NaN leaves the core: functions check their inputs and their outputs and throw one of these.
  */
 
@@ -33,18 +37,61 @@ export interface ValidationIssue {
   rule: string;
   /** "error" stops the document from loading; "warning" is reported but the document loads. */
   severity: 'error' | 'warning';
+  /** Set only on the closing issue of a capped list: how many issues it stands for. */
+  more?: number;
+}
+
+/** Issues a ValidationError (or a list of warnings) shows one by one; the rest are counted. */
+export const MAX_LISTED_ISSUES = 100;
+
+/** A whole number with thousands separated by commas: 4321 → "4,321". */
+export function formatCount(n: number): string {
+  return Number.isSafeInteger(n) ? n.toLocaleString('en-US') : String(n);
+}
+
+/** How many problems a list of issues stands for (a closing count issue counts as its `more`). */
+export function countIssues(issues: readonly ValidationIssue[]): number {
+  let n = 0;
+  for (const i of issues) n += i.more ?? 1;
+  return n;
+}
+
+/**
+ * The first `max` issues, then (when there are more) one closing issue counting the rest:
+ * path '', rule "… and 4,321 more problems", `more` = 4321, severity 'error' when any issue it
+ * stands for is an error. Linear; a list already capped comes back unchanged.
+ */
+export function capIssues(issues: readonly ValidationIssue[], max = MAX_LISTED_ISSUES): ValidationIssue[] {
+  const listed: ValidationIssue[] = [];
+  let more = 0;
+  let error = false;
+  for (const i of issues) {
+    if (i.more === undefined && listed.length < max) listed.push(i);
+    else {
+      more += i.more ?? 1;
+      if (i.severity === 'error') error = true;
+    }
+  }
+  if (more === 0) return listed;
+  listed.push({ path: '', rule: `… and ${formatCount(more)} more problem${more === 1 ? '' : 's'}`, severity: error ? 'error' : 'warning', more });
+  return listed;
 }
 
 export class ValidationError extends WaymarkError {
   override name = 'ValidationError';
+  /** At most MAX_LISTED_ISSUES issues, then (when there were more) one closing issue counting the rest. */
+  readonly issues: ValidationIssue[];
   constructor(
     readonly what: string,
-    readonly issues: ValidationIssue[],
+    issues: ValidationIssue[],
   ) {
+    const listed = capIssues(issues);
+    const total = countIssues(listed);
     super(
-      `${what}: ${issues.length} problem${issues.length === 1 ? '' : 's'}\n` +
-        issues.map((i) => `  ${i.path || '(document)'} ${i.rule}`).join('\n'),
+      `${what}: ${formatCount(total)} problem${total === 1 ? '' : 's'}\n` +
+        listed.map((i) => (i.more !== undefined ? `  ${i.rule}` : `  ${i.path || '(document)'} ${i.rule}`)).join('\n'),
     );
+    this.issues = listed;
   }
 }
 
@@ -56,7 +103,11 @@ export type SolverReason =
   | 'no-solution'
   | 'non-finite'
   | 'cancelled'
-  | 'singular';
+  | 'singular'
+  /** The answer exists but double precision cannot resolve it (e.g. the phase after 10¹⁵ revolutions). */
+  | 'precision-lost'
+  /** The motion runs into the centre of attraction (a radial fall through r = 0). */
+  | 'collision';
 
 export class SolverError extends WaymarkError {
   override name = 'SolverError';

@@ -3,6 +3,7 @@
  * Other folders of core/ and the app import from here only.
  */
 export { InputError, SolverError, ValidationError, WaymarkError, requireFinite, requireFiniteVector, requireNonNegative, requirePositive } from './errors.ts';
+export { MAX_LISTED_ISSUES, capIssues, countIssues, formatCount } from './errors.ts';
 export type { ValidationIssue } from './errors.ts';
 export { inertialToRtn, inertialToVnb, perifocalToInertial, rtnMatrix, rtnToInertial, vnbToInertial } from './frames.ts';
 export { dampedLeastSquares } from './linalg.ts';

@@ -203,7 +203,11 @@ export function correctPlan(system: StarSystem, plan: Plan, options: CorrectOpti
   const conicArr = conicArrival(system, plan, conic);
   const d = options.desired;
   if (!conicArr && !(d && d.t !== undefined && d.periapsisAltitude !== undefined && d.i !== undefined)) {
-    throw new InputError('plan.target', `the patched-conic flight never reaches ${plan.target.body}'s sphere of influence: nothing to aim at (give options.desired t, periapsisAltitude and i)`);
+    const name = system.bodies.find((b) => b.id === plan.target!.body)?.name ?? plan.target.body;
+    throw new InputError(
+      'plan.target',
+      `the patched-conic flight never reaches ${name}'s sphere of influence, so there is no arrival to aim the correction at: change the plan's burns (or the arrival time of its transfer burn) until the plan reaches ${name}, then correct it`,
+    );
   }
   const target = findBodyIndex(system, plan.target.body);
   // when to take the n-body state: the conic periapsis time, else the desired one

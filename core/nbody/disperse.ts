@@ -25,16 +25,20 @@
  *   added to its `dv` components — so for a re-solved burn the error scales with the nominal
  *   vector, not the re-solved one (an approximation of second order in the error).
  *
- * Outputs per sample: the margin and the arrival periapsis altitude at the target (the first
+ * Outputs per sample: the margin, the arrival periapsis altitude at the target (the first
  * periapsis after entering its SOI, nbody.ts conicArrival; +Infinity when the sample never
- * arrives). Summary: P(margin ≥ 0), P(arrives with periapsis altitude ≥ the target's minimum safe
- * altitude), P(arrives), and the 5/50/95 % percentiles of margin and (over the samples that
+ * arrives) and the outcome: flown, not evaluated (a WaymarkError), ended by an impact, or never
+ * reaching the target. A sample that does not complete its flight fails, whatever its budget
+ * says: P(margin ≥ 0) counts only the samples that are flown to the end without an impact and
+ * (with a target) arrive. Summary: that probability, P(arrives with periapsis altitude ≥ the
+ * target's minimum safe altitude), P(arrives), the counts of failed samples by cause, and the
+ * 5/50/95 % percentiles of margin (over the samples that evaluate) and (over the samples that
  * arrive) periapsis altitude, by linear interpolation between order statistics (Hyndman & Fan,
  * "Sample quantiles in statistical packages", The American Statistician 50(4), 1996, type 7).
  */
 import { InputError, SolverError, WaymarkError, requireFinite } from '../math/index.ts';
 import { stream, type Seed } from '../math/index.ts';
-import { findBodyIndex, type StarSystem } from '../system/index.ts';
+import { findBodyIndex, MAX_DISPERSION_SAMPLES, requireWithinLimit, type StarSystem } from '../system/index.ts';
 import { inertialToBurn } from '../plan/index.ts';
 import { freezePlan } from './correct.ts';
 import { evaluate } from '../conic/index.ts';
@@ -91,6 +95,7 @@ export function prepareDispersion(system: StarSystem, plan: Plan, options: Dispe
   if (!options || typeof options !== 'object') throw new InputError('options', 'must be an object', options);
   const n = options.samples;
   if (!Number.isInteger(n) || n < 1) throw new InputError('options.samples', 'must be an integer >= 1', n);
+  requireWithinLimit('options.samples', n, MAX_DISPERSION_SAMPLES, 'samples');
   const seed = options.seed ?? 1;
   if (!(typeof seed === 'bigint' || Number.isSafeInteger(seed))) throw new InputError('options.seed', 'must be a safe integer or a bigint', seed);
   const resolve = options.resolve ?? 'frozen';
@@ -159,7 +164,18 @@ export interface SampleBlock {
   pointingError: Float64Array;
   /** Samples whose evaluation failed (a WaymarkError): margin −Infinity, not arrived. */
   failed: number;
+  /** Per sample: SAMPLE_FLOWN, SAMPLE_NOT_EVALUATED, SAMPLE_IMPACT or SAMPLE_NO_ARRIVAL. */
+  outcome: Uint8Array;
 }
+
+/** Outcome of a sample: flown to the end (no impact; arrived, when the plan has a target). */
+export const SAMPLE_FLOWN = 0;
+/** Outcome of a sample: its evaluation failed (margin −Infinity). */
+export const SAMPLE_NOT_EVALUATED = 1;
+/** Outcome of a sample: its flight ended in an impact. */
+export const SAMPLE_IMPACT = 2;
+/** Outcome of a sample: it flew without impact but never reached the target. */
+export const SAMPLE_NO_ARRIVAL = 3;
 
 export interface SampleOptions {
   onProgress?: (done: number, total: number) => void;
@@ -219,6 +235,7 @@ export function runSamples(p: PreparedDispersion, first: number, count: number, 
   const peri = new Float64Array(count);
   const magErr = new Float64Array(count * B);
   const pointErr = new Float64Array(count * B);
+  const outcome = new Uint8Array(count);
   const work: Plan = structuredClone(p.template);
   const evs = p.burns.map((b) => work.events[b.eventIndex] as BurnEvent);
   const baseDv = evs.map((ev) => [ev.dv[0], ev.dv[1], ev.dv[2]] as [number, number, number]);
@@ -264,15 +281,17 @@ export function runSamples(p: PreparedDispersion, first: number, count: number, 
       margin[j] = r.budget.margin;
       const arr = p.target >= 0 ? conicArrival(p.system, work, r) : null;
       peri[j] = arr ? arr.periapsisAltitude : Infinity;
+      outcome[j] = r.flags.some((f) => f.code === 'impact') ? SAMPLE_IMPACT : p.target >= 0 && !arr ? SAMPLE_NO_ARRIVAL : SAMPLE_FLOWN;
     } catch (e) {
       if (!(e instanceof WaymarkError)) throw e;
       margin[j] = -Infinity;
       peri[j] = Infinity;
+      outcome[j] = SAMPLE_NOT_EVALUATED;
       failed++;
     }
     if ((j + 1) % every === 0 || j + 1 === count) options.onProgress?.(j + 1, count);
   }
-  return { first, count, margin, periapsisAltitude: peri, magnitudeError: magErr, pointingError: pointErr, failed };
+  return { first, count, margin, periapsisAltitude: peri, magnitudeError: magErr, pointingError: pointErr, failed, outcome };
 }
 
 export interface Percentiles {
@@ -285,7 +304,7 @@ export interface DispersionResult {
   samples: number;
   seed: string;
   resolve: 'frozen' | 'retarget';
-  /** Fraction of samples whose margin is ≥ 0. */
+  /** Fraction of samples flown to the end (no impact; arrived, with a target) whose margin is ≥ 0. */
   pMarginHolds: number;
   /** Fraction that reach the target with periapsis altitude ≥ its minimum safe altitude (null without a target). */
   pPeriapsisSafe: number | null;
@@ -296,7 +315,10 @@ export interface DispersionResult {
   periapsisAltitude: Percentiles | null;
   safeAltitude: number | null;
   nominal: { margin: number; periapsisAltitude: number | null };
+  /** Samples that failed, by cause: not evaluated, ended by an impact, never reached the target. */
   failed: number;
+  impacts: number;
+  missed: number;
   /** Per-sample values in sample order. */
   perSample: SampleBlock;
 }
@@ -322,6 +344,7 @@ export function mergeBlocks(blocks: SampleBlock[], samples: number, burns: numbe
     magnitudeError: new Float64Array(samples * burns),
     pointingError: new Float64Array(samples * burns),
     failed: 0,
+    outcome: new Uint8Array(samples),
   };
   let next = 0;
   for (const b of sorted) {
@@ -330,6 +353,7 @@ export function mergeBlocks(blocks: SampleBlock[], samples: number, burns: numbe
     out.periapsisAltitude.set(b.periapsisAltitude, b.first);
     out.magnitudeError.set(b.magnitudeError, b.first * burns);
     out.pointingError.set(b.pointingError, b.first * burns);
+    out.outcome.set(b.outcome, b.first);
     out.failed += b.failed;
     next += b.count;
   }
@@ -343,12 +367,18 @@ export function summarizeDispersion(p: PreparedDispersion, all: SampleBlock): Di
   let holds = 0;
   let safe = 0;
   let arrive = 0;
+  let impacts = 0;
+  let missed = 0;
   let sum = 0;
   const finiteMargins: number[] = [];
   const alts: number[] = [];
   for (let k = 0; k < n; k++) {
     const m = all.margin[k];
-    if (m >= 0) holds++;
+    const o = all.outcome[k];
+    if (o === SAMPLE_IMPACT) impacts++;
+    else if (o === SAMPLE_NO_ARRIVAL) missed++;
+    // a sample that does not complete its flight fails, whatever its budget says
+    if (o === SAMPLE_FLOWN && m >= 0) holds++;
     if (Number.isFinite(m)) {
       finiteMargins.push(m);
       sum += m;
@@ -387,6 +417,8 @@ export function summarizeDispersion(p: PreparedDispersion, all: SampleBlock): Di
     safeAltitude: hasTarget ? p.safeAltitude : null,
     nominal: { margin: p.nominalMargin, periapsisAltitude: Number.isFinite(p.nominalPeriapsis) ? p.nominalPeriapsis : null },
     failed: all.failed,
+    impacts,
+    missed,
     perSample: all,
   };
 }

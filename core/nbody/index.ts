@@ -5,6 +5,7 @@
 export { correctPlan } from './correct.ts';
 export type { CorrectResult } from './correct.ts';
 export { disperse, mergeBlocks, prepareDispersion, runSamples, summarizeDispersion } from './disperse.ts';
+export { SAMPLE_FLOWN, SAMPLE_IMPACT, SAMPLE_NO_ARRIVAL, SAMPLE_NOT_EVALUATED } from './disperse.ts';
 export type { DispersionOptions, DispersionResult, SampleBlock } from './disperse.ts';
 export { nbodyStatesToEphemeris } from './states.ts';
 export { verifyNBody } from './verify.ts';

@@ -7,8 +7,10 @@
  * Signs: dv1 and dv2 are along the velocity at each burn — positive speeds up (outward
  * transfer), negative slows down (inward transfer). dvTotal is the sum of their magnitudes.
  * Equal radii give a zero transfer (both burns 0) with tof half that orbit's period.
+ * Radii so large (or μ so large or small) that a result overflows — r2 = 1e300 m makes a³
+ * infinite — raise SolverError('hohmann', 'non-finite') naming the value, never an Infinity.
  */
-import { requirePositive } from '../math/index.ts';
+import { requirePositive, SolverError } from '../math/index.ts';
 
 export interface HohmannTransfer {
   /** Burn at r1, along the velocity (m/s; negative = retrograde burn). */
@@ -33,11 +35,17 @@ export function hohmann(mu: number, r1: number, r2: number): HohmannTransfer {
   const vt2 = Math.sqrt(mu * (2 / r2 - 1 / a));
   const dv1 = vt1 - Math.sqrt(mu / r1);
   const dv2 = Math.sqrt(mu / r2) - vt2;
-  return {
+  const out: HohmannTransfer = {
     dv1,
     dv2,
     dvTotal: Math.abs(dv1) + Math.abs(dv2),
     tof: Math.PI * Math.sqrt((a * a * a) / mu),
     aTransfer: a,
   };
+  for (const [k, v] of Object.entries(out)) {
+    if (!Number.isFinite(v)) {
+      throw new SolverError('hohmann', 'non-finite', `the ${k === 'tof' ? 'transfer time' : k === 'aTransfer' ? 'transfer orbit' : 'Δv'} is too large to represent (${k} = ${v}) for these values: r1 = ${r1} m, r2 = ${r2} m, μ = ${mu} m³/s²`, { mu, r1, r2 });
+    }
+  }
+  return out;
 }

@@ -10,8 +10,13 @@
  *   α = 2/r0 − v0²/μ,  σ0 = r0·v0/√μ,
  *
  * then the Lagrange coefficients f, g, ḟ, ġ. Details:
- * - Ellipses: Δt is first reduced modulo the period to |Δt| ≤ T/2, so many revolutions cost
- *   nothing extra (the reduction itself costs about k·T·ε of time after k revolutions).
+ * - Ellipses: Δt is first reduced modulo the period to |Δt| ≤ T/2 (the exact floating-point
+ *   remainder), so many revolutions cost nothing extra. The period itself carries a rounding
+ *   of a few ε (from α of the state), which k revolutions multiply into k·T·ε of time: past
+ *   KEPLER_MAX_REVOLUTIONS (2⁴⁴, where that reaches 1/256 of an orbit) the position along the
+ *   orbit is no longer known and SolverError('kepler', 'precision-lost') is raised instead of
+ *   a state (Δt = 1e300 s once gave |r| ≈ 1e285 km on a bound orbit, Δt ≥ 1e20 s the initial
+ *   state unchanged).
  * - Initial guess: Vallado Algorithm 8 for ellipses (χ0 = √μ·Δt·α) and hyperbolas (the
  *   logarithmic guess); near the parabola (|α·r0| < NEAR_PARABOLIC) Barker's equation solved
  *   in closed form from the current state.
@@ -35,11 +40,13 @@
  *   H1 from Kepler's equation (anomaly.ts, with e − 1 = −p·α/(1 + e) free of cancellation),
  *   and χ = (H1 − H0)/√−α (Vallado §2.3, χ = √−a·ΔH), which is well conditioned.
  *
- * Limits: a rectilinear state (r ∥ v, or v = 0) is propagated as the degenerate conic the
- * formulas describe (radial free fall matches the analytic solution); landing exactly on r = 0
- * raises SolverError('kepler', 'non-finite'), and past r = 0 the formulas continue as an
- * elastic bounce through the centre — callers must detect impact themselves. Accuracy near
- * such a collision degrades as the problem's own conditioning does. Near-parabolic long arcs
+ * Limits: a rectilinear state (r ∥ v to rounding, |r × v| ≤ RECTILINEAR_TOLERANCE·|r||v|, or
+ * v = 0) is propagated as the degenerate conic the formulas describe (radial free fall matches
+ * the analytic solution) up to the centre; a flight that would reach r = 0 within Δt (the time
+ * to the centre from the rectilinear conic's anomaly: M = E − sin E, sinh H − H, or the
+ * parabolic τ = √2·r^{3/2}/(3√μ)) raises SolverError('kepler', 'collision') with that time,
+ * instead of the formulas' elastic bounce through the centre. Accuracy near such a collision
+ * degrades as the problem's own conditioning does. Near-parabolic long arcs
  * are ill-conditioned in the input state itself (α = 2/r0 − v0²/μ cancels): e = 1 − 5e-7 over
  * half a period shows ~1e-9 relative error against a 60-digit reference, as any
  * double-precision method would. Hyperbolic flights so long
@@ -47,6 +54,7 @@
  */
 import { InputError, SolverError } from '../math/index.ts';
 import { hyperbolicMeanAccurate, solveHyperbolicKepler } from './anomaly.ts';
+import { RECTILINEAR_TOLERANCE } from './elements.ts';
 import { stumpffCS } from './stumpff.ts';
 
 /** Laguerre–Conway iteration budget (typically 2–5 steps are used). */
@@ -66,6 +74,12 @@ export const NEAR_PARABOLIC = 1e-6;
  * equation (χ = ΔH/√−α) instead of iterating on F (see the module comment).
  */
 export const HYPERBOLIC_ANOMALY_SWITCH = 0.5;
+/**
+ * Most revolutions of an ellipse a propagation may span: the period's rounding (≈ ε·T) grows
+ * with k revolutions to k·ε of an orbit, 2⁻⁸ at k = 2⁴⁴ (about 1.8e13). Past it the phase is
+ * not resolved in double precision: SolverError('kepler', 'precision-lost').
+ */
+export const KEPLER_MAX_REVOLUTIONS = 2 ** 44;
 
 const EPS = Number.EPSILON;
 const TWO_PI = 2 * Math.PI;
@@ -105,12 +119,41 @@ function solve(mu: number, state: ArrayLike<number>, dt: number, c: Float64Array
   const ar0 = alpha * r0;
   const oneMinusAr0 = 1 - ar0;
 
-  // reduce Δt modulo the period of an ellipse
+  // angular momentum (the rectilinear check and the bracket below)
+  const hx = y * vz - z * vy;
+  const hy = z * vx - x * vz;
+  const hz = x * vy - y * vx;
+  const hsq = hx * hx + hy * hy + hz * hz;
+  if (hsq <= RECTILINEAR_TOLERANCE * RECTILINEAR_TOLERANCE * r0 * r0 * v0sq) {
+    const tc = timeToCentre(sqmu, r0, rv, alpha, dt);
+    if (Math.abs(dt) >= tc) {
+      throw new SolverError('kepler', 'collision', `the radial fall reaches the centre (r = 0) ${tc.toPrecision(6)} s ${dt > 0 ? 'after' : 'before'} the start, within the ${dt} s asked`, {
+        mu,
+        state: Array.from({ length: 6 }, (_, k) => state[k]),
+        dt,
+        tCollision: dt > 0 ? tc : -tc,
+      });
+    }
+  }
+
+  // reduce Δt modulo the period of an ellipse (exact remainder, then into [−T/2, T/2])
   let t = dt;
   if (alpha > 0) {
     const period = TWO_PI / (sqmu * alpha * Math.sqrt(alpha));
-    const k = Math.round(t / period);
-    if (k !== 0) t -= k * period;
+    if (Math.abs(t) > 0.5 * period) {
+      const revolutions = Math.abs(t) / period;
+      if (!(revolutions <= KEPLER_MAX_REVOLUTIONS)) {
+        throw new SolverError(
+          'kepler',
+          'precision-lost',
+          `${dt} s is ${revolutions.toExponential(2)} revolutions of a ${period.toPrecision(6)} s orbit: past ${KEPLER_MAX_REVOLUTIONS.toExponential(2)} revolutions the rounding of the period hides where on the orbit the body is`,
+          { mu, state: Array.from({ length: 6 }, (_, k) => state[k]), dt, period },
+        );
+      }
+      t %= period;
+      if (t > 0.5 * period) t -= period;
+      else if (t < -0.5 * period) t += period;
+    }
   }
   if (t === 0) {
     c[0] = 1;
@@ -124,10 +167,6 @@ function solve(mu: number, state: ArrayLike<number>, dt: number, c: Float64Array
   const absSdt = Math.abs(sdt);
 
   // bracket for χ: sign(χ) = sign(Δt), |χ| ≤ √μ|Δt|/q (doubled for margin)
-  const hx = y * vz - z * vy;
-  const hy = z * vx - x * vz;
-  const hz = x * vy - y * vx;
-  const hsq = hx * hx + hy * hy + hz * hz;
   const p = hsq / mu;
   const ecc = Math.sqrt(Math.max(0, 1 - p * alpha));
   const q = p / (1 + ecc);
@@ -246,6 +285,33 @@ function solve(mu: number, state: ArrayLike<number>, dt: number, c: Float64Array
     });
   }
   lagrange(sqmu, r0, alpha, t, chi, c2, c3, x, y, z, vx, vy, vz, c);
+}
+
+/**
+ * Time to the centre of a rectilinear (e = 1, radial) orbit in the direction of dt, s; Infinity
+ * when it moves away for ever. From the anomaly of the degenerate conic (Bate, Mueller & White,
+ * ch. 4; Vallado §2.2, e = 1 in Kepler's equation): ellipse r = a(1 − cos E), M = E − sin E,
+ * the centre at M = 0 and 2π; hyperbola r = |a|(cosh H − 1), M = sinh H − H, the centre at
+ * H = 0; parabola (|α·r0| < NEAR_PARABOLIC) τ = √2·r0^{3/2}/(3√μ) from or to the centre.
+ */
+function timeToCentre(sqmu: number, r0: number, rv: number, alpha: number, dt: number): number {
+  const inward = dt > 0 ? rv <= 0 : rv >= 0; // moving toward the centre in dt's direction (at rest: both)
+  const ar0 = alpha * r0;
+  if (ar0 > NEAR_PARABOLIC) {
+    const n = sqmu * alpha * Math.sqrt(alpha);
+    const E = Math.acos(Math.min(1, Math.max(-1, 1 - ar0))); // in [0, π]: the outgoing half
+    const M = E - Math.sin(E);
+    // outgoing (rv > 0) at M; incoming at 2π − M. Forward: the centre at 2π; backward: at 0.
+    const Mnow = rv > 0 || (rv === 0 && dt < 0) ? M : TWO_PI - M;
+    return dt > 0 ? (TWO_PI - Mnow) / n : Mnow / n;
+  }
+  if (!inward) return Infinity;
+  if (ar0 < -NEAR_PARABOLIC) {
+    const n = sqmu * -alpha * Math.sqrt(-alpha);
+    const H = Math.acosh(1 - ar0);
+    return (Math.sinh(H) - H) / n;
+  }
+  return (Math.SQRT2 * r0 * Math.sqrt(r0)) / (3 * sqmu);
 }
 
 /** Lagrange coefficients from the solved χ (Vallado Algorithm 8 / Curtis eqs. 3.69). */

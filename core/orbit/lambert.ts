@@ -80,6 +80,12 @@ export const LAMBERT_DEFAULT_MAX_ITER = 30;
 export const COLLINEAR_SIN = 1e-10;
 /** Points closer than this fraction of r1 + r2 count as coincident. */
 const COINCIDENT_REL = 1e-14;
+/**
+ * Largest |r1|, |r2| accepted, m: the geometry needs s³ (s the semi-perimeter, up to 2·|r|),
+ * which overflows past about 1e102 m; 1e100 m is far beyond any system (the files' bound on a
+ * semi-major axis is 1e17 m).
+ */
+export const LAMBERT_MAX_RADIUS = 1e100;
 /** |x − 1| below which Battin's series gives T(x) (Izzo 2015). */
 const BATTIN_BAND = 0.01;
 /** |x − 1| below which (and above BATTIN_BAND) Lagrange's form gives T(x). */
@@ -461,7 +467,7 @@ const Z_NORMAL = [0, 0, 1];
 /**
  * All solutions of Lambert's problem up to `options.revs` complete revolutions: the single
  * revolution first, then for each feasible revolution count its left and right branches.
- * Throws InputError for tof ≤ 0, coincident points, a zero radius, non-finite input, μ ≤ 0, or
+ * Throws InputError for tof ≤ 0, coincident points, a zero radius or one past LAMBERT_MAX_RADIUS, non-finite input, μ ≤ 0, or
  * collinear points with no usable normal; throws SolverError('lambert', 'no-convergence' |
  * 'no-solution') when a solution does not converge or comes out non-finite. Never returns [].
  */
@@ -474,6 +480,8 @@ export function solveLambert(mu: number, r1: ArrayLike<number>, r2: ArrayLike<nu
   const r2n = Math.hypot(r2[0], r2[1], r2[2]);
   if (!(r1n > 0)) throw new InputError('r1', 'must have a non-zero radius', r1);
   if (!(r2n > 0)) throw new InputError('r2', 'must have a non-zero radius', r2);
+  if (!(r1n <= LAMBERT_MAX_RADIUS)) throw new InputError('r1', `is too large (|r1| = ${r1n.toExponential(3)} m; at most ${LAMBERT_MAX_RADIUS} m)`, r1);
+  if (!(r2n <= LAMBERT_MAX_RADIUS)) throw new InputError('r2', `is too large (|r2| = ${r2n.toExponential(3)} m; at most ${LAMBERT_MAX_RADIUS} m)`, r2);
   const wantRevs = options.revs ?? 0;
   if (!Number.isInteger(wantRevs) || wantRevs < 0) throw new InputError('options.revs', 'must be a non-negative integer', wantRevs);
   const retrograde = options.retrograde ?? false;

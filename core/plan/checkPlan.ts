@@ -5,7 +5,7 @@
  * problem of a file at once; this is the evaluator's own guard against bad data.)
  */
 import { InputError, requireFinite } from '../math/index.ts';
-import { findBodyIndex, type StarSystem } from '../system/index.ts';
+import { findBodyIndex, MAX_EVENTS, MAX_STAGES, requireWithinLimit, type StarSystem } from '../system/index.ts';
 import type { Plan, PlanEvent } from './plan.ts';
 import { checkVehicle } from './vehicle.ts';
 
@@ -56,6 +56,7 @@ function altitude(system: StarSystem, body: number, field: string, alt: number):
 /** Throws InputError with the field path of the first problem in the plan. */
 export function checkPlan(system: StarSystem, plan: Plan): void {
   obj('plan', plan);
+  if (plan.vehicle && Array.isArray(plan.vehicle.stages)) requireWithinLimit('vehicle.stages', plan.vehicle.stages.length, MAX_STAGES, 'stages');
   checkVehicle(plan.vehicle, 'vehicle');
   const s = plan.start;
   obj('start', s);
@@ -76,6 +77,7 @@ export function checkPlan(system: StarSystem, plan: Plan): void {
     throw new InputError('start.kind', "must be 'parking' or 'state'", (s as { kind: unknown }).kind);
   }
   if (!Array.isArray(plan.events)) throw new InputError('events', 'must be an array', plan.events);
+  requireWithinLimit('events', plan.events.length, MAX_EVENTS, 'events');
   const ids = new Set<string>();
   plan.events.forEach((ev: PlanEvent, k) => {
     const p = `events[${k}]`;

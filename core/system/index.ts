@@ -7,6 +7,21 @@ export { dateParts, formatCompactDate, formatDate, formatElapsed, parseDate } fr
 export { SYSTEM_FORMAT, SYSTEM_VERSION } from './document.ts';
 export type { SystemDocument } from './document.ts';
 export { bodyPosition, bodyState, bodyStateRelativeToParent, sampleOrbit } from './ephemeris.ts';
+export {
+  MAX_BODIES,
+  MAX_DISPERSION_SAMPLES,
+  MAX_EVENTS,
+  MAX_GAME_SAMPLES_PER_SPAN,
+  MAX_GAME_STEPS,
+  MAX_LISTED_ISSUES,
+  MAX_STABILITY_BODIES,
+  MAX_STABILITY_SAMPLES,
+  MAX_STABILITY_STEPS,
+  MAX_STABILITY_WORK,
+  MAX_STAGES,
+  overLimitRule,
+  requireWithinLimit,
+} from './limits.ts';
 export { findBodyIndex } from './model.ts';
 export type { Body, StarSystem, SystemCalendar } from './model.ts';
 export { initialStates } from './nbodyEphemeris.ts';

@@ -24,7 +24,7 @@ import { propagateKepler } from '../../core/orbit/kepler.ts';
 import { lambertAll, lambertSingleRev, solveLambert, type LambertSolution } from '../../core/orbit/lambert.ts';
 import { built, type Draw } from './draw.ts';
 import { CaseFailure, typedOrFail } from './verdict.ts';
-import { norm, perpendicular, scale, sub, turn, type V3 } from './vec.ts';
+import { cross, norm, perpendicular, scale, sub, turn, type V3 } from './vec.ts';
 
 /** Boundary conditions are met to this relative miss (for arcs with κ ≤ WELL_CONDITIONED). */
 export const LAMBERT_BOUNDARY_TOL = 1e-8;
@@ -86,10 +86,14 @@ export function lambertCase(d: Draw): LambertCase {
 
 export const lambertCases = built(lambertCase);
 
+/** Kepler refused the arc as a radial fall through the centre (kepler.ts 'collision'). */
+class ThroughCentre extends Error {}
+
 function fly(c: LambertCase, v1: ArrayLike<number>): ArrayLike<number> {
   try {
     return propagateKepler(c.mu, [...c.r1, v1[0], v1[1], v1[2]], c.tof);
   } catch (e) {
+    if (e instanceof SolverError && e.reason === 'collision') throw new ThroughCentre((e as Error).message);
     throw new CaseFailure('kepler failed on a lambert arc', (e as Error).message);
   }
 }
@@ -112,7 +116,17 @@ function checkSolution(c: LambertCase, what: string, v1: ArrayLike<number>, v2: 
   for (let i = 0; i < 3; i++) {
     if (!Number.isFinite(v1[i]) || !Number.isFinite(v2[i])) throw new CaseFailure('non-finite lambert velocity', `${what}: v1 ${Array.from(v1)}, v2 ${Array.from(v2)}`);
   }
-  const end = fly(c, v1);
+  let end: ArrayLike<number>;
+  try {
+    end = fly(c, v1);
+  } catch (e) {
+    if (!(e instanceof ThroughCentre)) throw e;
+    // a radial arc through the centre (r1 ∥ r2, the long way): Kepler refuses to fly through
+    // r = 0; the arc must then be radial to rounding (no angular momentum)
+    const h = norm(cross(c.r1, [v1[0], v1[1], v1[2]]));
+    if (!(h <= 1e-12 * norm(c.r1) * norm(v1))) throw new CaseFailure('kepler refused a non-radial lambert arc as a collision', `${what}: ${e.message}`);
+    return false;
+  }
   const dr = norm(sub(end, c.r2)) / norm(c.r2);
   const dv = norm(sub([end[3], end[4], end[5]], v2)) / norm(v2);
   if (dr <= LAMBERT_BOUNDARY_TOL && dv <= LAMBERT_BOUNDARY_TOL) return true;

@@ -132,6 +132,8 @@ export function addDisperseCommand(program: Command): void {
             }
           }
           if (r.failed > 0) lines.push(`${r.failed} samples could not be evaluated (counted as not holding)`);
+          if (r.impacts > 0) lines.push(`${r.impacts} samples end in an impact (counted as not holding)`);
+          if (r.missed > 0) lines.push(`${r.missed} samples never reach ${loaded.system.bodies.find((b) => b.id === loaded.plan.target?.body)?.name ?? 'the target'} (counted as not holding)`);
           lines.push(`${num(samples / seconds, 0)} samples/s on ${Math.min(workers, samples)} worker${workers === 1 ? '' : 's'}`);
           printText(lines.join('\n'));
         }

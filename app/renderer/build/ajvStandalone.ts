@@ -7,13 +7,16 @@
  * `ajv/dist/2020.js` resolves to a small module whose `compile` returns the validator that
  * ajv's standalone code generator (ajv.js.org, "Standalone validation code") produced for the
  * schema with the same `$id`, from every schema in assets/schema/. The generated validators are
- * compiled with allErrors and verbose on (the options the core's parsers use), so their
- * `errors` arrays carry the same objects (keyword, instancePath, params, parentSchema).
+ * compiled with allErrors and verbose on (the options the core's parsers use) from the schemas
+ * with their local references inlined (core/io `inlineLocalRefs`, as the core's parsers compile
+ * them: validation stays linear in the file), so their `errors` arrays carry the same objects
+ * (keyword, instancePath, schemaPath, params, parentSchema).
  */
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { createRequire } from 'node:module';
 import type { Plugin } from 'vite';
+import { inlineLocalRefs } from '../../../core/io/index.ts';
 
 const VIRTUAL = '\0waymark-ajv-standalone';
 
@@ -37,7 +40,7 @@ export function standaloneModuleSource(schemaDir: string): string {
   const schemas = readdirSync(schemaDir)
     .filter((f) => f.endsWith('.schema.json'))
     .sort()
-    .map((f) => JSON.parse(readFileSync(join(schemaDir, f), 'utf8')) as { $id?: string });
+    .map((f) => inlineLocalRefs(JSON.parse(readFileSync(join(schemaDir, f), 'utf8')) as { $id?: string }));
   const ajv = new Ajv2020({ allErrors: true, verbose: true, strict: false, code: { source: true, esm: true } });
   const keywords = new Set<string>();
   for (const s of schemas) annotationKeywords(s, keywords);

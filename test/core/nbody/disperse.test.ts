@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../../core/math/errors.ts';
-import { disperse, mergeBlocks, perturbBurn, prepareDispersion, quantileSorted, runSamples, summarizeDispersion } from '../../../core/nbody/disperse.ts';
+import { disperse, mergeBlocks, perturbBurn, prepareDispersion, quantileSorted, runSamples, SAMPLE_FLOWN, SAMPLE_IMPACT, SAMPLE_NO_ARRIVAL, summarizeDispersion } from '../../../core/nbody/disperse.ts';
 import { demoPlan, heavyDemoPlan } from '../../fixtures/demoPlan.ts';
 import { demoSystem } from '../plan/helpers.ts';
 
@@ -83,7 +83,49 @@ describe('disperse: the error model', () => {
     expect(r.margin.p50).toBe(quantileSorted(sorted, 0.5));
     expect(r.margin.p5).toBeLessThanOrEqual(r.margin.p50);
     expect(r.margin.p50).toBeLessThanOrEqual(r.margin.p95);
-    expect(r.pMarginHolds).toBe(Array.from(block.margin).filter((m) => m >= 0).length / N);
+    // a sample holds only when it is flown to the end: no impact, and it reaches the target
+    const flownHolding = Array.from(block.margin).filter((m, k) => block.outcome[k] === SAMPLE_FLOWN && m >= 0).length;
+    expect(r.pMarginHolds).toBe(flownHolding / N);
+    expect(r.pMarginHolds).toBeLessThanOrEqual(r.pArrive!);
+  });
+});
+
+describe('disperse: a sample that does not complete its flight fails', () => {
+  it('regression (σ pointing 30°: every budget margin ≥ 0 but no sample arrives — reported 100 % holding with 0 % arriving): P(margin holds) is 0', () => {
+    const p = prepareDispersion(sys, demoPlan, { samples: 60, seed: 1, pointingSigma: 30 });
+    const block = runSamples(p, 0, 60);
+    const r = summarizeDispersion(p, block);
+    // the budgets alone would all hold: frozen burns keep their magnitudes
+    expect(Array.from(block.margin).every((m) => m >= 0)).toBe(true);
+    expect(r.pArrive).toBe(0);
+    expect(r.pMarginHolds).toBe(0);
+    // each failed sample is counted by its cause, and the causes agree with the per-sample arrival
+    expect(r.impacts + r.missed + r.failed).toBe(60);
+    for (let k = 0; k < 60; k++) {
+      expect(block.outcome[k]).not.toBe(SAMPLE_FLOWN);
+      if (block.outcome[k] === SAMPLE_NO_ARRIVAL) expect(block.periapsisAltitude[k]).toBe(Infinity);
+    }
+    expect(r.impacts).toBe(Array.from(block.outcome).filter((o) => o === SAMPLE_IMPACT).length);
+  });
+
+  it('an impact fails the sample though its budget holds (no target: the impact alone decides)', () => {
+    // from the demo's parking orbit, a 300 m/s retrograde burn drops the periapsis under
+    // Tessel's surface (about 75 m/s would do): every sample hits Tessel with most of its Δv left
+    // (re-solved mode, so the coast keeps its condition and flies on to the impact)
+    const plan = {
+      ...structuredClone(demoPlan),
+      target: null,
+      events: [
+        { type: 'burn' as const, id: 'drop', name: 'Drop', t: null, frame: 'vnb' as const, dv: [-300, 0, 0] as [number, number, number], solve: { kind: 'fixed' as const }, mode: 'impulsive' as const, pointing: 'velocity' as const },
+        { type: 'coast' as const, id: 'fall', name: 'Fall', until: { kind: 'periapsis' as const } },
+      ],
+    };
+    const r = disperse(sys, plan, { samples: 5, seed: 2, magnitudeSigma: 1, resolve: 'retarget' });
+    expect(Array.from(r.perSample.margin).every((m) => m > 0)).toBe(true);
+    expect(r.impacts).toBe(5);
+    expect(Array.from(r.perSample.outcome)).toEqual([SAMPLE_IMPACT, SAMPLE_IMPACT, SAMPLE_IMPACT, SAMPLE_IMPACT, SAMPLE_IMPACT]);
+    expect(r.pArrive).toBeNull();
+    expect(r.pMarginHolds).toBe(0);
   });
 });
 

@@ -1,12 +1,13 @@
 /**
  * The build-time validators that replace ajv's compiler in the renderer (its CSP forbids eval)
- * must report exactly what ajv itself reports for the same schema and document.
+ * must report exactly what ajv itself reports for the same schema and document, compiled as the
+ * core's parsers compile it (core/io/fileValidator.ts: local references inlined).
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { readFileSync } from 'node:fs';
-import { Ajv2020 } from 'ajv/dist/2020.js';
 import { describe, expect, it } from 'vitest';
 import { standaloneModuleSource } from '../../../../app/renderer/build/ajvStandalone.ts';
+import { compileFileSchema } from '../../../../core/io/fileValidator.ts';
 
 const root = new URL('../../../../', import.meta.url);
 const schemaDir = new URL('assets/schema/', root).pathname;
@@ -20,10 +21,7 @@ async function standalone() {
 }
 
 function reference(schema: object) {
-  const ajv = new Ajv2020({ allErrors: true, verbose: true, strict: true, strictRequired: false, allowUnionTypes: true });
-  ajv.addKeyword({ keyword: 'x-rule', schemaType: 'string' });
-  ajv.addKeyword({ keyword: 'x-rule-oneOf', schemaType: 'string' });
-  return ajv.compile(schema);
+  return compileFileSchema(schema);
 }
 
 const strip = (errs: unknown) => (errs as { instancePath: string; keyword: string; params: unknown; schemaPath: string }[] | null)?.map((e) => ({ p: e.instancePath, k: e.keyword, params: e.params, s: e.schemaPath })) ?? null;
