@@ -11,16 +11,24 @@
  * - the renderer can only read files the user picked in a dialog or that are on the recent list,
  *   and a system file beside a plan it opened; only write paths the user picked or opened in
  *   this session;
+ * - reads are of regular files only, at most MAX_FILE_CHARS bytes, timed out (app/main/diskFiles.ts
+ *   over app/node/files.ts): a FIFO, a device or a link to one is refused without blocking;
  * - what is read must be the kind of file the channel carries (a plan, a system file: its JSON
  *   header says so, in a version this program reads), else it is refused: a crafted plan cannot
  *   make main hand over an arbitrary JSON file through `readSystemBeside`;
+ * - `readSystemBeside` reads only inside the plan's own folder (and below it) or a folder the user
+ *   chose a system file in through the dialog this session, compared by real paths (every
+ *   symbolic link resolved, so a link out of the folder is outside); whatever it refuses — a
+ *   path outside, a missing file, a FIFO, a file that is not a system file — gets one and the
+ *   same refusal, which says nothing of the file (not whether it exists, not what it holds);
  * - a file a newer Waymark wrote is never overwritten (the renderer offers Save As instead);
  * - saves are atomic (app/node/files.ts `atomicWriteFile`) and keep the previous version
  *   as a backup.
  */
-import { basename, dirname, isAbsolute, resolve } from 'node:path';
-import { IPC, MAX_FILE_CHARS, type DocumentState, type ExportKind, type OpenedFile, type RecentEntry, type RecoverySnapshot, type SavedFile } from '../preload/api.ts';
+import { basename, dirname, isAbsolute, relative, resolve, sep } from 'node:path';
+import { IPC, type DocumentState, type ExportKind, type OpenedFile, type RecentEntry, type RecoverySnapshot, type SavedFile } from '../preload/api.ts';
 import { headerProblem, type FileKind } from '../preload/fileHeader.ts';
+import type { OutputKind } from '../node/files.ts';
 import type { RecentStore } from './recentFiles.ts';
 import {
   ArgumentError,
@@ -60,10 +68,12 @@ export interface HandlerDeps {
     showSave(defaultName: string, filters: FileFilter[]): Promise<string | null>;
   };
   files: {
+    /** Reads a text file: regular files only, at most MAX_FILE_CHARS bytes (refused before reading), strict UTF-8. */
     readText(path: string): Promise<string>;
-    /** File size in bytes (to refuse oversized files before reading). */
-    size(path: string): Promise<number>;
-    writeAtomic(path: string, text: string): Promise<void>;
+    /** The path with every symbolic link resolved; rejects when nothing is there. */
+    realpath(path: string): Promise<string>;
+    /** Saves atomically with a backup; with a `kind`, through the output guard of app/node/files.ts first. */
+    writeAtomic(path: string, text: string, kind?: OutputKind): Promise<void>;
   };
   recent: RecentStore;
   recovery: {
@@ -88,9 +98,20 @@ export interface Sender {
 
 export type Handler = (sender: Sender, ...args: unknown[]) => Promise<unknown>;
 
+/** True when `path` lies inside the folder `root` (both real paths), at any depth. */
+export function isInside(root: string, path: string): boolean {
+  const r = relative(root, path);
+  return r !== '' && r !== '..' && !r.startsWith(`..${sep}`) && !isAbsolute(r);
+}
+
+/** The one refusal of `readSystemBeside`, whatever the reason (it tells nothing about the file). */
+export const BESIDE_REFUSAL = "names no system file this plan may read (it must be a Waymark system file in the plan's folder, or in a folder a system file was chosen from in this session)";
+
 export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
   /** Paths the user chose in a dialog or opened this session; the only ones `save` writes. */
   const writable = new Set<string>();
+  /** Real paths of the folders the user chose a system file in this session (readSystemBeside may read there). */
+  const chosenFolders = new Set<string>();
 
   const guard =
     <A extends unknown[]>(fn: (...args: A) => Promise<unknown>, check: (args: unknown[]) => A): Handler =>
@@ -100,10 +121,8 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
       return fn(...check(args));
     };
 
-  /** Reads a `kind` file: within the size limit, and its header says it is one this program reads. */
+  /** Reads a `kind` file: a regular file within the size limit whose header says it is one this program reads. */
   async function readOnly(path: string, kind: FileKind): Promise<OpenedFile> {
-    const size = await deps.files.size(path);
-    if (size > MAX_FILE_CHARS) throw new ArgumentError('path', `names a file of ${size} bytes, over the limit of ${MAX_FILE_CHARS}`);
     const text = await deps.files.readText(path);
     const problem = headerProblem(text, kind);
     if (problem) throw new ArgumentError(basename(path), problem.rule);
@@ -121,10 +140,9 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
   async function refuseNewer(path: string): Promise<void> {
     let text: string;
     try {
-      if ((await deps.files.size(path)) > MAX_FILE_CHARS) return;
       text = await deps.files.readText(path);
     } catch {
-      return; // no file there yet
+      return; // no readable plan there (none yet, or one the guard of writeAtomic judges)
     }
     const problem = headerProblem(text, 'plan');
     if (problem?.newer) throw new ArgumentError(basename(path), `${problem.rule}: it is not overwritten; use Save As to save under another name`);
@@ -132,7 +150,7 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
 
   async function write(path: string, text: string): Promise<SavedFile> {
     await refuseNewer(path);
-    await deps.files.writeAtomic(path, text);
+    await deps.files.writeAtomic(path, text, 'plan');
     writable.add(path);
     await deps.recent.add(path);
     return { path, name: basename(path) };
@@ -162,13 +180,31 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
 
     [IPC.openSystemDialog]: guard(async (): Promise<OpenedFile | null> => {
       const path = await deps.dialogs.showOpen(SYSTEM_FILTERS);
-      return path === null ? null : readOnly(requireFilePath('path', path, PLAN_EXTENSIONS), 'system');
+      if (path === null) return null;
+      const opened = await readOnly(requireFilePath('path', path, PLAN_EXTENSIONS), 'system');
+      // The user chose this folder: systems of plans may be read from it this session.
+      chosenFolders.add(dirname(await deps.files.realpath(path)));
+      return opened;
     }, none),
 
     [IPC.readSystemBeside]: guard(
       async (planPath: string, relativePath: string): Promise<OpenedFile> => {
         if (!writable.has(planPath)) throw new ArgumentError('planPath', 'is not a plan opened or saved in this session');
-        return readOnly(resolve(dirname(planPath), relativePath), 'system');
+        const refused = new ArgumentError('relativePath', BESIDE_REFUSAL);
+        let real: string;
+        let roots: string[];
+        try {
+          real = await deps.files.realpath(resolve(dirname(planPath), relativePath));
+          roots = [await deps.files.realpath(dirname(planPath)), ...chosenFolders];
+        } catch {
+          throw refused; // nothing there (not said)
+        }
+        if (!roots.some((root) => isInside(root, real))) throw refused;
+        try {
+          return await readOnly(real, 'system');
+        } catch {
+          throw refused; // not a regular file, too large, not a system file (not said which)
+        }
       },
       (args): [string, string] => {
         requireArguments(args, ['planPath', 'relativePath']);
@@ -208,7 +244,7 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
         const path = await deps.dialogs.showSave(suggestedName, [EXPORT_FILTERS[kind]]);
         if (path === null) return null;
         requireFilePath('path', path, EXPORT_EXTENSIONS[kind]);
-        await deps.files.writeAtomic(path, text);
+        await deps.files.writeAtomic(path, text, kind);
         return { path, name: basename(path) };
       },
       (args): [ExportKind, string, string] => {

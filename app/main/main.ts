@@ -8,12 +8,11 @@
  * dist/preload/preload.cjs and the renderer to dist/renderer/.
  */
 import { app, BrowserWindow, dialog, ipcMain, Menu, protocol, session } from 'electron';
-import { mkdir, readFile, rm, stat } from 'node:fs/promises';
-import { basename, dirname, join } from 'node:path';
+import { mkdir, readFile } from 'node:fs/promises';
+import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import config from '../../electron.config.ts';
-import { decodeUtf8 } from '../../core/io/index.ts';
-import { atomicWriteFile } from '../node/files.ts';
+import { createDiskFiles } from './diskFiles.ts';
 import { IPC, type MenuCommand } from '../preload/api.ts';
 import { createCloseGuard } from './closeGuard.ts';
 import { createIpcHandlers, createRecoveryStore } from './ipcHandlers.ts';
@@ -33,13 +32,8 @@ protocol.registerSchemesAsPrivileged([{ scheme: APP_SCHEME, privileges: { standa
 
 let win: BrowserWindow | null = null;
 
-const files = {
-  // Strict: a file that is not UTF-8 is refused with the offset of its first bad byte.
-  readText: async (p: string) => decodeUtf8(await readFile(p), basename(p)),
-  size: async (p: string) => (await stat(p)).size,
-  writeAtomic: (p: string, text: string) => atomicWriteFile(p, text),
-  remove: (p: string) => rm(p, { force: true }),
-};
+// Reads of regular files only, size-capped, strict UTF-8 and timed out; guarded atomic saves (diskFiles.ts).
+const files = createDiskFiles();
 
 function send(command: MenuCommand): void {
   win?.webContents.send(IPC.menu, command);

@@ -91,8 +91,8 @@ export function addCheckCommand(program: Command): void {
     .argument('<plan>', 'plan file (.plan.json)')
     .option('--json', 'machine-readable output')
     .action((planPath: string, o: { json?: boolean }) =>
-      guard(!!o.json, () => {
-        const loaded = loadPlanFile(planPath);
+      guard(!!o.json, async () => {
+        const loaded = await loadPlanFile(planPath);
         const result = evaluate(loaded.system, loaded.plan);
         const holds = marginHolds(result);
         if (o.json) {

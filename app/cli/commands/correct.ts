@@ -3,8 +3,13 @@
  * differential correction in the n-body model (core/nbody/correct.ts): adjusts the chosen
  * burns (default: the mid-course burn) until the n-body flight reaches the patched-conic arrival
  * (periapsis altitude, inclination and time at the target), then writes the corrected plan with
- * the atomic save of app/node/files.ts (the previous NEW_PLAN kept as NEW_PLAN.bak). A plan that
- * names its system file by a relative path gets the path rewritten relative to NEW_PLAN's folder.
+ * the atomic save of app/node/files.ts (the previous NEW_PLAN kept as NEW_PLAN.bak), through its
+ * output guard: never over the input plan or its system file (also through a link), a system
+ * file, a plan a newer Waymark wrote, or a file that is not a Waymark plan. A plan that names
+ * its system file by a relative path gets the path rewritten relative to NEW_PLAN's folder.
+ * `-o -` writes the corrected plan to standard output (naming its system file by its absolute
+ * path, since the plan may land anywhere; not with `--json`; standard output then carries the
+ * plan alone, without the text summary).
  *
  * Exit code: 0 when the correction converged and the plan was written; 3 when it did not
  * converge (the message gives the last residual; nothing is written); 2 for a bad file or option.
@@ -15,8 +20,8 @@ import { dirname, relative, resolve } from 'node:path';
 import type { Command } from 'commander';
 import { InputError } from '../../../core/math/index.ts';
 import { correctPlan } from '../../../core/nbody/index.ts';
-import type { PlanSystemRef } from '../../../core/io/index.ts';
-import { loadPlanFile, savePlanFile } from '../../node/files.ts';
+import { serializePlanFile, type PlanSystemRef } from '../../../core/io/index.ts';
+import { checkOutputs, loadPlanFile, STDOUT, writeOutput, type InputFile, type OutputTarget } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson, printText, printWarnings, vecText } from '../output.ts';
 import { CORRECT_FLAGS } from '../flags.ts';
 
@@ -25,6 +30,7 @@ const DEG = 180 / Math.PI;
 /** The system reference to write beside `out`: relative paths re-rooted at out's folder. */
 export function systemRefFor(out: string, ref: PlanSystemRef, systemPath: string | null): PlanSystemRef {
   if (ref.kind !== 'path' || systemPath === null) return ref;
+  if (out === STDOUT) return { kind: 'path', path: resolve(systemPath) };
   const rel = relative(dirname(resolve(out)), systemPath).split('\\').join('/');
   return { kind: 'path', path: rel };
 }
@@ -47,11 +53,15 @@ export function addCorrectCommand(program: Command): void {
       guard({ json: !!o.json, flags: CORRECT_FLAGS }, async () => {
         const maxIterations = Number(o.maxIterations);
         if (!Number.isInteger(maxIterations) || maxIterations < 1) throw new InputError('--max-iterations', 'must be a whole number >= 1', o.maxIterations);
-        if (resolve(o.output) === resolve(planPath)) throw new InputError('--output', 'must not be the input plan (keep the original)', o.output);
-        const loaded = loadPlanFile(planPath);
+        if (o.output === STDOUT && o.json) throw new InputError('--output', 'cannot be - (standard output) together with --json: both would go to standard output', STDOUT);
+        const loaded = await loadPlanFile(planPath);
         const { system } = loaded;
+        const inputs: InputFile[] = [{ path: planPath, what: 'the plan file being corrected' }];
+        if (loaded.systemPath) inputs.push({ path: loaded.systemPath, what: "the plan's system file" });
+        const target: OutputTarget = { flag: '--output', path: o.output, kind: 'plan' };
+        await checkOutputs([target], { inputs });
         const c = correctPlan(system, loaded.plan, { burns: o.burn, time: !!o.time, maxIterations });
-        await savePlanFile(o.output, c.plan, systemRefFor(o.output, loaded.systemRef, loaded.systemPath));
+        await writeOutput(target, serializePlanFile(c.plan, systemRefFor(o.output, loaded.systemRef, loaded.systemPath)), { inputs });
         if (o.json) {
           printJson({
             plan: loaded.plan.name,
@@ -67,6 +77,8 @@ export function addCorrectCommand(program: Command): void {
             notes: c.notes,
             file: o.output,
           });
+        } else if (o.output === STDOUT) {
+          printWarnings(loaded.warnings); // standard output carries the plan alone
         } else {
           printWarnings(loaded.warnings);
           const out: string[] = [];

@@ -101,7 +101,7 @@ export function addDisperseCommand(program: Command): void {
         if (!(pointingSigma >= 0)) throw new InputError('--point-sigma', 'must be >= 0', o.pointSigma);
         if (o.resolve !== 'frozen' && o.resolve !== 'retarget') throw new InputError('--resolve', "must be 'frozen' or 'retarget'", o.resolve);
         const workers = o.workers !== undefined ? count('--workers', o.workers, 1) : Math.min(MAX_AUTO_WORKERS, Math.max(1, availableParallelism()));
-        const loaded = loadPlanFile(planPath);
+        const loaded = await loadPlanFile(planPath);
         const options: DispersionOptions = { samples, seed: seedNum, magnitudeSigma, pointingSigma, resolve: o.resolve };
         const bar = createProgress('disperse', 'samples', progressEnabled(!!o.json));
         const t0 = performance.now();

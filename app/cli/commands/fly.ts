@@ -11,7 +11,12 @@
  *   (core/conic/ephemerisSampler.ts).
  * - `--oem FILE`: CCSDS OEM (KVN), one metadata block per central-body span (core/io/oem.ts);
  *   `--csv FILE`: ephemeris CSV; `--burns FILE`: burn-table CSV; `--report FILE`: Markdown
- *   budget report. Every file is saved atomically, the previous version kept as FILE.bak.
+ *   budget report. Every file is saved atomically, the previous version kept as FILE.bak,
+ *   through the output guard of app/node/files.ts (never over the plan or its system file, a
+ *   folder, FIFO or device, or a file that is not a previous export of the same kind). FILE `-`
+ *   writes that export to standard output instead (one export at most, not with `--json`;
+ *   standard output then carries the export alone, without the text summary), so exports can
+ *   be piped: `waymark fly demo.plan.json --csv - | …`.
  * Text output: the flown span, the trajectory events and the margin; `--json`: { model, t0, t1,
  * events, budget, flags, target, files } in SI. Exit code 0 when flown (the margin verdict is
  * `waymark check`'s), 2 for a bad file or option, 3 for a numerical failure.
@@ -28,7 +33,7 @@ import { verifyNBody, type NBodyResult } from '../../../core/nbody/index.ts';
 import { nbodyStatesToEphemeris } from '../../../core/nbody/index.ts';
 import type { PlanResult } from '../../../core/plan/index.ts';
 import { formatCompactDate } from '../../../core/system/index.ts';
-import { atomicWriteFile, loadPlanFile } from '../../node/files.ts';
+import { checkOutputs, loadPlanFile, STDOUT, writeOutput, type InputFile, type OutputTarget } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
 import { FLY_FLAGS } from '../flags.ts';
 
@@ -64,8 +69,22 @@ export function addFlyCommand(program: Command): void {
         if (!(MODELS as readonly string[]).includes(o.model)) throw new InputError('--model', `must be one of: ${MODELS.join(', ')}`, o.model);
         const step = parseQuantity('--step', o.step, 'time');
         if (!(step > 0)) throw new InputError('--step', 'must be > 0', o.step);
-        const loaded = loadPlanFile(planPath);
+        const outputs: OutputTarget[] = (
+          [
+            ['--oem', o.oem, 'oem'],
+            ['--csv', o.csv, 'csv'],
+            ['--burns', o.burns, 'burns-csv'],
+            ['--report', o.report, 'report'],
+          ] as const
+        ).flatMap(([flag, path, kind]) => (path === undefined ? [] : [{ flag, path, kind }]));
+        const toStdout = outputs.find((t) => t.path === STDOUT);
+        if (toStdout && o.json) throw new InputError(toStdout.flag, 'cannot be - (standard output) together with --json: both would go to standard output', STDOUT);
+        const loaded = await loadPlanFile(planPath);
         const { system, plan } = loaded;
+        const inputs: InputFile[] = [{ path: planPath, what: 'the plan file being flown' }];
+        if (loaded.systemPath) inputs.push({ path: loaded.systemPath, what: "the plan's system file" });
+        await checkOutputs(outputs, { inputs });
+        const save = (flag: string, path: string, kind: OutputTarget['kind'], text: string) => writeOutput({ flag, path, kind }, text, { inputs });
         const result = evaluate(system, plan);
         const nbody: NBodyResult | null = o.model === 'nbody' ? verifyNBody(system, plan, result, { samples: false, step }) : null;
 
@@ -79,20 +98,20 @@ export function addFlyCommand(program: Command): void {
               comments: [`Plan: ${plan.name}; ${nbody ? 'restricted n-body model (RK45)' : 'patched-conic model'}; step ${step} s.`],
               spanComments: burnComments(result, eph.spans),
             });
-            await atomicWriteFile(o.oem, text);
+            await save('--oem', o.oem, 'oem', text);
             files.oem = o.oem;
           }
           if (o.csv) {
-            await atomicWriteFile(o.csv, ephemerisCsv(system, eph));
+            await save('--csv', o.csv, 'csv', ephemerisCsv(system, eph));
             files.csv = o.csv;
           }
         }
         if (o.burns) {
-          await atomicWriteFile(o.burns, burnTableCsv(result.budget));
+          await save('--burns', o.burns, 'burns-csv', burnTableCsv(result.budget));
           files.burns = o.burns;
         }
         if (o.report) {
-          await atomicWriteFile(o.report, budgetReport(system, plan, result));
+          await save('--report', o.report, 'report', budgetReport(system, plan, result));
           files.report = o.report;
         }
 
@@ -111,6 +130,8 @@ export function addFlyCommand(program: Command): void {
             warnings: loaded.warnings,
             files,
           });
+        } else if (toStdout) {
+          printWarnings(loaded.warnings); // standard output carries the export alone
         } else {
           printWarnings(loaded.warnings);
           const cal = system.calendar;

@@ -253,14 +253,14 @@ export function addGamestepCommand(program: Command): void {
     .option('--dt-max <seconds>', 'largest step of the sweep')
     .option('--json', 'machine-readable output')
     .action((planPath: string, o: GamestepOptions) =>
-      guard({ json: !!o.json, flags: GAMESTEP_FLAGS }, () => {
+      guard({ json: !!o.json, flags: GAMESTEP_FLAGS }, async () => {
         const physics = physicsFromOptions(o);
         const tolerance = o.tolerance !== undefined ? parseKm('--tolerance', o.tolerance) : undefined;
         const energyTolerance = o.energyTolerance !== undefined ? parsePositive('--energy-tolerance', o.energyTolerance) : undefined;
         const warpDt = o.warpDt !== undefined ? parseStep('--warp-dt', o.warpDt) : undefined;
         const maxStepsPerSpan = o.maxSteps !== undefined ? parsePositive('--max-steps', o.maxSteps, true) : undefined;
         const dtMax = o.dtMax !== undefined ? parseStep('--dt-max', o.dtMax) : undefined;
-        const loaded = loadPlanFile(planPath);
+        const loaded = await loadPlanFile(planPath);
         const { system, plan } = loaded;
         const bar = createProgress(o.sweep ? 'game-step + sweep' : 'game-step', '‰', progressEnabled(!!o.json));
         let check: GameStepResult;

@@ -89,10 +89,10 @@ export function addStabilityCommand(program: Command): void {
     .option('--samples <n>', 'element-history samples')
     .option('--json', 'machine-readable output')
     .action((systemPath: string, o: StabilityCliOptions) =>
-      guard({ json: !!o.json, flags: STABILITY_FLAGS }, () => {
+      guard({ json: !!o.json, flags: STABILITY_FLAGS }, async () => {
         const years = positive('--years', o.years, false);
         if (o.method !== 'yoshida4' && o.method !== 'verlet') throw new InputError('--method', 'must be one of: yoshida4, verlet', o.method);
-        const { system, warnings } = loadSystemFile(systemPath);
+        const { system, warnings } = await loadSystemFile(systemPath);
         const bar = createProgress('stability', '‰', progressEnabled(!!o.json));
         let r: StabilityResult;
         try {

@@ -13,12 +13,14 @@
  * Output: text table (calendar dates, flight days, Δv in m/s, C3 in km²/s², v∞ in km/s);
  * `--json`: { request, grid: { min, nDepart, nTof, secondAxis, unsolved }, windows } in SI;
  * `--csv`: the windows as CSV. `--grid-out FILE` writes the whole grid (JSON, or CSV when FILE
- * ends in .csv). Exit code 1 when no window is found.
+ * ends in .csv), saved atomically with a backup through the output guard of app/node/files.ts
+ * (never over the system file read, a folder, FIFO or device, or a file that is not a previous
+ * grid of the same format; checked before the grid is computed); `--grid-out -` writes the
+ * JSON grid to standard output instead (not with `--json` or `--csv`; standard output then
+ * carries the grid alone). Exit code 1 when no window is found.
  */
 import { availableParallelism } from 'node:os';
-import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
-import { parseSystemFile } from '../../../core/io/index.ts';
 import { parseQuantity, parseRange } from '../../../core/io/index.ts';
 import { InputError } from '../../../core/math/index.ts';
 import { hohmann } from '../../../core/orbit/index.ts';
@@ -30,7 +32,7 @@ import { FROM_PARENT, prepareTransfer, SIBLINGS, type TransferCell } from '../..
 import { findWindows, type TransferWindow } from '../../../core/search/index.ts';
 import { formatCompactDate, parseDate } from '../../../core/system/index.ts';
 import { findBodyIndex, type StarSystem, type SystemCalendar } from '../../../core/system/index.ts';
-import { atomicWriteFile } from '../../node/files.ts';
+import { checkOutputs, loadSystemFile, STDOUT, writeOutput, type OutputRules, type OutputTarget } from '../../node/files.ts';
 import { EXIT_NO, guard, jsonReplacer, num, printData, printJson, printText } from '../output.ts';
 import { windowsFlags } from '../flags.ts';
 import { computePorkchopPooled } from '../pool.ts';
@@ -212,9 +214,14 @@ function windowsCsv(cal: SystemCalendar, ws: TransferWindow[]): string {
   return [CSV_HEADER.join(','), ...rows].join('\n') + '\n';
 }
 
-/** Writes the whole grid to `path` (atomically, like every file the command line writes). */
-async function gridFile(path: string, grid: PorkchopGrid): Promise<void> {
-  if (path.toLowerCase().endsWith('.csv')) {
+/** The `--grid-out` output: CSV for a .csv name, else JSON (also on standard output). */
+function gridTarget(path: string): OutputTarget {
+  return { flag: '--grid-out', path, kind: path !== STDOUT && path.toLowerCase().endsWith('.csv') ? 'grid-csv' : 'grid-json' };
+}
+
+/** Writes the whole grid to its output (a file atomically, like every file the command line writes, or standard output). */
+async function gridFile(target: OutputTarget, grid: PorkchopGrid, rules: OutputRules): Promise<void> {
+  if (target.kind === 'grid-csv') {
     const { nRows, nCols } = grid.planes;
     const lines = [['i', 'j', 'departure_s', grid.request.secondAxis === 'arrival' ? 'arrival_s' : 'tof_s', ...FLOAT_PLANES, ...INT_PLANES].join(',')];
     for (let i = 0; i < nRows; i++) {
@@ -223,7 +230,7 @@ async function gridFile(path: string, grid: PorkchopGrid): Promise<void> {
         lines.push([i, j, grid.departTimes[i], grid.secondValues[j], ...FLOAT_PLANES.map((p) => grid.planes[p][k]), ...INT_PLANES.map((p) => grid.planes[p][k])].join(','));
       }
     }
-    await atomicWriteFile(path, lines.join('\n') + '\n');
+    await writeOutput(target, lines.join('\n') + '\n', rules);
   } else {
     const doc = {
       request: grid.request,
@@ -233,7 +240,7 @@ async function gridFile(path: string, grid: PorkchopGrid): Promise<void> {
       unsolved: grid.unsolved,
       planes: Object.fromEntries([...FLOAT_PLANES, ...INT_PLANES].map((p) => [p, grid.planes[p]])),
     };
-    await atomicWriteFile(path, JSON.stringify(doc, jsonReplacer) + '\n');
+    await writeOutput(target, JSON.stringify(doc, jsonReplacer) + '\n', rules);
   }
 }
 
@@ -310,13 +317,13 @@ export function addWindowsCommand(program: Command): void {
     .action((o: WindowsOptions) =>
       guard({ json: !!o.json, flags: windowsFlags(o.arrive !== undefined ? 'arrival' : 'tof') }, async () => {
         if (o.json && o.csv) throw new InputError('--csv', 'cannot be combined with --json');
-        let text: string;
-        try {
-          text = readFileSync(o.system, 'utf8');
-        } catch (e) {
-          throw new InputError('--system', `must name a readable file (${(e as Error).message})`, o.system);
+        const gridOut = o.gridOut === undefined ? null : gridTarget(o.gridOut);
+        if (gridOut?.path === STDOUT && (o.json || o.csv)) {
+          throw new InputError('--grid-out', `cannot be - (standard output) together with ${o.json ? '--json' : '--csv'}: both would go to standard output`, STDOUT);
         }
-        const { system } = parseSystemFile(text);
+        const { system } = await loadSystemFile(o.system);
+        const outputRules: OutputRules = { inputs: [{ path: o.system, what: 'the system file read (--system)' }] };
+        if (gridOut) await checkOutputs([gridOut], outputRules);
         const request = buildRequest(system, o);
         const top = parseCount('--top', o.top, 1);
         const cells = request.depart.n * request.second.n;
@@ -336,7 +343,7 @@ export function addWindowsCommand(program: Command): void {
           bar.stop();
           process.removeListener('SIGINT', onSigint);
         }
-        if (o.gridOut) await gridFile(o.gridOut, grid);
+        if (gridOut) await gridFile(gridOut, grid, outputRules);
         const m = gridMinimum(grid);
         const min = m ? gridCell(system, grid, m.i, m.j) : null;
         const windows = findWindows(system, grid, { count: top });
@@ -356,7 +363,7 @@ export function addWindowsCommand(program: Command): void {
           });
         } else if (o.csv) {
           printData(windowsCsv(cal, windows));
-        } else {
+        } else if (gridOut?.path !== STDOUT) {
           printText(textReport(system, grid, min, windows));
         }
         return windows.length === 0 ? EXIT_NO : undefined;

@@ -20,7 +20,7 @@ describe.concurrent('waymark correct', () => {
     expect(r.stdout).toMatch(/burn mid-course: Δv \[.*\] → \[.*\] m\/s \(inertial\), change \d+\.\d{3} m\/s/);
     expect(r.stdout).toMatch(/margin \d+\.\d → \d+\.\d m\/s/);
     expect(r.stdout).toContain(`wrote ${out}`);
-    const loaded = loadPlanFile(out); // its system path was re-rooted at the new folder
+    const loaded = await loadPlanFile(out); // its system path was re-rooted at the new folder
     const mc = loaded.plan.events.find((e) => e.id === 'mid-course') as BurnEvent;
     expect(mc.solve.kind).toBe('fixed');
     expect(mc.frame).toBe('inertial');

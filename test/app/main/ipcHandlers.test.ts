@@ -8,7 +8,7 @@
 import { describe, expect, it, vi } from 'vitest';
 import { IPC, MAX_FILE_CHARS, type RecoverySnapshot } from '../../../app/preload/api.ts';
 import { NEWER_VERSION_RULE } from '../../../app/preload/fileHeader.ts';
-import { createIpcHandlers, createRecoveryStore, type HandlerDeps, type Sender } from '../../../app/main/ipcHandlers.ts';
+import { BESIDE_REFUSAL, createIpcHandlers, createRecoveryStore, type HandlerDeps, type Sender } from '../../../app/main/ipcHandlers.ts';
 import { createRecentStore } from '../../../app/main/recentFiles.ts';
 
 const APP = 'waymark://app/index.html';
@@ -21,23 +21,25 @@ function setup(over: Partial<HandlerDeps> = {}) {
   const disk = new Map<string, string>([
     ['/plans/a.plan.json', PLAN],
     ['/systems/s.system.json', SYSTEM],
+    ['/plans/s.system.json', SYSTEM],
+    ['/plans/sys/deep.system.json', SYSTEM],
     ['/plans/notes.json', '{"token":"secret"}'],
     ['/plans/garbage.plan.json', 'not json at all'],
     ['/plans/array.plan.json', '[1,2,3]'],
     ['/plans/system.plan.json', SYSTEM],
     ['/plans/newer.plan.json', NEWER_PLAN],
   ]);
-  const writeAtomic = vi.fn(async (p: string, t: string) => void disk.set(p, t));
+  const writeAtomic = vi.fn(async (p: string, t: string, _kind?: string) => void disk.set(p, t));
   const files = {
     readText: vi.fn(async (p: string) => {
       const t = disk.get(p);
       if (t === undefined) throw new Error(`ENOENT ${p}`);
       return t;
     }),
-    size: vi.fn(async (p: string) => {
-      const t = disk.get(p);
-      if (t === undefined) throw new Error(`ENOENT ${p}`);
-      return t.length;
+    // No links on this disk: a path is its own real path when a file or a folder is there.
+    realpath: vi.fn(async (p: string) => {
+      if (disk.has(p) || [...disk.keys()].some((k) => k.startsWith(`${p}/`))) return p;
+      throw new Error(`ENOENT ${p}`);
     }),
     writeAtomic,
   };
@@ -64,7 +66,7 @@ const VALID: Record<string, unknown[]> = {
   [IPC.openDialog]: [],
   [IPC.openRecent]: ['/plans/a.plan.json'],
   [IPC.openSystemDialog]: [],
-  [IPC.readSystemBeside]: ['/plans/a.plan.json', '../systems/s.system.json'],
+  [IPC.readSystemBeside]: ['/plans/a.plan.json', 's.system.json'],
   [IPC.save]: ['/plans/a.plan.json', PLAN],
   [IPC.saveAs]: ['b.plan.json', PLAN],
   [IPC.exportFile]: ['oem', 'x.oem', 'CCSDS_OEM_VERS = 2.0'],
@@ -245,7 +247,7 @@ describe('IPC handlers (main process, Electron mocked away)', () => {
     expect(writeAtomic).not.toHaveBeenCalled();
     await h[IPC.openDialog](me);
     await expect(h[IPC.save](me, '/plans/a.plan.json', PLAN_B)).resolves.toEqual({ path: '/plans/a.plan.json', name: 'a.plan.json' });
-    expect(writeAtomic).toHaveBeenCalledWith('/plans/a.plan.json', PLAN_B);
+    expect(writeAtomic).toHaveBeenCalledWith('/plans/a.plan.json', PLAN_B, 'plan');
   });
 
   it('refuses to overwrite a plan a newer Waymark wrote since it was opened; Save As elsewhere works', async () => {
@@ -272,7 +274,7 @@ describe('IPC handlers (main process, Electron mocked away)', () => {
     const { h, dialogs, writeAtomic } = setup();
     await expect(h[IPC.saveAs](me, 'plan.plan.json', PLAN)).resolves.toEqual({ path: '/plans/b.plan.json', name: 'b.plan.json' });
     expect(dialogs.showSave).toHaveBeenCalledWith('plan.plan.json', expect.any(Array));
-    expect(writeAtomic).toHaveBeenCalledWith('/plans/b.plan.json', PLAN);
+    expect(writeAtomic).toHaveBeenCalledWith('/plans/b.plan.json', PLAN, 'plan');
     await expect(h[IPC.save](me, '/plans/b.plan.json', PLAN_B)).resolves.toBeTruthy();
     dialogs.showSave.mockResolvedValueOnce('relative.plan.json');
     await expect(h[IPC.saveAs](me, 'plan.plan.json', PLAN)).rejects.toThrow(/path must be an absolute path/);
@@ -286,30 +288,41 @@ describe('IPC handlers (main process, Electron mocked away)', () => {
     await expect(h[IPC.openRecent](me, '/plans/notes.json')).rejects.toThrow(/not on the recent-files list/);
   });
 
-  it('reads a system file beside an opened plan, and nothing else', async () => {
+  it('reads a system file beside an opened plan (in its folder or below), and nothing else', async () => {
     const { h } = setup();
-    await expect(h[IPC.readSystemBeside](me, '/plans/a.plan.json', '../systems/s.system.json')).rejects.toThrow(/planPath is not a plan opened/);
+    await expect(h[IPC.readSystemBeside](me, '/plans/a.plan.json', 's.system.json')).rejects.toThrow(/planPath is not a plan opened/);
     await h[IPC.openDialog](me);
-    await expect(h[IPC.readSystemBeside](me, '/plans/a.plan.json', '../systems/s.system.json')).resolves.toMatchObject({ text: SYSTEM });
-    // A crafted plan naming another JSON file as its "system": main does not hand it over.
-    const refused = h[IPC.readSystemBeside](me, '/plans/a.plan.json', 'notes.json');
-    await expect(refused).rejects.toThrow(/notes\.json is not a Waymark system file/);
-    await expect(refused).rejects.not.toThrow(/secret/);
-    await expect(h[IPC.readSystemBeside](me, '/plans/a.plan.json', 'a.plan.json')).rejects.toThrow(/is not a Waymark system file/);
+    await expect(h[IPC.readSystemBeside](me, '/plans/a.plan.json', 's.system.json')).resolves.toMatchObject({ text: SYSTEM });
+    await expect(h[IPC.readSystemBeside](me, '/plans/a.plan.json', 'sys/deep.system.json')).resolves.toMatchObject({ text: SYSTEM });
+    await expect(h[IPC.readSystemBeside](me, '/plans/a.plan.json', './sys/../s.system.json')).resolves.toMatchObject({ text: SYSTEM });
+    // A crafted plan naming another JSON file as its "system": main does not hand it over, and
+    // says nothing about it (not its "format", not whether it exists).
+    const refusals = await Promise.all(
+      ['notes.json', 'a.plan.json', 'missing.json', '../systems/s.system.json', '../../systems/s.system.json', 'sys/../../systems/s.system.json'].map((rel) =>
+        h[IPC.readSystemBeside](me, '/plans/a.plan.json', rel).then(
+          () => 'read',
+          (e: Error) => e.message,
+        ),
+      ),
+    );
+    expect(new Set(refusals)).toEqual(new Set([`relativePath ${BESIDE_REFUSAL}`]));
   });
 
-  it('refuses to read files over the size limit', async () => {
-    const { h, files } = setup();
-    files.size.mockResolvedValueOnce(MAX_FILE_CHARS + 1);
-    await expect(h[IPC.openDialog](me)).rejects.toThrow(/over the limit of 33554432/);
-    expect(files.readText).not.toHaveBeenCalled();
+  it('reads a system in a folder outside the plan\'s only once the user chose a system file there', async () => {
+    const { h, dialogs } = await opened();
+    await expect(h[IPC.readSystemBeside](me, '/plans/a.plan.json', '../systems/s.system.json')).rejects.toThrow(BESIDE_REFUSAL);
+    dialogs.showOpen.mockResolvedValueOnce('/systems/s.system.json');
+    await h[IPC.openSystemDialog](me);
+    await expect(h[IPC.readSystemBeside](me, '/plans/a.plan.json', '../systems/s.system.json')).resolves.toMatchObject({ text: SYSTEM });
+    // The folder, not the whole disk: a file that is not a system there is still refused.
+    await expect(h[IPC.readSystemBeside](me, '/plans/a.plan.json', '../user/recent.json')).rejects.toThrow(BESIDE_REFUSAL);
   });
 
   it('exports through a save dialog with the kind checked', async () => {
     const { h, dialogs, writeAtomic } = setup();
     dialogs.showSave.mockResolvedValueOnce('/out/plan.oem');
     await expect(h[IPC.exportFile](me, 'oem', 'plan.oem', 'CCSDS_OEM_VERS = 2.0')).resolves.toEqual({ path: '/out/plan.oem', name: 'plan.oem' });
-    expect(writeAtomic).toHaveBeenCalledWith('/out/plan.oem', 'CCSDS_OEM_VERS = 2.0');
+    expect(writeAtomic).toHaveBeenCalledWith('/out/plan.oem', 'CCSDS_OEM_VERS = 2.0', 'oem');
     dialogs.showSave.mockResolvedValueOnce('/out/plan.exe');
     await expect(h[IPC.exportFile](me, 'csv', 'plan.csv', 'a,b')).rejects.toThrow(/path must end in \.csv/);
   });

@@ -1,8 +1,9 @@
 import { spawn } from 'node:child_process';
-import { chmodSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { chmodSync, chownSync, existsSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import * as fsp from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { build } from 'esbuild';
 import { afterAll, describe, expect, it } from 'vitest';
 import { ValidationError } from '../../../core/math/errors.ts';
 import { parsePlanFile, serializePlanFile, type PlanSystemRef } from '../../../core/io/planFile.ts';
@@ -56,6 +57,39 @@ function runAndKill(args: string[], signal: string, delayMs = 0): Promise<void> 
 
 const tmpFiles = (dir: string) => readdirSync(dir).filter((f) => f.endsWith('.tmp'));
 
+/** The unprivileged user and group ids ("nobody" on Linux). */
+const NOBODY = 65534;
+
+/**
+ * Runs saveChild's `save` as the user nobody: the child is bundled (esbuild, as tsx does) into a
+ * file that user can read, in folders it can pass through, so it needs nothing of the checkout.
+ */
+async function saveAsNobody(target: string, text: string): Promise<{ code: number | null; stdout: string; stderr: string }> {
+  const bundle = join(work, 'saveChild.mjs');
+  if (!existsSync(bundle)) {
+    await build({
+      entryPoints: [CHILD],
+      bundle: true,
+      platform: 'node',
+      format: 'esm',
+      outfile: bundle,
+      logLevel: 'error',
+      // ajv is CommonJS: give the ESM bundle a require
+      banner: { js: "import { createRequire as __waymarkRequire } from 'node:module'; const require = __waymarkRequire(import.meta.url);" },
+    });
+  }
+  chmodSync(work, 0o755); // mkdtemp made it private to its owner
+  return new Promise((resolvePromise, reject) => {
+    const child = spawn(process.execPath, [bundle, 'save', target, text], { cwd: work, uid: NOBODY, gid: NOBODY, stdio: ['ignore', 'pipe', 'pipe'] });
+    let stdout = '';
+    let stderr = '';
+    child.stdout.on('data', (b: Buffer) => (stdout += b.toString()));
+    child.stderr.on('data', (b: Buffer) => (stderr += b.toString()));
+    child.on('error', reject);
+    child.on('close', (code) => resolvePromise({ code, stdout, stderr }));
+  });
+}
+
 describe('atomicWriteFile', () => {
   it('writes the file and keeps the previous version as <name>.bak', async () => {
     const dir = freshDir();
@@ -108,14 +142,24 @@ describe('atomicWriteFile', () => {
     expect(tmpFiles(dir)).toEqual([]);
   });
 
-  it.skipIf(process.getuid?.() === 0)('a folder that is not writable: the save fails, says why, and the old file stays', async () => {
+  it('a folder that is not writable: the save fails, says why, and the old file stays (as an unprivileged user, also when the tests run as root)', async () => {
     const dir = freshDir();
     const p = join(dir, 'plan.json');
     await atomicWriteFile(p, 'old contents');
     chmodSync(dir, 0o555);
     try {
-      await expect(atomicWriteFile(p, 'new')).rejects.toThrow(/cannot create a temporary file: permission denied/);
+      if (process.getuid?.() === 0) {
+        // Root may write into any folder: the save runs in a child process as the unprivileged
+        // user "nobody" (uid and gid 65534), who owns the folder but has taken away its write permission.
+        chownSync(dir, NOBODY, NOBODY);
+        const r = await saveAsNobody(p, 'new');
+        expect(r.code).toBe(3);
+        expect(r.stdout).toMatch(/cannot create a temporary file: permission denied/);
+      } else {
+        await expect(atomicWriteFile(p, 'new')).rejects.toThrow(/cannot create a temporary file: permission denied/);
+      }
       expect(readFileSync(p, 'utf8')).toBe('old contents');
+      expect(tmpFiles(dir)).toEqual([]);
     } finally {
       chmodSync(dir, 0o755);
     }
@@ -226,13 +270,13 @@ describe('loadPlanFile and savePlanFile', () => {
     const dir = freshDir();
     const p = join(dir, 'trip.plan.json');
     await savePlanFile(p, samplePlan(), ref(dir));
-    const loaded = loadPlanFile(p);
+    const loaded = await loadPlanFile(p);
     expect(loaded.plan).toEqual(samplePlan());
     expect(loaded.system.name).toBe('Ilmar');
     expect(loaded.systemPath).toBe(SYSTEM);
     const changed = { ...loaded.plan, name: 'Changed' };
     await savePlanFile(p, changed, loaded.systemRef);
-    expect(loadPlanFile(p).plan.name).toBe('Changed');
+    expect((await loadPlanFile(p)).plan.name).toBe('Changed');
     expect(parsePlanFile(readFileSync(`${p}.bak`, 'utf8')).plan.name).toBe('Sample run');
   });
 
@@ -241,9 +285,9 @@ describe('loadPlanFile and savePlanFile', () => {
     const p = join(dir, 'e.plan.json');
     const q = join(dir, 'with-path.plan.json');
     await savePlanFile(q, samplePlan(), ref(dir));
-    const sys = loadPlanFile(q).system;
+    const sys = (await loadPlanFile(q)).system;
     await savePlanFile(p, samplePlan(), { kind: 'embedded', system: sys });
-    const loaded = loadPlanFile(p);
+    const loaded = await loadPlanFile(p);
     expect(loaded.systemPath).toBeNull();
     expect(loaded.system.bodies.length).toBe(sys.bodies.length);
   });
@@ -253,7 +297,7 @@ describe('loadPlanFile and savePlanFile', () => {
     const p = join(dir, 'lost.plan.json');
     await savePlanFile(p, samplePlan(), { kind: 'path', path: 'nowhere/none.system.json' });
     try {
-      loadPlanFile(p);
+      await loadPlanFile(p);
       expect.unreachable();
     } catch (e) {
       expect(e).toBeInstanceOf(ValidationError);
@@ -268,10 +312,10 @@ describe('loadPlanFile and savePlanFile', () => {
     const plan = samplePlan();
     plan.target = { ...plan.target!, body: 'atlantis' };
     await savePlanFile(p, plan, ref(dir));
-    expect(() => loadPlanFile(p)).toThrow(/target\.body names no body of system "Ilmar" \(got "atlantis"/);
+    await expect(loadPlanFile(p)).rejects.toThrow(/target\.body names no body of system "Ilmar" \(got "atlantis"/);
   });
 
-  it('a missing plan file is a FileError saying so', () => {
-    expect(() => loadPlanFile(join(work, 'nope.plan.json'))).toThrow(/cannot read .*nope\.plan\.json: .*does not exist \(ENOENT\)/);
+  it('a missing plan file is a FileError saying so', async () => {
+    await expect(loadPlanFile(join(work, 'nope.plan.json'))).rejects.toThrow(/cannot read .*nope\.plan\.json: .*does not exist \(ENOENT\)/);
   });
 });

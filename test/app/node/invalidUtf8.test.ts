@@ -27,17 +27,17 @@ function badSystem(): { path: string; offset: number } {
 }
 
 describe('files that are not valid UTF-8', () => {
-  it('readTextFile and loadSystemFile refuse them with the offset of the bad byte', () => {
+  it('readTextFile and loadSystemFile refuse them with the offset of the bad byte', async () => {
     const { path, offset } = badSystem();
-    expect(() => readTextFile(path)).toThrow(FileError);
-    expect(() => readTextFile(path)).toThrow(`cannot read ${path}: it is not valid UTF-8 at byte ${offset.toLocaleString('en-US')}`);
-    expect(() => loadSystemFile(path)).toThrow(/not valid UTF-8 at byte/);
+    await expect(readTextFile(path)).rejects.toThrow(FileError);
+    await expect(readTextFile(path)).rejects.toThrow(`cannot read ${path}: it is not valid UTF-8 at byte ${offset.toLocaleString('en-US')}`);
+    await expect(loadSystemFile(path)).rejects.toThrow(/not valid UTF-8 at byte/);
   });
 
-  it('valid UTF-8 with accents and Δ still reads as written', () => {
+  it('valid UTF-8 with accents and Δ still reads as written', async () => {
     const path = join(work, 'ok.txt');
     writeFileSync(path, 'Fénix Δv ✓', 'utf8');
-    expect(readTextFile(path)).toBe('Fénix Δv ✓');
+    expect(await readTextFile(path)).toBe('Fénix Δv ✓');
   });
 
   it('the command line exits 2 with the offset', async () => {

@@ -4,6 +4,9 @@
  *                            half is in the temporary file, then blocks until killed.
  *   loop TARGET A B          saves the texts of files A and B over TARGET alternately, forever,
  *                            reporting "started" after the first save.
+ *   save TARGET TEXT         saves TEXT over TARGET once; prints "saved", or the error's message
+ *                            (exit code 3). The non-writable-folder test runs it as an
+ *                            unprivileged user when the tests run as root.
  */
 import { readFileSync, writeSync } from 'node:fs';
 import { atomicWriteFile } from '../../../app/node/files.ts';
@@ -32,6 +35,14 @@ if (mode === 'mid-write') {
   for (let k = 0; ; k++) {
     await atomicWriteFile(target, texts[k % 2], { chunkSize: 1 << 14 });
     if (k === 0) writeSync(1, 'started\n');
+  }
+} else if (mode === 'save') {
+  try {
+    await atomicWriteFile(target, rest[0]);
+    writeSync(1, 'saved\n');
+  } catch (e) {
+    writeSync(1, `${(e as Error).message}\n`);
+    process.exitCode = 3;
   }
 } else {
   writeSync(2, `unknown mode ${mode}\n`);

@@ -8,11 +8,11 @@
  * the copy, and recovering gives the edits back intact; declining discards it for good.
  */
 import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { readFile, rm, stat } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, afterEach, describe, expect, it, vi } from 'vitest';
 import { evaluate } from '../../../../core/conic/evaluate.ts';
+import { createDiskFiles } from '../../../../app/main/diskFiles.ts';
 import { createIpcHandlers, createRecoveryStore, type Handler } from '../../../../app/main/ipcHandlers.ts';
 import { createRecentStore } from '../../../../app/main/recentFiles.ts';
 import { atomicWriteFile } from '../../../../app/node/files.ts';
@@ -159,12 +159,7 @@ const APP = 'waymark://app/index.html';
 
 /** A fresh main process (its handlers) over the user-data folder `userData`. */
 function mainProcess(userData: string): Record<string, Handler> {
-  const files = {
-    readText: (p: string) => readFile(p, 'utf8'),
-    size: async (p: string) => (await stat(p)).size,
-    writeAtomic: (p: string, t: string) => atomicWriteFile(p, t),
-    remove: (p: string) => rm(p, { force: true }),
-  };
+  const files = createDiskFiles(); // the main process's own file access
   return createIpcHandlers({
     dialogs: { showOpen: async () => null, showSave: async () => null },
     files,
