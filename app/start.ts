@@ -1,50 +1,44 @@
 /**
  * `npm start`: opens Waymark on the demo plan.
- * - Where Electron's runtime binary is installed: builds main, preload and renderer, then runs
- *   Electron on dist/main/main.js.
- * - Otherwise (browser mode, as on build machines): builds the renderer, serves dist/renderer on
- *   127.0.0.1 (port from electron.config.ts, or a free one when it is taken), prints the URL and
- *   keeps serving until Ctrl-C.
- * `tsx app/start.ts build` only builds (`npm run build`); `tsx app/start.ts serve` forces browser mode.
+ * - The desktop window: builds main, preload and renderer, then runs Electron on
+ *   dist/main/main.js. When the Electron runtime binary is missing (a normal `npm install` does
+ *   not download it), electron's own installer is run once first (app/desktopRuntime.ts).
+ * - Browser mode, where the runtime is not there and cannot be downloaded (or WAYMARK_BROWSER=1):
+ *   one line says why, then the renderer is built and served on 127.0.0.1 (port from
+ *   electron.config.ts, or a free one when it is taken); the URL is printed and it serves until Ctrl-C.
+ * `tsx app/start.ts build` only builds (`npm run build`); `tsx app/start.ts serve` forces browser
+ * mode. `npm start -- --devtools` (or WAYMARK_DEVTOOLS=1) opens the desktop window with DevTools.
  */
 import { spawn } from 'node:child_process';
-import { existsSync } from 'node:fs';
-import { createRequire } from 'node:module';
 import { fileURLToPath } from 'node:url';
 import config from '../electron.config.ts';
+import { chooseRuntime, nodeRuntimeEnv, type RuntimeChoice } from './desktopRuntime.ts';
 import { buildMainAndPreload } from './main/build.ts';
 import { buildRenderer } from './renderer/build/buildRenderer.ts';
 import { serveStatic } from './renderer/build/serve.ts';
 
 const repo = fileURLToPath(new URL('..', import.meta.url));
 
-/** Path of the Electron runtime binary, or null when it is not installed. */
-export function electronBinary(): string | null {
-  try {
-    const p = createRequire(import.meta.url)('electron') as unknown;
-    return typeof p === 'string' && existsSync(p) ? p : null;
-  } catch {
-    return null;
-  }
-}
-
 async function main(): Promise<void> {
-  const mode = process.argv[2] ?? 'start';
+  const args = process.argv.slice(2);
+  const mode = args.find((a) => !a.startsWith('-')) ?? 'start';
+  const flags = args.filter((a) => a.startsWith('-'));
   if (mode === 'build') {
     await buildRenderer();
     await buildMainAndPreload();
     console.log(`built ${config.build.rendererDir}, ${config.build.main}, ${config.build.preload}`);
     return;
   }
-  const electron = mode === 'serve' ? null : electronBinary();
-  if (electron) {
+  const choice: RuntimeChoice = mode === 'serve' ? { kind: 'browser', reason: 'asked for' } : await chooseRuntime(nodeRuntimeEnv(repo));
+  if (choice.kind === 'electron') {
     await buildRenderer();
     await buildMainAndPreload();
-    const child = spawn(electron, [`${repo}${config.build.main}`], { stdio: 'inherit' });
+    // flags after `npm start --` (e.g. --devtools) reach the main process
+    const child = spawn(choice.binary, [`${repo}${config.build.main}`, ...flags], { stdio: 'inherit' });
     child.on('exit', (code) => process.exit(code ?? 0));
     return;
   }
-  console.log('Electron runtime not installed: running in browser mode.');
+  console.log(`Browser mode: ${choice.reason}.`);
   const t0 = performance.now();
   const root = await buildRenderer();
   const served = await serveStatic({

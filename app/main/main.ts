@@ -19,7 +19,7 @@ import { createIpcHandlers, createRecoveryStore } from './ipcHandlers.ts';
 import { menuTemplate } from './menuTemplate.ts';
 import { createRecentStore } from './recentFiles.ts';
 import { createAppProtocolHandler } from './appProtocol.ts';
-import { APP_INDEX_URL, APP_SCHEME, lockDownContents, lockDownSession, trustedSender, webPreferences } from './security.ts';
+import { APP_INDEX_URL, APP_SCHEME, devToolsWanted, lockDownContents, lockDownSession, trustedSender, webPreferences } from './security.ts';
 
 const here = dirname(fileURLToPath(import.meta.url)); // dist/main
 const rendererDir = join(here, '..', 'renderer');
@@ -109,7 +109,8 @@ function createWindow(): void {
     backgroundColor: w.backgroundColor,
     title: w.title,
     show: false,
-    webPreferences: webPreferences(config, preloadPath, { devTools: !app.isPackaged }),
+    // DevTools only when asked for (--devtools or WAYMARK_DEVTOOLS=1) in a run from a checkout; never packaged.
+    webPreferences: webPreferences(config, preloadPath, { devTools: devToolsWanted(app.isPackaged, process.argv, process.env) }),
   });
   win.once('ready-to-show', () => win?.show());
   win.on('close', (e) => {

@@ -9,9 +9,15 @@ import type { Session, WebContents, WebPreferences } from 'electron';
 import type { WaymarkElectronConfig } from '../../electron.config.ts';
 
 /**
- * Web preferences of every window. `devTools` only in a development run (the packaged app has
- * none, so a page cannot be opened up from its keyboard shortcut).
+ * Whether windows get DevTools: only when asked for, in a run from a checkout (`npm start --
+ * --devtools`, or WAYMARK_DEVTOOLS=1); a user's normal run and the packaged app have none, so a
+ * page cannot be opened up from its keyboard shortcut.
  */
+export function devToolsWanted(packaged: boolean, argv: readonly string[], env: Readonly<Record<string, string | undefined>>): boolean {
+  return !packaged && (argv.includes('--devtools') || env.WAYMARK_DEVTOOLS === '1');
+}
+
+/** Web preferences of every window; `devTools` as devToolsWanted decides (off by default). */
 export function webPreferences(config: WaymarkElectronConfig, preloadPath: string, options: { devTools: boolean } = { devTools: false }): WebPreferences {
   const s = config.security;
   return {

@@ -41,7 +41,7 @@ describe('core fields in the command line words', () => {
     expect((inFlagWords(new InputError('r[1]', 'must be finite', 'x'), CALC_FLAGS) as InputError).field).toBe('--r[1]');
     const fileField = new InputError('events[2].dv', 'must be finite');
     expect(inFlagWords(fileField, DISPERSE_FLAGS)).toBe(fileField);
-    const solver = new SolverError('kepler', 'no-convergence', {});
+    const solver = new SolverError('kepler', 'no-convergence', 'did not converge');
     expect(inFlagWords(solver, CALC_FLAGS)).toBe(solver);
   });
 

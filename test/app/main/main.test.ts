@@ -59,7 +59,7 @@ vi.mock('electron', () => {
   }
   return {
     app: {
-      isPackaged: true,
+      isPackaged: false, // a run from a checkout, as `npm start` makes it
       enableSandbox: () => void m.calls.enableSandbox++,
       getPath: () => m.userData,
       whenReady: () => Promise.resolve(),
@@ -124,7 +124,7 @@ describe('Electron main process (electron mocked)', () => {
       navigateOnDragDrop: false,
       spellcheck: false,
       experimentalFeatures: false,
-      devTools: false, // the mocked app is packaged: no devtools
+      devTools: false, // a normal run (no --devtools, no WAYMARK_DEVTOOLS=1): no devtools
     });
     // Nothing that loosens them rides along (enableBlinkFeatures, additional arguments, a partition ...).
     expect(Object.keys(w.options).sort()).toEqual(['backgroundColor', 'height', 'minHeight', 'minWidth', 'show', 'title', 'webPreferences', 'width']);

@@ -4,6 +4,7 @@ import { join, sep } from 'node:path';
 import {
   APP_INDEX_URL,
   DENIED_NAVIGATION,
+  devToolsWanted,
   isAllowedRequest,
   lockDownContents,
   lockDownSession,
@@ -31,8 +32,18 @@ describe('main-process security settings', () => {
       experimentalFeatures: false,
       devTools: false,
     });
-    // Development runs get devtools and nothing else changes.
+    // A run that asked for devtools gets them and nothing else changes.
     expect(webPreferences(config, '/x/preload.cjs', { devTools: true })).toEqual({ ...w, devTools: true });
+  });
+
+  it('gives DevTools only to a run from a checkout that asks for them (--devtools or WAYMARK_DEVTOOLS=1), never to the packaged app', () => {
+    const argv = ['/x/electron', '/x/dist/main/main.js'];
+    expect(devToolsWanted(false, argv, {})).toBe(false); // a user's normal `npm start`
+    expect(devToolsWanted(false, [...argv, '--devtools'], {})).toBe(true);
+    expect(devToolsWanted(false, argv, { WAYMARK_DEVTOOLS: '1' })).toBe(true);
+    expect(devToolsWanted(false, argv, { WAYMARK_DEVTOOLS: '0' })).toBe(false);
+    expect(devToolsWanted(false, argv, { WAYMARK_DEVTOOLS: '' })).toBe(false);
+    expect(devToolsWanted(true, [...argv, '--devtools'], { WAYMARK_DEVTOOLS: '1' })).toBe(false);
   });
 
   it('the configuration pins every switch to its safe value', () => {
