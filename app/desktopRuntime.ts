@@ -92,7 +92,11 @@ function parseMarker(text: string | null): { version: string; at: string; reason
 
 /** The first non-empty line of an installer's output, shortened: the reason a user reads. */
 export function firstLine(output: string, max = 160): string {
-  const line = output.split(/\r?\n/).map((l) => l.trim()).find((l) => l !== '') ?? '';
+  const line =
+    output
+      .split(/\r?\n/)
+      .map((l) => l.trim())
+      .find((l) => l !== '') ?? '';
   return line.length > max ? `${line.slice(0, max - 1)}…` : line;
 }
 

@@ -33,7 +33,8 @@ export function packagerOptions(
   pkg: { version: string; main?: string; devDependencies: Record<string, string> },
   target: { platform?: string; arch?: string } = {},
 ): Options {
-  if (pkg.main !== config.build.main) throw new Error(`package.json "main" must be "${config.build.main}" (the built main process), not ${JSON.stringify(pkg.main)}`);
+  if (pkg.main !== config.build.main)
+    throw new Error(`package.json "main" must be "${config.build.main}" (the built main process), not ${JSON.stringify(pkg.main)}`);
   return {
     dir: root,
     out: join(root, 'release'),

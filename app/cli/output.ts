@@ -23,6 +23,7 @@ export const EXIT_SOLVER = 3;
  * (CSI U+009B and OSC U+009D act like ESC [ and ESC ]), and the bidirectional formatting
  * characters (Unicode UAX #9) that make text display in another order than it reads.
  */
+// biome-ignore lint/suspicious/noControlCharactersInRegex: matching terminal control characters is the point
 const TERMINAL_CONTROL = /[\u0000-\u0008\u000b-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g;
 
 const escapeChar = (c: string): string => `\\u${c.charCodeAt(0).toString(16).padStart(4, '0')}`;
@@ -34,12 +35,12 @@ export function termSafe(text: string): string {
 
 /** Human-readable text on stdout, one line break after, control characters shown escaped. */
 export function printText(text: string): void {
-  process.stdout.write(termSafe(text) + '\n');
+  process.stdout.write(`${termSafe(text)}\n`);
 }
 
 /** A document's warnings on stderr, one per line, control characters shown escaped. */
 export function printWarnings(warnings: readonly { path: string; rule: string }[]): void {
-  for (const w of warnings) process.stderr.write(termSafe(`warning: ${w.path || '(document)'} ${w.rule}`) + '\n');
+  for (const w of warnings) process.stderr.write(`${termSafe(`warning: ${w.path || '(document)'} ${w.rule}`)}\n`);
 }
 
 /**
@@ -55,7 +56,7 @@ export function printData(text: string, stream: { isTTY?: boolean; write(s: stri
  * controls (DEL, C1, bidirectional formatting) are escaped here too, which leaves the same JSON.
  */
 export function printJson(value: unknown): void {
-  process.stdout.write(jsonText(value) + '\n');
+  process.stdout.write(`${jsonText(value)}\n`);
 }
 
 /** The JSON text printJson writes (no control character left raw). */
@@ -74,7 +75,10 @@ export function jsonReplacer(_key: string, value: unknown): unknown {
  * Runs a command body, mapping core errors to messages and exit codes. `output.flags` names
  * the flag that sets each core field (app/cli/flags.ts), so errors speak of `--revs`, not `maxRevs`.
  */
-export async function guard(output: boolean | { json: boolean; flags?: FlagNames }, body: () => Promise<number | void> | number | void): Promise<void> {
+export async function guard(
+  output: boolean | { json: boolean; flags?: FlagNames },
+  body: () => Promise<number | undefined> | number | undefined,
+): Promise<void> {
   const json = typeof output === 'boolean' ? output : output.json;
   try {
     const code = await body();
@@ -102,8 +106,8 @@ export async function guard(output: boolean | { json: boolean; flags?: FlagNames
         },
       });
     } else {
-      process.stderr.write(termSafe(`waymark: ${(err as Error).message}`) + '\n');
-      if (code === 70) process.stderr.write(termSafe(String((err as Error).stack ?? '')) + '\n');
+      process.stderr.write(`${termSafe(`waymark: ${(err as Error).message}`)}\n`);
+      if (code === 70) process.stderr.write(`${termSafe(String((err as Error).stack ?? ''))}\n`);
     }
     process.exitCode = code;
   }

@@ -8,7 +8,11 @@ import { join, sep } from 'node:path';
 import { mimeType } from '../renderer/build/mime.ts';
 import { resolveAppPath } from './security.ts';
 
-export function createAppProtocolHandler(rendererDir: string, readFile: (path: string) => Promise<Uint8Array>, contentSecurityPolicy: string): (request: { url: string }) => Promise<Response> {
+export function createAppProtocolHandler(
+  rendererDir: string,
+  readFile: (path: string) => Promise<Uint8Array>,
+  contentSecurityPolicy: string,
+): (request: { url: string }) => Promise<Response> {
   return async (request) => {
     const file = resolveAppPath(rendererDir, request.url, join, sep);
     const headers = { 'Content-Security-Policy': contentSecurityPolicy, 'X-Content-Type-Options': 'nosniff' };

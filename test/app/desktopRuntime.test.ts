@@ -16,7 +16,14 @@ interface Fake extends RuntimeEnv {
 }
 
 /** A machine with the electron package at `version` (null: not installed) and the runtime binary present or not. */
-function machine(o: { version?: string | null; binary?: boolean; env?: Record<string, string>; install?: InstallOutcome; installLeavesBinary?: boolean; marker?: string | null }): Fake {
+function machine(o: {
+  version?: string | null;
+  binary?: boolean;
+  env?: Record<string, string>;
+  install?: InstallOutcome;
+  installLeavesBinary?: boolean;
+  marker?: string | null;
+}): Fake {
   let binary = o.binary ?? false;
   const f: Fake = {
     installs: [],
@@ -26,14 +33,18 @@ function machine(o: { version?: string | null; binary?: boolean; env?: Record<st
     electronVersion: () => (o.version === undefined ? '40.10.2' : o.version),
     binary: () => (binary ? '/repo/node_modules/electron/dist/electron' : null),
     readMarker: () => f.marker,
-    writeMarker: (t) => void (f.marker = t),
+    writeMarker: (t) => {
+      f.marker = t;
+    },
     async runInstaller(timeoutMs) {
       f.installs.push(timeoutMs);
       const r = o.install ?? { ok: false, reason: 'getaddrinfo ENOTFOUND github.com' };
       if (r.ok && o.installLeavesBinary !== false) binary = true;
       return r;
     },
-    say: (l) => void f.said.push(l),
+    say: (l) => {
+      f.said.push(l);
+    },
     now: () => new Date('2026-03-04T05:06:07Z'),
   };
   return f;
@@ -46,7 +57,7 @@ describe('npm start: desktop window or browser mode', () => {
     expect(m.installs).toEqual([]);
   });
 
-  it('downloads a missing runtime once with electron\'s installer, within the time limit, then opens the window', async () => {
+  it("downloads a missing runtime once with electron's installer, within the time limit, then opens the window", async () => {
     const m = machine({ install: { ok: true } });
     expect(await chooseRuntime(m, 60_000)).toEqual({ kind: 'electron', binary: '/repo/node_modules/electron/dist/electron', downloaded: true });
     expect(m.installs).toEqual([60_000]);
@@ -80,7 +91,10 @@ describe('npm start: desktop window or browser mode', () => {
 
   it('counts an installer that succeeds but leaves no binary, or times out, as a failure', async () => {
     const empty = machine({ install: { ok: true }, installLeavesBinary: false });
-    expect(await chooseRuntime(empty)).toEqual({ kind: 'browser', reason: 'the Electron runtime could not be downloaded (the installer finished but left no runtime binary)' });
+    expect(await chooseRuntime(empty)).toEqual({
+      kind: 'browser',
+      reason: 'the Electron runtime could not be downloaded (the installer finished but left no runtime binary)',
+    });
     const slow = machine({ install: { ok: false, reason: 'no answer within 60 s' } });
     expect(await chooseRuntime(slow)).toEqual({ kind: 'browser', reason: 'the Electron runtime could not be downloaded (no answer within 60 s)' });
     expect(slow.marker).not.toBeNull();
@@ -108,7 +122,9 @@ describe('npm start: desktop window or browser mode', () => {
   });
 
   it("reduces an installer's stack trace to its first line", () => {
-    expect(firstLine('\n  RequestError: getaddrinfo ENOTFOUND github.com\n    at ClientRequest.<anonymous> (x.js:1:1)\n')).toBe('RequestError: getaddrinfo ENOTFOUND github.com');
+    expect(firstLine('\n  RequestError: getaddrinfo ENOTFOUND github.com\n    at ClientRequest.<anonymous> (x.js:1:1)\n')).toBe(
+      'RequestError: getaddrinfo ENOTFOUND github.com',
+    );
     expect(firstLine('x'.repeat(500), 20)).toBe(`${'x'.repeat(19)}…`);
   });
 });

@@ -118,7 +118,10 @@ export async function serveStatic(o: ServeOptions): Promise<Served> {
       if (st.size > (o.maxCachedBytes ?? MAX_CACHED_BYTES)) {
         res.writeHead(200, { ...type, 'Content-Length': st.size });
         if (req.method === 'HEAD') res.end();
-        else createReadStream(file).on('error', () => res.destroy()).pipe(res);
+        else
+          createReadStream(file)
+            .on('error', () => res.destroy())
+            .pipe(res);
         return;
       }
       const body = await cached(file, st.size, st.mtimeMs);

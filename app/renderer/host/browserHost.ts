@@ -112,7 +112,8 @@ export function createBrowserHost(env: BrowserEnv): Host {
       current = null; // nothing there yet, or not readable: nothing to protect
     }
     const problem = current === null ? null : headerProblem(current, 'plan');
-    if (problem?.newer) throw new NewerVersionError(handle.name, `${handle.name} ${problem.rule}: it is not overwritten; use Save As to save under another name`);
+    if (problem?.newer)
+      throw new NewerVersionError(handle.name, `${handle.name} ${problem.rule}: it is not overwritten; use Save As to save under another name`);
     const w = await handle.createWritable();
     await w.write(text);
     await w.close();

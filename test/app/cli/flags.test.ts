@@ -29,7 +29,10 @@ describe('core fields in the command line words', () => {
   it('renames code-like field names quoted inside the rule, and leaves plain words alone', () => {
     const e = inFlagWords(new InputError('span', 'needs 9 steps (more than maxSteps = 5); shorten the span or raise maxSteps.', 1), STABILITY_FLAGS) as Error;
     expect(e.message).toBe('--years needs 9 steps (more than --max-steps = 5); shorten the span or raise --max-steps. (got 1)');
-    const g = inFlagWords(new InputError('physics.dt', 'needs about 1e9 game steps; take a longer step or lower maxStepsPerSpan', 1e-6), GAMESTEP_FLAGS) as Error;
+    const g = inFlagWords(
+      new InputError('physics.dt', 'needs about 1e9 game steps; take a longer step or lower maxStepsPerSpan', 1e-6),
+      GAMESTEP_FLAGS,
+    ) as Error;
     expect(g.message).toBe('--dt needs about 1e9 game steps; take a longer step or lower --max-steps (got 0.000001)');
     // "to" is a flag of windows and an English word: only code-like names are replaced inside rules
     expect((inFlagWords(new InputError('depart.n', 'must be an integer from 1 to 20000', 0), windowsFlags('tof')) as Error).message).toBe(

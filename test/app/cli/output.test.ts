@@ -84,7 +84,10 @@ describe.concurrent('names from files on the command line', () => {
   const files = evilFiles();
 
   it('check and fly print the plan, burn and body names with their control characters escaped', async () => {
-    for (const args of [['check', files.plan], ['fly', files.plan]]) {
+    for (const args of [
+      ['check', files.plan],
+      ['fly', files.plan],
+    ]) {
       const r = await runCli(args);
       expect(r.code, r.stderr).toBeLessThan(2);
       expect(RAW_CONTROL.test(r.stdout)).toBe(false);

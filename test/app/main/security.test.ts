@@ -47,7 +47,14 @@ describe('main-process security settings', () => {
   });
 
   it('the configuration pins every switch to its safe value', () => {
-    expect(config.security).toMatchObject({ contextIsolation: true, nodeIntegration: false, sandbox: true, webSecurity: true, allowNavigation: false, allowNewWindows: false });
+    expect(config.security).toMatchObject({
+      contextIsolation: true,
+      nodeIntegration: false,
+      sandbox: true,
+      webSecurity: true,
+      allowNavigation: false,
+      allowNewWindows: false,
+    });
   });
 
   it('locks every web contents in place: navigation, redirects, webviews and new windows denied', () => {
@@ -73,7 +80,9 @@ describe('main-process security settings', () => {
         setPermissionRequestHandler: keep('request'),
         setPermissionCheckHandler: keep('check'),
         setDevicePermissionHandler: keep('device'),
-        on: ((ev: string, fn: never) => { rec[`on:${ev}`] = fn; }) as never,
+        on: ((ev: string, fn: never) => {
+          rec[`on:${ev}`] = fn;
+        }) as never,
         webRequest: { onBeforeRequest: keep('before'), onHeadersReceived: keep('headers') } as never,
       },
       'default-src none-test',
@@ -125,7 +134,7 @@ describe('main-process security settings', () => {
   });
 
   it('replaces any page-sent policy with the configured CSP', () => {
-    const h = withCsp({ 'content-security-policy': ["default-src *"], 'X-Other': 'y' }, config.security.contentSecurityPolicy);
+    const h = withCsp({ 'content-security-policy': ['default-src *'], 'X-Other': 'y' }, config.security.contentSecurityPolicy);
     expect(h['Content-Security-Policy']).toEqual([config.security.contentSecurityPolicy]);
     expect(h['content-security-policy']).toBeUndefined();
     expect(h['X-Other']).toEqual(['y']);

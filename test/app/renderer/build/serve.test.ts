@@ -92,7 +92,10 @@ describe('browser-mode server: who may ask, and what it costs', () => {
       host: '127.0.0.1',
       port: 0,
       contentSecurityPolicy: '',
-      readFile: (p) => (reads.push(p), readFile(p)),
+      readFile: (p) => {
+        reads.push(p);
+        return readFile(p);
+      },
     });
     try {
       const bodies = await Promise.all(Array.from({ length: 50 }, () => fetch(counted.url).then((r) => r.text())));
@@ -114,7 +117,17 @@ describe('browser-mode server: who may ask, and what it costs', () => {
     const big = 'x'.repeat(200_000);
     writeFileSync(join(dir, 'big.js'), big);
     const reads: string[] = [];
-    const streamed = await serveStatic({ root: dir, host: '127.0.0.1', port: 0, contentSecurityPolicy: '', maxCachedBytes: 1000, readFile: (p) => (reads.push(p), readFile(p)) });
+    const streamed = await serveStatic({
+      root: dir,
+      host: '127.0.0.1',
+      port: 0,
+      contentSecurityPolicy: '',
+      maxCachedBytes: 1000,
+      readFile: (p) => {
+        reads.push(p);
+        return readFile(p);
+      },
+    });
     try {
       for (let k = 0; k < 3; k++) {
         const r = await fetch(`${streamed.url}big.js`);

@@ -18,7 +18,9 @@ function env(over: Partial<BrowserEnv> = {}) {
     download: vi.fn(),
     fsAccess: null,
     setTitle: vi.fn(),
-    onBeforeUnload: (f: () => boolean) => { beforeUnload = f; },
+    onBeforeUnload: (f: () => boolean) => {
+      beforeUnload = f;
+    },
     now: () => 1000,
     ...over,
   } as never;
@@ -78,7 +80,9 @@ describe('browser host', () => {
     const host = createBrowserHost(e);
     const ref = { name: 'f.plan.json', path: null, handle: h };
     await expect(host.save(ref, 'new')).rejects.toThrow(NewerVersionError);
-    await expect(host.save(ref, 'new')).rejects.toThrow(/f\.plan\.json was written by a newer version of Waymark \(version 2; this one reads up to 1\): it is not overwritten; use Save As/);
+    await expect(host.save(ref, 'new')).rejects.toThrow(
+      /f\.plan\.json was written by a newer version of Waymark \(version 2; this one reads up to 1\): it is not overwritten; use Save As/,
+    );
     await expect(host.saveAs('f.plan.json', 'new')).rejects.toThrow(NewerVersionError);
     expect(written).toEqual([]);
     // A current-version file (or an empty new one) is written as usual.
