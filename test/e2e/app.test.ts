@@ -162,6 +162,19 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
     await notice.locator('button[aria-label=Dismiss]').click();
   });
 
+  it('a plan file that is not valid UTF-8 is refused with the offset of the bad byte and changes nothing', async () => {
+    const before = await plan();
+    const bytes = readFileSync(`${OUT}saved.plan.json`);
+    const at = bytes.indexOf('"name"') + 9;
+    bytes[at] = 0xff; // never a byte of UTF-8
+    writeFileSync(`${OUT}not-utf8.plan.json`, bytes);
+    await openFile(`${OUT}not-utf8.plan.json`);
+    const notice = page.locator('[data-testid=notice-error]').last();
+    await expect.poll(() => notice.textContent()).toContain(`not-utf8.plan.json is not valid UTF-8 at byte ${at.toLocaleString('en-US')}`);
+    expect(await plan()).toEqual(before);
+    await notice.locator('button[aria-label=Dismiss]').click();
+  });
+
   it('verifies the plan in n-body gravity, corrects the mid-course burn and runs a dispersion, each in a worker', async () => {
     await page.click('[data-action=nbody-verify]');
     await page.waitForSelector('[data-testid=nbody-result]', { timeout: 20_000 });
