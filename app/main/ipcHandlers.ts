@@ -210,6 +210,7 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
         requireArguments(args, ['planPath', 'relativePath']);
         const planPath = requireFilePath('planPath', args[0], PLAN_EXTENSIONS);
         const rel = requireText('relativePath', args[1], 4096);
+        // biome-ignore lint/suspicious/noControlCharactersInRegex: a path with a control character in it is refused
         if (rel === '' || isAbsolute(rel) || /[\u0000-\u001f]/.test(rel) || !rel.toLowerCase().endsWith('.json')) {
           throw new ArgumentError('relativePath', 'must be a relative path to a .json file');
         }

@@ -311,7 +311,7 @@ async function checkTarget(path: string, fs: AtomicFs): Promise<SaveTarget> {
     }
   }
   const dir = dirname(target);
-  let d;
+  let d: Stats;
   try {
     d = await fs.stat(dir);
   } catch (e) {
@@ -699,7 +699,7 @@ export function resolveSystemPath(planPath: string, ref: string): string {
  */
 export async function loadPlanFile(path: string): Promise<LoadedPlan> {
   const text = await readTextFile(path);
-  let parsed;
+  let parsed: ReturnType<typeof parsePlanFile>;
   try {
     parsed = parsePlanFile(text);
   } catch (e) {

@@ -194,7 +194,7 @@ function stepFor(system: StarSystem, indices: number[], stepsPerOrbit: number): 
   for (const k of indices) {
     const b = system.bodies[k];
     if (!b.elements) continue;
-    h = Math.min(h, (b.derived.period * Math.pow(1 - b.elements.e, 1.5)) / stepsPerOrbit);
+    h = Math.min(h, (b.derived.period * (1 - b.elements.e) ** 1.5) / stepsPerOrbit);
   }
   return h;
 }

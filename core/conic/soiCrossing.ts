@@ -321,7 +321,7 @@ export function timeToRadius(mu: number, state: ArrayLike<number>, R: number, di
   if (!(R > 0) || !Number.isFinite(R)) return Infinity;
   if (c.e < CIRCULAR_E) return Infinity;
   let est = radiusEstimate(mu, state, R, direction, minDt);
-  if (est !== est) {
+  if (Number.isNaN(est)) {
     // (near-)parabolic: from the true anomaly
     const cosNu = (c.p / R - 1) / c.e;
     if (!(cosNu >= -1 && cosNu <= 1)) return Infinity;

@@ -494,7 +494,7 @@ class GameStepRun {
       s.ee.push(de);
     }
     if (er < 0 && coasting) {
-      s.periodSum += 2 * Math.PI * Math.sqrt(Math.pow(-mu / (2 * er), 3) / mu);
+      s.periodSum += 2 * Math.PI * Math.sqrt((-mu / (2 * er)) ** 3 / mu);
       s.periodCount++;
     }
     // the mission's distances in the game's frame (the central body, or the star for 'all')

@@ -192,7 +192,7 @@ export function schemaIssues(errors: readonly ErrorObject[]): ValidationIssue[] 
   const seen = new Set<string>();
   for (const e of errors) {
     const branchOf = oneOfAt.get(e.instancePath);
-    if (branchOf && branchOf.some((prefix) => e.schemaPath.startsWith(prefix))) continue;
+    if (branchOf?.some((prefix) => e.schemaPath.startsWith(prefix))) continue;
     const path = pointerToPath(e.instancePath);
     const p = e.params as Record<string, unknown>;
     const parent = (e.parentSchema ?? {}) as Record<string, unknown>;

@@ -48,7 +48,7 @@ export function conicStart(result: PlanResult): NBodyState {
 }
 
 /** The burns of a conic result as n-body actions (see the module comment), and notes on how they are flown. */
-export function burnActions(system: StarSystem, plan: Plan, result: PlanResult): { actions: NBodyAction[]; notes: string[] } {
+export function burnActions(plan: Plan, result: PlanResult): { actions: NBodyAction[]; notes: string[] } {
   const notes: string[] = [];
   const actions: NBodyAction[] = [];
   const vehicle = plan.vehicle;

@@ -239,7 +239,7 @@ export function correctPlan(system: StarSystem, plan: Plan, options: CorrectOpti
   // chosen burns
   const ids = options.burns ?? [defaultCorrectionBurn(system, plan, conic, arrival)].filter((x): x is string => x !== null);
   if (!Array.isArray(ids) || ids.length === 0) throw new InputError('options.burns', 'names no burn: the plan has no burn before the arrival outside the target’s sphere of influence');
-  const { actions: baseActions, notes } = burnActions(system, plan, conic);
+  const { actions: baseActions, notes } = burnActions(plan, conic);
   const chosen: { id: string; index: number; eventIndex: number; t: number; dv: Vec3Tuple }[] = [];
   for (const id of ids) {
     const eventIndex = plan.events.findIndex((e) => e.type === 'burn' && e.id === id);

@@ -86,7 +86,7 @@ export function verifyNBody(system: StarSystem, plan: Plan, conicResult: PlanRes
   if (conicResult?.model !== 'conic') throw new InputError('conicResult', "must be a patched-conic PlanResult (model 'conic')", conicResult?.model);
   const model = new NBodyModel(system, options);
   const start = conicStart(conicResult);
-  const { actions, notes } = burnActions(system, plan, conicResult);
+  const { actions, notes } = burnActions(plan, conicResult);
   const arrival = conicArrival(system, plan, conicResult);
   if (plan.target && !arrival) notes.push(`the patched-conic flight does not reach ${plan.target.body}'s sphere of influence: no arrival comparison`);
   let tEnd = conicResult.t1;

@@ -397,7 +397,7 @@ function guessSingle(T: number, lam: number): number {
   const T1 = (2 / 3) * oml * (1 + lam + lam * lam);
   if (T >= T00) return -(T - T00) / (T - T00 + 4);
   if (T <= T1) return (T1 * (T1 - T)) / ((2 / 5) * oml * (1 + lam * (1 + lam * (1 + lam * (1 + lam)))) * T) + 1;
-  return Math.pow(T / T00, Math.LN2 / Math.log(T1 / T00)) - 1;
+  return (T / T00) ** (Math.LN2 / Math.log(T1 / T00)) - 1;
 }
 
 /** Single-revolution x for the prepared geometry; NaN without convergence. */
@@ -434,15 +434,15 @@ function solveBranch(N: number, side: number, tol: number, maxIter: number): num
   const T = G[1];
   let x0: number;
   if (side < 0) {
-    const tmp = Math.pow(((N + 1) * Math.PI) / (8 * T), 2 / 3);
+    const tmp = (((N + 1) * Math.PI) / (8 * T)) ** (2 / 3);
     x0 = (tmp - 1) / (tmp + 1);
   } else {
-    const tmp = Math.pow((8 * T) / (N * Math.PI), 2 / 3);
+    const tmp = ((8 * T) / (N * Math.PI)) ** (2 / 3);
     x0 = (tmp - 1) / (tmp + 1);
   }
   let x = solveX(T, x0, N, lam, tol, maxIter, -1, 1, 0);
-  let iters = lastIter;
-  if (x === x) {
+  const iters = lastIter;
+  if (!Number.isNaN(x)) {
     // Right branch: T increases with x; left: decreases.
     dTdx(x, tofX(x, N, lam), lam);
     if (D[0] * side > 0) {
@@ -513,7 +513,7 @@ export function solveLambert(mu: number, r1: ArrayLike<number>, r2: ArrayLike<nu
   const inputs = { mu, r1: Array.from(r1), r2: Array.from(r2), tof };
   const out: LambertSolution[] = [];
   const push = (x: number, revs: number, branch: LambertSolution['branch']): void => {
-    if (!(x === x)) {
+    if (Number.isNaN(x)) {
       throw new SolverError('lambert', 'no-convergence', `${branch} solution for ${revs} revolution(s) did not converge in ${maxIter} iterations`, { ...inputs, revs, branch });
     }
     const v1 = new Float64Array(3);
@@ -554,7 +554,7 @@ export function lambertSingleRev(
   if (!(r1s > 0 && r1s < Infinity && r2s > 0 && r2s < Infinity)) return -1;
   if (prepare(mu, r1x, r1y, r1z, r2x, r2y, r2z, tof, retrograde, 0, 0, 1) !== 0) return -1;
   const x = solveSingle(LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER);
-  if (!(x === x)) return -1;
+  if (Number.isNaN(x)) return -1;
   velocities(x, out1, 0, out2, 0);
   if (!(Math.abs(out1[0] + out1[1] + out1[2] + out2[0] + out2[1] + out2[2]) < Infinity)) return -1;
   return lastIter;
@@ -579,7 +579,7 @@ export function lambertAll(
   if (!(r1s > 0 && r1s < Infinity && r2s > 0 && r2s < Infinity)) return -1;
   if (prepare(mu, r1[0], r1[1], r1[2], r2[0], r2[1], r2[2], tof, retrograde, 0, 0, 1) !== 0) return -1;
   const x = solveSingle(LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER);
-  if (!(x === x)) return -1;
+  if (Number.isNaN(x)) return -1;
   velocities(x, outV1, 0, outV2, 0);
   outRevs[0] = 0;
   if (outBranch) outBranch[0] = 0;
@@ -588,7 +588,7 @@ export function lambertAll(
   for (let n = 1; n <= nmax; n++) {
     for (let side = -1; side <= 1; side += 2) {
       const xb = solveBranch(n, side, LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER);
-      if (!(xb === xb)) continue;
+      if (Number.isNaN(xb)) continue;
       velocities(xb, outV1, 3 * k, outV2, 3 * k);
       outRevs[k] = n;
       if (outBranch) outBranch[k] = side < 0 ? 1 : 2;
@@ -623,7 +623,7 @@ export function lambertBest(
   let bestCode = -1;
   let bestCost = Infinity;
   const x = solveSingle(LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER);
-  if (x === x) {
+  if (!Number.isNaN(x)) {
     velocities(x, bestV1, 0, bestV2, 0);
     const c = cost(bestV1[0], bestV1[1], bestV1[2], bestV2[0], bestV2[1], bestV2[2]);
     if (c < bestCost) {
@@ -637,7 +637,7 @@ export function lambertBest(
   for (let n = 1; n <= nmax; n++) {
     for (let side = -1; side <= 1; side += 2) {
       const xb = solveBranch(n, side, LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER);
-      if (!(xb === xb)) continue;
+      if (Number.isNaN(xb)) continue;
       velocities(xb, bestV1, 0, bestV2, 0);
       const c = cost(bestV1[0], bestV1[1], bestV1[2], bestV2[0], bestV2[1], bestV2[2]);
       if (c < bestCost) {

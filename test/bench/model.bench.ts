@@ -97,7 +97,7 @@ export async function run(): Promise<void> {
   const conic = evaluate(sys, demoPlan, { samplesPerSegment: 0 });
   const tDep = conic.budget.rows[0].t;
   const tExit = conic.events.find((e) => e.kind === 'soi-exit')!.t;
-  const { actions } = burnActions(sys, demoPlan, conic);
+  const { actions } = burnActions(demoPlan, conic);
   const model = new NBodyModel(sys, { rtol: 1e-12 });
   const start = conicStart(conic);
   const dep = toStar(sys, flyNBody(model, start, actions.filter((a) => a.t <= tDep), tDep).state);

@@ -130,7 +130,7 @@ export function buildRequest(system: StarSystem, o: WindowsOptions): PorkchopReq
     metric,
   };
   // Resolves the pair (typed error for an unusable pair) before the defaults need it.
-  let setup;
+  let setup: ReturnType<typeof prepareTransfer>;
   try {
     setup = prepareTransfer(system, base);
   } catch (e) {
@@ -211,7 +211,7 @@ function windowsCsv(cal: SystemCalendar, ws: TransferWindow[]): string {
       w.tof, w.tof / DAY, w.dvDepart, w.dvArrive, w.dvTotal, w.c3 / 1e6, w.vInfDepart, w.vInfArrive, w.revs, w.branch, w.atEdge,
     ].join(','),
   );
-  return [CSV_HEADER.join(','), ...rows].join('\n') + '\n';
+  return `${[CSV_HEADER.join(','), ...rows].join('\n')}\n`;
 }
 
 /** The `--grid-out` output: CSV for a .csv name, else JSON (also on standard output). */
@@ -230,7 +230,7 @@ async function gridFile(target: OutputTarget, grid: PorkchopGrid, rules: OutputR
         lines.push([i, j, grid.departTimes[i], grid.secondValues[j], ...FLOAT_PLANES.map((p) => grid.planes[p][k]), ...INT_PLANES.map((p) => grid.planes[p][k])].join(','));
       }
     }
-    await writeOutput(target, lines.join('\n') + '\n', rules);
+    await writeOutput(target, `${lines.join('\n')}\n`, rules);
   } else {
     const doc = {
       request: grid.request,
@@ -240,7 +240,7 @@ async function gridFile(target: OutputTarget, grid: PorkchopGrid, rules: OutputR
       unsolved: grid.unsolved,
       planes: Object.fromEntries([...FLOAT_PLANES, ...INT_PLANES].map((p) => [p, grid.planes[p]])),
     };
-    await writeOutput(target, JSON.stringify(doc, jsonReplacer) + '\n', rules);
+    await writeOutput(target, `${JSON.stringify(doc, jsonReplacer)}\n`, rules);
   }
 }
 

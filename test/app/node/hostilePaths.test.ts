@@ -112,7 +112,11 @@ describe('reading: regular files only', () => {
       open: async (...a: Parameters<typeof fsp.open>) => {
         const fh = await fsp.open(...a);
         const read = fh.read.bind(fh);
-        return Object.assign(fh, { read: ((...r: unknown[]) => (reads++, (read as (...x: unknown[]) => unknown)(...r))) as typeof fh.read });
+        const counted = (...r: unknown[]) => {
+          reads++;
+          return (read as (...x: unknown[]) => unknown)(...r);
+        };
+        return Object.assign(fh, { read: counted as typeof fh.read });
       },
     };
     await expect(readRegularFile(big, { fs: counting as never })).rejects.toThrow(`cannot read ${big}: it is 32.0 MiB, more than the 32.0 MiB Waymark reads`);

@@ -44,7 +44,7 @@ const dist = (a: ArrayLike<number>, b: ArrayLike<number>): number => Math.hypot(
 const conic = evaluate(sys, demoPlan, { samplesPerSegment: 0 });
 const tDep = conic.budget.rows[0].t;
 const tExit = conic.events.find((e) => e.kind === 'soi-exit')!.t;
-const { actions } = burnActions(sys, demoPlan, conic);
+const { actions } = burnActions(demoPlan, conic);
 const demoFlight = flyNBody(new NBodyModel(sys, { rtol: 1e-12 }), conicStart(conic), [...actions.filter((a) => a.t <= tDep), { kind: 'checkpoint', t: tExit - HOUR, id: 'hour' }], tExit - HOUR);
 // a burn at the flight's end time is flown: this is the state just after the departure burn
 const afterDeparture = flyNBody(new NBodyModel(sys, { rtol: 1e-12 }), conicStart(conic), actions.filter((a) => a.t <= tDep), tDep).state;

@@ -20,7 +20,7 @@ describe("the game-step reference with 'all' gravity flies the ship force model"
   // body (switched at its own SOI crossing). Given the same burns they fly one flight.
   const prep = prepareGameStep(sys, demoPlan, { gravity: 'all', guidance: 'open-loop', result });
   const model = new NBodyModel(sys, { rtol: 1e-12 });
-  const { actions } = burnActions(sys, demoPlan, result);
+  const { actions } = burnActions(demoPlan, result);
   const start = conicStart(result);
   const gap = (ref: ReferenceTrack, n: { t: number; origin: number; x: Float64Array }): number => {
     const a = new Float64Array(6);

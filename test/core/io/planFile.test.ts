@@ -96,7 +96,7 @@ describe('plan file round trip', () => {
 
   it('keeps -0 and the extreme doubles exactly', () => {
     const p = stateStartPlan();
-    p.start = { ...p.start, kind: 'state', r: [-0, Number.MIN_VALUE, Number.MAX_VALUE / 1e300], v: [5e-324, -1.7976931348623157e-308 * 1e300, 1 / 3] } as Plan['start'];
+    p.start = { ...p.start, kind: 'state', r: [-0, Number.MIN_VALUE, Number.MAX_VALUE / 1e300], v: [5e-324, -1.7976931348623155e-308 * 1e300, 1 / 3] } as Plan['start'];
     const text = serializePlanFile(p, PATH_REF);
     const back = parsePlanFile(text).plan;
     expect(back).toEqual(p);

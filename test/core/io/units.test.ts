@@ -28,7 +28,10 @@ describe('units', () => {
     expect(parseRange('tof', '100d..300d', 'time')).toEqual([8640000, 25920000]);
     // any reader of the ends, given the ends' field names (the command line reads calendar dates so)
     const seen: string[] = [];
-    const hex = (field: string, t: string): number => (seen.push(field), parseInt(t, 16));
+    const hex = (field: string, t: string): number => {
+      seen.push(field);
+      return parseInt(t, 16);
+    };
     expect(parseRange('depart', 'a..ff', hex)).toEqual([10, 255]);
     expect(seen).toEqual(['depart.start', 'depart.end']);
   });

@@ -191,7 +191,7 @@ describe('verifyNBody on the demo plan', () => {
     const tessel = sys.indexById.tessel;
     const exit = nominal.events.find((e) => e.kind === 'soi-exit')!;
     const tMc = nominal.budget.rows[1].t;
-    const { actions } = burnActions(sys, demoPlan, nominal);
+    const { actions } = burnActions(demoPlan, nominal);
     const fl = flyNBody(model, conicStart(nominal), [...actions, { kind: 'checkpoint', t: exit.t, id: 'exit' }, { kind: 'checkpoint', t: tMc, id: 'mc' }], tMc);
     const helio = (id: string, t: number): { n: number[]; c: number[] } => {
       const st = fl.checkpoints.get(id)!;
@@ -243,7 +243,7 @@ describe('verifyNBody on the demo plan', () => {
     const b6 = new Float64Array(6);
     bodyState(sys, start.origin, start.t, b6, 0);
     const s0 = [0, 1, 2, 3, 4, 5].map((i) => (i < 3 ? start.x[i] : start.v[i - 3]) + b6[i]);
-    const impulses = burnActions(sys, demoPlan, nominal).actions.flatMap((x) => (x.kind === 'impulse' && x.t < a.conic.t ? [{ t: x.t, dv: x.dv }] : []));
+    const impulses = burnActions(demoPlan, nominal).actions.flatMap((x) => (x.kind === 'impulse' && x.t < a.conic.t ? [{ t: x.t, dv: x.dv }] : []));
     expect(impulses.length).toBe(2); // departure and mid-course
     const odexEnd = flyStarCentred(sys, start.t, s0, impulses, a.conic.t, 1e-15);
     bodyState(sys, a.target, a.conic.t, b6, 0);
