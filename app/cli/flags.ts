@@ -4,7 +4,8 @@
  * lists which flag sets which field (a `FlagNames` map) and hands it to `guard`, which rethrows
  * an InputError about a listed field as the same rule about the flag ("--revs must be an integer
  * from 0 to 50", "--grid departures must be ..."); field names quoted inside the rule
- * ("raise maxSteps") become the flag too. Fields not listed (a file's own paths such as
+ * ("raise maxSteps") become the flag too, and an end of a START..END flag is named so
+ * ("--depart START must be a calendar date ..."). Fields not listed (a file's own paths such as
  * `events[2].dv`) pass unchanged.
  */
 import { InputError } from '../../core/math/index.ts';
@@ -33,6 +34,9 @@ function escapeRegExp(s: string): string {
  */
 export function inFlagWords(err: unknown, flags: FlagNames): unknown {
   if (!(err instanceof InputError)) return err;
+  // an end of a START..END flag (core/io parseRange names them `<flag>.start` / `<flag>.end`)
+  const end = /^(--[\w-]+)\.(start|end)$/.exec(err.field);
+  if (end) return new InputError(end[1], `${end[2].toUpperCase()} ${err.rule}`, err.value);
   const m = /^(.*?)((?:\[\d+\])*)$/.exec(err.field)!;
   const base = m[1];
   const entry = Object.hasOwn(flags, base) ? flags[base] : undefined;

@@ -40,6 +40,12 @@ describe('core fields in the command line words', () => {
     );
   });
 
+  it('names the end of a START..END flag that is wrong', () => {
+    const e = inFlagWords(new InputError('--depart.start', 'must be a calendar date like "412-037"', 'foo'), windowsFlags('tof')) as InputError;
+    expect([e.field, e.message]).toEqual(['--depart', '--depart START must be a calendar date like "412-037" (got "foo")']);
+    expect((inFlagWords(new InputError('--tof.end', 'is too large'), windowsFlags('tof')) as Error).message).toBe('--tof END is too large');
+  });
+
   it('keeps a trailing index, and passes unlisted fields and other errors unchanged', () => {
     expect((inFlagWords(new InputError('r[1]', 'must be finite', 'x'), CALC_FLAGS) as InputError).field).toBe('--r[1]');
     const fileField = new InputError('events[2].dv', 'must be finite');
