@@ -51,6 +51,7 @@ describe.concurrent('waymark correct', () => {
   it('exits 2 for a bad burn choice', async () => {
     const r = await runCli(['correct', DEMO, '-o', join(work, 'x.plan.json'), '--burn', 'nope']);
     expect(r.code).toBe(2);
-    expect(r.stderr).toContain('options.burns names no burn of the plan');
+    // in the command line's words: the option, not the core's options.burns
+    expect(r.stderr).toContain('waymark: --burn names no burn of the plan ("nope")');
   });
 });
