@@ -25,7 +25,9 @@ export function createDiskFiles(): DiskFiles {
     readText: async (path) => decodeUtf8(await readRegularFile(path, { maxBytes: MAX_FILE_CHARS }), basename(path)),
     realpath: (path) => fsp.realpath(path),
     writeAtomic: (path: string, text: string, kind?: OutputKind) =>
-      kind === undefined ? atomicWriteFile(path, text) : writeOutput({ flag: kind === 'plan' ? 'Save' : 'Export', path, kind }, text, { unidentified: 'replace' }),
+      kind === undefined
+        ? atomicWriteFile(path, text)
+        : writeOutput({ flag: kind === 'plan' ? 'Save' : 'Export', path, kind }, text, { unidentified: 'replace' }),
     remove: (path) => fsp.rm(path, { force: true }),
   };
 }

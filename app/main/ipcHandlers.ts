@@ -105,7 +105,8 @@ export function isInside(root: string, path: string): boolean {
 }
 
 /** The one refusal of `readSystemBeside`, whatever the reason (it tells nothing about the file). */
-export const BESIDE_REFUSAL = "names no system file this plan may read (it must be a Waymark system file in the plan's folder, or in a folder a system file was chosen from in this session)";
+export const BESIDE_REFUSAL =
+  "names no system file this plan may read (it must be a Waymark system file in the plan's folder, or in a folder a system file was chosen from in this session)";
 
 export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
   /** Paths the user chose in a dialog or opened this session; the only ones `save` writes. */
@@ -117,7 +118,7 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
     <A extends unknown[]>(fn: (...args: A) => Promise<unknown>, check: (args: unknown[]) => A): Handler =>
     async (sender, ...args) => {
       if (!deps.isTrustedSender(sender.url)) throw new ArgumentError('sender', `is not the app's page (${sender.url})`);
-      if (sender.topFrame !== true) throw new ArgumentError('sender', 'is not the top frame of the app\'s page');
+      if (sender.topFrame !== true) throw new ArgumentError('sender', "is not the top frame of the app's page");
       return fn(...check(args));
     };
 

@@ -594,7 +594,8 @@ export async function checkOutput(t: OutputTarget, rules: OutputRules = {}): Pro
     return real;
   }
   if (found.kind === t.kind || rules.unidentified === 'replace') return real;
-  const holds = found.kind === 'json' ? 'a JSON document Waymark did not write' : found.kind === 'unknown' ? 'a file Waymark did not write' : OUTPUT_KIND_WORDS[found.kind];
+  const holds =
+    found.kind === 'json' ? 'a JSON document Waymark did not write' : found.kind === 'unknown' ? 'a file Waymark did not write' : OUTPUT_KIND_WORDS[found.kind];
   return refuse(`it holds ${holds}, not ${words}; Waymark replaces only its own ${words.replace(/^an? /, '')} — choose another file or remove it first`);
 }
 
@@ -605,7 +606,13 @@ export async function checkOutput(t: OutputTarget, rules: OutputRules = {}): Pro
 export async function checkOutputs(targets: readonly OutputTarget[], rules: OutputRules = {}): Promise<void> {
   const toStdout = targets.filter((t) => t.path === STDOUT);
   if (toStdout.length > 1) {
-    throw new FileError(STDOUT, 'save', `${toStdout.map((t) => t.flag).join(' and ')} cannot all go to standard output; give all but one a file`, null, toStdout[1].flag);
+    throw new FileError(
+      STDOUT,
+      'save',
+      `${toStdout.map((t) => t.flag).join(' and ')} cannot all go to standard output; give all but one a file`,
+      null,
+      toStdout[1].flag,
+    );
   }
   const seen = new Map<string, OutputTarget>();
   for (const t of targets) {

@@ -53,7 +53,9 @@ export function addCorrectCommand(program: Command): void {
       guard({ json: !!o.json, flags: CORRECT_FLAGS }, async () => {
         const maxIterations = Number(o.maxIterations);
         if (!Number.isInteger(maxIterations) || maxIterations < 1) throw new InputError('--max-iterations', 'must be a whole number >= 1', o.maxIterations);
-        if (o.output === STDOUT && o.json) throw new InputError('--output', 'cannot be - (standard output) together with --json: both would go to standard output', STDOUT);
+        if (o.output === STDOUT && o.json) {
+          throw new InputError('--output', 'cannot be - (standard output) together with --json: both would go to standard output', STDOUT);
+        }
         const loaded = await loadPlanFile(planPath);
         const { system } = loaded;
         const inputs: InputFile[] = [{ path: planPath, what: 'the plan file being corrected' }];

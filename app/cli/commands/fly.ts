@@ -78,7 +78,9 @@ export function addFlyCommand(program: Command): void {
           ] as const
         ).flatMap(([flag, path, kind]) => (path === undefined ? [] : [{ flag, path, kind }]));
         const toStdout = outputs.find((t) => t.path === STDOUT);
-        if (toStdout && o.json) throw new InputError(toStdout.flag, 'cannot be - (standard output) together with --json: both would go to standard output', STDOUT);
+        if (toStdout && o.json) {
+          throw new InputError(toStdout.flag, 'cannot be - (standard output) together with --json: both would go to standard output', STDOUT);
+        }
         const loaded = await loadPlanFile(planPath);
         const { system, plan } = loaded;
         const inputs: InputFile[] = [{ path: planPath, what: 'the plan file being flown' }];

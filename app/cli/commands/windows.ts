@@ -319,7 +319,8 @@ export function addWindowsCommand(program: Command): void {
         if (o.json && o.csv) throw new InputError('--csv', 'cannot be combined with --json');
         const gridOut = o.gridOut === undefined ? null : gridTarget(o.gridOut);
         if (gridOut?.path === STDOUT && (o.json || o.csv)) {
-          throw new InputError('--grid-out', `cannot be - (standard output) together with ${o.json ? '--json' : '--csv'}: both would go to standard output`, STDOUT);
+          const other = o.json ? '--json' : '--csv';
+          throw new InputError('--grid-out', `cannot be - (standard output) together with ${other}: both would go to standard output`, STDOUT);
         }
         const { system } = await loadSystemFile(o.system);
         const outputRules: OutputRules = { inputs: [{ path: o.system, what: 'the system file read (--system)' }] };

@@ -78,70 +78,61 @@ function expectRefused(r: CliRun, message: string | RegExp): void {
 const WINDOWS = ['windows', '--from', 'tessel', '--to', 'ochre', '--grid', '12x10', '--workers', '0', '--top', '1'];
 
 describe('reading: regular files only', () => {
-  it(
-    'a FIFO, /dev/zero, /dev/urandom, or a plan whose system.path names one or a link to one: exit 2 at once',
-    async () => {
-      const dir = freshDir();
-      const planPipe = fifo(dir, 'pipe.plan.json');
-      fifo(dir, 'pipe.system.json');
-      symlinkSync('/dev/zero', join(dir, 'zero.system.json'));
-      const viaPipe = put(dir, 'via-pipe.plan.json', demoPlanText().replace(JSON.stringify(SYSTEM), '"pipe.system.json"'));
-      const viaZero = put(dir, 'via-zero.plan.json', demoPlanText().replace(JSON.stringify(SYSTEM), '"zero.system.json"'));
-      const [a, b, c, d, e] = await Promise.all([
-        runCli(['check', planPipe]),
-        runCli(['check', '/dev/zero']),
-        runCli(['stability', '/dev/urandom']),
-        runCli(['check', viaPipe]),
-        runCli(['fly', viaZero]),
-      ]);
-      expectRefused(a, `waymark: cannot read ${planPipe}: it is not a regular file (it is a FIFO (named pipe))`);
-      expectRefused(b, 'waymark: cannot read /dev/zero: it is not a regular file (it is a character device)');
-      expectRefused(c, 'waymark: cannot read /dev/urandom: it is not a regular file (it is a character device)');
-      expectRefused(d, `waymark: cannot read ${join(dir, 'pipe.system.json')}: it is not a regular file (it is a FIFO (named pipe))`);
-      expectRefused(e, `waymark: cannot read ${join(dir, 'zero.system.json')}: it is not a regular file (it is a character device)`);
-    },
-  );
+  it('a FIFO, /dev/zero, /dev/urandom, or a plan whose system.path names one or a link to one: exit 2 at once', async () => {
+    const dir = freshDir();
+    const planPipe = fifo(dir, 'pipe.plan.json');
+    fifo(dir, 'pipe.system.json');
+    symlinkSync('/dev/zero', join(dir, 'zero.system.json'));
+    const viaPipe = put(dir, 'via-pipe.plan.json', demoPlanText().replace(JSON.stringify(SYSTEM), '"pipe.system.json"'));
+    const viaZero = put(dir, 'via-zero.plan.json', demoPlanText().replace(JSON.stringify(SYSTEM), '"zero.system.json"'));
+    const [a, b, c, d, e] = await Promise.all([
+      runCli(['check', planPipe]),
+      runCli(['check', '/dev/zero']),
+      runCli(['stability', '/dev/urandom']),
+      runCli(['check', viaPipe]),
+      runCli(['fly', viaZero]),
+    ]);
+    expectRefused(a, `waymark: cannot read ${planPipe}: it is not a regular file (it is a FIFO (named pipe))`);
+    expectRefused(b, 'waymark: cannot read /dev/zero: it is not a regular file (it is a character device)');
+    expectRefused(c, 'waymark: cannot read /dev/urandom: it is not a regular file (it is a character device)');
+    expectRefused(d, `waymark: cannot read ${join(dir, 'pipe.system.json')}: it is not a regular file (it is a FIFO (named pipe))`);
+    expectRefused(e, `waymark: cannot read ${join(dir, 'zero.system.json')}: it is not a regular file (it is a character device)`);
+  });
 
-  it(
-    'windows --system names a FIFO: exit 2 at once',
-    async () => {
-      const pipe = fifo(freshDir(), 'pipe.system.json');
-      expectRefused(await runCli([...WINDOWS, '--system', pipe]), `cannot read ${pipe}: it is not a regular file (it is a FIFO (named pipe))`);
-    },
-  );
+  it('windows --system names a FIFO: exit 2 at once', async () => {
+    const pipe = fifo(freshDir(), 'pipe.system.json');
+    expectRefused(await runCli([...WINDOWS, '--system', pipe]), `cannot read ${pipe}: it is not a regular file (it is a FIFO (named pipe))`);
+  });
 });
 
 describe('writing: FIFOs and devices refused, links followed', () => {
-  it(
-    'fly --csv onto a FIFO, --oem onto a link to /dev/null: exit 2, both left as they were, no backup',
-    async () => {
-      const dir = freshDir();
-      const plan = put(dir, 'trip.plan.json', demoPlanText());
-      const pipe = fifo(dir, 'out.csv');
-      const link = join(dir, 'out.oem');
-      symlinkSync('/dev/null', link);
-      const [a, b] = await Promise.all([runCli(['fly', plan, '--csv', pipe]), runCli(['fly', plan, '--oem', link])]);
-      expectRefused(a, `waymark: --csv ${pipe}: not written: it is not a regular file (it is a FIFO (named pipe)); Waymark writes regular files, or standard output with --csv -`);
-      expectRefused(b, `waymark: --oem ${link}: not written: it is not a regular file (it is a character device)`);
-      expect(lstatSync(pipe).isFIFO()).toBe(true);
-      expect(readlinkSync(link)).toBe('/dev/null');
-      expect(existsSync(`${pipe}.bak`)).toBe(false);
-      expect(existsSync(`${link}.bak`)).toBe(false);
-    },
-  );
+  it('fly --csv onto a FIFO, --oem onto a link to /dev/null: exit 2, both left as they were, no backup', async () => {
+    const dir = freshDir();
+    const plan = put(dir, 'trip.plan.json', demoPlanText());
+    const pipe = fifo(dir, 'out.csv');
+    const link = join(dir, 'out.oem');
+    symlinkSync('/dev/null', link);
+    const [a, b] = await Promise.all([runCli(['fly', plan, '--csv', pipe]), runCli(['fly', plan, '--oem', link])]);
+    expectRefused(
+      a,
+      `waymark: --csv ${pipe}: not written: it is not a regular file (it is a FIFO (named pipe)); Waymark writes regular files, or standard output with --csv -`,
+    );
+    expectRefused(b, `waymark: --oem ${link}: not written: it is not a regular file (it is a character device)`);
+    expect(lstatSync(pipe).isFIFO()).toBe(true);
+    expect(readlinkSync(link)).toBe('/dev/null');
+    expect(existsSync(`${pipe}.bak`)).toBe(false);
+    expect(existsSync(`${link}.bak`)).toBe(false);
+  });
 
-  it.skipIf(process.getuid?.() !== 0)(
-    'fly --burns onto a device node (mknod, as root): exit 2, still the device, no backup linked to it',
-    async () => {
-      const dir = freshDir();
-      const plan = put(dir, 'trip.plan.json', demoPlanText());
-      const dev = join(dir, 'burns.csv');
-      execFileSync('mknod', [dev, 'c', '1', '3']);
-      expectRefused(await runCli(['fly', plan, '--burns', dev]), /--burns .*burns\.csv: not written: it is not a regular file \(it is a character device\)/);
-      expect(lstatSync(dev).isCharacterDevice()).toBe(true);
-      expect(existsSync(`${dev}.bak`)).toBe(false);
-    },
-  );
+  it.skipIf(process.getuid?.() !== 0)('fly --burns onto a device node (mknod, as root): exit 2, still the device, no backup linked to it', async () => {
+    const dir = freshDir();
+    const plan = put(dir, 'trip.plan.json', demoPlanText());
+    const dev = join(dir, 'burns.csv');
+    execFileSync('mknod', [dev, 'c', '1', '3']);
+    expectRefused(await runCli(['fly', plan, '--burns', dev]), /--burns .*burns\.csv: not written: it is not a regular file \(it is a character device\)/);
+    expect(lstatSync(dev).isCharacterDevice()).toBe(true);
+    expect(existsSync(`${dev}.bak`)).toBe(false);
+  });
 
   it('fly --csv onto a link to a previous export: written through, the link stays, the backup is a copy', async () => {
     const dir = freshDir();
@@ -216,7 +207,10 @@ describe('- is standard output for every export', () => {
   it('a reader that stops early (… | head): the rest is dropped quietly, exit 0, no stack trace', async () => {
     const plan = put(freshDir(), 'trip.plan.json', demoPlanText());
     const r = await new Promise<{ code: number | null; stderr: string; got: number }>((resolve, reject) => {
-      const child = spawn(process.execPath, ['--import', 'tsx', 'app/cli/main.ts', 'fly', plan, '--csv', '-', '--step', '60'], { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] });
+      const child = spawn(process.execPath, ['--import', 'tsx', 'app/cli/main.ts', 'fly', plan, '--csv', '-', '--step', '60'], {
+        cwd: ROOT,
+        stdio: ['ignore', 'pipe', 'pipe'],
+      });
       let stderr = '';
       let got = 0;
       child.stdout.once('data', (b: Buffer) => {
@@ -246,7 +240,10 @@ describe('the output guard', () => {
       runCli(['fly', plan, '--burns', hard]),
     ]);
     expectRefused(a, `waymark: --csv ${plan}: not written: it is the plan file being flown, an input of this command; choose another file`);
-    expectRefused(b, `waymark: --report ${newer}: not written: it was written by a newer version of Waymark (plan file version 2; this program writes version 1)`);
+    expectRefused(
+      b,
+      `waymark: --report ${newer}: not written: it was written by a newer version of Waymark (plan file version 2; this program writes version 1)`,
+    );
     expectRefused(c, `waymark: --burns ${hard}: not written: it is the plan file being flown, an input of this command`);
     expect(readFileSync(plan, 'utf8')).toBe(demoPlanText());
     expect(readFileSync(newer, 'utf8')).toBe(demoPlanText(2));
@@ -258,9 +255,16 @@ describe('the output guard', () => {
     const system = put(dir, 'own.system.json', systemText());
     const plan = put(dir, 'trip.plan.json', demoPlanText().replace(JSON.stringify(SYSTEM), '"own.system.json"'));
     const newer = put(dir, 'v2.system.json', systemText(2));
-    const [a, b, c] = await Promise.all([runCli(['correct', plan, '-o', system]), runCli(['correct', plan, '-o', newer]), runCli(['correct', plan, '--output', plan])]);
+    const [a, b, c] = await Promise.all([
+      runCli(['correct', plan, '-o', system]),
+      runCli(['correct', plan, '-o', newer]),
+      runCli(['correct', plan, '--output', plan]),
+    ]);
     expectRefused(a, `waymark: --output ${system}: not written: it is the plan's system file, an input of this command; choose another file`);
-    expectRefused(b, `waymark: --output ${newer}: not written: it was written by a newer version of Waymark (system file version 2; this program writes version 1)`);
+    expectRefused(
+      b,
+      `waymark: --output ${newer}: not written: it was written by a newer version of Waymark (system file version 2; this program writes version 1)`,
+    );
     expectRefused(c, `waymark: --output ${plan}: not written: it is the plan file being corrected, an input of this command`);
     expect(readFileSync(system, 'utf8')).toBe(systemText());
     expect(readFileSync(newer, 'utf8')).toBe(systemText(2));
@@ -269,7 +273,10 @@ describe('the output guard', () => {
   it('windows --grid-out onto the system file read, or onto a folder: exit 2 without a stack trace, before any grid is computed', async () => {
     const dir = freshDir();
     const system = put(dir, 'ilmar.system.json', systemText());
-    const [a, b] = await Promise.all([runCli([...WINDOWS, '--system', system, '--grid-out', system]), runCli([...WINDOWS, '--system', system, '--grid-out', dir])]);
+    const [a, b] = await Promise.all([
+      runCli([...WINDOWS, '--system', system, '--grid-out', system]),
+      runCli([...WINDOWS, '--system', system, '--grid-out', dir]),
+    ]);
     expectRefused(a, `waymark: --grid-out ${system}: not written: it is the system file read (--system), an input of this command; choose another file`);
     expectRefused(b, `waymark: --grid-out ${dir}: not written: it is a folder; name a file`);
     expect(readFileSync(system, 'utf8')).toBe(systemText());
@@ -279,7 +286,10 @@ describe('the output guard', () => {
     const dir = freshDir();
     const json = join(dir, 'grid.json');
     const csv = join(dir, 'grid.csv');
-    const [a, b] = await Promise.all([runCli([...WINDOWS, '--system', SYSTEM, '--grid-out', json]), runCli([...WINDOWS, '--system', SYSTEM, '--grid-out', csv])]);
+    const [a, b] = await Promise.all([
+      runCli([...WINDOWS, '--system', SYSTEM, '--grid-out', json]),
+      runCli([...WINDOWS, '--system', SYSTEM, '--grid-out', csv]),
+    ]);
     expect([a.code, b.code]).toEqual([0, 0]);
     expect((await identifyFile(json)).kind).toBe('grid-json');
     expect((await identifyFile(csv)).kind).toBe('grid-csv');
@@ -288,6 +298,9 @@ describe('the output guard', () => {
     expect(readFileSync(`${json}.bak`, 'utf8')).not.toBe(readFileSync(json, 'utf8'));
     const other = join(dir, 'other.json');
     writeFileSync(other, readFileSync(csv));
-    expectRefused(await runCli([...WINDOWS, '--system', SYSTEM, '--grid-out', other]), `--grid-out ${other}: not written: it holds a porkchop grid (CSV), not a porkchop grid (JSON)`);
+    expectRefused(
+      await runCli([...WINDOWS, '--system', SYSTEM, '--grid-out', other]),
+      `--grid-out ${other}: not written: it holds a porkchop grid (CSV), not a porkchop grid (JSON)`,
+    );
   });
 });

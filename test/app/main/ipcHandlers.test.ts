@@ -50,7 +50,11 @@ function setup(over: Partial<HandlerDeps> = {}) {
     dialogs,
     files,
     recent,
-    recovery: createRecoveryStore('/user/recovery.json', { readText: files.readText, writeAtomic: async (p, t) => void disk.set(p, t), remove: async (p) => void disk.delete(p) }),
+    recovery: createRecoveryStore('/user/recovery.json', {
+      readText: files.readText,
+      writeAtomic: async (p, t) => void disk.set(p, t),
+      remove: async (p) => void disk.delete(p),
+    }),
     window: win,
     isTrustedSender: (url) => url === APP,
     ...over,
@@ -163,7 +167,12 @@ const REFUSED: [string, string, unknown[], RegExp][] = [
   [IPC.documentState, 'a state that is null', [null], /state must be an object/],
   // Extra and missing arguments, for every channel.
   ...CHANNELS.map((ch): [string, string, unknown[], RegExp] => [ch, 'one argument too many', [...VALID[ch], 'extra'], /arguments must be/]),
-  ...CHANNELS.filter((ch) => VALID[ch].length > 0).map((ch): [string, string, unknown[], RegExp] => [ch, 'one argument too few', VALID[ch].slice(0, -1), /arguments must be/]),
+  ...CHANNELS.filter((ch) => VALID[ch].length > 0).map((ch): [string, string, unknown[], RegExp] => [
+    ch,
+    'one argument too few',
+    VALID[ch].slice(0, -1),
+    /arguments must be/,
+  ]),
 ];
 
 describe('IPC handlers (main process, Electron mocked away)', () => {
@@ -308,7 +317,7 @@ describe('IPC handlers (main process, Electron mocked away)', () => {
     expect(new Set(refusals)).toEqual(new Set([`relativePath ${BESIDE_REFUSAL}`]));
   });
 
-  it('reads a system in a folder outside the plan\'s only once the user chose a system file there', async () => {
+  it("reads a system in a folder outside the plan's only once the user chose a system file there", async () => {
     const { h, dialogs } = await opened();
     await expect(h[IPC.readSystemBeside](me, '/plans/a.plan.json', '../systems/s.system.json')).rejects.toThrow(BESIDE_REFUSAL);
     dialogs.showOpen.mockResolvedValueOnce('/systems/s.system.json');

@@ -302,7 +302,9 @@ describe('loadPlanFile and savePlanFile', () => {
     } catch (e) {
       expect(e).toBeInstanceOf(ValidationError);
       expect((e as ValidationError).issues[0].path).toBe('system.path');
-      expect((e as ValidationError).issues[0].rule).toMatch(/^names "nowhere\/none\.system\.json", which does not exist \(looked for .*nowhere\/none\.system\.json\)$/);
+      expect((e as ValidationError).issues[0].rule).toMatch(
+        /^names "nowhere\/none\.system\.json", which does not exist \(looked for .*nowhere\/none\.system\.json\)$/,
+      );
     }
   });
 

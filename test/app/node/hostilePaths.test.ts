@@ -8,7 +8,21 @@
  * time-out (HANG_GUARD) only turns such a hang into a failure; the fixed code answers at once.
  */
 import { execFileSync } from 'node:child_process';
-import { existsSync, linkSync, lstatSync, mkdirSync, mkdtempSync, readFileSync, readdirSync, readlinkSync, rmSync, statSync, symlinkSync, truncateSync, writeFileSync } from 'node:fs';
+import {
+  existsSync,
+  linkSync,
+  lstatSync,
+  mkdirSync,
+  mkdtempSync,
+  readFileSync,
+  readdirSync,
+  readlinkSync,
+  rmSync,
+  statSync,
+  symlinkSync,
+  truncateSync,
+  writeFileSync,
+} from 'node:fs';
 import * as fsp from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -146,7 +160,7 @@ describe('reading: regular files only', () => {
   });
 
   it(
-    "a plan whose system.path names a FIFO or a link to /dev/zero: refused naming the system file, promptly",
+    'a plan whose system.path names a FIFO or a link to /dev/zero: refused naming the system file, promptly',
     async () => {
       const dir = freshDir();
       const pipe = fifo(dir, 'ilmar.system.json');
@@ -172,7 +186,9 @@ describe('saving: regular files only, links followed, backups copied', () => {
     async () => {
       const dir = freshDir();
       const p = fifo(dir, 'out.csv');
-      await expect(atomicWriteFile(p, 'a,b\n')).rejects.toThrow(`cannot save ${p}: it is not a regular file (it is a FIFO (named pipe)); Waymark saves over regular files only`);
+      await expect(atomicWriteFile(p, 'a,b\n')).rejects.toThrow(
+        `cannot save ${p}: it is not a regular file (it is a FIFO (named pipe)); Waymark saves over regular files only`,
+      );
       expect(lstatSync(p).isFIFO()).toBe(true);
       expect(existsSync(`${p}.bak`)).toBe(false);
       expect(tmpFiles(dir)).toEqual([]);

@@ -115,7 +115,9 @@ describe('checkOutput: what an output may replace', () => {
     linkSync(plan, hard);
     const inputs = [{ path: plan, what: 'the plan file being flown' }];
     for (const p of [plan, sym, hard]) {
-      await expect(checkOutput(T('--csv', p, 'csv'), { inputs })).rejects.toThrow(`--csv ${p}: not written: it is the plan file being flown, an input of this command; choose another file`);
+      await expect(checkOutput(T('--csv', p, 'csv'), { inputs })).rejects.toThrow(
+        `--csv ${p}: not written: it is the plan file being flown, an input of this command; choose another file`,
+      );
     }
     // the same file written as the plan it is: still an input
     await expect(checkOutput(T('--output', plan, 'plan'), { inputs })).rejects.toThrow(/an input of this command/);
@@ -129,7 +131,9 @@ describe('checkOutput: what an output may replace', () => {
     await expect(checkOutput(T('--csv', pipe, 'csv'))).rejects.toThrow(
       `--csv ${pipe}: not written: it is not a regular file (it is a FIFO (named pipe)); Waymark writes regular files, or standard output with --csv -`,
     );
-    await expect(checkOutput(T('--oem', '/dev/null', 'oem'))).rejects.toThrow(/--oem \/dev\/null: not written: it is not a regular file \(it is a character device\)/);
+    await expect(checkOutput(T('--oem', '/dev/null', 'oem'))).rejects.toThrow(
+      /--oem \/dev\/null: not written: it is not a regular file \(it is a character device\)/,
+    );
   });
 
   it('a plan or system file is replaced only by its own kind, never when a newer Waymark wrote it', async () => {
@@ -139,7 +143,9 @@ describe('checkOutput: what an output may replace', () => {
     await expect(checkOutput(T('--report', plan, 'report'))).rejects.toThrow(
       `--report ${plan}: not written: it is a Waymark plan file, which a Markdown budget report would replace; choose another file`,
     );
-    await expect(checkOutput(T('--output', system, 'plan'))).rejects.toThrow(`--output ${system}: not written: it is a Waymark system file, which a Waymark plan file would replace`);
+    await expect(checkOutput(T('--output', system, 'plan'))).rejects.toThrow(
+      `--output ${system}: not written: it is a Waymark system file, which a Waymark plan file would replace`,
+    );
     await expect(checkOutput(T('--grid-out', system, 'grid-json'))).rejects.toThrow(/it is a Waymark system file/);
     const newerPlan = fileWith('v2.plan.json', planText(2));
     const newerSystem = fileWith('v2.system.json', systemText(2));
@@ -160,7 +166,9 @@ describe('checkOutput: what an output may replace', () => {
       `--csv ${burns}: not written: it holds a burn table (CSV), not an ephemeris CSV; Waymark replaces only its own ephemeris CSV — choose another file or remove it first`,
     );
     const json = fileWith('settings.json', '{"token":"secret"}');
-    await expect(checkOutput(T('--grid-out', json, 'grid-json'))).rejects.toThrow(/it holds a JSON document Waymark did not write, not a porkchop grid \(JSON\)/);
+    await expect(checkOutput(T('--grid-out', json, 'grid-json'))).rejects.toThrow(
+      /it holds a JSON document Waymark did not write, not a porkchop grid \(JSON\)/,
+    );
     const notes = fileWith('notes.md', 'my notes');
     await expect(checkOutput(T('--report', notes, 'report'))).rejects.toThrow(/it holds a file Waymark did not write, not a Markdown budget report/);
     await expect(checkOutput(T('Export', notes, 'report'), { unidentified: 'replace' })).resolves.toBeTruthy();
