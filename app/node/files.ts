@@ -627,18 +627,24 @@ export async function checkOutputs(targets: readonly OutputTarget[], rules: Outp
 
 /** Where standard output goes (injectable for tests). */
 export interface StdoutLike {
+  isTTY?: boolean;
   write(chunk: string, callback: (err?: Error | null) => void): boolean;
   on(event: 'error', listener: (err: Error) => void): unknown;
 }
 
 let stdoutErrorsHandled = false;
 
+export interface StdoutOptions {
+  /** Applied to the text when standard output is a terminal (the command line shows control characters escaped there). */
+  forTerminal?: (text: string) => string;
+}
+
 /**
  * Writes `data` to standard output and waits until it is handed over. A reader that stops early
  * (`waymark fly --csv - | head`) closes the pipe: the rest is dropped quietly (EPIPE), as a
  * pipeline expects, instead of ending in a stack trace.
  */
-export function writeStdout(data: string, out: StdoutLike = process.stdout): Promise<void> {
+export function writeStdout(data: string, out: StdoutLike = process.stdout, options: StdoutOptions = {}): Promise<void> {
   if (out === process.stdout && !stdoutErrorsHandled) {
     stdoutErrorsHandled = true;
     process.stdout.on('error', (e: NodeJS.ErrnoException) => {
@@ -646,7 +652,7 @@ export function writeStdout(data: string, out: StdoutLike = process.stdout): Pro
     });
   }
   return new Promise((resolvePromise, reject) => {
-    out.write(data, (err) => {
+    out.write(options.forTerminal && out.isTTY === true ? options.forTerminal(data) : data, (err) => {
       if (err && (err as NodeJS.ErrnoException).code !== 'EPIPE') reject(err);
       else resolvePromise();
     });
@@ -654,10 +660,11 @@ export function writeStdout(data: string, out: StdoutLike = process.stdout): Pro
 }
 
 /** Writes one output: to standard output for `-`, else checked (checkOutput) and saved atomically with a backup. */
-export async function writeOutput(t: OutputTarget, data: string, rules: OutputRules = {}, options: AtomicWriteOptions = {}): Promise<void> {
-  if (t.path === STDOUT) return writeStdout(data);
+export async function writeOutput(t: OutputTarget, data: string, rules: OutputRules = {}, options: AtomicWriteOptions & StdoutOptions = {}): Promise<void> {
+  const { forTerminal, ...write } = options;
+  if (t.path === STDOUT) return writeStdout(data, process.stdout, { forTerminal });
   await checkOutput(t, rules);
-  await atomicWriteFile(t.path, data, options);
+  await atomicWriteFile(t.path, data, write);
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -22,7 +22,7 @@ import { InputError } from '../../../core/math/index.ts';
 import { correctPlan } from '../../../core/nbody/index.ts';
 import { serializePlanFile, type PlanSystemRef } from '../../../core/io/index.ts';
 import { checkOutputs, loadPlanFile, STDOUT, writeOutput, type InputFile, type OutputTarget } from '../../node/files.ts';
-import { EXIT_OK, guard, num, printJson, printText, printWarnings, vecText } from '../output.ts';
+import { EXIT_OK, guard, num, printJson, printText, printWarnings, termSafe, vecText } from '../output.ts';
 import { CORRECT_FLAGS } from '../flags.ts';
 
 const DEG = 180 / Math.PI;
@@ -63,7 +63,8 @@ export function addCorrectCommand(program: Command): void {
         const target: OutputTarget = { flag: '--output', path: o.output, kind: 'plan' };
         await checkOutputs([target], { inputs });
         const c = correctPlan(system, loaded.plan, { burns: o.burn, time: !!o.time, maxIterations });
-        await writeOutput(target, serializePlanFile(c.plan, systemRefFor(o.output, loaded.systemRef, loaded.systemPath)), { inputs });
+        const text = serializePlanFile(c.plan, systemRefFor(o.output, loaded.systemRef, loaded.systemPath));
+        await writeOutput(target, text, { inputs }, { forTerminal: termSafe });
         if (o.json) {
           printJson({
             plan: loaded.plan.name,

@@ -34,7 +34,7 @@ import { nbodyStatesToEphemeris } from '../../../core/nbody/index.ts';
 import type { PlanResult } from '../../../core/plan/index.ts';
 import { formatCompactDate } from '../../../core/system/index.ts';
 import { checkOutputs, loadPlanFile, STDOUT, writeOutput, type InputFile, type OutputTarget } from '../../node/files.ts';
-import { EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
+import { EXIT_OK, guard, num, printJson, printText, printWarnings, termSafe } from '../output.ts';
 import { FLY_FLAGS } from '../flags.ts';
 
 export const MODELS = ['conic', 'nbody'] as const;
@@ -86,7 +86,9 @@ export function addFlyCommand(program: Command): void {
         const inputs: InputFile[] = [{ path: planPath, what: 'the plan file being flown' }];
         if (loaded.systemPath) inputs.push({ path: loaded.systemPath, what: "the plan's system file" });
         await checkOutputs(outputs, { inputs });
-        const save = (flag: string, path: string, kind: OutputTarget['kind'], text: string) => writeOutput({ flag, path, kind }, text, { inputs });
+        // Standard output at a terminal shows control characters escaped (names come from files).
+        const save = (flag: string, path: string, kind: OutputTarget['kind'], text: string) =>
+          writeOutput({ flag, path, kind }, text, { inputs }, { forTerminal: termSafe });
         const result = evaluate(system, plan);
         const nbody: NBodyResult | null = o.model === 'nbody' ? verifyNBody(system, plan, result, { samples: false, step }) : null;
 

@@ -33,7 +33,7 @@ import { findWindows, type TransferWindow } from '../../../core/search/index.ts'
 import { formatCompactDate, parseDate } from '../../../core/system/index.ts';
 import { findBodyIndex, type StarSystem, type SystemCalendar } from '../../../core/system/index.ts';
 import { checkOutputs, loadSystemFile, STDOUT, writeOutput, type OutputRules, type OutputTarget } from '../../node/files.ts';
-import { EXIT_NO, guard, jsonReplacer, num, printData, printJson, printText } from '../output.ts';
+import { EXIT_NO, guard, jsonReplacer, num, printData, printJson, printText, termSafe } from '../output.ts';
 import { windowsFlags } from '../flags.ts';
 import { computePorkchopPooled } from '../pool.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
@@ -230,7 +230,7 @@ async function gridFile(target: OutputTarget, grid: PorkchopGrid, rules: OutputR
         lines.push([i, j, grid.departTimes[i], grid.secondValues[j], ...FLOAT_PLANES.map((p) => grid.planes[p][k]), ...INT_PLANES.map((p) => grid.planes[p][k])].join(','));
       }
     }
-    await writeOutput(target, `${lines.join('\n')}\n`, rules);
+    await writeOutput(target, `${lines.join('\n')}\n`, rules, { forTerminal: termSafe });
   } else {
     const doc = {
       request: grid.request,
@@ -240,7 +240,7 @@ async function gridFile(target: OutputTarget, grid: PorkchopGrid, rules: OutputR
       unsolved: grid.unsolved,
       planes: Object.fromEntries([...FLOAT_PLANES, ...INT_PLANES].map((p) => [p, grid.planes[p]])),
     };
-    await writeOutput(target, `${JSON.stringify(doc, jsonReplacer)}\n`, rules);
+    await writeOutput(target, `${JSON.stringify(doc, jsonReplacer)}\n`, rules, { forTerminal: termSafe });
   }
 }
 

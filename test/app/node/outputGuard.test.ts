@@ -15,7 +15,18 @@ import { burnTableCsv, ephemerisCsv } from '../../../core/io/csv.ts';
 import { writeOem } from '../../../core/io/oem.ts';
 import { serializePlanFile } from '../../../core/io/planFile.ts';
 import { budgetReport } from '../../../core/io/report.ts';
-import { FileError, checkOutput, checkOutputs, identifyFile, savePlanFile, writeOutput, type OutputKind, type OutputTarget } from '../../../app/node/files.ts';
+import {
+  FileError,
+  checkOutput,
+  checkOutputs,
+  identifyFile,
+  savePlanFile,
+  writeOutput,
+  writeStdout,
+  type OutputKind,
+  type OutputTarget,
+  type StdoutLike,
+} from '../../../app/node/files.ts';
 import { NEWER_VERSION_RULE } from '../../../app/preload/fileHeader.ts';
 import { demoPlan } from '../../fixtures/demoPlan.ts';
 import { demoSystem, demoSystemText } from '../../fuzz/files.ts';
@@ -213,5 +224,37 @@ describe('writeOutput and savePlanFile go through the guard', () => {
     await expect(savePlanFile(system, samplePlan(), { kind: 'path', path: SYSTEM })).rejects.toThrow(`cannot save ${system}: it is a Waymark system file`);
     await expect(savePlanFile(system, samplePlan(), { kind: 'path', path: SYSTEM }, { flag: '-o' })).rejects.toThrow(`-o ${system}: not written:`);
     expect(readFileSync(system, 'utf8')).toBe(systemText(1));
+  });
+});
+
+describe('writeStdout', () => {
+  /** A stream that records what it is given and answers each write with `err`. */
+  const stream = (isTTY: boolean, err: (Error & { code?: string }) | null = null) => {
+    const got: string[] = [];
+    const out: StdoutLike = {
+      isTTY,
+      write: (chunk, callback) => {
+        got.push(chunk);
+        callback(err);
+        return true;
+      },
+      on: () => undefined,
+    };
+    return { out, got };
+  };
+  const shout = (t: string): string => t.toUpperCase();
+
+  it('hands the text over as it is to a pipe, through forTerminal to a terminal', async () => {
+    const pipe = stream(false);
+    await writeStdout('a\u001b[2J', pipe.out, { forTerminal: shout });
+    expect(pipe.got).toEqual(['a\u001b[2J']);
+    const tty = stream(true);
+    await writeStdout('abc', tty.out, { forTerminal: shout });
+    expect(tty.got).toEqual(['ABC']);
+  });
+
+  it('a reader that went away (EPIPE) ends the write quietly; any other error is passed on', async () => {
+    await expect(writeStdout('x', stream(false, Object.assign(new Error('broken pipe'), { code: 'EPIPE' })).out)).resolves.toBeUndefined();
+    await expect(writeStdout('x', stream(false, Object.assign(new Error('disk full'), { code: 'ENOSPC' })).out)).rejects.toThrow('disk full');
   });
 });
