@@ -127,11 +127,16 @@ app.on('web-contents-created', (_e, contents) => lockDownContents(contents));
 
 void app.whenReady().then(async () => {
   await mkdir(app.getPath('userData'), { recursive: true });
-  protocol.handle(APP_SCHEME, createAppProtocolHandler(rendererDir, (p) => readFile(p), config.security.contentSecurityPolicy));
+  protocol.handle(
+    APP_SCHEME,
+    createAppProtocolHandler(rendererDir, (p) => readFile(p), config.security.contentSecurityPolicy),
+  );
   lockDownSession(session.defaultSession, config.security.contentSecurityPolicy);
   for (const [channel, handler] of Object.entries(handlers)) {
     // The sending frame: its URL must be the app's page, and it must be the top frame (parent null).
-    ipcMain.handle(channel, (event, ...args: unknown[]) => handler({ url: event.senderFrame?.url ?? '', topFrame: event.senderFrame?.parent === null }, ...args));
+    ipcMain.handle(channel, (event, ...args: unknown[]) =>
+      handler({ url: event.senderFrame?.url ?? '', topFrame: event.senderFrame?.parent === null }, ...args),
+    );
   }
   await rebuildMenu();
   createWindow();

@@ -43,7 +43,9 @@ export function menuTemplate(o: MenuOptions): MenuItemConstructorOptions[] {
           item('Budget report (Markdown)…', undefined, { command: 'export', kind: 'report' }),
         ],
       },
-      ...(mac ? [] : [{ type: 'separator' } as MenuItemConstructorOptions, { role: 'quit', label: 'Quit', accelerator: 'Ctrl+Q' } as MenuItemConstructorOptions]),
+      ...(mac
+        ? []
+        : [{ type: 'separator' } as MenuItemConstructorOptions, { role: 'quit', label: 'Quit', accelerator: 'Ctrl+Q' } as MenuItemConstructorOptions]),
     ],
   };
   const edit: MenuItemConstructorOptions = {
@@ -63,7 +65,19 @@ export function menuTemplate(o: MenuOptions): MenuItemConstructorOptions[] {
     submenu: [{ role: 'resetZoom' }, { role: 'zoomIn' }, { role: 'zoomOut' }, { type: 'separator' }, { role: 'togglefullscreen' }],
   };
   const appMenu: MenuItemConstructorOptions[] = mac
-    ? [{ label: o.appName, submenu: [{ role: 'about' }, { type: 'separator' }, { role: 'hide' }, { role: 'hideOthers' }, { type: 'separator' }, { role: 'quit', accelerator: 'Cmd+Q' }] }]
+    ? [
+        {
+          label: o.appName,
+          submenu: [
+            { role: 'about' },
+            { type: 'separator' },
+            { role: 'hide' },
+            { role: 'hideOthers' },
+            { type: 'separator' },
+            { role: 'quit', accelerator: 'Cmd+Q' },
+          ],
+        },
+      ]
     : [];
   return [...appMenu, file, edit, view, { role: 'windowMenu' }];
 }

@@ -42,7 +42,8 @@ export function headerProblem(text: string, kind: FileKind): { rule: string; new
   const h = readFileHeader(text);
   const want = FILE_FORMATS[kind];
   if (!h) return { rule: `is not a Waymark ${kind} file (not a JSON object)`, newer: false };
-  if (h.format !== want.format) return { rule: `is not a Waymark ${kind} file (its "format" is ${JSON.stringify(h.format) ?? 'missing'}, not "${want.format}")`, newer: false };
+  if (h.format !== want.format)
+    return { rule: `is not a Waymark ${kind} file (its "format" is ${JSON.stringify(h.format) ?? 'missing'}, not "${want.format}")`, newer: false };
   if (typeof h.version !== 'number' || !Number.isInteger(h.version) || h.version < 1) {
     return { rule: `has no valid "version" (got ${JSON.stringify(h.version) ?? 'nothing'})`, newer: false };
   }

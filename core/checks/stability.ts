@@ -251,7 +251,11 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
   const h0 = merged ? hPlanets : hAll;
   const nSteps = Math.max(1, Math.ceil(span / h0 - 1e-9));
   if (nSteps > maxSteps) {
-    throw new InputError('span', `needs ${nSteps} steps (more than maxSteps = ${maxSteps}${merged ? ', with moons merged' : ''}); shorten the span or raise maxSteps`, span);
+    throw new InputError(
+      'span',
+      `needs ${nSteps} steps (more than maxSteps = ${maxSteps}${merged ? ', with moons merged' : ''}); shorten the span or raise maxSteps`,
+      span,
+    );
   }
   const work = workOf(nSteps, flown);
   if (work > MAX_STABILITY_WORK) {
@@ -305,7 +309,17 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
       const ej = bodies[parts[j].index].elements!;
       const muP = mus[parts[i].parent];
       const rh = Math.cbrt((mus[i] + mus[j]) / (3 * muP)) * 0.5 * (ei.a + ej.a);
-      pairs.push({ i, j, a: parts[i].index, b: parts[j].index, mutualHill: rh, spacing: Math.abs(ej.a - ei.a) / rh, minDistance: Infinity, minHill: Infinity, tMin: 0 });
+      pairs.push({
+        i,
+        j,
+        a: parts[i].index,
+        b: parts[j].index,
+        mutualHill: rh,
+        spacing: Math.abs(ej.a - ei.a) / rh,
+        minDistance: Infinity,
+        minHill: Infinity,
+        tMin: 0,
+      });
     }
   }
   const flags: StabilityFlag[] = [];
@@ -364,8 +378,10 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
     for (const p of pairs) {
       const key = `${p.i}-${p.j}`;
       if (crossed.has(key)) continue;
-      const ai = hist[p.i].a[s], aj = hist[p.j].a[s];
-      const ei = hist[p.i].e[s], ej = hist[p.j].e[s];
+      const ai = hist[p.i].a[s],
+        aj = hist[p.j].a[s];
+      const ei = hist[p.i].e[s],
+        ej = hist[p.j].e[s];
       if (!(ai > 0 && aj > 0 && ei < 1 && ej < 1)) continue;
       const [inner, outer] = ai <= aj ? [p.i, p.j] : [p.j, p.i];
       const Qin = hist[inner].a[s] * (1 + hist[inner].e[s]);
@@ -413,7 +429,9 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
     let hitJ = -1;
     for (let i = 0; i < N && hit < 0; i++) {
       for (let j = i + 1; j < N; j++) {
-        const dx = x[3 * j] - x[3 * i], dy = x[3 * j + 1] - x[3 * i + 1], dz = x[3 * j + 2] - x[3 * i + 2];
+        const dx = x[3 * j] - x[3 * i],
+          dy = x[3 * j + 1] - x[3 * i + 1],
+          dz = x[3 * j + 2] - x[3 * i + 2];
         const rr = radii[i] + radii[j];
         if (dx * dx + dy * dy + dz * dz < rr * rr) {
           hit = i;
@@ -534,7 +552,15 @@ function subsystems(parts: Particle[]): Int32Array[] {
  * Osculating elements of particle j about its parent (planets: the barycentre of the planet's
  * flown subsystem `group` about the star); writes the relative state into rel. Null when undefined.
  */
-function osculating(parts: Particle[], group: Int32Array, j: number, x: Float64Array, v: Float64Array, mus: Float64Array, rel: Float64Array): { a: number; e: number; i: number } | null {
+function osculating(
+  parts: Particle[],
+  group: Int32Array,
+  j: number,
+  x: Float64Array,
+  v: Float64Array,
+  mus: Float64Array,
+  rel: Float64Array,
+): { a: number; e: number; i: number } | null {
   const p = parts[j].parent;
   let m = 0;
   const c = [0, 0, 0, 0, 0, 0];

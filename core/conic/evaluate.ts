@@ -45,15 +45,7 @@ import { summarizeBudget } from '../plan/index.ts';
 import { checkPlan } from '../plan/index.ts';
 import { flyFiniteBurn } from './finiteBurn.ts';
 import type { BurnEvent, CoastUntil, Plan } from '../plan/index.ts';
-import type {
-  BudgetRow,
-  Flag,
-  PlanResult,
-  TargetReport,
-  TrajectoryEvent,
-  TrajectoryEventKind,
-  TrajectorySegment,
-} from '../plan/index.ts';
+import type { BudgetRow, Flag, PlanResult, TargetReport, TrajectoryEvent, TrajectoryEventKind, TrajectorySegment } from '../plan/index.ts';
 import { sampleConic } from './sampleConic.ts';
 import {
   CIRCULAR_E,
@@ -363,7 +355,12 @@ class Flight {
       if (end === 'impact' || end === 'condition' || end === 'stop') return;
       if (end === 'limit') {
         if (tEnd < tStop || !Number.isFinite(tStop)) {
-          this.flag('condition-not-met', 'warning', `${path}: coast condition '${until.kind}' not met within ${this.opts.maxDuration} s of the start; the coast stops there`, planEventId);
+          this.flag(
+            'condition-not-met',
+            'warning',
+            `${path}: coast condition '${until.kind}' not met within ${this.opts.maxDuration} s of the start; the coast stops there`,
+            planEventId,
+          );
         }
         return;
       }
@@ -393,20 +390,13 @@ class Flight {
     const dtCond = this.conditionTime(until, info, dtMax);
     // immediate impact: on the surface moving in
     const dtImpact =
-      info.rv < 0 && info.r <= body.radius + nearby
-        ? 0
-        : info.rp < body.radius
-          ? timeToRadius(mu, this.st, body.radius, -1, dtMax, 0, info)
-          : Infinity;
+      info.rv < 0 && info.r <= body.radius + nearby ? 0 : info.rp < body.radius ? timeToRadius(mu, this.st, body.radius, -1, dtMax, 0, info) : Infinity;
     const dtB = Math.min(dtMax, dtExit, dtCond, dtImpact);
     let tNext = this.t + dtB;
     let entered = -1;
     const track = this.target >= 0 && this.bodies[this.target].parentIndex === this.central ? this.target : -1;
     if (body.children.length > 0) {
-      findSoiEntry(
-        { system: this.system, central: this.central, mu, state0: this.st, t0: this.t, tEnd: tNext, justLeft: this.justLeft, track },
-        entryRes,
-      );
+      findSoiEntry({ system: this.system, central: this.central, mu, state0: this.st, t0: this.t, tEnd: tNext, justLeft: this.justLeft, track }, entryRes);
       if (entryRes.body >= 0 && entryRes.t <= tNext) {
         entered = entryRes.body;
         tNext = entryRes.t;
@@ -476,7 +466,12 @@ class Flight {
       const dta = info.r > Ratm ? timeToRadius(this.mu, this.st, Ratm, -1, span, 0, info) : Infinity;
       if (dta <= span) {
         this.event('atmosphere-entry', t + dta, -1, Ratm, planEventId, `descends below ${km(body.safeAlt)} at ${body.name}`);
-        this.flag('atmosphere-entry', 'warning', `the ship descends below ${body.name}'s safe altitude (${km(body.safeAlt)}) at t = ${(t + dta).toFixed(0)} s`, planEventId);
+        this.flag(
+          'atmosphere-entry',
+          'warning',
+          `the ship descends below ${body.name}'s safe altitude (${km(body.safeAlt)}) at t = ${(t + dta).toFixed(0)} s`,
+          planEventId,
+        );
       }
     }
     if (this.central === this.target && span > 0) {
@@ -523,7 +518,13 @@ class Flight {
     const rowFlags: Flag[] = [];
     let tb = ev.t ?? this.t;
     if (tb < this.t - 1e-6) {
-      this.flag('out-of-order', 'error', `${ev.name}: planned at ${tb.toFixed(3)} s, but the ship is already at ${this.t.toFixed(3)} s; flown now`, ev.id, rowFlags);
+      this.flag(
+        'out-of-order',
+        'error',
+        `${ev.name}: planned at ${tb.toFixed(3)} s, but the ship is already at ${this.t.toFixed(3)} s; flown now`,
+        ev.id,
+        rowFlags,
+      );
       tb = this.t;
     } else if (tb > this.t) {
       this.coast({ kind: 'time', t: tb }, ev.id, path);
@@ -594,7 +595,13 @@ class Flight {
       centre = Float64Array.from(st);
       if (actualStart < this.segT0) {
         actualStart = this.segT0;
-        this.flag('out-of-order', 'info', `${ev.name}: the finite burn cannot start ${(0.5 * duration).toFixed(1)} s before its centre (the coast began later); it starts at ${actualStart.toFixed(1)} s`, ev.id, rowFlags);
+        this.flag(
+          'out-of-order',
+          'info',
+          `${ev.name}: the finite burn cannot start ${(0.5 * duration).toFixed(1)} s before its centre (the coast began later); it starts at ${actualStart.toFixed(1)} s`,
+          ev.id,
+          rowFlags,
+        );
       }
       const startState = new Float64Array(6);
       propagateKepler(this.mu, this.seg0, actualStart - this.segT0, startState);
@@ -618,7 +625,8 @@ class Flight {
         // drop conic events of this segment that the burn now pre-empts
         for (let i = this.events.length - 1; i >= this.segEventStart; i--) {
           const e = this.events[i];
-          if (e.t > actualStart && (e.kind === 'periapsis' || e.kind === 'apoapsis' || e.kind === 'node' || e.kind === 'atmosphere-entry')) this.events.splice(i, 1);
+          if (e.t > actualStart && (e.kind === 'periapsis' || e.kind === 'apoapsis' || e.kind === 'node' || e.kind === 'atmosphere-entry'))
+            this.events.splice(i, 1);
         }
         // the coast segment ends at the burn start, at the mass before the burn
         this.t = actualStart;
@@ -663,10 +671,22 @@ class Flight {
     // row flags
     if (book.dryMidBurn) {
       const names = book.dropped.filter((d) => d.offset > 0).map((d) => vehicle.stages[d.stage].name);
-      this.flag('stage-dry-mid-burn', 'warning', `${ev.name}: ${names.length > 0 ? names.join(', ') : vehicle.stages[book.phaseStage[book.phases - 1]].name} ran dry during the burn`, ev.id, rowFlags);
+      this.flag(
+        'stage-dry-mid-burn',
+        'warning',
+        `${ev.name}: ${names.length > 0 ? names.join(', ') : vehicle.stages[book.phaseStage[book.phases - 1]].name} ran dry during the burn`,
+        ev.id,
+        rowFlags,
+      );
     }
     if (book.missing > 0) {
-      this.flag('out-of-propellant', 'error', `${ev.name}: out of propellant, ${book.missing.toFixed(1)} m/s of ${dv.toFixed(1)} m/s not delivered`, ev.id, rowFlags);
+      this.flag(
+        'out-of-propellant',
+        'error',
+        `${ev.name}: out of propellant, ${book.missing.toFixed(1)} m/s of ${dv.toFixed(1)} m/s not delivered`,
+        ev.id,
+        rowFlags,
+      );
     }
     const periodFraction = Number.isFinite(period) ? duration / period : null;
     if (periodFraction !== null && periodFraction > this.opts.longBurn) {
@@ -707,11 +727,7 @@ class Flight {
     const plan = this.plan;
     const vehicle = plan.vehicle;
     const capacity = deltaVLeft(vehicle);
-    const { budget, flags } = summarizeBudget(
-      this.rows,
-      { capacity, dvLeft: deltaVLeft(vehicle, this.vs), finalMass: this.vs.mass },
-      plan.reserve,
-    );
+    const { budget, flags } = summarizeBudget(this.rows, { capacity, dvLeft: deltaVLeft(vehicle, this.vs), finalMass: this.vs.mass }, plan.reserve);
     for (const f of flags) this.flags.push(f);
     let target: TargetReport | null = null;
     if (plan.target) {
@@ -736,9 +752,7 @@ class Flight {
         }
         if (tg.i !== null) reached = reached && Math.abs(c.i - tg.i) <= tol.i;
       }
-      const ca = Number.isFinite(this.ca.distance)
-        ? { t: this.ca.t, distance: this.ca.distance, altitude: this.ca.distance - tb.radius }
-        : null;
+      const ca = Number.isFinite(this.ca.distance) ? { t: this.ca.t, distance: this.ca.distance, altitude: this.ca.distance - tb.radius } : null;
       target = {
         body: k,
         reached,

@@ -85,11 +85,17 @@ export function planFromWindow(system: StarSystem, pick: WindowPick): Plan {
   bodyState(system, from, pick.depart, s1, parent);
   bodyPosition(system, to, pick.arrive, r2, parent);
   const sol = solveLambert(system.bodies[parent].mu, [s1[0], s1[1], s1[2]], r2, pick.arrive - pick.depart)[0];
-  const vx = sol.v1[0] - s1[3], vy = sol.v1[1] - s1[4], vz = sol.v1[2] - s1[5];
+  const vx = sol.v1[0] - s1[3],
+    vy = sol.v1[1] - s1[4],
+    vz = sol.v1[2] - s1[5];
   const vinf = Math.hypot(vx, vy, vz);
-  const ux = vx / vinf, uy = vy / vinf, uz = vz / vinf;
+  const ux = vx / vinf,
+    uy = vy / vinf,
+    uz = vz / vinf;
   // plane normal closest to +z containing v̂∞
-  let hx = -uz * ux, hy = -uz * uy, hz = 1 - uz * uz;
+  let hx = -uz * ux,
+    hy = -uz * uy,
+    hz = 1 - uz * uz;
   let hn = Math.hypot(hx, hy, hz);
   if (hn < 1e-9) {
     hx = 1 - ux * ux;
@@ -104,13 +110,17 @@ export function planFromWindow(system: StarSystem, pick: WindowPick): Plan {
   const e = 1 + (rp * vinf * vinf) / mu;
   const nuInf = Math.acos(-1 / e);
   // ĥ × v̂∞
-  const cx = hy * uz - hz * uy, cy = hz * ux - hx * uz, cz = hx * uy - hy * ux;
+  const cx = hy * uz - hz * uy,
+    cy = hz * ux - hx * uz,
+    cz = hx * uy - hy * ux;
   const px = Math.cos(nuInf) * ux - Math.sin(nuInf) * cx;
   const py = Math.cos(nuInf) * uy - Math.sin(nuInf) * cy;
   const pz = Math.cos(nuInf) * uz - Math.sin(nuInf) * cz;
   // circular velocity along ĥ × p̂
   const vc = Math.sqrt(mu / rp);
-  const qx = hy * pz - hz * py, qy = hz * px - hx * pz, qz = hx * py - hy * px;
+  const qx = hy * pz - hz * py,
+    qy = hz * px - hx * pz,
+    qz = hx * py - hy * px;
   const atDepart = [rp * px, rp * py, rp * pz, vc * qx, vc * qy, vc * qz];
   const period = 2 * Math.PI * Math.sqrt((rp * rp * rp) / mu);
   const lead = pick.parkingLead ?? 1.25 * period;

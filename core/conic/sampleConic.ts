@@ -23,8 +23,12 @@ const TWO_PI = 2 * Math.PI;
  */
 export function sampleConic(mu: number, state: ArrayLike<number>, t0: number, span: number, n: number, outT: Float64Array, outXyz: Float64Array): void {
   if (n <= 0) return;
-  const x = state[0], y = state[1], z = state[2];
-  const vx = state[3], vy = state[4], vz = state[5];
+  const x = state[0],
+    y = state[1],
+    z = state[2];
+  const vx = state[3],
+    vy = state[4],
+    vz = state[5];
   const r0 = Math.sqrt(x * x + y * y + z * z);
   const v2 = vx * vx + vy * vy + vz * vz;
   const sqmu = Math.sqrt(mu);

@@ -80,15 +80,37 @@ export interface ConicInfo {
 
 export function createConicInfo(): ConicInfo {
   return {
-    mu: 0, r: 0, v: 0, rv: 0, hx: 0, hy: 0, hz: 0, h: 0, e: 0, p: 0, alpha: 0, rp: 0, ra: 0,
-    period: 0, n: 0, P: new Float64Array(3), Q: new Float64Array(3), nu: 0, M: 0, i: 0,
+    mu: 0,
+    r: 0,
+    v: 0,
+    rv: 0,
+    hx: 0,
+    hy: 0,
+    hz: 0,
+    h: 0,
+    e: 0,
+    p: 0,
+    alpha: 0,
+    rp: 0,
+    ra: 0,
+    period: 0,
+    n: 0,
+    P: new Float64Array(3),
+    Q: new Float64Array(3),
+    nu: 0,
+    M: 0,
+    i: 0,
   };
 }
 
 /** Fills `out` with the conic through `state` (relative position and velocity) about μ. */
 export function conicInfo(mu: number, state: ArrayLike<number>, out: ConicInfo = createConicInfo()): ConicInfo {
-  const x = state[0], y = state[1], z = state[2];
-  const vx = state[3], vy = state[4], vz = state[5];
+  const x = state[0],
+    y = state[1],
+    z = state[2];
+  const vx = state[3],
+    vy = state[4],
+    vz = state[5];
   const r = Math.sqrt(x * x + y * y + z * z);
   const v2 = vx * vx + vy * vy + vz * vz;
   const rv = x * vx + y * vy + z * vz;
@@ -129,7 +151,9 @@ export function conicInfo(mu: number, state: ArrayLike<number>, out: ConicInfo =
     P[1] = ey / e;
     P[2] = ez / e;
   }
-  let wx = hx / h, wy = hy / h, wz = hz / h;
+  let wx = hx / h,
+    wy = hy / h,
+    wz = hz / h;
   if (!(h > 0)) {
     // rectilinear (r ∥ v, or at rest): no orbit plane; any normal to P serves, ν is then ±π or 0
     const ax = Math.abs(P[0]) < 0.9 ? 1 : 0;
@@ -213,7 +237,7 @@ function polish(mu: number, state: ArrayLike<number>, fn: StateFn, est: number, 
       const gb = g(b);
       if (ga === 0) return a;
       if (gb === 0) return b;
-      if ((ga < 0) !== (gb < 0)) return brent(g, a, b, { tol: EVENT_TIME_TOL });
+      if (ga < 0 !== gb < 0) return brent(g, a, b, { tol: EVENT_TIME_TOL });
     }
     delta *= 8;
   }
@@ -232,7 +256,14 @@ const infoScratch = createConicInfo();
  * A circular orbit (e < CIRCULAR_E) has its periapsis at the current point: returns 0 for
  * 'periapsis' and half a period for 'apoapsis'.
  */
-export function timeToApsis(mu: number, state: ArrayLike<number>, which: 'periapsis' | 'apoapsis', tMax = Infinity, minDt = MIN_EVENT_DT, info?: ConicInfo): number {
+export function timeToApsis(
+  mu: number,
+  state: ArrayLike<number>,
+  which: 'periapsis' | 'apoapsis',
+  tMax = Infinity,
+  minDt = MIN_EVENT_DT,
+  info?: ConicInfo,
+): number {
   const c = info ?? conicInfo(mu, state, infoScratch);
   if (c.e < CIRCULAR_E) {
     const dt = which === 'periapsis' ? 0 : 0.5 * c.period;
@@ -266,7 +297,9 @@ const PARABOLIC_ALPHA_R = 1e-12;
  * rectilinear orbit (angular momentum → 0, a fall from rest), this stays well defined there.
  */
 function radiusEstimate(mu: number, state: ArrayLike<number>, R: number, direction: 1 | -1 | 0, minDt: number): number {
-  const x = state[0], y = state[1], z = state[2];
+  const x = state[0],
+    y = state[1],
+    z = state[2];
   const r0 = Math.sqrt(x * x + y * y + z * z);
   const v2 = state[3] * state[3] + state[4] * state[4] + state[5] * state[5];
   const rv = x * state[3] + y * state[4] + z * state[5];
@@ -316,7 +349,15 @@ function radiusEstimate(mu: number, state: ArrayLike<number>, R: number, directi
  * Time to the next crossing of radius R (≥ minDt ahead, ≤ tMax), s, or Infinity.
  * direction +1: outbound only (r increasing), −1: inbound only, 0: either.
  */
-export function timeToRadius(mu: number, state: ArrayLike<number>, R: number, direction: 1 | -1 | 0, tMax = Infinity, minDt = MIN_EVENT_DT, info?: ConicInfo): number {
+export function timeToRadius(
+  mu: number,
+  state: ArrayLike<number>,
+  R: number,
+  direction: 1 | -1 | 0,
+  tMax = Infinity,
+  minDt = MIN_EVENT_DT,
+  info?: ConicInfo,
+): number {
   const c = info ?? conicInfo(mu, state, infoScratch);
   if (!(R > 0) || !Number.isFinite(R)) return Infinity;
   if (c.e < CIRCULAR_E) return Infinity;
@@ -343,7 +384,14 @@ export function timeToRadius(mu: number, state: ArrayLike<number>, R: number, di
  * (≥ minDt ahead, ≤ tMax), s, or Infinity; 'ascending' means z increasing.
  * An orbit in the plane (sin i < 1e-12) has no nodes.
  */
-export function timeToNode(mu: number, state: ArrayLike<number>, which: 'ascending' | 'descending' | 'any', tMax = Infinity, minDt = MIN_EVENT_DT, info?: ConicInfo): number {
+export function timeToNode(
+  mu: number,
+  state: ArrayLike<number>,
+  which: 'ascending' | 'descending' | 'any',
+  tMax = Infinity,
+  minDt = MIN_EVENT_DT,
+  info?: ConicInfo,
+): number {
   const c = info ?? conicInfo(mu, state, infoScratch);
   if (!(Math.sin(c.i) > 1e-12)) return Infinity;
   // ascending node direction n = ẑ × h (unit); ν of the node = angle from P to n about h
@@ -466,8 +514,12 @@ export function findSoiEntry(q: EntrySearch, out?: EntryResult): EntryResult {
     const body = bodies[k];
     bodyStateRelativeToParent(q.system, k, t, child);
     res.evaluations++;
-    const dx = ship[0] - child[0], dy = ship[1] - child[1], dz = ship[2] - child[2];
-    const dvx = ship[3] - child[3], dvy = ship[4] - child[4], dvz = ship[5] - child[5];
+    const dx = ship[0] - child[0],
+      dy = ship[1] - child[1],
+      dz = ship[2] - child[2];
+    const dvx = ship[3] - child[3],
+      dvy = ship[4] - child[4],
+      dvz = ship[5] - child[5];
     const d = Math.sqrt(dx * dx + dy * dy + dz * dz);
     const R = body.derived.soiRadius;
     const g = d - R;
@@ -506,9 +558,7 @@ export function findSoiEntry(q: EntrySearch, out?: EntryResult): EntryResult {
     // the window ends at an impact (callers cap tEnd there), so the ship stays above the surface
     const rShipMin = Math.max(
       rSurface,
-      open && ship[0] * ship[3] + ship[1] * ship[4] + ship[2] * ship[5] >= 0
-        ? Math.sqrt(ship[0] * ship[0] + ship[1] * ship[1] + ship[2] * ship[2])
-        : c.rp,
+      open && ship[0] * ship[3] + ship[1] * ship[4] + ship[2] * ship[5] >= 0 ? Math.sqrt(ship[0] * ship[0] + ship[1] * ship[1] + ship[2] * ship[2]) : c.rp,
     );
     const A = q.mu / (rShipMin * rShipMin) + body.derived.orbitMu / (body.derived.periapsis * body.derived.periapsis);
     const ga = Math.abs(g);

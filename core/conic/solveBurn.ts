@@ -107,12 +107,7 @@ function pickLambert(sols: LambertSolution[], revs: number, vx: number, vy: numb
 }
 
 /** 'transfer' (see the module comment). */
-export function solveTransfer(
-  ctx: SolveContext,
-  solve: Extract<BurnSolve, { kind: 'transfer' }>,
-  out: Vec3,
-  info?: SolveInfo,
-): Vec3 {
+export function solveTransfer(ctx: SolveContext, solve: Extract<BurnSolve, { kind: 'transfer' }>, out: Vec3, info?: SolveInfo): Vec3 {
   const { system, central, t, state } = ctx;
   const target = findBodyIndex(system, solve.to);
   if (target < 0) fail(`unknown target body "${solve.to}"`);
@@ -202,10 +197,14 @@ function aimForPeriapsis(
   const arrive = t + tof;
   if (!(rpWanted > 0)) fail(`periapsis altitude puts the periapsis below ${tb.name}'s centre`);
   // v∞ of the arc aimed at the centre; B and the side (b̂ = v̂∞ × ẑ → prograde arrival)
-  const vix = centreSol.v2[0] - tgt6[3], viy = centreSol.v2[1] - tgt6[4], viz = centreSol.v2[2] - tgt6[5];
+  const vix = centreSol.v2[0] - tgt6[3],
+    viy = centreSol.v2[1] - tgt6[4],
+    viz = centreSol.v2[2] - tgt6[5];
   const vinf = Math.hypot(vix, viy, viz);
   if (!(vinf > 0)) fail(`zero arrival excess velocity at ${tb.name}`);
-  let bx = viy, by = -vix, bz = 0; // v̂∞ × ẑ (unnormalised)
+  let bx = viy,
+    by = -vix,
+    bz = 0; // v̂∞ × ẑ (unnormalised)
   let bn = Math.hypot(bx, by, bz);
   if (bn < 1e-9 * vinf) {
     bx = 0;
@@ -315,12 +314,18 @@ function predictedPeriapsis(
  * velocity after the SOI exit differs from the Lambert v1 (a mid-course burn corrects this).
  */
 export function hyperbolicDeparture(mu: number, state: ArrayLike<number>, vInf: ArrayLike<number>, out: Vec3): Vec3 {
-  const rx = state[0], ry = state[1], rz = state[2];
+  const rx = state[0],
+    ry = state[1],
+    rz = state[2];
   const r = Math.hypot(rx, ry, rz);
   const vi = Math.hypot(vInf[0], vInf[1], vInf[2]);
   if (!(vi > 0)) fail('zero excess velocity: nothing to depart on');
-  const ux = vInf[0] / vi, uy = vInf[1] / vi, uz = vInf[2] / vi;
-  const rhx = rx / r, rhy = ry / r, rhz = rz / r;
+  const ux = vInf[0] / vi,
+    uy = vInf[1] / vi,
+    uz = vInf[2] / vi;
+  const rhx = rx / r,
+    rhy = ry / r,
+    rhz = rz / r;
   // w = r̂ × û
   let wx = rhy * uz - rhz * uy;
   let wy = rhz * ux - rhx * uz;
@@ -336,7 +341,9 @@ export function hyperbolicDeparture(mu: number, state: ArrayLike<number>, vInf: 
   let best = Infinity;
   for (let sense = 0; sense < 2; sense++) {
     const th = sense === 0 ? theta1 : 2 * Math.PI - theta1;
-    const hx = sense === 0 ? wx : -wx, hy = sense === 0 ? wy : -wy, hz = sense === 0 ? wz : -wz;
+    const hx = sense === 0 ? wx : -wx,
+      hy = sense === 0 ? wy : -wy,
+      hz = sense === 0 ? wz : -wz;
     const st = Math.sin(th);
     const oneMinusCos = 2 * Math.sin(0.5 * th) ** 2;
     const s = 0.5 * (k * st + Math.sqrt(k * k * st * st + 4 * k * oneMinusCos));
@@ -351,7 +358,9 @@ export function hyperbolicDeparture(mu: number, state: ArrayLike<number>, vInf: 
     const tx = hy * rhz - hz * rhy;
     const ty = hz * rhx - hx * rhz;
     const tz = hx * rhy - hy * rhx;
-    const vx = vr * rhx + vt * tx, vy = vr * rhy + vt * ty, vz = vr * rhz + vt * tz;
+    const vx = vr * rhx + vt * tx,
+      vy = vr * rhy + vt * ty,
+      vz = vr * rhz + vt * tz;
     const cost = Math.hypot(vx - state[3], vy - state[4], vz - state[5]);
     if (cost < best && Number.isFinite(cost)) {
       best = cost;
@@ -367,7 +376,8 @@ export function hyperbolicDeparture(mu: number, state: ArrayLike<number>, vInf: 
 /** 'capture': along ±V, the speed giving eccentricity e (see the module comment). */
 export function solveCapture(mu: number, state: ArrayLike<number>, e: number, out: Vec3): Vec3 {
   const c = conicInfo(mu, state, ci);
-  const r = c.r, v = c.v;
+  const r = c.r,
+    v = c.v;
   const cos2 = (c.h / (r * v)) ** 2; // cos² of the flight-path angle
   const disc = 1 - (1 - e * e) / cos2;
   if (!(disc >= 0)) fail(`eccentricity ${e} cannot be reached by a burn along the velocity here (flight-path angle too steep)`);
@@ -386,11 +396,19 @@ export function solveCapture(mu: number, state: ArrayLike<number>, e: number, ou
 
 /** 'plane': rotate v about r̂ by the smallest angle giving inclination i (see the module comment). */
 export function solvePlane(state: ArrayLike<number>, inc: number, out: Vec3): Vec3 {
-  const rx = state[0], ry = state[1], rz = state[2];
-  const vx = state[3], vy = state[4], vz = state[5];
+  const rx = state[0],
+    ry = state[1],
+    rz = state[2];
+  const vx = state[3],
+    vy = state[4],
+    vz = state[5];
   const r = Math.hypot(rx, ry, rz);
-  const ux = rx / r, uy = ry / r, uz = rz / r;
-  const hx = ry * vz - rz * vy, hy = rz * vx - rx * vz, hz = rx * vy - ry * vx;
+  const ux = rx / r,
+    uy = ry / r,
+    uz = rz / r;
+  const hx = ry * vz - rz * vy,
+    hy = rz * vx - rx * vz,
+    hz = rx * vy - ry * vx;
   const h = Math.hypot(hx, hy, hz);
   if (!(h > 0)) fail('rectilinear orbit: no orbit plane to rotate');
   // z components of h and r̂ × h
@@ -407,9 +425,12 @@ export function solvePlane(state: ArrayLike<number>, inc: number, out: Vec3): Ve
   const pa = wrap(phi0 + dphi);
   const pb = wrap(phi0 - dphi);
   const phi = Math.abs(pa) <= Math.abs(pb) ? pa : pb;
-  const cp = Math.cos(phi), sp = Math.sin(phi);
+  const cp = Math.cos(phi),
+    sp = Math.sin(phi);
   // Rodrigues: v' = v cos φ + (û × v) sin φ + û (û·v)(1 − cos φ)
-  const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx;
+  const cx = uy * vz - uz * vy,
+    cy = uz * vx - ux * vz,
+    cz = ux * vy - uy * vx;
   const ud = ux * vx + uy * vy + uz * vz;
   const omc = 2 * Math.sin(0.5 * phi) ** 2;
   out[0] = vx * (cp - 1) + cx * sp + ux * ud * omc;

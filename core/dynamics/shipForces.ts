@@ -275,7 +275,7 @@ export class ShipForces {
       const ib3 = 1 / (b2 * rb);
       // |b|³ − |a|³ = (|b| − |a|)(|a|² + |a||b| + |b|²), |b| − |a| = −d·(a + b)/(|a| + |b|)
       const s = dx * (axx + bx) + dy * (ayy + by) + dz * (azz + bz);
-      const w = ((-s / (ra + rb)) * (a2 + ra * rb + b2)) * ia3 * ib3;
+      const w = (-s / (ra + rb)) * (a2 + ra * rb + b2) * ia3 * ib3;
       this.ax += m * (dx * ia3 + bx * w);
       this.ay += m * (dy * ia3 + by * w);
       this.az += m * (dz * ia3 + bz * w);
@@ -302,7 +302,9 @@ export class ShipForces {
     for (let i = 0; i < links.length; i++) {
       const j = links[i];
       const p = this.parent[j];
-      const cx = C[3 * j], cy = C[3 * j + 1], cz = C[3 * j + 2];
+      const cx = C[3 * j],
+        cy = C[3 * j + 1],
+        cz = C[3 * j + 2];
       const mp = this.bodyMu[p];
       if (mu[p] > 0) {
         // μ_p [g(P_p − x) − g(−c_j)], d = P_j − x
@@ -321,7 +323,9 @@ export class ShipForces {
       }
     }
     // every other pulling body: its pull with its indirect term, d = P_star − x
-    const sx = P[0] - x0, sy = P[1] - x1, sz = P[2] - x2;
+    const sx = P[0] - x0,
+      sy = P[1] - x1,
+      sz = P[2] - x2;
     const order = this.order;
     for (let q = 0; q < order.length; q++) {
       const k = order[q];
@@ -343,7 +347,9 @@ export class ShipForces {
     }
     if (this.thrust > 0) {
       const a = this.thrust / (this.thrustMass0 - this.thrustMdot * (t - this.thrustT0));
-      let ux = this.thrustU[0], uy = this.thrustU[1], uz = this.thrustU[2];
+      let ux = this.thrustU[0],
+        uy = this.thrustU[1],
+        uz = this.thrustU[2];
       if (this.thrustVnb) {
         const r = this.r3;
         const v = this.v3;
@@ -420,7 +426,9 @@ export class ShipForces {
     this.update(t);
     for (let i = 0; i < this.links.length; i++) {
       const j = this.links[i];
-      const cx = this.C[3 * j], cy = this.C[3 * j + 1], cz = this.C[3 * j + 2];
+      const cx = this.C[3 * j],
+        cy = this.C[3 * j + 1],
+        cz = this.C[3 * j + 2];
       const r2 = cx * cx + cy * cy + cz * cz;
       const k = -this.orbitMu[j] / (r2 * Math.sqrt(r2));
       out[0] += k * cx;
@@ -438,7 +446,9 @@ export class ShipForces {
     for (let q = 0; q < this.order.length; q++) {
       const k = this.order[q];
       if (!(this.mu[k] > 0)) continue;
-      const rx = this.R[3 * k], ry = this.R[3 * k + 1], rz = this.R[3 * k + 2];
+      const rx = this.R[3 * k],
+        ry = this.R[3 * k + 1],
+        rz = this.R[3 * k + 2];
       const r2 = rx * rx + ry * ry + rz * rz;
       const f = this.mu[k] / (r2 * Math.sqrt(r2));
       out[0] += f * rx;

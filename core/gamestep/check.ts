@@ -191,7 +191,13 @@ export function gameStepCheck(system: StarSystem, plan: Plan, options: GameStepO
   const physics = normalizePhysics(options.physics);
   const prep =
     options.prepared ??
-    prepareGameStep(system, plan, { gravity: physics.gravity, burns: physics.burns, guidance: physics.guidance, result: options.result, signal: options.signal });
+    prepareGameStep(system, plan, {
+      gravity: physics.gravity,
+      burns: physics.burns,
+      guidance: physics.guidance,
+      result: options.result,
+      signal: options.signal,
+    });
   if (prep.gravity !== physics.gravity || prep.burnModel !== physics.burns || prep.guidance !== physics.guidance) {
     throw new InputError(
       'prepared',
@@ -204,9 +210,19 @@ export function gameStepCheck(system: StarSystem, plan: Plan, options: GameStepO
   const energyTolerance = options.energyTolerance ?? DEFAULT_ENERGY_TOLERANCE;
   requireFinite('energyTolerance', energyTolerance);
   if (!(energyTolerance > 0)) throw new InputError('energyTolerance', 'must be > 0', energyTolerance);
-  const maxSteps = requireWithinLimit('maxStepsPerSpan', positiveInteger('maxStepsPerSpan', options.maxStepsPerSpan, DEFAULT_MAX_STEPS_PER_SPAN), MAX_GAME_STEPS, 'game steps');
+  const maxSteps = requireWithinLimit(
+    'maxStepsPerSpan',
+    positiveInteger('maxStepsPerSpan', options.maxStepsPerSpan, DEFAULT_MAX_STEPS_PER_SPAN),
+    MAX_GAME_STEPS,
+    'game steps',
+  );
   const windowSteps = Math.min(positiveInteger('windowSteps', options.windowSteps, DEFAULT_WINDOW_STEPS, 16), maxSteps);
-  const samples = requireWithinLimit('samplesPerSpan', positiveInteger('samplesPerSpan', options.samplesPerSpan, DEFAULT_SAMPLES_PER_SPAN, 2), MAX_GAME_SAMPLES_PER_SPAN, 'samples');
+  const samples = requireWithinLimit(
+    'samplesPerSpan',
+    positiveInteger('samplesPerSpan', options.samplesPerSpan, DEFAULT_SAMPLES_PER_SPAN, 2),
+    MAX_GAME_SAMPLES_PER_SPAN,
+    'samples',
+  );
   const warpDt = options.warpDt;
   if (warpDt !== undefined) {
     requireFinite('warpDt', warpDt);
@@ -542,7 +558,6 @@ class GameStepRun {
     }
   }
 
-
   /**
    * Energy drift per orbit of the game's physics on span s's orbit: PROBE_ORBITS periods flown
    * without burns from the reference state at the span's start, against a reference flight of
@@ -633,16 +648,14 @@ class GameStepRun {
     // the criterion uses drifts measured over a whole orbit; a trend over part of one is indicative only
     let maxDrift: number | null = null;
     for (const s of spans) {
-      if (s.driftPerOrbit !== null && (s.driftMethod === 'per-orbit' || s.driftMethod === 'probe')) maxDrift = Math.max(maxDrift ?? 0, Math.abs(s.driftPerOrbit));
+      if (s.driftPerOrbit !== null && (s.driftMethod === 'per-orbit' || s.driftMethod === 'probe'))
+        maxDrift = Math.max(maxDrift ?? 0, Math.abs(s.driftPerOrbit));
     }
     const float32: Float32Row[] = float32Table(this.spans, this.hs, physics.rebase);
     const arrival = this.arrival ?? (!this.prep.arrival && this.end && this.status === 'done' ? { ...this.end, body: -1 } : null);
     const missPoint = arrival;
     const passes =
-      this.status === 'done' &&
-      missPoint !== null &&
-      missPoint.positionError <= this.o.tolerance &&
-      (maxDrift === null || maxDrift <= this.o.energyTolerance);
+      this.status === 'done' && missPoint !== null && missPoint.positionError <= this.o.tolerance && (maxDrift === null || maxDrift <= this.o.energyTolerance);
     const failed = [...new Set([...this.flight.solveFailures, ...this.prep.referenceStats.solveFailures])];
     if (failed.length > 0) this.notes.push(`burn solve failed for ${failed.join(', ')}: flown with the plan's Δv`);
     if (missPoint && missPoint.positionError < this.prep.referenceError) {

@@ -29,8 +29,14 @@ export function fitPowerLaw(tau: ArrayLike<number>, e: ArrayLike<number>, fromFr
   let tMax = 0;
   for (let i = 0; i < tau.length; i++) if (tau[i] > tMax) tMax = tau[i];
   const lo = fromFraction * tMax;
-  let n = 0, sx = 0, sy = 0, sxx = 0, sxy = 0, syy = 0;
-  let lastT = 0, lastE = 0;
+  let n = 0,
+    sx = 0,
+    sy = 0,
+    sxx = 0,
+    sxy = 0,
+    syy = 0;
+  let lastT = 0,
+    lastE = 0;
   for (let i = 0; i < tau.length; i++) {
     if (!(tau[i] > 0 && tau[i] >= lo && e[i] > 0 && Number.isFinite(e[i]))) continue;
     const x = Math.log(tau[i]);
@@ -67,14 +73,16 @@ export function powerLawAt(f: PowerLawFit, tau: number): number {
 export function trendSlope(t: ArrayLike<number>, y: ArrayLike<number>): number {
   const n = Math.min(t.length, y.length);
   if (n < 2) return 0;
-  let st = 0, sy = 0;
+  let st = 0,
+    sy = 0;
   for (let i = 0; i < n; i++) {
     st += t[i];
     sy += y[i];
   }
   const mt = st / n;
   const my = sy / n;
-  let num = 0, den = 0;
+  let num = 0,
+    den = 0;
   for (let i = 0; i < n; i++) {
     num += (t[i] - mt) * (y[i] - my);
     den += (t[i] - mt) * (t[i] - mt);

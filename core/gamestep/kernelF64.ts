@@ -128,9 +128,15 @@ function mustStop(c: GameCraft, t: number, px: number, py: number, pz: number): 
 function advanceSymplecticEuler(c: GameCraft, t0: number, h: number, n: number): number {
   const acc = c.accel;
   const A = c.a;
-  const tx = c.tx, ty = c.ty, tz = c.tz;
-  let px = c.px, py = c.py, pz = c.pz;
-  let ux = c.ux, uy = c.uy, uz = c.uz;
+  const tx = c.tx,
+    ty = c.ty,
+    tz = c.tz;
+  let px = c.px,
+    py = c.py,
+    pz = c.pz;
+  let ux = c.ux,
+    uy = c.uy,
+    uz = c.uz;
   let k = 0;
   while (k < n) {
     acc(t0 + k * h, px, py, pz, A);
@@ -143,8 +149,12 @@ function advanceSymplecticEuler(c: GameCraft, t0: number, h: number, n: number):
     k++;
     if (mustStop(c, t0 + k * h, px, py, pz)) break;
   }
-  c.px = px; c.py = py; c.pz = pz;
-  c.ux = ux; c.uy = uy; c.uz = uz;
+  c.px = px;
+  c.py = py;
+  c.pz = pz;
+  c.ux = ux;
+  c.uy = uy;
+  c.uz = uz;
   c.gValid = false;
   c.evals += k;
   return k;
@@ -154,10 +164,18 @@ function advanceVerlet(c: GameCraft, t0: number, h: number, n: number): number {
   const acc = c.accel;
   const A = c.a;
   const hh = R(0.5 * h);
-  const tx = c.tx, ty = c.ty, tz = c.tz;
-  let px = c.px, py = c.py, pz = c.pz;
-  let ux = c.ux, uy = c.uy, uz = c.uz;
-  let gx = c.gx, gy = c.gy, gz = c.gz;
+  const tx = c.tx,
+    ty = c.ty,
+    tz = c.tz;
+  let px = c.px,
+    py = c.py,
+    pz = c.pz;
+  let ux = c.ux,
+    uy = c.uy,
+    uz = c.uz;
+  let gx = c.gx,
+    gy = c.gy,
+    gz = c.gz;
   if (n > 0 && !c.gValid) {
     acc(t0, px, py, pz, A);
     gx = A[0];
@@ -184,9 +202,15 @@ function advanceVerlet(c: GameCraft, t0: number, h: number, n: number): number {
     uz = R(uz + R(hh * R(gz + tz)));
     if (mustStop(c, t1, px, py, pz)) break;
   }
-  c.px = px; c.py = py; c.pz = pz;
-  c.ux = ux; c.uy = uy; c.uz = uz;
-  c.gx = gx; c.gy = gy; c.gz = gz;
+  c.px = px;
+  c.py = py;
+  c.pz = pz;
+  c.ux = ux;
+  c.uy = uy;
+  c.uz = uz;
+  c.gx = gx;
+  c.gy = gy;
+  c.gz = gz;
   c.gValid = c.gValid || n > 0;
   c.evals += k;
   return k;
@@ -195,9 +219,15 @@ function advanceVerlet(c: GameCraft, t0: number, h: number, n: number): number {
 function advanceExplicitEuler(c: GameCraft, t0: number, h: number, n: number): number {
   const acc = c.accel;
   const A = c.a;
-  const tx = c.tx, ty = c.ty, tz = c.tz;
-  let px = c.px, py = c.py, pz = c.pz;
-  let ux = c.ux, uy = c.uy, uz = c.uz;
+  const tx = c.tx,
+    ty = c.ty,
+    tz = c.tz;
+  let px = c.px,
+    py = c.py,
+    pz = c.pz;
+  let ux = c.ux,
+    uy = c.uy,
+    uz = c.uz;
   let k = 0;
   while (k < n) {
     acc(t0 + k * h, px, py, pz, A);
@@ -213,8 +243,12 @@ function advanceExplicitEuler(c: GameCraft, t0: number, h: number, n: number): n
     k++;
     if (mustStop(c, t0 + k * h, px, py, pz)) break;
   }
-  c.px = px; c.py = py; c.pz = pz;
-  c.ux = ux; c.uy = uy; c.uz = uz;
+  c.px = px;
+  c.py = py;
+  c.pz = pz;
+  c.ux = ux;
+  c.uy = uy;
+  c.uz = uz;
   c.gValid = false;
   c.evals += k;
   return k;
@@ -225,23 +259,43 @@ function advanceRk4(c: GameCraft, t0: number, h: number, n: number): number {
   const A = c.a;
   const hh = R(0.5 * h);
   const h6 = R(h / 6);
-  const tx = c.tx, ty = c.ty, tz = c.tz;
-  let px = c.px, py = c.py, pz = c.pz;
-  let ux = c.ux, uy = c.uy, uz = c.uz;
+  const tx = c.tx,
+    ty = c.ty,
+    tz = c.tz;
+  let px = c.px,
+    py = c.py,
+    pz = c.pz;
+  let ux = c.ux,
+    uy = c.uy,
+    uz = c.uz;
   let k = 0;
   while (k < n) {
     const t = t0 + k * h;
     acc(t, px, py, pz, A);
-    const a1x = R(A[0] + tx), a1y = R(A[1] + ty), a1z = R(A[2] + tz);
-    const v2x = R(ux + R(hh * a1x)), v2y = R(uy + R(hh * a1y)), v2z = R(uz + R(hh * a1z));
+    const a1x = R(A[0] + tx),
+      a1y = R(A[1] + ty),
+      a1z = R(A[2] + tz);
+    const v2x = R(ux + R(hh * a1x)),
+      v2y = R(uy + R(hh * a1y)),
+      v2z = R(uz + R(hh * a1z));
     acc(t + hh, R(px + R(hh * ux)), R(py + R(hh * uy)), R(pz + R(hh * uz)), A);
-    const a2x = R(A[0] + tx), a2y = R(A[1] + ty), a2z = R(A[2] + tz);
-    const v3x = R(ux + R(hh * a2x)), v3y = R(uy + R(hh * a2y)), v3z = R(uz + R(hh * a2z));
+    const a2x = R(A[0] + tx),
+      a2y = R(A[1] + ty),
+      a2z = R(A[2] + tz);
+    const v3x = R(ux + R(hh * a2x)),
+      v3y = R(uy + R(hh * a2y)),
+      v3z = R(uz + R(hh * a2z));
     acc(t + hh, R(px + R(hh * v2x)), R(py + R(hh * v2y)), R(pz + R(hh * v2z)), A);
-    const a3x = R(A[0] + tx), a3y = R(A[1] + ty), a3z = R(A[2] + tz);
-    const v4x = R(ux + R(h * a3x)), v4y = R(uy + R(h * a3y)), v4z = R(uz + R(h * a3z));
+    const a3x = R(A[0] + tx),
+      a3y = R(A[1] + ty),
+      a3z = R(A[2] + tz);
+    const v4x = R(ux + R(h * a3x)),
+      v4y = R(uy + R(h * a3y)),
+      v4z = R(uz + R(h * a3z));
     acc(t + h, R(px + R(h * v3x)), R(py + R(h * v3y)), R(pz + R(h * v3z)), A);
-    const a4x = R(A[0] + tx), a4y = R(A[1] + ty), a4z = R(A[2] + tz);
+    const a4x = R(A[0] + tx),
+      a4y = R(A[1] + ty),
+      a4z = R(A[2] + tz);
     px = R(px + R(h6 * R(R(R(ux + R(2 * v2x)) + R(2 * v3x)) + v4x)));
     py = R(py + R(h6 * R(R(R(uy + R(2 * v2y)) + R(2 * v3y)) + v4y)));
     pz = R(pz + R(h6 * R(R(R(uz + R(2 * v2z)) + R(2 * v3z)) + v4z)));
@@ -251,8 +305,12 @@ function advanceRk4(c: GameCraft, t0: number, h: number, n: number): number {
     k++;
     if (mustStop(c, t0 + k * h, px, py, pz)) break;
   }
-  c.px = px; c.py = py; c.pz = pz;
-  c.ux = ux; c.uy = uy; c.uz = uz;
+  c.px = px;
+  c.py = py;
+  c.pz = pz;
+  c.ux = ux;
+  c.uy = uy;
+  c.uz = uz;
   c.gValid = false;
   c.evals += 4 * k;
   return k;

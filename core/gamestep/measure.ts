@@ -12,8 +12,12 @@ export function energyScale(er: number, r: Float64Array, B: Float64Array, mu: nu
 
 // Specific orbital energy of state s (abs) about the body of abs state B and μ.
 export function energyOf(s: Float64Array, B: Float64Array, mu: number): number {
-  const rx = s[0] - B[0], ry = s[1] - B[1], rz = s[2] - B[2];
-  const vx = s[3] - B[3], vy = s[4] - B[4], vz = s[5] - B[5];
+  const rx = s[0] - B[0],
+    ry = s[1] - B[1],
+    rz = s[2] - B[2];
+  const vx = s[3] - B[3],
+    vy = s[4] - B[4],
+    vz = s[5] - B[5];
   return 0.5 * (vx * vx + vy * vy + vz * vz) - mu / Math.hypot(rx, ry, rz);
 }
 
@@ -42,7 +46,9 @@ export function toRtn(r: ArrayLike<number>, B: ArrayLike<number>, g: ArrayLike<n
   rtnBasis(r, B, basis9);
   const u = basis9;
   for (let k = 0; k < 2; k++) {
-    const dx = g[3 * k] - r[3 * k], dy = g[3 * k + 1] - r[3 * k + 1], dz = g[3 * k + 2] - r[3 * k + 2];
+    const dx = g[3 * k] - r[3 * k],
+      dy = g[3 * k + 1] - r[3 * k + 1],
+      dz = g[3 * k + 2] - r[3 * k + 2];
     for (let j = 0; j < 3; j++) out[3 * k + j] = u[j] * dx + u[3 + j] * dy + u[6 + j] * dz;
   }
 }

@@ -201,7 +201,9 @@ export function flyReference(
     stats.fevals += res.stats.fevals;
     if (res.status === 'cancelled') throw new SolverError('game-step reference', 'cancelled', `cancelled at t = ${res.t} s`);
     if (res.status !== 'done' && res.status !== 'event') {
-      throw new SolverError('game-step reference', res.status === 'step-budget' ? 'step-budget' : 'step-underflow', `${res.message} (t = ${res.t} s)`, { t: res.t });
+      throw new SolverError('game-step reference', res.status === 'step-budget' ? 'step-budget' : 'step-underflow', `${res.message} (t = ${res.t} s)`, {
+        t: res.t,
+      });
     }
     if (res.t > t) pieces.push({ t0: t, t1: res.t, central: c, dense: res.dense ?? null });
     t = res.t;

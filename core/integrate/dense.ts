@@ -65,14 +65,7 @@ export class DenseOutput {
    * Appends the cubic Hermite step through (y0, f0 = y'(t0)) and (y1, f1 = y'(t0 + h)):
    * r1 = y0, r2 = y1 − y0, r3 = h·f0 − r2, r4 = r2 − h·f1 − r3, r5 = 0.
    */
-  appendHermite(
-    t0: number,
-    h: number,
-    y0: ArrayLike<number>,
-    f0: ArrayLike<number>,
-    y1: ArrayLike<number>,
-    f1: ArrayLike<number>,
-  ): void {
+  appendHermite(t0: number, h: number, y0: ArrayLike<number>, f0: ArrayLike<number>, y1: ArrayLike<number>, f1: ArrayLike<number>): void {
     const k = this.slot();
     this.starts[k] = t0;
     this.widths[k] = h;

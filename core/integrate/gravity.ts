@@ -64,8 +64,12 @@ export function spacecraftAccel(sources: GravitySource[], thrust?: ThrustModel):
     if (thrust) thrust.accel(t, x, v, out); // a model that writes or one that adds both work on zeroed out
     const len = x.length;
     for (let c = 0; c < len; c += 3) {
-      let ax = 0, ay = 0, az = 0;
-      const x0 = x[c], x1 = x[c + 1], x2 = x[c + 2];
+      let ax = 0,
+        ay = 0,
+        az = 0;
+      const x0 = x[c],
+        x1 = x[c + 1],
+        x2 = x[c + 2];
       for (let j = 0; j < m; j++) {
         const dx = x0 - pos[3 * j];
         const dy = x1 - pos[3 * j + 1];
@@ -125,8 +129,12 @@ export function mutualAccel(mus: ArrayLike<number>): AccelFunction {
     if (x.length !== 3 * N) throw new InputError('x', `must have ${3 * N} components (3 per body)`, x.length);
     out.fill(0);
     for (let i = 0; i < N; i++) {
-      const xi = x[3 * i], yi = x[3 * i + 1], zi = x[3 * i + 2];
-      let ax = out[3 * i], ay = out[3 * i + 1], az = out[3 * i + 2];
+      const xi = x[3 * i],
+        yi = x[3 * i + 1],
+        zi = x[3 * i + 2];
+      let ax = out[3 * i],
+        ay = out[3 * i + 1],
+        az = out[3 * i + 2];
       for (let j = i + 1; j < N; j++) {
         const dx = x[3 * j] - xi;
         const dy = x[3 * j + 1] - yi;

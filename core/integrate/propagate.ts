@@ -309,4 +309,3 @@ function flyFixed(
     stats,
   };
 }
-

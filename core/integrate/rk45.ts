@@ -109,13 +109,7 @@ interface Settings {
 }
 
 /** Integrates y' = f(t, y) from t0 to tEnd (either direction). See the module comment. */
-export function rk45(
-  f: OdeFunction,
-  t0: number,
-  y0: ArrayLike<number>,
-  tEnd: number,
-  options: RK45Options = {},
-): RK45Result {
+export function rk45(f: OdeFunction, t0: number, y0: ArrayLike<number>, tEnd: number, options: RK45Options = {}): RK45Result {
   return solve(f, t0, y0, tEnd, options, true);
 }
 
@@ -123,13 +117,7 @@ export function rk45(
  * The same solver always on the generic n-component loop (never the unrolled n = 6 kernel).
  * Exported for the equivalence test of the two loops; use rk45.
  */
-export function rk45Generic(
-  f: OdeFunction,
-  t0: number,
-  y0: ArrayLike<number>,
-  tEnd: number,
-  options: RK45Options = {},
-): RK45Result {
+export function rk45Generic(f: OdeFunction, t0: number, y0: ArrayLike<number>, tEnd: number, options: RK45Options = {}): RK45Result {
   return solve(f, t0, y0, tEnd, options, false);
 }
 
@@ -289,8 +277,17 @@ function marchN(f: OdeFunction, t0: number, y0: Float64Array, k10: Float64Array,
   // 3..9 = k1..k7 (k1 and k7 swapped by offset: FSAL), 10 = atol.
   const w = new Float64Array(11 * n);
   const view = (slot: number): Float64Array => w.subarray(slot * n, slot * n + n);
-  let oY = 0, oN = n, oK1 = 3 * n, oK7 = 9 * n;
-  const oS = 2 * n, o2 = 4 * n, o3 = 5 * n, o4 = 6 * n, o5 = 7 * n, o6 = 8 * n, oA = 10 * n;
+  let oY = 0,
+    oN = n,
+    oK1 = 3 * n,
+    oK7 = 9 * n;
+  const oS = 2 * n,
+    o2 = 4 * n,
+    o3 = 5 * n,
+    o4 = 6 * n,
+    o5 = 7 * n,
+    o6 = 8 * n,
+    oA = 10 * n;
   let y = view(0);
   let ynew = view(1);
   const ys = view(2);
@@ -307,15 +304,37 @@ function marchN(f: OdeFunction, t0: number, y0: Float64Array, k10: Float64Array,
   const rc = new Float64Array(5 * n);
 
   // Dormand–Prince 5(4) tableau (Hairer et al., Table II.5.2).
-  const C2 = 1 / 5, C3 = 3 / 10, C4 = 4 / 5, C5 = 8 / 9;
+  const C2 = 1 / 5,
+    C3 = 3 / 10,
+    C4 = 4 / 5,
+    C5 = 8 / 9;
   const A21 = 1 / 5;
-  const A31 = 3 / 40, A32 = 9 / 40;
-  const A41 = 44 / 45, A42 = -56 / 15, A43 = 32 / 9;
-  const A51 = 19372 / 6561, A52 = -25360 / 2187, A53 = 64448 / 6561, A54 = -212 / 729;
-  const A61 = 9017 / 3168, A62 = -355 / 33, A63 = 46732 / 5247, A64 = 49 / 176, A65 = -5103 / 18656;
-  const A71 = 35 / 384, A73 = 500 / 1113, A74 = 125 / 192, A75 = -2187 / 6784, A76 = 11 / 84;
+  const A31 = 3 / 40,
+    A32 = 9 / 40;
+  const A41 = 44 / 45,
+    A42 = -56 / 15,
+    A43 = 32 / 9;
+  const A51 = 19372 / 6561,
+    A52 = -25360 / 2187,
+    A53 = 64448 / 6561,
+    A54 = -212 / 729;
+  const A61 = 9017 / 3168,
+    A62 = -355 / 33,
+    A63 = 46732 / 5247,
+    A64 = 49 / 176,
+    A65 = -5103 / 18656;
+  const A71 = 35 / 384,
+    A73 = 500 / 1113,
+    A74 = 125 / 192,
+    A75 = -2187 / 6784,
+    A76 = 11 / 84;
   // Error coefficients b − b̂ (5th- minus 4th-order weights).
-  const E1 = 71 / 57600, E3 = -71 / 16695, E4 = 71 / 1920, E5 = -17253 / 339200, E6 = 22 / 525, E7 = -1 / 40;
+  const E1 = 71 / 57600,
+    E3 = -71 / 16695,
+    E4 = 71 / 1920,
+    E5 = -17253 / 339200,
+    E6 = 22 / 525,
+    E7 = -1 / 40;
 
   let t = t0;
   let h = h0;
@@ -455,24 +474,67 @@ function march6(f: OdeFunction, t0: number, yIn: Float64Array, k1In: Float64Arra
   const out = new Float64Array(6); // f's output
   // Vectors for the dense output and the event locator, filled only when they need them.
   const wv = new Float64Array(54);
-  const vy = wv.subarray(0, 6), vn = wv.subarray(6, 12), v1 = wv.subarray(12, 18), v3 = wv.subarray(18, 24);
-  const v4 = wv.subarray(24, 30), v5 = wv.subarray(30, 36), v6 = wv.subarray(36, 42), v7 = wv.subarray(42, 48);
+  const vy = wv.subarray(0, 6),
+    vn = wv.subarray(6, 12),
+    v1 = wv.subarray(12, 18),
+    v3 = wv.subarray(18, 24);
+  const v4 = wv.subarray(24, 30),
+    v5 = wv.subarray(30, 36),
+    v6 = wv.subarray(36, 42),
+    v7 = wv.subarray(42, 48);
   const rc = new Float64Array(30);
-  const at0 = s.atol[0], at1 = s.atol[1], at2 = s.atol[2], at3 = s.atol[3], at4 = s.atol[4], at5 = s.atol[5];
+  const at0 = s.atol[0],
+    at1 = s.atol[1],
+    at2 = s.atol[2],
+    at3 = s.atol[3],
+    at4 = s.atol[4],
+    at5 = s.atol[5];
 
   // Dormand–Prince 5(4) tableau (Hairer et al., Table II.5.2).
-  const C2 = 1 / 5, C3 = 3 / 10, C4 = 4 / 5, C5 = 8 / 9;
+  const C2 = 1 / 5,
+    C3 = 3 / 10,
+    C4 = 4 / 5,
+    C5 = 8 / 9;
   const A21 = 1 / 5;
-  const A31 = 3 / 40, A32 = 9 / 40;
-  const A41 = 44 / 45, A42 = -56 / 15, A43 = 32 / 9;
-  const A51 = 19372 / 6561, A52 = -25360 / 2187, A53 = 64448 / 6561, A54 = -212 / 729;
-  const A61 = 9017 / 3168, A62 = -355 / 33, A63 = 46732 / 5247, A64 = 49 / 176, A65 = -5103 / 18656;
-  const A71 = 35 / 384, A73 = 500 / 1113, A74 = 125 / 192, A75 = -2187 / 6784, A76 = 11 / 84;
+  const A31 = 3 / 40,
+    A32 = 9 / 40;
+  const A41 = 44 / 45,
+    A42 = -56 / 15,
+    A43 = 32 / 9;
+  const A51 = 19372 / 6561,
+    A52 = -25360 / 2187,
+    A53 = 64448 / 6561,
+    A54 = -212 / 729;
+  const A61 = 9017 / 3168,
+    A62 = -355 / 33,
+    A63 = 46732 / 5247,
+    A64 = 49 / 176,
+    A65 = -5103 / 18656;
+  const A71 = 35 / 384,
+    A73 = 500 / 1113,
+    A74 = 125 / 192,
+    A75 = -2187 / 6784,
+    A76 = 11 / 84;
   // Error coefficients b − b̂ (5th- minus 4th-order weights).
-  const E1 = 71 / 57600, E3 = -71 / 16695, E4 = 71 / 1920, E5 = -17253 / 339200, E6 = 22 / 525, E7 = -1 / 40;
+  const E1 = 71 / 57600,
+    E3 = -71 / 16695,
+    E4 = 71 / 1920,
+    E5 = -17253 / 339200,
+    E6 = 22 / 525,
+    E7 = -1 / 40;
 
-  let y0 = yIn[0], y1 = yIn[1], y2 = yIn[2], y3 = yIn[3], y4 = yIn[4], y5 = yIn[5];
-  let a0 = k1In[0], a1 = k1In[1], a2 = k1In[2], a3 = k1In[3], a4 = k1In[4], a5 = k1In[5];
+  let y0 = yIn[0],
+    y1 = yIn[1],
+    y2 = yIn[2],
+    y3 = yIn[3],
+    y4 = yIn[4],
+    y5 = yIn[5];
+  let a0 = k1In[0],
+    a1 = k1In[1],
+    a2 = k1In[2],
+    a3 = k1In[3],
+    a4 = k1In[4],
+    a5 = k1In[5];
 
   let t = t0;
   let h = h0;
@@ -506,7 +568,12 @@ function march6(f: OdeFunction, t0: number, yIn: Float64Array, k1In: Float64Arra
     arg[4] = y4 + hs * A21 * a4;
     arg[5] = y5 + hs * A21 * a5;
     f(t + C2 * hs, arg, out);
-    const b0 = out[0], b1 = out[1], b2 = out[2], b3 = out[3], b4 = out[4], b5 = out[5];
+    const b0 = out[0],
+      b1 = out[1],
+      b2 = out[2],
+      b3 = out[3],
+      b4 = out[4],
+      b5 = out[5];
     // Stage 3.
     arg[0] = y0 + hs * (A31 * a0 + A32 * b0);
     arg[1] = y1 + hs * (A31 * a1 + A32 * b1);
@@ -515,7 +582,12 @@ function march6(f: OdeFunction, t0: number, yIn: Float64Array, k1In: Float64Arra
     arg[4] = y4 + hs * (A31 * a4 + A32 * b4);
     arg[5] = y5 + hs * (A31 * a5 + A32 * b5);
     f(t + C3 * hs, arg, out);
-    const c0 = out[0], c1 = out[1], c2 = out[2], c3 = out[3], c4 = out[4], c5 = out[5];
+    const c0 = out[0],
+      c1 = out[1],
+      c2 = out[2],
+      c3 = out[3],
+      c4 = out[4],
+      c5 = out[5];
     // Stage 4.
     arg[0] = y0 + hs * (A41 * a0 + A42 * b0 + A43 * c0);
     arg[1] = y1 + hs * (A41 * a1 + A42 * b1 + A43 * c1);
@@ -524,7 +596,12 @@ function march6(f: OdeFunction, t0: number, yIn: Float64Array, k1In: Float64Arra
     arg[4] = y4 + hs * (A41 * a4 + A42 * b4 + A43 * c4);
     arg[5] = y5 + hs * (A41 * a5 + A42 * b5 + A43 * c5);
     f(t + C4 * hs, arg, out);
-    const d0 = out[0], d1 = out[1], d2 = out[2], d3 = out[3], d4 = out[4], d5 = out[5];
+    const d0 = out[0],
+      d1 = out[1],
+      d2 = out[2],
+      d3 = out[3],
+      d4 = out[4],
+      d5 = out[5];
     // Stage 5.
     arg[0] = y0 + hs * (A51 * a0 + A52 * b0 + A53 * c0 + A54 * d0);
     arg[1] = y1 + hs * (A51 * a1 + A52 * b1 + A53 * c1 + A54 * d1);
@@ -533,7 +610,12 @@ function march6(f: OdeFunction, t0: number, yIn: Float64Array, k1In: Float64Arra
     arg[4] = y4 + hs * (A51 * a4 + A52 * b4 + A53 * c4 + A54 * d4);
     arg[5] = y5 + hs * (A51 * a5 + A52 * b5 + A53 * c5 + A54 * d5);
     f(t + C5 * hs, arg, out);
-    const e0 = out[0], e1 = out[1], e2 = out[2], e3 = out[3], e4 = out[4], e5 = out[5];
+    const e0 = out[0],
+      e1 = out[1],
+      e2 = out[2],
+      e3 = out[3],
+      e4 = out[4],
+      e5 = out[5];
     // Stage 6.
     arg[0] = y0 + hs * (A61 * a0 + A62 * b0 + A63 * c0 + A64 * d0 + A65 * e0);
     arg[1] = y1 + hs * (A61 * a1 + A62 * b1 + A63 * c1 + A64 * d1 + A65 * e1);
@@ -543,7 +625,12 @@ function march6(f: OdeFunction, t0: number, yIn: Float64Array, k1In: Float64Arra
     arg[5] = y5 + hs * (A61 * a5 + A62 * b5 + A63 * c5 + A64 * d5 + A65 * e5);
     const tn = last ? tEnd : t + hs;
     f(tn, arg, out);
-    const g0 = out[0], g1 = out[1], g2 = out[2], g3 = out[3], g4 = out[4], g5 = out[5];
+    const g0 = out[0],
+      g1 = out[1],
+      g2 = out[2],
+      g3 = out[3],
+      g4 = out[4],
+      g5 = out[5];
     // Stage 7: the new point (5th order) and its derivative (FSAL).
     const n0 = y0 + hs * (A71 * a0 + A73 * c0 + A74 * d0 + A75 * e0 + A76 * g0);
     const n1 = y1 + hs * (A71 * a1 + A73 * c1 + A74 * d1 + A75 * e1 + A76 * g1);
@@ -558,7 +645,12 @@ function march6(f: OdeFunction, t0: number, yIn: Float64Array, k1In: Float64Arra
     arg[4] = n4;
     arg[5] = n5;
     f(tn, arg, out);
-    const q0 = out[0], q1 = out[1], q2 = out[2], q3 = out[3], q4 = out[4], q5 = out[5];
+    const q0 = out[0],
+      q1 = out[1],
+      q2 = out[2],
+      q3 = out[3],
+      q4 = out[4],
+      q5 = out[5];
     stats.fevals += 6;
 
     // Embedded error estimate (as in marchN).
@@ -598,25 +690,133 @@ function march6(f: OdeFunction, t0: number, yIn: Float64Array, k1In: Float64Arra
     stats.accepted++;
 
     if (dense || hasEvents) {
-      vn[0] = n0; vn[1] = n1; vn[2] = n2; vn[3] = n3; vn[4] = n4; vn[5] = n5;
+      vn[0] = n0;
+      vn[1] = n1;
+      vn[2] = n2;
+      vn[3] = n3;
+      vn[4] = n4;
+      vn[5] = n5;
       let rcReady = false;
       if (dense) {
-        fill6(vy, v1, v3, v4, v5, v6, v7, y0, y1, y2, y3, y4, y5, a0, a1, a2, a3, a4, a5, c0, c1, c2, c3, c4, c5, d0, d1, d2, d3, d4, d5,
-          e0, e1, e2, e3, e4, e5, g0, g1, g2, g3, g4, g5, q0, q1, q2, q3, q4, q5);
+        fill6(
+          vy,
+          v1,
+          v3,
+          v4,
+          v5,
+          v6,
+          v7,
+          y0,
+          y1,
+          y2,
+          y3,
+          y4,
+          y5,
+          a0,
+          a1,
+          a2,
+          a3,
+          a4,
+          a5,
+          c0,
+          c1,
+          c2,
+          c3,
+          c4,
+          c5,
+          d0,
+          d1,
+          d2,
+          d3,
+          d4,
+          d5,
+          e0,
+          e1,
+          e2,
+          e3,
+          e4,
+          e5,
+          g0,
+          g1,
+          g2,
+          g3,
+          g4,
+          g5,
+          q0,
+          q1,
+          q2,
+          q3,
+          q4,
+          q5,
+        );
         buildCoeffs(6, hs, vy, vn, v1, v3, v4, v5, v6, v7, rc);
         dense.appendStep(t, hs, rc);
         rcReady = true;
       }
       if (hasEvents && locator.detect(tn, vn)) {
         if (!rcReady) {
-          fill6(vy, v1, v3, v4, v5, v6, v7, y0, y1, y2, y3, y4, y5, a0, a1, a2, a3, a4, a5, c0, c1, c2, c3, c4, c5, d0, d1, d2, d3, d4, d5,
-            e0, e1, e2, e3, e4, e5, g0, g1, g2, g3, g4, g5, q0, q1, q2, q3, q4, q5);
+          fill6(
+            vy,
+            v1,
+            v3,
+            v4,
+            v5,
+            v6,
+            v7,
+            y0,
+            y1,
+            y2,
+            y3,
+            y4,
+            y5,
+            a0,
+            a1,
+            a2,
+            a3,
+            a4,
+            a5,
+            c0,
+            c1,
+            c2,
+            c3,
+            c4,
+            c5,
+            d0,
+            d1,
+            d2,
+            d3,
+            d4,
+            d5,
+            e0,
+            e1,
+            e2,
+            e3,
+            e4,
+            e5,
+            g0,
+            g1,
+            g2,
+            g3,
+            g4,
+            g5,
+            q0,
+            q1,
+            q2,
+            q3,
+            q4,
+            q5,
+          );
           buildCoeffs(6, hs, vy, vn, v1, v3, v4, v5, v6, v7, rc);
         }
         const stopAt = locator.locate(t, hs, tn, vn, rc);
         if (!Number.isNaN(stopAt)) {
           const hy = locator.hits[locator.hits.length - 1].y;
-          y0 = hy[0]; y1 = hy[1]; y2 = hy[2]; y3 = hy[3]; y4 = hy[4]; y5 = hy[5];
+          y0 = hy[0];
+          y1 = hy[1];
+          y2 = hy[2];
+          y3 = hy[3];
+          y4 = hy[4];
+          y5 = hy[5];
           t = stopAt;
           if (dense) dense.truncate(stopAt);
           status = 'event';
@@ -629,8 +829,18 @@ function march6(f: OdeFunction, t0: number, yIn: Float64Array, k1In: Float64Arra
 
     // Advance (FSAL: k7 at the new point is k1 of the next step).
     t = tn;
-    y0 = n0; y1 = n1; y2 = n2; y3 = n3; y4 = n4; y5 = n5;
-    a0 = q0; a1 = q1; a2 = q2; a3 = q3; a4 = q4; a5 = q5;
+    y0 = n0;
+    y1 = n1;
+    y2 = n2;
+    y3 = n3;
+    y4 = n4;
+    y5 = n5;
+    a0 = q0;
+    a1 = q1;
+    a2 = q2;
+    a3 = q3;
+    a4 = q4;
+    a5 = q5;
     if (hasEvents) locator.advance();
 
     if (hNew > maxStep) hNew = maxStep;
@@ -648,22 +858,98 @@ function march6(f: OdeFunction, t0: number, yIn: Float64Array, k1In: Float64Arra
 
 // Writes the unrolled kernel's y and k1, k3..k7 into vectors for buildCoeffs.
 function fill6(
-  vy: Float64Array, v1: Float64Array, v3: Float64Array, v4: Float64Array, v5: Float64Array, v6: Float64Array, v7: Float64Array,
-  y0: number, y1: number, y2: number, y3: number, y4: number, y5: number,
-  a0: number, a1: number, a2: number, a3: number, a4: number, a5: number,
-  c0: number, c1: number, c2: number, c3: number, c4: number, c5: number,
-  d0: number, d1: number, d2: number, d3: number, d4: number, d5: number,
-  e0: number, e1: number, e2: number, e3: number, e4: number, e5: number,
-  g0: number, g1: number, g2: number, g3: number, g4: number, g5: number,
-  q0: number, q1: number, q2: number, q3: number, q4: number, q5: number,
+  vy: Float64Array,
+  v1: Float64Array,
+  v3: Float64Array,
+  v4: Float64Array,
+  v5: Float64Array,
+  v6: Float64Array,
+  v7: Float64Array,
+  y0: number,
+  y1: number,
+  y2: number,
+  y3: number,
+  y4: number,
+  y5: number,
+  a0: number,
+  a1: number,
+  a2: number,
+  a3: number,
+  a4: number,
+  a5: number,
+  c0: number,
+  c1: number,
+  c2: number,
+  c3: number,
+  c4: number,
+  c5: number,
+  d0: number,
+  d1: number,
+  d2: number,
+  d3: number,
+  d4: number,
+  d5: number,
+  e0: number,
+  e1: number,
+  e2: number,
+  e3: number,
+  e4: number,
+  e5: number,
+  g0: number,
+  g1: number,
+  g2: number,
+  g3: number,
+  g4: number,
+  g5: number,
+  q0: number,
+  q1: number,
+  q2: number,
+  q3: number,
+  q4: number,
+  q5: number,
 ): void {
-  vy[0] = y0; vy[1] = y1; vy[2] = y2; vy[3] = y3; vy[4] = y4; vy[5] = y5;
-  v1[0] = a0; v1[1] = a1; v1[2] = a2; v1[3] = a3; v1[4] = a4; v1[5] = a5;
-  v3[0] = c0; v3[1] = c1; v3[2] = c2; v3[3] = c3; v3[4] = c4; v3[5] = c5;
-  v4[0] = d0; v4[1] = d1; v4[2] = d2; v4[3] = d3; v4[4] = d4; v4[5] = d5;
-  v5[0] = e0; v5[1] = e1; v5[2] = e2; v5[3] = e3; v5[4] = e4; v5[5] = e5;
-  v6[0] = g0; v6[1] = g1; v6[2] = g2; v6[3] = g3; v6[4] = g4; v6[5] = g5;
-  v7[0] = q0; v7[1] = q1; v7[2] = q2; v7[3] = q3; v7[4] = q4; v7[5] = q5;
+  vy[0] = y0;
+  vy[1] = y1;
+  vy[2] = y2;
+  vy[3] = y3;
+  vy[4] = y4;
+  vy[5] = y5;
+  v1[0] = a0;
+  v1[1] = a1;
+  v1[2] = a2;
+  v1[3] = a3;
+  v1[4] = a4;
+  v1[5] = a5;
+  v3[0] = c0;
+  v3[1] = c1;
+  v3[2] = c2;
+  v3[3] = c3;
+  v3[4] = c4;
+  v3[5] = c5;
+  v4[0] = d0;
+  v4[1] = d1;
+  v4[2] = d2;
+  v4[3] = d3;
+  v4[4] = d4;
+  v4[5] = d5;
+  v5[0] = e0;
+  v5[1] = e1;
+  v5[2] = e2;
+  v5[3] = e3;
+  v5[4] = e4;
+  v5[5] = e5;
+  v6[0] = g0;
+  v6[1] = g1;
+  v6[2] = g2;
+  v6[3] = g3;
+  v6[4] = g4;
+  v6[5] = g5;
+  v7[0] = q0;
+  v7[1] = q1;
+  v7[2] = q2;
+  v7[3] = q3;
+  v7[4] = q4;
+  v7[5] = q5;
 }
 
 // Dense output coefficients r1..r5 of the step from (y, k1) to (ynew, k7) (Hairer et al. II.6, DOPRI5).
@@ -681,8 +967,12 @@ function buildCoeffs(
   rc: Float64Array,
 ): void {
   // Dense output coefficients (DOPRI5 code, Hairer et al. II.6).
-  const D1 = -12715105075 / 11282082432, D3 = 87487479700 / 32700410799, D4 = -10690763975 / 1880347072;
-  const D5 = 701980252875 / 199316789632, D6 = -1453857185 / 822651844, D7 = 69997945 / 29380423;
+  const D1 = -12715105075 / 11282082432,
+    D3 = 87487479700 / 32700410799,
+    D4 = -10690763975 / 1880347072;
+  const D5 = 701980252875 / 199316789632,
+    D6 = -1453857185 / 822651844,
+    D7 = 69997945 / 29380423;
   for (let i = 0; i < n; i++) {
     const dy = ynew[i] - y[i];
     const bspl = hs * k1[i] - dy;

@@ -111,10 +111,7 @@ export function formatOemEpoch(t: number): string {
   const hh = Math.floor(sod / 3600);
   const mm = Math.floor((sod - hh * 3600) / 60);
   const ss = sod - hh * 3600 - mm * 60;
-  return (
-    `${String(y).padStart(4, '0')}-${pad2(mo)}-${pad2(dd)}` +
-    `T${pad2(hh)}:${pad2(mm)}:${pad2(ss)}.${String(micro).padStart(6, '0')}`
-  );
+  return `${String(y).padStart(4, '0')}-${pad2(mo)}-${pad2(dd)}` + `T${pad2(hh)}:${pad2(mm)}:${pad2(ss)}.${String(micro).padStart(6, '0')}`;
 }
 
 function isLeap(y: number): boolean {
@@ -139,7 +136,9 @@ export function parseOemEpoch(text: string): number | null {
   const cal = EPOCH_CAL.exec(text);
   const ord = cal ? null : EPOCH_DOY.exec(text);
   if (cal) {
-    const Y = Number(cal[1]), M = Number(cal[2]), D = Number(cal[3]);
+    const Y = Number(cal[1]),
+      M = Number(cal[2]),
+      D = Number(cal[3]);
     [h, mi, s, frac] = [cal[4], cal[5], cal[6], cal[7]];
     if (M < 1 || M > 12 || D < 1 || D > daysInMonth(Y, M)) return null;
     days = daysFromCivil(Y, M, D) - ORIGIN_DAY;
@@ -150,7 +149,9 @@ export function parseOemEpoch(text: string): number | null {
     if (doy < 1 || doy > (isLeap(Y) ? 366 : 365)) return null;
     days = daysFromCivil(Y, 1, 1) - ORIGIN_DAY + doy - 1;
   } else return null;
-  const H = Number(h), MI = Number(mi), S = Number(s);
+  const H = Number(h),
+    MI = Number(mi),
+    S = Number(s);
   // Second 60 is allowed by the standard for a leap second; read as the next second.
   if (H > 23 || MI > 59 || S > 60) return null;
   const f = frac ? Number(`0${frac}`) : 0;
@@ -342,7 +343,8 @@ export function parseOem(text: string): OemMessage {
       const md = seg!.metadata;
       for (const k of REQUIRED_META) if (!(k in md)) bad(metaLine, `the metadata block needs ${k}`);
       for (const k of EPOCH_META) {
-        if (k in md && parseOemEpoch(md[k]) === null) bad(seg!.lineOf[k], `${k} must be an epoch YYYY-MM-DDThh:mm:ss[.d] or YYYY-DDDThh:mm:ss[.d] (got "${md[k]}")`);
+        if (k in md && parseOemEpoch(md[k]) === null)
+          bad(seg!.lineOf[k], `${k} must be an epoch YYYY-MM-DDThh:mm:ss[.d] or YYYY-DDDThh:mm:ss[.d] (got "${md[k]}")`);
       }
       state = 'data';
       continue;

@@ -41,15 +41,7 @@ import schema from '../../assets/schema/plan.schema.json' with { type: 'json' };
 import { ValidationError, type ValidationIssue } from '../math/index.ts';
 import { MAX_EVENTS, MAX_STAGES, overLimitRule } from '../system/index.ts';
 import { compileFileSchema } from './fileValidator.ts';
-import type {
-  BurnEvent,
-  BurnSolve,
-  CoastUntil,
-  Plan,
-  PlanEvent,
-  PlanStart,
-  PlanTarget,
-} from '../plan/index.ts';
+import type { BurnEvent, BurnSolve, CoastUntil, Plan, PlanEvent, PlanStart, PlanTarget } from '../plan/index.ts';
 import type { StarSystem } from '../system/index.ts';
 import {
   PLAN_FORMAT,
@@ -365,7 +357,7 @@ const i64 = new BigInt64Array(f64.buffer);
 function nextDouble(x: number, dir: 1 | -1): number {
   if (x === 0) return dir * Number.MIN_VALUE;
   f64[0] = x;
-  i64[0] += (x > 0) === (dir > 0) ? 1n : -1n;
+  i64[0] += x > 0 === dir > 0 ? 1n : -1n;
   return f64[0];
 }
 
@@ -522,8 +514,7 @@ function targetToDocument(t: PlanTarget): TargetDocument {
  */
 export function serializePlanFile(plan: Plan, system: PlanSystemRef): string {
   const doc = planToDocument(plan, system);
-  const embedded =
-    system.kind === 'embedded' ? serializeSystemFile(system.system).replace(/\n$/, '').split('\n') : null;
+  const embedded = system.kind === 'embedded' ? serializeSystemFile(system.system).replace(/\n$/, '').split('\n') : null;
   return `${writeJson(doc, '', '', embedded)}\n`;
 }
 
@@ -552,7 +543,5 @@ function writeJson(v: unknown, indent: string, path: string, embedded: string[] 
   }
   const entries = Object.entries(v as Record<string, unknown>).filter(([, x]) => x !== undefined);
   if (entries.length === 0) return '{}';
-  return `{\n${entries
-    .map(([k, x]) => `${inner}${JSON.stringify(k)}: ${writeJson(x, inner, joinPath(path, k), embedded)}`)
-    .join(',\n')}\n${indent}}`;
+  return `{\n${entries.map(([k, x]) => `${inner}${JSON.stringify(k)}: ${writeJson(x, inner, joinPath(path, k), embedded)}`).join(',\n')}\n${indent}}`;
 }

@@ -52,11 +52,7 @@ const altitude = z.number().min(-T_BOUND).max(T_BOUND).meta({
 
 const angle = z.number().min(-360).max(360).meta({ id: 'angle', description: 'Angle in DEGREES, -360 to 360.' });
 
-const inclination = z
-  .number()
-  .min(0)
-  .max(180)
-  .meta({ id: 'inclination', description: "Inclination to the system's reference plane in DEGREES, 0 to 180." });
+const inclination = z.number().min(0).max(180).meta({ id: 'inclination', description: "Inclination to the system's reference plane in DEGREES, 0 to 180." });
 
 const eccentricity = z.number().min(0).lt(1).meta({ id: 'eccentricity', description: 'Eccentricity of an elliptic orbit, 0 <= e < 1.' });
 
@@ -65,11 +61,7 @@ const vector3 = z.tuple([z.number(), z.number(), z.number()]);
 const stage = z
   .strictObject({
     name: z.string().min(1).meta({ description: 'Display name of the stage.' }),
-    dry_kg: z
-      .number()
-      .min(0)
-      .max(MASS_MAX)
-      .meta({ description: "Structure (and engines) left when the stage's propellant is spent, kg. 0 to 1e12." }),
+    dry_kg: z.number().min(0).max(MASS_MAX).meta({ description: "Structure (and engines) left when the stage's propellant is spent, kg. 0 to 1e12." }),
     propellant_kg: z.number().min(0).max(MASS_MAX).meta({ description: 'Propellant loaded, kg. 0 to 1e12.' }),
     isp_s: z.number().gt(0).max(1e8).meta({ description: 'Vacuum specific impulse, s. Greater than 0, at most 1e8.' }),
     thrust_N: z.number().gt(0).max(MASS_MAX).meta({ description: 'Vacuum thrust, N. Greater than 0, at most 1e12.' }),
@@ -177,8 +169,7 @@ const until = z
         kind: z.literal('periapsis'),
         body: bodyId
           .meta({
-            description:
-              "Optional: count only a periapsis passed while in this body's sphere of influence (e.g. the periapsis at the target).",
+            description: "Optional: count only a periapsis passed while in this body's sphere of influence (e.g. the periapsis at the target).",
           })
           .optional(),
       })
@@ -214,14 +205,9 @@ const burnEvent = z
     type: z.literal('burn'),
     id: eventId,
     name: eventName,
-    t_s: z
-      .number()
-      .min(-T_BOUND)
-      .max(T_BOUND)
-      .nullable()
-      .meta({
-        description: 'Centre of the burn, s from the system epoch; null: at the end of the preceding event. Sanity bound: |t| <= 1e13 s.',
-      }),
+    t_s: z.number().min(-T_BOUND).max(T_BOUND).nullable().meta({
+      description: 'Centre of the burn, s from the system epoch; null: at the end of the preceding event. Sanity bound: |t| <= 1e13 s.',
+    }),
     frame: z.enum(['vnb', 'rtn', 'inertial']).meta({
       description: 'Frame of dv_mps: "vnb" (velocity, normal, binormal), "rtn" (radial, transverse, normal) or "inertial" (the system\'s axes).',
     }),
@@ -234,8 +220,7 @@ const burnEvent = z
     pointing: z
       .enum(['velocity', 'inertial'])
       .meta({
-        description:
-          'Finite burns: thrust held along the velocity ("velocity", the default) or fixed in inertial space along the impulsive Δv ("inertial").',
+        description: 'Finite burns: thrust held along the velocity ("velocity", the default) or fixed in inertial space along the impulsive Δv ("inertial").',
       })
       .optional(),
   })
@@ -259,13 +244,7 @@ const target = z
     body: bodyId.meta({ description: 'Id of the body of the target orbit.' }),
     periapsis_altitude_m: altitude.meta({ description: 'Desired periapsis altitude above the mean radius, m.' }),
     e: z.number().min(0).lt(1).nullable().meta({ description: 'Desired eccentricity (0 <= e < 1), or null.' }).optional(),
-    apoapsis_altitude_m: z
-      .number()
-      .min(-T_BOUND)
-      .max(T_BOUND)
-      .nullable()
-      .meta({ description: 'Desired apoapsis altitude, m, or null.' })
-      .optional(),
+    apoapsis_altitude_m: z.number().min(-T_BOUND).max(T_BOUND).nullable().meta({ description: 'Desired apoapsis altitude, m, or null.' }).optional(),
     i_deg: z
       .number()
       .min(0)
@@ -289,10 +268,7 @@ const target = z
 const systemRef = z
   .strictObject({
     path: z.string().min(1).meta({ description: 'Path of the system file, relative to this plan file.' }).optional(),
-    embedded: z
-      .record(z.string(), z.unknown())
-      .meta({ description: 'A whole system file (format "waymark-system").' })
-      .optional(),
+    embedded: z.record(z.string(), z.unknown()).meta({ description: 'A whole system file (format "waymark-system").' }).optional(),
   })
   .meta({
     description:
@@ -311,14 +287,9 @@ const reserve = z
 /** The whole plan file. Key order here is the order the file is written in. */
 export const planFileShape = z
   .strictObject({
-    $schema: z
-      .string()
-      .meta({ description: 'Optional pointer to this schema for editors; ignored on load and not written back on save.' })
-      .optional(),
+    $schema: z.string().meta({ description: 'Optional pointer to this schema for editors; ignored on load and not written back on save.' }).optional(),
     format: z.literal('waymark-plan').meta({ description: 'Always "waymark-plan".' }),
-    version: z
-      .literal(1)
-      .meta({ description: 'File format version. This schema describes version 1; older versions are migrated on load.' }),
+    version: z.literal(1).meta({ description: 'File format version. This schema describes version 1; older versions are migrated on load.' }),
     name: z.string().min(1).meta({ description: 'Name of the plan, for display.' }),
     description: z.string().meta({ description: 'Optional free text about the plan (default empty).' }).optional(),
     system: systemRef,
@@ -333,8 +304,7 @@ export const planFileShape = z
       .max(T_BOUND)
       .nullable()
       .meta({
-        description:
-          'Where the plan ends if its last event ends earlier, s from the system epoch; null or absent: at the last event.',
+        description: 'Where the plan ends if its last event ends earlier, s from the system epoch; null or absent: at the last event.',
       })
       .optional(),
   })

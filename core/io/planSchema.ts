@@ -191,7 +191,8 @@ export function checkPlanAgainstSystem(plan: Plan, system: StarSystem): Validati
       if (to > 0 && h !== undefined) {
         const b = system.bodies[to];
         if (!(b.radius + h > 0)) issues.push(err(`events[${k}].solve.periapsis_altitude_m`, `must be > -${b.radius} m (the mean radius of ${b.name})`));
-        else if (h < b.safeAlt) issues.push(warn(`events[${k}].solve.periapsis_altitude_m`, `is below the minimum safe altitude of ${b.name} (${b.safeAlt} m)`));
+        else if (h < b.safeAlt)
+          issues.push(warn(`events[${k}].solve.periapsis_altitude_m`, `is below the minimum safe altitude of ${b.name} (${b.safeAlt} m)`));
       }
     }
     if (ev.type === 'coast' && (ev.until.kind === 'periapsis' || ev.until.kind === 'apoapsis') && ev.until.body !== undefined) {

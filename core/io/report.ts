@@ -119,9 +119,7 @@ export function budgetReport(system: StarSystem, plan: Plan, result: PlanResult,
     if (t.desired.apoapsisAltitude !== null || a?.apoapsisAltitude != null) {
       out.push(`| apoapsis altitude | ${km(t.desired.apoapsisAltitude)} | ${km(a?.apoapsisAltitude)} |`);
     }
-    out.push(
-      `| inclination | ${t.desired.i === null ? 'any' : `${fmt(t.desired.i * DEG, 2)}°`} | ${a ? `${fmt(a.i * DEG, 2)}°` : '—'} |`,
-    );
+    out.push(`| inclination | ${t.desired.i === null ? 'any' : `${fmt(t.desired.i * DEG, 2)}°`} | ${a ? `${fmt(a.i * DEG, 2)}°` : '—'} |`);
     if (t.closestApproach) {
       out.push('', `Closest approach: ${km(t.closestApproach.altitude)} altitude at ${formatDate(cal, t.closestApproach.t)}.`);
     }

@@ -50,10 +50,7 @@ export function parseQuantity(field: string, text: string, dim: Dimension): numb
   const factor = UNITS[dim][unit];
   if (factor === undefined) {
     const allowed = Object.keys(UNITS[dim]);
-    throw new InputError(
-      field,
-      allowed.length ? `has unknown unit "${unit}" (use one of: ${allowed.join(', ')})` : `takes no unit (got "${unit}")`,
-    );
+    throw new InputError(field, allowed.length ? `has unknown unit "${unit}" (use one of: ${allowed.join(', ')})` : `takes no unit (got "${unit}")`);
   }
   const si = value * factor;
   if (!Number.isFinite(si)) throw new InputError(field, TOO_LARGE, text);

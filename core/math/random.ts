@@ -80,7 +80,8 @@ export class Rng {
 
   /** A generator with the given state (as returned by `getState`). */
   static fromState(state: ArrayLike<number>): Rng {
-    if (!state || state.length !== 4 && state.length !== 5) throw new InputError('state', 'must have 4 words (optionally a 5th: the held normal deviate)', state);
+    if (!state || (state.length !== 4 && state.length !== 5))
+      throw new InputError('state', 'must have 4 words (optionally a 5th: the held normal deviate)', state);
     for (let k = 0; k < 4; k++) {
       const w = state[k];
       if (!Number.isInteger(w) || w < 0 || w > 0xffffffff) throw new InputError(`state[${k}]`, 'must be an integer in [0, 2^32)', w);

@@ -59,7 +59,7 @@ export function brent(f: (x: number) => number, a: number, b: number, opts?: Roo
   let fb = evalFinite('brent', f, b);
   if (fa === 0) return a;
   if (fb === 0) return b;
-  if ((fa > 0) === (fb > 0)) {
+  if (fa > 0 === fb > 0) {
     throw new SolverError('brent', 'no-bracket', `f(a) = ${fa} and f(b) = ${fb} have the same sign`, { a, b, fa, fb });
   }
   let c = b;
@@ -123,13 +123,7 @@ export function brent(f: (x: number) => number, a: number, b: number, opts?: Roo
  * A root of f in [lo, hi] by Newton's method with derivative df, safeguarded by the bracket
  * (Numerical Recipes, 3rd ed., §9.4). `x0` is the first guess (default: the midpoint).
  */
-export function newtonSafe(
-  f: (x: number) => number,
-  df: (x: number) => number,
-  lo: number,
-  hi: number,
-  opts?: RootOptions & { x0?: number },
-): number {
+export function newtonSafe(f: (x: number) => number, df: (x: number) => number, lo: number, hi: number, opts?: RootOptions & { x0?: number }): number {
   requireFinite('lo', lo);
   requireFinite('hi', hi);
   const { tol, maxIter } = options(lo, hi, opts);
@@ -137,7 +131,7 @@ export function newtonSafe(
   const fh = evalFinite('newton-safe', f, hi);
   if (fl === 0) return lo;
   if (fh === 0) return hi;
-  if ((fl > 0) === (fh > 0)) {
+  if (fl > 0 === fh > 0) {
     throw new SolverError('newton-safe', 'no-bracket', `f(lo) = ${fl} and f(hi) = ${fh} have the same sign`, { lo, hi, fl, fh });
   }
   // orient so that f(xl) < 0 < f(xh)

@@ -241,7 +241,12 @@ export function probePeriapsis(
  * The n-body arrival from the n-body state at the conic periapsis time (before any burn), and
  * its comparison with the conic arrival. The probe flies without burns, relative to the target.
  */
-export function compareArrival(model: NBodyModel, at: NBodyState, conic: ConicArrival, signal?: { aborted: boolean }): { comparison: ArrivalComparison; spans: FlownSpan[]; stats: NBodyStats } {
+export function compareArrival(
+  model: NBodyModel,
+  at: NBodyState,
+  conic: ConicArrival,
+  signal?: { aborted: boolean },
+): { comparison: ArrivalComparison; spans: FlownSpan[]; stats: NBodyStats } {
   const k = conic.target;
   const mu = model.system.bodies[k].mu;
   const xT = stateRelativeTo(model, at, k);

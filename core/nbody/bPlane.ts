@@ -24,7 +24,8 @@ export function bPlaneAxes(info: ConicInfo): { S: Vec3Tuple; T: Vec3Tuple; R: Ve
   const s = Math.sqrt(e * e - 1) / e;
   const S: Vec3Tuple = [c * info.P[0] + s * info.Q[0], c * info.P[1] + s * info.Q[1], c * info.P[2] + s * info.Q[2]];
   // T = Ŝ × k̂ normalised (in the reference plane), R = Ŝ × T
-  let tx = S[1], ty = -S[0];
+  let tx = S[1],
+    ty = -S[0];
   const tn = Math.hypot(tx, ty);
   if (!(tn > 1e-12)) return null;
   tx /= tn;

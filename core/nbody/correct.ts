@@ -238,7 +238,8 @@ export function correctPlan(system: StarSystem, plan: Plan, options: CorrectOpti
 
   // chosen burns
   const ids = options.burns ?? [defaultCorrectionBurn(system, plan, conic, arrival)].filter((x): x is string => x !== null);
-  if (!Array.isArray(ids) || ids.length === 0) throw new InputError('options.burns', 'names no burn: the plan has no burn before the arrival outside the target’s sphere of influence');
+  if (!Array.isArray(ids) || ids.length === 0)
+    throw new InputError('options.burns', 'names no burn: the plan has no burn before the arrival outside the target’s sphere of influence');
   const { actions: baseActions, notes } = burnActions(plan, conic);
   const chosen: { id: string; index: number; eventIndex: number; t: number; dv: Vec3Tuple }[] = [];
   for (const id of ids) {
@@ -248,7 +249,8 @@ export function correctPlan(system: StarSystem, plan: Plan, options: CorrectOpti
     const index = baseActions.findIndex((a) => a.id === id);
     if (index < 0) throw new InputError('options.burns', `"${id}" is not flown by the patched-conic evaluation (the flight ended earlier)`, id);
     const a = baseActions[index];
-    if (a.kind !== 'impulse' || ev.mode !== 'impulsive') throw new InputError('options.burns', `"${id}" is a finite burn; only impulsive burns can be corrected`, id);
+    if (a.kind !== 'impulse' || ev.mode !== 'impulsive')
+      throw new InputError('options.burns', `"${id}" is a finite burn; only impulsive burns can be corrected`, id);
     if (!(a.t < arrival.t)) throw new InputError('options.burns', `"${id}" comes after the arrival at ${tb.name}; it cannot change the arrival`, id);
     if (chosen.some((c) => c.id === id)) throw new InputError('options.burns', `names "${id}" twice`, id);
     chosen.push({ id, index, eventIndex, t: a.t, dv: [a.dv[0], a.dv[1], a.dv[2]] });
@@ -371,7 +373,13 @@ export function correctPlan(system: StarSystem, plan: Plan, options: CorrectOpti
   };
 
   let cur = evaluateAt(x);
-  if (!cur) throw new SolverError('correct', 'no-convergence', `the uncorrected n-body flight does not reach the conic arrival time at ${tb.name} (it ends in an impact)`, {});
+  if (!cur)
+    throw new SolverError(
+      'correct',
+      'no-convergence',
+      `the uncorrected n-body flight does not reach the conic arrival time at ${tb.name} (it ends in an impact)`,
+      {},
+    );
   const initial = conicArr ? compareArrival(model, cur.at, conicArr, options.signal).comparison : null;
   const history: ResidualRecord[] = [{ iteration: 0, ...cur.rec, lambda: 0 }];
   let nu = LM_START;
@@ -446,12 +454,22 @@ export function correctPlan(system: StarSystem, plan: Plan, options: CorrectOpti
   const burns: BurnCorrection[] = chosen.map((c, b) => {
     const after: Vec3Tuple = [c.dv[0] + x[3 * b], c.dv[1] + x[3 * b + 1], c.dv[2] + x[3 * b + 2]];
     const change: Vec3Tuple = [x[3 * b], x[3 * b + 1], x[3 * b + 2]];
-    return { planEventId: c.id, tBefore: c.t, tAfter: b === 0 ? tNew(x) : c.t, dvBefore: c.dv, dvAfter: after, change, changeMagnitude: Math.hypot(change[0], change[1], change[2]) };
+    return {
+      planEventId: c.id,
+      tBefore: c.t,
+      tAfter: b === 0 ? tNew(x) : c.t,
+      dvBefore: c.dv,
+      dvAfter: after,
+      change,
+      changeMagnitude: Math.hypot(change[0], change[1], change[2]),
+    };
   });
   const corrected = freezePlan(system, plan, conic, burns, first.eventIndex, timeCoastIndex);
   const result = evaluate(system, corrected, { samplesPerSegment: 0 });
   if (result.target && !result.target.reached) {
-    notes.push('the patched-conic evaluation of the corrected plan does not reach the target: expected, the correction undoes the conic model’s own arrival error; verify it in the n-body model');
+    notes.push(
+      'the patched-conic evaluation of the corrected plan does not reach the target: expected, the correction undoes the conic model’s own arrival error; verify it in the n-body model',
+    );
   }
   return {
     plan: corrected,

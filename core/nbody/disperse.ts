@@ -203,22 +203,32 @@ export function perturbBurn(dv: ArrayLike<number>, eps: number, alpha: number, b
   u3[1] = dv[1] / m;
   u3[2] = dv[2] / m;
   // two axes perpendicular to u: e1 = u × (axis least aligned with u), e2 = u × e1
-  const ax = Math.abs(u3[0]), ay = Math.abs(u3[1]), az = Math.abs(u3[2]);
-  let px = 0, py = 0, pz = 0;
+  const ax = Math.abs(u3[0]),
+    ay = Math.abs(u3[1]),
+    az = Math.abs(u3[2]);
+  let px = 0,
+    py = 0,
+    pz = 0;
   if (ax <= ay && ax <= az) px = 1;
   else if (ay <= az) py = 1;
   else pz = 1;
-  let e1x = u3[1] * pz - u3[2] * py, e1y = u3[2] * px - u3[0] * pz, e1z = u3[0] * py - u3[1] * px;
+  let e1x = u3[1] * pz - u3[2] * py,
+    e1y = u3[2] * px - u3[0] * pz,
+    e1z = u3[0] * py - u3[1] * px;
   const n1 = Math.hypot(e1x, e1y, e1z);
   e1x /= n1;
   e1y /= n1;
   e1z /= n1;
-  const e2x = u3[1] * e1z - u3[2] * e1y, e2y = u3[2] * e1x - u3[0] * e1z, e2z = u3[0] * e1y - u3[1] * e1x;
-  const ca = alpha / th, cb = beta / th;
+  const e2x = u3[1] * e1z - u3[2] * e1y,
+    e2y = u3[2] * e1x - u3[0] * e1z,
+    e2z = u3[0] * e1y - u3[1] * e1x;
+  const ca = alpha / th,
+    cb = beta / th;
   e3[0] = ca * e1x + cb * e2x;
   e3[1] = ca * e1y + cb * e2y;
   e3[2] = ca * e1z + cb * e2z;
-  const c = Math.cos(th), s = Math.sin(th);
+  const c = Math.cos(th),
+    s = Math.sin(th);
   const f = 1 + eps;
   out[0] = f * (c * dv[0] + m * s * e3[0]);
   out[1] = f * (c * dv[1] + m * s * e3[1]);
@@ -229,7 +239,8 @@ export function perturbBurn(dv: ArrayLike<number>, eps: number, alpha: number, b
 /** Flies samples [first, first + count) of a prepared run (any split gives the same samples). */
 export function runSamples(p: PreparedDispersion, first: number, count: number, options: SampleOptions = {}): SampleBlock {
   if (!Number.isInteger(first) || first < 0) throw new InputError('first', 'must be an integer >= 0', first);
-  if (!Number.isInteger(count) || count < 0 || first + count > p.samples) throw new InputError('count', `must be an integer with first + count <= ${p.samples}`, count);
+  if (!Number.isInteger(count) || count < 0 || first + count > p.samples)
+    throw new InputError('count', `must be an integer with first + count <= ${p.samples}`, count);
   const B = p.burns.length;
   const margin = new Float64Array(count);
   const peri = new Float64Array(count);
@@ -413,7 +424,8 @@ export function summarizeDispersion(p: PreparedDispersion, all: SampleBlock): Di
     pPeriapsisSafe: hasTarget ? safe / n : null,
     pArrive: hasTarget ? arrive / n : null,
     margin,
-    periapsisAltitude: hasTarget && alts.length > 0 ? { p5: quantileSorted(alts, 0.05), p50: quantileSorted(alts, 0.5), p95: quantileSorted(alts, 0.95) } : null,
+    periapsisAltitude:
+      hasTarget && alts.length > 0 ? { p5: quantileSorted(alts, 0.05), p50: quantileSorted(alts, 0.5), p95: quantileSorted(alts, 0.95) } : null,
     safeAltitude: hasTarget ? p.safeAltitude : null,
     nominal: { margin: p.nominalMargin, periapsisAltitude: Number.isFinite(p.nominalPeriapsis) ? p.nominalPeriapsis : null },
     failed: all.failed,

@@ -249,7 +249,9 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
         events.push({
           g: (t, y) => {
             model.relative(c, o, t, p);
-            const dx = y[0] - p[0], dy = y[1] - p[1], dz = y[2] - p[2];
+            const dx = y[0] - p[0],
+              dy = y[1] - p[1],
+              dz = y[2] - p[2];
             return dx * dx + dy * dy + dz * dz - Rc2;
           },
           direction: -1,

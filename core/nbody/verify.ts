@@ -21,7 +21,16 @@ import type { PlanResult } from '../plan/index.ts';
 import { conicInfo } from '../conic/index.ts';
 import { NBodyModel, type NBodyModelOptions, type NBodyState, type Vec3Tuple } from './model.ts';
 import { flyNBody, type NBodySamples, type NBodyStates, type NBodyStats } from './flight.ts';
-import { burnActions, compareArrival, conicArrival, conicStart, probePeriapsis, stateRelativeTo, type ArrivalComparison, type PeriapsisReport } from './arrival.ts';
+import {
+  burnActions,
+  compareArrival,
+  conicArrival,
+  conicStart,
+  probePeriapsis,
+  stateRelativeTo,
+  type ArrivalComparison,
+  type PeriapsisReport,
+} from './arrival.ts';
 
 export { DEFAULT_ATOL_FACTOR, DEFAULT_NBODY_RTOL, NBodyModel } from './model.ts';
 export type { NBodyModelOptions, NBodyState, Vec3Tuple } from './model.ts';

@@ -64,14 +64,7 @@ function xMinusSin(x: number): number {
   if (ax >= 0.5) return x - Math.sin(x);
   const x2 = x * x;
   // x³/3! − x⁵/5! + ... − x¹⁵/15!: truncation < 2e-18 relative for |x| < 0.5
-  return (
-    x *
-    x2 *
-    (1 / 6 -
-      x2 *
-        (1 / 120 -
-          x2 * (1 / 5040 - x2 * (1 / 362880 - x2 * (1 / 39916800 - x2 * (1 / 6227020800 - x2 / 1307674368000))))))
-  );
+  return x * x2 * (1 / 6 - x2 * (1 / 120 - x2 * (1 / 5040 - x2 * (1 / 362880 - x2 * (1 / 39916800 - x2 * (1 / 6227020800 - x2 / 1307674368000))))));
 }
 
 /** sinh x − x without cancellation (series below 0.5). */
@@ -79,14 +72,7 @@ function sinhMinusX(x: number): number {
   const ax = Math.abs(x);
   if (ax >= 0.5) return Math.sinh(x) - x;
   const x2 = x * x;
-  return (
-    x *
-    x2 *
-    (1 / 6 +
-      x2 *
-        (1 / 120 +
-          x2 * (1 / 5040 + x2 * (1 / 362880 + x2 * (1 / 39916800 + x2 * (1 / 6227020800 + x2 / 1307674368000))))))
-  );
+  return x * x2 * (1 / 6 + x2 * (1 / 120 + x2 * (1 / 5040 + x2 * (1 / 362880 + x2 * (1 / 39916800 + x2 * (1 / 6227020800 + x2 / 1307674368000))))));
 }
 
 /** E − e·sin E, accurate as e → 1 and E → 0. */

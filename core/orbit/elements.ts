@@ -66,8 +66,12 @@ export function stateToElements(mu: number, r: Vec3Like, v: Vec3Like): Elements 
   requirePositive('mu', mu);
   requireFiniteVector('r', r, 3);
   requireFiniteVector('v', v, 3);
-  const rx = r[0], ry = r[1], rz = r[2];
-  const vx = v[0], vy = v[1], vz = v[2];
+  const rx = r[0],
+    ry = r[1],
+    rz = r[2];
+  const vx = v[0],
+    vy = v[1],
+    vz = v[2];
   const rn = Math.sqrt(rx * rx + ry * ry + rz * rz);
   if (rn === 0) throw new InputError('r', 'must not be the zero vector', r);
   const vn = Math.sqrt(vx * vx + vy * vy + vz * vz);
@@ -87,7 +91,9 @@ export function stateToElements(mu: number, r: Vec3Like, v: Vec3Like): Elements 
   const e = Math.sqrt(ex * ex + ey * ey + ez * ez);
   const i = Math.atan2(hxy, hz);
   // unit normal
-  const wx = hx / h, wy = hy / h, wz = hz / h;
+  const wx = hx / h,
+    wy = hy / h,
+    wz = hz / h;
   // node direction (unit); the +x axis for equatorial orbits
   let nx: number, ny: number;
   let raan: number;

@@ -44,7 +44,12 @@ export function hohmann(mu: number, r1: number, r2: number): HohmannTransfer {
   };
   for (const [k, v] of Object.entries(out)) {
     if (!Number.isFinite(v)) {
-      throw new SolverError('hohmann', 'non-finite', `the ${k === 'tof' ? 'transfer time' : k === 'aTransfer' ? 'transfer orbit' : 'Δv'} is too large to represent (${k} = ${v}) for these values: r1 = ${r1} m, r2 = ${r2} m, μ = ${mu} m³/s²`, { mu, r1, r2 });
+      throw new SolverError(
+        'hohmann',
+        'non-finite',
+        `the ${k === 'tof' ? 'transfer time' : k === 'aTransfer' ? 'transfer orbit' : 'Δv'} is too large to represent (${k} = ${v}) for these values: r1 = ${r1} m, r2 = ${r2} m, μ = ${mu} m³/s²`,
+        { mu, r1, r2 },
+      );
     }
   }
   return out;

@@ -108,8 +108,12 @@ function checkInputs(mu: number, state: ArrayLike<number>, dt: number): void {
  * Inputs are already validated. `g` belongs to the reduced Δt (see the module comment).
  */
 function solve(mu: number, state: ArrayLike<number>, dt: number, c: Float64Array | number[]): void {
-  const x = state[0], y = state[1], z = state[2];
-  const vx = state[3], vy = state[4], vz = state[5];
+  const x = state[0],
+    y = state[1],
+    z = state[2];
+  const vx = state[3],
+    vy = state[4],
+    vz = state[5];
   const r0 = Math.sqrt(x * x + y * y + z * z);
   const v0sq = vx * vx + vy * vy + vz * vz;
   const rv = x * vx + y * vy + z * vz;
@@ -127,12 +131,17 @@ function solve(mu: number, state: ArrayLike<number>, dt: number, c: Float64Array
   if (hsq <= RECTILINEAR_TOLERANCE * RECTILINEAR_TOLERANCE * r0 * r0 * v0sq) {
     const tc = timeToCentre(sqmu, r0, rv, alpha, dt);
     if (Math.abs(dt) >= tc) {
-      throw new SolverError('kepler', 'collision', `the radial fall reaches the centre (r = 0) ${tc.toPrecision(6)} s ${dt > 0 ? 'after' : 'before'} the start, within the ${dt} s asked`, {
-        mu,
-        state: Array.from({ length: 6 }, (_, k) => state[k]),
-        dt,
-        tCollision: dt > 0 ? tc : -tc,
-      });
+      throw new SolverError(
+        'kepler',
+        'collision',
+        `the radial fall reaches the centre (r = 0) ${tc.toPrecision(6)} s ${dt > 0 ? 'after' : 'before'} the start, within the ${dt} s asked`,
+        {
+          mu,
+          state: Array.from({ length: 6 }, (_, k) => state[k]),
+          dt,
+          tCollision: dt > 0 ? tc : -tc,
+        },
+      );
     }
   }
 
@@ -184,7 +193,7 @@ function solve(mu: number, state: ArrayLike<number>, dt: number, c: Float64Array
     const eSinhH0 = sigma0 * sna;
     const H0 = Math.asinh(eSinhH0 / ecc);
     const M0 = hyperbolicMeanAccurate(H0, ecc, em1);
-    const M1 = M0 + sqmu * (-alpha) * sna * t;
+    const M1 = M0 + sqmu * -alpha * sna * t;
     const H1 = solveHyperbolicKepler(M1, ecc, em1);
     chi = (H1 - H0) / sna;
     stumpffCS(alpha * chi * chi, cs);
@@ -316,8 +325,20 @@ function timeToCentre(sqmu: number, r0: number, rv: number, alpha: number, dt: n
 
 /** Lagrange coefficients from the solved χ (Vallado Algorithm 8 / Curtis eqs. 3.69). */
 function lagrange(
-  sqmu: number, r0: number, alpha: number, t: number, chi: number, c2: number, c3: number,
-  x: number, y: number, z: number, vx: number, vy: number, vz: number, c: Float64Array | number[],
+  sqmu: number,
+  r0: number,
+  alpha: number,
+  t: number,
+  chi: number,
+  c2: number,
+  c3: number,
+  x: number,
+  y: number,
+  z: number,
+  vx: number,
+  vy: number,
+  vz: number,
+  c: Float64Array | number[],
 ): void {
   const chi2 = chi * chi;
   const f = 1 - (chi2 * c2) / r0;
@@ -371,20 +392,24 @@ export function propagateKepler(mu: number, state: ArrayLike<number>, dt: number
   checkInputs(mu, state, dt);
   const o = out ?? new Float64Array(6);
   if (o.length < 6) throw new InputError('out', 'must have 6 components', o.length);
-  const x = state[0], y = state[1], z = state[2];
-  const vx = state[3], vy = state[4], vz = state[5];
+  const x = state[0],
+    y = state[1],
+    z = state[2];
+  const vx = state[3],
+    vy = state[4],
+    vz = state[5];
   solve(mu, state, dt, coef);
-  const f = coef[0], g = coef[1], fd = coef[2], gd = coef[3];
+  const f = coef[0],
+    g = coef[1],
+    fd = coef[2],
+    gd = coef[3];
   const nx = f * x + g * vx;
   const ny = f * y + g * vy;
   const nz = f * z + g * vz;
   const nvx = fd * x + gd * vx;
   const nvy = fd * y + gd * vy;
   const nvz = fd * z + gd * vz;
-  if (
-    !Number.isFinite(nx) || !Number.isFinite(ny) || !Number.isFinite(nz) ||
-    !Number.isFinite(nvx) || !Number.isFinite(nvy) || !Number.isFinite(nvz)
-  ) {
+  if (!Number.isFinite(nx) || !Number.isFinite(ny) || !Number.isFinite(nz) || !Number.isFinite(nvx) || !Number.isFinite(nvy) || !Number.isFinite(nvz)) {
     checkOutput([nx, ny, nz, nvx, nvy, nvz], 6, mu, state, dt);
   }
   o[0] = nx;

@@ -120,7 +120,7 @@ function hyp2f1b(z: number): number {
   let sj = 1;
   let cj = 1;
   for (let j = 0; j < 200; j++) {
-    cj = (cj * (3 + j) * (1 + j)) / (2.5 + j) * z / (j + 1);
+    cj = (((cj * (3 + j) * (1 + j)) / (2.5 + j)) * z) / (j + 1);
     sj += cj;
     if (Math.abs(cj) < 1e-16) break;
   }
@@ -277,10 +277,17 @@ function tMin(N: number, lam: number): number {
  */
 function prepare(
   mu: number,
-  r1x: number, r1y: number, r1z: number,
-  r2x: number, r2y: number, r2z: number,
-  tof: number, retrograde: boolean,
-  nx: number, ny: number, nz: number,
+  r1x: number,
+  r1y: number,
+  r1z: number,
+  r2x: number,
+  r2y: number,
+  r2z: number,
+  tof: number,
+  retrograde: boolean,
+  nx: number,
+  ny: number,
+  nz: number,
 ): number {
   const r1n = Math.sqrt(r1x * r1x + r1y * r1y + r1z * r1z);
   const r2n = Math.sqrt(r2x * r2x + r2y * r2y + r2z * r2z);
@@ -290,15 +297,23 @@ function prepare(
   const c = Math.sqrt(cx * cx + cy * cy + cz * cz);
   if (!(c > COINCIDENT_REL * (r1n + r2n))) return 2;
   const s = (r1n + r2n + c) / 2;
-  const u1x = r1x / r1n, u1y = r1y / r1n, u1z = r1z / r1n;
-  const u2x = r2x / r2n, u2y = r2y / r2n, u2z = r2z / r2n;
+  const u1x = r1x / r1n,
+    u1y = r1y / r1n,
+    u1z = r1z / r1n;
+  const u2x = r2x / r2n,
+    u2y = r2y / r2n,
+    u2z = r2z / r2n;
   let hx = u1y * u2z - u1z * u2y;
   let hy = u1z * u2x - u1x * u2z;
   let hz = u1x * u2y - u1y * u2x;
   const hn = Math.sqrt(hx * hx + hy * hy + hz * hz);
   // |r̂1 + r̂2| = 2 cos(θ/2), |r̂2 − r̂1| = 2 sin(θ/2) for θ in [0, π]: no cancellation near 0, π.
-  const px = u1x + u2x, py = u1y + u2y, pz = u1z + u2z;
-  const qx = u2x - u1x, qy = u2y - u1y, qz = u2z - u1z;
+  const px = u1x + u2x,
+    py = u1y + u2y,
+    pz = u1z + u2z;
+  const qx = u2x - u1x,
+    qy = u2y - u1y,
+    qz = u2z - u1z;
   let lam = (Math.sqrt(r1n * r2n) * Math.sqrt(px * px + py * py + pz * pz)) / (2 * s);
   if (hn >= COLLINEAR_SIN) {
     hx /= hn;
@@ -323,7 +338,9 @@ function prepare(
     const nn = Math.sqrt(nx * nx + ny * ny + nz * nz);
     if (!(n > 1e-8 * nn)) return 1;
     const k = retrograde ? -1 / n : 1 / n;
-    const gx = hx, gy = hy, gz = hz;
+    const gx = hx,
+      gy = hy,
+      gz = hz;
     hx *= k;
     hy *= k;
     hz *= k;
@@ -333,18 +350,26 @@ function prepare(
   }
   G[0] = lam;
   G[1] = Math.sqrt((2 * mu) / (s * s * s)) * tof;
-  G[2] = u1x; G[3] = u1y; G[4] = u1z;
+  G[2] = u1x;
+  G[3] = u1y;
+  G[4] = u1z;
   // t̂ = ĥ × r̂ (unit: ĥ ⟂ r̂)
   G[5] = hy * u1z - hz * u1y;
   G[6] = hz * u1x - hx * u1z;
   G[7] = hx * u1y - hy * u1x;
-  G[8] = u2x; G[9] = u2y; G[10] = u2z;
+  G[8] = u2x;
+  G[9] = u2y;
+  G[10] = u2z;
   let t2x = hy * u2z - hz * u2y;
   let t2y = hz * u2x - hx * u2z;
   let t2z = hx * u2y - hy * u2x;
   const t2n = Math.sqrt(t2x * t2x + t2y * t2y + t2z * t2z);
-  t2x /= t2n; t2y /= t2n; t2z /= t2n;
-  G[11] = t2x; G[12] = t2y; G[13] = t2z;
+  t2x /= t2n;
+  t2y /= t2n;
+  t2z /= t2n;
+  G[11] = t2x;
+  G[12] = t2y;
+  G[13] = t2z;
   G[14] = r1n;
   G[15] = r2n;
   G[16] = Math.sqrt((mu * s) / 2);
@@ -514,7 +539,11 @@ export function solveLambert(mu: number, r1: ArrayLike<number>, r2: ArrayLike<nu
   const out: LambertSolution[] = [];
   const push = (x: number, revs: number, branch: LambertSolution['branch']): void => {
     if (Number.isNaN(x)) {
-      throw new SolverError('lambert', 'no-convergence', `${branch} solution for ${revs} revolution(s) did not converge in ${maxIter} iterations`, { ...inputs, revs, branch });
+      throw new SolverError('lambert', 'no-convergence', `${branch} solution for ${revs} revolution(s) did not converge in ${maxIter} iterations`, {
+        ...inputs,
+        revs,
+        branch,
+      });
     }
     const v1 = new Float64Array(3);
     const v2 = new Float64Array(3);
@@ -543,10 +572,16 @@ export function solveLambert(mu: number, r1: ArrayLike<number>, r2: ArrayLike<nu
  */
 export function lambertSingleRev(
   mu: number,
-  r1x: number, r1y: number, r1z: number,
-  r2x: number, r2y: number, r2z: number,
-  tof: number, retrograde: boolean,
-  out1: Float64Array, out2: Float64Array,
+  r1x: number,
+  r1y: number,
+  r1z: number,
+  r2x: number,
+  r2y: number,
+  r2z: number,
+  tof: number,
+  retrograde: boolean,
+  out1: Float64Array,
+  out2: Float64Array,
 ): number {
   if (!(mu > 0) || !(tof > 0) || !(tof < Infinity) || !(mu < Infinity)) return -1;
   const r1s = r1x * r1x + r1y * r1y + r1z * r1z;
@@ -569,9 +604,16 @@ export function lambertSingleRev(
  * multi-revolution branch that fails is left out. Reference normal +z.
  */
 export function lambertAll(
-  mu: number, r1: ArrayLike<number>, r2: ArrayLike<number>, tof: number,
-  maxRevs: number, retrograde: boolean,
-  outV1: Float64Array, outV2: Float64Array, outRevs: Int32Array, outBranch?: Uint8Array,
+  mu: number,
+  r1: ArrayLike<number>,
+  r2: ArrayLike<number>,
+  tof: number,
+  maxRevs: number,
+  retrograde: boolean,
+  outV1: Float64Array,
+  outV2: Float64Array,
+  outRevs: Int32Array,
+  outBranch?: Uint8Array,
 ): number {
   if (!(mu > 0) || !(tof > 0) || !(tof < Infinity) || !(mu < Infinity) || !(maxRevs >= 0)) return -1;
   const r1s = r1[0] * r1[0] + r1[1] * r1[1] + r1[2] * r1[2];
@@ -611,9 +653,15 @@ const bestV2 = new Float64Array(3);
  * lambertCodeBranch); −1 if nothing solved or every cost was non-finite.
  */
 export function lambertBest(
-  mu: number, r1: ArrayLike<number>, r2: ArrayLike<number>, tof: number,
-  maxRevs: number, retrograde: boolean, cost: LambertCost,
-  out1: Float64Array, out2: Float64Array,
+  mu: number,
+  r1: ArrayLike<number>,
+  r2: ArrayLike<number>,
+  tof: number,
+  maxRevs: number,
+  retrograde: boolean,
+  cost: LambertCost,
+  out1: Float64Array,
+  out2: Float64Array,
 ): number {
   if (!(mu > 0) || !(tof > 0) || !(tof < Infinity) || !(mu < Infinity) || !(maxRevs >= 0)) return -1;
   const r1s = r1[0] * r1[0] + r1[1] * r1[1] + r1[2] * r1[2];
@@ -629,8 +677,12 @@ export function lambertBest(
     if (c < bestCost) {
       bestCost = c;
       bestCode = 0;
-      out1[0] = bestV1[0]; out1[1] = bestV1[1]; out1[2] = bestV1[2];
-      out2[0] = bestV2[0]; out2[1] = bestV2[1]; out2[2] = bestV2[2];
+      out1[0] = bestV1[0];
+      out1[1] = bestV1[1];
+      out1[2] = bestV1[2];
+      out2[0] = bestV2[0];
+      out2[1] = bestV2[1];
+      out2[2] = bestV2[2];
     }
   }
   const nmax = feasibleRevs(Math.floor(maxRevs));
@@ -643,8 +695,12 @@ export function lambertBest(
       if (c < bestCost) {
         bestCost = c;
         bestCode = side < 0 ? 2 * n - 1 : 2 * n;
-        out1[0] = bestV1[0]; out1[1] = bestV1[1]; out1[2] = bestV1[2];
-        out2[0] = bestV2[0]; out2[1] = bestV2[1]; out2[2] = bestV2[2];
+        out1[0] = bestV1[0];
+        out1[1] = bestV1[1];
+        out1[2] = bestV1[2];
+        out2[0] = bestV2[0];
+        out2[1] = bestV2[1];
+        out2[2] = bestV2[2];
       }
     }
   }

@@ -17,17 +17,49 @@
 // Series coefficients, highest power first for Horner: C: 1/(2k+2)!, S: 1/(2k+3)!, k = 0..9,
 // with alternating sign folded into the argument (−z).
 const C_COEF = [
-  1 / 2, 1 / 24, 1 / 720, 1 / 40320, 1 / 3628800, 1 / 479001600, 1 / 87178291200, 1 / 20922789888000,
-  1 / 6402373705728000, 1 / 2432902008176640000,
+  1 / 2,
+  1 / 24,
+  1 / 720,
+  1 / 40320,
+  1 / 3628800,
+  1 / 479001600,
+  1 / 87178291200,
+  1 / 20922789888000,
+  1 / 6402373705728000,
+  1 / 2432902008176640000,
 ];
 const S_COEF = [
-  1 / 6, 1 / 120, 1 / 5040, 1 / 362880, 1 / 39916800, 1 / 6227020800, 1 / 1307674368000, 1 / 355687428096000,
-  1 / 121645100408832000, 1 / 51090942171709440000,
+  1 / 6,
+  1 / 120,
+  1 / 5040,
+  1 / 362880,
+  1 / 39916800,
+  1 / 6227020800,
+  1 / 1307674368000,
+  1 / 355687428096000,
+  1 / 121645100408832000,
+  1 / 51090942171709440000,
 ];
-const C0 = C_COEF[0], C1 = C_COEF[1], C2 = C_COEF[2], C3 = C_COEF[3], C4 = C_COEF[4];
-const C5 = C_COEF[5], C6 = C_COEF[6], C7 = C_COEF[7], C8 = C_COEF[8], C9 = C_COEF[9];
-const S0 = S_COEF[0], S1 = S_COEF[1], S2 = S_COEF[2], S3 = S_COEF[3], S4 = S_COEF[4];
-const S5 = S_COEF[5], S6 = S_COEF[6], S7 = S_COEF[7], S8 = S_COEF[8], S9 = S_COEF[9];
+const C0 = C_COEF[0],
+  C1 = C_COEF[1],
+  C2 = C_COEF[2],
+  C3 = C_COEF[3],
+  C4 = C_COEF[4];
+const C5 = C_COEF[5],
+  C6 = C_COEF[6],
+  C7 = C_COEF[7],
+  C8 = C_COEF[8],
+  C9 = C_COEF[9];
+const S0 = S_COEF[0],
+  S1 = S_COEF[1],
+  S2 = S_COEF[2],
+  S3 = S_COEF[3],
+  S4 = S_COEF[4];
+const S5 = S_COEF[5],
+  S6 = S_COEF[6],
+  S7 = S_COEF[7],
+  S8 = S_COEF[8],
+  S9 = S_COEF[9];
 
 /** |z| below this uses the series. */
 export const STUMPFF_SERIES_LIMIT = 1;

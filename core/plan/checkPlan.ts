@@ -50,7 +50,8 @@ function eccentricity(field: string, e: number): void {
 
 function altitude(system: StarSystem, body: number, field: string, alt: number): void {
   requireFinite(field, alt);
-  if (!(alt > -system.bodies[body].radius)) throw new InputError(field, `must be > −${system.bodies[body].radius} m (above the centre of ${system.bodies[body].name})`, alt);
+  if (!(alt > -system.bodies[body].radius))
+    throw new InputError(field, `must be > −${system.bodies[body].radius} m (above the centre of ${system.bodies[body].name})`, alt);
 }
 
 /** Throws InputError with the field path of the first problem in the plan. */
@@ -88,7 +89,8 @@ export function checkPlan(system: StarSystem, plan: Plan): void {
     if (typeof ev.name !== 'string') throw new InputError(`${p}.name`, 'must be a string', ev.name);
     if (ev.type === 'burn') {
       if (ev.t !== null) requireFinite(`${p}.t`, ev.t);
-      if (ev.frame !== 'vnb' && ev.frame !== 'rtn' && ev.frame !== 'inertial') throw new InputError(`${p}.frame`, "must be 'vnb', 'rtn' or 'inertial'", ev.frame);
+      if (ev.frame !== 'vnb' && ev.frame !== 'rtn' && ev.frame !== 'inertial')
+        throw new InputError(`${p}.frame`, "must be 'vnb', 'rtn' or 'inertial'", ev.frame);
       vec3(`${p}.dv`, ev.dv, MAX_PLAN_SPEED, 'm/s');
       if (ev.mode !== 'impulsive' && ev.mode !== 'finite') throw new InputError(`${p}.mode`, "must be 'impulsive' or 'finite'", ev.mode);
       if (ev.pointing !== 'velocity' && ev.pointing !== 'inertial') throw new InputError(`${p}.pointing`, "must be 'velocity' or 'inertial'", ev.pointing);
@@ -101,8 +103,10 @@ export function checkPlan(system: StarSystem, plan: Plan): void {
           const tk = bodyId(system, `${p}.solve.to`, sv.to);
           if (tk === 0) throw new InputError(`${p}.solve.to`, 'must name a body other than the star', sv.to);
           requireFinite(`${p}.solve.arrive`, sv.arrive);
-          if (sv.revs !== undefined && !(Number.isInteger(sv.revs) && sv.revs >= 0)) throw new InputError(`${p}.solve.revs`, 'must be an integer >= 0', sv.revs);
-          if (sv.retrograde !== undefined && typeof sv.retrograde !== 'boolean') throw new InputError(`${p}.solve.retrograde`, 'must be a boolean', sv.retrograde);
+          if (sv.revs !== undefined && !(Number.isInteger(sv.revs) && sv.revs >= 0))
+            throw new InputError(`${p}.solve.revs`, 'must be an integer >= 0', sv.revs);
+          if (sv.retrograde !== undefined && typeof sv.retrograde !== 'boolean')
+            throw new InputError(`${p}.solve.retrograde`, 'must be a boolean', sv.retrograde);
           if (sv.periapsisAltitude !== undefined) altitude(system, tk, `${p}.solve.periapsisAltitude`, sv.periapsisAltitude);
           break;
         }
@@ -139,7 +143,8 @@ export function checkPlan(system: StarSystem, plan: Plan): void {
           requireFinite(`${p}.until.altitude`, u.altitude);
           break;
         case 'node':
-          if (u.which !== 'ascending' && u.which !== 'descending' && u.which !== 'any') throw new InputError(`${p}.until.which`, "must be 'ascending', 'descending' or 'any'", u.which);
+          if (u.which !== 'ascending' && u.which !== 'descending' && u.which !== 'any')
+            throw new InputError(`${p}.until.which`, "must be 'ascending', 'descending' or 'any'", u.which);
           break;
         default:
           throw new InputError(`${p}.until.kind`, 'must be a known coast condition', (u as { kind: unknown }).kind);

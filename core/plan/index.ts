@@ -5,8 +5,32 @@
 export { summarizeBudget } from './budget.ts';
 export { burnToInertial, inertialToBurn } from './burnFrame.ts';
 export { MAX_PLAN_SPEED, MAX_START_DISTANCE, checkPlan } from './checkPlan.ts';
-export type { BurnEvent, BurnFrame, BurnSolve, CoastEvent, CoastUntil, Plan, PlanEvent, PlanStart, PlanTarget, ReservePolicy, Stage, StageEvent, Vehicle } from './plan.ts';
+export type {
+  BurnEvent,
+  BurnFrame,
+  BurnSolve,
+  CoastEvent,
+  CoastUntil,
+  Plan,
+  PlanEvent,
+  PlanStart,
+  PlanTarget,
+  ReservePolicy,
+  Stage,
+  StageEvent,
+  Vehicle,
+} from './plan.ts';
 export type { Budget, BudgetRow, Flag, PlanResult, TargetReport, TrajectoryEvent, TrajectoryEventKind, TrajectorySegment } from './result.ts';
 export { G0, burnDuration, propellantForDeltaV, rocketDeltaV } from './rocket.ts';
-export { MIN_BURNOUT_FRACTION, MIN_STAGE_THRUST, checkVehicle, createBurnBook, createVehicleState, deltaVLeft, dropStage, spendBurn, stageDeltaVs } from './vehicle.ts';
+export {
+  MIN_BURNOUT_FRACTION,
+  MIN_STAGE_THRUST,
+  checkVehicle,
+  createBurnBook,
+  createVehicleState,
+  deltaVLeft,
+  dropStage,
+  spendBurn,
+  stageDeltaVs,
+} from './vehicle.ts';
 export type { BurnBook, VehicleState } from './vehicle.ts';

@@ -105,7 +105,11 @@ export function checkVehicle(vehicle: Vehicle, path = 'vehicle'): void {
   }
   const total = vehicle.stages.reduce((m, s) => m + s.dryMass + s.propellantMass, vehicle.payloadMass);
   if (!(vehicle.payloadMass + last.dryMass >= MIN_BURNOUT_FRACTION * total)) {
-    throw new InputError(`${path}.payloadMass`, `plus the last stage dry mass must be at least ${MIN_BURNOUT_FRACTION} of the total mass ${total} kg (a smaller burnout mass is lost to rounding)`, vehicle.payloadMass);
+    throw new InputError(
+      `${path}.payloadMass`,
+      `plus the last stage dry mass must be at least ${MIN_BURNOUT_FRACTION} of the total mass ${total} kg (a smaller burnout mass is lost to rounding)`,
+      vehicle.payloadMass,
+    );
   }
 }
 

@@ -226,19 +226,31 @@ const cost = (v1x: number, v1y: number, v1z: number, v2x: number, v2y: number, v
 export function solveCell(s: TransferSetup, dep6: Float64Array, arr6: Float64Array, tof: number): boolean {
   if (!(tof > 0)) return unsolved();
   if (s.kind !== FROM_PARENT) {
-    R1[0] = dep6[0]; R1[1] = dep6[1]; R1[2] = dep6[2];
-    VF[0] = dep6[3]; VF[1] = dep6[4]; VF[2] = dep6[5];
+    R1[0] = dep6[0];
+    R1[1] = dep6[1];
+    R1[2] = dep6[2];
+    VF[0] = dep6[3];
+    VF[1] = dep6[4];
+    VF[2] = dep6[5];
   }
   if (s.kind !== TO_PARENT) {
-    R2[0] = arr6[0]; R2[1] = arr6[1]; R2[2] = arr6[2];
-    VT[0] = arr6[3]; VT[1] = arr6[4]; VT[2] = arr6[5];
+    R2[0] = arr6[0];
+    R2[1] = arr6[1];
+    R2[2] = arr6[2];
+    VT[0] = arr6[3];
+    VT[1] = arr6[4];
+    VT[2] = arr6[5];
   }
   if (s.kind === FROM_PARENT) {
     const k = -s.rPark / Math.sqrt(R2[0] * R2[0] + R2[1] * R2[1] + R2[2] * R2[2]);
-    R1[0] = R2[0] * k; R1[1] = R2[1] * k; R1[2] = R2[2] * k;
+    R1[0] = R2[0] * k;
+    R1[1] = R2[1] * k;
+    R1[2] = R2[2] * k;
   } else if (s.kind === TO_PARENT) {
     const k = -s.rArrive / Math.sqrt(R1[0] * R1[0] + R1[1] * R1[1] + R1[2] * R1[2]);
-    R2[0] = R1[0] * k; R2[1] = R1[1] * k; R2[2] = R1[2] * k;
+    R2[0] = R1[0] * k;
+    R2[1] = R1[1] * k;
+    R2[2] = R1[2] * k;
   }
   if (s.maxRevs === 0) {
     if (lambertSingleRev(s.mu, R1[0], R1[1], R1[2], R2[0], R2[1], R2[2], tof, s.retrograde, V1, V2) < 0) return unsolved();

@@ -10,15 +10,7 @@
 
 import { InputError } from '../math/index.ts';
 import { bodyDerived, meanSolarDay, starDerived } from './derived.ts';
-import {
-  G_NEWTON,
-  SYSTEM_FORMAT,
-  SYSTEM_VERSION,
-  type BodyDocument,
-  type CalendarDocument,
-  type StarDocument,
-  type SystemDocument,
-} from './document.ts';
+import { G_NEWTON, SYSTEM_FORMAT, SYSTEM_VERSION, type BodyDocument, type CalendarDocument, type StarDocument, type SystemDocument } from './document.ts';
 import { buildEphemerisTables } from './ephemeris.ts';
 import type { Body, StarSystem, SystemCalendar } from './model.ts';
 

@@ -99,7 +99,7 @@ function accumulate(k: Float64Array, j: number, t: number, out: Float64Array, si
   solveEllipticKepler(M - TWO_PI * Math.round(M / TWO_PI), e, sinCosE);
   const sinE = sinCosE[0];
   const cosE = sinCosE[1];
-  const px = (k[o + A] * (cosE - e)) * sign;
+  const px = k[o + A] * (cosE - e) * sign;
   const qy = k[o + B] * sinE * sign;
   out[0] += px * k[o + PX] + qy * k[o + QX];
   out[1] += px * k[o + PY] + qy * k[o + QY];

@@ -15,7 +15,6 @@
  * cloning into a worker.
  */
 
-
 export interface OrbitalElements {
   /** Semi-major axis, m (> 0). */
   a: number;

@@ -33,8 +33,7 @@ const mu = z.number().gt(0).max(1e27).meta({
 
 const mass = z.number().gt(0).max(1e37).meta({
   id: 'mass',
-  description:
-    'Mass in kg; the program uses mu = G * mass with G = 6.67430e-11 m^3/(kg s^2) (CODATA 2018). Sanity bound: at most 1e37.',
+  description: 'Mass in kg; the program uses mu = G * mass with G = 6.67430e-11 m^3/(kg s^2) (CODATA 2018). Sanity bound: at most 1e37.',
 });
 
 const radius = z.number().gt(0).max(1e13).meta({ id: 'radius', description: 'Mean radius in metres. Sanity bound: at most 1e13.' });
@@ -51,29 +50,16 @@ const oneOfMuOrMass = {
 
 const orbit = z
   .strictObject({
-    a_m: z
-      .number()
-      .gt(0)
-      .max(1e17)
-      .meta({ description: 'Semi-major axis in metres (sanity bound: at most 1e17, about ten light-years).' }),
+    a_m: z.number().gt(0).max(1e17).meta({ description: 'Semi-major axis in metres (sanity bound: at most 1e17, about ten light-years).' }),
     e: z.number().min(0).lt(1).meta({ description: 'Eccentricity, 0 <= e < 1 (elliptic orbits only).' }),
-    i_deg: z
-      .number()
-      .min(0)
-      .max(180)
-      .meta({ description: 'Inclination to the reference plane in degrees, 0 to 180 (above 90 is retrograde).' }),
-    raan_deg: z
-      .number()
-      .min(-360)
-      .max(360)
-      .meta({ description: 'Longitude of the ascending node in degrees, from the reference direction.' }),
+    i_deg: z.number().min(0).max(180).meta({ description: 'Inclination to the reference plane in degrees, 0 to 180 (above 90 is retrograde).' }),
+    raan_deg: z.number().min(-360).max(360).meta({ description: 'Longitude of the ascending node in degrees, from the reference direction.' }),
     argp_deg: z.number().min(-360).max(360).meta({ description: 'Argument of periapsis in degrees, from the ascending node.' }),
     mean_anomaly_deg: z.number().min(-360).max(360).meta({ description: 'Mean anomaly at the epoch in degrees.' }),
   })
   .meta({
     id: 'orbit',
-    description:
-      'Osculating Keplerian elements at the epoch, centred on the parent, in the system reference frame. Angles in degrees.',
+    description: 'Osculating Keplerian elements at the epoch, centred on the parent, in the system reference frame. Angles in degrees.',
   });
 
 const star = z
@@ -104,16 +90,14 @@ const body = z
     mass_kg: mass.optional(),
     radius_m: radius,
     min_safe_altitude_m: z.number().min(0).max(1e13).meta({
-      description:
-        'Minimum safe altitude above the mean radius in metres: top of the atmosphere, or highest terrain for an airless body.',
+      description: 'Minimum safe altitude above the mean radius in metres: top of the atmosphere, or highest terrain for an airless body.',
     }),
     rotation_period_s: z
       .number()
       .min(-1e12)
       .max(1e12)
       .meta({
-        description:
-          'Optional sidereal rotation period in seconds; negative for retrograde rotation. At least 1 s and at most 1e12 s in magnitude.',
+        description: 'Optional sidereal rotation period in seconds; negative for retrograde rotation. At least 1 s and at most 1e12 s in magnitude.',
         not: { exclusiveMinimum: -1, exclusiveMaximum: 1 },
         'x-rule': 'must be at least 1 s in magnitude (negative for retrograde)',
       })
@@ -125,21 +109,10 @@ const body = z
 
 const calendar = z
   .strictObject({
-    home: id
-      .meta({ description: 'Id of the home body whose year and day the calendar uses. The body needs rotation_period_s.' })
-      .optional(),
-    year_s: z
-      .number()
-      .min(1)
-      .max(1e12)
-      .meta({ description: 'Length of the calendar year in seconds (instead of home), 1 to 1e12.' })
-      .optional(),
+    home: id.meta({ description: 'Id of the home body whose year and day the calendar uses. The body needs rotation_period_s.' }).optional(),
+    year_s: z.number().min(1).max(1e12).meta({ description: 'Length of the calendar year in seconds (instead of home), 1 to 1e12.' }).optional(),
     day_s: z.number().min(1).max(1e12).meta({ description: 'Length of the calendar day in seconds (instead of home), 1 to 1e12.' }).optional(),
-    year_at_epoch: z
-      .int()
-      .min(-1e9)
-      .max(1e9)
-      .meta({ description: 'Number of the calendar year that starts at the epoch (-1e9 to 1e9).' }),
+    year_at_epoch: z.int().min(-1e9).max(1e9).meta({ description: 'Number of the calendar year that starts at the epoch (-1e9 to 1e9).' }),
     era: z
       .string()
       .regex(/^[^,\s](?:[^,]*[^,\s])?$/)
@@ -159,14 +132,9 @@ const calendar = z
 /** The whole system file. Key order here is the order the file is written in. */
 export const systemFileShape = z
   .strictObject({
-    $schema: z
-      .string()
-      .meta({ description: 'Optional pointer to this schema for editors; ignored on load and not written back on save.' })
-      .optional(),
+    $schema: z.string().meta({ description: 'Optional pointer to this schema for editors; ignored on load and not written back on save.' }).optional(),
     format: z.literal('waymark-system').meta({ description: 'Always "waymark-system".' }),
-    version: z
-      .literal(1)
-      .meta({ description: 'File format version. This schema describes version 1; older versions are migrated on load.' }),
+    version: z.literal(1).meta({ description: 'File format version. This schema describes version 1; older versions are migrated on load.' }),
     name: z.string().min(1).meta({ description: 'Name of the star system, for display.' }),
     description: z.string().meta({ description: 'Optional free text about the system.' }).optional(),
     epoch: z
@@ -180,8 +148,7 @@ export const systemFileShape = z
     calendar,
     star,
     bodies: z.array(body).meta({
-      description:
-        'Planets, moons and smaller bodies, in any order (a parent may come after its children). Each orbits the star or another body.',
+      description: 'Planets, moons and smaller bodies, in any order (a parent may come after its children). Each orbits the star or another body.',
     }),
   })
   .meta({

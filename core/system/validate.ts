@@ -140,7 +140,10 @@ export function checkSystemDocument(doc: SystemDocument): ValidationIssue[] {
         const period = orbitalPeriod(parent.mu + nodes[h].mu, hb.orbit.a_m);
         const day = meanSolarDay(hb.rotation_period_s, period);
         if (!Number.isFinite(day) || day > period) {
-          error('calendar.home', `names "${hb.id}", whose rotation is (nearly) locked to its orbit so it has no usable day; give calendar.year_s and calendar.day_s`);
+          error(
+            'calendar.home',
+            `names "${hb.id}", whose rotation is (nearly) locked to its orbit so it has no usable day; give calendar.year_s and calendar.day_s`,
+          );
         }
       }
     }
@@ -165,17 +168,11 @@ export function checkSystemDocument(doc: SystemDocument): ValidationIssue[] {
     }
     const q = n.a * (1 - n.e);
     if (!(q > p.radius + n.radius)) {
-      error(
-        `${n.path}.orbit`,
-        `periapsis ${km(q)} puts the body inside "${p.id}" (radii add to ${km(p.radius + n.radius)})`,
-      );
+      error(`${n.path}.orbit`, `periapsis ${km(q)} puts the body inside "${p.id}" (radii add to ${km(p.radius + n.radius)})`);
       continue;
     }
     if (q - n.radius < p.radius + p.safeAlt) {
-      warn(
-        `${n.path}.orbit`,
-        `periapsis ${km(q)} dips below "${p.id}"'s minimum safe altitude (${km(p.radius + p.safeAlt)} from its centre)`,
-      );
+      warn(`${n.path}.orbit`, `periapsis ${km(q)} dips below "${p.id}"'s minimum safe altitude (${km(p.radius + p.safeAlt)} from its centre)`);
     }
   }
   if (issues.some((i) => i.severity === 'error')) return issues;
@@ -196,10 +193,7 @@ export function checkSystemDocument(doc: SystemDocument): ValidationIssue[] {
       if (Q > pSoi) {
         warn(`${n.path}.orbit`, `apoapsis ${km(Q)} leaves "${p.id}"'s sphere of influence (${km(pSoi)})`);
       } else if (Q > STABLE_HILL_FRACTION * pHill) {
-        warn(
-          `${n.path}.orbit`,
-          `apoapsis ${km(Q)} lies beyond half of "${p.id}"'s Hill radius (${km(pHill)}); such moon orbits are not long-term stable`,
-        );
+        warn(`${n.path}.orbit`, `apoapsis ${km(Q)} lies beyond half of "${p.id}"'s Hill radius (${km(pHill)}); such moon orbits are not long-term stable`);
       }
     }
     if (n.safeAlt > n.radius) {
@@ -227,10 +221,7 @@ export function checkSystemDocument(doc: SystemDocument): ValidationIssue[] {
       const Qb = b.a * (1 + b.e);
       if (qa <= Qb && qb <= Qa) {
         if (++overlaps > MAX_OVERLAP_WARNINGS) continue;
-        warn(
-          `${b.path}.orbit`,
-          `distance range ${km(qb)}–${km(Qb)} overlaps that of sibling "${a.id}" (${km(qa)}–${km(Qa)}); the orbits may cross`,
-        );
+        warn(`${b.path}.orbit`, `distance range ${km(qb)}–${km(Qb)} overlaps that of sibling "${a.id}" (${km(qa)}–${km(Qa)}); the orbits may cross`);
       }
     }
   }

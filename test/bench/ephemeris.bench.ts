@@ -108,9 +108,6 @@ export async function run(): Promise<void> {
     const rate = (ms: number) => N / (ms / 1000);
     rows.push([label, rate(f), rate(e), rate(f) / rate(e), rate(kp), rate(f) / rate(kp), agree(j, 'elements'), agree(j, 'kepler')]);
   }
-  printTable(
-    ['case', 'ephemeris eval/s', 'elements route eval/s', 'ratio', 'kepler route eval/s', 'ratio', 'max |Δr| elem (m)', 'max |Δr| kepler (m)'],
-    rows,
-  );
+  printTable(['case', 'ephemeris eval/s', 'elements route eval/s', 'ratio', 'kepler route eval/s', 'ratio', 'max |Δr| elem (m)', 'max |Δr| kepler (m)'], rows);
   if (sink === 42) console.log(''); // keep the loops observable
 }

@@ -56,18 +56,42 @@ export async function run(): Promise<void> {
     const full = timeMedian(() => void evaluate(system, plan), REPEATS, 50);
     const bare = timeMedian(() => void evaluate(system, plan, { samplesPerSegment: 0 }), REPEATS, 50);
     const segs = res.segments;
-    const kepOne = timeMedian(() => {
-      for (const s of segs) propagateKepler(s.mu, s.state0, s.t1 - s.t0, out);
-    }, REPEATS, 50);
-    const kepSamples = timeMedian(() => {
-      for (const s of segs) {
-        for (let j = 0; j < 96; j++) propagateKepler(s.mu, s.state0, ((s.t1 - s.t0) * j) / 95, out);
-      }
-    }, REPEATS, 50);
+    const kepOne = timeMedian(
+      () => {
+        for (const s of segs) propagateKepler(s.mu, s.state0, s.t1 - s.t0, out);
+      },
+      REPEATS,
+      50,
+    );
+    const kepSamples = timeMedian(
+      () => {
+        for (const s of segs) {
+          for (let j = 0; j < 96; j++) propagateKepler(s.mu, s.state0, ((s.t1 - s.t0) * j) / 95, out);
+        }
+      },
+      REPEATS,
+      50,
+    );
     rows.push([`${name}: evaluate, 96 samples/segment`, burns, segs.length, full.median, full.p95, 1000 / full.median, '—']);
     rows.push([`${name}: evaluate, 0 samples (reference)`, burns, segs.length, bare.median, bare.p95, 1000 / bare.median, full.median / bare.median]);
-    rows.push([`${name}: bare Kepler, 1 per segment (reference)`, '', segs.length, kepOne.median, kepOne.p95, 1000 / kepOne.median, full.median / kepOne.median]);
-    rows.push([`${name}: bare Kepler, 96 per segment (reference)`, '', segs.length, kepSamples.median, kepSamples.p95, 1000 / kepSamples.median, full.median / kepSamples.median]);
+    rows.push([
+      `${name}: bare Kepler, 1 per segment (reference)`,
+      '',
+      segs.length,
+      kepOne.median,
+      kepOne.p95,
+      1000 / kepOne.median,
+      full.median / kepOne.median,
+    ]);
+    rows.push([
+      `${name}: bare Kepler, 96 per segment (reference)`,
+      '',
+      segs.length,
+      kepSamples.median,
+      kepSamples.p95,
+      1000 / kepSamples.median,
+      full.median / kepSamples.median,
+    ]);
   }
   printTable(['case', 'burns', 'segments', 'median ms', 'p95 ms', 'per second', 'ratio (96-sample evaluate / this)'], rows);
   console.log('  goals: demo median < 5 ms with samples; ≥ 1,000 evaluations/s with 0 samples (one core)');

@@ -28,8 +28,12 @@ const SYSTEM_PATH = new URL('../../assets/systems/ilmar.system.json', import.met
 
 function bareEuler(steps: number, h: number): number {
   const mu = 3e14;
-  let x = 6.2e6, y = 0, z = 0;
-  let vx = 0, vy = Math.sqrt(mu / 6.2e6), vz = 0;
+  let x = 6.2e6,
+    y = 0,
+    z = 0;
+  let vx = 0,
+    vy = Math.sqrt(mu / 6.2e6),
+    vz = 0;
   for (let k = 0; k < steps; k++) {
     const r2 = x * x + y * y + z * z;
     const f = -mu / (r2 * Math.sqrt(r2));
@@ -52,7 +56,9 @@ function bareLeapfrog(mus: Float64Array, x0: Float64Array, v0: Float64Array, h: 
     a.fill(0);
     for (let i = 0; i < N; i++) {
       for (let j = i + 1; j < N; j++) {
-        const dx = x[3 * j] - x[3 * i], dy = x[3 * j + 1] - x[3 * i + 1], dz = x[3 * j + 2] - x[3 * i + 2];
+        const dx = x[3 * j] - x[3 * i],
+          dy = x[3 * j + 1] - x[3 * i + 1],
+          dz = x[3 * j + 2] - x[3 * i + 2];
         const r2 = dx * dx + dy * dy + dz * dz;
         const inv3 = 1 / (r2 * Math.sqrt(r2));
         a[3 * i] += mus[j] * inv3 * dx;
@@ -101,8 +107,20 @@ export async function run(): Promise<void> {
     const rate = all / (r.ms / 1000);
     const bare = time(() => bareEuler(all, 1 / 60));
     const bareRate = all / (bare.ms / 1000);
-    rows.push([`game-step check: ${label}`, `${(r.ms / 1000).toFixed(2)} s`, `${s.gameSteps} flown + ${s.windowSteps} extrapolation + ${s.probeSteps} probe steps`, '', '']);
-    rows.push([`  steps per second (all steps of the check)`, `${(rate / 1e6).toFixed(1)} M/s`, `bare Euler loop ${(bareRate / 1e6).toFixed(1)} M/s`, (rate / bareRate).toFixed(2), '']);
+    rows.push([
+      `game-step check: ${label}`,
+      `${(r.ms / 1000).toFixed(2)} s`,
+      `${s.gameSteps} flown + ${s.windowSteps} extrapolation + ${s.probeSteps} probe steps`,
+      '',
+      '',
+    ]);
+    rows.push([
+      `  steps per second (all steps of the check)`,
+      `${(rate / 1e6).toFixed(1)} M/s`,
+      `bare Euler loop ${(bareRate / 1e6).toFixed(1)} M/s`,
+      (rate / bareRate).toFixed(2),
+      '',
+    ]);
     rows.push([`  whole mission at 1/60 s`, `${s.missionSteps} steps`, `at this rate ≈ ${(s.missionSteps / rate).toFixed(0)} s if flown whole`, '', '']);
     rows.push([`  arrival miss`, `${r.value.arrival?.positionError.toFixed(2)} m (${r.value.arrival?.basis})`, r.value.passes ? 'passes' : 'fails', '', '']);
   }
@@ -139,7 +157,13 @@ export async function run(): Promise<void> {
     (st.ms / lf.ms).toFixed(2),
     '',
   ]);
-  rows.push([`  steps per second`, `${(stRate / 1e6).toFixed(2)} M/s`, `leapfrog ${(lfRate / 1e6).toFixed(2)} M/s`, (stRate / lfRate).toFixed(2), `energy error ${sr.energy.maxRelativeError.toExponential(1)}`]);
+  rows.push([
+    `  steps per second`,
+    `${(stRate / 1e6).toFixed(2)} M/s`,
+    `leapfrog ${(lfRate / 1e6).toFixed(2)} M/s`,
+    (stRate / lfRate).toFixed(2),
+    `energy error ${sr.energy.maxRelativeError.toExponential(1)}`,
+  ]);
 
   console.log('game-step and stability checks');
   printTable(['figure', 'value', 'reference', 'ratio', 'note'], rows);

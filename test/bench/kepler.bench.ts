@@ -56,7 +56,8 @@ function makeCases(kind: 'ellipse' | 'hyperbola', seed: number): Cases {
     if (kind === 'ellipse') {
       M = 2 * Math.PI * rnd();
       // E from M by bisection (set-up only)
-      let lo = 0, hi = 2 * Math.PI;
+      let lo = 0,
+        hi = 2 * Math.PI;
       for (let j = 0; j < 80; j++) {
         const mid = 0.5 * (lo + hi);
         if (mid - e * Math.sin(mid) < M) lo = mid;

@@ -64,8 +64,12 @@ let refIterations = 0;
 
 /** Universal-variable Lambert, single revolution, prograde about +z; returns false on failure. */
 function lambertUniversal(mu: number, P: Float64Array, j: number, o1: Float64Array, o2: Float64Array): boolean {
-  const x1 = P[j], y1 = P[j + 1], z1 = P[j + 2];
-  const x2 = P[j + 3], y2 = P[j + 4], z2 = P[j + 5];
+  const x1 = P[j],
+    y1 = P[j + 1],
+    z1 = P[j + 2];
+  const x2 = P[j + 3],
+    y2 = P[j + 4],
+    z2 = P[j + 5];
   const dt = P[j + 6];
   const r1 = Math.sqrt(x1 * x1 + y1 * y1 + z1 * z1);
   const r2 = Math.sqrt(x2 * x2 + y2 * y2 + z2 * z2);
@@ -150,20 +154,40 @@ export async function run(): Promise<void> {
 
   const reps = 2_000_000;
   let izzoIterations = 0;
-  const tIzzo = timeMedian(() => {
-    izzoIterations = 0;
-    for (let k = 0; k < reps; k++) {
-      const j = 7 * (k & (n - 1));
-      izzoIterations += lambertSingleRev(MU_SUN, single[j], single[j + 1], single[j + 2], single[j + 3], single[j + 4], single[j + 5], single[j + 6], false, o1, o2);
-    }
-  }, 5, 1);
+  const tIzzo = timeMedian(
+    () => {
+      izzoIterations = 0;
+      for (let k = 0; k < reps; k++) {
+        const j = 7 * (k & (n - 1));
+        izzoIterations += lambertSingleRev(
+          MU_SUN,
+          single[j],
+          single[j + 1],
+          single[j + 2],
+          single[j + 3],
+          single[j + 4],
+          single[j + 5],
+          single[j + 6],
+          false,
+          o1,
+          o2,
+        );
+      }
+    },
+    5,
+    1,
+  );
   const refReps = 200_000;
   let refIter = 0;
-  const tRef = timeMedian(() => {
-    refIterations = 0;
-    for (let k = 0; k < refReps; k++) lambertUniversal(MU_SUN, single, 7 * (k & (n - 1)), w1, w2);
-    refIter = refIterations;
-  }, 3, 1);
+  const tRef = timeMedian(
+    () => {
+      refIterations = 0;
+      for (let k = 0; k < refReps; k++) lambertUniversal(MU_SUN, single, 7 * (k & (n - 1)), w1, w2);
+      refIter = refIterations;
+    },
+    3,
+    1,
+  );
   const izzoRate = reps / (tIzzo.median / 1000);
   const refRate = refReps / (tRef.median / 1000);
 
@@ -177,15 +201,23 @@ export async function run(): Promise<void> {
   const r2 = new Float64Array(3);
   const mreps = 200_000;
   let solutions = 0;
-  const tMulti = timeMedian(() => {
-    solutions = 0;
-    for (let k = 0; k < mreps; k++) {
-      const j = 7 * (k & (n - 1));
-      r1[0] = multi[j]; r1[1] = multi[j + 1]; r1[2] = multi[j + 2];
-      r2[0] = multi[j + 3]; r2[1] = multi[j + 4]; r2[2] = multi[j + 5];
-      solutions += lambertAll(MU_SUN, r1, r2, multi[j + 6], maxRevs, false, V1, V2, R);
-    }
-  }, 5, 1);
+  const tMulti = timeMedian(
+    () => {
+      solutions = 0;
+      for (let k = 0; k < mreps; k++) {
+        const j = 7 * (k & (n - 1));
+        r1[0] = multi[j];
+        r1[1] = multi[j + 1];
+        r1[2] = multi[j + 2];
+        r2[0] = multi[j + 3];
+        r2[1] = multi[j + 4];
+        r2[2] = multi[j + 5];
+        solutions += lambertAll(MU_SUN, r1, r2, multi[j + 6], maxRevs, false, V1, V2, R);
+      }
+    },
+    5,
+    1,
+  );
   const multiRate = mreps / (tMulti.median / 1000);
   // Average iterations per multi-revolution solution, from the allocating front door.
   let mIter = 0;

@@ -66,7 +66,15 @@ function starFixed(sys: StarSystem): Accel {
 }
 
 /** Flies star-relative state s from t0 to t1 about body o with `accel`, adding impulses; returns the star-relative end position. */
-function fly(sys: StarSystem, accel: Accel, o: number, t0: number, s: ArrayLike<number>, t1: number, impulses: { t: number; dv: ArrayLike<number> }[] = []): number[] {
+function fly(
+  sys: StarSystem,
+  accel: Accel,
+  o: number,
+  t0: number,
+  s: ArrayLike<number>,
+  t1: number,
+  impulses: { t: number; dv: ArrayLike<number> }[] = [],
+): number[] {
   const b = new Float64Array(6);
   bodyState(sys, o, t0, b, 0);
   const x = Float64Array.from([0, 1, 2], (i) => s[i] - b[i]);
@@ -100,7 +108,15 @@ export async function run(): Promise<void> {
   const { actions } = burnActions(demoPlan, conic);
   const model = new NBodyModel(sys, { rtol: 1e-12 });
   const start = conicStart(conic);
-  const dep = toStar(sys, flyNBody(model, start, actions.filter((a) => a.t <= tDep), tDep).state);
+  const dep = toStar(
+    sys,
+    flyNBody(
+      model,
+      start,
+      actions.filter((a) => a.t <= tDep),
+      tDep,
+    ).state,
+  );
   const hour = toStar(sys, flyNBody(model, start, actions, tExit - 3600).state);
   const about = (o: number): Accel => {
     // one instance per origin (the model's origin is a field)
@@ -131,7 +147,15 @@ export async function run(): Promise<void> {
   const ref = new ReferenceTrack(sys, flyReference(prep.settings, tExit, Float64Array.from(s0), 0, tEnd, true));
   const r6 = new Float64Array(6);
   ref.at(tEnd, r6);
-  const n = toStar(sys, flyNBody(model, exit, actions.filter((a) => a.t >= tExit), tEnd).state);
+  const n = toStar(
+    sys,
+    flyNBody(
+      model,
+      exit,
+      actions.filter((a) => a.t >= tExit),
+      tEnd,
+    ).state,
+  );
   const after = dist(r6, n);
   const odex = flyStarCentred(sys, tExit, s0, later, tEnd, 1e-15);
   printTable(

@@ -82,11 +82,15 @@ export async function run(): Promise<void> {
   };
   let rkSteps = 0;
   let rkFevals = 0;
-  const rk = timeMedian(() => {
-    const r = propagate({ accel, t0: helio.t0, x0: helio.state0.subarray(0, 3), v0: helio.state0.subarray(3, 6), tEnd: helio.t1, rtol: 1e-10, atol: 1e-10 });
-    rkSteps = r.spans[0].stats.accepted;
-    rkFevals = r.spans[0].stats.fevals;
-  }, 50, 5);
+  const rk = timeMedian(
+    () => {
+      const r = propagate({ accel, t0: helio.t0, x0: helio.state0.subarray(0, 3), v0: helio.state0.subarray(3, 6), tEnd: helio.t1, rtol: 1e-10, atol: 1e-10 });
+      rkSteps = r.spans[0].stats.accepted;
+      rkFevals = r.spans[0].stats.fevals;
+    },
+    50,
+    5,
+  );
   const L = Math.hypot(helio.state0[0], helio.state0[1], helio.state0[2]);
   const V = Math.sqrt(mu / L);
   const T = L / V;
@@ -98,14 +102,18 @@ export async function run(): Promise<void> {
     return [y[3], y[4], y[5], k * y[0], k * y[1], k * y[2]];
   };
   const y0 = [...Array.from(helio.state0.subarray(0, 3), (c) => c / L), ...Array.from(helio.state0.subarray(3, 6), (c) => c / V)];
-  const od = timeMedian(() => {
-    const s = new odex.Solver(6);
-    s.relativeTolerance = 1e-10;
-    s.absoluteTolerance = 1e-10;
-    s.maxSteps = 1e6;
-    odexEvals = 0;
-    s.solve(f, 0, y0, span / T);
-  }, 50, 5);
+  const od = timeMedian(
+    () => {
+      const s = new odex.Solver(6);
+      s.relativeTolerance = 1e-10;
+      s.absoluteTolerance = 1e-10;
+      s.maxSteps = 1e6;
+      odexEvals = 0;
+      s.solve(f, 0, y0, span / T);
+    },
+    50,
+    5,
+  );
   rows.push([`two-body year, RK45 front door (reference)`, rk.median, rkSteps, rkFevals, '']);
   rows.push([`two-body year, odex rtol 1e-10 (reference)`, od.median, '', odexEvals, '']);
   printTable(['case', 'median ms', 'steps', 'fevals', 'ratio'], rows);

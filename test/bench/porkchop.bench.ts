@@ -65,7 +65,12 @@ export async function run(): Promise<void> {
       const s2 = bodyState(system, to, t + tof, new Float64Array(6));
       const [sol] = solveLambert(muStar, s1.subarray(0, 3), s2.subarray(0, 3), tof);
       const d = departure({ mu: A.mu, rPark: A.radius + request.parkingAltitude, vInf: [sol.v1[0] - s1[3], sol.v1[1] - s1[4], sol.v1[2] - s1[5]] });
-      const a = arrival({ mu: B.mu, vInf: [sol.v2[0] - s2[3], sol.v2[1] - s2[4], sol.v2[2] - s2[5]], rPeriapsis: B.radius + request.arrivalAltitude, eTarget: 0 });
+      const a = arrival({
+        mu: B.mu,
+        vInf: [sol.v2[0] - s2[3], sol.v2[1] - s2[4], sol.v2[2] - s2[5]],
+        rPeriapsis: B.radius + request.arrivalAltitude,
+        eTarget: 0,
+      });
       if (check) {
         const k = i * 1000 + j;
         worst = Math.max(worst, Math.abs(g.planes.dvDepart[k] - d.dv) / d.dv, Math.abs(g.planes.dvArrive[k] - a.dv) / a.dv);

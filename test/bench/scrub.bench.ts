@@ -22,7 +22,15 @@ import { computePorkchop } from '../../core/search/porkchop.ts';
 import { printTable, timeMedian } from './table.ts';
 
 const CHROMIUM = '/usr/bin/chromium';
-const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+const ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 
 // In-page code is passed as text (the bench runner's transpiler would add helpers the page lacks).
 const SCRUB = (n: number, focus: string) => `(async () => {
@@ -134,17 +142,35 @@ export async function run(): Promise<void> {
       1,
     );
 
-    console.log(`  chromium headless, software WebGL (SwiftShader), 1440×900 window; timer ${whole.iso ? 'cross-origin isolated (5 µs)' : '100 µs'} resolution`);
+    console.log(
+      `  chromium headless, software WebGL (SwiftShader), 1440×900 window; timer ${whole.iso ? 'cross-origin isolated (5 µs)' : '100 µs'} resolution`,
+    );
     printTable(
       ['figure', 'median ms', 'p95 ms', 'reference', 'ref median ms', 'ref p95 ms', 'ratio (median)'],
       [
-        ['scrub JS per frame, whole plan (400 moves)', whole.js[0], whole.js[1], 'empty rAF round trip', whole.ref[0], whole.ref[1], whole.js[0] / whole.ref[0]],
+        [
+          'scrub JS per frame, whole plan (400 moves)',
+          whole.js[0],
+          whole.js[1],
+          'empty rAF round trip',
+          whole.ref[0],
+          whole.ref[1],
+          whole.js[0] / whole.ref[0],
+        ],
         ['scrub move → frame, whole plan', whole.wall[0], whole.wall[1], 'empty rAF round trip', whole.ref[0], whole.ref[1], whole.wall[0] / whole.ref[0]],
         ['scrub JS + GPU finish, whole plan', whole.gpu[0], whole.gpu[1], 'empty rAF round trip', whole.ref[0], whole.ref[1], whole.gpu[0] / whole.ref[0]],
         ['scrub JS per frame, ship focus', ship.js[0], ship.js[1], 'empty rAF round trip', ship.ref[0], ship.ref[1], ship.js[0] / ship.ref[0]],
         ['scrub move → frame, ship focus', ship.wall[0], ship.wall[1], 'empty rAF round trip', ship.ref[0], ship.ref[1], ship.wall[0] / ship.ref[0]],
         ['scrub JS + GPU finish, ship focus', ship.gpu[0], ship.gpu[1], 'empty rAF round trip', ship.ref[0], ship.ref[1], ship.gpu[0] / ship.ref[0]],
-        ['edit (+ Burn) → updated views (40 edits)', edit.wall[0], edit.wall[1], 'empty rAF round trip', whole.ref[0], whole.ref[1], edit.wall[0] / whole.ref[0]],
+        [
+          'edit (+ Burn) → updated views (40 edits)',
+          edit.wall[0],
+          edit.wall[1],
+          'empty rAF round trip',
+          whole.ref[0],
+          whole.ref[1],
+          edit.wall[0] / whole.ref[0],
+        ],
         ['  of which plan evaluation', edit.evalMs[0], edit.evalMs[1], '', '', '', ''],
         ['porkchop 500×500 in worker, click → list', porkWall, '', 'same grid, Node main thread', nodeRef.median, nodeRef.p95, porkWall / nodeRef.median],
         ['  of which grid (worker-reported)', gridMs, '', 'same grid, Node main thread', nodeRef.median, nodeRef.p95, gridMs / nodeRef.median],

@@ -128,6 +128,13 @@ describe('core layering', () => {
       ['d', ['a']],
     ]);
     expect(cycles(g)).toHaveLength(1);
-    expect(cycles(new Map([['a', ['b']], ['b', []]]))).toEqual([]);
+    expect(
+      cycles(
+        new Map([
+          ['a', ['b']],
+          ['b', []],
+        ]),
+      ),
+    ).toEqual([]);
   });
 });

@@ -71,7 +71,12 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
   });
 
   it('dragging the timeline cursor moves the ship and the bodies and changes the readouts', async () => {
-    const before = { date: await page.textContent('[data-testid=cursor-date]'), met: await page.textContent('[data-testid=cursor-met]'), sum: await canvasSum(), ship: await js<number[]>('Array.from(window.waymarkDebug.scene.shipPosition())') };
+    const before = {
+      date: await page.textContent('[data-testid=cursor-date]'),
+      met: await page.textContent('[data-testid=cursor-met]'),
+      sum: await canvasSum(),
+      ship: await js<number[]>('Array.from(window.waymarkDebug.scene.shipPosition())'),
+    };
     const handle = page.locator('.cursor-handle');
     const box = (await handle.boundingBox())!;
     const svg = (await page.locator('.timeline-svg').boundingBox())!;
@@ -80,7 +85,12 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
     await page.mouse.move(svg.x + svg.width * 0.45, box.y + 5, { steps: 8 });
     await page.mouse.up();
     await page.waitForTimeout(100);
-    const after = { date: await page.textContent('[data-testid=cursor-date]'), met: await page.textContent('[data-testid=cursor-met]'), sum: await canvasSum(), ship: await js<number[]>('Array.from(window.waymarkDebug.scene.shipPosition())') };
+    const after = {
+      date: await page.textContent('[data-testid=cursor-date]'),
+      met: await page.textContent('[data-testid=cursor-met]'),
+      sum: await canvasSum(),
+      ship: await js<number[]>('Array.from(window.waymarkDebug.scene.shipPosition())'),
+    };
     expect(after.date).not.toBe(before.date);
     expect(after.met).not.toBe(before.met);
     expect(after.met).toMatch(/^T\+ \d+d/);

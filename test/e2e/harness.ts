@@ -15,7 +15,15 @@ import { serveStatic, type Served } from '../../app/renderer/build/serve.ts';
 import { rendererConfig } from '../../app/renderer/vite.config.ts';
 
 export const CHROMIUM = '/usr/bin/chromium';
-export const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+export const ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 /** Screenshots and files the suites write. */
 export const OUT = new URL('../output/e2e/', import.meta.url).pathname;
 export const haveChromium = existsSync(CHROMIUM);

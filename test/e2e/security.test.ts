@@ -95,7 +95,9 @@ describe.skipIf(!have)('the renderer never runs strings as code and shows file n
       page = opened.page;
       errors = opened.errors;
       // Record CSP violations from the very start of the page (before the app's own scripts).
-      await opened.context.addInitScript(`window.__violations = []; document.addEventListener('securitypolicyviolation', (e) => window.__violations.push(e.violatedDirective + ' ' + (e.blockedURI || '')));`);
+      await opened.context.addInitScript(
+        `window.__violations = []; document.addEventListener('securitypolicyviolation', (e) => window.__violations.push(e.violatedDirective + ' ' + (e.blockedURI || '')));`,
+      );
       await page.reload();
       await page.waitForSelector('[data-testid=budget-table] tbody tr.row', { timeout: 15_000 });
     });
@@ -185,13 +187,17 @@ describe.skipIf(!have)('the renderer never runs strings as code and shows file n
       ({ page, errors } = await app.openPage({ bypassCSP: true }));
       expect(await injected()).toEqual([]); // the app's own page has none of these elements
       await openFile(page, file);
-      await page.waitForFunction(() => document.querySelector('[data-testid=doc-name]')?.textContent?.includes('hostile-names.plan.json'), undefined, { timeout: 15_000 });
+      await page.waitForFunction(() => document.querySelector('[data-testid=doc-name]')?.textContent?.includes('hostile-names.plan.json'), undefined, {
+        timeout: 15_000,
+      });
       await page.waitForFunction(() => document.querySelectorAll('[data-testid=budget-table] tbody tr.row').length > 3);
       await page.waitForTimeout(300); // let every view (scene labels, timeline) draw the new document
     });
 
     it('opens the plan, with its names as the data says', async () => {
-      const plan = await page.evaluate(() => (window as unknown as { waymarkDebug: { session: { doc: { get(): { plan: { name: string } } } } } }).waymarkDebug.session.doc.get().plan.name);
+      const plan = await page.evaluate(
+        () => (window as unknown as { waymarkDebug: { session: { doc: { get(): { plan: { name: string } } } } } }).waymarkDebug.session.doc.get().plan.name,
+      );
       expect(plan).toBe(HOSTILE.plan);
     });
 
@@ -200,13 +206,21 @@ describe.skipIf(!have)('the renderer never runs strings as code and shows file n
       for (const name of [HOSTILE.star, HOSTILE.tessel, HOSTILE.ochre, HOSTILE.moravel]) expect(labels, name).toContain(name);
       expect(labels).toContain(HOSTILE.vehicle); // the ship's label
       // A moon's label shows once the view is close enough to tell it from its planet: focus on it.
-      const quill = await page.locator('[data-testid=focus] option').evaluateAll((els, name) => (els as HTMLOptionElement[]).find((o) => o.textContent?.trim() === name)?.value, HOSTILE.quill);
+      const quill = await page
+        .locator('[data-testid=focus] option')
+        .evaluateAll((els, name) => (els as HTMLOptionElement[]).find((o) => o.textContent?.trim() === name)?.value, HOSTILE.quill);
       expect(quill).toBeTruthy();
       await page.selectOption('[data-testid=focus]', quill!);
       await page.click('button[title="Frame the focused object"]');
-      await page.waitForFunction((name) => Array.from(document.querySelectorAll('.scene-label')).some((e) => e.textContent === name), HOSTILE.quill, { timeout: 5000 });
+      await page.waitForFunction((name) => Array.from(document.querySelectorAll('.scene-label')).some((e) => e.textContent === name), HOSTILE.quill, {
+        timeout: 5000,
+      });
       const focus = await texts('[data-testid=focus] option');
-      for (const name of [HOSTILE.star, HOSTILE.tessel, HOSTILE.ochre]) expect(focus.some((t) => t.trim() === name), name).toBe(true);
+      for (const name of [HOSTILE.star, HOSTILE.tessel, HOSTILE.ochre])
+        expect(
+          focus.some((t) => t.trim() === name),
+          name,
+        ).toBe(true);
       await page.locator('[data-testid=system-canvas]').screenshot({ path: `${OUT}sec-01-system-labels.png` });
       await page.selectOption('[data-testid=focus]', 'body:0');
     });
@@ -224,13 +238,21 @@ describe.skipIf(!have)('the renderer never runs strings as code and shows file n
 
     it('Budget: burn names in the table and the target name as text', async () => {
       const rows = await texts('[data-testid=budget-table] tbody tr.row');
-      for (const name of [HOSTILE.departure, HOSTILE.midCourse, HOSTILE.capture, HOSTILE.plane]) expect(rows.some((r) => r.includes(name)), name).toBe(true);
+      for (const name of [HOSTILE.departure, HOSTILE.midCourse, HOSTILE.capture, HOSTILE.plane])
+        expect(
+          rows.some((r) => r.includes(name)),
+          name,
+        ).toBe(true);
       expect(await page.textContent('[data-testid=target] strong')).toBe(HOSTILE.ochre);
     });
 
     it('Timeline: burn tooltips and SOI spans carry the names as text', async () => {
       const tips = await texts('.timeline-svg .burn-bar title');
-      for (const name of [HOSTILE.departure, HOSTILE.midCourse, HOSTILE.capture]) expect(tips.some((t) => t.startsWith(`${name}:`)), name).toBe(true);
+      for (const name of [HOSTILE.departure, HOSTILE.midCourse, HOSTILE.capture])
+        expect(
+          tips.some((t) => t.startsWith(`${name}:`)),
+          name,
+        ).toBe(true);
       const spans = await texts('.timeline-svg g.soi text');
       expect(spans.some((t) => t === HOSTILE.tessel || t === HOSTILE.star || t === HOSTILE.ochre)).toBe(true);
       expect(await page.textContent('[data-testid=timeline]')).toContain(HOSTILE.ochre); // "to <target>" readout

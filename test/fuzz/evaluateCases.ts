@@ -47,7 +47,13 @@ export function runEvaluateCase(c: EvaluateCase): string {
 export function describeEvaluateCase(c: EvaluateCase): string {
   const p = c.plan;
   const events = p.events
-    .map((e) => (e.type === 'burn' ? `burn(${e.solve.kind}${e.mode === 'finite' ? ',finite' : ''}${e.t === null ? '' : `@${e.t.toPrecision(6)}`})` : e.type === 'coast' ? `coast(${e.until.kind})` : 'stage'))
+    .map((e) =>
+      e.type === 'burn'
+        ? `burn(${e.solve.kind}${e.mode === 'finite' ? ',finite' : ''}${e.t === null ? '' : `@${e.t.toPrecision(6)}`})`
+        : e.type === 'coast'
+          ? `coast(${e.until.kind})`
+          : 'stage',
+    )
     .join(' ');
   return `${c.label}: start ${p.start.kind} at ${p.start.body}, ${p.vehicle.stages.length} stages, events: ${events || 'none'}, target ${p.target?.body ?? 'none'}`;
 }

@@ -24,10 +24,12 @@ export function checkResult(system: StarSystem, result: PlanResult): void {
     if (!(s.t1 >= s.t0)) throw new CaseFailure('segment times', `segments[${k}] t1 ${s.t1} < t0 ${s.t0}`);
     if (!(s.central >= 0 && s.central < nb)) throw new CaseFailure('segment central', `segments[${k}].central = ${s.central}`);
     if (!(s.mass0 >= 0 && s.mass1 >= 0)) throw new CaseFailure('negative mass', `segments[${k}] mass ${s.mass0} → ${s.mass1}`);
-    if (s.samples.length !== 3 * s.sampleT.length) throw new CaseFailure('segment samples', `segments[${k}] ${s.samples.length} values for ${s.sampleT.length} times`);
+    if (s.samples.length !== 3 * s.sampleT.length)
+      throw new CaseFailure('segment samples', `segments[${k}] ${s.samples.length} values for ${s.sampleT.length} times`);
   }
   for (let k = 1; k < result.events.length; k++) {
-    if (result.events[k].t < result.events[k - 1].t) throw new CaseFailure('events out of order', `events[${k}] at ${result.events[k].t} before ${result.events[k - 1].t}`);
+    if (result.events[k].t < result.events[k - 1].t)
+      throw new CaseFailure('events out of order', `events[${k}] at ${result.events[k].t} before ${result.events[k - 1].t}`);
   }
   for (const [k, e] of result.events.entries()) {
     if (!(e.central >= 0 && e.central < nb)) throw new CaseFailure('event central', `events[${k}] (${e.kind}).central = ${e.central}`);
@@ -47,7 +49,8 @@ export function checkResult(system: StarSystem, result: PlanResult): void {
     if (typeof f.message !== 'string' || f.message === '') throw new CaseFailure('flag message', `flag ${f.code} has no message`);
   }
   for (const [k, r] of result.budget.rows.entries()) {
-    if (!(r.dv >= 0 && r.propellantUsed >= 0 && r.duration >= 0)) throw new CaseFailure('budget row', `budget.rows[${k}]: dv ${r.dv}, propellant ${r.propellantUsed}, duration ${r.duration}`);
+    if (!(r.dv >= 0 && r.propellantUsed >= 0 && r.duration >= 0))
+      throw new CaseFailure('budget row', `budget.rows[${k}]: dv ${r.dv}, propellant ${r.propellantUsed}, duration ${r.duration}`);
     if (!(r.massAfter <= r.massBefore)) throw new CaseFailure('budget row', `budget.rows[${k}]: mass grows ${r.massBefore} → ${r.massAfter}`);
   }
   if (!(result.budget.finalMass >= 0)) throw new CaseFailure('negative mass', `budget.finalMass = ${result.budget.finalMass}`);

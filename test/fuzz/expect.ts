@@ -31,7 +31,11 @@ function names(issue: ValidationIssue, paths: readonly string[]): boolean {
 /** Throws CaseFailure unless the reader's answer fits the expectation. `issues` is null when the file loaded. */
 export function checkExpectation(c: FileCase, refused: ValidationIssue[] | null, warnings: ValidationIssue[]): void {
   const ex = c.expect;
-  const list = (xs: ValidationIssue[]) => xs.slice(0, 4).map((i) => `${i.path || '(document)'} ${i.rule}`).join('; ');
+  const list = (xs: ValidationIssue[]) =>
+    xs
+      .slice(0, 4)
+      .map((i) => `${i.path || '(document)'} ${i.rule}`)
+      .join('; ');
   if (refused === null) {
     if (ex.kind === 'reject') throw new CaseFailure('accepted a broken file', `${c.label}: expected an error naming ${ex.paths.join(' or ') || 'any field'}`);
     if (ex.kind === 'warn' && !warnings.some((w) => w.severity === 'warning' && w.rule.includes(ex.rule) && names(w, ex.paths))) {

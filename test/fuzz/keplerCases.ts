@@ -182,10 +182,12 @@ export function runKeplerCase(c: KeplerCase): string {
   // a known limit: e within 1e-7 of 1 through a periapsis pass (α = 2/r − v²/μ cancels near
   // the parabola, kepler.ts) drifts past even the κ-scaled allowance
   const knownLimit = Math.abs(1 - e) < 1e-7 && throughPeriapsis;
-  if (knownLimit && !(dE <= tolInv && dH <= tolInv && dr <= tolTrip && dv <= tolTrip)) return 'kepler: near-parabolic through periapsis, past the allowance (known limit)';
+  if (knownLimit && !(dE <= tolInv && dH <= tolInv && dr <= tolTrip && dv <= tolTrip))
+    return 'kepler: near-parabolic through periapsis, past the allowance (known limit)';
   if (!(dE <= tolInv)) throw new CaseFailure(`kepler energy drift${ill}`, `relative ${dE.toExponential(2)}, ${why}`);
   if (!(dH <= tolInv)) throw new CaseFailure(`kepler angular momentum drift${ill}`, `relative ${dH.toExponential(2)}, ${why}`);
-  if (!(dr <= tolTrip && dv <= tolTrip)) throw new CaseFailure(`kepler round trip${ill}`, `position ${dr.toExponential(2)}, velocity ${dv.toExponential(2)} (relative), ${why}`);
+  if (!(dr <= tolTrip && dv <= tolTrip))
+    throw new CaseFailure(`kepler round trip${ill}`, `position ${dr.toExponential(2)}, velocity ${dv.toExponential(2)} (relative), ${why}`);
   return 'kepler: propagated, ill-conditioned (within κ-scaled tolerance)';
 }
 

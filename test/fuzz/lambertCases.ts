@@ -114,7 +114,8 @@ function conditionNumber(c: LambertCase, v1: ArrayLike<number>, end: ArrayLike<n
 /** Returns true when the arc is well conditioned (κ ≤ WELL_CONDITIONED). */
 function checkSolution(c: LambertCase, what: string, v1: ArrayLike<number>, v2: ArrayLike<number>): boolean {
   for (let i = 0; i < 3; i++) {
-    if (!Number.isFinite(v1[i]) || !Number.isFinite(v2[i])) throw new CaseFailure('non-finite lambert velocity', `${what}: v1 ${Array.from(v1)}, v2 ${Array.from(v2)}`);
+    if (!Number.isFinite(v1[i]) || !Number.isFinite(v2[i]))
+      throw new CaseFailure('non-finite lambert velocity', `${what}: v1 ${Array.from(v1)}, v2 ${Array.from(v2)}`);
   }
   let end: ArrayLike<number>;
   try {
@@ -167,7 +168,8 @@ export function runLambertCase(c: LambertCase): string {
   const o2 = new Float64Array(3);
   const it = lambertSingleRev(c.mu, ...c.r1, ...c.r2, c.tof, c.retrograde, o1, o2);
   if (it < 0) throw new CaseFailure('lambertSingleRev failed where solveLambert solved', c.label);
-  if (norm(sub(o1, sols[0].v1)) > 1e-12 * norm(sols[0].v1)) throw new CaseFailure('lambertSingleRev disagrees', `${Array.from(o1)} vs ${Array.from(sols[0].v1)}`);
+  if (norm(sub(o1, sols[0].v1)) > 1e-12 * norm(sols[0].v1))
+    throw new CaseFailure('lambertSingleRev disagrees', `${Array.from(o1)} vs ${Array.from(sols[0].v1)}`);
 
   const n = 1 + 2 * c.revs;
   const V1 = new Float64Array(3 * n);

@@ -107,13 +107,30 @@ function planMutation(d: Draw, doc: Doc, label: string): FileCase {
     setAt(c as Json, keys, v);
     return { label: `${label}; ${what}`, text: JSON.stringify(c, null, d.pick([0, 2])), expect };
   };
-  const kinds = ['wrong-type', 'nan-text', 'huge', 'odd-number', 'negative-mass', 'out-of-order', 'duplicate-id', 'unknown-body', 'remove', 'unknown-field', 'extra-stage-drop', 'version', 'format'] as const;
+  const kinds = [
+    'wrong-type',
+    'nan-text',
+    'huge',
+    'odd-number',
+    'negative-mass',
+    'out-of-order',
+    'duplicate-id',
+    'unknown-body',
+    'remove',
+    'unknown-field',
+    'extra-stage-drop',
+    'version',
+    'format',
+  ] as const;
   const kind = d.pick(kinds);
   switch (kind) {
     case 'wrong-type': {
       const f = d.pick(all);
       const { value, mustFail } = otherType(d, f.value);
-      return set(f.keys, value, `${f.path}: ${JSON.stringify(f.value)?.slice(0, 40)} → ${JSON.stringify(value)}`, { kind: mustFail ? 'reject' : 'named', paths: related(f.path) });
+      return set(f.keys, value, `${f.path}: ${JSON.stringify(f.value)?.slice(0, 40)} → ${JSON.stringify(value)}`, {
+        kind: mustFail ? 'reject' : 'named',
+        paths: related(f.path),
+      });
     }
     case 'nan-text': {
       const c = nanTextCase(d, doc, numeric, label);
@@ -143,7 +160,10 @@ function planMutation(d: Draw, doc: Doc, label: string): FileCase {
       if (events.length < 2) break;
       const k = d.int(1, events.length - 1);
       const j = d.int(0, k - 1);
-      return set(['events', k, 'id'], events[j].id, `events[${k}].id duplicates events[${j}].id`, { kind: 'reject', paths: [`events[${k}].id`, `events[${j}].id`] });
+      return set(['events', k, 'id'], events[j].id, `events[${k}].id duplicates events[${j}].id`, {
+        kind: 'reject',
+        paths: [`events[${k}].id`, `events[${j}].id`],
+      });
     }
     case 'unknown-body': {
       const refs: Key[][] = [['start', 'body']];
@@ -161,7 +181,11 @@ function planMutation(d: Draw, doc: Doc, label: string): FileCase {
       const f = d.pick(props);
       const c = clone(doc);
       deleteAt(c as Json, f.keys);
-      return { label: `${label}; ${f.path} removed`, text: JSON.stringify(c), expect: { kind: 'named', paths: [...related(f.path), pathText(f.keys.slice(0, -1))] } };
+      return {
+        label: `${label}; ${f.path} removed`,
+        text: JSON.stringify(c),
+        expect: { kind: 'named', paths: [...related(f.path), pathText(f.keys.slice(0, -1))] },
+      };
     }
     case 'unknown-field': {
       const objects = [{ keys: [] as Key[], path: '' }, ...all.filter((f) => f.value !== null && typeof f.value === 'object' && !Array.isArray(f.value))];

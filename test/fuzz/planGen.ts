@@ -13,7 +13,7 @@ const DAY = 86400;
 
 function randomStart(d: Draw, system: StarSystem, epoch: number): PlanStart {
   const bodies = system.bodies;
-  const k = d.bool(0.5) ? system.indexById.tessel ?? 0 : d.int(0, bodies.length - 1);
+  const k = d.bool(0.5) ? (system.indexById.tessel ?? 0) : d.int(0, bodies.length - 1);
   const b = bodies[k];
   const soi = Number.isFinite(b.derived.soiRadius) ? b.derived.soiRadius : 1e3 * b.radius;
   if (d.bool(0.7)) {

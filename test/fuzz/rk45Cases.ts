@@ -62,7 +62,18 @@ export const rk45Cases = built((d): Rk45Case => {
     const tff = (Math.PI / 2) * Math.sqrt((r0 * r0 * r0) / (2 * mu));
     const x = withSurface ? d.log(1e-6, 0.5) : 0;
     const tSurface = x > 0 ? Math.sqrt((r0 * r0 * r0) / (2 * mu)) * (Math.sqrt(x * (1 - x)) + Math.acos(Math.sqrt(x))) : tff;
-    return { label: `radial fall${x > 0 ? ` to ${x.toPrecision(3)} r0` : ' to the centre'}`, kind: 'fall', mu, y0: [...scale(u, r0), 0, 0, 0], tEnd: tff * d.uniform(1.01, 3), surface: x * r0, tSurface, rtol, maxSteps, front };
+    return {
+      label: `radial fall${x > 0 ? ` to ${x.toPrecision(3)} r0` : ' to the centre'}`,
+      kind: 'fall',
+      mu,
+      y0: [...scale(u, r0), 0, 0, 0],
+      tEnd: tff * d.uniform(1.01, 3),
+      surface: x * r0,
+      tSurface,
+      rtol,
+      maxSteps,
+      front,
+    };
   }
   const a = d.log(1e4, 1e12);
   const e = 1 - d.log(1e-9, 1e-2);
@@ -79,7 +90,18 @@ export const rk45Cases = built((d): Rk45Case => {
     const E = 2 * Math.PI - Math.acos((1 - surface / a) / e);
     tSurface = (E - Math.PI - e * Math.sin(E)) / n;
   }
-  return { label: `grazing pass e = 1 − ${(1 - e).toPrecision(3)}${surface > 0 ? `, surface at ${(surface / rp).toPrecision(3)} rp` : ''}`, kind: 'graze', mu, y0, tEnd: (2 * Math.PI * d.uniform(0.6, 1.4)) / n, surface, tSurface, rtol, maxSteps, front };
+  return {
+    label: `grazing pass e = 1 − ${(1 - e).toPrecision(3)}${surface > 0 ? `, surface at ${(surface / rp).toPrecision(3)} rp` : ''}`,
+    kind: 'graze',
+    mu,
+    y0,
+    tEnd: (2 * Math.PI * d.uniform(0.6, 1.4)) / n,
+    surface,
+    tSurface,
+    rtol,
+    maxSteps,
+    front,
+  };
 });
 
 function pointMass(mu: number): OdeFunction {
@@ -135,12 +157,18 @@ function checkEventTime(c: Rk45Case, t: number, what: string): void {
   // plus the event locator's own absolute tolerance, EVENT_TIME_TOL·max(1, |t|) (eventLocator.ts), ten times over
   const allowed = Math.max(1e-8, EVENT_TOL_PER_RTOL * c.rtol) * c.tSurface + 10 * EVENT_TIME_TOL * Math.max(1, c.tSurface);
   if (!(Math.abs(t - c.tSurface) <= allowed)) {
-    throw new CaseFailure('surface event at the wrong time', `${what}: t ${t}, analytic ${c.tSurface} (relative ${(Math.abs(t - c.tSurface) / c.tSurface).toExponential(2)})`);
+    throw new CaseFailure(
+      'surface event at the wrong time',
+      `${what}: t ${t}, analytic ${c.tSurface} (relative ${(Math.abs(t - c.tSurface) / c.tSurface).toExponential(2)})`,
+    );
   }
 }
 
 export function runRk45Case(c: Rk45Case): string {
-  const events = c.surface > 0 ? [{ g: (_t: number, y: Float64Array) => Math.hypot(y[0], y[1], y[2]) - c.surface, terminal: true, direction: -1 as const, name: 'surface' }] : undefined;
+  const events =
+    c.surface > 0
+      ? [{ g: (_t: number, y: Float64Array) => Math.hypot(y[0], y[1], y[2]) - c.surface, terminal: true, direction: -1 as const, name: 'surface' }]
+      : undefined;
   if (!c.front) {
     let r: RK45Result;
     try {
@@ -149,7 +177,8 @@ export function runRk45Case(c: Rk45Case): string {
       return `rk45: ${typedOrFail(e, [InputError, SolverError], 'rk45')}`;
     }
     finiteState(r.y, `rk45 ${r.status}`);
-    if (r.stats.accepted + r.stats.rejected > c.maxSteps) throw new CaseFailure('step budget exceeded', `${r.stats.accepted} + ${r.stats.rejected} > ${c.maxSteps}`);
+    if (r.stats.accepted + r.stats.rejected > c.maxSteps)
+      throw new CaseFailure('step budget exceeded', `${r.stats.accepted} + ${r.stats.rejected} > ${c.maxSteps}`);
     if (typeof r.message !== 'string' || r.message === '') throw new CaseFailure('no status message', r.status);
     if (c.surface > 0) {
       if (r.status === 'event') checkEventTime(c, r.t, 'rk45');
@@ -191,7 +220,8 @@ export function runRk45Case(c: Rk45Case): string {
     return `propagate: ${typedOrFail(e, [InputError, SolverError], 'propagate')}`;
   }
   finiteState([...p.x, ...p.v], `propagate ${p.status}`);
-  if (p.spans.length === 0 || p.spans.some((s) => typeof s.reason !== 'string' || s.reason === '')) throw new CaseFailure('span without a reason', JSON.stringify(p.spans));
+  if (p.spans.length === 0 || p.spans.some((s) => typeof s.reason !== 'string' || s.reason === ''))
+    throw new CaseFailure('span without a reason', JSON.stringify(p.spans));
   if (p.spans.length > 1 && !p.spans[1].reason.startsWith('RK45 failed')) throw new CaseFailure('fallback without its reason', p.spans[1].reason);
   if ((p.status === 'step-underflow' || p.status === 'step-budget') && !p.message.includes('no fallback')) {
     throw new CaseFailure('failure without a word on the fallback', p.message);

@@ -129,7 +129,11 @@ export function brokenTextCase(d: Draw, doc: Json, text: string, label: string):
       const f = d.pick(all);
       const depth = Math.round(d.log(100, 100_000));
       const kind = d.pick(['array', 'object'] as const);
-      return { label: `${label}: ${f.path} nested ${depth} ${kind}s deep`, text: withRawValue(doc, f.keys, deepText(depth, kind)), expect: { kind: 'reject', paths: [f.path] } };
+      return {
+        label: `${label}: ${f.path} nested ${depth} ${kind}s deep`,
+        text: withRawValue(doc, f.keys, deepText(depth, kind)),
+        expect: { kind: 'reject', paths: [f.path] },
+      };
     }
     case 'deep-document': {
       const depth = Math.round(d.log(1000, 200_000));
@@ -155,7 +159,23 @@ function systemMutation(d: Draw, doc: Doc): FileCase {
   const numeric = all.filter((f) => typeof f.value === 'number');
   const nb = doc.bodies.length;
   const bodyIdx = () => d.int(0, nb - 1);
-  const kinds = ['wrong-type', 'nan-text', 'huge', 'odd-number', 'negative-mass', 'e-unbound', 'moon-outside-soi', 'cycle', 'unknown-parent', 'self-parent', 'duplicate-id', 'remove', 'unknown-field', 'version', 'large'] as const;
+  const kinds = [
+    'wrong-type',
+    'nan-text',
+    'huge',
+    'odd-number',
+    'negative-mass',
+    'e-unbound',
+    'moon-outside-soi',
+    'cycle',
+    'unknown-parent',
+    'self-parent',
+    'duplicate-id',
+    'remove',
+    'unknown-field',
+    'version',
+    'large',
+  ] as const;
   const kind = d.pick(kinds);
   const set = (keys: Key[], v: Json, label: string, expect: Expectation): FileCase => {
     const c = clone(doc);
@@ -241,10 +261,17 @@ function systemMutation(d: Draw, doc: Doc): FileCase {
       const c = clone(doc);
       deleteAt(c, f.keys);
       const parent = f.keys.slice(0, -1);
-      return { label: `${f.path} removed`, text: JSON.stringify(c), expect: { kind: 'named', paths: [...related(doc, f.path), ...(parent.length > 0 ? [pathText(parent)] : [])] } };
+      return {
+        label: `${f.path} removed`,
+        text: JSON.stringify(c),
+        expect: { kind: 'named', paths: [...related(doc, f.path), ...(parent.length > 0 ? [pathText(parent)] : [])] },
+      };
     }
     case 'unknown-field': {
-      const objects = [{ keys: [] as Key[], path: '', value: doc as Json }, ...all.filter((f) => f.value !== null && typeof f.value === 'object' && !Array.isArray(f.value))];
+      const objects = [
+        { keys: [] as Key[], path: '', value: doc as Json },
+        ...all.filter((f) => f.value !== null && typeof f.value === 'object' && !Array.isArray(f.value)),
+      ];
       const f = d.pick(objects);
       const c = clone(doc);
       (getAt(c, f.keys) as Record<string, Json>).zz_extra = d.pick<Json>([1, 'x', null, {}]);

@@ -37,7 +37,17 @@ describe('plans that cannot be flown come back as results with flags', () => {
   it('burns that exhaust every stage: out of propellant, stages run dry, negative margin, Δv missing in the budget', () => {
     const p: Plan = {
       ...plan(lowTesselStart(), [
-        { type: 'burn', id: 'big', name: 'Big burn', t: 600, frame: 'vnb', dv: [20_000, 0, 0], solve: { kind: 'fixed' }, mode: 'impulsive', pointing: 'velocity' },
+        {
+          type: 'burn',
+          id: 'big',
+          name: 'Big burn',
+          t: 600,
+          frame: 'vnb',
+          dv: [20_000, 0, 0],
+          solve: { kind: 'fixed' },
+          mode: 'impulsive',
+          pointing: 'velocity',
+        },
         { type: 'burn', id: 'more', name: 'More', t: 1200, frame: 'vnb', dv: [500, 0, 0], solve: { kind: 'fixed' }, mode: 'finite', pointing: 'velocity' },
         coast('after', { kind: 'duration', dt: 3600 }),
       ]),
@@ -83,7 +93,17 @@ describe('plans that cannot be flown come back as results with flags', () => {
   it('an unreachable target: a transfer to Ochre in one minute is out of propellant, the target is missed, the result is finite', () => {
     const p: Plan = {
       ...plan(lowTesselStart(), [
-        { type: 'burn', id: 'go', name: 'Go', t: 1000, frame: 'vnb', dv: [0, 0, 0], solve: { kind: 'transfer', to: 'ochre', arrive: 1060 }, mode: 'impulsive', pointing: 'velocity' },
+        {
+          type: 'burn',
+          id: 'go',
+          name: 'Go',
+          t: 1000,
+          frame: 'vnb',
+          dv: [0, 0, 0],
+          solve: { kind: 'transfer', to: 'ochre', arrive: 1060 },
+          mode: 'impulsive',
+          pointing: 'velocity',
+        },
         coast('cruise', { kind: 'duration', dt: 86400 }),
       ]),
       vehicle: bigVehicle,
@@ -98,7 +118,7 @@ describe('plans that cannot be flown come back as results with flags', () => {
 });
 
 describe('evaluation: cases kept as regressions', () => {
-  it('regression (a timed coast to exactly the SOI exit time left the ship on Tessel\'s conic: exit 3 days late, margin −48,626 m/s): the next coast leaves at once', () => {
+  it("regression (a timed coast to exactly the SOI exit time left the ship on Tessel's conic: exit 3 days late, margin −48,626 m/s): the next coast leaves at once", () => {
     const system = demoSystem();
     const base = evaluate(system, demoPlan);
     const exit = base.events.find((e) => e.kind === 'soi-exit')!;
@@ -132,7 +152,11 @@ describe('evaluation: cases kept as regressions', () => {
     const base = evaluate(system, demoPlan);
     const entry = base.events.find((e) => e.kind === 'soi-entry')!;
     const p = clonePlan(demoPlan);
-    p.events.splice(p.events.findIndex((e) => e.id === 'approach'), 0, coast('to-entry', { kind: 'time', t: entry.t }));
+    p.events.splice(
+      p.events.findIndex((e) => e.id === 'approach'),
+      0,
+      coast('to-entry', { kind: 'time', t: entry.t }),
+    );
     const r = evaluate(system, p);
     expect(r.budget.margin).toBeCloseTo(base.budget.margin, 3);
     expect(r.events.filter((e) => e.kind === 'soi-entry' || e.kind === 'soi-exit')).toHaveLength(2);
@@ -166,7 +190,7 @@ describe('evaluation: cases kept as regressions', () => {
     expect(codes(r)).toContain('impact');
   });
 
-  it('regression (found by the plan fuzz: a nearly radial climb at escape speed, e rounding to 1 — a hang): it leaves Tessel\'s SOI where the conic reaches the SOI radius', () => {
+  it("regression (found by the plan fuzz: a nearly radial climb at escape speed, e rounding to 1 — a hang): it leaves Tessel's SOI where the conic reaches the SOI radius", () => {
     const st = [2312.992315188933, -969.9591065495925, 10982653.152916007, 1.5551379147598166, -0.6521509701767493, 7384.17512699821];
     const r = evaluate(demoSystem(), plan(stateStart('tessel', st.slice(0, 3), st.slice(3)), [coast('out', { kind: 'soi-change' })]));
     checkResult(demoSystem(), r);
@@ -180,7 +204,10 @@ describe('evaluation: cases kept as regressions', () => {
     const c = conicInfo(3e14, st);
     expect(c.h).toBe(0);
     expect(Number.isFinite(c.nu) && Number.isFinite(c.Q[0] + c.Q[1] + c.Q[2])).toBe(true);
-    const r = evaluate(demoSystem(), plan(stateStart('tessel', st.slice(0, 3), st.slice(3)), [coast('a', { kind: 'apoapsis' }), coast('b', { kind: 'duration', dt: 1e5 })]));
+    const r = evaluate(
+      demoSystem(),
+      plan(stateStart('tessel', st.slice(0, 3), st.slice(3)), [coast('a', { kind: 'apoapsis' }), coast('b', { kind: 'duration', dt: 1e5 })]),
+    );
     checkResult(demoSystem(), r);
   });
 

@@ -86,7 +86,7 @@ describe('file limits, enforced when the file is read', () => {
     expect(p.issues[0].path).toBe('system.embedded.bodies');
   });
 
-  it('a system of exactly the limit loads (the tests\' largest real-use case has 1,008 bodies)', () => {
+  it("a system of exactly the limit loads (the tests' largest real-use case has 1,008 bodies)", () => {
     const { system } = parseSystemFile(JSON.stringify(asteroids(MAX_BODIES - 8)));
     expect(system.bodies).toHaveLength(1 + MAX_BODIES);
   });
@@ -104,7 +104,7 @@ describe('file limits, enforced when the file is read', () => {
     ]);
   });
 
-  it('the evaluator\'s own guard refuses an in-memory plan past the limits too', () => {
+  it("the evaluator's own guard refuses an in-memory plan past the limits too", () => {
     const sys = demoSystem();
     const many = { ...demoPlan, events: Array.from({ length: MAX_EVENTS + 1 }, (_, k) => ({ type: 'stage' as const, id: `s${k}`, name: '' })) };
     expect(inputError(() => checkPlan(sys, many)).field).toBe('events');
@@ -134,7 +134,9 @@ describe('long runs: refused before they start, or bounded', () => {
     const e = inputError(() => checkStability(big, { years: 1, onProgress: () => void progress++ }));
     expect(e.field).toBe('system.bodies');
     // the moons merged (auto) leave the planets: the 5 of the demo and the asteroids
-    expect(e.message).toBe(`system.bodies is ${fmt(5 + MAX_STABILITY_BODIES)} planets to fly (moons merged), more than the ${fmt(MAX_STABILITY_BODIES)} Waymark handles`);
+    expect(e.message).toBe(
+      `system.bodies is ${fmt(5 + MAX_STABILITY_BODIES)} planets to fly (moons merged), more than the ${fmt(MAX_STABILITY_BODIES)} Waymark handles`,
+    );
     expect(progress).toBe(0);
   });
 
@@ -163,7 +165,9 @@ describe('long runs: refused before they start, or bounded', () => {
     // a step of a microsecond with the per-span budget at its largest: every span flown whole
     const d = inputError(() => gameStepCheck(sys, demoPlan, { ...base, physics: { integrator: 'verlet', dt: 1e-6 }, maxStepsPerSpan: MAX_GAME_STEPS }));
     expect(d.field).toBe('physics.dt');
-    expect(inputError(() => gameStepCheck(sys, demoPlan, { ...base, samplesPerSpan: MAX_GAME_SAMPLES_PER_SPAN + 1 })).message).toContain(fmt(MAX_GAME_SAMPLES_PER_SPAN));
+    expect(inputError(() => gameStepCheck(sys, demoPlan, { ...base, samplesPerSpan: MAX_GAME_SAMPLES_PER_SPAN + 1 })).message).toContain(
+      fmt(MAX_GAME_SAMPLES_PER_SPAN),
+    );
     expect(progress).toBe(0);
   });
 

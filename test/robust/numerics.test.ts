@@ -49,7 +49,7 @@ describe('Kepler: Δt past what double precision resolves', () => {
     }
   });
 
-  it('bound orbits reduce Δt modulo the period: 2⁴⁰ revolutions and a quarter land a quarter of a mean anomaly on, within the phase the period\'s rounding allows', () => {
+  it("bound orbits reduce Δt modulo the period: 2⁴⁰ revolutions and a quarter land a quarter of a mean anomaly on, within the phase the period's rounding allows", () => {
     const T = 2 * Math.PI * Math.sqrt(el.a ** 3 / MU);
     const k = 2 ** 40;
     expect(k).toBeLessThan(KEPLER_MAX_REVOLUTIONS);
@@ -66,7 +66,7 @@ describe('Kepler: Δt past what double precision resolves', () => {
     const nu1 = eccentricToTrue(meanToEccentric(M1, el.e), el.e);
     const ref = elementsToState(MU, { ...el, nu: nu1 });
     const phaseTol = 2 * Math.PI * k * 4 * EPS;
-    const posTol = phaseTol * norm(ref, 3) * T / (2 * Math.PI) / norm(ref); // a phase error moves the body along at |v|
+    const posTol = (phaseTol * norm(ref, 3) * T) / (2 * Math.PI) / norm(ref); // a phase error moves the body along at |v|
     expect(Math.hypot(s[0] - ref[0], s[1] - ref[1], s[2] - ref[2]) / norm(ref)).toBeLessThan(posTol);
   });
 
@@ -138,7 +138,7 @@ describe('Hohmann and Lambert with huge values', () => {
     // large but representable: answered (vis-viva at r1 toward escape speed)
     const h = hohmann(MU, 7e6, 1e100);
     expect(Number.isFinite(h.tof)).toBe(true);
-    expect(h.dv1 / (Math.sqrt(2 * MU / 7e6) - Math.sqrt(MU / 7e6))).toBeCloseTo(1, 12);
+    expect(h.dv1 / (Math.sqrt((2 * MU) / 7e6) - Math.sqrt(MU / 7e6))).toBeCloseTo(1, 12);
   });
 
   it('regression (1e300 vectors were refused as "coincident points"): Lambert says the radius is too large', () => {
@@ -156,7 +156,9 @@ describe('numbers too large for a double', () => {
     const text = JSON.stringify(sys).replace(`"radius_m":${sys.bodies[0].radius_m}`, '"radius_m":1e999');
     let e = thrown(() => parseSystemFile(text)) as ValidationError;
     expect(e).toBeInstanceOf(ValidationError);
-    expect(e.issues).toEqual([{ path: 'bodies[0].radius_m', rule: 'is too large: 1.8e308 is the largest magnitude a number can have (it was read as infinity)', severity: 'error' }]);
+    expect(e.issues).toEqual([
+      { path: 'bodies[0].radius_m', rule: 'is too large: 1.8e308 is the largest magnitude a number can have (it was read as infinity)', severity: 'error' },
+    ]);
     // a field that may also be null (type [number, null]) says the same, with the sign
     const plan = demoPlanText('tessel-to-ochre.plan.json').replace(/"end_s": [^,\n]+/, '"end_s": -1e999');
     expect(plan).toContain('-1e999');
@@ -165,14 +167,16 @@ describe('numbers too large for a double', () => {
   });
 
   it('a command-line value past the largest double, or made so by its unit, is too large (1e308 Gm was Infinity)', () => {
-    expect(thrown(() => parseQuantity('--r2', '1e999', 'length')).message).toBe('--r2 is too large: 1.8e308 is the largest magnitude a number can have (got "1e999")');
+    expect(thrown(() => parseQuantity('--r2', '1e999', 'length')).message).toBe(
+      '--r2 is too large: 1.8e308 is the largest magnitude a number can have (got "1e999")',
+    );
     expect(thrown(() => parseQuantity('--r2', '1e308Gm', 'length')).message).toMatch(/^--r2 is too large/);
     expect(parseQuantity('--r2', '1e299Gm', 'length')).toBe(1e308);
   });
 });
 
 describe('messages that name what the user can change', () => {
-  it('regression (correct suggested options.desired…, which are no options): it names the plan\'s burns and the target', () => {
+  it("regression (correct suggested options.desired…, which are no options): it names the plan's burns and the target", () => {
     const plan = structuredClone(demoPlan);
     plan.target = { ...plan.target!, body: 'fennick' };
     const e = thrown(() => correctPlan(demoSystem(), plan));

@@ -29,7 +29,7 @@ describe('Kepler, fuzzed', () => {
 });
 
 describe('anomaly solvers in bulk', () => {
-  it('meanToEccentric and meanToHyperbolic solve Kepler\'s equation to rounding for every e and M, without throwing', () => {
+  it("meanToEccentric and meanToHyperbolic solve Kepler's equation to rounding for every e and M, without throwing", () => {
     fc.assert(
       fc.property(
         fc.double({ min: -1e9, max: 1e9, noNaN: true }),
@@ -63,7 +63,7 @@ describe('anomaly solvers in bulk', () => {
     }
   });
 
-  it('regression (long run: a nearly rectilinear hyperbola falling in from far out — Vallado\'s starter, from a denominator that cancels, landed far past the root where F cannot be evaluated, and F ≈ 0 there was taken for the root: the ship came out on the way out): flown to where an independent integrator (odex) puts it', () => {
+  it("regression (long run: a nearly rectilinear hyperbola falling in from far out — Vallado's starter, from a denominator that cancels, landed far past the root where F cannot be evaluated, and F ≈ 0 there was taken for the root: the ship came out on the way out): flown to where an independent integrator (odex) puts it", () => {
     const mu = 473073438.5389814;
     const s0 = [-70071112898.33932, 100805919312.15027, -24790336756.86361, 138.50293641251073, -199.25351909919848, 49.0007121823744];
     const tof = 250673209.6776438;

@@ -126,7 +126,10 @@ describe('plan files: cases kept as regressions', () => {
       try {
         read();
       } catch (e) {
-        expect((e as ValidationError).issues.some((i) => i.path === path && rule.test(i.rule)), `${path}: ${(e as Error).message}`).toBe(true);
+        expect(
+          (e as ValidationError).issues.some((i) => i.path === path && rule.test(i.rule)),
+          `${path}: ${(e as Error).message}`,
+        ).toBe(true);
       }
     }
   });

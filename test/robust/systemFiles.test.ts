@@ -83,7 +83,7 @@ describe('system files: cases kept as regressions', () => {
     expect(Number(/^(\d+) more/.exec(rest!.rule)![1])).toBeGreaterThan(100_000);
   });
 
-  it('a moon whose orbit leaves its planet\'s sphere of influence is a warning, not an error (the file loads)', () => {
+  it("a moon whose orbit leaves its planet's sphere of influence is a warning, not an error (the file loads)", () => {
     const doc = demoSystemDoc() as Doc;
     const k = doc.bodies.findIndex((b: Doc) => b.id === 'quill');
     doc.bodies[k].orbit.a_m = 1.2e9; // Tessel's SOI is about 6.8e8 m

@@ -126,7 +126,12 @@ describe('validation work is linear in the number of bad array items', () => {
   it('inlining local references keeps every rule: the inlined schema has no $ref left and the same x-rule wording', () => {
     const schema = JSON.parse(readFileSync(new URL('../../assets/schema/plan.schema.json', import.meta.url), 'utf8'));
     const inlined = inlineLocalRefs(schema) as Doc;
-    const refs = (x: unknown): number => (Array.isArray(x) ? x.reduce((s: number, y) => s + refs(y), 0) : x && typeof x === 'object' ? Object.entries(x).reduce((s, [k, v]) => s + (k === '$ref' ? 1 : k === '$defs' ? 0 : refs(v)), 0) : 0);
+    const refs = (x: unknown): number =>
+      Array.isArray(x)
+        ? x.reduce((s: number, y) => s + refs(y), 0)
+        : x && typeof x === 'object'
+          ? Object.entries(x).reduce((s, [k, v]) => s + (k === '$ref' ? 1 : k === '$defs' ? 0 : refs(v)), 0)
+          : 0;
     expect(refs(schema)).toBeGreaterThan(0);
     expect(refs(inlined)).toBe(0);
     expect(inlined.properties.events.items.allOf.length).toBe(schema.$defs.event.allOf.length);
@@ -134,7 +139,7 @@ describe('validation work is linear in the number of bad array items', () => {
   });
 });
 
-describe('the renderer\'s build-time validators: linear and capped too', () => {
+describe("the renderer's build-time validators: linear and capped too", () => {
   async function shim(): Promise<{ compile(s: unknown): ((d: unknown) => boolean) & { errors: unknown } }> {
     const dir = new URL('../output/validation-scale/', import.meta.url).pathname;
     mkdirSync(dir, { recursive: true });
@@ -175,9 +180,12 @@ describe('the renderer\'s build-time validators: linear and capped too', () => {
 });
 
 describe('capped lists', () => {
-  it('a ValidationError re-made from capped issues (paths prefixed, as the renderer does for a plan\'s system) keeps the count', () => {
+  it("a ValidationError re-made from capped issues (paths prefixed, as the renderer does for a plan's system) keeps the count", () => {
     const e = refusal(() => parsePlanFile(planWithBadEvents(300)));
-    const again = new ValidationError('plan file', e.issues.map((i) => ({ ...i, path: `system (x.json) ${i.path}`.trim() })));
+    const again = new ValidationError(
+      'plan file',
+      e.issues.map((i) => ({ ...i, path: `system (x.json) ${i.path}`.trim() })),
+    );
     expect(again.issues).toHaveLength(MAX_LISTED_ISSUES + 1);
     expect(again.message.split('\n')[0]).toBe('plan file: 300 problems');
   });

@@ -121,9 +121,7 @@ export function addCalcCommands(program: Command): void {
         const sols = solveLambert(mu, r1, r2, tof, { revs, retrograde: !!o.retrograde });
         const out = sols.map((s) => ({ revs: s.revs, branch: s.branch, v1: Array.from(s.v1), v2: Array.from(s.v2), iterations: s.iterations }));
         if (o.json) printJson({ solutions: out });
-        else
-          for (const s of out)
-            console.log(`revs ${s.revs} ${s.branch.padEnd(6)}  v1 = ${vecText(s.v1, 1e3)} km/s  v2 = ${vecText(s.v2, 1e3)} km/s`);
+        else for (const s of out) console.log(`revs ${s.revs} ${s.branch.padEnd(6)}  v1 = ${vecText(s.v1, 1e3)} km/s  v2 = ${vecText(s.v2, 1e3)} km/s`);
       }),
     );
 
@@ -138,10 +136,7 @@ export function addCalcCommands(program: Command): void {
       guard({ json: !!o.json, flags: CALC_FLAGS }, () => {
         const h = hohmann(parseQuantity('--mu', o.mu, 'mu'), parseQuantity('--r1', o.r1, 'length'), parseQuantity('--r2', o.r2, 'length'));
         if (o.json) printJson(h);
-        else
-          console.log(
-            `dv1 = ${num(h.dv1, 2)} m/s\ndv2 = ${num(h.dv2, 2)} m/s\ntotal = ${num(h.dvTotal, 2)} m/s\nflight time = ${num(h.tof / 86400, 4)} d`,
-          );
+        else console.log(`dv1 = ${num(h.dv1, 2)} m/s\ndv2 = ${num(h.dv2, 2)} m/s\ntotal = ${num(h.dvTotal, 2)} m/s\nflight time = ${num(h.tof / 86400, 4)} d`);
       }),
     );
 

@@ -38,7 +38,16 @@ export function budgetText(system: StarSystem, plan: Plan, result: PlanResult): 
   const out: string[] = [];
   out.push(`plan ${plan.name} — vehicle ${plan.vehicle.name}, system ${system.name}`);
   out.push('');
-  const head = [pad('burn', 22), pad('time', 17), pad('Δv m/s', 9, true), pad('dur s', 9, true), pad('prop kg', 10, true), pad('mass kg', 10, true), pad('left m/s', 10, true), '  flags'];
+  const head = [
+    pad('burn', 22),
+    pad('time', 17),
+    pad('Δv m/s', 9, true),
+    pad('dur s', 9, true),
+    pad('prop kg', 10, true),
+    pad('mass kg', 10, true),
+    pad('left m/s', 10, true),
+    '  flags',
+  ];
   out.push(head.join(' '));
   for (const r of b.rows) {
     out.push(

@@ -31,7 +31,9 @@ const DEG = 180 / Math.PI;
 export function systemRefFor(out: string, ref: PlanSystemRef, systemPath: string | null): PlanSystemRef {
   if (ref.kind !== 'path' || systemPath === null) return ref;
   if (out === STDOUT) return { kind: 'path', path: resolve(systemPath) };
-  const rel = relative(dirname(resolve(out)), systemPath).split('\\').join('/');
+  const rel = relative(dirname(resolve(out)), systemPath)
+    .split('\\')
+    .join('/');
   return { kind: 'path', path: rel };
 }
 
@@ -85,11 +87,18 @@ export function addCorrectCommand(program: Command): void {
         } else {
           printWarnings(loaded.warnings);
           const out: string[] = [];
-          out.push(`correction of ${loaded.plan.name} in the n-body model: converged in ${c.iterations} iteration${c.iterations === 1 ? '' : 's'} (${c.flights} n-body flights)`);
+          out.push(
+            `correction of ${loaded.plan.name} in the n-body model: converged in ${c.iterations} iteration${c.iterations === 1 ? '' : 's'} (${c.flights} n-body flights)`,
+          );
           out.push('  iter   Δ periapsis km   Δ incl deg   Δ time s');
-          for (const h of c.history) out.push(`  ${String(h.iteration).padStart(4)}   ${num(h.altitude / 1e3, 4).padStart(14)}   ${num(h.i * DEG, 6).padStart(10)}   ${num(h.t, 3).padStart(8)}`);
+          for (const h of c.history)
+            out.push(
+              `  ${String(h.iteration).padStart(4)}   ${num(h.altitude / 1e3, 4).padStart(14)}   ${num(h.i * DEG, 6).padStart(10)}   ${num(h.t, 3).padStart(8)}`,
+            );
           for (const b of c.burns) {
-            out.push(`burn ${b.planEventId}: Δv ${vecText(b.dvBefore, 1, 3)} → ${vecText(b.dvAfter, 1, 3)} m/s (inertial), change ${num(b.changeMagnitude, 3)} m/s`);
+            out.push(
+              `burn ${b.planEventId}: Δv ${vecText(b.dvBefore, 1, 3)} → ${vecText(b.dvAfter, 1, 3)} m/s (inertial), change ${num(b.changeMagnitude, 3)} m/s`,
+            );
           }
           const tb = c.plan.target ? system.bodies[system.indexById[c.plan.target.body]] : null;
           out.push(

@@ -15,7 +15,15 @@ import type { Command } from 'commander';
 import { Piscina } from 'piscina';
 import { parseQuantity } from '../../../core/io/index.ts';
 import { InputError } from '../../../core/math/index.ts';
-import { mergeBlocks, prepareDispersion, runSamples, summarizeDispersion, type DispersionOptions, type DispersionResult, type SampleBlock } from '../../../core/nbody/index.ts';
+import {
+  mergeBlocks,
+  prepareDispersion,
+  runSamples,
+  summarizeDispersion,
+  type DispersionOptions,
+  type DispersionResult,
+  type SampleBlock,
+} from '../../../core/nbody/index.ts';
 import type { Plan } from '../../../core/plan/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { loadPlanFile } from '../../node/files.ts';
@@ -126,14 +134,19 @@ export function addDisperseCommand(program: Command): void {
           ];
           if (r.pArrive !== null) {
             lines.push(`P(arrives)                 ${pct(r.pArrive)}`);
-            lines.push(`P(periapsis >= ${km(r.safeAltitude!)} km)  ${pct(r.pPeriapsisSafe)}   (nominal ${r.nominal.periapsisAltitude === null ? '—' : km(r.nominal.periapsisAltitude)} km)`);
+            lines.push(
+              `P(periapsis >= ${km(r.safeAltitude!)} km)  ${pct(r.pPeriapsisSafe)}   (nominal ${r.nominal.periapsisAltitude === null ? '—' : km(r.nominal.periapsisAltitude)} km)`,
+            );
             if (r.periapsisAltitude) {
               lines.push(`periapsis km p5 ${km(r.periapsisAltitude.p5)}   p50 ${km(r.periapsisAltitude.p50)}   p95 ${km(r.periapsisAltitude.p95)}`);
             }
           }
           if (r.failed > 0) lines.push(`${r.failed} samples could not be evaluated (counted as not holding)`);
           if (r.impacts > 0) lines.push(`${r.impacts} samples end in an impact (counted as not holding)`);
-          if (r.missed > 0) lines.push(`${r.missed} samples never reach ${loaded.system.bodies.find((b) => b.id === loaded.plan.target?.body)?.name ?? 'the target'} (counted as not holding)`);
+          if (r.missed > 0)
+            lines.push(
+              `${r.missed} samples never reach ${loaded.system.bodies.find((b) => b.id === loaded.plan.target?.body)?.name ?? 'the target'} (counted as not holding)`,
+            );
           lines.push(`${num(samples / seconds, 0)} samples/s on ${Math.min(workers, samples)} worker${workers === 1 ? '' : 's'}`);
           printText(lines.join('\n'));
         }

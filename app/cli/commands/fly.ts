@@ -123,7 +123,15 @@ export function addFlyCommand(program: Command): void {
           printJson({
             model: nbody ? 'nbody' : result.model,
             nbody: nbody
-              ? { status: nbody.status, impact: nbody.impact, spans: nbody.spans, stats: nbody.stats, arrival: nbody.arrival, final: nbody.final, notes: nbody.notes }
+              ? {
+                  status: nbody.status,
+                  impact: nbody.impact,
+                  spans: nbody.spans,
+                  stats: nbody.stats,
+                  arrival: nbody.arrival,
+                  final: nbody.final,
+                  notes: nbody.notes,
+                }
               : undefined,
             t0: result.t0,
             t1: result.t1,
@@ -142,7 +150,11 @@ export function addFlyCommand(program: Command): void {
           printText(`flew ${plan.name} (patched conics) from ${formatCompactDate(cal, result.t0)} to ${formatCompactDate(cal, result.t1)}`);
           for (const e of result.events) printText(`  ${formatCompactDate(cal, e.t, { seconds: true })}  ${e.label}`);
           printText(`margin ${num(result.budget.margin, 1)} m/s`);
-          if (nbody) printNBody(system.bodies.map((b) => b.name), nbody);
+          if (nbody)
+            printNBody(
+              system.bodies.map((b) => b.name),
+              nbody,
+            );
           for (const [kind, path] of Object.entries(files)) printText(`wrote ${kind}: ${path}`);
         }
         return EXIT_OK;

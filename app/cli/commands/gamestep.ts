@@ -87,9 +87,7 @@ function choice<T extends string>(field: string, text: string, allowed: readonly
 export function physicsFromOptions(o: GamestepOptions): GamePhysicsInput {
   const integrator = choice<GameIntegrator>('--integrator', o.integrator, GAME_INTEGRATORS);
   const dt = parseStep('--dt', o.dt);
-  const rebase = o.rebase
-    ? { distance: parseKm('--rebase-distance', o.rebaseDistance), velocity: o.rebaseVelocity !== false }
-    : null;
+  const rebase = o.rebase ? { distance: parseKm('--rebase-distance', o.rebaseDistance), velocity: o.rebaseVelocity !== false } : null;
   return {
     integrator,
     dt,
@@ -137,7 +135,17 @@ export function checkText(system: StarSystem, planName: string, r: GameStepResul
   );
   out.push('');
   out.push(
-    [pad('span', 5), pad('about', 9), pad('from', 15), pad('length', 10, true), pad('mode', 13), pad('step', 11, true), pad('max Δr', 12, true), pad('end Δr', 12, true), pad('drift/orbit', 12, true)].join(' '),
+    [
+      pad('span', 5),
+      pad('about', 9),
+      pad('from', 15),
+      pad('length', 10, true),
+      pad('mode', 13),
+      pad('step', 11, true),
+      pad('max Δr', 12, true),
+      pad('end Δr', 12, true),
+      pad('drift/orbit', 12, true),
+    ].join(' '),
   );
   for (const s of r.spans) {
     const mode = s.mode === 'extrapolated' && s.extrapolation ? `extrap.(${s.extrapolation.method === 'step-scaling' ? 'step' : 'wind'})` : s.mode;
@@ -159,7 +167,9 @@ export function checkText(system: StarSystem, planName: string, r: GameStepResul
   const a = r.arrival;
   if (a) {
     const where = a.body >= 0 ? `closest approach to ${system.bodies[a.body].name}` : 'end of plan';
-    out.push(`arrival (${where}, ${formatCompactDate(cal, a.t)}): miss ${len(a.positionError)}, Δv ${num(a.velocityError, 4)} m/s — ${a.basis}${a.extrapolatedPart > 0 ? ` (extrapolated part ${len(a.extrapolatedPart)})` : ''}`);
+    out.push(
+      `arrival (${where}, ${formatCompactDate(cal, a.t)}): miss ${len(a.positionError)}, Δv ${num(a.velocityError, 4)} m/s — ${a.basis}${a.extrapolatedPart > 0 ? ` (extrapolated part ${len(a.extrapolatedPart)})` : ''}`,
+    );
   } else {
     out.push('arrival: not reached');
   }
@@ -169,12 +179,26 @@ export function checkText(system: StarSystem, planName: string, r: GameStepResul
       ? `tolerance ${len(r.tolerance)} first exceeded at ${formatCompactDate(cal, r.firstExceed.t)} (${r.firstExceed.basis}, ±${dur(r.firstExceed.resolution)})`
       : `tolerance ${len(r.tolerance)} never exceeded`,
   );
-  out.push(`energy drift: largest ${r.maxDriftPerOrbit === null ? '—' : r.maxDriftPerOrbit.toExponential(2)} per orbit (tolerance ${r.energyTolerance.toExponential(1)})`);
-  out.push(`flown ${dur(r.stats.flownTime)}, warped ${dur(r.stats.warpTime)}, extrapolated ${dur(r.stats.extrapolatedTime)}; ${r.stats.gameSteps} game steps (the whole mission at dt: ${r.stats.missionSteps})`);
+  out.push(
+    `energy drift: largest ${r.maxDriftPerOrbit === null ? '—' : r.maxDriftPerOrbit.toExponential(2)} per orbit (tolerance ${r.energyTolerance.toExponential(1)})`,
+  );
+  out.push(
+    `flown ${dur(r.stats.flownTime)}, warped ${dur(r.stats.warpTime)}, extrapolated ${dur(r.stats.extrapolatedTime)}; ${r.stats.gameSteps} game steps (the whole mission at dt: ${r.stats.missionSteps})`,
+  );
   out.push(`verdict: ${r.status === 'diverged' ? 'DIVERGED' : r.passes ? 'PASSES' : 'FAILS'}`);
   out.push('');
-  out.push('float32 at the mission\'s distances (binary32 spacing):');
-  out.push([pad('span', 5), pad('distance', 12, true), pad('spacing', 11, true), pad('step move', 11, true), pad('move/spacing', 13, true), pad('speed spacing', 14, true), pad('kick/spacing', 13, true)].join(' '));
+  out.push("float32 at the mission's distances (binary32 spacing):");
+  out.push(
+    [
+      pad('span', 5),
+      pad('distance', 12, true),
+      pad('spacing', 11, true),
+      pad('step move', 11, true),
+      pad('move/spacing', 13, true),
+      pad('speed spacing', 14, true),
+      pad('kick/spacing', 13, true),
+    ].join(' '),
+  );
   for (const f of r.float32) {
     out.push(
       [
@@ -200,7 +224,9 @@ export function checkText(system: StarSystem, planName: string, r: GameStepResul
 export function sweepText(s: SweepResult): string {
   const out: string[] = [];
   out.push(`time-step sweep (tolerance ${len(s.tolerance)}, energy drift ${s.energyTolerance.toExponential(1)} per orbit):`);
-  out.push([pad('integrator', 17), pad('step', 11, true), pad('arrival miss', 14, true), pad('drift/orbit', 12, true), pad('evals', 12, true), '  result'].join(' '));
+  out.push(
+    [pad('integrator', 17), pad('step', 11, true), pad('arrival miss', 14, true), pad('drift/orbit', 12, true), pad('evals', 12, true), '  result'].join(' '),
+  );
   for (const r of s.rows) {
     out.push(
       [
@@ -215,16 +241,28 @@ export function sweepText(s: SweepResult): string {
   }
   out.push('');
   for (const b of s.best) out.push(`largest step for ${b.integrator}: ${b.dt === null ? `none down to ${dur(s.ladder[0])}` : dur(b.dt)}`);
-  out.push(s.cheapest ? `cheapest: ${s.cheapest.integrator} at ${dur(s.cheapest.dt)} (${s.cheapest.missionEvals} evaluations over the mission)` : 'cheapest: none passes');
+  out.push(
+    s.cheapest
+      ? `cheapest: ${s.cheapest.integrator} at ${dur(s.cheapest.dt)} (${s.cheapest.missionEvals} evaluations over the mission)`
+      : 'cheapest: none passes',
+  );
   if (s.precision) {
     const v = s.precision.verdict;
     out.push('');
     for (const r of s.precision.rows) {
-      out.push(`  ${pad(r.precision + (r.rebase ? ` + origin at ${len(r.rebase.distance)}` : ''), 30)} miss ${pad(r.arrivalMiss === null ? '—' : len(r.arrivalMiss), 14, true)}  ${r.passes ? 'passes' : 'fails'}`);
+      out.push(
+        `  ${pad(r.precision + (r.rebase ? ` + origin at ${len(r.rebase.distance)}` : ''), 30)} miss ${pad(r.arrivalMiss === null ? '—' : len(r.arrivalMiss), 14, true)}  ${r.passes ? 'passes' : 'fails'}`,
+      );
     }
     out.push(
       `precision at ${s.precision.integrator}, ${dur(s.precision.dt)}: ` +
-        (v === 'float32' ? 'float32 suffices' : v === 'float32-rebase' ? 'float32 needs a floating origin' : v === 'float64' ? 'float64 is needed' : 'fails even in float64 at this step'),
+        (v === 'float32'
+          ? 'float32 suffices'
+          : v === 'float32-rebase'
+            ? 'float32 needs a floating origin'
+            : v === 'float64'
+              ? 'float64 is needed'
+              : 'fails even in float64 at this step'),
     );
   }
   for (const n of s.notes) out.push(`note: ${n}`);

@@ -52,7 +52,9 @@ export function stabilityText(system: StarSystem, r: StabilityResult): string {
   out.push(`energy error of the run: largest ${r.energy.maxRelativeError.toExponential(2)}, final ${r.energy.finalRelativeError.toExponential(2)} (relative)`);
   if (r.mergedMoons) out.push(`note: ${r.mergeReason}`);
   out.push('');
-  out.push([pad('body', 10), pad('about', 9), pad('a (Gm)', 10, true), pad('a range', 18, true), pad('e range', 16, true), pad('i range (deg)', 18, true)].join(' '));
+  out.push(
+    [pad('body', 10), pad('about', 9), pad('a (Gm)', 10, true), pad('a range', 18, true), pad('e range', 16, true), pad('i range (deg)', 18, true)].join(' '),
+  );
   for (const b of r.bodies) {
     out.push(
       [

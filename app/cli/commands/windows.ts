@@ -199,16 +199,41 @@ function windowJson(cal: SystemCalendar, w: TransferWindow): Record<string, unkn
 }
 
 const CSV_HEADER = [
-  'departure_s', 'departure_date', 'arrival_s', 'arrival_date', 'tof_s', 'tof_d',
-  'dv_depart_m_s', 'dv_arrive_m_s', 'dv_total_m_s', 'c3_km2_s2', 'vinf_depart_m_s', 'vinf_arrive_m_s',
-  'revs', 'branch', 'at_edge',
+  'departure_s',
+  'departure_date',
+  'arrival_s',
+  'arrival_date',
+  'tof_s',
+  'tof_d',
+  'dv_depart_m_s',
+  'dv_arrive_m_s',
+  'dv_total_m_s',
+  'c3_km2_s2',
+  'vinf_depart_m_s',
+  'vinf_arrive_m_s',
+  'revs',
+  'branch',
+  'at_edge',
 ];
 
 function windowsCsv(cal: SystemCalendar, ws: TransferWindow[]): string {
   const rows = ws.map((w) =>
     [
-      w.departure, formatCompactDate(cal, w.departure, { seconds: true }), w.arrival, formatCompactDate(cal, w.arrival, { seconds: true }),
-      w.tof, w.tof / DAY, w.dvDepart, w.dvArrive, w.dvTotal, w.c3 / 1e6, w.vInfDepart, w.vInfArrive, w.revs, w.branch, w.atEdge,
+      w.departure,
+      formatCompactDate(cal, w.departure, { seconds: true }),
+      w.arrival,
+      formatCompactDate(cal, w.arrival, { seconds: true }),
+      w.tof,
+      w.tof / DAY,
+      w.dvDepart,
+      w.dvArrive,
+      w.dvTotal,
+      w.c3 / 1e6,
+      w.vInfDepart,
+      w.vInfArrive,
+      w.revs,
+      w.branch,
+      w.atEdge,
     ].join(','),
   );
   return `${[CSV_HEADER.join(','), ...rows].join('\n')}\n`;
@@ -227,7 +252,11 @@ async function gridFile(target: OutputTarget, grid: PorkchopGrid, rules: OutputR
     for (let i = 0; i < nRows; i++) {
       for (let j = 0; j < nCols; j++) {
         const k = i * nCols + j;
-        lines.push([i, j, grid.departTimes[i], grid.secondValues[j], ...FLOAT_PLANES.map((p) => grid.planes[p][k]), ...INT_PLANES.map((p) => grid.planes[p][k])].join(','));
+        lines.push(
+          [i, j, grid.departTimes[i], grid.secondValues[j], ...FLOAT_PLANES.map((p) => grid.planes[p][k]), ...INT_PLANES.map((p) => grid.planes[p][k])].join(
+            ',',
+          ),
+        );
       }
     }
     await writeOutput(target, `${lines.join('\n')}\n`, rules, { forTerminal: termSafe });
@@ -255,8 +284,13 @@ function textReport(system: StarSystem, grid: PorkchopGrid, min: TransferCell | 
   const B = system.bodies[r.to];
   const date = (t: number): string => formatCompactDate(cal, t);
   const second =
-    r.secondAxis === 'arrival' ? `arrivals ${date(r.second.start)} .. ${date(r.second.end)}` : `flight ${num(r.second.start / DAY, 1)} .. ${num(r.second.end / DAY, 1)} d`;
-  const capture = r.arrivalEccentricity === 'flyby' ? `flyby at ${num(r.arrivalAltitude / 1e3, 0)} km` : `capture ${num(r.arrivalAltitude / 1e3, 0)} km (e ${r.arrivalEccentricity})`;
+    r.secondAxis === 'arrival'
+      ? `arrivals ${date(r.second.start)} .. ${date(r.second.end)}`
+      : `flight ${num(r.second.start / DAY, 1)} .. ${num(r.second.end / DAY, 1)} d`;
+  const capture =
+    r.arrivalEccentricity === 'flyby'
+      ? `flyby at ${num(r.arrivalAltitude / 1e3, 0)} km`
+      : `capture ${num(r.arrivalAltitude / 1e3, 0)} km (e ${r.arrivalEccentricity})`;
   const lines = [
     `${A.name} -> ${B.name}: departures ${date(r.depart.start)} .. ${date(r.depart.end)}, ${second}`,
     `grid ${r.depart.n} x ${r.second.n}, parking ${num(r.parkingAltitude / 1e3, 0)} km, ${capture}, revs <= ${r.maxRevs}${r.retrograde ? ', retrograde' : ''}, metric ${r.metric}`,

@@ -108,7 +108,12 @@ export class CheckStore implements Readable<ChecksState> {
         this.#seq.stability++;
         this.#out.set({
           game: { ...idle, check: emptySlot(), sweep: emptySlot() },
-          stability: { ...idle, result: emptySlot(), estimate: s.stability.estimateFor === d.system ? s.stability.estimate : null, estimateFor: s.stability.estimateFor === d.system ? d.system : null },
+          stability: {
+            ...idle,
+            result: emptySlot(),
+            estimate: s.stability.estimateFor === d.system ? s.stability.estimate : null,
+            estimateFor: s.stability.estimateFor === d.system ? d.system : null,
+          },
           revision: d.revision,
           generation: d.generation,
           system: d.system,
@@ -162,7 +167,8 @@ export class CheckStore implements Readable<ChecksState> {
       let estimate = s.stability.estimate;
       if (estimate && s.stability.estimateFor === d.system && run.ms > 200 && r.steps > 0) {
         const mode = { h: r.h, stepsPerSecond: (1000 * r.steps) / run.ms };
-        estimate = r.mergedMoons && estimate.hasMoons ? { ...estimate, merged: mode } : { ...estimate, moons: mode, ...(estimate.hasMoons ? {} : { merged: mode }) };
+        estimate =
+          r.mergedMoons && estimate.hasMoons ? { ...estimate, merged: mode } : { ...estimate, moons: mode, ...(estimate.hasMoons ? {} : { merged: mode }) };
       }
       this.#out.set({ ...s, stability: { ...s.stability, ...idle, estimate, result: { ...base, value: r, ms: run.ms, error: null } } });
     }
@@ -177,7 +183,8 @@ export class CheckStore implements Readable<ChecksState> {
     if (!run) return;
     const s = this.#out.get();
     if ('error' in run) this.#out.set({ ...s, stability: { ...s.stability, ...idle } });
-    else if (run.output.kind === 'stability-estimate') this.#out.set({ ...s, stability: { ...s.stability, ...idle, estimate: run.output.estimate, estimateFor: d.system } });
+    else if (run.output.kind === 'stability-estimate')
+      this.#out.set({ ...s, stability: { ...s.stability, ...idle, estimate: run.output.estimate, estimateFor: d.system } });
   }
 
   cancelStability(): void {
@@ -202,8 +209,10 @@ export class CheckStore implements Readable<ChecksState> {
       return;
     }
     const o = run.output;
-    if (o.kind === 'gamestep') this.#out.set({ ...s, game: { ...s.game, ...idle, check: { ...base, input: input as GameStepJobOptions, value: o.check, ms: run.ms, error: null } } });
-    else if (o.kind === 'sweep') this.#out.set({ ...s, game: { ...s.game, ...idle, sweep: { ...base, input: input as SweepInput, value: o.sweep, ms: run.ms, error: null } } });
+    if (o.kind === 'gamestep')
+      this.#out.set({ ...s, game: { ...s.game, ...idle, check: { ...base, input: input as GameStepJobOptions, value: o.check, ms: run.ms, error: null } } });
+    else if (o.kind === 'sweep')
+      this.#out.set({ ...s, game: { ...s.game, ...idle, sweep: { ...base, input: input as SweepInput, value: o.sweep, ms: run.ms, error: null } } });
   }
 
   /**

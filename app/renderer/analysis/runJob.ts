@@ -14,7 +14,9 @@ export function runAnalysisJob(job: AnalysisJob, onProgress: (fraction: number, 
     case 'verify':
       return {
         kind: 'verify',
-        nbody: verifyNBody(job.system, job.plan, job.result, { onProgress: (done, total) => onProgress(total > 0 ? done / total : 0, 'flying the plan in n-body gravity') }),
+        nbody: verifyNBody(job.system, job.plan, job.result, {
+          onProgress: (done, total) => onProgress(total > 0 ? done / total : 0, 'flying the plan in n-body gravity'),
+        }),
       };
     case 'correct':
       return {
@@ -26,7 +28,10 @@ export function runAnalysisJob(job: AnalysisJob, onProgress: (fraction: number, 
     case 'disperse':
       return {
         kind: 'disperse',
-        dispersion: disperse(job.system, job.plan, { ...job.options, onProgress: (done, total) => onProgress(total > 0 ? done / total : 0, `${done} of ${total} samples`) }),
+        dispersion: disperse(job.system, job.plan, {
+          ...job.options,
+          onProgress: (done, total) => onProgress(total > 0 ? done / total : 0, `${done} of ${total} samples`),
+        }),
       };
     default:
       return runCheckJob(job, onProgress);

@@ -44,7 +44,16 @@ export function isCurrent(s: AnalysisState, slot: AnalysisSlot<unknown>): boolea
 
 export class AnalysisStore implements Readable<AnalysisState> {
   #seq = 0;
-  #out = new Observable<AnalysisState>({ running: null, progress: 0, note: '', verify: empty(), correct: empty(), disperse: empty(), revision: -1, generation: -1 });
+  #out = new Observable<AnalysisState>({
+    running: null,
+    progress: 0,
+    note: '',
+    verify: empty(),
+    correct: empty(),
+    disperse: empty(),
+    revision: -1,
+    generation: -1,
+  });
 
   constructor(
     private readonly doc: Readable<DocumentSnapshot>,
@@ -54,7 +63,12 @@ export class AnalysisStore implements Readable<AnalysisState> {
     doc.subscribe((d) => {
       const s = this.#out.get();
       if (s.generation !== d.generation) this.client.cancel();
-      this.#out.set({ ...s, revision: d.revision, generation: d.generation, ...(s.generation !== d.generation ? { verify: empty(), correct: empty(), disperse: empty() } : {}) });
+      this.#out.set({
+        ...s,
+        revision: d.revision,
+        generation: d.generation,
+        ...(s.generation !== d.generation ? { verify: empty(), correct: empty(), disperse: empty() } : {}),
+      });
     });
   }
 

@@ -67,23 +67,40 @@ export class GameStepLanes implements TimelineExtra {
     // legend row
     const head = g.append('g').attr('class', 'gs-legend');
     head.append('text').attr('class', 'lane-label').attr('x', 10).attr('y', 14).text('Game step');
-    head.append('text').attr('class', 'gs-caption').attr('x', LAYOUT.left + 4).attr('y', 14).attr('fill', GAME_STYLE.game).style('font', '10.5px var(--mono)').text(this.caption);
+    head
+      .append('text')
+      .attr('class', 'gs-caption')
+      .attr('x', LAYOUT.left + 4)
+      .attr('y', 14)
+      .attr('fill', GAME_STYLE.game)
+      .style('font', '10.5px var(--mono)')
+      .text(this.caption);
     const items: { label: string; draw: (s: d3.Selection<SVGGElement, unknown, null, undefined>) => void }[] = [
       { label: 'measured', draw: (s) => s.append('line').attr('x2', 18).attr('stroke', GAME_STYLE.game).attr('stroke-width', 1.6) },
     ];
     if (this.data.hasExtrapolated) {
-      items.push({ label: 'extrapolated', draw: (s) => s.append('line').attr('x2', 18).attr('stroke', GAME_STYLE.game).attr('stroke-width', 1.6).attr('stroke-dasharray', GAME_STYLE.dash) });
+      items.push({
+        label: 'extrapolated',
+        draw: (s) => s.append('line').attr('x2', 18).attr('stroke', GAME_STYLE.game).attr('stroke-width', 1.6).attr('stroke-dasharray', GAME_STYLE.dash),
+      });
     }
     if (this.data.hasCarried) {
       items.push({
         label: 'measured after extrapolation',
-        draw: (s) => s.append('line').attr('x2', 18).attr('stroke', GAME_STYLE.game).attr('stroke-width', 1.6).attr('stroke-opacity', GAME_STYLE.carriedOpacity),
+        draw: (s) =>
+          s.append('line').attr('x2', 18).attr('stroke', GAME_STYLE.game).attr('stroke-width', 1.6).attr('stroke-opacity', GAME_STYLE.carriedOpacity),
       });
     }
     const tol = this.data.lanes[0]?.lines.find((l) => l.kind === 'tolerance');
-    items.push({ label: tol ? `tolerance ${laneValue('position', tol.value)}` : 'tolerance', draw: (s) => s.append('line').attr('x2', 18).attr('stroke', GAME_STYLE.tolerance).attr('stroke-dasharray', '3 2') });
+    items.push({
+      label: tol ? `tolerance ${laneValue('position', tol.value)}` : 'tolerance',
+      draw: (s) => s.append('line').attr('x2', 18).attr('stroke', GAME_STYLE.tolerance).attr('stroke-dasharray', '3 2'),
+    });
     if (this.data.lanes[0]?.lines.some((l) => l.kind === 'resolution')) {
-      items.push({ label: 'reference accuracy', draw: (s) => s.append('line').attr('x2', 18).attr('stroke', GAME_STYLE.resolution).attr('stroke-dasharray', '1 2') });
+      items.push({
+        label: 'reference accuracy',
+        draw: (s) => s.append('line').attr('x2', 18).attr('stroke', GAME_STYLE.resolution).attr('stroke-dasharray', '1 2'),
+      });
     }
     items.push({ label: 'log scales', draw: () => undefined });
     const legend = head.append('g').attr('class', 'gs-legend-items');
@@ -91,7 +108,12 @@ export class GameStepLanes implements TimelineExtra {
       const s = legend.append('g').attr('class', 'gs-legend-item');
       const sym = s.append('g').attr('transform', 'translate(0,10)');
       it.draw(sym);
-      s.append('text').attr('x', sym.node()!.childElementCount > 0 ? 22 : 0).attr('y', 14).attr('fill', PALETTE.muted).style('font-size', '10px').text(it.label);
+      s.append('text')
+        .attr('x', sym.node()!.childElementCount > 0 ? 22 : 0)
+        .attr('y', 14)
+        .attr('fill', PALETTE.muted)
+        .style('font-size', '10px')
+        .text(it.label);
     }
     // lanes
     this.data.lanes.forEach((lane, k) => {
@@ -114,7 +136,12 @@ export class GameStepLanes implements TimelineExtra {
       inner.append('g').attr('class', 'gs-curves');
       inner.append('g').attr('class', 'gs-marks');
       lg.append('g').attr('class', 'gs-ticks');
-      if (!lane.domain) lg.append('text').attr('class', 'chart-scale').attr('x', LAYOUT.left + 8).attr('y', L.lane / 2 + 4).text('no error above zero');
+      if (!lane.domain)
+        lg.append('text')
+          .attr('class', 'chart-scale')
+          .attr('x', LAYOUT.left + 8)
+          .attr('y', L.lane / 2 + 4)
+          .text('no error above zero');
     });
   }
 
@@ -137,7 +164,10 @@ export class GameStepLanes implements TimelineExtra {
       const lg = g.select(`.gs-lane-${lane.key}`);
       const d = lane.domain;
       if (!d) return;
-      const y = d3.scaleLog().domain([d.lo, d.hi]).range([L.lane - 3, L.band + 2]);
+      const y = d3
+        .scaleLog()
+        .domain([d.lo, d.hi])
+        .range([L.lane - 3, L.band + 2]);
       const ticks = decadeTicks(d, Math.floor((L.lane - 3 - L.band - 2) / L.tickSpacing) + 1);
       lg.select('.gs-grid')
         .selectAll<SVGLineElement, number>('line')
@@ -189,7 +219,8 @@ export class GameStepLanes implements TimelineExtra {
         .attr('stroke-opacity', (r) => (r.style === 'carried' ? GAME_STYLE.carriedOpacity : 1))
         .attr('d', (r) => line(d3.range(r.from, r.to + 1)));
       const marks: { t: number; label: string; colour: string }[] = [];
-      if (lane.key === 'position' && this.data.firstExceed !== null) marks.push({ t: this.data.firstExceed, label: 'exceeds tolerance', colour: GAME_STYLE.exceed });
+      if (lane.key === 'position' && this.data.firstExceed !== null)
+        marks.push({ t: this.data.firstExceed, label: 'exceeds tolerance', colour: GAME_STYLE.exceed });
       if (this.data.divergedAt !== null) marks.push({ t: this.data.divergedAt, label: 'diverged', colour: GAME_STYLE.exceed });
       const mk = lg
         .select('.gs-marks')
@@ -198,7 +229,10 @@ export class GameStepLanes implements TimelineExtra {
         .join((enter) => {
           const m = enter.append('g').attr('class', 'gs-mark');
           m.append('line').attr('y1', 0).attr('y2', L.lane);
-          m.append('text').attr('x', 4).attr('y', L.lane - 6).style('font-size', '10px');
+          m.append('text')
+            .attr('x', 4)
+            .attr('y', L.lane - 6)
+            .style('font-size', '10px');
           return m;
         });
       mk.attr('transform', (m) => `translate(${x(m.t)},0)`);

@@ -86,7 +86,8 @@ export function errorLanes(r: GameStepResult): ErrorLanes {
       {
         key: 'position',
         label: 'Position error',
-        title: "|game − reference| position, m; the dashed line is the tolerance, the dotted one the reference flight's own accuracy (errors below it are not resolved)",
+        title:
+          "|game − reference| position, m; the dashed line is the tolerance, the dotted one the reference flight's own accuracy (errors below it are not resolved)",
         values: s.positionError,
         domain: logDomain(s.positionError, [r.tolerance, ...resolution.map((x) => x.value)]),
         lines: [tolerance, ...resolution],

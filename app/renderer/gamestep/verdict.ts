@@ -74,11 +74,26 @@ export function gameVerdict(system: StarSystem, r: GameStepResult): GameVerdict 
   const a = r.arrival;
   if (a) {
     const where = a.body >= 0 ? `closest approach to ${bodyName(system, a.body)}` : 'end of the plan';
-    const basis = a.basis === 'extrapolated' || a.extrapolatedPart > 0 ? `extrapolated${a.extrapolatedPart > 0 ? ` (${errorLength(a.extrapolatedPart)} of it)` : ''}` : 'measured';
-    lines.push({ key: 'miss', label: 'Arrival miss', value: errorLength(a.positionError), note: `at ${where}, ${basis}; tolerance ${errorLength(r.tolerance)}`, tone: a.positionError <= r.tolerance ? 'good' : 'bad' });
+    const basis =
+      a.basis === 'extrapolated' || a.extrapolatedPart > 0
+        ? `extrapolated${a.extrapolatedPart > 0 ? ` (${errorLength(a.extrapolatedPart)} of it)` : ''}`
+        : 'measured';
+    lines.push({
+      key: 'miss',
+      label: 'Arrival miss',
+      value: errorLength(a.positionError),
+      note: `at ${where}, ${basis}; tolerance ${errorLength(r.tolerance)}`,
+      tone: a.positionError <= r.tolerance ? 'good' : 'bad',
+    });
     lines.push({ key: 'miss-v', label: 'Speed error', value: errorSpeed(a.velocityError) });
   } else {
-    lines.push({ key: 'miss', label: 'Arrival miss', value: '—', note: r.status === 'diverged' ? 'the flight diverged before arriving' : 'not reached', tone: 'bad' });
+    lines.push({
+      key: 'miss',
+      label: 'Arrival miss',
+      value: '—',
+      note: r.status === 'diverged' ? 'the flight diverged before arriving' : 'not reached',
+      tone: 'bad',
+    });
   }
   if (r.maxDriftPerOrbit !== null) {
     lines.push({
@@ -109,8 +124,18 @@ export function gameVerdict(system: StarSystem, r: GameStepResult): GameVerdict 
   const flownParts = [`flown ${duration(st.flownTime)}`];
   if (st.warpTime > 0) flownParts.push(`time-warped ${duration(st.warpTime)}`);
   if (st.extrapolatedTime > 0) flownParts.push(`extrapolated ${duration(st.extrapolatedTime)}`);
-  lines.push({ key: 'spans', label: 'Mission', value: flownParts.join(', '), note: `${grouped(st.gameSteps)} game steps flown (the whole mission at this step: ${grouped(st.missionSteps)})` });
-  lines.push({ key: 'reference', label: 'Reference', value: `RK45, rtol ${ratio(r.reference.rtol, 0)}`, note: `its own error ≈ ${errorLength(r.reference.errorEstimate)}` });
+  lines.push({
+    key: 'spans',
+    label: 'Mission',
+    value: flownParts.join(', '),
+    note: `${grouped(st.gameSteps)} game steps flown (the whole mission at this step: ${grouped(st.missionSteps)})`,
+  });
+  lines.push({
+    key: 'reference',
+    label: 'Reference',
+    value: `RK45, rtol ${ratio(r.reference.rtol, 0)}`,
+    note: `its own error ≈ ${errorLength(r.reference.errorEstimate)}`,
+  });
 
   // float32 at the mission's distances
   const rows = r.float32.map((f) => {
@@ -132,9 +157,11 @@ export function gameVerdict(system: StarSystem, r: GameStepResult): GameVerdict 
     const span = r.spans.find((s) => s.index === worst.span);
     const centre = r.physics.gravity === 'all' ? 0 : (span?.central ?? 0);
     summary = `In float32, positions ${worst.distance > 0 ? `${errorLength(worst.distance)} from ${bodyName(system, centre)}` : 'here'} move in steps of ${errorLength(worst.spacing)}`;
-    summary += worst.spacing > r.tolerance ? ` — more than the tolerance (${errorLength(r.tolerance)}).` : ` — within the tolerance (${errorLength(r.tolerance)}).`;
+    summary +=
+      worst.spacing > r.tolerance ? ` — more than the tolerance (${errorLength(r.tolerance)}).` : ` — within the tolerance (${errorLength(r.tolerance)}).`;
     if (rows.some((x) => x.rounded)) summary += ' Where a step moves the craft less than that spacing, float32 rounds the motion away.';
-    if (r.physics.rebase) summary += ` With the floating origin at ${errorLength(r.physics.rebase.distance)} the spacing stays at or below ${errorLength(worst.rebasedSpacing)}.`;
+    if (r.physics.rebase)
+      summary += ` With the floating origin at ${errorLength(r.physics.rebase.distance)} the spacing stays at or below ${errorLength(worst.rebasedSpacing)}.`;
     summary +=
       r.physics.precision === 'float32'
         ? ` This run flew in float32${r.physics.rebase ? ' with a floating origin' : ''}: it ${word === 'passes' ? 'passes' : 'does not pass'}.`

@@ -106,9 +106,7 @@ export function addStage(plan: Plan): Plan {
   const next = clone(plan);
   const last = plan.vehicle.stages[plan.vehicle.stages.length - 1];
   next.vehicle.stages.push(
-    last
-      ? { ...last, name: `Stage ${plan.vehicle.stages.length + 1}` }
-      : { name: 'Stage 1', dryMass: 1000, propellantMass: 4000, isp: 320, thrust: 20000 },
+    last ? { ...last, name: `Stage ${plan.vehicle.stages.length + 1}` } : { name: 'Stage 1', dryMass: 1000, propellantMass: 4000, isp: 320, thrust: 20000 },
   );
   return next;
 }

@@ -49,7 +49,10 @@ export function formatNumber(si: number | null, unit: NumberUnit): string {
 const PLAIN = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 export function parseNumber(label: string, text: string, unit: NumberUnit, opts: { nullable?: boolean; integer?: boolean } = {}): Parsed<number | null> {
-  const s = text.trim().replace(/\u2212/g, '-').replace(/[\s\u202f]/g, '');
+  const s = text
+    .trim()
+    .replace(/\u2212/g, '-')
+    .replace(/[\s\u202f]/g, '');
   if (s === '') return opts.nullable ? { ok: true, value: null } : { ok: false, message: `${label} is required` };
   let si: number;
   if (PLAIN.test(s)) si = Number(s) * unit.scale;

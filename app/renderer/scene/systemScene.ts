@@ -136,7 +136,9 @@ class SharedDrawing {
   readonly markerRing = new THREE.MeshBasicMaterial({ color: PALETTE.burn, side: THREE.DoubleSide, transparent: true, opacity: 0.7 });
   readonly dotGeometry = new THREE.SphereGeometry(1, 12, 8);
   /** Unit circle in the x–y plane (SOI outlines). */
-  readonly circle = new THREE.BufferGeometry().setFromPoints(Array.from({ length: 160 }, (_, k) => new THREE.Vector3(Math.cos((2 * Math.PI * k) / 160), Math.sin((2 * Math.PI * k) / 160), 0)));
+  readonly circle = new THREE.BufferGeometry().setFromPoints(
+    Array.from({ length: 160 }, (_, k) => new THREE.Vector3(Math.cos((2 * Math.PI * k) / 160), Math.sin((2 * Math.PI * k) / 160), 0)),
+  );
   readonly ringGeometry = new THREE.RingGeometry(1.6, 2.1, 24);
   /** Arrow shaft from the origin to (0, 1, 0) and a unit cone for the head. */
   readonly shaft = new THREE.BufferGeometry().setAttribute('position', new THREE.Float32BufferAttribute([0, 0, 0, 0, 1, 0], 3));
@@ -167,7 +169,23 @@ class SharedDrawing {
   }
 
   dispose(): void {
-    for (const x of [this.coast, this.nbody, this.gameLine, this.gameReference, this.gameDots, this.burnLine, this.burnDots, this.markerDot, this.markerRing, this.dotGeometry, this.ringGeometry, this.shaft, this.head, this.circle]) x.dispose();
+    for (const x of [
+      this.coast,
+      this.nbody,
+      this.gameLine,
+      this.gameReference,
+      this.gameDots,
+      this.burnLine,
+      this.burnDots,
+      this.markerDot,
+      this.markerRing,
+      this.dotGeometry,
+      this.ringGeometry,
+      this.shaft,
+      this.head,
+      this.circle,
+    ])
+      x.dispose();
     for (const m of this.hues.values()) {
       m.line.dispose();
       m.mesh.dispose();
@@ -279,7 +297,10 @@ export class SystemScene {
       group.add(mesh);
       let soi: THREE.LineLoop | null = null;
       if (!isStar && Number.isFinite(b.derived.soiRadius)) {
-        soi = new THREE.LineLoop(this.shared.circle, new THREE.LineDashedMaterial({ color: colour, transparent: true, opacity: 0.55, dashSize: 0.035, gapSize: 0.025, depthWrite: false }));
+        soi = new THREE.LineLoop(
+          this.shared.circle,
+          new THREE.LineDashedMaterial({ color: colour, transparent: true, opacity: 0.55, dashSize: 0.035, gapSize: 0.025, depthWrite: false }),
+        );
         soi.computeLineDistances();
         this.systemRoot.add(soi);
       }
@@ -297,7 +318,9 @@ export class SystemScene {
         this.systemRoot.add(orbit);
       }
       if (isStar) {
-        this.glow = new THREE.Sprite(new THREE.SpriteMaterial({ map: glowTexture(colour), blending: THREE.AdditiveBlending, depthWrite: false, transparent: true }));
+        this.glow = new THREE.Sprite(
+          new THREE.SpriteMaterial({ map: glowTexture(colour), blending: THREE.AdditiveBlending, depthWrite: false, transparent: true }),
+        );
         group.add(this.glow);
       }
       this.bodies.push({
@@ -492,7 +515,8 @@ export class SystemScene {
         ref[k] = p.reference[k] * U;
       }
       const along = new Float32Array(n);
-      for (let k = 1; k < n; k++) along[k] = along[k - 1] + Math.hypot(game[3 * k] - game[3 * k - 3], game[3 * k + 1] - game[3 * k - 2], game[3 * k + 2] - game[3 * k - 1]);
+      for (let k = 1; k < n; k++)
+        along[k] = along[k - 1] + Math.hypot(game[3 * k] - game[3 * k - 3], game[3 * k + 1] - game[3 * k - 2], game[3 * k + 2] - game[3 * k - 1]);
       const total = along[n - 1] || 1;
       for (let k = 0; k < n; k++) along[k] *= GAME_DASHES / total;
       const gg = new THREE.BufferGeometry();

@@ -50,7 +50,13 @@ export class HistoryChart {
       ? {
           h,
           rows: [
-            ...h.bodies.map((b, k) => ({ name: b.name, about: b.about, note: b.merged.length ? `with ${b.merged.join(', ')}` : '', colour: colours[k] ?? PALETTE.path, panels: b.panels })),
+            ...h.bodies.map((b, k) => ({
+              name: b.name,
+              about: b.about,
+              note: b.merged.length ? `with ${b.merged.join(', ')}` : '',
+              colour: colours[k] ?? PALETTE.path,
+              panels: b.panels,
+            })),
             { name: 'Whole system', about: 'energy of the run', note: '', colour: PALETTE.chalk, panels: [h.energy] },
           ],
         }
@@ -79,7 +85,11 @@ export class HistoryChart {
     const plotW = Math.max(40, colW - L.gutter);
     const colX = (c: number) => L.name + c * (colW + L.colGap) + L.gutter;
     const wideW = 3 * colW + 2 * L.colGap - L.gutter;
-    const x = (w: number) => d3.scaleLinear().domain([0, h.span > 0 ? h.span : 1]).range([0, w]);
+    const x = (w: number) =>
+      d3
+        .scaleLinear()
+        .domain([0, h.span > 0 ? h.span : 1])
+        .range([0, w]);
 
     // column titles
     (['a', 'e', 'i'] as const).forEach((k, c) => this.title(colX(c), 15, PANEL_TITLES[k]));
@@ -103,7 +113,15 @@ export class HistoryChart {
   }
 
   private title(x: number, y: number, text: string): void {
-    this.svg.append('text').attr('x', x).attr('y', y).attr('fill', PALETTE.muted).style('font-size', '10px').style('letter-spacing', '0.06em').style('text-transform', 'uppercase').text(text);
+    this.svg
+      .append('text')
+      .attr('x', x)
+      .attr('y', y)
+      .attr('fill', PALETTE.muted)
+      .style('font-size', '10px')
+      .style('letter-spacing', '0.06em')
+      .style('text-transform', 'uppercase')
+      .text(text);
   }
 
   private row(row: ChartRow, y0: number, colX: (c: number) => number, w: number, xs: d3.ScaleLinear<number, number>): void {
@@ -115,8 +133,14 @@ export class HistoryChart {
     g.append('text').attr('x', 8).attr('y', 26).attr('fill', PALETTE.muted).style('font-size', '10px').text(row.about);
     if (row.note) g.append('text').attr('x', 8).attr('y', 38).attr('fill', PALETTE.muted).style('font-size', '10px').text(row.note);
     row.panels.forEach((p, c) => {
-      const ys = d3.scaleLinear().domain(p.domain).range([L.plot - 2, 2]);
-      const pg = g.append('g').attr('class', `history-panel panel-${p.key}`).attr('transform', `translate(${colX(c)},0)`);
+      const ys = d3
+        .scaleLinear()
+        .domain(p.domain)
+        .range([L.plot - 2, 2]);
+      const pg = g
+        .append('g')
+        .attr('class', `history-panel panel-${p.key}`)
+        .attr('transform', `translate(${colX(c)},0)`);
       pg.append('rect').attr('width', w).attr('height', L.plot).attr('fill', '#121a1c');
       for (const t of years) pg.append('line').attr('x1', xs(t.v)).attr('x2', xs(t.v)).attr('y1', 0).attr('y2', L.plot).attr('stroke', '#1c2624');
       for (const t of p.ticks) {
@@ -136,7 +160,12 @@ export class HistoryChart {
         .defined((k) => Number.isFinite(p.values[k]))
         .x((k) => xs(h.years[k]))
         .y((k) => ys(p.values[k]));
-      pg.append('path').attr('class', 'history-line').attr('fill', 'none').attr('stroke', row.colour).attr('stroke-width', 1.2).attr('d', line(d3.range(p.values.length)));
+      pg.append('path')
+        .attr('class', 'history-line')
+        .attr('fill', 'none')
+        .attr('stroke', row.colour)
+        .attr('stroke-width', 1.2)
+        .attr('d', line(d3.range(p.values.length)));
     });
   }
 

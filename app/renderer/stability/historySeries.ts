@@ -129,7 +129,15 @@ export function histories(system: StarSystem, r: StabilityResult, ticks = 3): Hi
       about: `about ${system.bodies[b.parent]?.name ?? '?'}`,
       merged: b.merged.map((k) => system.bodies[k]?.name ?? `body ${k}`),
       a0,
-      panels: [panel('a', aRel, ticks), panel('e', b.history.e, ticks), panel('i', Float64Array.from(b.history.i, (i) => i * RAD), ticks)],
+      panels: [
+        panel('a', aRel, ticks),
+        panel('e', b.history.e, ticks),
+        panel(
+          'i',
+          Float64Array.from(b.history.i, (i) => i * RAD),
+          ticks,
+        ),
+      ],
     };
   });
   return { years, span, bodies, energy: panel('energy', r.energy.history, ticks), yearTicks: yearTicks(span, 6) };

@@ -41,7 +41,12 @@ export function stabilitySummary(system: StarSystem, r: StabilityResult): Stabil
   const Y = system.calendar.yearLength;
   const e = r.energy.maxRelativeError;
   const energyOk = Number.isFinite(e) && e < ENERGY_GOOD;
-  const flags = r.flags.map((f) => ({ words: FLAG_WORDS[f.code] ?? f.code, message: f.message, severity: f.severity, when: f.t === null ? 'at the epoch' : `after ${years(f.t / Y)}` }));
+  const flags = r.flags.map((f) => ({
+    words: FLAG_WORDS[f.code] ?? f.code,
+    message: f.message,
+    severity: f.severity,
+    when: f.t === null ? 'at the epoch' : `after ${years(f.t / Y)}`,
+  }));
   const n = flags.length;
   return {
     headline:

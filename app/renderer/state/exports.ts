@@ -24,7 +24,14 @@ export function baseName(fileName: string): string {
   return fileName.replace(/\.plan\.json$|\.json$/i, '') || 'plan';
 }
 
-export function exportFile(kind: ExportKind, system: StarSystem, plan: Plan, result: PlanResult, fileName: string, now = new Date()): { name: string; text: string } {
+export function exportFile(
+  kind: ExportKind,
+  system: StarSystem,
+  plan: Plan,
+  result: PlanResult,
+  fileName: string,
+  now = new Date(),
+): { name: string; text: string } {
   const base = baseName(fileName);
   switch (kind) {
     case 'oem': {

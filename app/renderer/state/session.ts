@@ -26,7 +26,16 @@ import type { Plan } from '../../../core/plan/index.ts';
 import { checkPlanAgainstSystem, checkPlanDocument } from '../../../core/io/index.ts';
 import { planToDocument } from '../../../core/io/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
-import { NewerVersionError, type ExportKind, type FileRef, type Host, type MenuCommand, type OpenedFile, type RecentFile, type RecoverySnapshot } from '../host/host.ts';
+import {
+  NewerVersionError,
+  type ExportKind,
+  type FileRef,
+  type Host,
+  type MenuCommand,
+  type OpenedFile,
+  type RecentFile,
+  type RecoverySnapshot,
+} from '../host/host.ts';
 import { fileToMemoryPath } from '../plan/paths.ts';
 import { CursorStore } from './cursor.ts';
 import { PlanDocumentStore, UNTITLED, type LoadedDocument } from './document.ts';
@@ -274,7 +283,11 @@ export class Session {
   suggestedName(): string {
     const s = this.doc.get();
     if (s.file) return s.file.name;
-    const slug = s.plan.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'plan';
+    const slug =
+      s.plan.name
+        .toLowerCase()
+        .replace(/[^a-z0-9]+/g, '-')
+        .replace(/^-|-$/g, '') || 'plan';
     return `${slug}.plan.json`;
   }
 
@@ -330,7 +343,11 @@ export class Session {
     const s = this.doc.get();
     const e = this.evaluation.get();
     if (!e.result || e.stale) {
-      this.notify({ kind: 'error', title: 'Nothing to export', detail: e.error ? `The plan does not evaluate: ${e.error.message}` : 'The plan has no result yet.' });
+      this.notify({
+        kind: 'error',
+        title: 'Nothing to export',
+        detail: e.error ? `The plan does not evaluate: ${e.error.message}` : 'The plan has no result yet.',
+      });
       return;
     }
     try {
@@ -487,14 +504,19 @@ export async function loadPlanText(deps: Pick<SessionDeps, 'host' | 'bundledSyst
     systemText = picked?.text ?? null;
   }
   if (systemText === null) {
-    throw new ValidationError('plan file', [{ path: 'system.path', rule: `names "${path}", which was not found (not beside the plan, not bundled, none chosen)`, severity: 'error' }]);
+    throw new ValidationError('plan file', [
+      { path: 'system.path', rule: `names "${path}", which was not found (not beside the plan, not bundled, none chosen)`, severity: 'error' },
+    ]);
   }
   let system: StarSystem;
   try {
     system = parseSystemFile(systemText).system;
   } catch (err) {
     if (err instanceof ValidationError) {
-      throw new ValidationError('plan file', err.issues.map((i) => ({ ...i, path: `system (${baseNameOf(path)}) ${i.path}`.trim() })));
+      throw new ValidationError(
+        'plan file',
+        err.issues.map((i) => ({ ...i, path: `system (${baseNameOf(path)}) ${i.path}`.trim() })),
+      );
     }
     throw err;
   }

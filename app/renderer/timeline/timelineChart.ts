@@ -111,12 +111,10 @@ export class TimelineChart {
     });
 
     // Dragging the handle or the axis strip moves the cursor.
-    const drag = d3
-      .drag<SVGGElement, unknown>()
-      .on('start drag', (ev: d3.D3DragEvent<SVGGElement, unknown, unknown>) => {
-        const [px] = d3.pointer(ev.sourceEvent as Event, this.svg.node());
-        this.cb.onCursor(this.clampT(this.x.invert(Math.max(LAYOUT.left, Math.min(this.width - LAYOUT.right, px)))));
-      });
+    const drag = d3.drag<SVGGElement, unknown>().on('start drag', (ev: d3.D3DragEvent<SVGGElement, unknown, unknown>) => {
+      const [px] = d3.pointer(ev.sourceEvent as Event, this.svg.node());
+      this.cb.onCursor(this.clampT(this.x.invert(Math.max(LAYOUT.left, Math.min(this.width - LAYOUT.right, px)))));
+    });
     this.gAxis.select<SVGGElement>('.axis-strip-group').call(drag);
     this.gCursor.select<SVGGElement>('.cursor-handle').call(drag);
     this.resize();
@@ -135,7 +133,11 @@ export class TimelineChart {
     LANES.forEach((name, k) => {
       const y = L.axis + k * L.lane;
       const g = this.gLanes.append('g').attr('class', `lane lane-${k}`).attr('transform', `translate(0,${y})`);
-      g.append('text').attr('class', 'lane-label').attr('x', 10).attr('y', L.lane / 2 + 4).text(name);
+      g.append('text')
+        .attr('class', 'lane-label')
+        .attr('x', 10)
+        .attr('y', L.lane / 2 + 4)
+        .text(name);
       g.append('line').attr('class', 'lane-rule').attr('x1', L.left).attr('y1', L.lane).attr('y2', L.lane);
       g.append('g').attr('class', 'items').attr('clip-path', `url(#${this.clipId})`);
     });
@@ -145,7 +147,10 @@ export class TimelineChart {
       const g = this.gCharts.append('g').attr('class', `chart chart-${c.key}`).attr('transform', `translate(0,${y})`);
       g.append('text').attr('class', 'lane-label').attr('x', 10).attr('y', 14).text(c.label);
       g.append('text').attr('class', 'chart-scale chart-max').attr('x', 10).attr('y', 28);
-      g.append('text').attr('class', 'chart-scale chart-min').attr('x', 10).attr('y', L.chart - 2);
+      g.append('text')
+        .attr('class', 'chart-scale chart-min')
+        .attr('x', 10)
+        .attr('y', L.chart - 2);
       g.append('rect').attr('class', 'chart-bg').attr('x', L.left).attr('y', 0).attr('height', L.chart);
       const inner = g.append('g').attr('clip-path', `url(#${this.clipId})`);
       inner.append('path').attr('class', 'chart-area').attr('fill', c.colour).attr('fill-opacity', 0.12);
@@ -260,8 +265,12 @@ export class TimelineChart {
       .data(ticks, (d) => String(d.t))
       .join((enter) => {
         const g = enter.append('g').attr('class', 'tick');
-        g.append('line').attr('y1', L.axis - 6).attr('y2', this.height);
-        g.append('text').attr('y', L.axis - 9).attr('x', 3);
+        g.append('line')
+          .attr('y1', L.axis - 6)
+          .attr('y2', this.height);
+        g.append('text')
+          .attr('y', L.axis - 9)
+          .attr('x', 3);
         return g;
       });
     tg.attr('transform', (d) => `translate(${x(d.t)},0)`)
@@ -299,7 +308,9 @@ export class TimelineChart {
       .data(data.soi, (d) => `${d.central}-${d.t0}`)
       .join((enter) => {
         const g = enter.append('g').attr('class', 'soi');
-        g.append('rect').attr('y', 3).attr('height', L.lane - 6);
+        g.append('rect')
+          .attr('y', 3)
+          .attr('height', L.lane - 6);
         g.append('text').attr('y', L.lane / 2 + 4);
         return g;
       });
@@ -347,8 +358,16 @@ export class TimelineChart {
     }
     const log = key === 'distance';
     let y: d3.ScaleContinuousNumeric<number, number>;
-    if (log) y = d3.scaleLog().domain([Math.max(1, lo) * 0.8, Math.max(hi, lo * 2) * 1.2]).range([L.chart - 2, 3]);
-    else y = d3.scaleLinear().domain([Math.min(0, lo), hi > lo ? hi * 1.05 : lo + 1]).range([L.chart - 2, 3]);
+    if (log)
+      y = d3
+        .scaleLog()
+        .domain([Math.max(1, lo) * 0.8, Math.max(hi, lo * 2) * 1.2])
+        .range([L.chart - 2, 3]);
+    else
+      y = d3
+        .scaleLinear()
+        .domain([Math.min(0, lo), hi > lo ? hi * 1.05 : lo + 1])
+        .range([L.chart - 2, 3]);
     const idx = d3.range(n);
     const line = d3
       .line<number>()

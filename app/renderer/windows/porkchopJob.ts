@@ -35,7 +35,11 @@ export async function runPorkchopJob(system: StarSystem, request: PorkchopReques
   const { grid, setup } = createGrid(system, request);
   const { nRows, nCols } = grid.planes;
   const rows = Math.max(1, Math.floor(CELLS_PER_BLOCK / nCols));
-  const signal = { get aborted() { return hooks.isCancelled(); } };
+  const signal = {
+    get aborted() {
+      return hooks.isCancelled();
+    },
+  };
   for (let r = 0; r < nRows; r += rows) {
     const end = Math.min(nRows, r + rows);
     grid.unsolved += computePorkchopRows(system, setup, r, end, grid.planes, { signal });

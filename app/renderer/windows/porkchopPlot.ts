@@ -104,8 +104,18 @@ export class PorkchopPlot {
 
   private draw(): void {
     const L = this.layout();
-    this.svg.select('rect.plot-bg').attr('x', L.x0).attr('y', L.y0).attr('width', L.x1 - L.x0).attr('height', L.y1 - L.y0);
-    this.svg.select('rect.hit').attr('x', L.x0).attr('y', L.y0).attr('width', L.x1 - L.x0).attr('height', L.y1 - L.y0);
+    this.svg
+      .select('rect.plot-bg')
+      .attr('x', L.x0)
+      .attr('y', L.y0)
+      .attr('width', L.x1 - L.x0)
+      .attr('height', L.y1 - L.y0);
+    this.svg
+      .select('rect.hit')
+      .attr('x', L.x0)
+      .attr('y', L.y0)
+      .attr('width', L.x1 - L.x0)
+      .attr('height', L.y1 - L.y0);
     const g = this.grid;
     if (!g || !this.cal) {
       this.gContours.selectAll('*').remove();
@@ -185,14 +195,23 @@ export class PorkchopPlot {
       gx.append('line').attr('y2', 5);
       gx.append('text').attr('y', 16).attr('text-anchor', 'middle').text(t.label);
     }
-    ax.append('text').attr('class', 'axis-title').attr('x', (L.x0 + L.x1) / 2).attr('y', 34).attr('text-anchor', 'middle').text('departure (system calendar)');
+    ax.append('text')
+      .attr('class', 'axis-title')
+      .attr('x', (L.x0 + L.x1) / 2)
+      .attr('y', 34)
+      .attr('text-anchor', 'middle')
+      .text('departure (system calendar)');
     const ay = this.gAxes.append('g').attr('class', 'axis').attr('transform', `translate(${L.x0},0)`);
     for (const d of this.y.ticks(6)) {
       const gy = ay.append('g').attr('transform', `translate(0,${this.y(d)})`);
       gy.append('line').attr('x2', -5);
       gy.append('text').attr('x', -8).attr('dy', '0.32em').attr('text-anchor', 'end').text(`${d}`);
     }
-    ay.append('text').attr('class', 'axis-title').attr('transform', `translate(-44,${(L.y0 + L.y1) / 2}) rotate(-90)`).attr('text-anchor', 'middle').text('flight time, days');
+    ay.append('text')
+      .attr('class', 'axis-title')
+      .attr('transform', `translate(-44,${(L.y0 + L.y1) / 2}) rotate(-90)`)
+      .attr('text-anchor', 'middle')
+      .text('flight time, days');
 
     // Legend: the colour ramp with Δv labels.
     this.gLegend.selectAll('*').remove();
@@ -219,7 +238,12 @@ export class PorkchopPlot {
         .attr('font-family', 'var(--mono)')
         .text(`${((lo + (hiLevel - lo) * f) * scale).toFixed(2)}`);
     }
-    lg.append('text').attr('x', 0).attr('y', lh + 16).attr('fill', '#8c9b95').attr('font-size', 10).text(`${this.metric === 'c3' ? 'C3' : 'Δv'} ${unit}`);
+    lg.append('text')
+      .attr('x', 0)
+      .attr('y', lh + 16)
+      .attr('fill', '#8c9b95')
+      .attr('font-size', 10)
+      .text(`${this.metric === 'c3' ? 'C3' : 'Δv'} ${unit}`);
     this.drawMarks();
   }
 
@@ -228,10 +252,19 @@ export class PorkchopPlot {
     this.gMarks.selectAll('*').remove();
     if (!g) return;
     this.windows.forEach((w, k) => {
-      const m = this.gMarks.append('g').attr('class', 'window-mark').attr('transform', `translate(${this.x(w.departure)},${this.y(w.tof / 86400)})`);
+      const m = this.gMarks
+        .append('g')
+        .attr('class', 'window-mark')
+        .attr('transform', `translate(${this.x(w.departure)},${this.y(w.tof / 86400)})`);
       m.append('circle').attr('r', 5).attr('fill', 'none').attr('stroke', '#0f1416').attr('stroke-width', 3);
       m.append('circle').attr('r', 5).attr('fill', 'none').attr('stroke', '#ff9b45').attr('stroke-width', 1.6);
-      m.append('text').attr('x', 8).attr('y', -6).attr('fill', '#ff9b45').attr('font-size', 11).attr('font-weight', 600).text(String(k + 1));
+      m.append('text')
+        .attr('x', 8)
+        .attr('y', -6)
+        .attr('fill', '#ff9b45')
+        .attr('font-size', 11)
+        .attr('font-weight', 600)
+        .text(String(k + 1));
     });
   }
 

@@ -4,9 +4,7 @@ import type { PorkchopRequest } from '../../../core/search/index.ts';
 import type { TransferWindow, WindowOptions } from '../../../core/search/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 
-export type ToWorker =
-  | { type: 'run'; id: number; system: StarSystem; request: PorkchopRequest; windows: WindowOptions }
-  | { type: 'cancel'; id: number };
+export type ToWorker = { type: 'run'; id: number; system: StarSystem; request: PorkchopRequest; windows: WindowOptions } | { type: 'cancel'; id: number };
 
 export type FromWorker =
   | { type: 'progress'; id: number; done: number; total: number }

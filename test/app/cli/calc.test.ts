@@ -11,15 +11,7 @@ function json(stdout: string): any {
 
 describe('waymark calc', () => {
   it('lambert matches Curtis, Orbital Mechanics for Engineering Students, 3rd ed., Example 5.2 (from memory)', async () => {
-    const run = await runCli([
-      'calc',
-      'lambert',
-      '--mu=3.986004418e14',
-      '--r1=5000km,10000km,2100km',
-      '--r2=-14600km,2500km,7000km',
-      '--tof=3600s',
-      '--json',
-    ]);
+    const run = await runCli(['calc', 'lambert', '--mu=3.986004418e14', '--r1=5000km,10000km,2100km', '--r2=-14600km,2500km,7000km', '--tof=3600s', '--json']);
     expect(run.code).toBe(0);
     const out = json(run.stdout);
     expect(out.solutions).toHaveLength(1);
@@ -36,7 +28,16 @@ describe('waymark calc', () => {
   });
 
   it('lambert with --revs lists both branches of each revolution count', async () => {
-    const run = await runCli(['calc', 'lambert', '--mu=398600km3/s2', '--r1=5000km,10000km,2100km', '--r2=-14600km,2500km,7000km', '--tof=20h', '--revs=1', '--json']);
+    const run = await runCli([
+      'calc',
+      'lambert',
+      '--mu=398600km3/s2',
+      '--r1=5000km,10000km,2100km',
+      '--r2=-14600km,2500km,7000km',
+      '--tof=20h',
+      '--revs=1',
+      '--json',
+    ]);
     expect(run.code).toBe(0);
     const out = json(run.stdout);
     expect(out.solutions.map((s: any) => `${s.revs}${s.branch}`)).toEqual(['0single', '1left', '1right']);
@@ -56,14 +57,7 @@ describe('waymark calc', () => {
   });
 
   it('elements matches Curtis, 3rd ed., Example 4.3 (from memory)', async () => {
-    const run = await runCli([
-      'calc',
-      'elements',
-      '--mu=398600km3/s2',
-      '--r=-6045km,-3490km,2500km',
-      '--v=-3.457km/s,6.618km/s,2.533km/s',
-      '--json',
-    ]);
+    const run = await runCli(['calc', 'elements', '--mu=398600km3/s2', '--r=-6045km,-3490km,2500km', '--v=-3.457km/s,6.618km/s,2.533km/s', '--json']);
     expect(run.code).toBe(0);
     const el = json(run.stdout);
     const deg = 180 / Math.PI;

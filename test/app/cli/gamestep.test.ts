@@ -21,7 +21,22 @@ describe.concurrent('waymark gamestep', () => {
   });
 
   it('float32, floating origin, fraction step and km tolerance; text output', async () => {
-    const r = await runCli(['gamestep', DEMO, '--integrator', 'symplectic-euler', '--dt', '1/2', '--float32', '--rebase', '--rebase-distance', '5', '--tolerance', '50', '--max-steps', '200000']);
+    const r = await runCli([
+      'gamestep',
+      DEMO,
+      '--integrator',
+      'symplectic-euler',
+      '--dt',
+      '1/2',
+      '--float32',
+      '--rebase',
+      '--rebase-distance',
+      '5',
+      '--tolerance',
+      '50',
+      '--max-steps',
+      '200000',
+    ]);
     expect(r.stderr).toBe('');
     expect(r.stdout).toMatch(/physics: symplectic-euler, dt 0\.500000 s, float32, floating origin at 5\.00 km \(position and velocity\)/);
     expect(r.stdout).toMatch(/tolerance 50\.00 km/);

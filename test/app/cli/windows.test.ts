@@ -48,7 +48,25 @@ describe('waymark windows', () => {
   it('--csv lists the windows; text output is a table; --grid-out writes the grid', () => {
     const dir = mkdtempSync(join(tmpdir(), 'waymark-windows-'));
     const file = join(dir, 'grid.json');
-    const csv = cli('windows', ...DEMO, '--from', 'tessel', '--to', 'ochre', '--grid', '40x30', '--depart', '412-001..600d', '--tof', '100d..400d', '--csv', '--grid-out', file, '--workers', '2');
+    const csv = cli(
+      'windows',
+      ...DEMO,
+      '--from',
+      'tessel',
+      '--to',
+      'ochre',
+      '--grid',
+      '40x30',
+      '--depart',
+      '412-001..600d',
+      '--tof',
+      '100d..400d',
+      '--csv',
+      '--grid-out',
+      file,
+      '--workers',
+      '2',
+    );
     expect(csv.code).toBe(0);
     const lines = csv.stdout.trim().split('\n');
     expect(lines[0].split(',')).toContain('dv_total_m_s');
@@ -61,7 +79,12 @@ describe('waymark windows', () => {
     expect(text.code).toBe(0);
     expect(text.stdout).toMatch(/Tessel -> Ochre/);
     expect(text.stdout).toMatch(/dv total m\/s/);
-    expect(text.stdout.trim().split('\n').filter((l) => /^1\*?\s/.test(l)).length).toBe(1);
+    expect(
+      text.stdout
+        .trim()
+        .split('\n')
+        .filter((l) => /^1\*?\s/.test(l)).length,
+    ).toBe(1);
   });
 
   it('bad input exits 2 with a typed error naming the option', () => {

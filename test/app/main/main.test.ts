@@ -84,13 +84,23 @@ vi.mock('electron', () => {
     },
     session: {
       defaultSession: {
-        setPermissionRequestHandler: (fn: never) => { m.session.permission = fn; },
-        setPermissionCheckHandler: (fn: never) => { m.session.permissionCheck = fn; },
-        setDevicePermissionHandler: (fn: never) => { m.session.devicePermission = fn; },
+        setPermissionRequestHandler: (fn: never) => {
+          m.session.permission = fn;
+        },
+        setPermissionCheckHandler: (fn: never) => {
+          m.session.permissionCheck = fn;
+        },
+        setDevicePermissionHandler: (fn: never) => {
+          m.session.devicePermission = fn;
+        },
         on: (ev: string, fn: never) => void m.session.events.set(ev, fn),
         webRequest: {
-          onBeforeRequest: (fn: never) => { m.session.beforeRequest = fn; },
-          onHeadersReceived: (fn: never) => { m.session.headers = fn; },
+          onBeforeRequest: (fn: never) => {
+            m.session.beforeRequest = fn;
+          },
+          onHeadersReceived: (fn: never) => {
+            m.session.headers = fn;
+          },
         },
       },
     },
@@ -168,15 +178,25 @@ describe('Electron main process (electron mocked)', () => {
     }
   });
 
-  it.each(['geolocation', 'media', 'notifications', 'clipboard-read', 'clipboard-sanitized-write', 'openExternal', 'fileSystem', 'hid', 'serial', 'usb', 'pointerLock', 'fullscreen'])(
-    'refuses the permission %s (request and check)',
-    (permission) => {
-      const cb = vi.fn();
-      m.session.permission!({}, permission, cb);
-      expect(cb).toHaveBeenCalledWith(false);
-      expect(m.session.permissionCheck!({}, permission)).toBe(false);
-    },
-  );
+  it.each([
+    'geolocation',
+    'media',
+    'notifications',
+    'clipboard-read',
+    'clipboard-sanitized-write',
+    'openExternal',
+    'fileSystem',
+    'hid',
+    'serial',
+    'usb',
+    'pointerLock',
+    'fullscreen',
+  ])('refuses the permission %s (request and check)', (permission) => {
+    const cb = vi.fn();
+    m.session.permission!({}, permission, cb);
+    expect(cb).toHaveBeenCalledWith(false);
+    expect(m.session.permissionCheck!({}, permission)).toBe(false);
+  });
 
   it('refuses device access and cancels downloads', () => {
     expect(m.session.devicePermission!({ deviceType: 'usb', device: {} })).toBe(false);
@@ -204,7 +224,11 @@ describe('Electron main process (electron mocked)', () => {
   });
 
   it('puts the CSP on every response, replacing one the response brought', () => {
-    const cases: Record<string, string[]>[] = [{}, { 'content-security-policy': ["default-src *; script-src 'unsafe-eval'"] }, { 'Content-Security-Policy': ['default-src *'], 'X-A': ['1'] }];
+    const cases: Record<string, string[]>[] = [
+      {},
+      { 'content-security-policy': ["default-src *; script-src 'unsafe-eval'"] },
+      { 'Content-Security-Policy': ['default-src *'], 'X-A': ['1'] },
+    ];
     for (const responseHeaders of cases) {
       const cb = vi.fn();
       m.session.headers!({ responseHeaders }, cb);
@@ -235,7 +259,9 @@ describe('Electron main process (electron mocked)', () => {
     await m.handlers.get(IPC.save)!(fromApp(), m.dialogPaths.save, PLAN('second'));
     expect(readFileSync(m.dialogPaths.save, 'utf8')).toBe(PLAN('second'));
     expect(readFileSync(`${m.dialogPaths.save}.bak`, 'utf8')).toBe(PLAN('first'));
-    await expect(m.handlers.get(IPC.save)!({ senderFrame: { url: 'https://evil.invalid/', parent: null } }, m.dialogPaths.save, PLAN('x'))).rejects.toThrow(/sender/);
+    await expect(m.handlers.get(IPC.save)!({ senderFrame: { url: 'https://evil.invalid/', parent: null } }, m.dialogPaths.save, PLAN('x'))).rejects.toThrow(
+      /sender/,
+    );
   });
 
   it('opens a plan through the dialog, and refuses one that is not valid UTF-8 with the offset of the bad byte', async () => {

@@ -45,7 +45,9 @@ const FORWARDS: [string, unknown[], string][] = [
 ];
 
 let api: Record<string, unknown>;
-let electron: { ipcRenderer: { invoke: ReturnType<typeof vi.fn>; on: ReturnType<typeof vi.fn>; send: ReturnType<typeof vi.fn>; sendSync: ReturnType<typeof vi.fn> } };
+let electron: {
+  ipcRenderer: { invoke: ReturnType<typeof vi.fn>; on: ReturnType<typeof vi.fn>; send: ReturnType<typeof vi.fn>; sendSync: ReturnType<typeof vi.fn> };
+};
 
 beforeAll(async () => {
   await import('../../../app/preload/preload.ts');

@@ -85,7 +85,12 @@ describe('system stability check', () => {
   it('the demo system (Ilmar) over 100 years, moons flown, reports no flags', () => {
     const r = checkStability(demo, { years: 100 });
     expect(r.mergedMoons).toBe(false);
-    expect(r.bodies.map((b) => b.id).sort()).toEqual(demo.bodies.slice(1).map((b) => b.id).sort());
+    expect(r.bodies.map((b) => b.id).sort()).toEqual(
+      demo.bodies
+        .slice(1)
+        .map((b) => b.id)
+        .sort(),
+    );
     expect(r.flags).toEqual([]);
     expect(r.energy.maxRelativeError).toBeLessThan(2e-12); // Yoshida 4 at its default step: measured 3.9e-13
     const quill = r.bodies.find((b) => b.id === 'quill')!;

@@ -81,7 +81,7 @@ describe('sampleEphemeris', () => {
     }
   });
 
-  it('a ship flying exactly on Tessel\'s own conic stays on Tessel: Kepler propagation agrees with the ephemeris', () => {
+  it("a ship flying exactly on Tessel's own conic stays on Tessel: Kepler propagation agrees with the ephemeris", () => {
     // Independent implementations: universal-variable propagation (kepler.ts) and the
     // Kepler-equation ephemeris (ephemeris.ts) with μ = μ_star + μ_Tessel.
     const st = bodyState(ilmar, TESSEL, 0, new Float64Array(6));

@@ -52,10 +52,13 @@ describe('patched conics: events on a conic', () => {
   const start = stateStart('loam', [s[0], s[1], s[2]], [s[3], s[4], s[5]], 500);
 
   it('coast to apoapsis takes half a period, to the next periapsis a full one (Kepler’s third law)', () => {
-    const res = evaluate(system, plan(start, [
-      { type: 'coast', id: 'a', name: 'a', until: { kind: 'apoapsis' } },
-      { type: 'coast', id: 'p', name: 'p', until: { kind: 'periapsis' } },
-    ]));
+    const res = evaluate(
+      system,
+      plan(start, [
+        { type: 'coast', id: 'a', name: 'a', until: { kind: 'apoapsis' } },
+        { type: 'coast', id: 'p', name: 'p', until: { kind: 'periapsis' } },
+      ]),
+    );
     const apo = res.events.find((x) => x.kind === 'apoapsis' && x.planEventId === 'a');
     const peri = res.events.find((x) => x.kind === 'periapsis' && x.planEventId === 'p');
     // apsis times in closed form, polished to EVENT_TIME_TOL (measured 2e-11 s)
@@ -75,10 +78,13 @@ describe('patched conics: events on a conic', () => {
   });
 
   it('altitude and node conditions end where |r| and z say (Kepler check)', () => {
-    const res = evaluate(system, plan(start, [
-      { type: 'coast', id: 'alt', name: 'alt', until: { kind: 'altitude', altitude: 2.0e7 - R_EARTH } },
-      { type: 'coast', id: 'node', name: 'node', until: { kind: 'node', which: 'descending' } },
-    ]));
+    const res = evaluate(
+      system,
+      plan(start, [
+        { type: 'coast', id: 'alt', name: 'alt', until: { kind: 'altitude', altitude: 2.0e7 - R_EARTH } },
+        { type: 'coast', id: 'node', name: 'node', until: { kind: 'node', which: 'descending' } },
+      ]),
+    );
     const alt = res.events.find((x) => x.kind === 'altitude');
     // a crossing time within EVENT_TIME_TOL moves the radius by |ṙ|·1e-7 s ≤ 4e-4 m (|ṙ| < 4 km/s
     // on this orbit) and z by ż·1e-7 s ≤ 7e-4 m; measured 3.7e-9 m and 6.4e-7 m
@@ -96,16 +102,20 @@ describe('patched conics: events on a conic', () => {
     const rpLow = R_EARTH + 50e3;
     const raLow = R_EARTH + 2000e3;
     const low = elementsToState(MU_EARTH, { a: (rpLow + raLow) / 2, e: (raLow - rpLow) / (raLow + rpLow), i: 0, raan: 0, argp: 0, nu: Math.PI });
-    const r1 = evaluate(system, plan(stateStart('loam', [low[0], low[1], low[2]], [low[3], low[4], low[5]]), [
-      { type: 'coast', id: 'c', name: 'c', until: { kind: 'periapsis' } },
-    ]));
+    const r1 = evaluate(
+      system,
+      plan(stateStart('loam', [low[0], low[1], low[2]], [low[3], low[4], low[5]]), [{ type: 'coast', id: 'c', name: 'c', until: { kind: 'periapsis' } }]),
+    );
     expect(r1.flags.map((f) => f.code)).toContain('atmosphere-entry');
     expect(r1.flags.find((f) => f.code === 'atmosphere-entry')?.severity).toBe('warning');
     const crash = elementsToState(MU_EARTH, { a: 5.5e6, e: 0.3, i: 0, raan: 0, argp: 0, nu: Math.PI }); // apoapsis 7,150 km, periapsis 3,850 km from the centre
-    const r2 = evaluate(system, plan(stateStart('loam', [crash[0], crash[1], crash[2]], [crash[3], crash[4], crash[5]]), [
-      { type: 'coast', id: 'c', name: 'c', until: { kind: 'periapsis' } },
-      impulsive('never', null, [10, 0, 0]),
-    ]));
+    const r2 = evaluate(
+      system,
+      plan(stateStart('loam', [crash[0], crash[1], crash[2]], [crash[3], crash[4], crash[5]]), [
+        { type: 'coast', id: 'c', name: 'c', until: { kind: 'periapsis' } },
+        impulsive('never', null, [10, 0, 0]),
+      ]),
+    );
     const impact = r2.events.find((x) => x.kind === 'impact');
     expect(impact?.altitude).toBeCloseTo(0, 3);
     expect(r2.flags.find((f) => f.code === 'impact')?.severity).toBe('error');
@@ -185,7 +195,9 @@ describe('the demo plan', () => {
       // sampled by another route than propagateKepler: measured 4.8e-12 of r at worst
       for (let j = 0; j < 96; j++) {
         const st = propagateKepler(s.mu, s.state0, s.sampleT[j] - s.t0);
-        expect(Math.hypot(st[0] - s.samples[3 * j], st[1] - s.samples[3 * j + 1], st[2] - s.samples[3 * j + 2])).toBeLessThan(5e-11 * Math.hypot(st[0], st[1], st[2]));
+        expect(Math.hypot(st[0] - s.samples[3 * j], st[1] - s.samples[3 * j + 1], st[2] - s.samples[3 * j + 2])).toBeLessThan(
+          5e-11 * Math.hypot(st[0], st[1], st[2]),
+        );
       }
     }
     const none = evaluate(system, demoPlan, { samplesPerSegment: 0 });
@@ -217,8 +229,28 @@ describe('burn handling', () => {
 
   it('a failing solve flags solve-failed and flies zero Δv (never NaN)', () => {
     const p = plan(start, [
-      { type: 'burn', id: 'b', name: 'bad capture', t: 100, frame: 'vnb', dv: [0, 0, 0], solve: { kind: 'plane', i: 0 }, mode: 'impulsive', pointing: 'velocity' },
-      { type: 'burn', id: 'x', name: 'bad transfer', t: 200, frame: 'vnb', dv: [0, 0, 0], solve: { kind: 'transfer', to: 'loam', arrive: 1e6 }, mode: 'impulsive', pointing: 'velocity' },
+      {
+        type: 'burn',
+        id: 'b',
+        name: 'bad capture',
+        t: 100,
+        frame: 'vnb',
+        dv: [0, 0, 0],
+        solve: { kind: 'plane', i: 0 },
+        mode: 'impulsive',
+        pointing: 'velocity',
+      },
+      {
+        type: 'burn',
+        id: 'x',
+        name: 'bad transfer',
+        t: 200,
+        frame: 'vnb',
+        dv: [0, 0, 0],
+        solve: { kind: 'transfer', to: 'loam', arrive: 1e6 },
+        mode: 'impulsive',
+        pointing: 'velocity',
+      },
     ]);
     const res = evaluate(system, p);
     expect(res.budget.rows[1].flags.map((f) => f.code)).toEqual(['solve-failed']);
@@ -249,10 +281,11 @@ describe('burn handling', () => {
   });
 
   it('a finite burn is integrated: burn segment, events, gravity loss, orbit close to the impulsive one', () => {
-    const mk = (mode: 'impulsive' | 'finite'): Plan => plan(start, [
-      { type: 'burn', id: 'b', name: 'raise', t: 1000, frame: 'vnb', dv: [0, 0, 0], solve: { kind: 'apsis', altitude: 20000e3 }, mode, pointing: 'velocity' },
-      { type: 'coast', id: 'c', name: 'c', until: { kind: 'apoapsis' } },
-    ]);
+    const mk = (mode: 'impulsive' | 'finite'): Plan =>
+      plan(start, [
+        { type: 'burn', id: 'b', name: 'raise', t: 1000, frame: 'vnb', dv: [0, 0, 0], solve: { kind: 'apsis', altitude: 20000e3 }, mode, pointing: 'velocity' },
+        { type: 'coast', id: 'c', name: 'c', until: { kind: 'apoapsis' } },
+      ]);
     const imp = evaluate(system, mk('impulsive'));
     const fin = evaluate(system, mk('finite'));
     const burnSeg = fin.segments.find((s) => s.kind === 'burn');
@@ -281,10 +314,7 @@ describe('burn handling', () => {
   });
 
   it('out-of-order times are flagged and flown at once', () => {
-    const p = plan(start, [
-      { type: 'coast', id: 'c', name: 'c', until: { kind: 'duration', dt: 1000 } },
-      impulsive('b', 10, [1, 0, 0]),
-    ]);
+    const p = plan(start, [{ type: 'coast', id: 'c', name: 'c', until: { kind: 'duration', dt: 1000 } }, impulsive('b', 10, [1, 0, 0])]);
     const res = evaluate(system, p);
     expect(res.budget.rows[0].t).toBe(1000);
     expect(res.flags.map((f) => f.code)).toEqual(['out-of-order']);

@@ -65,7 +65,14 @@ describe('finite burn', () => {
     const state = [1e12, 0, 0, 0, 1, 0];
     const dir = [0.6, 0, 0.8];
     const res = flyFiniteBurn({
-      mu: 1, state, tStart: 0, dvImpulsive: dir.map((x) => 1200 * x), centreState: state, pointing: 'inertial', book, samples: 0,
+      mu: 1,
+      state,
+      tStart: 0,
+      dvImpulsive: dir.map((x) => 1200 * x),
+      centreState: state,
+      pointing: 'inertial',
+      book,
+      samples: 0,
     });
     const dvActual = norm([res.state[3] - state[3], res.state[4] - state[4], res.state[5] - state[5]]);
     const m0 = 1000;
@@ -85,7 +92,8 @@ describe('finite burn', () => {
 
   it('across staging: phases burn in turn, propellant and mass agree with the bookkeeping', () => {
     const vehicle: Vehicle = {
-      name: 'two', payloadMass: 100,
+      name: 'two',
+      payloadMass: 100,
       stages: [
         { name: 'a', dryMass: 100, propellantMass: 300, isp: 300, thrust: 3e4 },
         { name: 'b', dryMass: 50, propellantMass: 200, isp: 330, thrust: 1e4 },

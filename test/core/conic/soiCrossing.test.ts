@@ -1,14 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { elementsToState } from '../../../core/orbit/elements.ts';
 import { propagateKepler } from '../../../core/orbit/kepler.ts';
-import {
-  conicInfo,
-  EVENT_TIME_TOL,
-  findSoiEntry,
-  timeToApsis,
-  timeToNode,
-  timeToRadius,
-} from '../../../core/conic/soiCrossing.ts';
+import { conicInfo, EVENT_TIME_TOL, findSoiEntry, timeToApsis, timeToNode, timeToRadius } from '../../../core/conic/soiCrossing.ts';
 import { bodyStateRelativeToParent } from '../../../core/system/ephemeris.ts';
 import { MU_EARTH, MU_SUN, testSystem } from '../plan/helpers.ts';
 
@@ -23,7 +16,7 @@ describe('apsis passages', () => {
   const s0 = elementsToState(MU_EARTH, { a, e, i: 0.4, raan: 1, argp: 2, nu: 0 });
 
   it('from periapsis: apoapsis after half a period, periapsis after a full period (Kepler’s third law, analytic)', () => {
-    expect(Math.abs(timeToApsis(MU_EARTH, s0, 'apoapsis') - (T / 2))).toBeLessThan(EVENT_TIME_TOL);
+    expect(Math.abs(timeToApsis(MU_EARTH, s0, 'apoapsis') - T / 2)).toBeLessThan(EVENT_TIME_TOL);
     expect(Math.abs(timeToApsis(MU_EARTH, s0, 'periapsis') - T)).toBeLessThan(EVENT_TIME_TOL);
   });
 
@@ -34,8 +27,8 @@ describe('apsis passages', () => {
     const E = 2 * Math.atan(Math.sqrt((1 - e) / (1 + e)) * Math.tan(nu / 2));
     const M = E - e * Math.sin(E);
     const n = Math.sqrt(MU_EARTH / a ** 3);
-    expect(Math.abs(timeToApsis(MU_EARTH, s, 'periapsis') - ((2 * Math.PI - M) / n))).toBeLessThan(EVENT_TIME_TOL);
-    expect(Math.abs(timeToApsis(MU_EARTH, s, 'apoapsis') - ((Math.PI - M) / n))).toBeLessThan(EVENT_TIME_TOL);
+    expect(Math.abs(timeToApsis(MU_EARTH, s, 'periapsis') - (2 * Math.PI - M) / n)).toBeLessThan(EVENT_TIME_TOL);
+    expect(Math.abs(timeToApsis(MU_EARTH, s, 'apoapsis') - (Math.PI - M) / n)).toBeLessThan(EVENT_TIME_TOL);
   });
 
   it('a hyperbola past periapsis has no periapsis ahead and never an apoapsis', () => {
@@ -66,11 +59,12 @@ describe('radius crossings', () => {
   });
 
   it('an ellipse crosses a radius between its apsides twice per revolution, inbound after outbound', () => {
-    const a = 2e7, e = 0.5;
+    const a = 2e7,
+      e = 0.5;
     const s = elementsToState(MU_EARTH, { a, e, i: 0, raan: 0, argp: 0, nu: 0 });
     const T = 2 * Math.PI * Math.sqrt(a ** 3 / MU_EARTH);
     const R = a; // r = a at E = ±π/2: M = π/2 − e
-    const tOut = (Math.PI / 2 - e) / (2 * Math.PI) * T;
+    const tOut = ((Math.PI / 2 - e) / (2 * Math.PI)) * T;
     expect(Math.abs(timeToRadius(MU_EARTH, s, R, 1) - tOut)).toBeLessThan(EVENT_TIME_TOL);
     expect(Math.abs(timeToRadius(MU_EARTH, s, R, -1) - (T - tOut))).toBeLessThan(EVENT_TIME_TOL);
     expect(Math.abs(timeToRadius(MU_EARTH, s, R, 0) - tOut)).toBeLessThan(EVENT_TIME_TOL);
@@ -83,9 +77,9 @@ describe('node crossings', () => {
     const r = 7e6;
     const s = elementsToState(MU_EARTH, { a: r, e: 0, i: 51 * DEG, raan: 40 * DEG, argp: 0, nu: 30 * DEG });
     const T = 2 * Math.PI * Math.sqrt(r ** 3 / MU_EARTH);
-    expect(Math.abs(timeToNode(MU_EARTH, s, 'ascending') - ((330 / 360) * T))).toBeLessThan(EVENT_TIME_TOL);
-    expect(Math.abs(timeToNode(MU_EARTH, s, 'descending') - ((150 / 360) * T))).toBeLessThan(EVENT_TIME_TOL);
-    expect(Math.abs(timeToNode(MU_EARTH, s, 'any') - ((150 / 360) * T))).toBeLessThan(EVENT_TIME_TOL);
+    expect(Math.abs(timeToNode(MU_EARTH, s, 'ascending') - (330 / 360) * T)).toBeLessThan(EVENT_TIME_TOL);
+    expect(Math.abs(timeToNode(MU_EARTH, s, 'descending') - (150 / 360) * T)).toBeLessThan(EVENT_TIME_TOL);
+    expect(Math.abs(timeToNode(MU_EARTH, s, 'any') - (150 / 360) * T)).toBeLessThan(EVENT_TIME_TOL);
     const after = propagateKepler(MU_EARTH, s, timeToNode(MU_EARTH, s, 'descending'));
     expect(Math.abs(after[2])).toBeLessThan(1e-3);
     expect(after[5]).toBeLessThan(0);
@@ -144,7 +138,8 @@ describe('SOI entry search', () => {
     for (let t = 20; t <= tEnd; t += 20) {
       const cur = g(t);
       if (prev > 0 && cur <= 0) {
-        let lo = t - 20, hi = t;
+        let lo = t - 20,
+          hi = t;
         for (let k = 0; k < 60; k++) {
           const m = 0.5 * (lo + hi);
           if (g(m) > 0) lo = m;

@@ -1,13 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { SolverError } from '../../../core/math/errors.ts';
-import {
-  hyperbolicDeparture,
-  solveApsis,
-  solveBurn,
-  solveCapture,
-  solvePlane,
-  type SolveInfo,
-} from '../../../core/conic/solveBurn.ts';
+import { hyperbolicDeparture, solveApsis, solveBurn, solveCapture, solvePlane, type SolveInfo } from '../../../core/conic/solveBurn.ts';
 import { conicInfo } from '../../../core/conic/soiCrossing.ts';
 import { elementsToState, stateToElements } from '../../../core/orbit/elements.ts';
 import { propagateKepler } from '../../../core/orbit/kepler.ts';
@@ -119,7 +112,12 @@ describe('hyperbolic departure', () => {
 
   it('from any point: energy v∞²/2 and outgoing asymptote v̂∞ = cos ν∞·P + sin ν∞·Q (two-body conic geometry)', () => {
     const s = elementsToState(MU_EARTH, { a: r, e: 0, i: 0.3, raan: 0.5, argp: 0, nu: 0.9 });
-    for (const dir of [[1, 0, 0], [0.3, -0.8, 0.5], [-0.6, 0.2, -0.77], [0, 0, 1]]) {
+    for (const dir of [
+      [1, 0, 0],
+      [0.3, -0.8, 0.5],
+      [-0.6, 0.2, -0.77],
+      [0, 0, 1],
+    ]) {
       const n = norm(dir);
       const vInf = dir.map((x) => (vinf * x) / n);
       const vp = hyperbolicDeparture(MU_EARTH, s, vInf, [0, 0, 0]);
@@ -188,7 +186,9 @@ describe('transfer', () => {
 
   it('fails with a reason: arrival before the burn, target not reachable from here', () => {
     const s = [7e6, 0, 0, 0, 7500, 0];
-    expect(() => solveBurn({ system, central: tessel, t: DEMO_ARRIVE, state: s }, { kind: 'transfer', to: 'ochre', arrive: DEMO_DEPART }, [0, 0, 0])).toThrow(/not after the burn/);
+    expect(() => solveBurn({ system, central: tessel, t: DEMO_ARRIVE, state: s }, { kind: 'transfer', to: 'ochre', arrive: DEMO_DEPART }, [0, 0, 0])).toThrow(
+      /not after the burn/,
+    );
     expect(() => solveBurn({ system, central: tessel, t: 0, state: s }, { kind: 'transfer', to: 'skerry', arrive: 1e7 }, [0, 0, 0])).toThrow(/sibling/);
     expect(() => solveBurn({ system, central: tessel, t: 0, state: s }, { kind: 'transfer', to: 'tessel', arrive: 1e7 }, [0, 0, 0])).toThrow(/already/);
   });

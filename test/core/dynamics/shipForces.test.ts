@@ -45,9 +45,19 @@ const conic = evaluate(sys, demoPlan, { samplesPerSegment: 0 });
 const tDep = conic.budget.rows[0].t;
 const tExit = conic.events.find((e) => e.kind === 'soi-exit')!.t;
 const { actions } = burnActions(demoPlan, conic);
-const demoFlight = flyNBody(new NBodyModel(sys, { rtol: 1e-12 }), conicStart(conic), [...actions.filter((a) => a.t <= tDep), { kind: 'checkpoint', t: tExit - HOUR, id: 'hour' }], tExit - HOUR);
+const demoFlight = flyNBody(
+  new NBodyModel(sys, { rtol: 1e-12 }),
+  conicStart(conic),
+  [...actions.filter((a) => a.t <= tDep), { kind: 'checkpoint', t: tExit - HOUR, id: 'hour' }],
+  tExit - HOUR,
+);
 // a burn at the flight's end time is flown: this is the state just after the departure burn
-const afterDeparture = flyNBody(new NBodyModel(sys, { rtol: 1e-12 }), conicStart(conic), actions.filter((a) => a.t <= tDep), tDep).state;
+const afterDeparture = flyNBody(
+  new NBodyModel(sys, { rtol: 1e-12 }),
+  conicStart(conic),
+  actions.filter((a) => a.t <= tDep),
+  tDep,
+).state;
 const hourBeforeExit = demoFlight.checkpoints.get('hour')!;
 
 describe('ShipForces: the acceleration is the star-centred definition, relative to any origin', () => {
@@ -97,7 +107,10 @@ describe('ShipForces: the acceleration is the star-centred definition, relative 
   it('near a child body the grouped terms stay exact (the ship 20,000 km from Tessel, flown about the star; 3,000 km from Quill, about Tessel)', () => {
     const f = new ShipForces(sys);
     const got = new Float64Array(3);
-    for (const [origin, near, off] of [['ilmar', 'tessel', 2e7], ['tessel', 'quill', 3e6]] as const) {
+    for (const [origin, near, off] of [
+      ['ilmar', 'tessel', 2e7],
+      ['tessel', 'quill', 3e6],
+    ] as const) {
       const o = id[origin];
       f.origin = o;
       const p = bodyPosition(sys, id[near], t, [0, 0, 0], o);
@@ -118,7 +131,7 @@ describe('ShipForces: the acceleration is the star-centred definition, relative 
       f.origin = id[o];
       const want = ephemerisAccel(sys, id[o], t);
       // the same conics summed in another order and with another power: a few roundings
-    expect(dist(f.frameAcceleration(t, out), want)).toBeLessThanOrEqual(1e-14 * Math.hypot(want[0], want[1], want[2]));
+      expect(dist(f.frameAcceleration(t, out), want)).toBeLessThanOrEqual(1e-14 * Math.hypot(want[0], want[1], want[2]));
     }
     // the star's acceleration is minus a_S at the star's own position less its own pull: Σ μ_k R_k/|R_k|³
     const p = [0, 0, 0];
@@ -201,7 +214,10 @@ describe('ShipForces: two-body mode and thrust', () => {
 
   it('thrust with the mass falling linearly matches the rocket equation in free space (Tsiolkovsky, analytic), along a fixed direction and along the velocity (VNB [1, 0, 0])', () => {
     // x(t) = x0 + v0 t + û c [t − (m/ṁ) ln(m0/m)], v(t) = v0 + û c ln(m0/m), m = m0 − ṁ t
-    const F = 2e4, c = 3200, m0 = 5000, dur = 400;
+    const F = 2e4,
+      c = 3200,
+      m0 = 5000,
+      dur = 400;
     const mdot = F / c;
     const m = m0 - mdot * dur;
     const v0 = [0, 0, 0];

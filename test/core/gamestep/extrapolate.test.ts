@@ -5,7 +5,7 @@ import { elementsToState } from '../../../core/orbit/elements.ts';
 import { demoPlan } from '../../fixtures/demoPlan.ts';
 import { demoSystem, MU_EARTH, plan, stateStart, testSystem } from '../plan/helpers.ts';
 
-describe('extrapolating a long coast by step scaling (Richardson\'s reasoning; Hairer, Nørsett & Wanner, Solving ODEs I, 2nd ed., §II.9)', () => {
+describe("extrapolating a long coast by step scaling (Richardson's reasoning; Hairer, Nørsett & Wanner, Solving ODEs I, 2nd ed., §II.9)", () => {
   it('three orbits of an eccentric Kepler orbit: Verlet extrapolated at its measured order 2 reproduces flying them whole', () => {
     const system = testSystem();
     const a = 8750e3;

@@ -23,7 +23,12 @@ describe('game-step fits', () => {
 
   it('trend slope of a straight line is its slope (analytic)', () => {
     const t = [0, 1, 2, 3, 4];
-    expect(trendSlope(t, t.map((x) => 2 - 0.5 * x))).toBeCloseTo(-0.5, 14);
+    expect(
+      trendSlope(
+        t,
+        t.map((x) => 2 - 0.5 * x),
+      ),
+    ).toBeCloseTo(-0.5, 14);
   });
 
   it('drift per orbit removes a periodic part at the orbital period (analytic)', () => {

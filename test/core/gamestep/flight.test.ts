@@ -16,7 +16,17 @@ const V0 = R0 * N_MEAN;
 const PERIOD = (2 * Math.PI) / N_MEAN;
 
 function setup(over: Partial<GameFlightSetup> = {}): GameFlightSetup {
-  return { system, gravity: 'central', integrator: 'verlet', precision: 'float64', rebase: null, burnModel: 'impulsive', burns: [], guidance: 'open-loop', ...over };
+  return {
+    system,
+    gravity: 'central',
+    integrator: 'verlet',
+    precision: 'float64',
+    rebase: null,
+    burnModel: 'impulsive',
+    burns: [],
+    guidance: 'open-loop',
+    ...over,
+  };
 }
 
 /** Absolute (star-frame) state from a state relative to body c at time t. */
@@ -26,7 +36,23 @@ function abs(rel: number[], t = 0, c = TERRA): Float64Array {
 }
 
 function burn(t: number, dv: [number, number, number], over: Partial<GameBurn> = {}): GameBurn {
-  return { id: 'b', name: 'b', t, tStart: t, duration: 0, dv, dvMag: Math.hypot(...dv), mass0: 1, mass1: 1, mdot: 0, thrust: 0, event: null, central: TERRA, fraction: 1, ...over };
+  return {
+    id: 'b',
+    name: 'b',
+    t,
+    tStart: t,
+    duration: 0,
+    dv,
+    dvMag: Math.hypot(...dv),
+    mass0: 1,
+    mass1: 1,
+    mdot: 0,
+    thrust: 0,
+    event: null,
+    central: TERRA,
+    fraction: 1,
+    ...over,
+  };
 }
 
 const circle = [R0, 0, 0, 0, V0, 0];

@@ -53,7 +53,7 @@ describe('burn Δv as the game obtains it', () => {
     expect(out).toEqual([1, 2, 3]);
   });
 
-  it('resolve: a prograde VNB burn points along the velocity of the game\'s own state (analytic circular orbit)', () => {
+  it("resolve: a prograde VNB burn points along the velocity of the game's own state (analytic circular orbit)", () => {
     const out = new Float64Array(3);
     const theta = 0.3;
     expect(burnDv(system, burn({ event: prograde }), 'resolve', 1000, circular(theta, 1000), false, out)).toBe(true);

@@ -51,13 +51,21 @@ describe('game-step kernel', () => {
     const K = kernelFor('float64');
     const c = new GameCraft(noRound);
     const order = treeOrder(sys);
-    const acc = K.bodiesGravity(c, sys.bodies.map((b) => b.mu), (t, out) => absolutePositions(sys, order, t, out));
+    const acc = K.bodiesGravity(
+      c,
+      sys.bodies.map((b) => b.mu),
+      (t, out) => absolutePositions(sys, order, t, out),
+    );
     const f = new ShipForces(sys); // origin: the star
     const got = new Float64Array(3);
     const want = new Float64Array(3);
     const t = 14.2e6;
     const T = bodyPosition(sys, sys.indexById.tessel, t, [0, 0, 0], 0);
-    for (const X of [[1.3e11, 4e10, -2e9], [T[0] + 2e7, T[1] - 1e7, T[2] + 3e6], [-6e11, 2e11, 1e10]]) {
+    for (const X of [
+      [1.3e11, 4e10, -2e9],
+      [T[0] + 2e7, T[1] - 1e7, T[2] + 3e6],
+      [-6e11, 2e11, 1e10],
+    ]) {
       acc(t, X[0], X[1], X[2], got);
       f.accel(t, Float64Array.from(X), new Float64Array(3), want);
       // the same terms summed in another grouping: a few roundings. Without the indirect term the

@@ -46,7 +46,12 @@ describe("the game-step reference with 'all' gravity flies the ship force model"
     const abs = Float64Array.from([0, 1, 2, 3, 4, 5], (i) => (i < 3 ? at.x[i] : at.v[i - 3]) + b[i]);
     const tEnd = tExit + 5.9 * DAY;
     const ref = new ReferenceTrack(sys, flyReference(prep.settings, tExit, abs, 0, tEnd, true));
-    const n = flyNBody(model, at, actions.filter((a) => a.t >= tExit), tEnd).state;
+    const n = flyNBody(
+      model,
+      at,
+      actions.filter((a) => a.t >= tExit),
+      tEnd,
+    ).state;
     // measured 0.2 mm; without the star's indirect term in the reference they parted by 26 km
     // (½·Σμ_k/R_k²·t², Moravel's 1.6e-7 m/s² the most of it)
     expect(gap(ref, n)).toBeLessThan(0.01);

@@ -33,7 +33,8 @@ export function oscillatorMap(method: FixedMethod, omega: number, h: number): nu
     const r = integrateFixed(method, accel, 0, [x, 0, 0], [v, 0, 0], { h, steps: 1 });
     return [r.x[0], r.v[0]];
   };
-  const c1 = col(1, 0), c2 = col(0, 1);
+  const c1 = col(1, 0),
+    c2 = col(0, 1);
   return [
     [c1[0], c2[0]],
     [c1[1], c2[1]],

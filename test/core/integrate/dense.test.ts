@@ -73,7 +73,8 @@ describe('DenseOutput Hermite steps', () => {
     const d = new DenseOutput(1, 0, 1); // capacity 1: exercises growth
     const knots = [0, 0.7, 1.1, 2.5, 4];
     for (let k = 0; k + 1 < knots.length; k++) {
-      const a = knots[k], b = knots[k + 1];
+      const a = knots[k],
+        b = knots[k + 1];
       d.appendHermite(a, b - a, [p(a)], [dp(a)], [p(b)], [dp(b)]);
     }
     expect(d.steps).toBe(4);

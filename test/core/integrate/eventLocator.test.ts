@@ -43,9 +43,10 @@ describe('event location on the dense output', () => {
 
   it('direction filter: rising only → periapses, falling only → apoapses, both → 2N alternating', () => {
     const N = 4;
-    const run = (direction: 1 | -1 | 0) =>
-      rk45(f, 0, stateAt(O, 0), N * P, { rtol: TOL, atol: TOL, events: [{ g: radialRate, direction }] }).events;
-    const up = run(1), down = run(-1), both = run(0);
+    const run = (direction: 1 | -1 | 0) => rk45(f, 0, stateAt(O, 0), N * P, { rtol: TOL, atol: TOL, events: [{ g: radialRate, direction }] }).events;
+    const up = run(1),
+      down = run(-1),
+      both = run(0);
     expect(up).toHaveLength(N);
     expect(down).toHaveLength(N);
     expect(both).toHaveLength(2 * N);
@@ -118,7 +119,9 @@ describe('event location on the dense output', () => {
     const last = r.events[r.events.length - 1];
     expect(last.name).toBe('periapsis');
     expect(r.events.slice(0, -1).every((h) => h.name === 'plane' && h.t < tp)).toBe(true);
-    const planes = xzCrossingAnomalies(O).flatMap((nu) => [timeOfTrueAnomaly(O, nu, 0), timeOfTrueAnomaly(O, nu, 0) + P]).filter((t) => t < tp);
+    const planes = xzCrossingAnomalies(O)
+      .flatMap((nu) => [timeOfTrueAnomaly(O, nu, 0), timeOfTrueAnomaly(O, nu, 0) + P])
+      .filter((t) => t < tp);
     expect(r.events.length - 1).toBe(planes.length);
   });
 
@@ -133,7 +136,15 @@ describe('event location on the dense output', () => {
   });
 
   it('a zero exactly at the start is not an event (g(t0) = 0)', () => {
-    const r = rk45((_t, _y, dy) => { dy[0] = 1; }, 0, [0], 3, { events: [{ g: (_t, y) => Math.sin(Math.PI * y[0]) }] });
+    const r = rk45(
+      (_t, _y, dy) => {
+        dy[0] = 1;
+      },
+      0,
+      [0],
+      3,
+      { events: [{ g: (_t, y) => Math.sin(Math.PI * y[0]) }] },
+    );
     expect(r.events.map((h) => h.t)).toHaveLength(2);
     expectTimeClose(r.events[0].t, 1);
     expectTimeClose(r.events[1].t, 2);

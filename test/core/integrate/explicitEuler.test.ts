@@ -10,7 +10,8 @@ describe('explicit Euler (comparison method)', () => {
   });
 
   it('expands phase-space area on the harmonic oscillator: det of the step map = 1 + ω²h² (analytic)', () => {
-    const w = 2, h = 0.1;
+    const w = 2,
+      h = 0.1;
     const m = oscillatorMap('explicit-euler', w, h);
     expect(m).toEqual([
       [1, h],

@@ -44,7 +44,9 @@ function flyEnergy(method: FixedMethod, orbits: number, windows = 20): EnergyRun
   const perWindow = total / windows;
   const tw: number[] = [];
   const ew: number[] = [];
-  let acc = 0, cnt = 0, amp = 0;
+  let acc = 0,
+    cnt = 0,
+    amp = 0;
   const r = integrateFixed(method, twoBodyAccel(MU_SMALL), 0, s0.subarray(0, 3), s0.subarray(3), {
     h: H,
     steps: total,
@@ -79,7 +81,8 @@ describe('energy behaviour on a Kepler orbit at 60 Hz (common practice; Hairer, 
       expect(run.amplitude).toBeLessThan(method === 'verlet' ? 1e-4 : 1e-2);
       // Drift over the whole run is a tiny fraction of the bounded oscillation.
       expect(Math.abs(run.drift)).toBeLessThan(0.01 * run.amplitude);
-      const first = run.windowMeans[0], last = run.windowMeans[run.windowMeans.length - 1];
+      const first = run.windowMeans[0],
+        last = run.windowMeans[run.windowMeans.length - 1];
       expect(Math.abs(last - first)).toBeLessThan(0.01 * run.amplitude);
     });
   }
@@ -105,7 +108,8 @@ const P = 2 * Math.PI * Math.sqrt(O.a ** 3 / MU);
 
 describe('integrateFixed interface', () => {
   const s0 = stateAt(O, 0);
-  const x0 = s0.subarray(0, 3), v0 = s0.subarray(3);
+  const x0 = s0.subarray(0, 3),
+    v0 = s0.subarray(3);
   const accel = twoBodyAccel(MU);
 
   it('lands on tEnd exactly with a shortened last step, forward and backward', () => {
@@ -142,7 +146,14 @@ describe('integrateFixed interface', () => {
     expect(r.steps).toBe(7);
     expect(r.t).toBe(7);
     const signal = { aborted: false };
-    const c = integrateFixed('verlet', accel, 0, x0, v0, { h: 1, steps: 100, signal, onStep: (t) => { if (t >= 3) signal.aborted = true; } });
+    const c = integrateFixed('verlet', accel, 0, x0, v0, {
+      h: 1,
+      steps: 100,
+      signal,
+      onStep: (t) => {
+        if (t >= 3) signal.aborted = true;
+      },
+    });
     expect(c.status).toBe('cancelled');
     expect(c.steps).toBe(3);
   });

@@ -24,19 +24,23 @@ describe('spacecraftAccel: point-mass gravity −μ·r/|r|³ (Newton; Vallado, 4
       { mu: 1e20, position: at([0, 0, 0]), name: 'star' },
       { mu: 3e14, position: (t, out) => out.set([1.5e11 + t, 0, 0]), name: 'world' },
     ];
-    const thrust = { accel: (_t: number, _x: Float64Array, _v: Float64Array, out: Float64Array) => {
-      for (let c = 0; c < out.length; c += 3) out[c + 2] += 0.01;
-    } };
+    const thrust = {
+      accel: (_t: number, _x: Float64Array, _v: Float64Array, out: Float64Array) => {
+        for (let c = 0; c < out.length; c += 3) out[c + 2] += 0.01;
+      },
+    };
     const a = spacecraftAccel(sources, thrust);
     const x = Float64Array.from([1.5e11 + 100 + 7e6, 0, 0, 1e11, 1e11, 0]);
     const out = new Float64Array(6);
     a(100, x, new Float64Array(6), out);
     const hand = (px: number, py: number) => {
       const r1 = Math.hypot(px, py);
-      const dx = px - (1.5e11 + 100), r2 = Math.hypot(dx, py);
+      const dx = px - (1.5e11 + 100),
+        r2 = Math.hypot(dx, py);
       return [(-1e20 * px) / r1 ** 3 + (-3e14 * dx) / r2 ** 3, (-1e20 * py) / r1 ** 3 + (-3e14 * py) / r2 ** 3, 0.01];
     };
-    const e1 = hand(1.5e11 + 100 + 7e6, 0), e2 = hand(1e11, 1e11);
+    const e1 = hand(1.5e11 + 100 + 7e6, 0),
+      e2 = hand(1e11, 1e11);
     [...e1, ...e2].forEach((v, i) => expect(out[i]).toBeCloseTo(v, 10));
   });
 
@@ -54,14 +58,18 @@ describe('spacecraftAccel: point-mass gravity −μ·r/|r|³ (Newton; Vallado, 4
   it('conserves the Jacobi integral in the circular restricted three-body problem (Szebehely, Theory of Orbits, 1967, ch. 1, from memory)', () => {
     // Primaries on circular orbits about their barycentre at the origin; E − ω·h_z is constant
     // for the massless craft.
-    const mu1 = 3e14, mu2 = 3.7e12, d = 3.8e8;
+    const mu1 = 3e14,
+      mu2 = 3.7e12,
+      d = 3.8e8;
     const w = Math.sqrt((mu1 + mu2) / d ** 3);
-    const r1 = (d * mu2) / (mu1 + mu2), r2 = (d * mu1) / (mu1 + mu2);
+    const r1 = (d * mu2) / (mu1 + mu2),
+      r2 = (d * mu1) / (mu1 + mu2);
     const sources: GravitySource[] = [
       { mu: mu1, position: (t, o) => o.set([-r1 * Math.cos(w * t), -r1 * Math.sin(w * t), 0]) },
       { mu: mu2, position: (t, o) => o.set([r2 * Math.cos(w * t), r2 * Math.sin(w * t), 0]) },
     ];
-    const p1 = new Float64Array(3), p2 = new Float64Array(3);
+    const p1 = new Float64Array(3),
+      p2 = new Float64Array(3);
     const jacobi = (t: number, y: ArrayLike<number>) => {
       sources[0].position(t, p1);
       sources[1].position(t, p2);
@@ -93,22 +101,32 @@ describe('mutualAccel: N bodies pulling on each other', () => {
   it("Σ μ_i·a_i = 0 (Newton's third law: total momentum is conserved), random configurations (property)", () => {
     fc.assert(
       fc.property(
-        fc.array(fc.tuple(fc.double({ min: 1e10, max: 1e20, noNaN: true }), fc.double({ min: -1e11, max: 1e11, noNaN: true }), fc.double({ min: -1e11, max: 1e11, noNaN: true }), fc.double({ min: -1e10, max: 1e10, noNaN: true })), { minLength: 2, maxLength: 8 }),
+        fc.array(
+          fc.tuple(
+            fc.double({ min: 1e10, max: 1e20, noNaN: true }),
+            fc.double({ min: -1e11, max: 1e11, noNaN: true }),
+            fc.double({ min: -1e11, max: 1e11, noNaN: true }),
+            fc.double({ min: -1e10, max: 1e10, noNaN: true }),
+          ),
+          { minLength: 2, maxLength: 8 },
+        ),
         (bodies) => {
           const mus = bodies.map((b) => b[0]);
           const x = Float64Array.from(bodies.flatMap((b) => [b[1], b[2], b[3]]));
           // Distinct positions only (coincident point masses have no finite force).
-          for (let i = 0; i < mus.length; i++) for (let j = i + 1; j < mus.length; j++) {
-            fc.pre(Math.hypot(x[3 * i] - x[3 * j], x[3 * i + 1] - x[3 * j + 1], x[3 * i + 2] - x[3 * j + 2]) > 1e6);
-          }
+          for (let i = 0; i < mus.length; i++)
+            for (let j = i + 1; j < mus.length; j++) {
+              fc.pre(Math.hypot(x[3 * i] - x[3 * j], x[3 * i + 1] - x[3 * j + 1], x[3 * i + 2] - x[3 * j + 2]) > 1e6);
+            }
           const out = new Float64Array(x.length);
           mutualAccel(mus)(0, x, new Float64Array(x.length), out);
           let scale = 0;
           const p = [0, 0, 0];
-          for (let i = 0; i < mus.length; i++) for (let k = 0; k < 3; k++) {
-            p[k] += mus[i] * out[3 * i + k];
-            scale = Math.max(scale, Math.abs(mus[i] * out[3 * i + k]));
-          }
+          for (let i = 0; i < mus.length; i++)
+            for (let k = 0; k < 3; k++) {
+              p[k] += mus[i] * out[3 * i + k];
+              scale = Math.max(scale, Math.abs(mus[i] * out[3 * i + k]));
+            }
           for (let k = 0; k < 3; k++) expect(Math.abs(p[k])).toBeLessThanOrEqual(1e-12 * scale * mus.length);
         },
       ),
@@ -117,11 +135,13 @@ describe('mutualAccel: N bodies pulling on each other', () => {
   });
 
   it('two bodies: the separation follows the Kepler orbit with μ1 + μ2 and the barycentre moves uniformly (analytic)', () => {
-    const mu1 = 3.0e14, mu2 = 1.0e14;
+    const mu1 = 3.0e14,
+      mu2 = 1.0e14;
     const rel: Ellipse = { mu: mu1 + mu2, a: 2.0e7, e: 0.4, i: 0.3, raan: 0.2, argp: 1.1, M0: 0.5 };
     const s = stateAt(rel, 0);
     const vb = [10, -20, 5];
-    const f2 = mu2 / (mu1 + mu2), f1 = mu1 / (mu1 + mu2);
+    const f2 = mu2 / (mu1 + mu2),
+      f1 = mu1 / (mu1 + mu2);
     const x0 = [-f2 * s[0], -f2 * s[1], -f2 * s[2], f1 * s[0], f1 * s[1], f1 * s[2]];
     const v0 = [vb[0] - f2 * s[3], vb[1] - f2 * s[4], vb[2] - f2 * s[5], vb[0] + f1 * s[3], vb[1] + f1 * s[4], vb[2] + f1 * s[5]];
     const T = 2 * period(rel);

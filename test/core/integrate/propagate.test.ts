@@ -34,7 +34,8 @@ describe('propagate: the front door picks the integrator and records why', () =>
 
   it("a long coast (2400 revolutions > 500) is flown by a symplectic method, reason 'long coast: 2400 revolutions > 500'", () => {
     // Small orbit (period 10 s) so 2400 revolutions at the default 1000 steps per revolution stay quick.
-    const a = 100, Ps = 10;
+    const a = 100,
+      Ps = 10;
     const mu = (4 * Math.PI ** 2 * a ** 3) / Ps ** 2;
     const o: Ellipse = { mu, a, e: 0.2, i: 0.1, raan: 0, argp: 0.4, M0: 0 };
     const s = stateAt(o, 0);

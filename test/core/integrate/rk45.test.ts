@@ -14,8 +14,10 @@ const TOLS = [1e-6, 1e-9, 1e-12];
 /** Circular orbit of radius a, inclined by inc about x: exact solution r(t) = R_x(inc)·a(cos nt, sin nt, 0). */
 function circular(a: number, inc: number, t: number): Float64Array {
   const n = Math.sqrt(MU / a ** 3);
-  const c = Math.cos(n * t), s = Math.sin(n * t);
-  const ci = Math.cos(inc), si = Math.sin(inc);
+  const c = Math.cos(n * t),
+    s = Math.sin(n * t);
+  const ci = Math.cos(inc),
+    si = Math.sin(inc);
   const v = a * n;
   return Float64Array.from([a * c, a * s * ci, a * s * si, -v * s, v * c * ci, v * c * si]);
 }
@@ -27,7 +29,8 @@ function velError(a: ArrayLike<number>, b: ArrayLike<number>): number {
 describe('rk45 against the analytic two-body solution', () => {
   for (const tol of TOLS) {
     it(`circular orbit, 3 revolutions, rtol ${tol}: matches the exact rotation at mean motion (analytic)`, () => {
-      const a = 7.0e6, inc = 0.9;
+      const a = 7.0e6,
+        inc = 0.9;
       const T = 3 * 2 * Math.PI * Math.sqrt(a ** 3 / MU);
       const r = rk45(twoBodyOde(MU), 0, circular(a, inc, 0), T, { rtol: tol, atol: tol });
       expect(r.status).toBe('done');
@@ -159,18 +162,39 @@ describe('rk45 bookkeeping and failure modes', () => {
   });
 
   it('respects maxStep', () => {
-    let tPrev = 0, widest = 0;
+    let tPrev = 0,
+      widest = 0;
     const f = (_t: number, y: Float64Array, dy: Float64Array) => {
       dy[0] = -y[0];
     };
-    const r = rk45(f, 0, [1], 10, { maxStep: 0.5, rtol: 1e-3, events: [{ g: (t) => { widest = Math.max(widest, t - tPrev); tPrev = t; return 1; } }] });
+    const r = rk45(f, 0, [1], 10, {
+      maxStep: 0.5,
+      rtol: 1e-3,
+      events: [
+        {
+          g: (t) => {
+            widest = Math.max(widest, t - tPrev);
+            tPrev = t;
+            return 1;
+          },
+        },
+      ],
+    });
     expect(r.status).toBe('done');
     expect(widest).toBeLessThanOrEqual(0.5 + 1e-12);
     expect(r.stats.accepted).toBeGreaterThanOrEqual(20);
   });
 
   it("y' = -y: exp(-t) (analytic), scalar problem", () => {
-    const r = rk45((_t, y, dy) => { dy[0] = -y[0]; }, 0, [1], 5, { rtol: 1e-10, atol: 1e-14 });
+    const r = rk45(
+      (_t, y, dy) => {
+        dy[0] = -y[0];
+      },
+      0,
+      [1],
+      5,
+      { rtol: 1e-10, atol: 1e-14 },
+    );
     expect(Math.abs(r.y[0] - Math.exp(-5)) / Math.exp(-5)).toBeLessThan(1e-8);
   });
 
@@ -213,9 +237,17 @@ describe('rk45 bookkeeping and failure modes', () => {
   });
 
   it('throws SolverError non-finite when an event function returns NaN', () => {
-    expect(() => rk45((_t, _y, dy) => { dy[0] = 1; }, 0, [0], 1, { events: [{ g: (t) => (t > 0.5 ? NaN : -1), name: 'bad' }] })).toThrow(
-      /event function "bad" returned NaN/,
-    );
+    expect(() =>
+      rk45(
+        (_t, _y, dy) => {
+          dy[0] = 1;
+        },
+        0,
+        [0],
+        1,
+        { events: [{ g: (t) => (t > 0.5 ? NaN : -1), name: 'bad' }] },
+      ),
+    ).toThrow(/event function "bad" returned NaN/);
   });
 
   it('cooperative cancellation stops between steps', () => {

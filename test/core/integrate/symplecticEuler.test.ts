@@ -18,7 +18,10 @@ describe('semi-implicit (symplectic) Euler', () => {
     };
     const h = 1 / 60;
     const r = integrateFixed('symplectic-euler', accel, 0, [1, 0, 0], [0, 1, 0], { h, steps: 120 });
-    let x0 = 1, x1 = 0, v0 = 0, v1 = 1;
+    let x0 = 1,
+      x1 = 0,
+      v0 = 0,
+      v1 = 1;
     for (let k = 0; k < 120; k++) {
       v0 += -x0 * 4 * h;
       v1 += (-x1 * 4 - 0.5) * h;
@@ -29,7 +32,8 @@ describe('semi-implicit (symplectic) Euler', () => {
   });
 
   it('preserves phase-space area on the harmonic oscillator: det of the step map = 1 (analytic: [[1−ω²h², h], [−ω²h, 1]])', () => {
-    const w = 2, h = 0.1;
+    const w = 2,
+      h = 0.1;
     const m = oscillatorMap('symplectic-euler', w, h);
     expect(m[0][0]).toBeCloseTo(1 - w * w * h * h, 14);
     expect(m[0][1]).toBeCloseTo(h, 14);

@@ -39,9 +39,12 @@ export function solveKepler(M: number, e: number): number {
 
 /** Perifocal → inertial rotation matrix (rows). */
 function rotation(o: Ellipse): number[][] {
-  const cO = Math.cos(o.raan), sO = Math.sin(o.raan);
-  const ci = Math.cos(o.i), si = Math.sin(o.i);
-  const cw = Math.cos(o.argp), sw = Math.sin(o.argp);
+  const cO = Math.cos(o.raan),
+    sO = Math.sin(o.raan);
+  const ci = Math.cos(o.i),
+    si = Math.sin(o.i);
+  const cw = Math.cos(o.argp),
+    sw = Math.sin(o.argp);
   return [
     [cO * cw - sO * sw * ci, -cO * sw - sO * cw * ci, sO * si],
     [sO * cw + cO * sw * ci, -sO * sw + cO * cw * ci, -cO * si],
@@ -53,7 +56,8 @@ function rotation(o: Ellipse): number[][] {
 export function stateAt(o: Ellipse, t: number): Float64Array {
   const nm = meanMotion(o);
   const E = solveKepler(o.M0 + nm * t, o.e);
-  const cE = Math.cos(E), sE = Math.sin(E);
+  const cE = Math.cos(E),
+    sE = Math.sin(E);
   const b = o.a * Math.sqrt(1 - o.e * o.e);
   const px = o.a * (cE - o.e);
   const py = b * sE;
@@ -84,7 +88,9 @@ export function timeOfTrueAnomaly(o: Ellipse, nu: number, tAfter: number): numbe
 /** Two-body derivative y = [r, v] → [v, −μ r/|r|³]. */
 export function twoBodyOde(mu: number) {
   return (_t: number, y: Float64Array, dy: Float64Array): void => {
-    const x = y[0], yy = y[1], z = y[2];
+    const x = y[0],
+      yy = y[1],
+      z = y[2];
     const r2 = x * x + yy * yy + z * z;
     const k = -mu / (r2 * Math.sqrt(r2));
     dy[0] = y[3];
@@ -119,13 +125,16 @@ export function posError(a: ArrayLike<number>, b: ArrayLike<number>): number {
 /** Least-squares slope of y against x. */
 export function slope(x: ArrayLike<number>, y: ArrayLike<number>): number {
   const n = x.length;
-  let sx = 0, sy = 0;
+  let sx = 0,
+    sy = 0;
   for (let i = 0; i < n; i++) {
     sx += x[i];
     sy += y[i];
   }
-  const mx = sx / n, my = sy / n;
-  let sxy = 0, sxx = 0;
+  const mx = sx / n,
+    my = sy / n;
+  let sxy = 0,
+    sxx = 0;
   for (let i = 0; i < n; i++) {
     sxy += (x[i] - mx) * (y[i] - my);
     sxx += (x[i] - mx) ** 2;

@@ -19,7 +19,9 @@ describe('velocity Verlet / leapfrog', () => {
   });
 
   it('step map on the harmonic oscillator has det 1 and matches the Störmer–Verlet matrix (analytic)', () => {
-    const w = 2, h = 0.1, q = (w * h) ** 2;
+    const w = 2,
+      h = 0.1,
+      q = (w * h) ** 2;
     const m = oscillatorMap('verlet', w, h);
     // x1 = (1 − q/2)x0 + h v0; v1 = −ω²h(1 − q/4)x0 + (1 − q/2)v0
     expect(m[0][0]).toBeCloseTo(1 - q / 2, 14);

@@ -14,9 +14,18 @@ describe('CSV (RFC 4180)', () => {
   });
 
   it('parseCsv reads the RFC 4180 forms back', () => {
-    expect(parseCsv('aaa,bbb,ccc\r\nzzz,yyy,xxx\r\n')).toEqual([['aaa', 'bbb', 'ccc'], ['zzz', 'yyy', 'xxx']]);
-    expect(parseCsv('"aaa","b\r\nbb","ccc"\r\nzzz,yyy,xxx')).toEqual([['aaa', 'b\r\nbb', 'ccc'], ['zzz', 'yyy', 'xxx']]);
-    expect(parseCsv('"aaa","b""bb","ccc"\n,,\n')).toEqual([['aaa', 'b"bb', 'ccc'], ['', '', '']]);
+    expect(parseCsv('aaa,bbb,ccc\r\nzzz,yyy,xxx\r\n')).toEqual([
+      ['aaa', 'bbb', 'ccc'],
+      ['zzz', 'yyy', 'xxx'],
+    ]);
+    expect(parseCsv('"aaa","b\r\nbb","ccc"\r\nzzz,yyy,xxx')).toEqual([
+      ['aaa', 'b\r\nbb', 'ccc'],
+      ['zzz', 'yyy', 'xxx'],
+    ]);
+    expect(parseCsv('"aaa","b""bb","ccc"\n,,\n')).toEqual([
+      ['aaa', 'b"bb', 'ccc'],
+      ['', '', ''],
+    ]);
     expect(() => parseCsv('"open')).toThrow(/unclosed/);
   });
 

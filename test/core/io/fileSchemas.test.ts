@@ -103,7 +103,13 @@ describe('every declared field is written and read back', () => {
       expect(serializePlanFile(back.plan, back.system)).toBe(text);
     });
     // "$schema" is read and not written back; the embedded system has its own schema (below).
-    expect(unusedProperties('plan.schema.json', texts.map((t) => JSON.parse(t)), ['#/properties/$schema'])).toEqual([]);
+    expect(
+      unusedProperties(
+        'plan.schema.json',
+        texts.map((t) => JSON.parse(t)),
+        ['#/properties/$schema'],
+      ),
+    ).toEqual([]);
   });
 
   it('system file: the demo system and a variant (masses instead of mu, an explicit calendar) cover the schema and round-trip', () => {
@@ -117,7 +123,13 @@ describe('every declared field is written and read back', () => {
     const variantText = serializeSystemFile(parseSystemFile(JSON.stringify(variant)).system);
     for (const text of [demo, variantText]) expect(serializeSystemFile(parseSystemFile(text).system)).toBe(text);
     expect(JSON.parse(variantText).star.mass_kg).toBeDefined();
-    expect(unusedProperties('system.schema.json', [demo, variantText].map((t) => JSON.parse(t)), ['#/properties/$schema'])).toEqual([]);
+    expect(
+      unusedProperties(
+        'system.schema.json',
+        [demo, variantText].map((t) => JSON.parse(t)),
+        ['#/properties/$schema'],
+      ),
+    ).toEqual([]);
   });
 
   it('the coverage walk notices a field no written file uses', () => {

@@ -50,7 +50,9 @@ describe('version migration', () => {
     expect(issue(() => migrateDocument('thing file', { size: 1 }, 3, table))).toBe('version: is required');
     expect(issue(() => migrateDocument('thing file', { version: '2' }, 3, table))).toBe('version: must be an integer (got "2")');
     expect(issue(() => migrateDocument('thing file', { version: 2.5 }, 3, table))).toBe('version: must be an integer (got 2.5)');
-    expect(issue(() => migrateDocument('thing file', { version: 4 }, 3, table))).toBe('version: is 4, newer than this program reads (up to 3); use a newer Waymark');
+    expect(issue(() => migrateDocument('thing file', { version: 4 }, 3, table))).toBe(
+      'version: is 4, newer than this program reads (up to 3); use a newer Waymark',
+    );
     expect(issue(() => migrateDocument('thing file', { version: 0 }, 3, table))).toBe('version: is 0, which this program cannot read or migrate (it reads 3)');
   });
 });

@@ -89,7 +89,9 @@ describe('writeOem: structure per CCSDS 502.0-B-2 (header, metadata blocks, data
   it('data lines: an epoch and six numbers in km and km/s with the documented decimals', () => {
     const data = lines.filter((l) => /^\d{4}-\d{2}-\d{2}T/.test(l));
     expect(data.length).toBe(eph.spans.reduce((n, s) => n + s.t.length, 0));
-    const re = new RegExp(`^\\d{4}-\\d{2}-\\d{2}T\\d{2}:\\d{2}:\\d{2}\\.\\d{6}( -?\\d+\\.\\d{${OEM_DIGITS.position}}){3}( -?\\d+\\.\\d{${OEM_DIGITS.velocity}}){3}$`);
+    const re = new RegExp(
+      `^\\d{4}-\\d{2}-\\d{2}T\\d{2}:\\d{2}:\\d{2}\\.\\d{6}( -?\\d+\\.\\d{${OEM_DIGITS.position}}){3}( -?\\d+\\.\\d{${OEM_DIGITS.velocity}}){3}$`,
+    );
     for (const l of data) expect(l).toMatch(re);
     // The first state is the circular parking orbit: x = R0 = 6300 km, vy = √(μ/R0).
     const first = data[0].split(' ');
@@ -183,7 +185,10 @@ describe('parseOem', () => {
   for (const [name, edit, want] of broken) {
     it(`rejects ${name}`, () => {
       const got = issues(edit(example));
-      expect(got.some((g) => want.test(g)), got.join('\n')).toBe(true);
+      expect(
+        got.some((g) => want.test(g)),
+        got.join('\n'),
+      ).toBe(true);
     });
   }
 });

@@ -96,7 +96,12 @@ describe('plan file round trip', () => {
 
   it('keeps -0 and the extreme doubles exactly', () => {
     const p = stateStartPlan();
-    p.start = { ...p.start, kind: 'state', r: [-0, Number.MIN_VALUE, Number.MAX_VALUE / 1e300], v: [5e-324, -1.7976931348623155e-308 * 1e300, 1 / 3] } as Plan['start'];
+    p.start = {
+      ...p.start,
+      kind: 'state',
+      r: [-0, Number.MIN_VALUE, Number.MAX_VALUE / 1e300],
+      v: [5e-324, -1.7976931348623155e-308 * 1e300, 1 / 3],
+    } as Plan['start'];
     const text = serializePlanFile(p, PATH_REF);
     const back = parsePlanFile(text).plan;
     expect(back).toEqual(p);
@@ -113,7 +118,17 @@ describe('plan file round trip', () => {
         const rad = Math.PI / 180;
         p.start = { kind: 'parking', body: 'tessel', epoch: 0, periapsisAltitude: Math.abs(a), e: 0, i: i * rad, raan: raan * rad, argp: 0, nu: nu * rad };
         p.events = [
-          { type: 'burn', id: 'b', name: 'b', t: Math.abs(b), frame: 'inertial', dv: [a, b, c], solve: { kind: 'plane', i: j * rad }, mode: 'impulsive', pointing: 'velocity' },
+          {
+            type: 'burn',
+            id: 'b',
+            name: 'b',
+            t: Math.abs(b),
+            frame: 'inertial',
+            dv: [a, b, c],
+            solve: { kind: 'plane', i: j * rad },
+            mode: 'impulsive',
+            pointing: 'velocity',
+          },
         ];
         p.end = null;
         const text = serializePlanFile(p, PATH_REF);
@@ -192,7 +207,11 @@ const BAD_FILES: { name: string; text: () => string; expected: string[] }[] = [
   },
   { name: 'Δv component not a number', text: () => edited((d) => (d.events[2].dv_mps[0] = 'fast')), expected: ['events[2].dv_mps[0]: must be a number'] },
   { name: 'Δv with two components', text: () => edited((d) => (d.events[2].dv_mps = [1, 2])), expected: ['events[2].dv_mps: must have exactly 3 items'] },
-  { name: 'negative propellant', text: () => edited((d) => (d.vehicle.stages[0].propellant_kg = -1)), expected: ['vehicle.stages[0].propellant_kg: must be >= 0'] },
+  {
+    name: 'negative propellant',
+    text: () => edited((d) => (d.vehicle.stages[0].propellant_kg = -1)),
+    expected: ['vehicle.stages[0].propellant_kg: must be >= 0'],
+  },
   { name: 'zero Isp', text: () => edited((d) => (d.vehicle.stages[1].isp_s = 0)), expected: ['vehicle.stages[1].isp_s: must be > 0'] },
   { name: 'no stages', text: () => edited((d) => (d.vehicle.stages = [])), expected: ['vehicle.stages: must not be empty'] },
   { name: 'missing thrust', text: () => edited((d) => delete d.vehicle.stages[0].thrust_N), expected: ['vehicle.stages[0].thrust_N: is required'] },
@@ -220,43 +239,135 @@ const BAD_FILES: { name: string; text: () => string; expected: string[] }[] = [
   { name: 'burn time as a string', text: () => edited((d) => (d.events[0].t_s = '3.26e7')), expected: ['events[0].t_s: must be a number or null'] },
   { name: 'zero-length coast', text: () => edited((d) => (d.events[12].until.dt_s = 0)), expected: ['events[12].until.dt_s: must be > 0'] },
   { name: 'reserve over 100 %', text: () => edited((d) => (d.reserve.percent = 150)), expected: ['reserve.percent: must be <= 100'] },
-  { name: 'bad event id', text: () => edited((d) => (d.events[3].id = 'Drop Kick')), expected: ['events[3].id: must be a lowercase slug (a-z, 0-9 and single hyphens, starting with a letter)'] },
-  { name: 'number too big for a double', text: () => sampleText().replace('"payload_kg": 1500', '"payload_kg": 1e999'), expected: ['vehicle.payload_kg: is too large'] },
+  {
+    name: 'bad event id',
+    text: () => edited((d) => (d.events[3].id = 'Drop Kick')),
+    expected: ['events[3].id: must be a lowercase slug (a-z, 0-9 and single hyphens, starting with a letter)'],
+  },
+  {
+    name: 'number too big for a double',
+    text: () => sampleText().replace('"payload_kg": 1500', '"payload_kg": 1e999'),
+    expected: ['vehicle.payload_kg: is too large'],
+  },
   {
     name: 'both system forms',
     text: () => edited((d) => (d.system = { path: 'a.json', embedded: {} })),
     expected: ['system: needs exactly one of "path" and "embedded"'],
   },
   { name: 'no system', text: () => edited((d) => delete d.system), expected: ['system: is required'] },
-  { name: 'several problems at once', text: () => edited((d) => { d.vehicle.payload_kg = -5; d.events[2].frame = 'x'; delete d.reserve.percent; }), expected: ['vehicle.payload_kg: must be >= 0', 'events[2].frame: must be one of: "vnb", "rtn", "inertial"', 'reserve.percent: is required'] },
+  {
+    name: 'several problems at once',
+    text: () =>
+      edited((d) => {
+        d.vehicle.payload_kg = -5;
+        d.events[2].frame = 'x';
+        delete d.reserve.percent;
+      }),
+    expected: ['vehicle.payload_kg: must be >= 0', 'events[2].frame: must be one of: "vnb", "rtn", "inertial"', 'reserve.percent: is required'],
+  },
   // Semantic checks (after the schema).
-  { name: 'duplicate event id', text: () => edited((d) => (d.events[5].id = 'cruise-1')), expected: ['events[5].id: must be unique ("cruise-1" is also the id of events[1])'] },
-  { name: 'burn before the start', text: () => edited((d) => (d.events[0].t_s = 1e7)), expected: ['events[0].t_s: must not be earlier than start.epoch_s (32500000 s)'] },
-  { name: 'times out of order', text: () => edited((d) => (d.events[1].until.t_s = 3.255e7)), expected: ['events[1].until.t_s: must not be earlier than events[0].t_s (32600000 s)'] },
-  { name: 'arrival before departure', text: () => edited((d) => (d.events[0].solve.arrive_s = 3.2e7)), expected: ['events[0].solve.arrive_s: must be later than events[0].t_s (32600000 s)'] },
-  { name: 'end before the last event', text: () => edited((d) => (d.end_s = 3.3e7)), expected: ['end_s: must not be earlier than events[1].until.t_s (40000000 s)'] },
-  { name: 'both e and apoapsis in the target', text: () => edited((d) => (d.target.apoapsis_altitude_m = 5e5)), expected: ['target: must give "e" or "apoapsis_altitude_m", not both'] },
-  { name: 'apoapsis below periapsis', text: () => edited((d) => { d.target.e = null; d.target.apoapsis_altitude_m = 1e5; }), expected: ['target.apoapsis_altitude_m: must be >= target.periapsis_altitude_m (400000 m)'] },
-  { name: 'more staging than stages', text: () => edited((d) => d.events.push({ type: 'stage', id: 's2', name: 'x' }, { type: 'stage', id: 's3', name: 'y' })), expected: ['events[14]: drops a stage but none is left (the vehicle has 2 stages)'] },
-  { name: 'vehicle without mass', text: () => edited((d) => { d.vehicle.payload_kg = 0; d.vehicle.stages = [{ name: 'x', dry_kg: 0, propellant_kg: 0, isp_s: 300, thrust_N: 1 }]; }), expected: ['vehicle: must have a total mass > 0 (payload, dry and propellant masses are all 0)'] },
-  { name: 'zero position', text: () => serializePlanFile({ ...stateStartPlan(), start: { kind: 'state', body: 'ilmar', epoch: 0, r: [0, 0, 0], v: [1, 2, 3] } }, PATH_REF), expected: ['start.r_m: must not be the zero vector'] },
+  {
+    name: 'duplicate event id',
+    text: () => edited((d) => (d.events[5].id = 'cruise-1')),
+    expected: ['events[5].id: must be unique ("cruise-1" is also the id of events[1])'],
+  },
+  {
+    name: 'burn before the start',
+    text: () => edited((d) => (d.events[0].t_s = 1e7)),
+    expected: ['events[0].t_s: must not be earlier than start.epoch_s (32500000 s)'],
+  },
+  {
+    name: 'times out of order',
+    text: () => edited((d) => (d.events[1].until.t_s = 3.255e7)),
+    expected: ['events[1].until.t_s: must not be earlier than events[0].t_s (32600000 s)'],
+  },
+  {
+    name: 'arrival before departure',
+    text: () => edited((d) => (d.events[0].solve.arrive_s = 3.2e7)),
+    expected: ['events[0].solve.arrive_s: must be later than events[0].t_s (32600000 s)'],
+  },
+  {
+    name: 'end before the last event',
+    text: () => edited((d) => (d.end_s = 3.3e7)),
+    expected: ['end_s: must not be earlier than events[1].until.t_s (40000000 s)'],
+  },
+  {
+    name: 'both e and apoapsis in the target',
+    text: () => edited((d) => (d.target.apoapsis_altitude_m = 5e5)),
+    expected: ['target: must give "e" or "apoapsis_altitude_m", not both'],
+  },
+  {
+    name: 'apoapsis below periapsis',
+    text: () =>
+      edited((d) => {
+        d.target.e = null;
+        d.target.apoapsis_altitude_m = 1e5;
+      }),
+    expected: ['target.apoapsis_altitude_m: must be >= target.periapsis_altitude_m (400000 m)'],
+  },
+  {
+    name: 'more staging than stages',
+    text: () => edited((d) => d.events.push({ type: 'stage', id: 's2', name: 'x' }, { type: 'stage', id: 's3', name: 'y' })),
+    expected: ['events[14]: drops a stage but none is left (the vehicle has 2 stages)'],
+  },
+  {
+    name: 'vehicle without mass',
+    text: () =>
+      edited((d) => {
+        d.vehicle.payload_kg = 0;
+        d.vehicle.stages = [{ name: 'x', dry_kg: 0, propellant_kg: 0, isp_s: 300, thrust_N: 1 }];
+      }),
+    expected: ['vehicle: must have a total mass > 0 (payload, dry and propellant masses are all 0)'],
+  },
+  {
+    name: 'zero position',
+    text: () => serializePlanFile({ ...stateStartPlan(), start: { kind: 'state', body: 'ilmar', epoch: 0, r: [0, 0, 0], v: [1, 2, 3] } }, PATH_REF),
+    expected: ['start.r_m: must not be the zero vector'],
+  },
   // Embedded system problems come back under system.embedded.
-  { name: 'embedded system with a bad field', text: () => { const d = JSON.parse(serializePlanFile(samplePlan(), { kind: 'embedded', system: ilmar })) as Doc; d.system.embedded.bodies[1].radius_m = -1; return JSON.stringify(d); }, expected: ['system.embedded.bodies[1].radius_m: must be > 0'] },
-  { name: 'embedded system lacks a body the plan names', text: () => { const d = JSON.parse(serializePlanFile(samplePlan(), { kind: 'embedded', system: ilmar })) as Doc; d.target.body = 'nowhere'; return JSON.stringify(d); }, expected: ['target.body: names no body of system "Ilmar" (got "nowhere"; the bodies are: ilmar, kiln, tessel, quill, ochre, moravel, skerry, lough, fennick)'] },
+  {
+    name: 'embedded system with a bad field',
+    text: () => {
+      const d = JSON.parse(serializePlanFile(samplePlan(), { kind: 'embedded', system: ilmar })) as Doc;
+      d.system.embedded.bodies[1].radius_m = -1;
+      return JSON.stringify(d);
+    },
+    expected: ['system.embedded.bodies[1].radius_m: must be > 0'],
+  },
+  {
+    name: 'embedded system lacks a body the plan names',
+    text: () => {
+      const d = JSON.parse(serializePlanFile(samplePlan(), { kind: 'embedded', system: ilmar })) as Doc;
+      d.target.body = 'nowhere';
+      return JSON.stringify(d);
+    },
+    expected: [
+      'target.body: names no body of system "Ilmar" (got "nowhere"; the bodies are: ilmar, kiln, tessel, quill, ochre, moravel, skerry, lough, fennick)',
+    ],
+  },
 ];
 
 describe('plan file: bad files', () => {
   for (const c of BAD_FILES) {
     it(`rejects ${c.name}`, () => {
       const got = errorsOnly(issuesOf(c.text()));
-      for (const want of c.expected) expect(got.some((g) => g.startsWith(want)), `${want}\nin\n${got.join('\n')}`).toBe(true);
+      for (const want of c.expected)
+        expect(
+          got.some((g) => g.startsWith(want)),
+          `${want}\nin\n${got.join('\n')}`,
+        ).toBe(true);
       expect(got.length).toBe(c.expected.length);
     });
   }
 
   it('the error message lists every issue with its path', () => {
     try {
-      parsePlanFile(edited((d) => { d.vehicle.payload_kg = -5; d.events[2].dv_mps[0] = 'x'; }));
+      parsePlanFile(
+        edited((d) => {
+          d.vehicle.payload_kg = -5;
+          d.events[2].dv_mps[0] = 'x';
+        }),
+      );
       expect.unreachable();
     } catch (e) {
       expect((e as Error).message).toBe('plan file: 2 problems\n  vehicle.payload_kg must be >= 0\n  events[2].dv_mps[0] must be a number');

@@ -15,9 +15,7 @@ import { propagateKepler } from '../../../core/orbit/kepler.ts';
 import { bodyState } from '../../../core/system/ephemeris.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 
-export const ilmar: StarSystem = parseSystemFile(
-  readFileSync(new URL('../../../assets/systems/ilmar.system.json', import.meta.url), 'utf8'),
-).system;
+export const ilmar: StarSystem = parseSystemFile(readFileSync(new URL('../../../assets/systems/ilmar.system.json', import.meta.url), 'utf8')).system;
 export const TESSEL = ilmar.indexById.tessel;
 export const R0 = 6.3e6;
 export const ACC = [0.02, 0.05, -0.01] as const;
@@ -44,13 +42,15 @@ export function syntheticResult(): PlanResult {
   // Circular orbit: at t, r = R0 (cos nt, sin nt, 0).
   const s0 = [R0, 0, 0, 0, vc, 0];
   const tb = 4000;
-  const c = Math.cos(n * tb), s = Math.sin(n * tb);
+  const c = Math.cos(n * tb),
+    s = Math.sin(n * tb);
   const s1 = [R0 * c, R0 * s, 0, -vc * s * 1.3, vc * c * 1.3, 0];
   const after1 = propagateKepler(mu, s1, 5000);
   const tes = bodyState(ilmar, TESSEL, 9000, new Float64Array(6));
   const s2 = Array.from({ length: 6 }, (_, k) => after1[k] + tes[k]);
   const atBurn = propagateKepler(ilmar.bodies[0].mu, s2, 11000);
-  const T0 = 20000, T1 = 20600;
+  const T0 = 20000,
+    T1 = 20600;
   const sampleT: number[] = [];
   const samples: number[] = [];
   for (let t = T0; t <= T1; t += 100) {

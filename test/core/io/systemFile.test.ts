@@ -2,14 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import schema from '../../../assets/schema/system.schema.json' with { type: 'json' };
 import { ValidationError, type ValidationIssue } from '../../../core/math/errors.ts';
-import {
-  SYSTEM_MIGRATIONS,
-  migrate,
-  parseSystemFile,
-  pointerToPath,
-  serializeSystemFile,
-  type SystemMigration,
-} from '../../../core/io/systemFile.ts';
+import { SYSTEM_MIGRATIONS, migrate, parseSystemFile, pointerToPath, serializeSystemFile, type SystemMigration } from '../../../core/io/systemFile.ts';
 import { demoDocument, demoText } from '../system/fixtures.ts';
 
 type Doc = Record<string, any>;
@@ -83,7 +76,11 @@ const BAD_FILES: { name: string; text: () => string; expected: string[] }[] = [
   },
   { name: 'absurd semi-major axis', text: () => edited((d) => (d.bodies[1].orbit.a_m = 1e300)), expected: ['bodies[1].orbit.a_m: must be <= 1e17'] },
   { name: 'bad colour', text: () => edited((d) => (d.bodies[1].colour = 'blue')), expected: ['bodies[1].colour: must be a colour written #rrggbb'] },
-  { name: 'zero rotation period', text: () => edited((d) => (d.bodies[1].rotation_period_s = 0)), expected: ['bodies[1].rotation_period_s: must be at least 1 s in magnitude (negative for retrograde)'] },
+  {
+    name: 'zero rotation period',
+    text: () => edited((d) => (d.bodies[1].rotation_period_s = 0)),
+    expected: ['bodies[1].rotation_period_s: must be at least 1 s in magnitude (negative for retrograde)'],
+  },
   {
     name: 'calendar with both home and explicit lengths',
     text: () => edited((d) => Object.assign(d.calendar, { year_s: 3e7, day_s: 9e4 })),
@@ -314,7 +311,16 @@ describe('serializeSystemFile', () => {
 
   it('round-trips a file written with other key order and number forms to the same model', () => {
     const d = demoDocument() as unknown as Doc;
-    const shuffled = JSON.stringify({ bodies: d.bodies, star: d.star, calendar: d.calendar, epoch: d.epoch, name: d.name, description: d.description, version: 1, format: d.format });
+    const shuffled = JSON.stringify({
+      bodies: d.bodies,
+      star: d.star,
+      calendar: d.calendar,
+      epoch: d.epoch,
+      name: d.name,
+      description: d.description,
+      version: 1,
+      format: d.format,
+    });
     const a = parseSystemFile(shuffled).system;
     const out = serializeSystemFile(a);
     expect(out.endsWith('}\n')).toBe(true);

@@ -44,7 +44,9 @@ describe('error types', () => {
     expect(e).toBeInstanceOf(WaymarkError);
     expect(e.name).toBe('ValidationError');
     expect(e.message).toBe('system file: 2 problems\n  bodies[3].orbit.e must be < 1\n  (document) is not JSON');
-    expect(new ValidationError('plan file', [{ path: 'version', rule: 'is required', severity: 'error' }]).message).toBe('plan file: 1 problem\n  version is required');
+    expect(new ValidationError('plan file', [{ path: 'version', rule: 'is required', severity: 'error' }]).message).toBe(
+      'plan file: 1 problem\n  version is required',
+    );
   });
 
   it('SolverError carries the solver, the reason and the inputs', () => {

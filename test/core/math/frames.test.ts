@@ -57,13 +57,29 @@ describe('VNB and RTN frames', () => {
     const r1: V3 = [1e7, 2e6, -3e6];
     const v1: V3 = [-1e3, 6e3, 2e3];
     const dv = vnbToInertial(r1, v1, [10, 0, 0]);
-    expectClose(dv, v1.map((x) => (10 * x) / norm(v1)), 1e-12);
+    expectClose(
+      dv,
+      v1.map((x) => (10 * x) / norm(v1)),
+      1e-12,
+    );
     const dr = rtnToInertial(r1, v1, [5, 0, 0]);
-    expectClose(dr, r1.map((x) => (5 * x) / norm(r1)), 1e-12);
+    expectClose(
+      dr,
+      r1.map((x) => (5 * x) / norm(r1)),
+      1e-12,
+    );
     // N is along r × v in both frames
     const h = cross(r1, v1);
-    expectClose(vnbToInertial(r1, v1, [0, 1, 0]), h.map((x) => x / norm(h)), 1e-15);
-    expectClose(rtnToInertial(r1, v1, [0, 0, 1]), h.map((x) => x / norm(h)), 1e-15);
+    expectClose(
+      vnbToInertial(r1, v1, [0, 1, 0]),
+      h.map((x) => x / norm(h)),
+      1e-15,
+    );
+    expectClose(
+      rtnToInertial(r1, v1, [0, 0, 1]),
+      h.map((x) => x / norm(h)),
+      1e-15,
+    );
   });
 
   it('frame matrices are proper rotations and the inverse maps round-trip (property)', () => {
@@ -120,18 +136,24 @@ describe('rotations', () => {
 
   it('perifocalToInertial equals Rz(Ω)·Rx(i)·Rz(ω) composed from the elementary rotations', () => {
     fc.assert(
-      fc.property(fc.double({ min: -7, max: 7, noNaN: true }), fc.double({ min: 0, max: Math.PI, noNaN: true }), fc.double({ min: -7, max: 7, noNaN: true }), (O, i, w) => {
-        const q = perifocalToInertial(O, i, w);
-        const ref = mat3Mul(rotZ(O), mat3Mul(rotX(i), rotZ(w)));
-        expectClose(q, ref, 1e-15);
-        expectRotation(q);
-      }),
+      fc.property(
+        fc.double({ min: -7, max: 7, noNaN: true }),
+        fc.double({ min: 0, max: Math.PI, noNaN: true }),
+        fc.double({ min: -7, max: 7, noNaN: true }),
+        (O, i, w) => {
+          const q = perifocalToInertial(O, i, w);
+          const ref = mat3Mul(rotZ(O), mat3Mul(rotX(i), rotZ(w)));
+          expectClose(q, ref, 1e-15);
+          expectRotation(q);
+        },
+      ),
       { numRuns: 200 },
     );
   });
 
   it('perifocal normal column is the orbit normal (sin i sin Ω, −sin i cos Ω, cos i) (Curtis §4.6)', () => {
-    const O = 0.3, i = 1.1;
+    const O = 0.3,
+      i = 1.1;
     const q = perifocalToInertial(O, i, 0.9);
     expectClose([q[2], q[5], q[8]], [Math.sin(i) * Math.sin(O), -Math.sin(i) * Math.cos(O), Math.cos(i)], 1e-16);
   });

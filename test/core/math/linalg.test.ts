@@ -97,13 +97,19 @@ describe('least squares', () => {
     const n = t.length;
     const tm = t.reduce((a, b) => a + b) / n;
     const ym = y.reduce((a, b) => a + b) / n;
-    let sxy = 0, sxx = 0;
+    let sxy = 0,
+      sxx = 0;
     for (let k = 0; k < n; k++) {
       sxy += (t[k] - tm) * (y[k] - ym);
       sxx += (t[k] - tm) ** 2;
     }
     const slope = sxy / sxx;
-    const c = leastSquares(t.flatMap((x) => [1, x]), y, n, 2);
+    const c = leastSquares(
+      t.flatMap((x) => [1, x]),
+      y,
+      n,
+      2,
+    );
     expect(c[1]).toBeCloseTo(slope, 13);
     expect(c[0]).toBeCloseTo(ym - slope * tm, 13);
   });

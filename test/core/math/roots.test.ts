@@ -64,8 +64,14 @@ describe('brent (root)', () => {
 
 describe('newtonSafe', () => {
   it('solves Kepler’s equation E − 0.9 sin E = 1 to machine precision (residual check)', () => {
-    const e = 0.9, M = 1;
-    const E = newtonSafe((x) => x - e * Math.sin(x) - M, (x) => 1 - e * Math.cos(x), 0, Math.PI);
+    const e = 0.9,
+      M = 1;
+    const E = newtonSafe(
+      (x) => x - e * Math.sin(x) - M,
+      (x) => 1 - e * Math.cos(x),
+      0,
+      Math.PI,
+    );
     expect(Math.abs(E - e * Math.sin(E) - M)).toBeLessThan(4e-16);
   });
 
@@ -76,16 +82,47 @@ describe('newtonSafe', () => {
   });
 
   it('uses the bisection fallback when the derivative vanishes', () => {
-    const x = newtonSafe((t) => t * t * t - 8, (t) => 3 * t * t, 0, 10, { x0: 0 });
+    const x = newtonSafe(
+      (t) => t * t * t - 8,
+      (t) => 3 * t * t,
+      0,
+      10,
+      { x0: 0 },
+    );
     expect(x).toBeCloseTo(2, 13);
   });
 
   it('reports no-bracket and no-convergence', () => {
-    expect(solverError(() => newtonSafe((t) => t * t + 1, (t) => 2 * t, -1, 1)).reason).toBe('no-bracket');
-    const err = solverError(() => newtonSafe((t) => t - 0.3, () => 0, 0, 1, { maxIter: 3, tol: 0 }));
+    expect(
+      solverError(() =>
+        newtonSafe(
+          (t) => t * t + 1,
+          (t) => 2 * t,
+          -1,
+          1,
+        ),
+      ).reason,
+    ).toBe('no-bracket');
+    const err = solverError(() =>
+      newtonSafe(
+        (t) => t - 0.3,
+        () => 0,
+        0,
+        1,
+        { maxIter: 3, tol: 0 },
+      ),
+    );
     expect(err.reason).toBe('no-convergence');
     expect(err.solver).toBe('newton-safe');
-    expect(() => newtonSafe((t) => t, () => 1, -1, 1, { x0: 5 })).toThrow(InputError);
+    expect(() =>
+      newtonSafe(
+        (t) => t,
+        () => 1,
+        -1,
+        1,
+        { x0: 5 },
+      ),
+    ).toThrow(InputError);
   });
 });
 

@@ -140,7 +140,9 @@ describe('correctPlan on the demo plan', () => {
     }
     expect(err).toBeInstanceOf(SolverError);
     expect((err as SolverError).reason).toBe('no-convergence');
-    expect((err as Error).message).toMatch(/^correct: no-convergence: no convergence after 1 iteration: the n-body periapsis at Ochre is off by -?[\d.]+ km in altitude, -?[\d.]+° in inclination and -?[\d.]+ s in time/);
+    expect((err as Error).message).toMatch(
+      /^correct: no-convergence: no convergence after 1 iteration: the n-body periapsis at Ochre is off by -?[\d.]+ km in altitude, -?[\d.]+° in inclination and -?[\d.]+ s in time/,
+    );
   });
 
   it('rejects bad choices with typed errors', () => {

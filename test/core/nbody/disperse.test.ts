@@ -1,6 +1,17 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../../core/math/errors.ts';
-import { disperse, mergeBlocks, perturbBurn, prepareDispersion, quantileSorted, runSamples, SAMPLE_FLOWN, SAMPLE_IMPACT, SAMPLE_NO_ARRIVAL, summarizeDispersion } from '../../../core/nbody/disperse.ts';
+import {
+  disperse,
+  mergeBlocks,
+  perturbBurn,
+  prepareDispersion,
+  quantileSorted,
+  runSamples,
+  SAMPLE_FLOWN,
+  SAMPLE_IMPACT,
+  SAMPLE_NO_ARRIVAL,
+  summarizeDispersion,
+} from '../../../core/nbody/disperse.ts';
 import { demoPlan, heavyDemoPlan } from '../../fixtures/demoPlan.ts';
 import { demoSystem } from '../plan/helpers.ts';
 
@@ -36,7 +47,13 @@ describe('disperse: the error model', () => {
   const N = 2000;
   const sigmaMag = 0.5; // %
   const sigmaPoint = 0.2; // deg
-  const p = prepareDispersion(sys, demoPlan, { samples: N, seed: 11, magnitudeSigma: sigmaMag, pointingSigma: sigmaPoint, perBurn: { trim: { magnitudeSigma: 2 } } });
+  const p = prepareDispersion(sys, demoPlan, {
+    samples: N,
+    seed: 11,
+    magnitudeSigma: sigmaMag,
+    pointingSigma: sigmaPoint,
+    perBurn: { trim: { magnitudeSigma: 2 } },
+  });
   const block = runSamples(p, 0, N);
   const B = p.burns.length;
 
@@ -79,7 +96,9 @@ describe('disperse: the error model', () => {
     expect(quantileSorted([1, 2, 3, 4], 0.5)).toBe(2.5);
     expect(quantileSorted([1, 2, 3, 4, 5], 0.05)).toBeCloseTo(1.2, 12);
     const r = summarizeDispersion(p, block);
-    const sorted = Array.from(block.margin).filter(Number.isFinite).sort((a, b) => a - b);
+    const sorted = Array.from(block.margin)
+      .filter(Number.isFinite)
+      .sort((a, b) => a - b);
     expect(r.margin.p50).toBe(quantileSorted(sorted, 0.5));
     expect(r.margin.p5).toBeLessThanOrEqual(r.margin.p50);
     expect(r.margin.p50).toBeLessThanOrEqual(r.margin.p95);
@@ -116,7 +135,17 @@ describe('disperse: a sample that does not complete its flight fails', () => {
       ...structuredClone(demoPlan),
       target: null,
       events: [
-        { type: 'burn' as const, id: 'drop', name: 'Drop', t: null, frame: 'vnb' as const, dv: [-300, 0, 0] as [number, number, number], solve: { kind: 'fixed' as const }, mode: 'impulsive' as const, pointing: 'velocity' as const },
+        {
+          type: 'burn' as const,
+          id: 'drop',
+          name: 'Drop',
+          t: null,
+          frame: 'vnb' as const,
+          dv: [-300, 0, 0] as [number, number, number],
+          solve: { kind: 'fixed' as const },
+          mode: 'impulsive' as const,
+          pointing: 'velocity' as const,
+        },
         { type: 'coast' as const, id: 'fall', name: 'Fall', until: { kind: 'periapsis' as const } },
       ],
     };

@@ -90,7 +90,10 @@ describe('verifyNBody: the model reduces to two-body motion (analytic Kepler, un
     const vn = Math.hypot(mid[3], mid[4], mid[5]);
     for (let i = 3; i < 6; i++) mid[i] += (25 * mid[i]) / vn;
     const end = propagateKepler(mu, mid, 3 * T);
-    for (const [rtol, bound] of [[undefined, 2e-8], [1e-12, 2e-10]] as const) {
+    for (const [rtol, bound] of [
+      [undefined, 2e-8],
+      [1e-12, 2e-10],
+    ] as const) {
       const v = verifyNBody(sys, p, conic, { gravity: 'two-body', samples: false, rtol });
       expect(v.end.origin).toBe(sys.indexById.tessel);
       const got = [...v.end.x, ...v.end.v];
@@ -106,7 +109,17 @@ describe('verifyNBody: the model reduces to two-body motion (analytic Kepler, un
     const p = clonePlan(demoPlan);
     p.start = { kind: 'state', body: 'tessel', epoch: 2e6, r: [s0[0], s0[1], s0[2]], v: [s0[3], s0[4], s0[5]] };
     p.events = [
-      { type: 'burn', id: 'raise', name: 'raise', t: 2e6 + 1000, frame: 'vnb', dv: [600, 0, 0], solve: { kind: 'fixed' }, mode: 'finite', pointing: 'velocity' },
+      {
+        type: 'burn',
+        id: 'raise',
+        name: 'raise',
+        t: 2e6 + 1000,
+        frame: 'vnb',
+        dv: [600, 0, 0],
+        solve: { kind: 'fixed' },
+        mode: 'finite',
+        pointing: 'velocity',
+      },
       { type: 'coast', id: 'c', name: 'c', until: { kind: 'duration', dt: 4000 } },
     ];
     p.target = null;
@@ -155,7 +168,12 @@ describe('verifyNBody: the full model against an independent integrator', () => 
     expect(res.outcome).toBe(odex.Outcome.Converged);
     const want = [...res.y.slice(0, 3).map((c) => c * L), ...res.y.slice(3, 6).map((c) => c * V)];
     const model = new NBodyModel(sys);
-    const fl = flyNBody(model, { t: t0, origin: 0, x: Float64Array.from(cruise.state0.subarray(0, 3)), v: Float64Array.from(cruise.state0.subarray(3, 6)) }, [], tEnd);
+    const fl = flyNBody(
+      model,
+      { t: t0, origin: 0, x: Float64Array.from(cruise.state0.subarray(0, 3)), v: Float64Array.from(cruise.state0.subarray(3, 6)) },
+      [],
+      tEnd,
+    );
     expect(fl.soiChanges).toEqual([]);
     const got = [...fl.state.x, ...fl.state.v];
     expect(relErr(got, want, 0)).toBeLessThan(1e-9);
@@ -317,4 +335,3 @@ describe('B-plane geometry', () => {
     expect(-Math.cos(theta) * axes.R[2]).toBeCloseTo(Math.cos(0.5), 10);
   });
 });
-

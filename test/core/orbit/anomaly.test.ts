@@ -69,15 +69,19 @@ describe('elliptic Kepler equation', () => {
 
   it('solveEllipticKepler (the unchecked solver the ephemeris calls) solves E − e sin E = M on [−π, π] to rounding level, e = 0 included, with sin E and cos E (property, residual)', () => {
     fc.assert(
-      fc.property(fc.double({ min: -Math.PI, max: Math.PI, noNaN: true }), fc.oneof(fc.constant(0), fc.double({ min: 0, max: 0.999999999, noNaN: true })), (M, e) => {
-        const sc = new Float64Array(2);
-        const E = solveEllipticKepler(M, e, sc);
-        // as for meanToEccentric above: a few ulp of the terms E and e·sin E
-        expect(Math.abs(E - e * Math.sin(E) - M)).toBeLessThanOrEqual(6 * EPS * Math.max(1, Math.abs(M)));
-        // the sine and cosine it hands back are those of E, to rounding (carried across the last step)
-        expect(Math.abs(sc[0] - Math.sin(E))).toBeLessThanOrEqual(4 * EPS);
-        expect(Math.abs(sc[1] - Math.cos(E))).toBeLessThanOrEqual(4 * EPS);
-      }),
+      fc.property(
+        fc.double({ min: -Math.PI, max: Math.PI, noNaN: true }),
+        fc.oneof(fc.constant(0), fc.double({ min: 0, max: 0.999999999, noNaN: true })),
+        (M, e) => {
+          const sc = new Float64Array(2);
+          const E = solveEllipticKepler(M, e, sc);
+          // as for meanToEccentric above: a few ulp of the terms E and e·sin E
+          expect(Math.abs(E - e * Math.sin(E) - M)).toBeLessThanOrEqual(6 * EPS * Math.max(1, Math.abs(M)));
+          // the sine and cosine it hands back are those of E, to rounding (carried across the last step)
+          expect(Math.abs(sc[0] - Math.sin(E))).toBeLessThanOrEqual(4 * EPS);
+          expect(Math.abs(sc[1] - Math.cos(E))).toBeLessThanOrEqual(4 * EPS);
+        },
+      ),
       { numRuns: 2000 },
     );
   });
@@ -89,7 +93,9 @@ describe('elliptic Kepler equation', () => {
       for (const M of [1e-12, 1e-9, 1e-6, 1e-3, 0.1]) {
         const E = meanToEccentric(M, e);
         // M(E) = (1 − e)E + e(E³/3! − E⁵/5! + ...), summed to convergence independently here
-        let series = 0, term = (E * E * E) / 6, k = 3;
+        let series = 0,
+          term = (E * E * E) / 6,
+          k = 3;
         while (Math.abs(term) > 1e-20 * Math.abs(series) || series === 0) {
           series += term;
           term *= (-E * E) / ((k + 1) * (k + 2));
@@ -155,14 +161,18 @@ describe('hyperbolic Kepler equation', () => {
   it('solves e sinh H − H = M (property, relative residual)', () => {
     fc.assert(
       // (subnormal M excluded: H = M/(e − 1) is then quantised to a few multiples of 5e-324)
-      fc.property(fc.double({ min: -1e5, max: 1e5, noNaN: true }).filter((m) => m === 0 || Math.abs(m) > 1e-300), fc.double({ min: 1.000001, max: 50, noNaN: true }), (M, e) => {
-        const H = meanToHyperbolic(M, e);
-        const res = e * Math.sinh(H) - H - M;
-        // rounding H itself (relative ε) moves e·sinh H by e·cosh H·|H|·ε, hence the (1 + |H|)
-        const scale = (1 + Math.abs(H)) * (Math.abs(M) + Math.abs(H) + e * Math.abs(Math.sinh(H)));
-        expect(Math.abs(res)).toBeLessThanOrEqual(8 * EPS * scale + 8 * Number.MIN_VALUE);
-        expect(Math.abs(hyperbolicToMean(H, e) - M)).toBeLessThanOrEqual(8 * EPS * scale + 8 * Number.MIN_VALUE);
-      }),
+      fc.property(
+        fc.double({ min: -1e5, max: 1e5, noNaN: true }).filter((m) => m === 0 || Math.abs(m) > 1e-300),
+        fc.double({ min: 1.000001, max: 50, noNaN: true }),
+        (M, e) => {
+          const H = meanToHyperbolic(M, e);
+          const res = e * Math.sinh(H) - H - M;
+          // rounding H itself (relative ε) moves e·sinh H by e·cosh H·|H|·ε, hence the (1 + |H|)
+          const scale = (1 + Math.abs(H)) * (Math.abs(M) + Math.abs(H) + e * Math.abs(Math.sinh(H)));
+          expect(Math.abs(res)).toBeLessThanOrEqual(8 * EPS * scale + 8 * Number.MIN_VALUE);
+          expect(Math.abs(hyperbolicToMean(H, e) - M)).toBeLessThanOrEqual(8 * EPS * scale + 8 * Number.MIN_VALUE);
+        },
+      ),
       { numRuns: 2000 },
     );
   });
@@ -171,10 +181,14 @@ describe('hyperbolic Kepler equation', () => {
 describe('meanToTrue / trueToMean for every conic', () => {
   it('round-trips ellipse, parabola and hyperbola (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: -30, max: 30, noNaN: true }), fc.oneof(fc.double({ min: 0, max: 0.999, noNaN: true }), fc.constant(1), fc.double({ min: 1.001, max: 10, noNaN: true })), (M, e) => {
-        const nu = meanToTrue(M, e);
-        expect(Math.abs(trueToMean(nu, e) - M)).toBeLessThan(1e-10 * Math.max(1, Math.abs(M)));
-      }),
+      fc.property(
+        fc.double({ min: -30, max: 30, noNaN: true }),
+        fc.oneof(fc.double({ min: 0, max: 0.999, noNaN: true }), fc.constant(1), fc.double({ min: 1.001, max: 10, noNaN: true })),
+        (M, e) => {
+          const nu = meanToTrue(M, e);
+          expect(Math.abs(trueToMean(nu, e) - M)).toBeLessThan(1e-10 * Math.max(1, Math.abs(M)));
+        },
+      ),
       { numRuns: 1000 },
     );
   });
@@ -210,7 +224,8 @@ describe('meanMotion', () => {
     expect(meanMotion(4, -1)).toBe(2);
     expect(meanMotion(8, Infinity, 2)).toBe(1);
     // circular orbit: n·T = 2π with T = 2π√(a³/μ) (Kepler's third law)
-    const a = 7.0e6, mu = 3.986004418e14;
+    const a = 7.0e6,
+      mu = 3.986004418e14;
     expect(meanMotion(mu, a) * 2 * Math.PI * Math.sqrt(a ** 3 / mu)).toBeCloseTo(2 * Math.PI, 13);
   });
 });

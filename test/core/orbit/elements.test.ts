@@ -11,7 +11,10 @@ const MU_VALLADO = 398600.4418e9;
 const TWO_PI = 2 * Math.PI;
 
 const angDiff = (a: number, b: number): number => Math.atan2(Math.sin(a - b), Math.cos(a - b));
-const split = (s: ArrayLike<number>): [number[], number[]] => [[s[0], s[1], s[2]], [s[3], s[4], s[5]]];
+const split = (s: ArrayLike<number>): [number[], number[]] => [
+  [s[0], s[1], s[2]],
+  [s[3], s[4], s[5]],
+];
 
 function fieldOf(f: () => unknown): string {
   try {
@@ -77,7 +80,8 @@ describe('published worked examples', () => {
 
 describe('analytic checks', () => {
   it('a circular equatorial orbit has r = a, v = √(μ/a), e = 0 and ν = true longitude', () => {
-    const mu = 3e14, a = 7e6;
+    const mu = 3e14,
+      a = 7e6;
     const s = elementsToState(mu, { a, e: 0, i: 0, raan: 0, argp: 0, nu: Math.PI / 2 });
     // to rounding: cos of the double nearest π/2 is 6e-17, so x ≈ 4e-10 m; 2ε of a and of v
     const eps = Number.EPSILON;
@@ -91,7 +95,9 @@ describe('analytic checks', () => {
   });
 
   it('periapsis and apoapsis radii are p/(1 ± e) (conic equation)', () => {
-    const mu = 3e14, p = 9e6, e = 0.4;
+    const mu = 3e14,
+      p = 9e6,
+      e = 0.4;
     const peri = elementsToState(mu, { p, e, i: 0.3, raan: 1, argp: 2, nu: 0 });
     const apo = elementsToState(mu, { p, e, i: 0.3, raan: 1, argp: 2, nu: Math.PI });
     expect(Math.hypot(peri[0], peri[1], peri[2]) / (p / (1 + e))).toBeCloseTo(1, 15);
@@ -99,7 +105,8 @@ describe('analytic checks', () => {
   });
 
   it('a parabola (e = 1) needs p and has escape speed everywhere: v² = 2μ/r', () => {
-    const mu = 3e14, p = 1e7;
+    const mu = 3e14,
+      p = 1e7;
     for (const nu of [-2, 0, 1, 2.5]) {
       const s = elementsToState(mu, { p, e: 1, i: 0.2, raan: 0.3, argp: 0.4, nu });
       const r = Math.hypot(s[0], s[1], s[2]);
@@ -119,7 +126,11 @@ describe('analytic checks', () => {
 const angle = fc.double({ min: 0, max: TWO_PI - 1e-9, noNaN: true });
 const incl = fc.double({ min: 1e-5, max: Math.PI - 1e-5, noNaN: true });
 
-function expectElementsClose(got: Elements, want: { a?: number; p: number; e: number; i: number; raan: number; argp: number; nu: number }, angTol: number): void {
+function expectElementsClose(
+  got: Elements,
+  want: { a?: number; p: number; e: number; i: number; raan: number; argp: number; nu: number },
+  angTol: number,
+): void {
   expect(Math.abs(got.p / want.p - 1)).toBeLessThan(1e-12);
   expect(Math.abs(got.e - want.e)).toBeLessThan(1e-12 * Math.max(1, want.e));
   expect(Math.abs(got.i - want.i)).toBeLessThan(1e-12);
@@ -139,30 +150,46 @@ describe('round trips elements → state → elements (property)', () => {
 
   it('ellipses, e ∈ [1e-6, 0.99]', () => {
     fc.assert(
-      fc.property(fc.double({ min: 1e6, max: 1e11, noNaN: true }), fc.double({ min: 1e-6, max: 0.99, noNaN: true }), incl, angle, angle, angle, (a, e, i, raan, argp, nu) => {
-        const s = elementsToState(mu, { a, e, i, raan, argp, nu });
-        const el = stateToElements(mu, ...split(s));
-        // ω and ν alone are conditioned like ε/e (ω + ν stays sharp), Ω like ε/sin i
-        expectElementsClose(el, { p: a * (1 - e * e), e, i, raan, argp, nu }, 1e-12 / Math.min(e, Math.sin(i)));
-        expect(Math.abs(el.a / a - 1)).toBeLessThan(1e-11);
-        expect(el.nu).toBeGreaterThanOrEqual(0);
-        expect(el.nu).toBeLessThan(TWO_PI);
-      }),
+      fc.property(
+        fc.double({ min: 1e6, max: 1e11, noNaN: true }),
+        fc.double({ min: 1e-6, max: 0.99, noNaN: true }),
+        incl,
+        angle,
+        angle,
+        angle,
+        (a, e, i, raan, argp, nu) => {
+          const s = elementsToState(mu, { a, e, i, raan, argp, nu });
+          const el = stateToElements(mu, ...split(s));
+          // ω and ν alone are conditioned like ε/e (ω + ν stays sharp), Ω like ε/sin i
+          expectElementsClose(el, { p: a * (1 - e * e), e, i, raan, argp, nu }, 1e-12 / Math.min(e, Math.sin(i)));
+          expect(Math.abs(el.a / a - 1)).toBeLessThan(1e-11);
+          expect(el.nu).toBeGreaterThanOrEqual(0);
+          expect(el.nu).toBeLessThan(TWO_PI);
+        },
+      ),
       { numRuns: 500 },
     );
   });
 
   it('hyperbolas, e ∈ [1.01, 10], ν inside the asymptotes', () => {
     fc.assert(
-      fc.property(fc.double({ min: 1e6, max: 1e9, noNaN: true }), fc.double({ min: 1.01, max: 10, noNaN: true }), incl, angle, angle, fc.double({ min: -0.98, max: 0.98, noNaN: true }), (p, e, i, raan, argp, f) => {
-        const nu = f * Math.acos(-1 / e);
-        const s = elementsToState(mu, { p, e, i, raan, argp, nu });
-        const el = stateToElements(mu, ...split(s));
-        expectElementsClose(el, { p, e, i, raan, argp, nu }, 1e-11 / Math.sin(i));
-        expect(el.a).toBeLessThan(0);
-        expect(Math.abs(el.a / (p / (1 - e * e)) - 1)).toBeLessThan(1e-11);
-        expect(Math.abs(el.nu)).toBeLessThan(Math.acos(-1 / e));
-      }),
+      fc.property(
+        fc.double({ min: 1e6, max: 1e9, noNaN: true }),
+        fc.double({ min: 1.01, max: 10, noNaN: true }),
+        incl,
+        angle,
+        angle,
+        fc.double({ min: -0.98, max: 0.98, noNaN: true }),
+        (p, e, i, raan, argp, f) => {
+          const nu = f * Math.acos(-1 / e);
+          const s = elementsToState(mu, { p, e, i, raan, argp, nu });
+          const el = stateToElements(mu, ...split(s));
+          expectElementsClose(el, { p, e, i, raan, argp, nu }, 1e-11 / Math.sin(i));
+          expect(el.a).toBeLessThan(0);
+          expect(Math.abs(el.a / (p / (1 - e * e)) - 1)).toBeLessThan(1e-11);
+          expect(Math.abs(el.nu)).toBeLessThan(Math.acos(-1 / e));
+        },
+      ),
       { numRuns: 500 },
     );
   });
@@ -170,23 +197,36 @@ describe('round trips elements → state → elements (property)', () => {
   it('near-circular and near-equatorial orbits reproduce the state (state → elements → state)', () => {
     const small = fc.oneof(fc.constant(0), fc.double({ min: 0, max: 1e-9, noNaN: true }));
     fc.assert(
-      fc.property(fc.double({ min: 1e6, max: 1e9, noNaN: true }), small, fc.oneof(small, small.map((d) => Math.PI - d), incl), angle, angle, angle, (a, e, i, raan, argp, nu) => {
-        const s = elementsToState(mu, { a, e, i, raan, argp, nu });
-        const back = elementsToState(mu, stateToElements(mu, ...split(s)));
-        const r = Math.hypot(s[0], s[1], s[2]);
-        const v = Math.hypot(s[3], s[4], s[5]);
-        for (let k = 0; k < 3; k++) {
-          expect(Math.abs(back[k] - s[k])).toBeLessThan(1e-12 * r);
-          expect(Math.abs(back[k + 3] - s[k + 3])).toBeLessThan(1e-12 * v);
-        }
-      }),
+      fc.property(
+        fc.double({ min: 1e6, max: 1e9, noNaN: true }),
+        small,
+        fc.oneof(
+          small,
+          small.map((d) => Math.PI - d),
+          incl,
+        ),
+        angle,
+        angle,
+        angle,
+        (a, e, i, raan, argp, nu) => {
+          const s = elementsToState(mu, { a, e, i, raan, argp, nu });
+          const back = elementsToState(mu, stateToElements(mu, ...split(s)));
+          const r = Math.hypot(s[0], s[1], s[2]);
+          const v = Math.hypot(s[3], s[4], s[5]);
+          for (let k = 0; k < 3; k++) {
+            expect(Math.abs(back[k] - s[k])).toBeLessThan(1e-12 * r);
+            expect(Math.abs(back[k + 3] - s[k + 3])).toBeLessThan(1e-12 * v);
+          }
+        },
+      ),
       { numRuns: 500 },
     );
   });
 });
 
 describe('singular-case conventions', () => {
-  const mu = 3e14, a = 8e6;
+  const mu = 3e14,
+    a = 8e6;
 
   it('circular inclined: ω = 0 and ν is the argument of latitude ω + ν', () => {
     const el = stateToElements(mu, ...split(elementsToState(mu, { a, e: 0, i: 0.5, raan: 1, argp: 0.7, nu: 0.4 })));

@@ -16,16 +16,13 @@ const MU = 3.0e14; // an invented home world, for the property tests
 type State = number[];
 const rOf = (s: ArrayLike<number>): number => Math.hypot(s[0], s[1], s[2]);
 const vOf = (s: ArrayLike<number>): number => Math.hypot(s[3], s[4], s[5]);
-const energy = (mu: number, s: ArrayLike<number>): number => (vOf(s) ** 2) / 2 - mu / rOf(s);
-const angMom = (s: ArrayLike<number>): number[] => [
-  s[1] * s[5] - s[2] * s[4],
-  s[2] * s[3] - s[0] * s[5],
-  s[0] * s[4] - s[1] * s[3],
-];
+const energy = (mu: number, s: ArrayLike<number>): number => vOf(s) ** 2 / 2 - mu / rOf(s);
+const angMom = (s: ArrayLike<number>): number[] => [s[1] * s[5] - s[2] * s[4], s[2] * s[3] - s[0] * s[5], s[0] * s[4] - s[1] * s[3]];
 
 /** Max relative state difference, positions scaled by |r|, velocities by |v| of `ref`. */
 function relDiff(a: ArrayLike<number>, ref: ArrayLike<number>): number {
-  const r = rOf(ref), v = vOf(ref);
+  const r = rOf(ref),
+    v = vOf(ref);
   let m = 0;
   for (let k = 0; k < 3; k++) m = Math.max(m, Math.abs(a[k] - ref[k]) / r, Math.abs(a[k + 3] - ref[k + 3]) / v);
   return m;
@@ -89,7 +86,9 @@ describe('published worked examples', () => {
 
   it('matches Curtis, 3rd ed., Example 3.6: r0 = 10 000 km, v0 = 10 km/s, θ0 = 30°, Δt = 1 h → χ = 128.51 km^½, θ = 100.04° (from memory)', () => {
     // the book's orbit: h = 95 154 km²/s, e = 1.4682 (solved here from r0, v0, θ0 via energy and the conic equation)
-    const r0 = 10000 * KM, v0 = 10 * KM, th0 = 30 * DEG;
+    const r0 = 10000 * KM,
+      v0 = 10 * KM,
+      th0 = 30 * DEG;
     const a = 1 / (2 / r0 - (v0 * v0) / MU_CURTIS);
     const c = Math.cos(th0);
     const e = (-r0 * c - Math.sqrt(r0 * r0 * c * c - 4 * a * (r0 - a))) / (2 * a);
@@ -126,11 +125,16 @@ describe('analytic checks', () => {
 
   it('an inclined circular orbit turns by n·Δt in its own plane (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: 0, max: Math.PI, noNaN: true }), fc.double({ min: 0, max: 6.28, noNaN: true }), fc.double({ min: -3 * T, max: 3 * T, noNaN: true }), (i, raan, dt) => {
-        const start = elementsToState(MU, { a, e: 0, i, raan, argp: 0, nu: 0 });
-        const want = elementsToState(MU, { a, e: 0, i, raan, argp: 0, nu: (2 * Math.PI * dt) / T });
-        expect(relDiff(propagateKepler(MU, start, dt), want)).toBeLessThan(1e-13);
-      }),
+      fc.property(
+        fc.double({ min: 0, max: Math.PI, noNaN: true }),
+        fc.double({ min: 0, max: 6.28, noNaN: true }),
+        fc.double({ min: -3 * T, max: 3 * T, noNaN: true }),
+        (i, raan, dt) => {
+          const start = elementsToState(MU, { a, e: 0, i, raan, argp: 0, nu: 0 });
+          const want = elementsToState(MU, { a, e: 0, i, raan, argp: 0, nu: (2 * Math.PI * dt) / T });
+          expect(relDiff(propagateKepler(MU, start, dt), want)).toBeLessThan(1e-13);
+        },
+      ),
       { numRuns: 200 },
     );
   });
@@ -260,7 +264,8 @@ describe('propagator properties (fast-check)', () => {
         // energy: relative to the size of its terms (v²/2 and μ/r), which cancel for near-parabolic orbits
         const scale = Math.max(vOf(s) ** 2 / 2, vOf(s1) ** 2 / 2, MU / rOf(s), MU / rOf(s1));
         expect(Math.abs(energy(MU, s1) - E0) / scale).toBeLessThan(1e-12);
-        const h0 = angMom(s), h1 = angMom(s1);
+        const h0 = angMom(s),
+          h1 = angMom(s1);
         const hn = Math.hypot(h0[0], h0[1], h0[2]);
         const hScale = Math.max(rOf(s) * vOf(s), rOf(s1) * vOf(s1));
         for (let k = 0; k < 3; k++) expect(Math.abs(h1[k] - h0[k]) / hScale).toBeLessThan(1e-12);

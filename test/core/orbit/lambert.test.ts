@@ -28,11 +28,7 @@ const MU_EARTH_KM = 398600; // km³/s², Curtis's value
 const MU_EARTH = 3.986004418e14; // m³/s²
 
 const norm = (v: ArrayLike<number>): number => Math.hypot(v[0], v[1], v[2]);
-const cross = (a: ArrayLike<number>, b: ArrayLike<number>): number[] => [
-  a[1] * b[2] - a[2] * b[1],
-  a[2] * b[0] - a[0] * b[2],
-  a[0] * b[1] - a[1] * b[0],
-];
+const cross = (a: ArrayLike<number>, b: ArrayLike<number>): number[] => [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
 const dot = (a: ArrayLike<number>, b: ArrayLike<number>): number => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
 
 /** Relative miss in position and velocity at r2 after flying (r1, v1) for tof with the project's Kepler propagator. */
@@ -93,7 +89,7 @@ describe('solveLambert: published worked examples', () => {
 });
 
 describe('solveLambert: analytic solutions', () => {
-  it('gives a parabola for the parabolic flight time of Euler\'s equation (Battin, An Introduction to the Mathematics and Methods of Astrodynamics, section 4.2)', () => {
+  it("gives a parabola for the parabolic flight time of Euler's equation (Battin, An Introduction to the Mathematics and Methods of Astrodynamics, section 4.2)", () => {
     const r1 = [7e6, 0, 0];
     const r2 = [-3e6, 11e6, 2e6];
     const r1n = norm(r1);
@@ -195,27 +191,21 @@ function expectSense(r1: number[], v1: ArrayLike<number>, retrograde: boolean): 
 describe('solveLambert: properties against propagateKepler (core/orbit/kepler.ts)', () => {
   it('single revolution: flying (r1, v1) for tof reaches r2 to 1e-10, prograde and retrograde', () => {
     fc.assert(
-      fc.property(
-        position,
-        position,
-        fc.double({ min: Math.log(0.02), max: Math.log(20), noNaN: true }),
-        fc.boolean(),
-        (r1, r2, logF, retrograde) => {
-          fc.pre(wellPosed(r1, r2));
-          const rmax = Math.max(norm(r1), norm(r2));
-          const period = 2 * Math.PI * Math.sqrt(rmax ** 3 / MU_EARTH);
-          const tof = period * Math.exp(logF);
-          const sols = solveLambert(MU_EARTH, r1, r2, tof, { retrograde });
-          expect(sols).toHaveLength(1);
-          const s = sols[0];
-          const miss = keplerMiss(MU_EARTH, r1, r2, tof, s);
-          // x converges past LAMBERT_DEFAULT_TOL (1e-11); the miss adds the arc's conditioning:
-          // measured at most 1.2e-11 and 6.6e-12 over these 4,000 fixed-seed cases
-          expect(miss.pos).toBeLessThan(1e-10);
-          expect(miss.vel).toBeLessThan(1e-10);
-          expectSense(r1, s.v1, retrograde);
-        },
-      ),
+      fc.property(position, position, fc.double({ min: Math.log(0.02), max: Math.log(20), noNaN: true }), fc.boolean(), (r1, r2, logF, retrograde) => {
+        fc.pre(wellPosed(r1, r2));
+        const rmax = Math.max(norm(r1), norm(r2));
+        const period = 2 * Math.PI * Math.sqrt(rmax ** 3 / MU_EARTH);
+        const tof = period * Math.exp(logF);
+        const sols = solveLambert(MU_EARTH, r1, r2, tof, { retrograde });
+        expect(sols).toHaveLength(1);
+        const s = sols[0];
+        const miss = keplerMiss(MU_EARTH, r1, r2, tof, s);
+        // x converges past LAMBERT_DEFAULT_TOL (1e-11); the miss adds the arc's conditioning:
+        // measured at most 1.2e-11 and 6.6e-12 over these 4,000 fixed-seed cases
+        expect(miss.pos).toBeLessThan(1e-10);
+        expect(miss.vel).toBeLessThan(1e-10);
+        expectSense(r1, s.v1, retrograde);
+      }),
       { numRuns: 4000, seed: 20240611 },
     );
   });
@@ -223,41 +213,35 @@ describe('solveLambert: properties against propagateKepler (core/orbit/kepler.ts
   it('multi-revolution: every branch reaches r2 to 1e-11, and the solution count obeys the minimum-energy period bounds', () => {
     let branches = 0;
     fc.assert(
-      fc.property(
-        position,
-        position,
-        fc.double({ min: 0.3, max: 4.5, noNaN: true }),
-        fc.boolean(),
-        (r1, r2, f, retrograde) => {
-          fc.pre(wellPosed(r1, r2));
-          const s = semiPerimeter(r1, r2);
-          // Period of the minimum-energy ellipse a_m = s/2: no N-revolution arc is faster than N of
-          // these, and N + 1 of them always leave room for both N-revolution branches.
-          const pm = 2 * Math.PI * Math.sqrt((s / 2) ** 3 / MU_EARTH);
-          const tof = f * pm;
-          const maxRevs = 3;
-          const sols = solveLambert(MU_EARTH, r1, r2, tof, { revs: maxRevs, retrograde });
-          const nSolved = (sols.length - 1) / 2;
-          expect(Number.isInteger(nSolved)).toBe(true);
-          expect(nSolved).toBeLessThanOrEqual(Math.min(maxRevs, Math.ceil(f) - 1));
-          expect(nSolved).toBeGreaterThanOrEqual(Math.min(maxRevs, Math.floor(f) - 1));
-          expect(sols[0].branch).toBe('single');
-          for (let n = 1; n <= nSolved; n++) {
-            const left = sols[2 * n - 1];
-            const right = sols[2 * n];
-            expect([left.revs, left.branch, right.revs, right.branch]).toEqual([n, 'left', n, 'right']);
-            expect(left.x).toBeLessThan(right.x);
-          }
-          for (const sol of sols) {
-            const miss = keplerMiss(MU_EARTH, r1, r2, tof, sol);
-            // measured at most 7.6e-13 and 5.2e-13 over these fixed-seed cases
-            expect(miss.pos).toBeLessThan(1e-11);
-            expect(miss.vel).toBeLessThan(1e-11);
-            expectSense(r1, sol.v1, retrograde);
-            branches++;
-          }
-        },
-      ),
+      fc.property(position, position, fc.double({ min: 0.3, max: 4.5, noNaN: true }), fc.boolean(), (r1, r2, f, retrograde) => {
+        fc.pre(wellPosed(r1, r2));
+        const s = semiPerimeter(r1, r2);
+        // Period of the minimum-energy ellipse a_m = s/2: no N-revolution arc is faster than N of
+        // these, and N + 1 of them always leave room for both N-revolution branches.
+        const pm = 2 * Math.PI * Math.sqrt((s / 2) ** 3 / MU_EARTH);
+        const tof = f * pm;
+        const maxRevs = 3;
+        const sols = solveLambert(MU_EARTH, r1, r2, tof, { revs: maxRevs, retrograde });
+        const nSolved = (sols.length - 1) / 2;
+        expect(Number.isInteger(nSolved)).toBe(true);
+        expect(nSolved).toBeLessThanOrEqual(Math.min(maxRevs, Math.ceil(f) - 1));
+        expect(nSolved).toBeGreaterThanOrEqual(Math.min(maxRevs, Math.floor(f) - 1));
+        expect(sols[0].branch).toBe('single');
+        for (let n = 1; n <= nSolved; n++) {
+          const left = sols[2 * n - 1];
+          const right = sols[2 * n];
+          expect([left.revs, left.branch, right.revs, right.branch]).toEqual([n, 'left', n, 'right']);
+          expect(left.x).toBeLessThan(right.x);
+        }
+        for (const sol of sols) {
+          const miss = keplerMiss(MU_EARTH, r1, r2, tof, sol);
+          // measured at most 7.6e-13 and 5.2e-13 over these fixed-seed cases
+          expect(miss.pos).toBeLessThan(1e-11);
+          expect(miss.vel).toBeLessThan(1e-11);
+          expectSense(r1, sol.v1, retrograde);
+          branches++;
+        }
+      }),
       { numRuns: 2000, seed: 7 },
     );
     expect(branches).toBeGreaterThan(4000);

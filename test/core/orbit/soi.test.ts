@@ -16,7 +16,7 @@ describe('sphereOfInfluence', () => {
     ['Saturn', 568.5e24, 1.433e9, 54.8e6],
     ['Uranus', 86.83e24, 2.872e9, 51.8e6],
     ['Neptune', 102.4e24, 4.495e9, 86.6e6],
-    ['Pluto', 12.5e21, 5.870e9, 3.08e6],
+    ['Pluto', 12.5e21, 5.87e9, 3.08e6],
   ];
   for (const [name, m, a, ref] of table) {
     it(`matches Curtis, Table A.2, ${name}: ${ref} km to the table's three figures (from memory)`, () => {

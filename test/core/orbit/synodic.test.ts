@@ -54,7 +54,7 @@ describe('nextHohmannDeparture', () => {
       const tNow = 1e7;
       const t = nextHohmannDeparture(mu, r1, r2, phaseNow, tNow);
       expect(t).toBeGreaterThanOrEqual(tNow);
-      expect(t - tNow).toBeLessThan(synodicPeriod(2 * Math.PI / n1, 2 * Math.PI / n2));
+      expect(t - tNow).toBeLessThan(synodicPeriod((2 * Math.PI) / n1, (2 * Math.PI) / n2));
       // Positions: departure body at angle 0 at tNow, target at phaseNow.
       const th1 = n1 * (t - tNow);
       const h = hohmann(mu, r1, r2);

@@ -8,15 +8,36 @@ import { demoSystem } from './helpers.ts';
 
 function row(dv: number, propellantUsed: number, dvMissing = 0): BudgetRow {
   return {
-    planEventId: 'x', name: 'x', t: 0, tStart: 0, tEnd: 0, dv, frame: 'vnb', dvFrame: [dv, 0, 0], dvInertial: [dv, 0, 0],
-    duration: 0, propellantUsed, massBefore: 0, massAfter: 0, stages: [], dvLeft: 0, dvMissing, gravityLoss: null, periodFraction: null, flags: [],
+    planEventId: 'x',
+    name: 'x',
+    t: 0,
+    tStart: 0,
+    tEnd: 0,
+    dv,
+    frame: 'vnb',
+    dvFrame: [dv, 0, 0],
+    dvInertial: [dv, 0, 0],
+    duration: 0,
+    propellantUsed,
+    massBefore: 0,
+    massAfter: 0,
+    stages: [],
+    dvLeft: 0,
+    dvMissing,
+    gravityLoss: null,
+    periodFraction: null,
+    flags: [],
   };
 }
 
 describe('reserve and margin arithmetic', () => {
   it('reserve = percent of the total + absolute; margin = Δv left − reserve (policy definition)', () => {
     // rows 1,200 + 300 + 500 = 2,000 m/s; 5 % → 100 m/s, + 40 m/s = 140 m/s; Δv left 400 → margin 260
-    const { budget, flags } = summarizeBudget([row(1200, 10), row(300, 2), row(500, 3)], { capacity: 2400, dvLeft: 400, finalMass: 900 }, { percent: 5, absolute: 40 });
+    const { budget, flags } = summarizeBudget(
+      [row(1200, 10), row(300, 2), row(500, 3)],
+      { capacity: 2400, dvLeft: 400, finalMass: 900 },
+      { percent: 5, absolute: 40 },
+    );
     expect(budget.total).toBe(2000);
     expect(budget.reserve).toBeCloseTo(140, 12);
     expect(budget.margin).toBeCloseTo(260, 12);

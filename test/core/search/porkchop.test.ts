@@ -7,14 +7,7 @@ import { solveLambert } from '../../../core/orbit/lambert.ts';
 import { hohmannPhaseAngle, nextHohmannDeparture } from '../../../core/orbit/synodic.ts';
 import { mergeChunk, partitionRows } from '../../../core/search/chunks.ts';
 import { createPlanes, FLOAT_PLANES, INT_PLANES, type PorkchopPlanes } from '../../../core/search/planes.ts';
-import {
-  cellTimes,
-  computePorkchop,
-  computePorkchopAsync,
-  computePorkchopRows,
-  gridCell,
-  gridMinimum,
-} from '../../../core/search/porkchop.ts';
+import { cellTimes, computePorkchop, computePorkchopAsync, computePorkchopRows, gridCell, gridMinimum } from '../../../core/search/porkchop.ts';
 import type { PorkchopRequest } from '../../../core/search/request.ts';
 import { findWindows, REFINE_XTOL } from '../../../core/search/windows.ts';
 import { bodyState } from '../../../core/system/ephemeris.ts';
@@ -43,7 +36,14 @@ function earthMars(tStar: number, muE: number, muM: number): StarSystem {
   ]);
 }
 
-function tofRequest(system: StarSystem, from: string, to: string, depart: [number, number, number], tof: [number, number, number], extra: Partial<PorkchopRequest> = {}): PorkchopRequest {
+function tofRequest(
+  system: StarSystem,
+  from: string,
+  to: string,
+  depart: [number, number, number],
+  tof: [number, number, number],
+  extra: Partial<PorkchopRequest> = {},
+): PorkchopRequest {
   return {
     from: system.indexById[from],
     to: system.indexById[to],
@@ -83,7 +83,8 @@ describe('porkchop minimum between circular coplanar orbits', () => {
     const grid = computePorkchop(sys, req);
     expect(grid.unsolved).toBe(0);
     const h = hohmann(MU_SUN, R1, R2);
-    const ref = departure({ mu: 1, rPark: R_EARTH + 300e3, vInf: [h.dv1, 0, 0] }).dv + arrival({ mu: 1, vInf: h.dv2, rPeriapsis: R_MARS + 300e3, eTarget: 0 }).dv;
+    const ref =
+      departure({ mu: 1, rPark: R_EARTH + 300e3, vInf: [h.dv1, 0, 0] }).dv + arrival({ mu: 1, vInf: h.dv2, rPeriapsis: R_MARS + 300e3, eTarget: 0 }).dv;
     expect(Math.abs(ref - h.dvTotal)).toBeLessThan(1e-3);
     const m = gridMinimum(grid)!;
     // the grid nodes miss the Hohmann point by up to half a cell (1.5 days, 0.6 % of the flight
@@ -98,7 +99,12 @@ describe('porkchop minimum between circular coplanar orbits', () => {
     // 1.2e-5 of the flight time (measured 60 s and 1.0e-6)
     const dStep = (118 * DAY) / 39;
     const tofStep = (0.46 * tH) / 39;
-    const tPhase = nextHohmannDeparture(MU_SUN, R1, R2, hohmannPhaseAngle(MU_SUN, R1, R2) - (Math.sqrt(MU_SUN / R2 ** 3) - Math.sqrt(MU_SUN / R1 ** 3)) * tStar);
+    const tPhase = nextHohmannDeparture(
+      MU_SUN,
+      R1,
+      R2,
+      hohmannPhaseAngle(MU_SUN, R1, R2) - (Math.sqrt(MU_SUN / R2 ** 3) - Math.sqrt(MU_SUN / R1 ** 3)) * tStar,
+    );
     expect(Math.abs(w.departure - tPhase)).toBeLessThan(REFINE_XTOL * dStep);
     expect(Math.abs(w.tof - tH)).toBeLessThan(REFINE_XTOL * tofStep);
   });
@@ -203,7 +209,11 @@ describe('grid cells against solveLambert + hyperbolic.ts, computed independentl
   ];
   for (const [caseIndex, [name, extra]] of cases.entries()) {
     it(`agree at random cells: ${name}`, () => {
-      const req = tofRequest(sys, 'tessel', 'ochre', [0, 800 * DAY, 30], [60 * DAY, 1200 * DAY, 30], { parkingAltitude: 250e3, arrivalAltitude: 400e3, ...extra });
+      const req = tofRequest(sys, 'tessel', 'ochre', [0, 800 * DAY, 30], [60 * DAY, 1200 * DAY, 30], {
+        parkingAltitude: 250e3,
+        arrivalAltitude: 400e3,
+        ...extra,
+      });
       const grid = computePorkchop(sys, req);
       const rng = createRng(1000 + caseIndex);
       let checked = 0;

@@ -92,8 +92,16 @@ describe('conic ephemeris: analytic cases', () => {
     const ev = [0, 1, 2].map((c) => ((v2 - m / r) * s[c] - rv * s[3 + c]) / m);
     expect(norm3(ev)).toBeCloseTo(el.e, 12);
     // Rotation matrices multiplied out here, independently of ephemeris.ts's P vector.
-    const Rz = (x: number) => [[Math.cos(x), -Math.sin(x), 0], [Math.sin(x), Math.cos(x), 0], [0, 0, 1]];
-    const Rx = (x: number) => [[1, 0, 0], [0, Math.cos(x), -Math.sin(x)], [0, Math.sin(x), Math.cos(x)]];
+    const Rz = (x: number) => [
+      [Math.cos(x), -Math.sin(x), 0],
+      [Math.sin(x), Math.cos(x), 0],
+      [0, 0, 1],
+    ];
+    const Rx = (x: number) => [
+      [1, 0, 0],
+      [0, Math.cos(x), -Math.sin(x)],
+      [0, Math.sin(x), Math.cos(x)],
+    ];
     const mul = (A: number[][], B: number[][]) => A.map((row) => B[0].map((_, c) => row.reduce((acc, x, k) => acc + x * B[k][c], 0)));
     const R = mul(mul(Rz(el.raan), Rx(el.i)), Rz(el.argp));
     for (let c = 0; c < 3; c++) expect(ev[c] / el.e).toBeCloseTo(R[c][0], 11);

@@ -52,7 +52,7 @@ describe('checkSystemDocument: warnings (file still loads)', () => {
 
   it('warns when a minimum safe altitude exceeds the radius (likely km written as m)', () => {
     const doc = smallDocument([planet('p', {}, { min_safe_altitude_m: 9e6 })]);
-    expect(rules(doc, 'warning')).toEqual(['bodies[0].min_safe_altitude_m: is larger than the body\'s radius (9,000 km > 6,000 km); check the units']);
+    expect(rules(doc, 'warning')).toEqual(["bodies[0].min_safe_altitude_m: is larger than the body's radius (9,000 km > 6,000 km); check the units"]);
   });
 
   it('warns when μ and radius give an implausible density', () => {
@@ -86,9 +86,7 @@ describe('checkSystemDocument: errors', () => {
 
   it('reports a mass given in kg that is heavier than the parent', () => {
     const doc = smallDocument([planet('p', {}, { mu_m3_s2: undefined, mass_kg: 1e40 })], 1e20);
-    expect(rules(doc, 'error')).toEqual([
-      'bodies[0].mass_kg: must give a smaller μ than the parent "sun" (6.674e+29 >= 1.000e+20 m³/s²)',
-    ]);
+    expect(rules(doc, 'error')).toEqual(['bodies[0].mass_kg: must give a smaller μ than the parent "sun" (6.674e+29 >= 1.000e+20 m³/s²)']);
   });
 
   it('rejects a tidally locked home world as the calendar source', () => {

@@ -24,13 +24,21 @@ function reference(schema: object) {
   return compileFileSchema(schema);
 }
 
-const strip = (errs: unknown) => (errs as { instancePath: string; keyword: string; params: unknown; schemaPath: string }[] | null)?.map((e) => ({ p: e.instancePath, k: e.keyword, params: e.params, s: e.schemaPath })) ?? null;
+const strip = (errs: unknown) =>
+  (errs as { instancePath: string; keyword: string; params: unknown; schemaPath: string }[] | null)?.map((e) => ({
+    p: e.instancePath,
+    k: e.keyword,
+    params: e.params,
+    s: e.schemaPath,
+  })) ?? null;
 
 describe('build-time schema validators (renderer bundle)', () => {
   for (const name of ['system', 'plan']) {
     it(`agree with ajv's compiler on the ${name} schema`, async () => {
       const schema = JSON.parse(readFileSync(`${schemaDir}${name}.schema.json`, 'utf8'));
-      const good = JSON.parse(readFileSync(new URL(name === 'system' ? 'assets/systems/ilmar.system.json' : 'assets/plans/tessel-to-ochre.plan.json', root), 'utf8'));
+      const good = JSON.parse(
+        readFileSync(new URL(name === 'system' ? 'assets/systems/ilmar.system.json' : 'assets/plans/tessel-to-ochre.plan.json', root), 'utf8'),
+      );
       const bad = structuredClone(good);
       if (name === 'system') {
         bad.bodies[0].orbit.e = 1.5;

@@ -140,9 +140,15 @@ describe('the check store', () => {
 
 describe("the core's errors in the panel's words", () => {
   it('names known fields and solvers, and passes anything else through', () => {
-    expect(checkError(new InputError('physics.rebase.distance', 'must be > 0 (m)', 0).message).message).toBe('Floating-origin distance must be > 0 (m) (got 0)');
-    expect(checkError(new SolverError('game-step', 'cancelled', 'cancelled at t = 5 s').message).message).toBe('The game-step flight was cancelled: cancelled at t = 5 s');
-    expect(checkError(new SolverError('game-step reference', 'step-budget', 'too many pieces').message).message).toBe('The reference flight (RK45) ran out of its step budget: too many pieces');
+    expect(checkError(new InputError('physics.rebase.distance', 'must be > 0 (m)', 0).message).message).toBe(
+      'Floating-origin distance must be > 0 (m) (got 0)',
+    );
+    expect(checkError(new SolverError('game-step', 'cancelled', 'cancelled at t = 5 s').message).message).toBe(
+      'The game-step flight was cancelled: cancelled at t = 5 s',
+    );
+    expect(checkError(new SolverError('game-step reference', 'step-budget', 'too many pieces').message).message).toBe(
+      'The reference flight (RK45) ran out of its step budget: too many pieces',
+    );
     expect(checkError(new InputError('span', 'needs 3e7 steps', 1).message).message).toBe('Span needs 3e7 steps (got 1)');
     expect(checkError('something odd happened')).toEqual({ message: 'something odd happened', detail: 'something odd happened' });
     expect(checkError('').message).toBe('unknown error');

@@ -15,6 +15,7 @@ export const planResult = evaluate(system, demoPlan);
 let cached: GameStepResult | null = null;
 
 export function demoCheck(): GameStepResult {
-  if (!cached) cached = gameStepCheck(system, demoPlan, { physics: { integrator: 'verlet', dt: 10 }, result: planResult, maxStepsPerSpan: 100_000, samplesPerSpan: 60 });
+  if (!cached)
+    cached = gameStepCheck(system, demoPlan, { physics: { integrator: 'verlet', dt: 10 }, result: planResult, maxStepsPerSpan: 100_000, samplesPerSpan: 60 });
   return cached;
 }

@@ -43,7 +43,17 @@ describe('log error axes', () => {
   });
 
   it('labels decades in the units a reader expects', () => {
-    expect([1e-6, 1e-3, 1e-2, 1, 100, 1e3, 1e4, 1e6, 1e9].map(lengthTick)).toEqual(['10⁻⁶ m', '1 mm', '10 mm', '1 m', '100 m', '1 km', '10 km', '1000 km', '10⁶ km']);
+    expect([1e-6, 1e-3, 1e-2, 1, 100, 1e3, 1e4, 1e6, 1e9].map(lengthTick)).toEqual([
+      '10⁻⁶ m',
+      '1 mm',
+      '10 mm',
+      '1 m',
+      '100 m',
+      '1 km',
+      '10 km',
+      '1000 km',
+      '10⁶ km',
+    ]);
     expect([1e-4, 1e-3, 1, 1e3].map(speedTick)).toEqual(['10⁻⁴ m/s', '1 mm/s', '1 m/s', '1 km/s']);
     expect(powerOfTen(1e-12)).toBe('10⁻¹²');
     expect(powerOfTen(1e10)).toBe('10¹⁰');

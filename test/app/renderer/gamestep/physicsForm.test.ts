@@ -24,7 +24,15 @@ describe("the game-step panel's form", () => {
   it("turns the default form into physics the core accepts (velocity Verlet at 1/60 s, float64, the plan's tolerance)", () => {
     const p = parseForm(DEFAULT_FORM);
     expect(p.errors).toEqual({});
-    expect(p.options!.physics).toEqual({ integrator: 'verlet', dt: 1 / 60, precision: 'float64', rebase: null, gravity: 'central', burns: 'impulsive', guidance: 'resolve' });
+    expect(p.options!.physics).toEqual({
+      integrator: 'verlet',
+      dt: 1 / 60,
+      precision: 'float64',
+      rebase: null,
+      gravity: 'central',
+      burns: 'impulsive',
+      guidance: 'resolve',
+    });
     expect(p.options!.tolerance).toBeUndefined();
     expect(p.options!.warpDt).toBeUndefined();
     expect(() => normalizePhysics(p.options!.physics)).not.toThrow();
@@ -32,7 +40,17 @@ describe("the game-step panel's form", () => {
   });
 
   it('passes a floating origin, a tolerance and a time-warp step in SI', () => {
-    const p = parseForm({ ...DEFAULT_FORM, precision: 'float32', rebase: true, rebaseDistance: '2', rebaseVelocity: false, tolerance: '500 m', longCoasts: 'warp', warpDt: '60', energyTolerance: '1e-8' });
+    const p = parseForm({
+      ...DEFAULT_FORM,
+      precision: 'float32',
+      rebase: true,
+      rebaseDistance: '2',
+      rebaseVelocity: false,
+      tolerance: '500 m',
+      longCoasts: 'warp',
+      warpDt: '60',
+      energyTolerance: '1e-8',
+    });
     expect(p.options!.physics.rebase).toEqual({ distance: 2000, velocity: false });
     expect(p.options!.tolerance).toBe(500);
     expect(p.options!.warpDt).toBe(60);

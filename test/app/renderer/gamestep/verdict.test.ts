@@ -71,7 +71,13 @@ describe('the game-step verdict in plain words', () => {
         { integrator: 'rk4', dt: 16, missionEvals: 5_232_376 },
       ],
       cheapest: { integrator: 'verlet', dt: 8, missionEvals: 2_616_188 },
-      precision: { integrator: 'verlet', dt: 8, rows: [{ precision: 'float32', rebase: { distance: 1e4, velocity: true }, passes: false, arrivalMiss: 5.4e5, maxDriftPerOrbit: null }], verdict: 'float64', float32: [] },
+      precision: {
+        integrator: 'verlet',
+        dt: 8,
+        rows: [{ precision: 'float32', rebase: { distance: 1e4, velocity: true }, passes: false, arrivalMiss: 5.4e5, maxDriftPerOrbit: null }],
+        verdict: 'float64',
+        float32: [],
+      },
       notes: [],
     } as unknown as SweepResult;
     const v = sweepView(s);

@@ -57,9 +57,13 @@ describe('Electron host', () => {
   it("turns main's refusal to overwrite a newer file into NewerVersionError (for the Save As offer)", async () => {
     const b = bridge();
     b.save = vi.fn(async () => {
-      throw new Error("Error invoking remote method 'waymark:file-save': ArgumentError: a.plan.json was written by a newer version of Waymark (version 2; this one reads up to 1): it is not overwritten; use Save As");
+      throw new Error(
+        "Error invoking remote method 'waymark:file-save': ArgumentError: a.plan.json was written by a newer version of Waymark (version 2; this one reads up to 1): it is not overwritten; use Save As",
+      );
     });
-    const err = await createElectronHost(b).save({ name: 'a.plan.json', path: '/p/a.plan.json', handle: null }, 'T').catch((e: unknown) => e);
+    const err = await createElectronHost(b)
+      .save({ name: 'a.plan.json', path: '/p/a.plan.json', handle: null }, 'T')
+      .catch((e: unknown) => e);
     expect(err).toBeInstanceOf(NewerVersionError);
     expect((err as NewerVersionError).fileName).toBe('a.plan.json');
     expect((err as Error).message).toMatch(/^a\.plan\.json was written by a newer version of Waymark/);

@@ -64,8 +64,14 @@ describe('putting a porkchop transfer into a plan', async () => {
   const system = parseSystemFile(readFileSync(new URL('../../../../assets/systems/ilmar.system.json', import.meta.url), 'utf8')).system;
   const DAY = 86400;
   const transfer = planFromWindow(system, {
-    from: 'tessel', to: 'ochre', depart: 170 * DAY, arrive: 170 * DAY + 235 * DAY,
-    parkingAltitude: 300_000, captureAltitude: 400_000, vehicle: plan.vehicle, captureE: 0.5,
+    from: 'tessel',
+    to: 'ochre',
+    depart: 170 * DAY,
+    arrive: 170 * DAY + 235 * DAY,
+    parkingAltitude: 300_000,
+    captureAltitude: 400_000,
+    vehicle: plan.vehicle,
+    captureE: 0.5,
   });
   const next = edits.applyTransfer(plan, transfer);
 

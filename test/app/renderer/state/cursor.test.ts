@@ -12,7 +12,14 @@ function manualClock() {
       cb = null;
     },
   };
-  return { clock, frame: (now: number) => { const f = cb; cb = null; f?.(now); } };
+  return {
+    clock,
+    frame: (now: number) => {
+      const f = cb;
+      cb = null;
+      f?.(now);
+    },
+  };
 }
 
 describe('time cursor', () => {

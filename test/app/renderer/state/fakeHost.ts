@@ -46,8 +46,12 @@ export function fakeHost(): FakeHost {
       return true;
     }),
     readRecovery: vi.fn(async () => h.recovery),
-    writeRecovery: vi.fn(async (s: RecoverySnapshot) => { h.recovery = s; }),
-    clearRecovery: vi.fn(async () => { h.recovery = null; }),
+    writeRecovery: vi.fn(async (s: RecoverySnapshot) => {
+      h.recovery = s;
+    }),
+    clearRecovery: vi.fn(async () => {
+      h.recovery = null;
+    }),
     setDocumentState: vi.fn((title: string) => void h.titles.push(title)),
     closeConfirmed: vi.fn(async () => undefined),
     onCommand: () => () => undefined,

@@ -154,7 +154,9 @@ describe('session: the open document and its files', () => {
     expect(await s.openText(newer, { name: 'future.plan.json', path: '/plans/future.plan.json', handle: null })).toBe(false);
     const n = s.notices.get().at(-1)!;
     expect(n.title).toBe('future.plan.json was not opened');
-    expect(n.issues).toEqual([expect.objectContaining({ path: 'version', rule: expect.stringMatching(/is 2, newer than this program reads \(up to 1\); use a newer Waymark/) })]);
+    expect(n.issues).toEqual([
+      expect.objectContaining({ path: 'version', rule: expect.stringMatching(/is 2, newer than this program reads \(up to 1\); use a newer Waymark/) }),
+    ]);
     expect(s.doc.get().plan).toBe(before.plan);
     expect(s.doc.get().file).toBe(before.file);
   });
@@ -164,11 +166,21 @@ describe('session: the open document and its files', () => {
     const { s, host } = await session(fakeHost(), ask);
     await s.saveAs(); // the document now lives at /plans/tessel-to-ochre.plan.json
     const written = host.files.get('tessel-to-ochre.plan.json');
-    vi.mocked(host.save).mockRejectedValueOnce(new NewerVersionError('tessel-to-ochre.plan.json', 'tessel-to-ochre.plan.json was written by a newer version of Waymark (version 2; this one reads up to 1)'));
+    vi.mocked(host.save).mockRejectedValueOnce(
+      new NewerVersionError(
+        'tessel-to-ochre.plan.json',
+        'tessel-to-ochre.plan.json was written by a newer version of Waymark (version 2; this one reads up to 1)',
+      ),
+    );
     vi.mocked(host.saveAs).mockClear();
     s.doc.edit('Edit reserve', (p) => edits.setReserve(p, { percent: 4.5 }));
     expect(await s.save()).toBe(true);
-    expect(ask).toHaveBeenCalledWith(expect.objectContaining({ title: 'Written by a newer Waymark', message: expect.stringMatching(/tessel-to-ochre\.plan\.json was written by a newer version of Waymark/) }));
+    expect(ask).toHaveBeenCalledWith(
+      expect.objectContaining({
+        title: 'Written by a newer Waymark',
+        message: expect.stringMatching(/tessel-to-ochre\.plan\.json was written by a newer version of Waymark/),
+      }),
+    );
     expect(host.saveAs).toHaveBeenCalledOnce();
     expect(host.files.get('tessel-to-ochre.plan.json')).not.toBe(written); // the Save As copy (the fake writes by name)
     expect(s.doc.get().dirty).toBe(false);
@@ -177,7 +189,9 @@ describe('session: the open document and its files', () => {
   it('declining the Save As offer leaves the newer file alone and the edits unsaved', async () => {
     const { s, host } = await session(fakeHost(), async () => 'cancel');
     await s.saveAs();
-    vi.mocked(host.save).mockRejectedValueOnce(new NewerVersionError('t.plan.json', 't.plan.json was written by a newer version of Waymark (version 3; this one reads up to 1)'));
+    vi.mocked(host.save).mockRejectedValueOnce(
+      new NewerVersionError('t.plan.json', 't.plan.json was written by a newer version of Waymark (version 3; this one reads up to 1)'),
+    );
     vi.mocked(host.saveAs).mockClear();
     s.doc.edit('Edit reserve', (p) => edits.setReserve(p, { percent: 4.5 }));
     expect(await s.save()).toBe(false);
@@ -199,7 +213,12 @@ describe('session: the open document and its files', () => {
   it('exports the report, the burn table, CSV and OEM ephemerides', async () => {
     const { s, host } = await session();
     for (const kind of ['report', 'burns-csv', 'csv', 'oem'] as const) await s.exportAs(kind);
-    expect(host.exported.map((x) => x.name)).toEqual(['tessel-to-ochre.report.md', 'tessel-to-ochre.burns.csv', 'tessel-to-ochre.ephemeris.csv', 'tessel-to-ochre.oem']);
+    expect(host.exported.map((x) => x.name)).toEqual([
+      'tessel-to-ochre.report.md',
+      'tessel-to-ochre.burns.csv',
+      'tessel-to-ochre.ephemeris.csv',
+      'tessel-to-ochre.oem',
+    ]);
     expect(host.exported[0].text).toMatch(/Δv budget/);
     expect(host.exported[3].text).toMatch(/^CCSDS_OEM_VERS\s+=\s+2\.0/);
   });

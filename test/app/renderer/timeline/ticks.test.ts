@@ -30,14 +30,19 @@ describe('calendar ticks', () => {
 
   it('stays within [a, b], increasing, and never crowds (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: 0, max: 1e9, noNaN: true }), fc.double({ min: 10, max: 5e8, noNaN: true }), fc.integer({ min: 3, max: 12 }), (a, span, target) => {
-        const ticks = calendarTicks(cal, a, a + span, target);
-        for (let k = 0; k < ticks.length; k++) {
-          if (ticks[k].t < a - 1e-6 || ticks[k].t > a + span + 1e-6) return false;
-          if (k > 0 && !(ticks[k].t > ticks[k - 1].t)) return false;
-        }
-        return ticks.length <= 4 * target + 2;
-      }),
+      fc.property(
+        fc.double({ min: 0, max: 1e9, noNaN: true }),
+        fc.double({ min: 10, max: 5e8, noNaN: true }),
+        fc.integer({ min: 3, max: 12 }),
+        (a, span, target) => {
+          const ticks = calendarTicks(cal, a, a + span, target);
+          for (let k = 0; k < ticks.length; k++) {
+            if (ticks[k].t < a - 1e-6 || ticks[k].t > a + span + 1e-6) return false;
+            if (k > 0 && !(ticks[k].t > ticks[k - 1].t)) return false;
+          }
+          return ticks.length <= 4 * target + 2;
+        },
+      ),
     );
   });
 });

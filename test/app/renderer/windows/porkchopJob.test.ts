@@ -23,7 +23,12 @@ const request: PorkchopRequest = {
 describe('porkchop job (what the Windows worker runs)', () => {
   it('computes the same grid as the core in one go, reporting progress up to the total', async () => {
     const progress: number[] = [];
-    const r = await runPorkchopJob(system, request, { count: 3 }, { isCancelled: () => false, onProgress: (d, t) => progress.push(d / t), yieldNow: async () => undefined });
+    const r = await runPorkchopJob(
+      system,
+      request,
+      { count: 3 },
+      { isCancelled: () => false, onProgress: (d, t) => progress.push(d / t), yieldNow: async () => undefined },
+    );
     const ref = computePorkchop(system, request);
     expect(Array.from(r.grid.planes.dvTotal)).toEqual(Array.from(ref.planes.dvTotal));
     expect(progress.at(-1)).toBe(1);
@@ -37,11 +42,16 @@ describe('porkchop job (what the Windows worker runs)', () => {
 
   it('stops with a cancelled SolverError when cancelled between blocks', async () => {
     let calls = 0;
-    const job = runPorkchopJob(system, { ...request, depart: { ...request.depart, n: 400 } }, {}, {
-      isCancelled: () => calls > 0,
-      onProgress: () => void calls++,
-      yieldNow: async () => undefined,
-    });
+    const job = runPorkchopJob(
+      system,
+      { ...request, depart: { ...request.depart, n: 400 } },
+      {},
+      {
+        isCancelled: () => calls > 0,
+        onProgress: () => void calls++,
+        yieldNow: async () => undefined,
+      },
+    );
     await expect(job).rejects.toSatisfy((e: unknown) => e instanceof SolverError && e.reason === 'cancelled');
   });
 });
