@@ -4,3 +4,9 @@
  */
 export { DAMPING_LIMIT, DEFAULT_DAMPING, DEFAULT_MAX_FLIGHTS, DEFAULT_MAX_ITERATIONS, GRADIENT_TOL, STEP_TOL, solveTargets } from './solve.ts';
 export type { Control, Flight, Goal, GoalOutcome, JacobianFn, SolveIteration, SolveOptions, SolveResult, SolveStatus } from './solve.ts';
+export { conicFlight } from './conicFlight.ts';
+export type { ConicFlightOptions } from './conicFlight.ts';
+export { applyControls, burnControls } from './controls.ts';
+export type { BurnDvControl } from './controls.ts';
+export { goalsFromTarget, planGoalValue, soiEntryGoal } from './goals.ts';
+export type { PlanGoal, PlanGoalKind } from './goals.ts';
