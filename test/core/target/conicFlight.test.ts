@@ -110,6 +110,24 @@ describe('conicFlight + solveTargets on a plan', () => {
     expect(res.iterations).toBeLessThanOrEqual(5);
   });
 
+  it('an unreachable goal (periapsis at the surface with the burn bounded to 50 m/s retrograde) stops at the bound and says so', () => {
+    const system = testSystem();
+    const p = raisePlan();
+    p.target = { body: 'loam', periapsisAltitude: 0, e: null, apoapsisAltitude: null, i: null, tolerance: { periapsisAltitude: 1e3, e: 1, i: 1 } };
+    // lowering the periapsis from 300 km to the surface takes ≈ 87 m/s retrograde (vis-viva); only 50 are allowed
+    const prograde = { ...burnControls(p, 'raise', 10).controls[0], lower: -50, upper: 0 };
+    const goals = goalsFromTarget(p);
+    const res = solveTargets([prograde], goals, conicFlight(system, p, [prograde], goals), { x0: [-10] });
+    expect(res.status).toBe('stalled');
+    expect(res.x[0]).toBe(-50);
+    expect(res.message).toContain('"periapsis altitude at loam" is');
+    expect(res.message).toContain('wanted 0 km within ±1 km');
+    expect(res.message).toContain('"raise Δv prograde" at its lower bound -50 m/s');
+    expect(res.values.every((v) => Number.isFinite(v))).toBe(true);
+    // the first step reaches the bound, the second iteration finds it held there: 4 flights measured
+    expect(res.flights).toBeLessThanOrEqual(6);
+  });
+
   it('a goal the flight cannot give (an open final orbit has no apoapsis) is a flight failure with the reason', () => {
     const system = testSystem();
     const p = raisePlan();
