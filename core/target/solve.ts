@@ -105,6 +105,7 @@ export interface GoalOutcome {
   value: number;
   wanted: number;
   tolerance: number;
+  /** Within tolerance; false when the flight never gave values (value then reads 0). */
   met: boolean;
 }
 
@@ -202,7 +203,7 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
   const jacobianFn = options.jacobian;
   if (jacobianFn !== undefined && typeof jacobianFn !== 'function') throw new InputError('jacobian', 'must be a function', jacobianFn);
 
-  // scratch for the whole solve (nothing is allocated per iteration but the history row)
+  // the solve's own scratch, allocated once (per step only the history row and dampedLeastSquares' small QR work arrays)
   const scale = new Float64Array(n);
   const lo = new Float64Array(n);
   const hi = new Float64Array(n);
@@ -226,6 +227,7 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
   const held = new Uint8Array(n);
 
   let flights = 0;
+  let flown = false; // goal values exist (the flight succeeded at least at the start)
   let iterations = 0;
   const history: SolveIteration[] = [];
   let flightError: WaymarkError | undefined;
@@ -319,13 +321,13 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
       value: g[i],
       wanted: goal.wanted,
       tolerance: goal.tolerance,
-      met: Math.abs(g[i] - goal.wanted) <= goal.tolerance,
+      met: flown && Math.abs(g[i] - goal.wanted) <= goal.tolerance,
     }));
     const atBound: string[] = [];
     for (let j = 0; j < n; j++) if (x[j] <= lo[j] || x[j] >= hi[j]) atBound.push(controls[j].name);
     const missed = outcomes
       .map((o, i) => ({ o, goal: goals[i] }))
-      .filter(({ o }) => !o.met)
+      .filter(({ o }) => flown && !o.met)
       .map(({ o, goal }) => `"${o.name}" is ${show(o.value, goal)}, wanted ${show(o.wanted, goal)} within ±${show(o.tolerance, goal)}`);
     let message: string;
     if (status === 'converged') {
@@ -354,9 +356,10 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
   };
 
   if (!fly(x, g)) {
-    g.fill(0);
+    g.fill(0); // no values: reported as 0 and never as met
     return finish('flight-failed', `The flight fails at the starting controls: ${flightError?.message}.`);
   }
+  flown = true;
   let cost = residuals(g, r);
   let lambda = -1;
   let nu = 2;

@@ -259,6 +259,8 @@ describe('solveTargets: failing flights', () => {
     expect(res.message).toContain('universal anomaly did not converge');
     expect(res.flights).toBe(1);
     expect(Number.isNaN(res.values[0])).toBe(false);
+    // no value came out of the flight: the goal is not met, even though its wanted 0 ± 1 covers the placeholder
+    expect(res.goals[0].met).toBe(false);
   });
 
   it('a flight that gives NaN counts as failed (no NaN leaves the solver)', () => {
