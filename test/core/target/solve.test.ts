@@ -41,6 +41,14 @@ describe('solveTargets: analytic problems with known roots', () => {
       expect(res.iterations).toBeLessThanOrEqual(25);
       expect(res.history.length).toBe(res.iterations);
       expect(res.history.at(-1)?.residualNorm).toBeLessThanOrEqual(Math.SQRT2);
+      // only steps that lower the misses are taken: the residual norm falls at every iteration,
+      // and the flights counted in the history rise to the total
+      for (let k = 1; k < res.history.length; k++) {
+        expect(res.history[k].residualNorm).toBeLessThan(res.history[k - 1].residualNorm);
+        expect(res.history[k].flights).toBeGreaterThan(res.history[k - 1].flights);
+        expect(res.history[k].damping).toBeGreaterThan(0);
+      }
+      expect(res.history.at(-1)?.flights).toBe(res.flights);
     }
   });
 
