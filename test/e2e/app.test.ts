@@ -9,7 +9,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parsePlanFile } from '../../core/io/planFile.ts';
-import { OUT, buildApp, openFile as openThroughPicker, requireChromium, startApp, type E2eApp } from './harness.ts';
+import { OUT, buildApp, openFile as openThroughPicker, requireChromium, startApp, type E2eApp, HANG_GUARD_MS } from './harness.ts';
 
 const have = requireChromium();
 
@@ -187,12 +187,12 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
 
   it('verifies the plan in n-body gravity, corrects the mid-course burn and runs a dispersion, each in a worker', async () => {
     await page.click('[data-action=nbody-verify]');
-    await page.waitForSelector('[data-testid=nbody-result]', { timeout: 20_000 });
+    await page.waitForSelector('[data-testid=nbody-result]', { timeout: HANG_GUARD_MS });
     expect(await page.textContent('[data-testid=nbody-miss]')).toMatch(/(km|Gm)$/);
     expect(await page.textContent('[data-testid=status-nbody]')).toMatch(/n-body: RK45/);
     expect(await js<boolean>('window.waymarkDebug.scene.nbodyLine !== null')).toBe(true);
     await page.click('[data-action=nbody-correct]');
-    await page.waitForSelector('[data-action=nbody-apply]', { timeout: 20_000 });
+    await page.waitForSelector('[data-action=nbody-apply]', { timeout: HANG_GUARD_MS });
     const before = await plan();
     await page.click('[data-action=nbody-apply]');
     expect(await plan()).not.toEqual(before);
@@ -201,7 +201,7 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
     await page.click('[data-action=undo]');
     expect(await plan()).toEqual(before);
     await page.click('[data-action=disperse]');
-    await page.waitForSelector('[data-testid=dispersion-result]', { timeout: 20_000 });
+    await page.waitForSelector('[data-testid=dispersion-result]', { timeout: HANG_GUARD_MS });
     expect(await page.textContent('[data-testid=dispersion-result]')).toMatch(/of 500 runs keep a margin/);
     await page.screenshot({ path: `${OUT}06-nbody-dispersion.png` });
   });
@@ -210,7 +210,7 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
     await page.click('[data-tab=windows]');
     await page.selectOption('[data-testid=win-grid]', '100');
     await page.click('[data-testid=win-compute]');
-    await page.waitForSelector('[data-testid=windows-list] tr[data-window]', { timeout: 20_000 });
+    await page.waitForSelector('[data-testid=windows-list] tr[data-window]', { timeout: HANG_GUARD_MS });
     const paths = await page.locator('[data-testid=porkchop] svg .contours path').count();
     expect(paths).toBeGreaterThan(5);
     const plot = (await page.locator('[data-testid=porkchop] svg rect.hit').boundingBox())!;

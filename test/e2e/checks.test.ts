@@ -8,7 +8,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import { OUT, buildApp, requireChromium, startApp, type E2eApp } from './harness.ts';
+import { OUT, buildApp, requireChromium, startApp, type E2eApp, HANG_GUARD_MS } from './harness.ts';
 
 const have = requireChromium();
 const BUILD = new URL('../../dist/e2e-checks/', import.meta.url).pathname;
@@ -51,8 +51,8 @@ describe.skipIf(!have)('the checks in the browser (e2e)', () => {
     await page.fill('[data-field=dt]', '1/60');
     const t0 = Date.now();
     await page.click('[data-action=gamestep-run]');
-    await page.waitForSelector('[data-action=gamestep-cancel]', { timeout: 5_000 });
-    await page.waitForSelector('[data-testid=gamestep-result]', { timeout: 60_000 });
+    await page.waitForSelector('[data-action=gamestep-cancel]', { timeout: HANG_GUARD_MS });
+    await page.waitForSelector('[data-testid=gamestep-result]', { timeout: HANG_GUARD_MS });
     const ms = Date.now() - t0;
     const workerMs = await js<number>('window.waymarkDebug.checks.get().game.check.ms');
     console.log(`game-step check, velocity Verlet at 1/60 s, in the browser: ${ms} ms (worker ${workerMs.toFixed(0)} ms)`);
@@ -118,7 +118,7 @@ describe.skipIf(!have)('the checks in the browser (e2e)', () => {
     await page.fill('[data-field=dt]', '8');
     const t0 = Date.now();
     await page.click('[data-action=gamestep-sweep]');
-    await page.waitForSelector('[data-testid=gamestep-sweep]', { timeout: 60_000 });
+    await page.waitForSelector('[data-testid=gamestep-sweep]', { timeout: HANG_GUARD_MS });
     console.log(`sweep from 8 s in the browser: ${Date.now() - t0} ms`);
     const rows = await page.locator('[data-testid=gamestep-sweep] tbody tr').count();
     expect(rows).toBe(4);
@@ -134,20 +134,20 @@ describe.skipIf(!have)('the checks in the browser (e2e)', () => {
     await page.selectOption('[data-field=precision]', 'float32');
     await page.fill('[data-field=dt]', '1e-46');
     await page.click('[data-action=gamestep-run]');
-    await expect.poll(() => page.textContent('[data-testid=gamestep-error]'), { timeout: 10_000 }).toMatch(/^Step must be representable in float32/);
+    await expect.poll(() => page.textContent('[data-testid=gamestep-error]'), { timeout: HANG_GUARD_MS }).toMatch(/^Step must be representable in float32/);
     await page.selectOption('[data-field=precision]', 'float64');
     await page.fill('[data-field=dt]', '1/60');
   });
 
   it('runs the stability check over a short span: estimate first, charts draw, no flags', async () => {
     await page.click('[data-side=stability]');
-    await expect.poll(() => page.textContent('[data-testid=stability-estimate]'), { timeout: 15_000 }).toMatch(/about .+ here/);
+    await expect.poll(() => page.textContent('[data-testid=stability-estimate]'), { timeout: HANG_GUARD_MS }).toMatch(/about .+ here/);
     const estimate10k = (await page.textContent('[data-testid=stability-estimate]'))!;
     console.log(`stability estimate, 10 000 years: ${estimate10k.trim()}`);
     await page.fill('[data-field=years]', '200');
     const t0 = Date.now();
     await page.click('[data-action=stability-run]');
-    await page.waitForSelector('[data-testid=stability-result]', { timeout: 30_000 });
+    await page.waitForSelector('[data-testid=stability-result]', { timeout: HANG_GUARD_MS });
     console.log(`stability, 200 years with moons, in the browser: ${Date.now() - t0} ms`);
     expect(await page.textContent('[data-testid=stability-summary]')).toMatch(/^No flags/);
     expect(await page.textContent('[data-testid=stability-result]')).not.toMatch(/NaN/);

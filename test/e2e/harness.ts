@@ -27,6 +27,12 @@ export const ARGS = [
 /** Screenshots and files the suites write. */
 export const OUT = new URL('../output/e2e/', import.meta.url).pathname;
 export const haveChromium = existsSync(CHROMIUM);
+/**
+ * How long a wait for the page may last before the test gives up: a hang guard only, never a
+ * speed check (the work each wait covers is fixed by the test), so it is far above what any
+ * machine needs and below the test runner's own timeout (test/vitest.config.ts).
+ */
+export const HANG_GUARD_MS = 240_000;
 
 /** True when chromium is there; in CI a missing chromium is an error, elsewhere the suite is skipped with a warning. */
 export function requireChromium(): boolean {
@@ -78,7 +84,7 @@ export async function startApp(root: string): Promise<E2eApp> {
         if (m.type() === 'error') record(m.text());
       });
       await page.goto(served.url);
-      await page.waitForSelector('[data-testid=budget-table] tbody tr.row', { timeout: 15_000 });
+      await page.waitForSelector('[data-testid=budget-table] tbody tr.row', { timeout: HANG_GUARD_MS });
       return { context, page, errors };
     },
     async close() {

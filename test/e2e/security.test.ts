@@ -19,7 +19,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { OUT, buildApp, openFile, requireChromium, startApp, type E2eApp } from './harness.ts';
+import { OUT, buildApp, openFile, requireChromium, startApp, type E2eApp, HANG_GUARD_MS } from './harness.ts';
 
 const have = requireChromium();
 const repo = new URL('../../', import.meta.url);
@@ -99,7 +99,7 @@ describe.skipIf(!have)('the renderer never runs strings as code and shows file n
         `window.__violations = []; document.addEventListener('securitypolicyviolation', (e) => window.__violations.push(e.violatedDirective + ' ' + (e.blockedURI || '')));`,
       );
       await page.reload();
-      await page.waitForSelector('[data-testid=budget-table] tbody tr.row', { timeout: 15_000 });
+      await page.waitForSelector('[data-testid=budget-table] tbody tr.row', { timeout: HANG_GUARD_MS });
     });
 
     it('is sent with the page, as a header and as a meta tag, without unsafe-eval', async () => {
@@ -188,7 +188,7 @@ describe.skipIf(!have)('the renderer never runs strings as code and shows file n
       expect(await injected()).toEqual([]); // the app's own page has none of these elements
       await openFile(page, file);
       await page.waitForFunction(() => document.querySelector('[data-testid=doc-name]')?.textContent?.includes('hostile-names.plan.json'), undefined, {
-        timeout: 15_000,
+        timeout: HANG_GUARD_MS,
       });
       await page.waitForFunction(() => document.querySelectorAll('[data-testid=budget-table] tbody tr.row').length > 3);
       await page.waitForTimeout(300); // let every view (scene labels, timeline) draw the new document
@@ -213,7 +213,7 @@ describe.skipIf(!have)('the renderer never runs strings as code and shows file n
       await page.selectOption('[data-testid=focus]', quill!);
       await page.click('button[title="Frame the focused object"]');
       await page.waitForFunction((name) => Array.from(document.querySelectorAll('.scene-label')).some((e) => e.textContent === name), HOSTILE.quill, {
-        timeout: 5000,
+        timeout: HANG_GUARD_MS,
       });
       const focus = await texts('[data-testid=focus] option');
       for (const name of [HOSTILE.star, HOSTILE.tessel, HOSTILE.ochre])
@@ -266,7 +266,7 @@ describe.skipIf(!have)('the renderer never runs strings as code and shows file n
       expect(to).toContain(HOSTILE.ochre);
       await page.selectOption('[data-testid=win-grid]', '60');
       await page.click('[data-testid=win-compute]');
-      await page.waitForSelector('[data-testid=windows-list] tr[data-window]', { timeout: 20_000 });
+      await page.waitForSelector('[data-testid=windows-list] tr[data-window]', { timeout: HANG_GUARD_MS });
       expect(await page.locator('[data-testid=windows-list] tr[data-window]').count()).toBeGreaterThan(0);
       await page.screenshot({ path: `${OUT}sec-02-windows.png` });
       await page.click('[data-tab=system]');

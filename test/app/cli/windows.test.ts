@@ -13,7 +13,8 @@ const ROOT = fileURLToPath(new URL('../../../', import.meta.url));
 const TSX = join(ROOT, 'node_modules/tsx/dist/cli.mjs');
 
 function cli(...args: string[]): { code: number | null; stdout: string; stderr: string } {
-  const r = spawnSync(process.execPath, [TSX, 'app/cli/main.ts', ...args], { cwd: ROOT, encoding: 'utf8', timeout: 60_000 });
+  // the timeout is a hang guard, not a speed check
+  const r = spawnSync(process.execPath, [TSX, 'app/cli/main.ts', ...args], { cwd: ROOT, encoding: 'utf8', timeout: 240_000 });
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 

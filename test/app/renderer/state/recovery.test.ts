@@ -209,7 +209,8 @@ describe('recovery after a crash — Electron host, main process, recovery file 
     const s1 = await start(createElectronHost(bridgeTo(mainProcess(userData))), 20);
     makeEdits(s1);
     const edited = structuredClone(s1.doc.get().plan);
-    await vi.waitFor(() => expect(existsSync(file)).toBe(true), { timeout: 5000, interval: 10 });
+    // the timeout is a hang guard: the autosave is due after 20 ms of idle
+    await vi.waitFor(() => expect(existsSync(file)).toBe(true), { timeout: 240_000, interval: 10 });
     crash(s1);
     const onDisk = JSON.parse(readFileSync(file, 'utf8'));
     expect(onDisk).toMatchObject({ name: 'tessel-to-ochre.plan.json', path: null });
