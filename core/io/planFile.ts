@@ -25,8 +25,8 @@
  *
  * Saving (`serializePlanFile`): keys in schema order, 2-space indent, trailing newline, arrays
  * of numbers on one line; every field written (defaults included) except the optional
- * `revs`/`retrograde`/`periapsis_altitude_m` of a transfer and the `body` of an apsis coast,
- * written only when set. Numbers are written with the
+ * `revs`/`retrograde`/`periapsis_altitude_m` of a transfer, the `body` of an apsis coast and
+ * the plan's `truth_model`, written only when set. Numbers are written with the
  * fewest digits that read back to the same double (exponent form for magnitudes ≥ 1e6 or
  * < 1e-3, as in system files). Angles: the degree value written is the shortest decimal whose
  * conversion (deg · π/180) gives back exactly the radian value in memory, so
@@ -273,6 +273,9 @@ export function documentToPlan(doc: PlanDocument): Plan {
     target: doc.target === null ? null : targetFromDocument(doc.target),
     reserve: { percent: doc.reserve.percent, absolute: doc.reserve.absolute_mps },
     end: doc.end_s ?? null,
+    // Absent stays absent (the default 'conic' is read through `planTruthModel`), so a file
+    // without the field saves back without it.
+    ...(doc.truth_model === undefined ? {} : { truthModel: doc.truth_model }),
   };
 }
 
@@ -425,6 +428,7 @@ export function planToDocument(plan: Plan, system: PlanSystemRef): PlanDocument 
     target: plan.target === null ? null : targetToDocument(plan.target),
     reserve: { percent: plan.reserve.percent, absolute_mps: plan.reserve.absolute },
     end_s: plan.end,
+    truth_model: plan.truthModel,
   };
 }
 

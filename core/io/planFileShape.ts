@@ -307,6 +307,13 @@ export const planFileShape = z
         description: 'Where the plan ends if its last event ends earlier, s from the system epoch; null or absent: at the last event.',
       })
       .optional(),
+    truth_model: z
+      .enum(['conic', 'finite', 'nbody'])
+      .meta({
+        description:
+          'The model the plan\'s burns are targeted in and its readouts show (the others are comparisons): "conic" (patched conics, every burn flown impulsive), "finite" (patched conics, each burn flown as its mode says) or "nbody" (restricted n-body gravity, each burn flown as its mode says). Absent: "conic".',
+      })
+      .optional(),
   })
   .meta({
     $id: 'https://waymark.invalid/schema/plan.schema.json',

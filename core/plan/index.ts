@@ -18,10 +18,12 @@ export type {
   ReservePolicy,
   Stage,
   StageEvent,
+  TruthModel,
   Vehicle,
 } from './plan.ts';
 export type { Budget, BudgetRow, Flag, PlanResult, TargetReport, TrajectoryEvent, TrajectoryEventKind, TrajectorySegment } from './result.ts';
 export { G0, burnDuration, propellantForDeltaV, rocketDeltaV } from './rocket.ts';
+export { TRUTH_MODELS, planTruthModel, truthModelLabel } from './truthModel.ts';
 export {
   MIN_BURNOUT_FRACTION,
   MIN_STAGE_THRUST,

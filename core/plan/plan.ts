@@ -171,6 +171,15 @@ export interface ReservePolicy {
   absolute: number;
 }
 
+/**
+ * The model a plan's burns are targeted in (and its readouts show; the other models are
+ * comparisons).
+ * - 'conic': patched conics, every burn flown impulsive whatever its `mode`.
+ * - 'finite': patched conics, each burn flown as its `mode` says (finite burns integrated).
+ * - 'nbody': the restricted n-body model of core/dynamics, each burn flown as its `mode` says.
+ */
+export type TruthModel = 'conic' | 'finite' | 'nbody';
+
 export interface Plan {
   name: string;
   description: string;
@@ -181,4 +190,6 @@ export interface Plan {
   reserve: ReservePolicy;
   /** Where the plan ends if its last event ends earlier (s from epoch), or null: at the last event. */
   end: number | null;
+  /** Which model the plan's burns are targeted in and its readouts show; omitted: 'conic'. */
+  truthModel?: TruthModel;
 }

@@ -91,6 +91,7 @@ describe('every declared field is written and read back', () => {
       if (ev.type === 'coast' && ev.until.kind === 'apoapsis') return { ...ev, until: { kind: 'apoapsis', body: 'ochre' } };
       return ev;
     });
+    extra.truthModel = 'nbody';
     const cases: [Plan, PlanSystemRef][] = [
       [samplePlan(), { kind: 'path', path: '../systems/ilmar.system.json' }],
       [stateStartPlan(), { kind: 'embedded', system }],

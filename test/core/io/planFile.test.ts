@@ -13,6 +13,7 @@ import {
 } from '../../../core/io/planFile.ts';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
 import type { Plan } from '../../../core/plan/plan.ts';
+import { planTruthModel } from '../../../core/plan/index.ts';
 import { samplePlan, stateStartPlan } from './planSamples.ts';
 
 type Doc = Record<string, any>;
@@ -170,6 +171,26 @@ describe('plan file round trip', () => {
     expect(text).toContain('\n  "system": {\n    "embedded": {\n      "format": "waymark-system",');
   });
 
+  it('truth_model: each of the three values round-trips, written last, and an unset one is not written', () => {
+    for (const m of ['conic', 'finite', 'nbody'] as const) {
+      const plan: Plan = { ...samplePlan(), truthModel: m };
+      const text = serializePlanFile(plan, PATH_REF);
+      expect(text).toContain(`\n  "truth_model": "${m}"\n}\n`);
+      const back = parsePlanFile(text).plan;
+      expect(back.truthModel).toBe(m);
+      expect(back).toEqual(plan);
+      expect(serializePlanFile(back, PATH_REF)).toBe(text);
+    }
+    expect(sampleText()).not.toContain('truth_model');
+  });
+
+  it('truth_model: a file without it loads with no truth model set (the plan default, conic)', () => {
+    expect('truth_model' in JSON.parse(sampleText())).toBe(false);
+    const { plan } = parsePlanFile(sampleText());
+    expect('truthModel' in plan).toBe(false);
+    expect(planTruthModel(plan)).toBe('conic');
+  });
+
   it('refuses to write non-finite numbers, naming the file field', () => {
     const p = samplePlan();
     p.vehicle.stages[1].isp = Number.NaN;
@@ -180,6 +201,16 @@ describe('plan file round trip', () => {
 // Sample event indices: 0 depart (transfer), 1 cruise-1 (until time), 2 mcc (fixed), 3 drop-kick (stage),
 // 4 to-soi, 5 to-peri, 6 capture, 7 to-node, 8 plane, 9 to-apo, 10 circ, 11 low, 12 settle.
 const BAD_FILES: { name: string; text: () => string; expected: string[] }[] = [
+  {
+    name: 'an unknown truth model',
+    text: () => edited((d) => (d.truth_model = 'exact')),
+    expected: ['truth_model: must be one of: "conic", "finite", "nbody"'],
+  },
+  {
+    name: 'a truth model that is not a string',
+    text: () => edited((d) => (d.truth_model = 2)),
+    expected: ['truth_model: must be one of: "conic", "finite", "nbody"'],
+  },
   { name: 'not JSON', text: () => '{ "format": "waymark-plan",', expected: [': is not valid JSON'] },
   { name: 'JSON but not an object', text: () => '"plan"', expected: [': must be a JSON object'] },
   { name: 'missing format', text: () => edited((d) => delete d.format), expected: ['format: is required (must be "waymark-plan")'] },

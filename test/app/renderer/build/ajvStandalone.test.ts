@@ -49,15 +49,20 @@ describe('build-time schema validators (renderer bundle)', () => {
         bad.vehicle.stages[0].isp_s = -3;
         bad.events[0].frame = 'sideways';
         delete bad.reserve;
+        bad.truth_model = 'exact';
       }
+      const alsoGood = structuredClone(good);
+      if (name === 'plan') alsoGood.truth_model = 'nbody';
       const { Ajv2020: Shim } = await standalone();
       const mine = new Shim({}).compile(schema);
       const ref = reference(schema);
-      for (const doc of [good, bad]) {
+      for (const doc of [good, alsoGood, bad]) {
         expect(mine(doc)).toBe(ref(doc));
         expect(strip(mine.errors)).toEqual(strip(ref.errors));
       }
+      expect(mine(alsoGood)).toBe(true);
       expect(mine(bad)).toBe(false);
+      if (name === 'plan') expect(strip(mine.errors)?.some((e) => e.p === '/truth_model' && e.k === 'enum')).toBe(true);
     });
   }
 });
