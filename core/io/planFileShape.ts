@@ -311,7 +311,7 @@ export const planFileShape = z
       .enum(['conic', 'finite', 'nbody'])
       .meta({
         description:
-          'The model the plan\'s burns are targeted in and its readouts show (the others are comparisons): "conic" (patched conics, every burn flown impulsive), "finite" (patched conics, each burn flown as its mode says) or "nbody" (restricted n-body gravity, each burn flown as its mode says). Absent: "conic".',
+          'The model the plan\'s burns are targeted in and its readouts show (the others are comparisons): "conic" (patched conics, each burn flown as its mode says), "finite" (patched conics, every burn flown finite at the vehicle\'s thrust) or "nbody" (restricted n-body gravity, each burn flown as its mode says). Absent: "conic".',
       })
       .optional(),
   })

@@ -10,3 +10,6 @@ export type { DispersionOptions, DispersionResult, SampleBlock } from './dispers
 export { nbodyStatesToEphemeris } from './states.ts';
 export { verifyNBody } from './verify.ts';
 export type { NBodyResult } from './verify.ts';
+export { freezePlan } from './correct.ts';
+export { NBodyModel, bPlane, bPlaneAxes, burnActions, conicStart, flyNBody } from './verify.ts';
+export type { BPlane, NBodyAction, NBodyModelOptions, NBodyState, FlyResult } from './verify.ts';

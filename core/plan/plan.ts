@@ -174,8 +174,9 @@ export interface ReservePolicy {
 /**
  * The model a plan's burns are targeted in (and its readouts show; the other models are
  * comparisons).
- * - 'conic': patched conics, every burn flown impulsive whatever its `mode`.
- * - 'finite': patched conics, each burn flown as its `mode` says (finite burns integrated).
+ * - 'conic': patched conics, each burn flown as its `mode` says (the evaluation as it always was).
+ * - 'finite': patched conics with every burn flown finite at the vehicle's thrust, whatever its
+ *   `mode` (gravity losses count).
  * - 'nbody': the restricted n-body model of core/dynamics, each burn flown as its `mode` says.
  */
 export type TruthModel = 'conic' | 'finite' | 'nbody';

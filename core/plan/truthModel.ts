@@ -13,8 +13,8 @@ export function planTruthModel(plan: Plan): TruthModel {
 }
 
 const LABELS: Readonly<Record<TruthModel, string>> = {
-  conic: 'patched conics (impulsive burns)',
-  finite: 'patched conics with finite burns',
+  conic: 'patched conics',
+  finite: 'patched conics, every burn finite',
   nbody: 'n-body',
 };
 

@@ -1,5 +1,6 @@
 /**
- * Front door of core/target. Targeting: goals × controls solved by bounded damped least squares over any flight function.
+ * Front door of core/target. Targeting: goals × controls solved by bounded damped least squares over any flight function;
+ * a whole plan targeted leg by leg in a model (conic, finite, n-body); a plan read in its truth model.
  * Other folders of core/ and the app import from here only.
  */
 export { DAMPING_LIMIT, DEFAULT_DAMPING, DEFAULT_MAX_FLIGHTS, DEFAULT_MAX_ITERATIONS, GRADIENT_TOL, STEP_TOL, solveTargets } from './solve.ts';
@@ -10,3 +11,13 @@ export { applyControls, burnControls } from './controls.ts';
 export type { BurnDvControl } from './controls.ts';
 export { goalsFromTarget, planGoalValue, soiEntryGoal } from './goals.ts';
 export type { PlanGoal, PlanGoalKind } from './goals.ts';
+export { DEFAULT_TARGET_TOLERANCES, finalGoals, planLegs } from './legs.ts';
+export type { Leg, TargetTolerances } from './legs.ts';
+export { measure } from './measure.ts';
+export type { BPlaneAxes, FlightGoal, MeasureKind } from './measure.ts';
+export { flyModel, freezeSchedule, isSchedule, planForModel } from './modelFlight.ts';
+export type { FlyModelOptions, ModelFlight } from './modelFlight.ts';
+export { targetPlan } from './targetPlan.ts';
+export type { ControlChange, FailureReason, LegReport, TargetOptions, TargetProgress, TargetResult } from './targetPlan.ts';
+export { truthReport } from './truth.ts';
+export type { TruthGoal, TruthOptions, TruthReport } from './truth.ts';

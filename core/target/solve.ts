@@ -29,7 +29,7 @@
  * failure; any other exception is a bug and propagates. A flight returning a non-finite goal value
  * counts as a failed flight. No NaN leaves the solver.
  */
-import { InputError, WaymarkError, dampedLeastSquares, requireFinite, requirePositive } from '../math/index.ts';
+import { InputError, SolverError, WaymarkError, dampedLeastSquares, requireFinite, requirePositive } from '../math/index.ts';
 
 /** A quantity the solver may vary. */
 export interface Control {
@@ -238,6 +238,7 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
     try {
       flight(xx, out);
     } catch (e) {
+      if (e instanceof SolverError && e.reason === 'cancelled') throw e; // a cancel ends the solve, it is no failed flight
       if (e instanceof WaymarkError) {
         flightError = e;
         return false;
@@ -271,6 +272,7 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
       try {
         jacobianFn(x, J);
       } catch (e) {
+        if (e instanceof SolverError && e.reason === 'cancelled') throw e; // a cancel ends the solve, it is no failed flight
         if (e instanceof WaymarkError) {
           flightError = e;
           return false;

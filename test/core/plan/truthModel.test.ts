@@ -24,8 +24,8 @@ describe('truth model', () => {
 
   it('gives each model distinct words for screens', () => {
     const words: Record<TruthModel, string> = {
-      conic: 'patched conics (impulsive burns)',
-      finite: 'patched conics with finite burns',
+      conic: 'patched conics',
+      finite: 'patched conics, every burn finite',
       nbody: 'n-body',
     };
     for (const m of TRUTH_MODELS) expect(truthModelLabel(m)).toBe(words[m]);

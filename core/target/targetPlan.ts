@@ -1,0 +1,257 @@
+/**
+ * Targeting a whole plan in a model: the loop from "this plan, roughly right" to "this plan
+ * arrives in the model it is flown in".
+ *
+ * 1. The reference flight: the plan's patched-conic evaluation as written (where its Lambert arcs
+ *    and solved burns aim). Its legs (legs.ts) give each leg's goals and the burns it varies.
+ * 2. The working plan: for 'nbody' a timed burn schedule (modelFlight.ts freezeSchedule); for the
+ *    patched-conic models the plan itself.
+ * 3. Leg by leg in order: the leg's burns become controls — their three Δv components in the
+ *    burn's own frame, starting from the vector the model's flight resolved — and the solver
+ *    (solve.ts, bounded Levenberg–Marquardt) meets the leg's goals in the model. n-body trials
+ *    start from the state just before the leg's first burn (the flight before it never changes).
+ * 4. The targeted plan: the controlled burns fixed at the solved vectors, `truthModel` set to the
+ *    model; its Δv, margin and goals re-flown for the report.
+ *
+ * Failures say which goal was not met and why, in the designer's words: no burn moves it (no
+ * sensitivity), a control at its bound, a burn short of propellant, the flight does not arrive.
+ */
+import { InputError, SolverError, type WaymarkError } from '../math/index.ts';
+import type { StarSystem } from '../system/index.ts';
+import type { BurnEvent, Plan, PlanResult, TruthModel } from '../plan/index.ts';
+import { planTruthModel } from '../plan/index.ts';
+import { evaluate } from '../conic/index.ts';
+import { NBodyModel, type NBodyModelOptions } from '../nbody/index.ts';
+import { applyControls, type BurnDvControl } from './controls.ts';
+import { DEFAULT_TARGET_TOLERANCES, planLegs, type Leg, type TargetTolerances } from './legs.ts';
+import { measure } from './measure.ts';
+import { flyModel, freezeSchedule, planForModel, type ModelFlight } from './modelFlight.ts';
+import { solveTargets, type GoalOutcome, type SolveStatus } from './solve.ts';
+
+export interface TargetProgress {
+  /** 1-based leg being targeted and the number of legs. */
+  leg: number;
+  legs: number;
+  legName: string;
+  /** Flights flown so far (all legs). */
+  flights: number;
+  /** Best residual norm of this leg so far (goal misses in tolerance units; ≤ 1 per goal is met). */
+  residual: number;
+}
+
+export interface TargetOptions extends NBodyModelOptions {
+  /** Model to target in; default the plan's truth model. */
+  model?: TruthModel;
+  /** How close each kind of goal must come (defaults DEFAULT_TARGET_TOLERANCES). */
+  tolerance?: Partial<TargetTolerances>;
+  /** Iterations per leg at most (default 30). */
+  maxIterations?: number;
+  /** Flights per leg at most (default 400). */
+  maxFlights?: number;
+  /** Largest change of any Δv component from its starting value, m/s (default unbounded). */
+  maxChange?: number;
+  onProgress?: (p: TargetProgress) => void;
+  signal?: { aborted: boolean };
+}
+
+export type FailureReason = 'no-sensitivity' | 'bound' | 'propellant' | 'no-arrival' | 'iterations';
+
+export interface ControlChange {
+  name: string;
+  burnId: string;
+  before: number;
+  after: number;
+  units: 'm/s';
+}
+
+export interface LegReport {
+  name: string;
+  kind: 'arrival' | 'final';
+  status: SolveStatus;
+  /** The solver's words: what was met, what was not and why. */
+  message: string;
+  goals: (GoalOutcome & { units?: string; unitScale?: number })[];
+  controls: ControlChange[];
+  iterations: number;
+  flights: number;
+  /** Residual norm after each accepted step (tolerance units). */
+  residuals: number[];
+  /** Why the leg failed, when it did. */
+  failure: FailureReason | null;
+}
+
+export interface TargetResult {
+  /** 'met': every leg's goals within tolerance. */
+  status: 'met' | 'not-met';
+  model: TruthModel;
+  /** The targeted plan (truthModel = model). */
+  plan: Plan;
+  legs: LegReport[];
+  iterations: number;
+  flights: number;
+  /** Total Δv of the plan flown in the model before and after, m/s; added = after − before. */
+  dv: { before: number; after: number; added: number };
+  margin: { before: number; after: number };
+  /** One paragraph for the designer. */
+  message: string;
+}
+
+const DEFAULT_MAX_ITERATIONS = 30;
+const DEFAULT_MAX_FLIGHTS = 400;
+/** Finite-difference step on Δv components, m/s: above the n-body integration's noise (rtol 1e-10 over a year ≈ tens of metres at arrival), far below any useful change. */
+const FD_STEP = 1e-3;
+/** Δv components are measured in steps of this size, m/s. */
+const DV_SCALE = 1;
+
+const AXES: Record<BurnEvent['frame'], [string, string, string]> = {
+  vnb: ['prograde', 'normal', 'binormal'],
+  rtn: ['radial', 'transverse', 'normal'],
+  inertial: ['x', 'y', 'z'],
+};
+
+function legControls(plan: Plan, flight: PlanResult, ids: string[], maxChange: number | undefined): { controls: BurnDvControl[]; x0: number[] } {
+  const controls: BurnDvControl[] = [];
+  const x0: number[] = [];
+  for (const id of ids) {
+    const burn = plan.events.find((e) => e.id === id);
+    if (burn?.type !== 'burn') continue;
+    const row = flight.budget.rows.find((r) => r.planEventId === id);
+    const start = row ? row.dvFrame : burn.dv;
+    for (const component of [0, 1, 2] as const) {
+      const v = start[component];
+      const c: BurnDvControl = {
+        kind: 'burn-dv',
+        burnId: id,
+        component,
+        name: `${burn.name} Δv ${AXES[burn.frame][component]}`,
+        scale: DV_SCALE,
+        step: FD_STEP,
+        units: 'm/s',
+      };
+      if (maxChange !== undefined) {
+        c.lower = v - maxChange;
+        c.upper = v + maxChange;
+      }
+      controls.push(c);
+      x0.push(v);
+    }
+  }
+  return { controls, x0 };
+}
+
+/** Why a leg that did not converge failed, from the solver's result and the last flight. */
+function failureOf(status: SolveStatus, atBound: string[], lastFlight: PlanResult | null, error: WaymarkError | undefined): FailureReason {
+  if (lastFlight?.budget.rows.some((r) => (r.dvMissing ?? 0) > 1e-6)) return 'propellant';
+  if (status === 'flight-failed' || (error && error instanceof SolverError && error.reason === 'no-solution')) return 'no-arrival';
+  if (atBound.length > 0) return 'bound';
+  if (status === 'stalled') return 'no-sensitivity';
+  return 'iterations';
+}
+
+const FAILURE_WORDS: Record<FailureReason, string> = {
+  'no-sensitivity': 'no change of the burns moves the goals any closer (the burns chosen cannot reach them, or a local minimum)',
+  bound: 'a burn is held at the largest change allowed',
+  propellant: 'a burn is short of propellant',
+  'no-arrival': 'the flight does not arrive where the goal is measured',
+  iterations: 'the iteration budget ran out',
+};
+
+/** Targets `plan` in a model (see the module comment). Throws SolverError('target', 'cancelled') when cancelled. */
+export function targetPlan(system: StarSystem, plan: Plan, options: TargetOptions = {}): TargetResult {
+  if (!plan || typeof plan !== 'object') throw new InputError('plan', 'must be a plan', plan);
+  const model = options.model ?? planTruthModel(plan);
+  if (model !== 'conic' && model !== 'finite' && model !== 'nbody') throw new InputError('model', 'must be "conic", "finite" or "nbody"', model);
+  const tol: TargetTolerances = { ...DEFAULT_TARGET_TOLERANCES, ...options.tolerance };
+  for (const [k, v] of Object.entries(tol)) {
+    if (!(typeof v === 'number' && v > 0 && Number.isFinite(v))) throw new InputError(`tolerance.${k}`, 'must be a finite number > 0', v);
+  }
+  const maxIterations = options.maxIterations ?? DEFAULT_MAX_ITERATIONS;
+  const maxFlights = options.maxFlights ?? DEFAULT_MAX_FLIGHTS;
+  const reference = evaluate(system, plan, { samplesPerSegment: 0 });
+  const legs = planLegs(system, plan, reference, tol);
+  const nbody = model === 'nbody' ? new NBodyModel(system, options) : undefined;
+  let work: Plan = model === 'nbody' ? freezeSchedule(system, plan, evaluate(system, plan, { samplesPerSegment: 0 })) : plan;
+  const before = evaluate(system, planForModel(work, model), { samplesPerSegment: 0 });
+  const reports: LegReport[] = [];
+  let flightsAll = 0;
+  let iterationsAll = 0;
+
+  legs.forEach((leg: Leg, li: number) => {
+    const current = evaluate(system, planForModel(work, model), { samplesPerSegment: 0 });
+    const { controls, x0 } = legControls(work, current, leg.burns, options.maxChange);
+    // n-body trials start just before the leg's first burn
+    let from: ReturnType<typeof startBefore> | undefined;
+    if (nbody) from = startBefore(system, work, current, leg.burns, nbody, options.signal);
+    let best = Number.POSITIVE_INFINITY;
+    let lastFlight: PlanResult | null = null;
+    const flight = (x: Float64Array, out: Float64Array) => {
+      const trial = applyControls(work, controls, x);
+      const f: ModelFlight = flyModel(system, trial, model, { probes: leg.probes, from: from ?? undefined, nbody, signal: options.signal });
+      lastFlight = f.conic;
+      flightsAll++;
+      let s = 0;
+      for (let i = 0; i < leg.goals.length; i++) {
+        out[i] = measure(system, f, leg.goals[i]);
+        const r = (out[i] - leg.goals[i].wanted) / leg.goals[i].tolerance;
+        s += r * r;
+      }
+      best = Math.min(best, Math.sqrt(s));
+      options.onProgress?.({ leg: li + 1, legs: legs.length, legName: leg.name, flights: flightsAll, residual: best });
+    };
+    const res = solveTargets(controls, leg.goals, flight, { x0, maxIterations, maxFlights });
+    iterationsAll += res.iterations;
+    if (res.history.length > 0 || res.status === 'converged') work = applyControls(work, controls, res.x);
+    const failure = res.status === 'converged' ? null : failureOf(res.status, res.atBound, lastFlight, res.error);
+    reports.push({
+      name: leg.name,
+      kind: leg.kind,
+      status: res.status,
+      message: failure ? `${res.message} Why: ${FAILURE_WORDS[failure]}.` : res.message,
+      goals: res.goals.map((g, i) => ({ ...g, units: leg.goals[i].units, unitScale: leg.goals[i].unitScale })),
+      controls: controls.map((c, j) => ({ name: c.name, burnId: c.burnId, before: x0[j], after: res.x[j], units: 'm/s' })),
+      iterations: res.iterations,
+      flights: res.flights,
+      residuals: res.history.map((h) => h.residualNorm),
+      failure,
+    });
+  });
+
+  const targeted: Plan = { ...work, truthModel: model };
+  const after = evaluate(system, planForModel(targeted, model), { samplesPerSegment: 0 });
+  const met = reports.every((r) => r.status === 'converged');
+  const dv = { before: before.budget.total, after: after.budget.total, added: after.budget.total - before.budget.total };
+  const failed = reports.find((r) => r.status !== 'converged');
+  const message = met
+    ? `Every goal met in the ${modelWords(model)} model: ${reports.length} leg${reports.length === 1 ? '' : 's'}, ${iterationsAll} iterations, ${flightsAll} flights; Δv ${signed(dv.added)} m/s.`
+    : `Not every goal met in the ${modelWords(model)} model: ${failed?.name}: ${failed?.message}`;
+  return {
+    status: met ? 'met' : 'not-met',
+    model,
+    plan: targeted,
+    legs: reports,
+    iterations: iterationsAll,
+    flights: flightsAll,
+    dv,
+    margin: { before: before.budget.margin, after: after.budget.margin },
+    message,
+  };
+}
+
+function modelWords(m: TruthModel): string {
+  return m === 'nbody' ? 'n-body' : m === 'finite' ? 'finite-burn' : 'patched-conic';
+}
+
+function signed(x: number): string {
+  return `${x >= 0 ? '+' : '−'}${Math.abs(x).toFixed(1)}`;
+}
+
+/** The n-body state just before the first of `burns` (its start, for a finite burn), or undefined when it is the plan's start. */
+function startBefore(system: StarSystem, work: Plan, current: PlanResult, burns: string[], nbody: NBodyModel, signal?: { aborted: boolean }) {
+  let t = Number.POSITIVE_INFINITY;
+  for (const id of burns) {
+    const row = current.budget.rows.find((r) => r.planEventId === id);
+    if (row) t = Math.min(t, row.tStart - 1); // a second early: the burn's own start is never cut off by rounding
+  }
+  if (!Number.isFinite(t) || t <= current.t0) return undefined;
+  return flyModel(system, work, 'nbody', { nbody, signal, checkpoints: [t] }).checkpoint(t) ?? undefined;
+}

@@ -1,0 +1,157 @@
+/**
+ * A plan read in its truth model (or any model, as a comparison): the flight, the budget, the
+ * final orbit about the target and whether the target is reached, judged with the plan's own
+ * tolerances, plus the conditions that fail in words a designer understands.
+ *
+ * - 'conic' / 'finite': the patched-conic evaluation (every burn finite for 'finite').
+ * - 'nbody': the plan as a timed burn schedule (a plan targeted in n-body already is one; any other
+ *   plan is flown as the schedule of its patched-conic flight, with a note) flown through the
+ *   restricted n-body model by core/nbody verifyNBody; the final orbit is the osculating orbit
+ *   about the target at the end of the flight. The budget is the schedule's (Δv per burn is the
+ *   burn's fixed vector, so it is the same in every model for impulsive burns).
+ */
+import type { StarSystem } from '../system/index.ts';
+import { findBodyIndex } from '../system/index.ts';
+import type { Budget, Plan, PlanResult, TruthModel } from '../plan/index.ts';
+import { planTruthModel, truthModelLabel } from '../plan/index.ts';
+import { evaluate } from '../conic/index.ts';
+import { verifyNBody, type NBodyModelOptions, type NBodyResult } from '../nbody/index.ts';
+import { freezeSchedule, isSchedule, planForModel } from './modelFlight.ts';
+
+const DEG = Math.PI / 180;
+
+export interface TruthGoal {
+  name: string;
+  /** SI values; shown divided by unitScale in `units`. */
+  value: number | null;
+  wanted: number;
+  tolerance: number;
+  met: boolean;
+  units: string;
+  unitScale: number;
+}
+
+export interface TruthReport {
+  model: TruthModel;
+  /** Words for screens: "n-body". */
+  label: string;
+  /** The plan as flown (for 'nbody' the timed schedule). */
+  plan: Plan;
+  /** Patched-conic evaluation of the plan as the model flies it (for 'nbody': of the schedule, for times, masses and the budget). */
+  conic: PlanResult;
+  /** The n-body flight ('nbody' only). */
+  nbody: NBodyResult | null;
+  budget: Budget;
+  /** Final orbit about the target at the end of the flight, or null (no target, the ship ends elsewhere, an impact). */
+  achieved: { periapsisAltitude: number; apoapsisAltitude: number | null; e: number; i: number } | null;
+  /** The plan's target, judged with its own tolerances (empty without a target). */
+  goals: TruthGoal[];
+  /** Every target goal met (false without a target). */
+  reached: boolean;
+  /** The margin holds (≥ 0). */
+  marginHolds: boolean;
+  /** Each condition that fails, in words ("margin −54.2 m/s is below zero"). */
+  failures: string[];
+  notes: string[];
+}
+
+export interface TruthOptions extends NBodyModelOptions {
+  /** Model to read the plan in (default its truth model). */
+  model?: TruthModel;
+  /** Drawing samples (conic: per segment, default 96; n-body: on/off, default on). */
+  samples?: boolean;
+  onProgress?: (done: number, total: number) => void;
+  signal?: { aborted: boolean };
+}
+
+/** The plan read in a model (see the module comment). */
+export function truthReport(system: StarSystem, plan: Plan, options: TruthOptions = {}): TruthReport {
+  const model = options.model ?? planTruthModel(plan);
+  const samples = options.samples ?? true;
+  const notes: string[] = [];
+  let flown = planForModel(plan, model);
+  let nbody: NBodyResult | null = null;
+  if (model === 'nbody' && !isSchedule(flown)) {
+    flown = freezeSchedule(system, flown);
+    notes.push('flown in n-body as the burn schedule of its patched-conic flight (target the plan in n-body to make it arrive there)');
+  }
+  const conic = evaluate(system, flown, samples ? {} : { samplesPerSegment: 0 });
+  let achieved: TruthReport['achieved'] = null;
+  if (model === 'nbody') {
+    nbody = verifyNBody(system, flown, conic, { ...options, samples, onProgress: options.onProgress, signal: options.signal });
+    achieved = nbody.final?.nbody ?? null;
+    notes.push(...nbody.notes.filter((n) => !n.includes('no arrival comparison')));
+  } else {
+    achieved = conic.target?.achieved ?? null;
+  }
+  const goals: TruthGoal[] = [];
+  const t = plan.target;
+  const k = t ? findBodyIndex(system, t.body) : -1;
+  const name = k >= 0 ? system.bodies[k].name : (t?.body ?? '');
+  if (t) {
+    const alt = (label: string, value: number | null, wanted: number) =>
+      goals.push({
+        name: `${label} about ${name}`,
+        value,
+        wanted,
+        tolerance: t.tolerance.periapsisAltitude,
+        met: value !== null && Math.abs(value - wanted) <= t.tolerance.periapsisAltitude,
+        units: 'km',
+        unitScale: 1000,
+      });
+    alt('periapsis altitude', achieved ? achieved.periapsisAltitude : null, t.periapsisAltitude);
+    if (t.apoapsisAltitude !== null) alt('apoapsis altitude', achieved ? achieved.apoapsisAltitude : null, t.apoapsisAltitude);
+    if (t.e !== null) {
+      const v = achieved ? achieved.e : null;
+      goals.push({
+        name: `eccentricity about ${name}`,
+        value: v,
+        wanted: t.e,
+        tolerance: t.tolerance.e,
+        met: v !== null && Math.abs(v - t.e) <= t.tolerance.e,
+        units: '',
+        unitScale: 1,
+      });
+    }
+    if (t.i !== null) {
+      const v = achieved ? achieved.i : null;
+      goals.push({
+        name: `inclination about ${name}`,
+        value: v,
+        wanted: t.i,
+        tolerance: t.tolerance.i,
+        met: v !== null && Math.abs(v - t.i) <= t.tolerance.i,
+        units: '°',
+        unitScale: DEG,
+      });
+    }
+  }
+  const failures: string[] = [];
+  const budget = conic.budget;
+  const marginHolds = budget.margin >= 0;
+  if (!marginHolds) failures.push(`margin ${budget.margin.toFixed(1)} m/s is below zero`);
+  if (t && !achieved) failures.push(`the ship does not end in orbit about ${name}${nbody?.status === 'impact' ? ' (it hits a body first)' : ''}`);
+  for (const g of goals) {
+    if (g.met) continue;
+    if (g.value === null) {
+      if (achieved) failures.push(`${g.name}: none, the orbit is open`);
+      continue;
+    }
+    const show = (x: number) => `${(x / g.unitScale).toFixed(g.unitScale === 1 ? 4 : 3)}${g.units ? ` ${g.units}` : ''}`;
+    failures.push(`${g.name} is ${show(g.value)}, wanted ${show(g.wanted)} ± ${show(g.tolerance)}`);
+  }
+  return {
+    model,
+    label: truthModelLabel(model),
+    plan: flown,
+    conic,
+    nbody,
+    budget,
+    achieved,
+    goals,
+    reached: t !== null && achieved !== null && goals.every((g) => g.met),
+    marginHolds,
+    failures,
+    notes,
+  };
+}
