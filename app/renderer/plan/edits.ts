@@ -2,7 +2,20 @@
  * Edits of a plan as pure functions Plan → Plan (a new object; the input is never changed).
  * The editor calls them through the document store, which records each on the undo history.
  */
-import type { BurnEvent, CoastEvent, Plan, PlanEvent, PlanStart, PlanTarget, ReservePolicy, Stage, StageEvent, Vehicle } from '../../../core/plan/index.ts';
+import type {
+  BurnEvent,
+  CoastEvent,
+  Plan,
+  PlanEvent,
+  PlanStart,
+  PlanTarget,
+  ReservePolicy,
+  Stage,
+  StageEvent,
+  TruthModel,
+  Vehicle,
+} from '../../../core/plan/index.ts';
+import { planTruthModel } from '../../../core/plan/index.ts';
 
 function clone(plan: Plan): Plan {
   return structuredClone(plan);
@@ -148,6 +161,14 @@ export function setTarget(plan: Plan, target: PlanTarget | null): Plan {
 export function setPlanInfo(plan: Plan, patch: Partial<Pick<Plan, 'name' | 'description' | 'end'>>): Plan {
   const next = clone(plan);
   Object.assign(next, patch);
+  return next;
+}
+
+/** Sets the model the plan's burns are targeted in and its readouts show; the same model is a no-op (no undo step). */
+export function setTruthModel(plan: Plan, model: TruthModel): Plan {
+  if (planTruthModel(plan) === model) return plan;
+  const next = clone(plan);
+  next.truthModel = model;
   return next;
 }
 

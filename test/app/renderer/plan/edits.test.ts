@@ -41,6 +41,16 @@ describe('plan edits', () => {
     expect(next.vehicle.stages.map((s) => s.name)).toEqual([...plan.vehicle.stages].reverse().map((s) => s.name));
     expect(edits.removeStage(plan, 1).vehicle.stages).toHaveLength(plan.vehicle.stages.length - 1);
   });
+  it('sets the truth model; the model the plan already has is a no-op (no undo step)', () => {
+    expect(plan.truthModel).toBeUndefined();
+    expect(edits.setTruthModel(plan, 'conic')).toBe(plan);
+    const nbody = edits.setTruthModel(plan, 'nbody');
+    expect(nbody.truthModel).toBe('nbody');
+    expect(plan.truthModel).toBeUndefined();
+    expect(edits.setTruthModel(nbody, 'nbody')).toBe(nbody);
+    expect(edits.setTruthModel(nbody, 'finite').truthModel).toBe('finite');
+    expect(edits.setTruthModel(nbody, 'conic').truthModel).toBe('conic');
+  });
 });
 
 describe('field paths', () => {
