@@ -3,13 +3,16 @@
  * burns before them (and after the previous leg's goals), so a later leg never undoes an earlier
  * one.
  *
- * The legs come from the reference flight (the plan's patched-conic evaluation as written: the
- * designer's intent, where its Lambert arcs aim). A leg ends at an arrival: the ship enters a
+ * The legs come from the reference flight (the plan's patched-conic evaluation with impulsive
+ * burns: the designer's intent, where its Lambert arcs aim). A leg ends at an arrival: the ship enters a
  * body's sphere of influence and then burns there (a capture or a departure onward). The goals of
  * an arrival leg are that arrival as the reference flies it: its B-plane point (B·T, B·R on the
- * reference hyperbola's axes, which fixes the approach's periapsis altitude and inclination) and
- * its periapsis time, both read from the approach conic halfway from the SOI entry to the periapsis (so burns timed after it fire where planned). The last leg's goals are the
- * plan's target orbit at the end of the plan; an eccentricity goal on a closed orbit is aimed as the
+ * reference hyperbola's axes, which fixes the approach's periapsis altitude and inclination) read
+ * from the approach conic halfway from the SOI entry to the periapsis, and — when the arrival time
+ * is held — its periapsis time. Not holding it is cheaper (the demo's n-body arrival comes 12.5 h
+ * early; holding the date costs tens of m/s more); a timed schedule is then shifted by the
+ * difference (targetPlan), so burns timed after the arrival still fire where planned. The last
+ * leg's goals are the plan's target orbit at the end of the plan; an eccentricity goal on a closed orbit is aimed as the
  * apoapsis altitude it gives (smooth where the eccentricity is not, e.g. at a circular target).
  *
  * Tolerances: the caller's (TargetTolerances); a B-plane tolerance is the altitude tolerance
@@ -49,6 +52,8 @@ export interface Leg {
   /** Ids of the burns whose Δv the leg varies, in plan order. */
   burns: string[];
   goals: FlightGoal[];
+  /** Arrival legs: the periapsis time there as a goal (among `goals` only when the arrival time is held). */
+  timeGoal: FlightGoal | null;
   /** Probe times the goals read (arrival legs: the reference periapsis time). */
   probes: number[];
   /** The reference arrival (arrival legs): periapsis time, altitude, inclination. */
@@ -69,7 +74,7 @@ function relativeTo(system: StarSystem, result: PlanResult, k: number, t: number
 }
 
 /** The legs of `plan` from its reference flight (see the module comment). */
-export function planLegs(system: StarSystem, plan: Plan, reference: PlanResult, tol: TargetTolerances = DEFAULT_TARGET_TOLERANCES): Leg[] {
+export function planLegs(system: StarSystem, plan: Plan, reference: PlanResult, tol: TargetTolerances = DEFAULT_TARGET_TOLERANCES, arrivalTime = false): Leg[] {
   const rows = new Map(reference.budget.rows.map((r) => [r.planEventId, r]));
   const burnCentral = new Map<string, number>();
   for (const e of reference.events) if ((e.kind === 'burn' || e.kind === 'burn-start') && e.planEventId !== null) burnCentral.set(e.planEventId, e.central);
@@ -86,7 +91,7 @@ export function planLegs(system: StarSystem, plan: Plan, reference: PlanResult, 
     const tb = row ? row.tStart : Number.POSITIVE_INFINITY;
     const entry = c !== here && c > 0 ? entries.find((e) => e.central === c && e.t > since && e.t <= tb) : undefined;
     if (entry && current.length > 0) {
-      const leg = arrivalLeg(system, reference, c, entry.t, tb, current, tol);
+      const leg = arrivalLeg(system, reference, c, entry.t, tb, current, tol, arrivalTime);
       if (leg) legs.push(leg);
       else if (legs.length > 0) legs[legs.length - 1].burns.push(...current);
       current = [];
@@ -101,7 +106,16 @@ export function planLegs(system: StarSystem, plan: Plan, reference: PlanResult, 
   return legs;
 }
 
-function arrivalLeg(system: StarSystem, ref: PlanResult, k: number, tEntry: number, tBurn: number, burns: string[], tol: TargetTolerances): Leg | null {
+function arrivalLeg(
+  system: StarSystem,
+  ref: PlanResult,
+  k: number,
+  tEntry: number,
+  tBurn: number,
+  burns: string[],
+  tol: TargetTolerances,
+  arrivalTime: boolean,
+): Leg | null {
   const body = system.bodies[k];
   const peri = ref.events.find((e) => e.kind === 'periapsis' && e.central === k && e.t >= tEntry && e.t <= tBurn + 1e-6);
   // probed halfway from the SOI entry to the periapsis (or the burn): on the approach conic, well
@@ -117,21 +131,22 @@ function arrivalLeg(system: StarSystem, ref: PlanResult, k: number, tEntry: numb
   const name = `arrival at ${body.name}`;
   const T: [number, number, number] = [axes.T[0], axes.T[1], axes.T[2]];
   const R: [number, number, number] = [axes.R[0], axes.R[1], axes.R[2]];
+  const timeGoal: FlightGoal = {
+    kind: 'arrival-periapsis-time',
+    body: k,
+    at: t,
+    name: `periapsis time at ${body.name}`,
+    wanted: info.n > 0 ? t - info.M / info.n : t,
+    tolerance: tol.time,
+    units: 'days',
+    unitScale: DAY,
+  };
   const goals: FlightGoal[] = [
     { kind: 'arrival-bt', body: k, at: t, axes: { T, R }, name: `B·T at ${body.name}`, wanted: b.bt, tolerance: bTol, units: 'km', unitScale: 1000 },
     { kind: 'arrival-br', body: k, at: t, axes: { T, R }, name: `B·R at ${body.name}`, wanted: b.br, tolerance: bTol, units: 'km', unitScale: 1000 },
-    {
-      kind: 'arrival-periapsis-time',
-      body: k,
-      at: t,
-      name: `periapsis time at ${body.name}`,
-      wanted: info.n > 0 ? t - info.M / info.n : t,
-      tolerance: tol.time,
-      units: 'days',
-      unitScale: DAY,
-    },
   ];
-  return { name, kind: 'arrival', body: k, burns: [...burns], goals, probes: [t], reference: { t, altitude: info.rp - body.radius, i: info.i } };
+  if (arrivalTime) goals.push(timeGoal);
+  return { name, kind: 'arrival', body: k, burns: [...burns], goals, timeGoal, probes: [t], reference: { t, altitude: info.rp - body.radius, i: info.i } };
 }
 
 /** The final leg's goals: the plan's target orbit (none without a target). */
@@ -142,7 +157,7 @@ function finalLeg(system: StarSystem, plan: Plan, burns: string[], tol: TargetTo
   if (k < 0) throw new InputError('plan.target.body', 'must name a body of the system', t.body);
   const body = system.bodies[k];
   const goals: FlightGoal[] = finalGoals(plan, k, body.name, body.radius, tol);
-  return { name: `final orbit about ${body.name}`, kind: 'final', body: k, burns: [...burns], goals, probes: [], reference: null };
+  return { name: `final orbit about ${body.name}`, kind: 'final', body: k, burns: [...burns], goals, timeGoal: null, probes: [], reference: null };
 }
 
 /** The target orbit as goals on the final osculating orbit about body k. */

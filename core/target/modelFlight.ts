@@ -76,6 +76,8 @@ export interface FlyModelOptions extends NBodyModelOptions {
   from?: NBodyState;
   /** n-body: times at which to keep the flight's own state (checkpoint). */
   checkpoints?: readonly number[];
+  /** n-body: stop the flight here (an arrival leg needs nothing after its probe), s. */
+  until?: number;
   /** n-body: reuse this model (its tolerances) across flights. */
   nbody?: NBodyModel;
   signal?: { aborted: boolean };
@@ -127,7 +129,14 @@ export function flyModel(system: StarSystem, plan: Plan, model: TruthModel, opti
   probes.forEach((t, j) => actions.push({ kind: 'checkpoint', t, id: `@probe${j}` }));
   const keep = (options.checkpoints ?? []).filter((t) => t >= start.t && t <= conic.t1);
   keep.forEach((t, j) => actions.push({ kind: 'checkpoint', t, id: `@keep${j}` }));
-  const fly = flyNBody(nb, start, actions, conic.t1, { samples: false, signal: options.signal });
+  const tEnd = options.until !== undefined ? Math.max(start.t, Math.min(conic.t1, options.until)) : conic.t1;
+  const fly = flyNBody(
+    nb,
+    start,
+    actions.filter((a) => a.t <= tEnd),
+    tEnd,
+    { samples: false, signal: options.signal },
+  );
   const end = fly.state;
   const rel = (s: NBodyState, k: number, out6: Float64Array) => {
     bodyState(system, s.origin, s.t, rel6, k);

@@ -2,8 +2,8 @@
  * Targeting a whole plan in a model: the loop from "this plan, roughly right" to "this plan
  * arrives in the model it is flown in".
  *
- * 1. The reference flight: the plan's patched-conic evaluation as written (where its Lambert arcs
- *    and solved burns aim). Its legs (legs.ts) give each leg's goals and the burns it varies.
+ * 1. The reference flight: the plan's patched-conic evaluation with every burn impulsive (where its
+ *    Lambert arcs and solved burns aim: the designer's intent). Its legs (legs.ts) give each leg's goals and the burns it varies.
  * 2. The working plan: for 'nbody' a timed burn schedule (modelFlight.ts freezeSchedule); for the
  *    patched-conic models the plan itself.
  * 3. Leg by leg in order: the leg's burns become controls — their three Δv components in the
@@ -48,6 +48,8 @@ export interface TargetOptions extends NBodyModelOptions {
   maxIterations?: number;
   /** Flights per leg at most (default 400). */
   maxFlights?: number;
+  /** Hold each arrival's periapsis time as the reference flies it (default false: the arrival may come earlier or later, and a timed schedule is shifted to match). */
+  arrivalTime?: boolean;
   /** Largest change of any Δv component from its starting value, m/s (default unbounded). */
   maxChange?: number;
   onProgress?: (p: TargetProgress) => void;
@@ -74,6 +76,8 @@ export interface LegReport {
   controls: ControlChange[];
   iterations: number;
   flights: number;
+  /** n-body arrival legs: how far the later schedule moved with the arrival's periapsis time, s (0 otherwise). */
+  shift: number;
   /** Residual norm after each accepted step (tolerance units). */
   residuals: number[];
   /** Why the leg failed, when it did. */
@@ -167,8 +171,9 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
   }
   const maxIterations = options.maxIterations ?? DEFAULT_MAX_ITERATIONS;
   const maxFlights = options.maxFlights ?? DEFAULT_MAX_FLIGHTS;
-  const reference = evaluate(system, plan, { samplesPerSegment: 0 });
-  const legs = planLegs(system, plan, reference, tol);
+  // the designer's intent: the plan with every burn impulsive (its solved burns aim there)
+  const reference = evaluate(system, impulsive(plan), { samplesPerSegment: 0 });
+  const legs = planLegs(system, plan, reference, tol, options.arrivalTime ?? false);
   const nbody = model === 'nbody' ? new NBodyModel(system, options) : undefined;
   let work: Plan = model === 'nbody' ? freezeSchedule(system, plan, evaluate(system, plan, { samplesPerSegment: 0 })) : plan;
   const before = evaluate(system, planForModel(work, model), { samplesPerSegment: 0 });
@@ -182,11 +187,13 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
     // n-body trials start just before the leg's first burn
     let from: ReturnType<typeof startBefore> | undefined;
     if (nbody) from = startBefore(system, work, current, leg.burns, nbody, options.signal);
+    // an arrival leg's goals are read at its probe: nothing after it needs flying
+    const until = leg.kind === 'arrival' && leg.probes.length > 0 ? Math.max(...leg.probes) : undefined;
     let best = Number.POSITIVE_INFINITY;
     let lastFlight: PlanResult | null = null;
     const flight = (x: Float64Array, out: Float64Array) => {
       const trial = applyControls(work, controls, x);
-      const f: ModelFlight = flyModel(system, trial, model, { probes: leg.probes, from: from ?? undefined, nbody, signal: options.signal });
+      const f: ModelFlight = flyModel(system, trial, model, { probes: leg.probes, from: from ?? undefined, nbody, signal: options.signal, until });
       lastFlight = f.conic;
       flightsAll++;
       let s = 0;
@@ -201,6 +208,14 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
     const res = solveTargets(controls, leg.goals, flight, { x0, maxIterations, maxFlights });
     iterationsAll += res.iterations;
     if (res.history.length > 0 || res.status === 'converged') work = applyControls(work, controls, res.x);
+    // a timed schedule follows the arrival: later burns and timed coasts move with its periapsis time
+    let shift = 0;
+    if (model === 'nbody' && leg.timeGoal && !leg.goals.includes(leg.timeGoal) && res.status === 'converged') {
+      const f = flyModel(system, work, model, { probes: leg.probes, from, nbody, signal: options.signal, until });
+      flightsAll++;
+      shift = measure(system, f, leg.timeGoal) - leg.timeGoal.wanted;
+      work = shiftAfter(work, leg.burns[leg.burns.length - 1], shift);
+    }
     const failure = res.status === 'converged' ? null : failureOf(res.status, res.atBound, lastFlight, res.error);
     reports.push({
       name: leg.name,
@@ -211,6 +226,7 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
       controls: controls.map((c, j) => ({ name: c.name, burnId: c.burnId, before: x0[j], after: res.x[j], units: 'm/s' })),
       iterations: res.iterations,
       flights: res.flights,
+      shift,
       residuals: res.history.map((h) => h.residualNorm),
       failure,
     });
@@ -235,6 +251,24 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
     margin: { before: before.budget.margin, after: after.budget.margin },
     message,
   };
+}
+
+/** The plan with every timed burn and timed coast after burn `afterId` moved by dt seconds (and its end, if set). */
+function shiftAfter(plan: Plan, afterId: string, dt: number): Plan {
+  if (dt === 0) return plan;
+  const k = plan.events.findIndex((e) => e.id === afterId);
+  const events = plan.events.map((e, j) => {
+    if (j <= k) return e;
+    if (e.type === 'burn' && e.t !== null) return { ...e, t: e.t + dt };
+    if (e.type === 'coast' && e.until.kind === 'time') return { ...e, until: { kind: 'time' as const, t: e.until.t + dt } };
+    return e;
+  });
+  return { ...plan, events, end: plan.end === null ? null : plan.end + dt };
+}
+
+/** The plan with every burn impulsive. */
+function impulsive(plan: Plan): Plan {
+  return { ...plan, events: plan.events.map((e) => (e.type === 'burn' && e.mode !== 'impulsive' ? { ...e, mode: 'impulsive' as const } : e)) };
 }
 
 function modelWords(m: TruthModel): string {
