@@ -85,6 +85,12 @@ export interface SolveOptions {
   maxFlights?: number;
   /** Initial damping relative to the largest diagonal entry of JᵀJ; default DEFAULT_DAMPING. */
   damping?: number;
+  /**
+   * 'broyden': after the first differenced Jacobian, update it by Broyden's rank-one secant formula
+   * at each accepted step (one flight per iteration instead of n + 1), differencing afresh only when
+   * a step is rejected or the updated Jacobian sees no way down; default 'difference' (every iteration).
+   */
+  jacobianUpdate?: 'difference' | 'broyden';
 }
 
 /** One row of the iteration history. */
@@ -201,6 +207,10 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
   const tau = options.damping ?? DEFAULT_DAMPING;
   requirePositive('damping', tau);
   const jacobianFn = options.jacobian;
+  const broyden = options.jacobianUpdate === 'broyden';
+  if (options.jacobianUpdate !== undefined && options.jacobianUpdate !== 'difference' && !broyden) {
+    throw new InputError('jacobianUpdate', "must be 'difference' or 'broyden'", options.jacobianUpdate);
+  }
   if (jacobianFn !== undefined && typeof jacobianFn !== 'function') throw new InputError('jacobian', 'must be a function', jacobianFn);
 
   // the solve's own scratch, allocated once (per step only the history row and dampedLeastSquares' small QR work arrays)
@@ -221,6 +231,8 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
   const r = new Float64Array(m); // scaled residuals at x
   const rt = new Float64Array(m);
   const J = new Float64Array(m * n); // ∂r/∂z
+  const Jb = new Float64Array(m * n); // the Jacobian kept between iterations ('broyden')
+  let fresh = false; // Jb is a differenced Jacobian at x, not a secant update
   const negR = new Float64Array(m);
   const p = new Float64Array(n);
   const grad = new Float64Array(n); // Jᵀr
@@ -366,11 +378,20 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
   let lambda = -1;
   let nu = 2;
   let lambda0 = 0;
+  let stale = false; // Jb has been updated by a secant step since it was differenced
   while (!allMet(r)) {
     if (iterations >= maxIterations) return finish('max-iterations', `No solution within ${maxIterations} iterations.`);
     if (flights >= maxFlights) return finish('max-iterations', `No solution within ${maxFlights} flights.`);
     iterations++;
-    if (!jacobian()) return finish('flight-failed', `The flight fails while measuring how the goals respond to the controls: ${flightError?.message}.`);
+    if (!broyden || !fresh) {
+      if (!jacobian()) return finish('flight-failed', `The flight fails while measuring how the goals respond to the controls: ${flightError?.message}.`);
+      if (broyden) Jb.set(J);
+      fresh = true;
+      stale = false;
+    } else {
+      J.set(Jb);
+    }
+    const secant = broyden && stale;
     // gradient of ½|r|² and the controls held at a bound that the descent direction pushes outward
     let gradMax = 0;
     let maxDiag = 0;
@@ -389,6 +410,11 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
         gradMax = Math.max(gradMax, Math.abs(s));
         maxDiag = Math.max(maxDiag, d);
       }
+    }
+    if (secant && (free === 0 || !(gradMax > GRADIENT_TOL) || !(maxDiag > 0))) {
+      fresh = false; // judge a stall only on a differenced Jacobian
+      stale = false;
+      continue;
     }
     if (free === 0) return finish('stalled', 'Every control is held at a bound the solution wants to cross.');
     if (!(gradMax > GRADIENT_TOL) || !(maxDiag > 0)) {
@@ -432,7 +458,28 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
       const ok = fly(xt, gt);
       const costT = ok ? residuals(gt, rt) : Number.POSITIVE_INFINITY;
       const used = lambda;
+      if (secant && !(ok && costT < cost)) {
+        // a secant Jacobian that leads nowhere: difference afresh at x before raising the damping
+        fresh = false;
+        stale = false;
+        break;
+      }
       if (ok && costT < cost) {
+        if (broyden) {
+          // Broyden's update of the kept Jacobian (Madsen, Nielsen & Tingleff 2004, §3.4):
+          // Jb ← Jb + (Δr − Jb·p) pᵀ / (pᵀp), p the step taken (scaled units)
+          let pp = 0;
+          for (let j = 0; j < n; j++) pp += p[j] * p[j];
+          if (pp > 0) {
+            for (let i = 0; i < m; i++) {
+              let jp = 0;
+              for (let j = 0; j < n; j++) jp += Jb[i * n + j] * p[j];
+              const u = (rt[i] - r[i] - jp) / pp;
+              for (let j = 0; j < n; j++) Jb[i * n + j] += u * p[j];
+            }
+          }
+          stale = true;
+        }
         const rho = pred > 0 ? (0.5 * (cost - costT)) / pred : 1;
         lambda *= Math.max(1 / 3, 1 - (2 * rho - 1) ** 3);
         nu = 2;

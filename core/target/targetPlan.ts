@@ -205,7 +205,7 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
       best = Math.min(best, Math.sqrt(s));
       options.onProgress?.({ leg: li + 1, legs: legs.length, legName: leg.name, flights: flightsAll, residual: best });
     };
-    const res = solveTargets(controls, leg.goals, flight, { x0, maxIterations, maxFlights });
+    const res = solveTargets(controls, leg.goals, flight, { x0, maxIterations, maxFlights, jacobianUpdate: model === 'nbody' ? 'broyden' : 'difference' });
     iterationsAll += res.iterations;
     if (res.history.length > 0 || res.status === 'converged') work = applyControls(work, controls, res.x);
     // a timed schedule follows the arrival: later burns and timed coasts move with its periapsis time

@@ -52,6 +52,22 @@ describe('solveTargets: analytic problems with known roots', () => {
     }
   });
 
+  it("with Broyden's secant updates reaches the same root of Rosenbrock's system, differencing only when a secant step fails", () => {
+    const plain = solveTargets(free(['x1', 'x2']), zeroGoals(1e-10), rosenbrock, { x0: [-1.2, 1] });
+    const res = solveTargets(free(['x1', 'x2']), zeroGoals(1e-10), rosenbrock, { x0: [-1.2, 1], jacobianUpdate: 'broyden' });
+    expect(res.status).toBe('converged');
+    // the goal tolerances themselves, as above
+    expect(Math.abs(res.x[0] - 1)).toBeLessThanOrEqual(1e-10);
+    expect(Math.abs(res.x[1] - 1)).toBeLessThanOrEqual(2.1e-10);
+    for (let k = 1; k < res.history.length; k++) expect(res.history[k].residualNorm).toBeLessThan(res.history[k - 1].residualNorm);
+    // a secant iteration costs one flight, a differenced one n + 1 = 3: some iterations must have been secant ones
+    expect(res.flights).toBeLessThan(1 + res.iterations * 3);
+    expect(plain.status).toBe('converged');
+    expect(() => solveTargets(free(['x1', 'x2']), zeroGoals(1e-10), rosenbrock, { x0: [-1.2, 1], jacobianUpdate: 'secant' as never })).toThrow(
+      /jacobianUpdate/,
+    );
+  });
+
   it('with a supplied Jacobian flies once per trial only (no differencing)', () => {
     const res = solveTargets(free(['x1', 'x2']), zeroGoals(1e-10), rosenbrock, { x0: [-1.2, 1], jacobian: rosenbrockJ });
     expect(res.status).toBe('converged');
