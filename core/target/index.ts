@@ -7,8 +7,8 @@ export { DAMPING_LIMIT, DEFAULT_DAMPING, DEFAULT_MAX_FLIGHTS, DEFAULT_MAX_ITERAT
 export type { Control, Flight, Goal, GoalOutcome, JacobianFn, SolveIteration, SolveOptions, SolveResult, SolveStatus } from './solve.ts';
 export { conicFlight } from './conicFlight.ts';
 export type { ConicFlightOptions } from './conicFlight.ts';
-export { applyControls, burnControls } from './controls.ts';
-export type { BurnDvControl } from './controls.ts';
+export { applyControls, burnControls, timeControl } from './controls.ts';
+export type { BurnDvControl, EventTimeControl, PlanControl } from './controls.ts';
 export { goalsFromTarget, planGoalValue, soiEntryGoal } from './goals.ts';
 export type { PlanGoal, PlanGoalKind } from './goals.ts';
 export { DEFAULT_TARGET_TOLERANCES, finalGoals, planLegs } from './legs.ts';

@@ -22,7 +22,7 @@ import type { BurnEvent, Plan, PlanResult, TruthModel } from '../plan/index.ts';
 import { planTruthModel } from '../plan/index.ts';
 import { evaluate } from '../conic/index.ts';
 import { NBodyModel, type NBodyModelOptions } from '../nbody/index.ts';
-import { applyControls, type BurnDvControl } from './controls.ts';
+import { applyControls, timeControl, type BurnDvControl, type EventTimeControl, type PlanControl } from './controls.ts';
 import { DEFAULT_TARGET_TOLERANCES, planLegs, type Leg, type TargetTolerances } from './legs.ts';
 import { measure } from './measure.ts';
 import { flyModel, freezeSchedule, planForModel, type ModelFlight } from './modelFlight.ts';
@@ -50,6 +50,11 @@ export interface TargetOptions extends NBodyModelOptions {
   maxFlights?: number;
   /** Hold each arrival's periapsis time as the reference flies it (default false: the arrival may come earlier or later, and a timed schedule is shifted to match). */
   arrivalTime?: boolean;
+  /**
+   * Timing controls added to the leg they act on (the first leg with a burn at or after the event):
+   * a burn's time, a transfer burn's arrival time (patched-conic models only), a duration coast's length.
+   */
+  timeControls?: { kind: EventTimeControl['kind']; eventId: string }[];
   /** Largest change of any Δv component from its starting value, m/s (default unbounded). */
   maxChange?: number;
   onProgress?: (p: TargetProgress) => void;
@@ -60,10 +65,14 @@ export type FailureReason = 'no-sensitivity' | 'bound' | 'propellant' | 'no-arri
 
 export interface ControlChange {
   name: string;
+  /** The plan event it acts on (a burn, or a coast for a duration). */
   burnId: string;
+  kind: PlanControl['kind'];
+  /** SI values (m/s or s); `units` with `unitScale` for display. */
   before: number;
   after: number;
-  units: 'm/s';
+  units: string;
+  unitScale: number;
 }
 
 export interface LegReport {
@@ -113,8 +122,8 @@ const AXES: Record<BurnEvent['frame'], [string, string, string]> = {
   inertial: ['x', 'y', 'z'],
 };
 
-function legControls(plan: Plan, flight: PlanResult, ids: string[], maxChange: number | undefined): { controls: BurnDvControl[]; x0: number[] } {
-  const controls: BurnDvControl[] = [];
+function legControls(plan: Plan, flight: PlanResult, ids: string[], maxChange: number | undefined): { controls: PlanControl[]; x0: number[] } {
+  const controls: PlanControl[] = [];
   const x0: number[] = [];
   for (const id of ids) {
     const burn = plan.events.find((e) => e.id === id);
@@ -178,12 +187,33 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
   let work: Plan = model === 'nbody' ? freezeSchedule(system, plan, evaluate(system, plan, { samplesPerSegment: 0 })) : plan;
   const before = evaluate(system, planForModel(work, model), { samplesPerSegment: 0 });
   const reports: LegReport[] = [];
+  // each timing control joins the first leg with a burn at or after its event
+  const timing = new Map<number, { kind: EventTimeControl['kind']; eventId: string }[]>();
+  for (const tc of options.timeControls ?? []) {
+    const at = plan.events.findIndex((e) => e.id === tc.eventId);
+    if (at < 0) throw new InputError('timeControls', `names no event of the plan: "${tc.eventId}"`, tc.eventId);
+    if (model === 'nbody' && tc.kind === 'transfer-arrival') {
+      throw new InputError(
+        'timeControls',
+        'cannot vary a transfer arrival in n-body (the plan flies there as a burn schedule); vary the burn times instead',
+        tc.eventId,
+      );
+    }
+    const li = legs.findIndex((l) => l.burns.some((id) => plan.events.findIndex((e) => e.id === id) >= at));
+    if (li < 0) throw new InputError('timeControls', `"${tc.eventId}" comes after the last burn: it changes no goal`, tc.eventId);
+    timing.set(li, [...(timing.get(li) ?? []), tc]);
+  }
   let flightsAll = 0;
   let iterationsAll = 0;
 
   legs.forEach((leg: Leg, li: number) => {
     const current = evaluate(system, planForModel(work, model), { samplesPerSegment: 0 });
     const { controls, x0 } = legControls(work, current, leg.burns, options.maxChange);
+    for (const tc of timing.get(li) ?? []) {
+      const { control, x0: v } = timeControl(work, tc.kind, tc.eventId, current);
+      controls.push(control);
+      x0.push(v);
+    }
     // n-body trials start just before the leg's first burn
     let from: ReturnType<typeof startBefore> | undefined;
     if (nbody) from = startBefore(system, work, current, leg.burns, nbody, options.signal);
@@ -223,7 +253,15 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
       status: res.status,
       message: failure ? `${res.message} Why: ${FAILURE_WORDS[failure]}.` : res.message,
       goals: res.goals.map((g, i) => ({ ...g, units: leg.goals[i].units, unitScale: leg.goals[i].unitScale })),
-      controls: controls.map((c, j) => ({ name: c.name, burnId: c.burnId, before: x0[j], after: res.x[j], units: 'm/s' })),
+      controls: controls.map((c, j) => ({
+        name: c.name,
+        burnId: c.kind === 'burn-dv' ? c.burnId : c.eventId,
+        kind: c.kind,
+        before: x0[j],
+        after: res.x[j],
+        units: c.units ?? 'm/s',
+        unitScale: c.unitScale ?? 1,
+      })),
       iterations: res.iterations,
       flights: res.flights,
       shift,

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { evaluate } from '../../../core/conic/index.ts';
 import { InputError } from '../../../core/math/index.ts';
 import type { BurnEvent, Plan } from '../../../core/plan/index.ts';
-import { applyControls, burnControls } from '../../../core/target/index.ts';
+import { applyControls, burnControls, timeControl } from '../../../core/target/index.ts';
 import { MU_EARTH, R_EARTH, impulsive, plan, testSystem } from '../plan/helpers.ts';
 
 /** A circular 300 km orbit about loam (Earth-like) and one burn at the start solved to a 1,000 km apoapsis. */
@@ -69,5 +69,36 @@ describe('applyControls', () => {
     expect((onlyNormal.events[0] as BurnEvent).dv).toEqual([5, 2, 7]);
     expect(() => applyControls(p, controls, [1, 2])).toThrow(InputError);
     expect(() => applyControls(p, controls, [1, Number.NaN, 3])).toThrow(InputError);
+  });
+});
+
+describe('timing controls', () => {
+  it('set a burn time, a transfer arrival and a coast duration on a copy, starting from the written values', () => {
+    const p = apsisPlan();
+    const r = evaluate(testSystem(), p);
+    // the burn is timed by the plan's start (t null): its control starts where the flight put it
+    const bt = timeControl(p, 'burn-time', 'raise', r);
+    expect(bt.x0).toBe(r.budget.rows[0].t);
+    const cd = timeControl(p, 'coast-duration', 'after');
+    expect(cd.x0).toBe(600);
+    expect(cd.control.units).toBe('h');
+    const q = applyControls(p, [bt.control, cd.control], [bt.x0 + 60, 1200]);
+    expect((q.events[0] as BurnEvent).t).toBe(bt.x0 + 60);
+    expect(q.events[1]).toMatchObject({ until: { kind: 'duration', dt: 1200 } });
+    expect((p.events[0] as BurnEvent).t).toBeNull();
+    const transfer: Plan = { ...p, events: [{ ...(p.events[0] as BurnEvent), solve: { kind: 'transfer', to: 'loam', arrive: 5000 } }, p.events[1]] };
+    const ta = timeControl(transfer, 'transfer-arrival', 'raise');
+    expect(ta.x0).toBe(5000);
+    expect(applyControls(transfer, [ta.control], [7000]).events[0]).toMatchObject({ solve: { kind: 'transfer', arrive: 7000 } });
+  });
+
+  it('refuse an event of the wrong kind, a burn with no time yet, and a negative duration, by name', () => {
+    const p = apsisPlan();
+    expect(() => timeControl(p, 'coast-duration', 'raise')).toThrow(/coast that lasts a duration/);
+    expect(() => timeControl(p, 'transfer-arrival', 'raise')).toThrow(/transfer/);
+    expect(() => timeControl(p, 'burn-time', 'raise')).toThrow(/fly the plan first/);
+    expect(() => timeControl(p, 'burn-time', 'nope')).toThrow(InputError);
+    const cd = timeControl(p, 'coast-duration', 'after');
+    expect(() => applyControls(p, [cd.control], [-1])).toThrow(/duration >= 0/);
   });
 });

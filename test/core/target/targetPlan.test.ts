@@ -59,6 +59,22 @@ describe('targetPlan: the demo in patched conics', () => {
   });
 });
 
+describe('targetPlan: timing controls', () => {
+  it('a coast duration joins the leg it acts on and is reported with its units', () => {
+    const p = clonePlan(demoPlan);
+    // ask for a 401 km periapsis: the final leg must move, the cruise duration is one more control for the arrival leg
+    p.target = { ...p.target!, periapsisAltitude: 401e3 };
+    const r = targetPlan(sys, p, { model: 'conic', timeControls: [{ kind: 'coast-duration', eventId: 'cruise' }] });
+    expect(r.status).toBe('met');
+    const c = r.legs[0].controls.find((x) => x.kind === 'coast-duration');
+    expect(c).toMatchObject({ burnId: 'cruise', units: 'h', unitScale: 3600, before: 3 * 86400 });
+    expect(() => targetPlan(sys, demoPlan, { model: 'nbody', timeControls: [{ kind: 'transfer-arrival', eventId: 'mid-course' }] })).toThrow(
+      /burn times instead/,
+    );
+    expect(() => targetPlan(sys, demoPlan, { model: 'conic', timeControls: [{ kind: 'coast-duration', eventId: 'final' }] })).toThrow(/after the last burn/);
+  });
+});
+
 describe('targetPlan: the demo with every burn finite', () => {
   let r: TargetResult;
   beforeAll(() => {
