@@ -2,6 +2,7 @@
  * Runs analysis jobs in a Web Worker, one at a time. The core's jobs are synchronous, so a
  * cancel terminates the worker (a new one starts with the next job) and the job resolves null.
  */
+import type { TargetProgress } from '../../../core/target/index.ts';
 import type { AnalysisJob, AnalysisOutput, FromAnalysisWorker, ToAnalysisWorker } from './protocol.ts';
 
 export interface AnalysisWorkerLike {
@@ -19,10 +20,13 @@ export interface Done {
   ms: number;
 }
 
+/** Progress of a job: a fraction, a note, and a targeting job's own report. */
+export type Progress = (fraction: number, note: string, detail?: TargetProgress) => void;
+
 export class AnalysisClient {
   #worker: AnalysisWorkerLike | null = null;
   #id = 0;
-  #pending: { id: number; resolve: (d: Done | null) => void; reject: (e: Error) => void; onProgress: (f: number, note: string) => void } | null = null;
+  #pending: { id: number; resolve: (d: Done | null) => void; reject: (e: Error) => void; onProgress: Progress } | null = null;
 
   constructor(private readonly factory: () => AnalysisWorkerLike = defaultAnalysisWorker) {}
 
@@ -30,7 +34,7 @@ export class AnalysisClient {
     return this.#pending !== null;
   }
 
-  run(job: AnalysisJob, onProgress: (fraction: number, note: string) => void): Promise<Done | null> {
+  run(job: AnalysisJob, onProgress: Progress): Promise<Done | null> {
     this.cancel();
     const id = ++this.#id;
     if (!this.#worker) {
@@ -39,7 +43,7 @@ export class AnalysisClient {
         const m = e.data;
         const p = this.#pending;
         if (!p || p.id !== m.id) return;
-        if (m.type === 'progress') p.onProgress(m.fraction, m.note);
+        if (m.type === 'progress') p.onProgress(m.fraction, m.note, m.detail);
         else {
           this.#pending = null;
           if (m.type === 'done') p.resolve({ output: m.output, ms: m.ms });

@@ -44,6 +44,8 @@ import { exportFile } from './exports.ts';
 import { Observable } from './observable.ts';
 import { AnalysisClient, type AnalysisWorkerLike } from '../analysis/client.ts';
 import { AnalysisStore } from '../analysis/store.ts';
+import { TargetStore } from '../analysis/targetStore.ts';
+import { TruthStore } from '../analysis/truthStore.ts';
 
 export interface Notice {
   id: number;
@@ -74,8 +76,10 @@ export interface SessionDeps {
   ask(q: Question): Promise<string>;
   autosaveMs: number;
   now?: () => number;
-  /** Worker for n-body verification, correction and dispersion (default: the bundled analysis worker). */
+  /** Worker for n-body verification, correction, dispersion, targeting and truth reports (default: the bundled analysis worker). */
   analysisWorker?: () => AnalysisWorkerLike;
+  /** Wait after the last edit before the plan is read again in its truth model, ms (default TRUTH_DEBOUNCE_MS). */
+  truthDebounceMs?: number;
 }
 
 /** Field-precise issues of a plan in memory (file checks + system checks), paths in memory names. */
@@ -113,6 +117,10 @@ export class Session {
   readonly doc: PlanDocumentStore;
   readonly evaluation: EvaluationStore;
   readonly analysis: AnalysisStore;
+  /** Targeting the plan in a model (its own worker). */
+  readonly targeting: TargetStore;
+  /** The plan read in its truth model for the readouts (its own worker). */
+  readonly truth: TruthStore;
   readonly cursor = new CursorStore();
   readonly notices = new Observable<Notice[]>([]);
   readonly recent = new Observable<RecentFile[]>([]);
@@ -131,6 +139,8 @@ export class Session {
     this.doc = new PlanDocumentStore(initial, planIssues);
     this.evaluation = new EvaluationStore(this.doc, deps.evaluate);
     this.analysis = new AnalysisStore(this.doc, this.evaluation, new AnalysisClient(deps.analysisWorker));
+    this.targeting = new TargetStore(this.doc, new AnalysisClient(deps.analysisWorker));
+    this.truth = new TruthStore(this.doc, new AnalysisClient(deps.analysisWorker), deps.truthDebounceMs);
     // The cursor follows the flown span; a new document puts it at the start.
     let generation = -1;
     this.evaluation.subscribe((e) => {
