@@ -1,9 +1,11 @@
 /**
- * The targeter's control changes grouped by burn: each burn's Δv vector (in its own frame) before
- * and after, its magnitude before and after, and the size of the change |after − before|. A burn
- * varied in more than one leg keeps its first "before" and its last "after".
+ * The targeter's control changes as the panel lists them: Δv components grouped by burn (each
+ * burn's Δv vector in its own frame before and after, its magnitude before and after, and the size
+ * of the change |after − before|), and every other control (a burn's time, a transfer's arrival, a
+ * coast's length) on its own. A control varied in more than one leg keeps its first "before" and
+ * its last "after".
  */
-import type { LegReport } from '../../../core/target/index.ts';
+import type { ControlChange, LegReport } from '../../../core/target/index.ts';
 
 export interface BurnChange {
   burnId: string;
@@ -20,6 +22,7 @@ export function burnChanges(legs: readonly LegReport[]): BurnChange[] {
   const byBurn = new Map<string, Map<string, { name: string; before: number; after: number }>>();
   for (const leg of legs) {
     for (const c of leg.controls) {
+      if (c.kind !== 'burn-dv') continue;
       let m = byBurn.get(c.burnId);
       if (!m) {
         m = new Map();
@@ -41,4 +44,17 @@ export function burnChanges(legs: readonly LegReport[]): BurnChange[] {
     }
     return { burnId, components, before: Math.sqrt(b), after: Math.sqrt(a), change: Math.sqrt(d) };
   });
+}
+
+/** The controls that are not Δv components (times, durations), SI, one per control name. */
+export function otherChanges(legs: readonly LegReport[]): ControlChange[] {
+  const byName = new Map<string, ControlChange>();
+  for (const leg of legs) {
+    for (const c of leg.controls) {
+      if (c.kind === 'burn-dv') continue;
+      const had = byName.get(c.name);
+      byName.set(c.name, { ...c, before: had ? had.before : c.before });
+    }
+  }
+  return [...byName.values()];
 }

@@ -1,20 +1,30 @@
 import { describe, expect, it } from 'vitest';
 import type { LegReport } from '../../../../core/target/index.ts';
-import { burnChanges } from '../../../../app/renderer/target/burnChanges.ts';
+import { burnChanges, otherChanges } from '../../../../app/renderer/target/burnChanges.ts';
 
-function leg(controls: [string, string, number, number][]): LegReport {
-  return {
+/** A leg report with only what the grouping reads filled in (the rest as a converged leg would have it). */
+function leg(controls: [string, string, number, number][], kind: 'burn-dv' | 'burn-time' = 'burn-dv'): LegReport {
+  const report: Omit<LegReport, 'shift'> = {
     name: 'leg',
     kind: 'final',
     status: 'converged',
     message: '',
     goals: [],
-    controls: controls.map(([burnId, name, before, after]) => ({ burnId, name, before, after, units: 'm/s' as const })),
+    controls: controls.map(([burnId, name, before, after]) => ({
+      burnId,
+      name,
+      kind,
+      before,
+      after,
+      units: kind === 'burn-dv' ? 'm/s' : 'h',
+      unitScale: kind === 'burn-dv' ? 1 : 3600,
+    })),
     iterations: 1,
     flights: 1,
     residuals: [],
     failure: null,
   };
+  return { ...report, shift: 0 } as LegReport;
 }
 
 describe('the targeter’s changes per burn', () => {
@@ -36,5 +46,13 @@ describe('the targeter’s changes per burn', () => {
     const out = burnChanges([leg([['a', 'A Δv prograde', 1, 2]]), leg([['a', 'A Δv prograde', 2, 5]])]);
     expect(out).toHaveLength(1);
     expect(out[0]).toMatchObject({ before: 1, after: 5, change: 4 });
+  });
+
+  it('lists the controls that are not Δv components on their own (a burn’s time), first before and last after', () => {
+    const legs = [leg([['a', 'A Δv prograde', 1, 2]]), leg([['a', 'A time', 7200, 9000]], 'burn-time'), leg([['a', 'A time', 9000, 10800]], 'burn-time')];
+    expect(burnChanges(legs).map((b) => b.burnId)).toEqual(['a']);
+    const other = otherChanges(legs);
+    expect(other).toHaveLength(1);
+    expect(other[0]).toMatchObject({ name: 'A time', before: 7200, after: 10800, units: 'h', unitScale: 3600 });
   });
 });
