@@ -135,3 +135,17 @@ export const FLY_FLAGS: FlagNames = {
   step: '--step',
   'options.step': '--step',
 };
+
+/** `target`: core/target targetPlan options. */
+export const TARGET_FLAGS: FlagNames = {
+  model: '--model',
+  'tolerance.altitude': '--altitude-tolerance',
+  'tolerance.i': '--inclination-tolerance',
+  'tolerance.e': '--e-tolerance',
+  'tolerance.time': '--time-tolerance',
+  maxIterations: '--max-iterations',
+  maxFlights: '--max-flights',
+  maxChange: '--max-change',
+  timeControls: '--vary',
+  eventId: '--vary',
+};

@@ -6,8 +6,8 @@
 import cliProgress from 'cli-progress';
 
 export interface Progress {
-  /** Reports `done` of `total` units. */
-  update(done: number, total: number): void;
+  /** Reports `done` of `total` units; `detail` (optional) is shown after the time ("leg 1/2 · 85 flights"). */
+  update(done: number, total: number, detail?: string): void;
   /** Removes the bar (safe to call more than once). */
   stop(): void;
 }
@@ -25,7 +25,7 @@ export function createProgress(label: string, unit: string, enabled: boolean): P
   const bar = new cliProgress.SingleBar(
     {
       stream: process.stderr,
-      format: `${label} [{bar}] {percentage}% | {value}/{total} ${unit} | {duration_formatted}`,
+      format: `${label} [{bar}] {percentage}% | {value}/{total} ${unit} | {duration_formatted}{detail}`,
       hideCursor: true,
       clearOnComplete: true,
       fps: 10,
@@ -35,14 +35,15 @@ export function createProgress(label: string, unit: string, enabled: boolean): P
   let started = false;
   let stopped = false;
   return {
-    update(done, total) {
+    update(done, total, detail) {
       if (stopped) return;
+      const payload = { detail: detail ? ` | ${detail}` : '' };
       if (!started) {
-        bar.start(total, done);
+        bar.start(total, done, payload);
         started = true;
       } else {
         bar.setTotal(total);
-        bar.update(done);
+        bar.update(done, payload);
       }
     },
     stop() {

@@ -1,38 +1,64 @@
 /**
- * `waymark check PLAN [--json]` — flies a plan file (patched conics) and prints its Δv budget
- * and margin. Exit code (for content pipelines that gate on it):
- *   0  the margin holds: margin >= 0 and no error flag (impact, stage out of propellant ...);
- *   1  it does not;
+ * `waymark check PLAN [--model conic|finite|nbody] [--json]` — flies a plan file in its truth
+ * model (core/target truthReport: `conic` patched conics, `finite` patched conics with every
+ * burn finite, `nbody` n-body gravity; the plan file's `truth_model`, `conic` when it names
+ * none) and prints its Δv budget, its margin and its target judged in that model. `--model`
+ * judges it in another model instead, as a comparison (labelled so; the verdict and exit code
+ * are then that model's). Exit code (for content pipelines that gate on it):
+ *   0  the plan holds in the model judged: margin >= 0, the target reached (when the plan has
+ *      one) and no error flag (impact, stage out of propellant ...);
+ *   1  it does not — every failing condition is named ("margin −54.2 m/s is below zero",
+ *      "periapsis altitude about Ochre is 2000.250 km, wanted 400.000 km ± 10.000 km");
  *   2  the plan file (or its system file) cannot be read or is invalid — the message names
- *      the file and every field at fault, e.g. `events[2].dv_mps[0] must be a number`;
+ *      the file and every field at fault, e.g. `events[2].dv_mps[0] must be a number` — or an
+ *      option is wrong;
  *   3  a numerical method failed.
  * Text: a table of burns (time in the system calendar, Δv, duration, propellant, mass after,
- * Δv left, flags), then capacity, total, reserve and margin, the flags and the target; file
- * warnings go to stderr. `--json`: { plan, holds, budget, flags, target, warnings } in SI.
+ * Δv left, flags), then capacity, total, reserve and margin, the flags, the target's goals
+ * (value, wanted ± tolerance, met) and the verdict with the model it was judged in; file
+ * warnings go to stderr. An n-body check shows a progress bar on a terminal's stderr. `--json`:
+ * { plan, system, model, label, truthModel, comparison, holds, failures, budget, flags, target,
+ * truth, warnings } in SI (`target` is the patched-conic readout, null when judged in n-body;
+ * `truth` the goals, the orbit reached and the notes of the model judged).
  */
 import type { Command } from 'commander';
-import { evaluate } from '../../../core/conic/index.ts';
-import type { Plan } from '../../../core/plan/index.ts';
-import type { PlanResult } from '../../../core/plan/index.ts';
+import type { Flag, Plan, PlanResult } from '../../../core/plan/index.ts';
+import { planTruthModel, truthModelLabel, type TruthModel } from '../../../core/plan/index.ts';
 import { formatCompactDate } from '../../../core/system/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
+import type { TruthReport } from '../../../core/target/index.ts';
 import { loadPlanFile } from '../../node/files.ts';
 import { addFlyCommand } from './fly.ts';
 import { EXIT_NO, EXIT_OK, guard, num, printJson, printText, printWarnings } from '../output.ts';
+import { modelWords, parseModel, readInModel, targetText } from '../truthText.ts';
 
-const DEG = 180 / Math.PI;
+/** Patched-conic flags that speak of the patched-conic path, not of the budget: not the n-body flight's (its own impact and arrival are judged instead). */
+const CONIC_PATH_FLAGS = new Set(['target-missed', 'impact']);
 
-/** The plan closes: margin >= 0 and no error flag. */
-export function marginHolds(result: PlanResult): boolean {
-  return result.budget.margin >= 0 && !result.flags.some((f) => f.severity === 'error');
+/** The flags that apply to the plan read in `report.model`: every flag for the patched-conic models, the budget's and the burns' for n-body. */
+export function modelFlags(report: TruthReport): Flag[] {
+  return report.model === 'nbody' ? report.conic.flags.filter((f) => !CONIC_PATH_FLAGS.has(f.code)) : report.conic.flags;
+}
+
+/** The verdict in the model judged: every failing condition in words (empty: the plan holds). */
+export function failingConditions(system: StarSystem, report: TruthReport): string[] {
+  const failures = [...report.failures];
+  // the margin and the target are in report.failures already; other errors (impact, out of propellant ...) come from the flags
+  for (const f of modelFlags(report)) {
+    if (f.severity === 'error' && f.code !== 'negative-margin' && f.code !== 'target-missed') failures.push(`${f.code}: ${f.message}`);
+  }
+  const nb = report.nbody;
+  if (nb?.impact && !report.plan.target)
+    failures.push(`impact: the ship hits ${system.bodies[nb.impact.body]?.name ?? nb.impact.body} at t = ${nb.impact.t.toFixed(0)} s`);
+  return failures;
 }
 
 function pad(s: string, n: number, right = false): string {
   return right ? s.padStart(n) : s.padEnd(n);
 }
 
-/** The text budget table of `waymark check`. */
-export function budgetText(system: StarSystem, plan: Plan, result: PlanResult): string {
+/** The text budget table of `waymark check`: burns, capacity, total, reserve, margin and the flags shown (the result's by default). */
+export function budgetText(system: StarSystem, plan: Plan, result: PlanResult, flags: readonly Flag[] = result.flags): string {
   const cal = system.calendar;
   const b = result.budget;
   const out: string[] = [];
@@ -69,22 +95,18 @@ export function budgetText(system: StarSystem, plan: Plan, result: PlanResult): 
   out.push(`planned    ${pad(num(b.total, 1), 10, true)} m/s`);
   out.push(`left       ${pad(num(b.dvLeft, 1), 10, true)} m/s`);
   out.push(`reserve    ${pad(num(b.reserve, 1), 10, true)} m/s  (${num(plan.reserve.percent, 1)} % + ${num(plan.reserve.absolute, 1)} m/s)`);
-  out.push(`margin     ${pad(num(b.margin, 1), 10, true)} m/s  ${marginHolds(result) ? 'HOLDS' : 'DOES NOT HOLD'}`);
-  if (result.flags.length > 0) {
+  out.push(`margin     ${pad(num(b.margin, 1), 10, true)} m/s  ${b.margin >= 0 ? 'HOLDS' : 'DOES NOT HOLD'}`);
+  if (flags.length > 0) {
     out.push('');
-    for (const f of result.flags) out.push(`${f.severity.padEnd(7)} ${f.code}: ${f.message}`);
-  }
-  const t = result.target;
-  if (t) {
-    out.push('');
-    const name = system.bodies[t.body]?.name ?? String(t.body);
-    const a = t.achieved;
-    out.push(
-      `target ${name}: ${t.reached ? 'reached' : 'not reached'}` +
-        (a ? ` — periapsis ${num(a.periapsisAltitude / 1e3, 1)} km, e ${num(a.e, 4)}, i ${num(a.i * DEG, 2)} deg` : ''),
-    );
+    for (const f of flags) out.push(`${f.severity.padEnd(7)} ${f.code}: ${f.message}`);
   }
   return out.join('\n');
+}
+
+/** The verdict line and the failing conditions. */
+export function verdictText(report: TruthReport, truth: TruthModel, failures: readonly string[]): string[] {
+  const head = `judged in ${modelWords(report.model, truth)}: ${failures.length === 0 ? 'HOLDS' : 'DOES NOT HOLD'}`;
+  return [head, ...failures.map((f) => `  - ${f}`)];
 }
 
 /** Registers the plan commands: `check` and `fly` (fly.ts). */
@@ -96,27 +118,44 @@ export function addPlanCommands(program: Command): void {
 export function addCheckCommand(program: Command): void {
   program
     .command('check')
-    .description('fly a plan and print its Δv budget; exit 0 if the margin holds, 1 if not, 2 for a bad file')
+    .description('fly a plan in its truth model and print its Δv budget and target; exit 0 if it holds, 1 if not, 2 for a bad file')
     .argument('<plan>', 'plan file (.plan.json)')
+    .option('--model <model>', "judge in this model instead, as a comparison: conic, finite or nbody (default: the plan's truth model)")
     .option('--json', 'machine-readable output')
-    .action((planPath: string, o: { json?: boolean }) =>
+    .action((planPath: string, o: { model?: string; json?: boolean }) =>
       guard(!!o.json, async () => {
+        const asked = o.model === undefined ? undefined : parseModel('--model', o.model);
         const loaded = await loadPlanFile(planPath);
-        const result = evaluate(loaded.system, loaded.plan);
-        const holds = marginHolds(result);
+        const { system, plan } = loaded;
+        const truth = planTruthModel(plan);
+        const model = asked ?? truth;
+        const report = readInModel(system, plan, model, !!o.json);
+        const failures = failingConditions(system, report);
+        const holds = failures.length === 0;
         if (o.json) {
           printJson({
-            plan: loaded.plan.name,
-            system: loaded.system.name,
+            plan: plan.name,
+            system: system.name,
+            model,
+            label: truthModelLabel(model),
+            truthModel: truth,
+            comparison: model !== truth,
             holds,
-            budget: result.budget,
-            flags: result.flags,
-            target: result.target,
+            failures,
+            budget: report.budget,
+            flags: modelFlags(report),
+            target: model === 'nbody' ? null : report.conic.target,
+            truth: { reached: report.reached, marginHolds: report.marginHolds, achieved: report.achieved, goals: report.goals, notes: report.notes },
             warnings: loaded.warnings,
           });
         } else {
           printWarnings(loaded.warnings);
-          printText(budgetText(loaded.system, loaded.plan, result));
+          const out = [budgetText(system, plan, report.conic, modelFlags(report))];
+          const target = targetText(system, report);
+          if (target.length > 0) out.push('', ...target);
+          for (const n of report.notes) out.push(`note: ${n}`);
+          out.push('', ...verdictText(report, truth, failures));
+          printText(out.join('\n'));
         }
         return holds ? EXIT_OK : EXIT_NO;
       }),

@@ -1,11 +1,14 @@
 /**
- * `waymark fly PLAN [--model conic|nbody] [--oem FILE] [--csv FILE] [--burns FILE]
+ * `waymark fly PLAN [--model conic|finite|nbody] [--oem FILE] [--csv FILE] [--burns FILE]
  *  [--report FILE] [--step T] [--json]` — flies a plan file and exports what it flew.
  *
- * - `--model conic` (default): patched conics (core/conic/evaluate.ts). `--model nbody`: the
- *   same burns flown through the restricted n-body model (core/nbody/verify.ts, RK45 through
- *   the propagation front door); prints the arrival difference from the patched-conic plan and
- *   which method flew each span, and exports the n-body states.
+ * - `--model` (default: the plan's truth model, `conic` when it names none), read through
+ *   core/target truthReport: `conic` patched conics (core/conic/evaluate.ts), `finite` patched
+ *   conics with every burn finite, `nbody` the plan's burns as a timed schedule flown through
+ *   the restricted n-body model (core/nbody/verify.ts, RK45 through the propagation front door);
+ *   n-body prints which method flew each span and the arrival difference from the patched-conic
+ *   flight of the same burns, and exports the n-body states. Every model prints the target's
+ *   goals as that model reaches them (value, wanted ± tolerance, met).
  * - `--step T` (default 1 h): the fixed step of the exported ephemeris (a duration with a unit,
  *   e.g. 600, 10min, 1h); samples come from each segment's exact conic
  *   (core/conic/ephemerisSampler.ts).
@@ -17,9 +20,12 @@
  *   writes that export to standard output instead (one export at most, not with `--json`;
  *   standard output then carries the export alone, without the text summary), so exports can
  *   be piped: `waymark fly demo.plan.json --csv - | …`.
- * Text output: the flown span, the trajectory events and the margin; `--json`: { model, t0, t1,
- * events, budget, flags, target, files } in SI. Exit code 0 when flown (the margin verdict is
- * `waymark check`'s), 2 for a bad file or option, 3 for a numerical failure.
+ * Text output: the flown span, the trajectory events, the margin and the target's goals;
+ * `--json`: { model, label, truthModel, reached, goals, achieved, t0, t1, events, budget, flags,
+ * target, nbody, files } in SI. Exit code 0 when flown and the plan's target is reached in the
+ * model flown (or the plan has no target); 1 when it is not (the exports are still written: they
+ * are what was flown; the margin verdict is `waymark check`'s); 2 for a bad file or option; 3
+ * for a numerical failure.
  */
 import type { Command } from 'commander';
 import { burnTableCsv, ephemerisCsv } from '../../../core/io/index.ts';
@@ -28,16 +34,18 @@ import { budgetReport } from '../../../core/io/index.ts';
 import { parseQuantity } from '../../../core/io/index.ts';
 import { InputError } from '../../../core/math/index.ts';
 import { sampleEphemeris } from '../../../core/conic/index.ts';
-import { evaluate } from '../../../core/conic/index.ts';
-import { verifyNBody, type NBodyResult } from '../../../core/nbody/index.ts';
+import type { NBodyResult } from '../../../core/nbody/index.ts';
 import { nbodyStatesToEphemeris } from '../../../core/nbody/index.ts';
 import type { PlanResult } from '../../../core/plan/index.ts';
+import { planTruthModel, TRUTH_MODELS, truthModelLabel } from '../../../core/plan/index.ts';
 import { formatCompactDate } from '../../../core/system/index.ts';
 import { checkOutputs, loadPlanFile, STDOUT, writeOutput, type InputFile, type OutputTarget } from '../../node/files.ts';
-import { EXIT_OK, guard, num, printJson, printText, printWarnings, termSafe } from '../output.ts';
+import { EXIT_NO, EXIT_OK, guard, num, printJson, printText, printWarnings, termSafe } from '../output.ts';
 import { FLY_FLAGS } from '../flags.ts';
+import { modelWords, parseModel, readInModel, targetText } from '../truthText.ts';
 
-export const MODELS = ['conic', 'nbody'] as const;
+/** The models `--model` takes. */
+export const MODELS = TRUTH_MODELS;
 /** Default export step, s. */
 export const DEFAULT_STEP = 3600;
 
@@ -55,18 +63,18 @@ function burnComments(result: PlanResult, spans: { t: Float64Array }[]): string[
 export function addFlyCommand(program: Command): void {
   program
     .command('fly')
-    .description('fly a plan (patched conics) and export its ephemeris (CCSDS OEM, CSV), burn table and report')
+    .description('fly a plan in its truth model (or --model) and export its ephemeris (CCSDS OEM, CSV), burn table and report')
     .argument('<plan>', 'plan file (.plan.json)')
-    .option('--model <model>', 'conic (patched conics) or nbody', 'conic')
+    .option('--model <model>', "conic (patched conics), finite (every burn finite) or nbody (default: the plan's truth model)")
     .option('--oem <file>', 'write the ephemeris as a CCSDS OEM (KVN)')
     .option('--csv <file>', 'write the ephemeris as CSV')
     .option('--burns <file>', 'write the burn table as CSV')
     .option('--report <file>', 'write the Markdown budget report')
     .option('--step <t>', 'ephemeris step (s, min, h, d)', String(DEFAULT_STEP))
     .option('--json', 'machine-readable output')
-    .action((planPath: string, o: { model: string; oem?: string; csv?: string; burns?: string; report?: string; step: string; json?: boolean }) =>
+    .action((planPath: string, o: { model?: string; oem?: string; csv?: string; burns?: string; report?: string; step: string; json?: boolean }) =>
       guard({ json: !!o.json, flags: FLY_FLAGS }, async () => {
-        if (!(MODELS as readonly string[]).includes(o.model)) throw new InputError('--model', `must be one of: ${MODELS.join(', ')}`, o.model);
+        const asked = o.model === undefined ? undefined : parseModel('--model', o.model);
         const step = parseQuantity('--step', o.step, 'time');
         if (!(step > 0)) throw new InputError('--step', 'must be > 0', o.step);
         const outputs: OutputTarget[] = (
@@ -89,8 +97,12 @@ export function addFlyCommand(program: Command): void {
         // Standard output at a terminal shows control characters escaped (names come from files).
         const save = (flag: string, path: string, kind: OutputTarget['kind'], text: string) =>
           writeOutput({ flag, path, kind }, text, { inputs }, { forTerminal: termSafe });
-        const result = evaluate(system, plan);
-        const nbody: NBodyResult | null = o.model === 'nbody' ? verifyNBody(system, plan, result, { samples: false, step }) : null;
+        const truth = planTruthModel(plan);
+        const model = asked ?? truth;
+        const report = readInModel(system, plan, model, !!o.json || toStdout !== undefined, step);
+        const result = report.conic;
+        const nbody: NBodyResult | null = report.nbody;
+        const flown = report.plan;
 
         const files: Record<string, string> = {};
         if (o.oem || o.csv) {
@@ -99,7 +111,9 @@ export function addFlyCommand(program: Command): void {
             const text = writeOem(system, eph, {
               objectName: plan.vehicle.name,
               creationDate: new Date().toISOString().slice(0, 19),
-              comments: [`Plan: ${plan.name}; ${nbody ? 'restricted n-body model (RK45)' : 'patched-conic model'}; step ${step} s.`],
+              comments: [
+                `Plan: ${plan.name}; ${nbody ? 'restricted n-body model (RK45)' : `patched-conic model${model === 'finite' ? ', every burn finite' : ''}`}; step ${step} s.`,
+              ],
               spanComments: burnComments(result, eph.spans),
             });
             await save('--oem', o.oem, 'oem', text);
@@ -115,13 +129,19 @@ export function addFlyCommand(program: Command): void {
           files.burns = o.burns;
         }
         if (o.report) {
-          await save('--report', o.report, 'report', budgetReport(system, plan, result));
+          await save('--report', o.report, 'report', budgetReport(system, flown, result));
           files.report = o.report;
         }
 
         if (o.json) {
           printJson({
-            model: nbody ? 'nbody' : result.model,
+            model,
+            label: truthModelLabel(model),
+            truthModel: truth,
+            reached: report.reached,
+            goals: report.goals,
+            achieved: report.achieved,
+            truthNotes: report.notes,
             nbody: nbody
               ? {
                   status: nbody.status,
@@ -147,7 +167,8 @@ export function addFlyCommand(program: Command): void {
         } else {
           printWarnings(loaded.warnings);
           const cal = system.calendar;
-          printText(`flew ${plan.name} (patched conics) from ${formatCompactDate(cal, result.t0)} to ${formatCompactDate(cal, result.t1)}`);
+          printText(`flew ${plan.name} in ${modelWords(model, truth)} from ${formatCompactDate(cal, result.t0)} to ${formatCompactDate(cal, result.t1)}`);
+          if (nbody) printText('  events of the same burns in patched conics (a comparison; the n-body flight follows):');
           for (const e of result.events) printText(`  ${formatCompactDate(cal, e.t, { seconds: true })}  ${e.label}`);
           printText(`margin ${num(result.budget.margin, 1)} m/s`);
           if (nbody)
@@ -155,9 +176,12 @@ export function addFlyCommand(program: Command): void {
               system.bodies.map((b) => b.name),
               nbody,
             );
+          const target = targetText(system, report);
+          if (target.length > 0) printText(`\n${target.join('\n')}`);
+          for (const n of report.notes) printText(`note: ${n}`);
           for (const [kind, path] of Object.entries(files)) printText(`wrote ${kind}: ${path}`);
         }
-        return EXIT_OK;
+        return plan.target && !report.reached ? EXIT_NO : EXIT_OK;
       }),
     );
 }
@@ -174,5 +198,4 @@ function printNBody(names: string[], nb: NBodyResult): void {
     printText(`    periapsis time      difference ${num(a.difference.t, 1)} s`);
     printText(`    miss distance       ${num(a.missDistance / 1e3, 1)} km`);
   }
-  for (const n of nb.notes) printText(`  note: ${n}`);
 }

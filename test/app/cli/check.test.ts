@@ -27,7 +27,9 @@ describe.concurrent('waymark check', () => {
     expect(r.stdout).toMatch(/^plan Long Patience to Ochre — vehicle Long Patience, system Ilmar/);
     for (const burn of ['Departure', 'Mid-course correction', 'Ochre capture', 'Plane change', 'Apoapsis trim']) expect(r.stdout).toContain(burn);
     expect(r.stdout).toMatch(/margin\s+\d+\.\d m\/s {2}HOLDS/);
-    expect(r.stdout).toMatch(/target Ochre: reached/);
+    expect(r.stdout).toMatch(/target Ochre: reached in patched conics/);
+    expect(r.stdout).toMatch(/periapsis altitude about Ochre +400\.0 km +wanted 400\.0 ± 10 km +met/);
+    expect(r.stdout).toContain("judged in patched conics (the plan's truth model): HOLDS");
   });
 
   it('the negative-margin demo: exits 1 and says why', async () => {
@@ -35,6 +37,21 @@ describe.concurrent('waymark check', () => {
     expect(r.code).toBe(1);
     expect(r.stdout).toMatch(/margin\s+-\d+\.\d m\/s {2}DOES NOT HOLD/);
     expect(r.stdout).toContain('negative-margin');
+    expect(r.stdout).toMatch(/DOES NOT HOLD\n {2}- margin -\d+\.\d m\/s is below zero$/m);
+  });
+
+  it('--model finite on the demo: judged as a comparison, each failing condition named, exit 1', async () => {
+    const r = await runCli(['check', DEMO, '--model', 'finite']);
+    expect(r.code).toBe(1);
+    expect(r.stdout).toContain("judged in patched conics, every burn finite (a comparison; the plan's truth model is patched conics): DOES NOT HOLD");
+    expect(r.stdout).toMatch(/ {2}- margin -\d+\.\d m\/s is below zero/);
+    expect(r.stdout).toMatch(/ {2}- periapsis altitude about Ochre is \d+\.\d{3} km, wanted 400\.000 km ± 10\.000 km/);
+  });
+
+  it('an unknown --model word: exit 2 naming the option and the words allowed', async () => {
+    const r = await runCli(['check', DEMO, '--model', 'exact']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toContain('waymark: --model must be one of: conic, finite, nbody (got "exact")');
   });
 
   it('--json: one document with the verdict and the budget in SI', async () => {
@@ -42,6 +59,8 @@ describe.concurrent('waymark check', () => {
     expect(r.code).toBe(0);
     const out = JSON.parse(r.stdout);
     expect(out.holds).toBe(true);
+    expect([out.model, out.truthModel, out.comparison, out.failures]).toEqual(['conic', 'conic', false, []]);
+    expect(out.truth.goals.map((g: { met: boolean }) => g.met)).toEqual([true, true, true]);
     expect(out.budget.rows.length).toBe(5);
     expect(out.budget.margin).toBeGreaterThan(0);
     expect(out.budget.margin).toBeCloseTo(out.budget.dvLeft - out.budget.reserve, 9);

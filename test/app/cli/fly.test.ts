@@ -28,7 +28,7 @@ describe('waymark fly', () => {
     expect(run.stderr).toBe('');
     expect(run.code).toBe(0);
     const out = JSON.parse(run.stdout);
-    expect(out.model).toBe('conic');
+    expect([out.model, out.truthModel, out.reached]).toEqual(['conic', 'conic', true]); // the plan's truth model when --model is not given
     expect(out.files).toEqual({ oem, csv, burns, report });
     expect(out.events[0].kind).toBe('start');
   });
@@ -66,16 +66,20 @@ describe('waymark fly', () => {
     expect(md).toContain('**The margin holds.**');
   });
 
-  it('--model nbody: flies the same burns through n-body gravity, reports the arrival difference and writes a valid OEM', async () => {
+  it('--model nbody on the demo (targeted in patched conics): flies the same burns through n-body gravity, reports the arrival difference, writes a valid OEM, and exits 1 naming the missed periapsis', async () => {
     const file = join(work, 'nbody.oem');
     const r = await runCli(['fly', DEMO, '--model', 'nbody', '--oem', file, '--step', '6h', '--json']);
-    expect(r.code).toBe(0);
+    expect(r.code).toBe(1);
     const out = JSON.parse(r.stdout);
-    expect(out.model).toBe('nbody');
+    expect([out.model, out.truthModel, out.reached]).toEqual(['nbody', 'conic', false]);
     expect(out.nbody.spans.length).toBeGreaterThan(0);
     for (const s of out.nbody.spans) expect(typeof s.reason).toBe('string');
     expect(out.nbody.arrival.conic.altitude).toBeGreaterThan(0);
     expect(Number.isFinite(out.nbody.arrival.missDistance)).toBe(true);
+    // the n-body flight of the patched-conic burns passes Ochre far off: the periapsis goal is not met
+    const peri = out.goals.find((g: { name: string }) => g.name === 'periapsis altitude about Ochre');
+    expect(peri.met).toBe(false);
+    expect(Math.abs(peri.value - peri.wanted)).toBeGreaterThan(peri.tolerance);
     const oem = parseOem(readFileSync(file, 'utf8'));
     expect(oem.segments.length).toBeGreaterThan(1);
     for (const seg of oem.segments) expect(seg.states.length).toBeGreaterThan(0);
@@ -85,7 +89,7 @@ describe('waymark fly', () => {
   it('an unknown model or a bad step: exit 2 naming the option', async () => {
     const [a, b] = await Promise.all([runCli(['fly', DEMO, '--model', 'warp']), runCli(['fly', DEMO, '--step', '-5', '--oem', join(work, 'x.oem')])]);
     expect(a.code).toBe(2);
-    expect(a.stderr).toContain('--model must be one of: conic, nbody');
+    expect(a.stderr).toContain('--model must be one of: conic, finite, nbody');
     expect(b.code).toBe(2);
     expect(b.stderr).toContain('--step');
   });
