@@ -25,6 +25,7 @@ import { shipStateAt } from '../../../core/conic/index.ts';
 import { isSoftwareRenderer } from './webglInfo.ts';
 import { GAME_STYLE } from '../gamestep/style.ts';
 import type { TrackPath } from '../gamestep/trackPaths.ts';
+import { trackPosition, type NBodySamples, type TruthPath } from '../target/truthTrack.ts';
 
 /** Scene units per metre: one unit is 1 000 km. */
 export const UNITS_PER_METRE = 1e-6;
@@ -125,6 +126,10 @@ function glowTexture(colour: string): THREE.CanvasTexture {
 class SharedDrawing {
   readonly coast = new THREE.LineBasicMaterial({ color: PALETTE.path, transparent: true, opacity: 0.95 });
   readonly nbody = new THREE.LineDashedMaterial({ color: PALETTE.nbody, dashSize: 1, gapSize: 0.6 });
+  /** The plan's path in its truth model when that is n-body (the main path, as solid as a coast). */
+  readonly truthLine = new THREE.LineBasicMaterial({ color: PALETTE.path });
+  /** A path shown as the comparison (the patched-conic flight beside the truth model's): faint. */
+  readonly comparison = new THREE.LineBasicMaterial({ color: PALETTE.muted, transparent: true, opacity: 0.45 });
   /** The game-step check's flight (dashes in units of its own length, see setGameStep) and its reference. */
   readonly gameLine = new THREE.LineDashedMaterial({ color: GAME_STYLE.game, dashSize: 0.6, gapSize: 0.4 });
   readonly gameReference = new THREE.LineBasicMaterial({ color: GAME_STYLE.reference, transparent: true, opacity: 0.5 });
@@ -172,6 +177,8 @@ class SharedDrawing {
     for (const x of [
       this.coast,
       this.nbody,
+      this.truthLine,
+      this.comparison,
       this.gameLine,
       this.gameReference,
       this.gameDots,
@@ -225,6 +232,16 @@ export class SystemScene {
   /** The game-step check's paths, one group per central body (positioned like `frames`). */
   private gameRoot = new THREE.Group();
   private gameFrames = new Map<number, THREE.Group>();
+  /** The plan's n-body path in its truth model, one group per central body (positioned like `frames`). */
+  private truthRoot = new THREE.Group();
+  private truthFrames = new Map<number, THREE.Group>();
+  /** The n-body flight the ship follows (positions relative to the star), or null. */
+  private track: Pick<NBodySamples, 't' | 'star'> | null = null;
+  /** A patched-conic flight drawn as the comparison, per central body. */
+  private comparisonRoot = new THREE.Group();
+  private comparisonFrames = new Map<number, THREE.Group>();
+  /** The result's own path is drawn as the comparison (the truth model's path is the main one). */
+  private resultIsComparison = false;
   private grid: THREE.Object3D | null = null;
 
   private t = 0;
@@ -268,7 +285,7 @@ export class SystemScene {
 
     this.scene.add(new THREE.AmbientLight(0xffffff, 0.22));
     this.scene.add(this.starLight);
-    this.scene.add(this.systemRoot, this.resultRoot, this.gameRoot);
+    this.scene.add(this.systemRoot, this.resultRoot, this.gameRoot, this.truthRoot, this.comparisonRoot);
 
     this.ship = new THREE.Mesh(new THREE.OctahedronGeometry(1, 0), new THREE.MeshBasicMaterial({ color: PALETTE.ship }));
     this.ship.visible = false;
@@ -385,8 +402,8 @@ export class SystemScene {
         line.add(new THREE.Line(geo, this.shared.burnLine));
         line.add(new THREE.Points(geo, this.shared.burnDots));
       } else {
-        // Coasts: a thin mint line.
-        line = new THREE.Line(geo, this.shared.coast);
+        // Coasts: a thin mint line (faint when the truth model's path is the main one).
+        line = new THREE.Line(geo, this.resultIsComparison ? this.shared.comparison : this.shared.coast);
       }
       line.userData.kind = seg.kind;
       frameOf(seg.central).add(line);
@@ -487,6 +504,85 @@ export class SystemScene {
       this.scene.add(line);
     }
     this.requestRender();
+  }
+
+  /**
+   * Draws (or, with nulls, removes) the plan's path in its truth model when that is n-body: the
+   * paths in their central bodies' frames (target/truthTrack.ts), and the flight the ship follows.
+   */
+  setTruthTrack(paths: TruthPath[] | null, track: Pick<NBodySamples, 't' | 'star'> | null): void {
+    this.clearLines(this.truthRoot, this.truthFrames);
+    this.track = track && track.t.length >= 2 ? track : null;
+    for (const p of paths ?? []) {
+      const f32 = new Float32Array(p.points.length);
+      for (let k = 0; k < f32.length; k++) f32[k] = p.points[k] * U;
+      const geo = new THREE.BufferGeometry();
+      geo.setAttribute('position', new THREE.BufferAttribute(f32, 3));
+      const line = new THREE.Line(geo, this.shared.truthLine);
+      line.userData.kind = 'truth';
+      this.frameIn(this.truthRoot, this.truthFrames, p.central).add(line);
+    }
+    this.requestRender();
+  }
+
+  /** Draws (or, with null, removes) another patched-conic flight of the plan, faint, as the comparison. */
+  setComparison(result: PlanResult | null): void {
+    this.clearLines(this.comparisonRoot, this.comparisonFrames);
+    for (const seg of result?.segments ?? []) {
+      const n = seg.sampleT.length;
+      if (n < 2) continue;
+      const f32 = new Float32Array(3 * n);
+      for (let k = 0; k < 3 * n; k++) f32[k] = seg.samples[k] * U;
+      const geo = new THREE.BufferGeometry();
+      geo.setAttribute('position', new THREE.BufferAttribute(f32, 3));
+      const line = new THREE.Line(geo, this.shared.comparison);
+      line.userData.kind = 'comparison';
+      this.frameIn(this.comparisonRoot, this.comparisonFrames, seg.central).add(line);
+    }
+    this.requestRender();
+  }
+
+  /** Draws the result's own coasts as the comparison (faint) or as the plan's path. */
+  setResultAsComparison(on: boolean): void {
+    if (on === this.resultIsComparison) return;
+    this.resultIsComparison = on;
+    const mat = on ? this.shared.comparison : this.shared.coast;
+    this.resultRoot.traverse((o) => {
+      if (o.userData.kind === 'coast') (o as THREE.Line).material = mat;
+    });
+    this.requestRender();
+  }
+
+  /** What the System view draws as the truth model's path and the comparison (for tests). */
+  truthDrawing(): { truthLines: number; comparisonLines: number; resultIsComparison: boolean; shipOnTrack: boolean } {
+    let truthLines = 0;
+    let comparisonLines = 0;
+    this.truthRoot.traverse((o) => void (o.userData.kind === 'truth' && truthLines++));
+    this.comparisonRoot.traverse((o) => void (o.userData.kind === 'comparison' && comparisonLines++));
+    const s = [0, 0, 0];
+    return {
+      truthLines,
+      comparisonLines,
+      resultIsComparison: this.resultIsComparison,
+      shipOnTrack: this.track !== null && trackPosition(this.track, this.t, s),
+    };
+  }
+
+  private frameIn(root: THREE.Group, frames: Map<number, THREE.Group>, central: number): THREE.Group {
+    let g = frames.get(central);
+    if (!g) {
+      g = new THREE.Group();
+      frames.set(central, g);
+      root.add(g);
+    }
+    return g;
+  }
+
+  /** Frees the lines' geometry (materials are shared) and empties the root. */
+  private clearLines(root: THREE.Group, frames: Map<number, THREE.Group>): void {
+    root.traverse((o) => (o as THREE.Line).geometry?.dispose());
+    root.clear();
+    frames.clear();
   }
 
   /**
@@ -662,9 +758,11 @@ export class SystemScene {
       w[3 * i + 1] = this.tmp3[1];
       w[3 * i + 2] = this.tmp3[2];
     }
-    // Ship.
+    // Ship: on the truth model's n-body flight when there is one, else on the plan's result.
     this.shipCentral = -1;
-    if (this.result) {
+    if (this.track && trackPosition(this.track, this.t, this.shipWorld)) {
+      this.shipCentral = 0;
+    } else if (this.result) {
       const k = shipStateAt(this.result, this.t, this.ship6);
       if (k >= 0) {
         const c = this.result.segments[k].central;
@@ -729,6 +827,8 @@ export class SystemScene {
     this.nbodyLine?.position.copy(this.bodies[0].group.position);
     for (const [c, g] of this.frames) g.position.set((w[3 * c] - o[0]) * U, (w[3 * c + 1] - o[1]) * U, (w[3 * c + 2] - o[2]) * U);
     for (const [c, g] of this.gameFrames) g.position.set((w[3 * c] - o[0]) * U, (w[3 * c + 1] - o[1]) * U, (w[3 * c + 2] - o[2]) * U);
+    for (const [c, g] of this.truthFrames) g.position.set((w[3 * c] - o[0]) * U, (w[3 * c + 1] - o[1]) * U, (w[3 * c + 2] - o[2]) * U);
+    for (const [c, g] of this.comparisonFrames) g.position.set((w[3 * c] - o[0]) * U, (w[3 * c + 1] - o[1]) * U, (w[3 * c + 2] - o[2]) * U);
     for (const m of this.markers) {
       m.group.position.copy(m.rel);
       const gp = this.frames.get(m.central)!.position;
@@ -776,6 +876,8 @@ export class SystemScene {
     this.clearGroup(this.systemRoot);
     this.clearResult();
     this.setGameStep(null);
+    this.clearLines(this.truthRoot, this.truthFrames);
+    this.clearLines(this.comparisonRoot, this.comparisonFrames);
     this.shared.dispose();
     this.renderer.dispose();
     this.renderer.domElement.remove();

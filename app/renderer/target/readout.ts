@@ -1,5 +1,5 @@
 /**
- * What the Budget and the target readout show: the plan flown in its truth model. In patched
+ * What the Budget, the target readout and the System view show: the plan flown in its truth model. In patched
  * conics that is the plan's evaluation; in the other models the truth report computed in the
  * worker (analysis/truthStore.ts), with the patched-conic figures beside it as a labelled
  * comparison. Until the first report of a model arrives (or when it failed) the evaluation's
@@ -10,6 +10,7 @@ import { planTruthModel, truthModelLabel } from '../../../core/plan/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import type { TruthGoal } from '../../../core/target/index.ts';
 import { truthIsCurrent, type TruthState } from '../analysis/truthStore.ts';
+import type { NBodySamples } from './truthTrack.ts';
 
 const DEG = Math.PI / 180;
 
@@ -133,4 +134,40 @@ export function readout(plan: Plan, system: StarSystem, evaluation: PlanResult, 
     comparison,
     error: null,
   };
+}
+
+/** What the System view draws: the plan's path in its truth model as the main path, the patched-conic path as the comparison. */
+export interface ViewPaths {
+  /** The patched-conic result the scene draws with its burn markers (the ship follows it when there is no track). */
+  result: PlanResult | null;
+  /** `result`'s path is drawn as the comparison (n-body truth: the track is the main path). */
+  resultIsComparison: boolean;
+  /** Another patched-conic flight drawn faint as the comparison (finite truth: the plan's own evaluation). */
+  comparison: PlanResult | null;
+  /** The n-body flight (n-body truth), relative to the star; the main path. */
+  track: NBodySamples | null;
+  /** Words of the main path's model. */
+  label: string;
+  /** Words of the comparison, or null. */
+  comparisonLabel: string | null;
+}
+
+/** The paths of the plan in its truth model (the last report of that model, even while a newer one is computed). */
+export function viewPaths(plan: Plan, evaluation: PlanResult | null, truth: TruthState): ViewPaths {
+  const model = planTruthModel(plan);
+  const conic: ViewPaths = {
+    result: evaluation,
+    resultIsComparison: false,
+    comparison: null,
+    track: null,
+    label: truthModelLabel('conic'),
+    comparisonLabel: null,
+  };
+  const r = truth.report;
+  if (model === 'conic' || !r || r.model !== model || truth.generation !== truth.docGeneration) return conic;
+  const comparisonLabel = truthModelLabel('conic');
+  if (model === 'finite') return { ...conic, result: r.conic, comparison: evaluation, label: r.label, comparisonLabel };
+  const track = r.nbody?.samples ?? null;
+  if (!track) return conic;
+  return { ...conic, resultIsComparison: true, track, label: r.label, comparisonLabel };
 }

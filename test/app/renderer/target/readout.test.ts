@@ -5,7 +5,7 @@ import { parsePlanFile } from '../../../../core/io/planFile.ts';
 import { parseSystemFile } from '../../../../core/io/systemFile.ts';
 import { truthReport } from '../../../../core/target/index.ts';
 import type { TruthState } from '../../../../app/renderer/analysis/truthStore.ts';
-import { conicTarget, readout } from '../../../../app/renderer/target/readout.ts';
+import { conicTarget, readout, viewPaths } from '../../../../app/renderer/target/readout.ts';
 
 const root = new URL('../../../../', import.meta.url);
 const system = parseSystemFile(readFileSync(new URL('assets/systems/ilmar.system.json', root), 'utf8')).system;
@@ -82,5 +82,37 @@ describe('the readout of the plan in its truth model', () => {
   it('has no target readout for a plan without a target', () => {
     const plan = { ...demo, target: null };
     expect(conicTarget(plan, system, evaluate(system, plan))).toBeNull();
+  });
+});
+
+describe('the paths the System view draws', () => {
+  it('in patched conics: the evaluation, nothing else', () => {
+    const result = evaluate(system, demo);
+    const v = viewPaths(demo, result, state({}));
+    expect(v).toMatchObject({ result, resultIsComparison: false, comparison: null, track: null, comparisonLabel: null });
+  });
+
+  it('with every burn finite: the finite flight as the path, the plan’s evaluation as the comparison', () => {
+    const plan = { ...demo, truthModel: 'finite' as const };
+    const result = evaluate(system, plan);
+    const report = truthReport(system, plan);
+    const v = viewPaths(plan, result, state({ model: 'finite', report, revision: 3, generation: 1 }));
+    expect(v.result).toBe(report.conic);
+    expect(v.comparison).toBe(result);
+    expect(v.label).toBe('patched conics, every burn finite');
+    expect(v.comparisonLabel).toBe('patched conics');
+    // before its report: the evaluation alone
+    expect(viewPaths(plan, result, state({ model: 'finite', pending: true })).comparison).toBeNull();
+  });
+
+  it('in n-body: the n-body flight as the path, the evaluation drawn as the comparison', () => {
+    const plan = { ...demo, truthModel: 'nbody' as const };
+    const result = evaluate(system, plan);
+    const report = truthReport(system, plan);
+    const v = viewPaths(plan, result, state({ model: 'nbody', report, revision: 2, generation: 1, pending: true }));
+    expect(v.track).toBe(report.nbody!.samples);
+    expect(v.result).toBe(result);
+    expect(v.resultIsComparison).toBe(true);
+    expect(v.label).toBe('n-body');
   });
 });
