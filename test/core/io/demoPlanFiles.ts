@@ -1,7 +1,7 @@
 /**
  * The demo plan files in assets/plans/ and how they are made: the in-memory demo plans of
- * test/fixtures/demoPlan.ts written through the plan-file serialiser, naming the demo system by
- * relative path. Regenerate with
+ * test/fixtures/demoPlan.ts and test/fixtures/skerryPlan.ts written through the plan-file
+ * serialiser, naming the demo system by relative path. Regenerate with
  *   npx tsx test/core/io/demoPlanFiles.ts
  * (test/core/io/demoPlans.test.ts fails when the files and the fixture drift apart).
  */
@@ -9,12 +9,14 @@ import { fileURLToPath } from 'node:url';
 import { serializePlanFile, type PlanSystemRef } from '../../../core/io/planFile.ts';
 import type { Plan } from '../../../core/plan/plan.ts';
 import { demoPlan, heavyDemoPlan } from '../../fixtures/demoPlan.ts';
+import { skerryPlan } from '../../fixtures/skerryPlan.ts';
 
 export const DEMO_SYSTEM_REF: PlanSystemRef = { kind: 'path', path: '../systems/ilmar.system.json' };
 
 export const DEMO_PLAN_FILES: { file: string; plan: Plan }[] = [
   { file: 'tessel-to-ochre.plan.json', plan: demoPlan },
   { file: 'tessel-to-ochre-heavy.plan.json', plan: heavyDemoPlan },
+  { file: 'tessel-to-skerry.plan.json', plan: skerryPlan() },
 ];
 
 export const PLANS_DIR = new URL('../../../assets/plans/', import.meta.url);
