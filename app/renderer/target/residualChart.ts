@@ -68,10 +68,10 @@ export function residualChart(series: readonly ResidualPoint[], width: number, h
     const drawn = ps.length === 1 ? [...ps, { ...last, flights: last.flights + Math.max(0.5, (fmax - fmin) * 0.01) }] : ps;
     legs.push({ leg, d: line(drawn) ?? '', lastX: x(last.flights), lastY: y(last.residual) });
   }
-  // label every decade, or every other/third when there are many
+  // label every decade, or every other/third one counted from 1 (always labelled) when there are many
   const span = y1 - y0;
   const every = span > 8 ? 3 : span > 4 ? 2 : 1;
   const yTicks: ResidualChart['yTicks'] = [];
-  for (let n = y0; n <= y1; n++) if ((n - y0) % every === 0 || n === 0) yTicks.push({ y: y(10 ** n), label: decade(n) });
+  for (let n = y0; n <= y1; n++) if (n % every === 0) yTicks.push({ y: y(10 ** n), label: decade(n) });
   return { width, height, left, right, top, bottom, legs, metY: y0 <= 0 && y1 >= 0 ? y(1) : null, yTicks, flights: fmax };
 }
