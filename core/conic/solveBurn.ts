@@ -373,13 +373,19 @@ export function hyperbolicDeparture(mu: number, state: ArrayLike<number>, vInf: 
   return out;
 }
 
+/** Negative discriminants of a capture down to this size are rounding (a flight-path angle of 1e-6 rad). */
+export const DISC_ROUNDING = 1e-12;
+
 /** 'capture': along ±V, the speed giving eccentricity e (see the module comment). */
 export function solveCapture(mu: number, state: ArrayLike<number>, e: number, out: Vec3): Vec3 {
   const c = conicInfo(mu, state, ci);
   const r = c.r,
     v = c.v;
   const cos2 = (c.h / (r * v)) ** 2; // cos² of the flight-path angle
-  const disc = 1 - (1 - e * e) / cos2;
+  let disc = 1 - (1 - e * e) / cos2;
+  // at an apsis found numerically cos² rounds just below 1 and a circular capture's disc to −1e-16:
+  // a flight-path angle below 1e-6 rad counts as zero (the orbit then comes out with e below 1e-6)
+  if (disc < 0 && disc > -DISC_ROUNDING) disc = 0;
   if (!(disc >= 0)) fail(`eccentricity ${e} cannot be reached by a burn along the velocity here (flight-path angle too steep)`);
   const sq = Math.sqrt(disc);
   const u1 = (mu / r) * (1 + sq);

@@ -20,7 +20,7 @@ import type { Plan } from '../plan/index.ts';
 import type { PlanResult } from '../plan/index.ts';
 import { conicInfo } from '../conic/index.ts';
 import { NBodyModel, type NBodyModelOptions, type NBodyState, type Vec3Tuple } from './model.ts';
-import { flyNBody, type NBodySamples, type NBodyStates, type NBodyStats } from './flight.ts';
+import { flyNBody, type NBodyAction, type NBodySamples, type NBodyStates, type NBodyStats } from './flight.ts';
 import {
   burnActions,
   compareArrival,
@@ -52,6 +52,12 @@ export interface VerifyOptions extends NBodyModelOptions {
   step?: number;
   onProgress?: (done: number, total: number) => void;
   signal?: { aborted: boolean };
+  /**
+   * Fly these actions to this end instead of the conic result's burns and end (a timed burn
+   * schedule flown from the plan alone, core/target scheduleActions: a patched-conic path that
+   * ends early, e.g. in an impact, then does not cut the n-body flight short).
+   */
+  schedule?: { actions: NBodyAction[]; end: number };
 }
 
 /** Osculating orbit about the target at the end of the flight, against the conic result's. */
@@ -95,10 +101,10 @@ export function verifyNBody(system: StarSystem, plan: Plan, conicResult: PlanRes
   if (conicResult?.model !== 'conic') throw new InputError('conicResult', "must be a patched-conic PlanResult (model 'conic')", conicResult?.model);
   const model = new NBodyModel(system, options);
   const start = conicStart(conicResult);
-  const { actions, notes } = burnActions(plan, conicResult);
+  const { actions, notes } = options.schedule ? { actions: options.schedule.actions, notes: [] as string[] } : burnActions(plan, conicResult);
   const arrival = conicArrival(system, plan, conicResult);
   if (plan.target && !arrival) notes.push(`the patched-conic flight does not reach ${plan.target.body}'s sphere of influence: no arrival comparison`);
-  let tEnd = conicResult.t1;
+  let tEnd = options.schedule ? options.schedule.end : conicResult.t1;
   if (options.until !== undefined) {
     requireFinite('options.until', options.until);
     if (!(options.until >= start.t)) throw new InputError('options.until', `must be >= the start time ${start.t}`, options.until);

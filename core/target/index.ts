@@ -15,7 +15,7 @@ export { DEFAULT_TARGET_TOLERANCES, finalGoals, planLegs } from './legs.ts';
 export type { Leg, TargetTolerances } from './legs.ts';
 export { measure } from './measure.ts';
 export type { BPlaneAxes, FlightGoal, MeasureKind } from './measure.ts';
-export { flyModel, freezeSchedule, isSchedule, planForModel } from './modelFlight.ts';
+export { flyModel, freezeSchedule, isSchedule, planForModel, scheduleActions } from './modelFlight.ts';
 export type { FlyModelOptions, ModelFlight } from './modelFlight.ts';
 export { targetPlan } from './targetPlan.ts';
 export type { ControlChange, FailureReason, LegReport, TargetOptions, TargetProgress, TargetResult } from './targetPlan.ts';

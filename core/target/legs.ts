@@ -41,7 +41,7 @@ export interface TargetTolerances {
 }
 
 /** Defaults: far inside the plan's own "reached" tolerances, so every model agrees on "reached". */
-export const DEFAULT_TARGET_TOLERANCES: TargetTolerances = { altitude: 100, i: 0.001 * DEG, e: 1e-5, time: 10 };
+export const DEFAULT_TARGET_TOLERANCES: TargetTolerances = { altitude: 100, i: 0.001 * DEG, e: 1e-5, time: 60 };
 
 export interface Leg {
   /** "arrival at Ochre", "final orbit about Ochre". */
@@ -52,6 +52,12 @@ export interface Leg {
   /** Ids of the burns whose Δv the leg varies, in plan order. */
   burns: string[];
   goals: FlightGoal[];
+  /**
+   * Arrival legs: a coarse aim met first — the ship's position relative to the body at the
+   * reference SOI entry time, within the body's radius per axis — so that the B-plane and time goals
+   * start where they are nearly linear (far misses bend them); empty for the final leg.
+   */
+  coarse: FlightGoal[];
   /** Arrival legs: the periapsis time there as a goal (among `goals` only when the arrival time is held). */
   timeGoal: FlightGoal | null;
   /** Probe times the goals read (arrival legs: the reference periapsis time). */
@@ -74,7 +80,7 @@ function relativeTo(system: StarSystem, result: PlanResult, k: number, t: number
 }
 
 /** The legs of `plan` from its reference flight (see the module comment). */
-export function planLegs(system: StarSystem, plan: Plan, reference: PlanResult, tol: TargetTolerances = DEFAULT_TARGET_TOLERANCES, arrivalTime = false): Leg[] {
+export function planLegs(system: StarSystem, plan: Plan, reference: PlanResult, tol: TargetTolerances = DEFAULT_TARGET_TOLERANCES, arrivalTime = true): Leg[] {
   const rows = new Map(reference.budget.rows.map((r) => [r.planEventId, r]));
   const burnCentral = new Map<string, number>();
   for (const e of reference.events) if ((e.kind === 'burn' || e.kind === 'burn-start') && e.planEventId !== null) burnCentral.set(e.planEventId, e.central);
@@ -146,7 +152,29 @@ function arrivalLeg(
     { kind: 'arrival-br', body: k, at: t, axes: { T, R }, name: `B·R at ${body.name}`, wanted: b.br, tolerance: bTol, units: 'km', unitScale: 1000 },
   ];
   if (arrivalTime) goals.push(timeGoal);
-  return { name, kind: 'arrival', body: k, burns: [...burns], goals, timeGoal, probes: [t], reference: { t, altitude: info.rp - body.radius, i: info.i } };
+  const pos = relativeTo(system, ref, k, tEntry, s6);
+  const coarse: FlightGoal[] = (['x', 'y', 'z'] as const).map((a, axis) => ({
+    kind: 'position',
+    body: k,
+    at: tEntry,
+    axis: axis as 0 | 1 | 2,
+    name: `${a} from ${body.name} at the SOI entry`,
+    wanted: pos[axis],
+    tolerance: body.radius,
+    units: 'km',
+    unitScale: 1000,
+  }));
+  return {
+    name,
+    kind: 'arrival',
+    body: k,
+    burns: [...burns],
+    goals,
+    coarse,
+    timeGoal,
+    probes: [tEntry, t],
+    reference: { t, altitude: info.rp - body.radius, i: info.i },
+  };
 }
 
 /** The final leg's goals: the plan's target orbit (none without a target). */
@@ -157,7 +185,7 @@ function finalLeg(system: StarSystem, plan: Plan, burns: string[], tol: TargetTo
   if (k < 0) throw new InputError('plan.target.body', 'must name a body of the system', t.body);
   const body = system.bodies[k];
   const goals: FlightGoal[] = finalGoals(plan, k, body.name, body.radius, tol);
-  return { name: `final orbit about ${body.name}`, kind: 'final', body: k, burns: [...burns], goals, timeGoal: null, probes: [], reference: null };
+  return { name: `final orbit about ${body.name}`, kind: 'final', body: k, burns: [...burns], goals, coarse: [], timeGoal: null, probes: [], reference: null };
 }
 
 /** The target orbit as goals on the final osculating orbit about body k. */

@@ -10,6 +10,8 @@
  *   targeter aims arrivals there), the periapsis time, periapsis altitude (the closest approach of
  *   the approach conic), inclination and eccentricity.
  * - SOI entry time at a body.
+ * - The ship's position relative to a body at a time (a coarse aim: nearly linear in the burns
+ *   while the ship is far from the body).
  *
  * A goal the flight cannot give (an open final orbit has no apoapsis; no probe at that time; the
  * flight never enters that SOI; the ship hits a body first) raises SolverError('target',
@@ -33,7 +35,9 @@ export type MeasureKind =
   | 'arrival-periapsis-altitude'
   | 'arrival-inclination'
   | 'arrival-eccentricity'
-  | 'soi-entry-time';
+  | 'soi-entry-time'
+  /** A component (axis 0, 1, 2) of the ship's position relative to the body at the probe time. */
+  | 'position';
 
 /** Unit vectors T and R of a B-plane (inertial axes). */
 export interface BPlaneAxes {
@@ -50,6 +54,8 @@ export interface FlightGoal extends Goal {
   at?: number;
   /** B·T, B·R goals: the B-plane axes they are measured on. */
   axes?: BPlaneAxes;
+  /** 'position' goals: the axis (0 x, 1 y, 2 z). */
+  axis?: 0 | 1 | 2;
 }
 
 const s6 = new Float64Array(6);
@@ -89,6 +95,7 @@ export function measure(system: StarSystem, flight: ModelFlight, goal: FlightGoa
   }
   if (goal.at === undefined || !flight.stateAt(goal.body, goal.at, s6)) return fail(`the flight gives no state near the arrival at ${name}`);
   if (flight.impact && flight.impact.t < goal.at) fail(`the ship hits ${bodyName(system, flight.impact.body)} before the arrival at ${name}`);
+  if (goal.kind === 'position') return s6[goal.axis ?? 0];
   const c = conicInfo(body.mu, s6, info);
   switch (goal.kind) {
     case 'arrival-bt':

@@ -18,7 +18,8 @@ import { InputError, SolverError } from '../math/index.ts';
 import { bodyState, type StarSystem } from '../system/index.ts';
 import type { Plan, PlanResult, TruthModel } from '../plan/index.ts';
 import { evaluate, shipStateAt } from '../conic/index.ts';
-import { NBodyModel, burnActions, conicStart, flyNBody, freezePlan, type NBodyAction, type NBodyModelOptions, type NBodyState } from '../nbody/index.ts';
+import { NBodyModel, conicStart, flyNBody, freezePlan, type NBodyAction, type NBodyModelOptions, type NBodyState } from '../nbody/index.ts';
+import { createBurnBook, createVehicleState, dropStage, spendBurn } from '../plan/index.ts';
 
 /** The plan as the model flies it: every burn finite for 'finite', else unchanged. */
 export function planForModel(plan: Plan, model: TruthModel): Plan {
@@ -48,6 +49,49 @@ export function isSchedule(plan: Plan): boolean {
       ? e.t !== null && e.solve.kind === 'fixed' && e.frame === 'inertial' && (e.mode === 'impulsive' || e.pointing === 'inertial')
       : e.type !== 'coast' || e.until.kind === 'time' || e.until.kind === 'duration',
   );
+}
+
+/**
+ * The n-body actions of a timed schedule, from the plan alone (never from a patched-conic path,
+ * which may end early — an impact — where the n-body ship flies on): each burn at its time with its
+ * inertial Δv, scaled by the part the propellant delivers (vehicle bookkeeping over the burns and
+ * staging in order); a finite burn as its stage phases centred on its time, thrust along the
+ * fixed Δv direction. Also the schedule's end: the last burn's end, timed coast or duration coast,
+ * or the plan's `end` when later.
+ */
+export function scheduleActions(plan: Plan, t0: number): { actions: NBodyAction[]; end: number } {
+  const vehicle = plan.vehicle;
+  const vs = createVehicleState(vehicle);
+  const book = createBurnBook(vehicle);
+  const actions: NBodyAction[] = [];
+  let t = t0;
+  for (const ev of plan.events) {
+    if (ev.type === 'stage') {
+      if (vs.stage < vehicle.stages.length) dropStage(vehicle, vs);
+    } else if (ev.type === 'coast') {
+      if (ev.until.kind === 'time') t = Math.max(t, ev.until.t);
+      else if (ev.until.kind === 'duration') t += ev.until.dt;
+    } else {
+      const tb = ev.t ?? t;
+      const mag = Math.hypot(ev.dv[0], ev.dv[1], ev.dv[2]);
+      spendBurn(vehicle, vs, mag, book);
+      const f = mag > 0 ? book.delivered / mag : 0;
+      const dv: [number, number, number] = [ev.dv[0] * f, ev.dv[1] * f, ev.dv[2] * f];
+      if (ev.mode === 'finite' && book.delivered > 0) {
+        const phases = [];
+        for (let p = 0; p < book.phases; p++) {
+          phases.push({ duration: book.phaseDuration[p], thrust: book.phaseThrust[p], exhaust: book.phaseExhaust[p], mass0: book.phaseMass0[p] });
+        }
+        const u: [number, number, number] = [ev.dv[0] / mag, ev.dv[1] / mag, ev.dv[2] / mag];
+        actions.push({ kind: 'finite', t: tb - book.duration / 2, id: ev.id, phases, pointing: 'inertial', u, vnb: null });
+        t = Math.max(t, tb + book.duration / 2);
+      } else {
+        actions.push({ kind: 'impulse', t: tb, id: ev.id, dv });
+        t = Math.max(t, tb);
+      }
+    }
+  }
+  return { actions, end: plan.end !== null ? Math.max(t, plan.end) : t };
 }
 
 /** One flight of a plan in a model, with what goals read from it. */
@@ -124,12 +168,13 @@ export function flyModel(system: StarSystem, plan: Plan, model: TruthModel, opti
   if (!isSchedule(plan)) throw new InputError('plan', 'must be a timed burn schedule to fly in n-body (freeze it first)', plan.name);
   const nb = options.nbody ?? new NBodyModel(system, options);
   const start = options.from ?? conicStart(conic);
-  const probes = (options.probes ?? []).filter((t) => t >= start.t && t <= conic.t1);
-  const actions: NBodyAction[] = burnActions(flown, conic).actions.filter((a) => a.t >= start.t);
+  const schedule = scheduleActions(flown, conic.t0);
+  const probes = (options.probes ?? []).filter((t) => t >= start.t && t <= schedule.end);
+  const actions: NBodyAction[] = schedule.actions.filter((a) => a.t >= start.t);
   probes.forEach((t, j) => actions.push({ kind: 'checkpoint', t, id: `@probe${j}` }));
-  const keep = (options.checkpoints ?? []).filter((t) => t >= start.t && t <= conic.t1);
+  const keep = (options.checkpoints ?? []).filter((t) => t >= start.t && t <= schedule.end);
   keep.forEach((t, j) => actions.push({ kind: 'checkpoint', t, id: `@keep${j}` }));
-  const tEnd = options.until !== undefined ? Math.max(start.t, Math.min(conic.t1, options.until)) : conic.t1;
+  const tEnd = options.until !== undefined ? Math.max(start.t, Math.min(schedule.end, options.until)) : schedule.end;
   const fly = flyNBody(
     nb,
     start,

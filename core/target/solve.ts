@@ -86,9 +86,10 @@ export interface SolveOptions {
   /** Initial damping relative to the largest diagonal entry of JᵀJ; default DEFAULT_DAMPING. */
   damping?: number;
   /**
-   * 'broyden': after the first differenced Jacobian, update it by Broyden's rank-one secant formula
-   * at each accepted step (one flight per iteration instead of n + 1), differencing afresh only when
-   * a step is rejected or the updated Jacobian sees no way down; default 'difference' (every iteration).
+   * 'broyden': after a differenced Jacobian, update it by Broyden's rank-one secant formula at each
+   * accepted step (one flight per iteration instead of n + 1), differencing afresh when a step is
+   * rejected, when a step does not halve the misses, or when the updated Jacobian sees no way down;
+   * default 'difference' (every iteration).
    */
   jacobianUpdate?: 'difference' | 'broyden';
 }
@@ -479,6 +480,8 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
             }
           }
           stale = true;
+          // a secant step that did not at least halve the misses: difference afresh next time
+          if (costT > 0.25 * cost) fresh = false;
         }
         const rho = pred > 0 ? (0.5 * (cost - costT)) / pred : 1;
         lambda *= Math.max(1 / 3, 1 - (2 * rho - 1) ** 3);

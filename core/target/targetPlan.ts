@@ -48,7 +48,11 @@ export interface TargetOptions extends NBodyModelOptions {
   maxIterations?: number;
   /** Flights per leg at most (default 400). */
   maxFlights?: number;
-  /** Hold each arrival's periapsis time as the reference flies it (default false: the arrival may come earlier or later, and a timed schedule is shifted to match). */
+  /**
+   * Hold each arrival's periapsis time as the reference flies it, within the time tolerance
+   * (default true). Off: the arrival may come earlier or later (cheaper in Δv) and a timed
+   * schedule is shifted to match — a moon or a planet further on is then elsewhere in its orbit.
+   */
   arrivalTime?: boolean;
   /**
    * Timing controls added to the leg they act on (the first leg with a burn at or after the event):
@@ -113,6 +117,12 @@ const DEFAULT_MAX_ITERATIONS = 30;
 const DEFAULT_MAX_FLIGHTS = 400;
 /** Finite-difference step on Δv components, m/s: above the n-body integration's noise (rtol 1e-10 over a year ≈ tens of metres at arrival), far below any useful change. */
 const FD_STEP = 1e-3;
+/**
+ * Initial damping τ (λ₀ = τ·max diag JᵀJ): small, as Madsen, Nielsen & Tingleff advise when the
+ * start is believed good (1e-6). An arrival's B-plane is thousands of times more sensitive to the
+ * burns than its time is, so a larger τ damps the time's directions for many iterations.
+ */
+const DAMPING = 1e-6;
 /** Δv components are measured in steps of this size, m/s. */
 const DV_SCALE = 1;
 
@@ -182,7 +192,7 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
   const maxFlights = options.maxFlights ?? DEFAULT_MAX_FLIGHTS;
   // the designer's intent: the plan with every burn impulsive (its solved burns aim there)
   const reference = evaluate(system, impulsive(plan), { samplesPerSegment: 0 });
-  const legs = planLegs(system, plan, reference, tol, options.arrivalTime ?? false);
+  const legs = planLegs(system, plan, reference, tol, options.arrivalTime ?? true);
   const nbody = model === 'nbody' ? new NBodyModel(system, options) : undefined;
   let work: Plan = model === 'nbody' ? freezeSchedule(system, plan, evaluate(system, plan, { samplesPerSegment: 0 })) : plan;
   const before = evaluate(system, planForModel(work, model), { samplesPerSegment: 0 });
@@ -206,7 +216,9 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
   let flightsAll = 0;
   let iterationsAll = 0;
 
-  legs.forEach((leg: Leg, li: number) => {
+  let shifted = 0; // how far the schedule has moved so far (n-body): later legs' probes move with it
+  legs.forEach((original: Leg, li: number) => {
+    const leg = shifted === 0 ? original : shiftLeg(original, shifted);
     const current = evaluate(system, planForModel(work, model), { samplesPerSegment: 0 });
     const { controls, x0 } = legControls(work, current, leg.burns, options.maxChange);
     for (const tc of timing.get(li) ?? []) {
@@ -235,16 +247,35 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
       best = Math.min(best, Math.sqrt(s));
       options.onProgress?.({ leg: li + 1, legs: legs.length, legName: leg.name, flights: flightsAll, residual: best });
     };
-    const res = solveTargets(controls, leg.goals, flight, { x0, maxIterations, maxFlights, jacobianUpdate: model === 'nbody' ? 'broyden' : 'difference' });
+    const solveOptions = { maxIterations, maxFlights, damping: DAMPING, jacobianUpdate: model === 'nbody' ? ('broyden' as const) : ('difference' as const) };
+    // a coarse aim first when the flight starts far off (see legs.ts), then the leg's goals from there
+    let start: ArrayLike<number> = x0;
+    let coarseIterations = 0;
+    let coarseFlights = 0;
+    if (leg.coarse.length > 0) {
+      const coarseFlight = (x: Float64Array, out: Float64Array) => {
+        const f = flyModel(system, applyControls(work, controls, x), model, { probes: leg.probes, from, nbody, signal: options.signal, until });
+        flightsAll++;
+        for (let i = 0; i < leg.coarse.length; i++) out[i] = measure(system, f, leg.coarse[i]);
+        options.onProgress?.({ leg: li + 1, legs: legs.length, legName: leg.name, flights: flightsAll, residual: best });
+      };
+      const c = solveTargets(controls, leg.coarse, coarseFlight, { ...solveOptions, x0 });
+      coarseIterations = c.iterations;
+      coarseFlights = c.flights;
+      if (c.status === 'converged') start = c.x;
+    }
+    const solved = solveTargets(controls, leg.goals, flight, { ...solveOptions, x0: start });
+    const res = { ...solved, iterations: solved.iterations + coarseIterations, flights: solved.flights + coarseFlights };
     iterationsAll += res.iterations;
     if (res.history.length > 0 || res.status === 'converged') work = applyControls(work, controls, res.x);
     // a timed schedule follows the arrival: later burns and timed coasts move with its periapsis time
     let shift = 0;
-    if (model === 'nbody' && leg.timeGoal && !leg.goals.includes(leg.timeGoal) && res.status === 'converged') {
+    if (model === 'nbody' && leg.timeGoal && res.status === 'converged') {
       const f = flyModel(system, work, model, { probes: leg.probes, from, nbody, signal: options.signal, until });
       flightsAll++;
       shift = measure(system, f, leg.timeGoal) - leg.timeGoal.wanted;
       work = shiftAfter(work, leg.burns[leg.burns.length - 1], shift);
+      shifted += shift;
     }
     const failure = res.status === 'converged' ? null : failureOf(res.status, res.atBound, lastFlight, res.error);
     reports.push({
@@ -289,6 +320,18 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
     margin: { before: before.budget.margin, after: after.budget.margin },
     message,
   };
+}
+
+/** The leg with its probe times (and a periapsis-time goal's wanted value) moved by dt seconds. */
+function shiftLeg(leg: Leg, dt: number): Leg {
+  const move = (g: Leg['goals'][number]) => ({
+    ...g,
+    at: g.at === undefined ? undefined : g.at + dt,
+    wanted: g.kind === 'arrival-periapsis-time' ? g.wanted + dt : g.wanted,
+  });
+  const goals = leg.goals.map(move);
+  const timeGoal = leg.timeGoal ? (goals[leg.goals.indexOf(leg.timeGoal)] ?? move(leg.timeGoal)) : null;
+  return { ...leg, goals, coarse: leg.coarse.map(move), timeGoal, probes: leg.probes.map((t) => t + dt) };
 }
 
 /** The plan with every timed burn and timed coast after burn `afterId` moved by dt seconds (and its end, if set). */

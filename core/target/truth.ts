@@ -16,7 +16,7 @@ import type { Budget, Plan, PlanResult, TruthModel } from '../plan/index.ts';
 import { planTruthModel, truthModelLabel } from '../plan/index.ts';
 import { evaluate } from '../conic/index.ts';
 import { verifyNBody, type NBodyModelOptions, type NBodyResult } from '../nbody/index.ts';
-import { freezeSchedule, isSchedule, planForModel } from './modelFlight.ts';
+import { freezeSchedule, isSchedule, planForModel, scheduleActions } from './modelFlight.ts';
 
 const DEG = Math.PI / 180;
 
@@ -78,7 +78,13 @@ export function truthReport(system: StarSystem, plan: Plan, options: TruthOption
   const conic = evaluate(system, flown, samples ? {} : { samplesPerSegment: 0 });
   let achieved: TruthReport['achieved'] = null;
   if (model === 'nbody') {
-    nbody = verifyNBody(system, flown, conic, { ...options, samples, onProgress: options.onProgress, signal: options.signal });
+    nbody = verifyNBody(system, flown, conic, {
+      ...options,
+      samples,
+      onProgress: options.onProgress,
+      signal: options.signal,
+      schedule: scheduleActions(flown, conic.t0),
+    });
     achieved = nbody.final?.nbody ?? null;
     notes.push(...nbody.notes.filter((n) => !n.includes('no arrival comparison')));
   } else {

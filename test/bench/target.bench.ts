@@ -8,14 +8,14 @@
  * leg's first burn and stopping arrival legs at their probe save.
  * Goals (issue 12): demo conic < 20 ms, finite < 200 ms, n-body < 1 s; multi-leg n-body < 3 s.
  */
-import { existsSync, readFileSync } from 'node:fs';
-import { parsePlanFile } from '../../core/io/planFile.ts';
+import { readFileSync } from 'node:fs';
 import { parseSystemFile } from '../../core/io/systemFile.ts';
 import type { Plan } from '../../core/plan/plan.ts';
 import { flyModel, targetPlan } from '../../core/target/index.ts';
 import type { TruthModel } from '../../core/plan/plan.ts';
 import { evaluate } from '../../core/conic/evaluate.ts';
 import { demoPlan } from '../fixtures/demoPlan.ts';
+import { skerryPlan } from '../fixtures/skerryPlan.ts';
 import { printTable, timeMedian } from './table.ts';
 
 function allFinite(plan: Plan): Plan {
@@ -29,9 +29,8 @@ export async function run(): Promise<void> {
     { name: 'demo, every burn finite', plan: allFinite(demoPlan), model: 'finite', goal: 200 },
     { name: 'demo', plan: demoPlan, model: 'nbody', goal: 1000 },
   ];
-  const skerryUrl = new URL('../../assets/plans/tessel-to-skerry.plan.json', import.meta.url);
-  if (existsSync(skerryUrl)) {
-    const skerry = parsePlanFile(readFileSync(skerryUrl, 'utf8'), { system }).plan;
+  {
+    const skerry = skerryPlan();
     cases.push({ name: 'Tessel → Moravel → Skerry', plan: skerry, model: 'conic', goal: 20 });
     cases.push({ name: 'Tessel → Moravel → Skerry', plan: skerry, model: 'nbody', goal: 3000 });
   }

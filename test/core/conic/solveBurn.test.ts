@@ -38,6 +38,19 @@ describe('capture', () => {
     }
   });
 
+  it('a circular capture a hair off periapsis (flight-path angle 1e-8 rad, as a numerically found apsis is) succeeds with e below 1e-6', () => {
+    const rp = R_EARTH + 500e3;
+    const a = -MU_EARTH / 3000 ** 2;
+    const e = 1 - rp / a;
+    // the true anomaly whose flight-path angle is 1e-8 rad: tan γ = e sin ν / (1 + e cos ν) ≈ e ν / (1 + e) near ν = 0
+    const nu = (1e-8 * (1 + e)) / e;
+    const s = elementsToState(MU_EARTH, { a, e, i: 0.5, raan: 0.2, argp: 1, nu });
+    const dv = solveCapture(MU_EARTH, s, 0, [0, 0, 0]);
+    const c = conicInfo(MU_EARTH, [s[0], s[1], s[2], s[3] + dv[0], s[4] + dv[1], s[5] + dv[2]]);
+    // a burn along V cannot remove the 1e-8 rad flight-path angle: e comes out of that order
+    expect(c.e).toBeLessThan(1e-6);
+  });
+
   it('fails when the flight-path angle is too steep for the eccentricity', () => {
     const a = -MU_EARTH / 3000 ** 2;
     const s = elementsToState(MU_EARTH, { a, e: 1.5, i: 0, raan: 0, argp: 0, nu: -2.0 });
