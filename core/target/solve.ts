@@ -122,8 +122,10 @@ export interface SolveResult {
   message: string;
   /** Best controls found (SI units): the last accepted point. */
   x: Float64Array;
-  /** Goals' values at x (SI units). */
+  /** Goals' values at x (SI units); zeros when `flown` is false. */
   values: Float64Array;
+  /** The flight gave goal values at least once (false: it failed at the starting controls). */
+  flown: boolean;
   goals: GoalOutcome[];
   /** Names of the controls at a bound at x. */
   atBound: string[];
@@ -360,6 +362,7 @@ export function solveTargets(controls: readonly Control[], goals: readonly Goal[
       message,
       x: Float64Array.from(x),
       values: Float64Array.from(g),
+      flown,
       goals: outcomes,
       atBound,
       iterations,

@@ -85,7 +85,8 @@ export interface LegReport {
   status: SolveStatus;
   /** The solver's words: what was met, what was not and why. */
   message: string;
-  goals: (GoalOutcome & { units?: string; unitScale?: number })[];
+  /** Each goal at the leg's end; `value` null when the flight never gave one (it failed at the start). */
+  goals: (Omit<GoalOutcome, 'value'> & { value: number | null; units?: string; unitScale?: number })[];
   controls: ControlChange[];
   iterations: number;
   flights: number;
@@ -190,6 +191,11 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
   }
   const maxIterations = options.maxIterations ?? DEFAULT_MAX_ITERATIONS;
   const maxFlights = options.maxFlights ?? DEFAULT_MAX_FLIGHTS;
+  if (!Number.isInteger(maxIterations) || maxIterations < 1) throw new InputError('maxIterations', 'must be a whole number >= 1', maxIterations);
+  if (!Number.isInteger(maxFlights) || maxFlights < 1) throw new InputError('maxFlights', 'must be a whole number >= 1', maxFlights);
+  if (options.maxChange !== undefined && !(options.maxChange > 0 && Number.isFinite(options.maxChange))) {
+    throw new InputError('maxChange', 'must be a finite number of m/s > 0', options.maxChange);
+  }
   // the designer's intent: the plan with every burn impulsive (its solved burns aim there)
   const reference = evaluate(system, impulsive(plan), { samplesPerSegment: 0 });
   const legs = planLegs(system, plan, reference, tol, options.arrivalTime ?? true);
@@ -283,7 +289,12 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
       kind: leg.kind,
       status: res.status,
       message: failure ? `${res.message} Why: ${FAILURE_WORDS[failure]}.` : res.message,
-      goals: res.goals.map((g, i) => ({ ...g, units: leg.goals[i].units, unitScale: leg.goals[i].unitScale })),
+      goals: res.goals.map((g, i) => ({
+        ...g,
+        value: res.flown ? g.value : null,
+        units: leg.goals[i].units,
+        unitScale: leg.goals[i].unitScale,
+      })),
       controls: controls.map((c, j) => ({
         name: c.name,
         burnId: c.kind === 'burn-dv' ? c.burnId : c.eventId,

@@ -60,6 +60,8 @@ export interface TruthOptions extends NBodyModelOptions {
   model?: TruthModel;
   /** Drawing samples (conic: per segment, default 96; n-body: on/off, default on). */
   samples?: boolean;
+  /** n-body: also keep full states on a fixed grid of this step from the start (ephemeris exports), s. */
+  step?: number;
   onProgress?: (done: number, total: number) => void;
   signal?: { aborted: boolean };
 }
@@ -136,6 +138,17 @@ export function truthReport(system: StarSystem, plan: Plan, options: TruthOption
   const budget = conic.budget;
   const marginHolds = budget.margin >= 0;
   if (!marginHolds) failures.push(`margin ${budget.margin.toFixed(1)} m/s is below zero`);
+  // what stops the plan being flown as written, whatever the target: errors of the flight in this model
+  for (const f of conic.flags) {
+    if (f.severity !== 'error') continue;
+    // the patched-conic path's own impact or miss says nothing of an n-body flight
+    if (model === 'nbody' && (f.code === 'impact' || f.code === 'target-missed')) continue;
+    if (f.code === 'negative-margin' || f.code === 'target-missed') continue; // said below in the target's and margin's words
+    failures.push(f.message);
+  }
+  if (nbody?.status === 'impact' && nbody.impact) {
+    failures.push(`the n-body flight hits ${system.bodies[nbody.impact.body]?.name ?? 'a body'} on day ${(nbody.impact.t / 86400).toFixed(2)}`);
+  }
   if (t && !achieved) failures.push(`the ship does not end in orbit about ${name}${nbody?.status === 'impact' ? ' (it hits a body first)' : ''}`);
   for (const g of goals) {
     if (g.met) continue;
