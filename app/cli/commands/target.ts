@@ -1,15 +1,15 @@
 /**
  * `waymark target PLAN -o NEW_PLAN [--model conic|finite|nbody] [--altitude-tolerance D]
  *  [--inclination-tolerance A] [--e-tolerance E] [--time-tolerance T] [--max-change DV]
- *  [--max-iterations N] [--max-flights N] [--arrival-time] [--vary KIND:EVENT]... [--partial]
+ *  [--max-iterations N] [--max-flights N] [--free-arrival] [--vary KIND:EVENT]... [--partial]
  *  [--json]` — targets the plan in a model (core/target targetPlan): leg by leg, the burns' Δv
  * components (in each burn's own frame) are adjusted until the flight in that model meets the
  * leg's goals (an arrival's B-plane point, then the plan's target orbit). The goals default to
  * the plan's target and the arrivals its patched-conic flight aims at; the controls to the plan's
  * burns' Δv.
  *
- * - `--arrival-time` also holds each arrival's periapsis time as the patched-conic plan flies it
- *   (by default the arrival may come earlier or later; in n-body the later schedule moves with it).
+ * - Each arrival's periapsis time is held as the patched-conic plan flies it; `--free-arrival` lets
+ *   it come earlier or later (cheaper; in n-body the later schedule moves with it).
  * - `--vary KIND:EVENT` (repeatable) adds a timing control to the leg it acts on: `time:BURN` a
  *   burn's time, `arrival:BURN` a transfer burn's arrival time (patched-conic models only),
  *   `duration:COAST` a coast's duration.
@@ -93,7 +93,7 @@ interface TargetCliOptions {
   maxChange?: string;
   maxIterations?: string;
   maxFlights?: string;
-  arrivalTime?: boolean;
+  freeArrival?: boolean;
   vary?: string[];
   partial?: boolean;
   json?: boolean;
@@ -187,11 +187,11 @@ export function addTargetCommand(program: Command): void {
     .option('--altitude-tolerance <d>', `how close altitudes must come (m, or with a unit: 0.1km; default ${d.altitude / 1e3}km)`)
     .option('--inclination-tolerance <a>', `how close inclinations must come (rad, or 0.001deg; default ${Number((d.i / DEG).toPrecision(3))}deg)`)
     .option('--e-tolerance <e>', `how close eccentricities must come (default ${d.e})`)
-    .option('--time-tolerance <t>', `how close arrival times must come with --arrival-time (s, min, h, d; default ${d.time}s)`)
+    .option('--time-tolerance <t>', `how close arrival times must come (s, min, h, d; default ${d.time}s)`)
     .option('--max-change <dv>', "largest change of any burn's Δv component (m/s, or with a unit; default unbounded)")
     .option('--max-iterations <n>', 'iterations per leg at most (default 30)')
     .option('--max-flights <n>', 'flights per leg at most (default 400)')
-    .option('--arrival-time', "also hold each arrival's periapsis time as the patched-conic plan flies it")
+    .option('--free-arrival', "let each arrival come earlier or later than the patched-conic plan's (cheaper; the later schedule moves with it)")
     .option('--vary <kind:event>', "also vary an event's timing: time:BURN, arrival:BURN (a transfer's arrival) or duration:COAST (repeatable)", collect)
     .option('--partial', 'write the closest plan found even when not every goal is met (exit code still 1)')
     .option('--json', 'machine-readable output')
@@ -223,7 +223,7 @@ export function addTargetCommand(program: Command): void {
             maxChange,
             maxIterations,
             maxFlights,
-            arrivalTime: !!o.arrivalTime,
+            arrivalTime: !o.freeArrival,
             timeControls,
             onProgress: (p) => {
               if (!first.has(p.leg)) first.set(p.leg, p.residual);

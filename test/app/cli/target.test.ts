@@ -174,11 +174,11 @@ describe('waymark target', () => {
     expect(existsSync(x)).toBe(false);
   });
 
-  it('--arrival-time and --vary: the arrival leg holds the periapsis time and varies the burn time named', async () => {
-    const r = await runCli(['target', DEMO, '--arrival-time', '--vary', 'time:mid-course', '-o', join(work, 'timed.plan.json'), '--json']);
+  it('--free-arrival and --vary: the arrival leg drops the periapsis time and varies the burn time named', async () => {
+    const r = await runCli(['target', DEMO, '--free-arrival', '--vary', 'time:mid-course', '-o', join(work, 'timed.plan.json'), '--json']);
     expect(r.code).toBe(0);
     const leg = JSON.parse(r.stdout).legs[0];
-    expect(leg.goals.map((g: GoalJson) => g.name)).toContain('periapsis time at Ochre');
+    expect(leg.goals.map((g: GoalJson) => g.name)).not.toContain('periapsis time at Ochre');
     const t = leg.controls.find((c: { kind: string }) => c.kind === 'burn-time');
     expect([t.name, t.burnId, t.units]).toEqual(['Mid-course correction time', 'mid-course', 'days']);
   });
