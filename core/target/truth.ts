@@ -97,42 +97,13 @@ export function truthReport(system: StarSystem, plan: Plan, options: TruthOption
   const k = t ? findBodyIndex(system, t.body) : -1;
   const name = k >= 0 ? system.bodies[k].name : (t?.body ?? '');
   if (t) {
-    const alt = (label: string, value: number | null, wanted: number) =>
-      goals.push({
-        name: `${label} about ${name}`,
-        value,
-        wanted,
-        tolerance: t.tolerance.periapsisAltitude,
-        met: value !== null && Math.abs(value - wanted) <= t.tolerance.periapsisAltitude,
-        units: 'km',
-        unitScale: 1000,
-      });
-    alt('periapsis altitude', achieved ? achieved.periapsisAltitude : null, t.periapsisAltitude);
-    if (t.apoapsisAltitude !== null) alt('apoapsis altitude', achieved ? achieved.apoapsisAltitude : null, t.apoapsisAltitude);
-    if (t.e !== null) {
-      const v = achieved ? achieved.e : null;
-      goals.push({
-        name: `eccentricity about ${name}`,
-        value: v,
-        wanted: t.e,
-        tolerance: t.tolerance.e,
-        met: v !== null && Math.abs(v - t.e) <= t.tolerance.e,
-        units: '',
-        unitScale: 1,
-      });
-    }
-    if (t.i !== null) {
-      const v = achieved ? achieved.i : null;
-      goals.push({
-        name: `inclination about ${name}`,
-        value: v,
-        wanted: t.i,
-        tolerance: t.tolerance.i,
-        met: v !== null && Math.abs(v - t.i) <= t.tolerance.i,
-        units: '°',
-        unitScale: DEG,
-      });
-    }
+    const goal = (label: string, value: number | null, wanted: number, tolerance: number, units: string, unitScale: number) =>
+      goals.push({ name: `${label} about ${name}`, value, wanted, tolerance, met: value !== null && Math.abs(value - wanted) <= tolerance, units, unitScale });
+    const altTol = t.tolerance.periapsisAltitude;
+    goal('periapsis altitude', achieved ? achieved.periapsisAltitude : null, t.periapsisAltitude, altTol, 'km', 1000);
+    if (t.apoapsisAltitude !== null) goal('apoapsis altitude', achieved ? achieved.apoapsisAltitude : null, t.apoapsisAltitude, altTol, 'km', 1000);
+    if (t.e !== null) goal('eccentricity', achieved ? achieved.e : null, t.e, t.tolerance.e, '', 1);
+    if (t.i !== null) goal('inclination', achieved ? achieved.i : null, t.i, t.tolerance.i, '°', DEG);
   }
   const failures: string[] = [];
   const budget = conic.budget;
