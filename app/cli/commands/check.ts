@@ -64,6 +64,8 @@ export function budgetText(system: StarSystem, plan: Plan, result: PlanResult, f
   const out: string[] = [];
   out.push(`plan ${plan.name} — vehicle ${plan.vehicle.name}, system ${system.name}`);
   out.push('');
+  // finite burns: the Δv lost to gravity against the impulsive burn (energy-based, see the README)
+  const finite = b.rows.some((r) => r.gravityLoss !== null);
   const head = [
     pad('burn', 22),
     pad('time', 17),
@@ -72,6 +74,7 @@ export function budgetText(system: StarSystem, plan: Plan, result: PlanResult, f
     pad('prop kg', 10, true),
     pad('mass kg', 10, true),
     pad('left m/s', 10, true),
+    ...(finite ? [pad('g-loss m/s', 10, true)] : []),
     '  flags',
   ];
   out.push(head.join(' '));
@@ -85,11 +88,13 @@ export function budgetText(system: StarSystem, plan: Plan, result: PlanResult, f
         pad(num(r.propellantUsed, 1), 10, true),
         pad(num(r.massAfter, 1), 10, true),
         pad(num(r.dvLeft, 1), 10, true),
+        ...(finite ? [pad(r.gravityLoss === null ? '—' : num(r.gravityLoss, 1), 10, true)] : []),
         `  ${r.flags.map((f) => f.code).join(', ')}`,
       ].join(' '),
     );
   }
   if (b.rows.length === 0) out.push('(no burns)');
+  if (finite) out.push('g-loss: Δv the finite burn put into no orbital energy (energy-based: large for a burn that mostly turns the velocity, e.g. a plane change)');
   out.push('');
   out.push(`capacity   ${pad(num(b.capacity, 1), 10, true)} m/s`);
   out.push(`planned    ${pad(num(b.total, 1), 10, true)} m/s`);

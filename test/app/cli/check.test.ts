@@ -97,3 +97,19 @@ describe.concurrent('waymark check', () => {
     expect(b.stderr).toMatch(/cannot read .*none\.plan\.json: .*does not exist \(ENOENT\)/);
   });
 });
+
+describe('check: finite burns', () => {
+  it('judged with every burn finite, the table gains a gravity-loss column and says what it measures', async () => {
+    const r = await runCli(['check', DEMO, '--model', 'finite']);
+    const head = r.stdout.split('\n').find((l) => l.startsWith('burn '));
+    expect(head).toContain('g-loss m/s');
+    const dep = r.stdout.split('\n').find((l) => l.startsWith('Departure'));
+    // the departure burns for 3.5 minutes deep in Tessel's well: its loss is a few m/s (5.4 measured), never negative
+    const loss = Number(dep?.trim().split(/\s+/).at(-1));
+    expect(loss).toBeGreaterThan(1);
+    expect(loss).toBeLessThan(20);
+    expect(r.stdout).toContain('g-loss: Δv the finite burn put into no orbital energy');
+    const plain = await runCli(['check', DEMO]);
+    expect(plain.stdout).not.toContain('g-loss');
+  });
+});
