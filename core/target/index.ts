@@ -18,6 +18,6 @@ export type { BPlaneAxes, FlightGoal, MeasureKind } from './measure.ts';
 export { flyModel, freezeSchedule, isSchedule, planForModel, scheduleActions } from './modelFlight.ts';
 export type { FlyModelOptions, ModelFlight } from './modelFlight.ts';
 export { targetPlan } from './targetPlan.ts';
-export type { ControlChange, FailureReason, LegReport, TargetOptions, TargetProgress, TargetResult } from './targetPlan.ts';
+export type { ArrivalGoal, ControlChange, FailureReason, LegReport, TargetOptions, TargetProgress, TargetResult } from './targetPlan.ts';
 export { truthReport } from './truth.ts';
 export type { TruthGoal, TruthOptions, TruthReport } from './truth.ts';

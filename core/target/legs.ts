@@ -62,8 +62,8 @@ export interface Leg {
   timeGoal: FlightGoal | null;
   /** Probe times the goals read (arrival legs: the reference periapsis time). */
   probes: number[];
-  /** The reference arrival (arrival legs): periapsis time, altitude, inclination. */
-  reference: { t: number; altitude: number; i: number } | null;
+  /** The reference arrival (arrival legs): periapsis time, altitude, inclination, v∞ (m/s). */
+  reference: { t: number; altitude: number; i: number; vinf: number } | null;
 }
 
 const s6 = new Float64Array(6);
@@ -173,7 +173,7 @@ function arrivalLeg(
     coarse,
     timeGoal,
     probes: [tEntry, t],
-    reference: { t, altitude: info.rp - body.radius, i: info.i },
+    reference: { t, altitude: info.rp - body.radius, i: info.i, vinf: Math.sqrt(vinf2) },
   };
 }
 

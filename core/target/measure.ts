@@ -20,7 +20,7 @@
 import { InputError, SolverError } from '../math/index.ts';
 import type { StarSystem } from '../system/index.ts';
 import { conicInfo, createConicInfo } from '../conic/index.ts';
-import { bPlane, type BPlane } from '../nbody/index.ts';
+import { bPlane, bPlaneAxes, type BPlane } from '../nbody/index.ts';
 import type { Goal } from './solve.ts';
 import type { ModelFlight } from './modelFlight.ts';
 
@@ -37,7 +37,14 @@ export type MeasureKind =
   | 'arrival-eccentricity'
   | 'soi-entry-time'
   /** A component (axis 0, 1, 2) of the ship's position relative to the body at the probe time. */
-  | 'position';
+  | 'position'
+  /**
+   * The B-plane miss from an aim point given as a periapsis altitude and an inclination, along T
+   * or R of the approach's own B-plane: the aim is recomputed from the flight's own v∞ and
+   * asymptote, so reaching zero reaches that altitude and inclination exactly.
+   */
+  | 'arrival-aim-t'
+  | 'arrival-aim-r';
 
 /** Unit vectors T and R of a B-plane (inertial axes). */
 export interface BPlaneAxes {
@@ -56,6 +63,8 @@ export interface FlightGoal extends Goal {
   axes?: BPlaneAxes;
   /** 'position' goals: the axis (0 x, 1 y, 2 z). */
   axis?: 0 | 1 | 2;
+  /** 'arrival-aim-*' goals: the aim (periapsis altitude m, inclination rad) and the B-plane angle side to keep (sign of sin θ). */
+  aim?: { altitude: number; i: number; side: 1 | -1 };
 }
 
 const s6 = new Float64Array(6);
@@ -107,6 +116,19 @@ export function measure(system: StarSystem, flight: ModelFlight, goal: FlightGoa
     case 'arrival-periapsis-time': {
       if (!(c.n > 0)) return fail(`the approach to ${name} has no periapsis`);
       return goal.at - c.M / c.n;
+    }
+    case 'arrival-aim-t':
+    case 'arrival-aim-r': {
+      const own = bPlaneAxes(c);
+      const b = own ? bPlane(c, own) : null;
+      if (!own || !b || !goal.aim) return fail(`the approach to ${name} is not a hyperbola (e = ${c.e.toPrecision(4)}): no B-plane`);
+      // aim point on the approach's own axes (see targetPlan.ts withArrivalGoals)
+      const rp = body.radius + goal.aim.altitude;
+      const v2 = -c.mu * c.alpha;
+      const B = Math.sqrt(rp * rp + (2 * body.mu * rp) / v2);
+      const cos = Math.max(-1, Math.min(1, -Math.cos(goal.aim.i) / own.R[2]));
+      const th = Math.atan2(goal.aim.side * Math.sqrt(1 - cos * cos), cos);
+      return goal.kind === 'arrival-aim-t' ? b.bt - B * Math.cos(th) : b.br - B * Math.sin(th);
     }
     case 'arrival-periapsis-altitude':
       return c.rp - body.radius;

@@ -17,7 +17,7 @@
  * sensitivity), a control at its bound, a burn short of propellant, the flight does not arrive.
  */
 import { InputError, SolverError, type WaymarkError } from '../math/index.ts';
-import type { StarSystem } from '../system/index.ts';
+import { findBodyIndex, type StarSystem } from '../system/index.ts';
 import type { BurnEvent, Plan, PlanResult, TruthModel } from '../plan/index.ts';
 import { planTruthModel } from '../plan/index.ts';
 import { evaluate } from '../conic/index.ts';
@@ -59,10 +59,26 @@ export interface TargetOptions extends NBodyModelOptions {
    * a burn's time, a transfer burn's arrival time (patched-conic models only), a duration coast's length.
    */
   timeControls?: { kind: EventTimeControl['kind']; eventId: string }[];
+  /**
+   * Goals named by the designer at an arrival (a body the plan arrives at and burns at): its
+   * periapsis altitude (the closest approach) or inclination — these replace that arrival's B-plane
+   * point, the one not named keeping its reference value — or its SOI entry time, which replaces
+   * the periapsis time. SI values (m, rad, s from the epoch); tolerances default to `tolerance`'s.
+   */
+  goals?: ArrivalGoal[];
   /** Largest change of any Δv component from its starting value, m/s (default unbounded). */
   maxChange?: number;
   onProgress?: (p: TargetProgress) => void;
   signal?: { aborted: boolean };
+}
+
+/** A goal the designer names at an arrival (see TargetOptions.goals). */
+export interface ArrivalGoal {
+  kind: 'periapsis-altitude' | 'inclination' | 'soi-entry-time';
+  /** Body id. */
+  body: string;
+  wanted: number;
+  tolerance?: number;
 }
 
 export type FailureReason = 'no-sensitivity' | 'bound' | 'propellant' | 'no-arrival' | 'iterations';
@@ -198,7 +214,7 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
   }
   // the designer's intent: the plan with every burn impulsive (its solved burns aim there)
   const reference = evaluate(system, impulsive(plan), { samplesPerSegment: 0 });
-  const legs = planLegs(system, plan, reference, tol, options.arrivalTime ?? true);
+  const legs = withArrivalGoals(system, planLegs(system, plan, reference, tol, options.arrivalTime ?? true), options.goals ?? [], tol);
   const nbody = model === 'nbody' ? new NBodyModel(system, options) : undefined;
   let work: Plan = model === 'nbody' ? freezeSchedule(system, plan, evaluate(system, plan, { samplesPerSegment: 0 })) : plan;
   const before = evaluate(system, planForModel(work, model), { samplesPerSegment: 0 });
@@ -331,6 +347,98 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
     margin: { before: before.budget.margin, after: after.budget.margin },
     message,
   };
+}
+
+/** The legs with the designer's arrival goals in place of the defaults they replace (see TargetOptions.goals). */
+function withArrivalGoals(system: StarSystem, legs: Leg[], extra: readonly ArrivalGoal[], tol: TargetTolerances): Leg[] {
+  if (extra.length === 0) return legs;
+  const out = legs.map((l) => ({ ...l, goals: l.goals.map((g) => ({ ...g })) }));
+  const DEG = Math.PI / 180;
+  const aims = new Map<Leg, { altitude?: number; altTol?: number; i?: number; iTol?: number }>();
+  extra.forEach((g, j) => {
+    const field = `goals[${j + 1}]`;
+    const k = findBodyIndex(system, g.body);
+    if (k < 0) throw new InputError(`${field}.body`, 'must name a body of the system', g.body);
+    if (!Number.isFinite(g.wanted)) throw new InputError(`${field}.wanted`, 'must be a finite number', g.wanted);
+    if (g.tolerance !== undefined && !(g.tolerance > 0 && Number.isFinite(g.tolerance)))
+      throw new InputError(`${field}.tolerance`, 'must be a finite number > 0', g.tolerance);
+    const leg = out.find((l) => l.kind === 'arrival' && l.body === k);
+    const name = system.bodies[k].name;
+    if (!leg?.reference)
+      throw new InputError(
+        `${field}.body`,
+        `must be a body the plan arrives at and burns at (${
+          out
+            .filter((l) => l.kind === 'arrival')
+            .map((l) => system.bodies[l.body].name)
+            .join(', ') || 'none'
+        })`,
+        g.body,
+      );
+    if (g.kind === 'soi-entry-time') {
+      leg.goals = leg.goals.filter((x) => x.kind !== 'arrival-periapsis-time');
+      leg.goals.push({
+        kind: 'soi-entry-time',
+        body: k,
+        name: `SOI entry time at ${name}`,
+        wanted: g.wanted,
+        tolerance: g.tolerance ?? tol.time,
+        units: 'days',
+        unitScale: 86400,
+      });
+      return;
+    }
+    if (g.kind !== 'periapsis-altitude' && g.kind !== 'inclination')
+      throw new InputError(`${field}.kind`, 'must be "periapsis-altitude", "inclination" or "soi-entry-time"', g.kind);
+    if (g.kind === 'periapsis-altitude') aims.set(leg, { ...(aims.get(leg) ?? {}), altitude: g.wanted, altTol: g.tolerance });
+    else aims.set(leg, { ...(aims.get(leg) ?? {}), i: g.wanted, iTol: g.tolerance });
+  });
+  // an arrival's periapsis altitude and inclination, aimed as the B-plane point that gives them
+  // with the reference approach's v∞ and asymptote (B-plane goals stay nearly linear in the burns;
+  // the altitude and inclination themselves fold): |B| = √(r_p² + 2μ r_p/v∞²), and with T̂ in the
+  // reference plane and R̂ = Ŝ × T̂, cos i = −cos θ · R̂_z for B = |B|(cos θ T̂ + sin θ R̂), θ taken on
+  // the side of the reference's θ (Vallado, Fundamentals of Astrodynamics and Applications, 4th ed.,
+  // §12.4, from memory)
+  for (const [leg, aim] of aims) {
+    const bt = leg.goals.find((x) => x.kind === 'arrival-bt');
+    const br = leg.goals.find((x) => x.kind === 'arrival-br');
+    const ref = leg.reference;
+    if (!bt || !br || !ref || !bt.axes) continue;
+    const body = system.bodies[leg.body];
+    const alt = aim.altitude ?? ref.altitude;
+    const inc = aim.i ?? ref.i;
+    if (!(alt > -body.radius)) throw new InputError('goals', `periapsis altitude at ${body.name} must be above its centre`, alt);
+    const rp = body.radius + alt;
+    const v2 = ref.vinf * ref.vinf;
+    const B = Math.sqrt(rp * rp + (2 * body.mu * rp) / v2);
+    const Rz = bt.axes.R[2];
+    const c = -Math.cos(inc) / Rz;
+    if (!(Math.abs(c) <= 1)) {
+      const lowest = Math.acos(Math.min(1, Math.abs(Rz)));
+      throw new InputError(
+        'goals',
+        `inclination ${(inc / DEG).toFixed(3)}° at ${body.name} cannot be reached from this approach (${(lowest / DEG).toFixed(3)}° to ${(180 - lowest / DEG).toFixed(3)}° can)`,
+        inc,
+      );
+    }
+    const thRef = Math.atan2(br.wanted, bt.wanted);
+    const sn = Math.sqrt(Math.max(0, 1 - c * c));
+    const up = Math.atan2(sn, c);
+    const down = Math.atan2(-sn, c);
+    const th = Math.abs(wrap(up - thRef)) <= Math.abs(wrap(down - thRef)) ? up : down;
+    const dBdrp = (rp + body.mu / v2) / B;
+    const tolB = Math.min((aim.altTol ?? tol.altitude) * dBdrp, B * (aim.iTol ?? tol.i)); // dθ ≈ di near a usable approach
+    const words = `(aim: periapsis ${(alt / 1000).toFixed(3)} km, inclination ${(inc / DEG).toFixed(3)}°)`;
+    const goalAim = { altitude: alt, i: inc, side: Math.sin(th) >= 0 ? (1 as const) : (-1 as const) };
+    // misses from the aim point, recomputed each flight from its own approach
+    Object.assign(bt, { kind: 'arrival-aim-t', wanted: 0, tolerance: tolB, aim: goalAim, name: `B-plane miss along T at ${body.name} ${words}` });
+    Object.assign(br, { kind: 'arrival-aim-r', wanted: 0, tolerance: tolB, aim: goalAim, name: `B-plane miss along R at ${body.name} ${words}` });
+  }
+  return out;
+}
+
+function wrap(a: number): number {
+  return Math.atan2(Math.sin(a), Math.cos(a));
 }
 
 /** The leg with its probe times (and a periapsis-time goal's wanted value) moved by dt seconds. */

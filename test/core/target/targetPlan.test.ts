@@ -80,6 +80,41 @@ describe('targetPlan: timing controls', () => {
   });
 });
 
+describe('targetPlan: arrival goals named by the designer', () => {
+  it('an arrival inclination of 35° and an SOI entry an hour later than planned, met in patched conics, then the target orbit still met', () => {
+    const ref = evaluate(sys, demoPlan, { samplesPerSegment: 0 });
+    const ochre = sys.indexById.ochre;
+    const entry = ref.events.find((e) => e.kind === 'soi-entry' && e.central === ochre)!.t;
+    const r = targetPlan(sys, demoPlan, {
+      model: 'conic',
+      goals: [
+        { kind: 'inclination', body: 'ochre', wanted: 35 * DEG },
+        { kind: 'soi-entry-time', body: 'ochre', wanted: entry + 3600 },
+      ],
+    });
+    expect(r.status).toBe('met');
+    const aim = '(aim: periapsis 400.000 km, inclination 35.000°)';
+    expect(r.legs[0].goals.map((g) => g.name)).toEqual([
+      `B-plane miss along T at Ochre ${aim}`,
+      `B-plane miss along R at Ochre ${aim}`,
+      'SOI entry time at Ochre',
+    ]);
+    // re-flown: the SOI entry event and the approach hyperbola's inclination (from its state just after entry)
+    const flown = evaluate(sys, r.plan, { samplesPerSegment: 0 });
+    const e = flown.events.find((x) => x.kind === 'soi-entry' && x.central === ochre)!;
+    expect(Math.abs(e.t - (entry + 3600))).toBeLessThanOrEqual(60); // the default time tolerance
+    const seg = flown.segments.find((x) => x.central === ochre && x.t0 >= e.t - 1e-6)!;
+    expect(Math.abs(elements(sys.bodies[ochre].mu, seg.state0).i - 35 * DEG)).toBeLessThan(0.001 * DEG);
+    expect(Math.abs(flown.target!.achieved!.i - 30 * DEG)).toBeLessThan(0.01 * DEG);
+  });
+
+  it('refuses a body the plan does not arrive at, by name, listing those it does', () => {
+    expect(() => targetPlan(sys, demoPlan, { model: 'conic', goals: [{ kind: 'inclination', body: 'kiln', wanted: 0 }] })).toThrow(
+      /goals\[1\]\.body.*arrives at and burns at \(Ochre\)/,
+    );
+  });
+});
+
 describe('targetPlan: the demo with every burn finite', () => {
   let r: TargetResult;
   beforeAll(() => {
