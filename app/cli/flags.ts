@@ -148,4 +148,5 @@ export const TARGET_FLAGS: FlagNames = {
   maxChange: '--max-change',
   timeControls: '--vary',
   eventId: '--vary',
+  goals: '--goal',
 };

@@ -356,18 +356,18 @@ function withArrivalGoals(system: StarSystem, legs: Leg[], extra: readonly Arriv
   const DEG = Math.PI / 180;
   const aims = new Map<Leg, { altitude?: number; altTol?: number; i?: number; iTol?: number }>();
   extra.forEach((g, j) => {
-    const field = `goals[${j + 1}]`;
+    const field = `goals[${j + 1}]`; // 1-based, the designer's count
     const k = findBodyIndex(system, g.body);
-    if (k < 0) throw new InputError(`${field}.body`, 'must name a body of the system', g.body);
-    if (!Number.isFinite(g.wanted)) throw new InputError(`${field}.wanted`, 'must be a finite number', g.wanted);
+    if (k < 0) throw new InputError(field, 'must name a body of the system', g.body);
+    if (!Number.isFinite(g.wanted)) throw new InputError(field, 'must have a finite wanted value', g.wanted);
     if (g.tolerance !== undefined && !(g.tolerance > 0 && Number.isFinite(g.tolerance)))
-      throw new InputError(`${field}.tolerance`, 'must be a finite number > 0', g.tolerance);
+      throw new InputError(field, 'must have a tolerance that is a finite number > 0', g.tolerance);
     const leg = out.find((l) => l.kind === 'arrival' && l.body === k);
     const name = system.bodies[k].name;
     if (!leg?.reference)
       throw new InputError(
-        `${field}.body`,
-        `must be a body the plan arrives at and burns at (${
+        field,
+        `must name a body the plan arrives at and burns at (${
           out
             .filter((l) => l.kind === 'arrival')
             .map((l) => system.bodies[l.body].name)
@@ -389,7 +389,7 @@ function withArrivalGoals(system: StarSystem, legs: Leg[], extra: readonly Arriv
       return;
     }
     if (g.kind !== 'periapsis-altitude' && g.kind !== 'inclination')
-      throw new InputError(`${field}.kind`, 'must be "periapsis-altitude", "inclination" or "soi-entry-time"', g.kind);
+      throw new InputError(field, 'must be of kind "periapsis-altitude", "inclination" or "soi-entry-time"', g.kind);
     if (g.kind === 'periapsis-altitude') aims.set(leg, { ...(aims.get(leg) ?? {}), altitude: g.wanted, altTol: g.tolerance });
     else aims.set(leg, { ...(aims.get(leg) ?? {}), i: g.wanted, iTol: g.tolerance });
   });

@@ -48,6 +48,7 @@ import { planTruthModel, truthModelLabel, type TruthModel } from '../../../core/
 import {
   DEFAULT_TARGET_TOLERANCES,
   targetPlan,
+  type ArrivalGoal,
   type EventTimeControl,
   type FailureReason,
   type TargetResult,
@@ -59,6 +60,8 @@ import { EXIT_NO, EXIT_OK, guard, printJson, printText, printWarnings, termSafe 
 import { createProgress, progressEnabled } from '../progress.ts';
 import { fixed, goalLines, parseModel } from '../truthText.ts';
 import { systemRefFor } from './correct.ts';
+import { parseTime } from './windows.ts';
+import type { SystemCalendar } from '../../../core/system/index.ts';
 
 const DEG = Math.PI / 180;
 
@@ -79,6 +82,30 @@ export function parseVary(values: readonly string[]): { kind: EventTimeControl['
   });
 }
 
+/** `--goal` words → the core's arrival goal kinds, with the dimension of their value. */
+export const GOAL_KINDS: Readonly<Record<string, { kind: ArrivalGoal['kind']; dim: 'length' | 'angle' | 'date' }>> = {
+  periapsis: { kind: 'periapsis-altitude', dim: 'length' },
+  inclination: { kind: 'inclination', dim: 'angle' },
+  entry: { kind: 'soi-entry-time', dim: 'date' },
+};
+
+/**
+ * `--goal KIND:BODY=VALUE` values → arrival goals: `periapsis:ochre=600km` (altitude; a bare number
+ * is metres), `inclination:ochre=35deg` (a bare number is radians), `entry:ochre=413-120T06:00` (a
+ * calendar date, or a time from the epoch such as 401d). InputError naming `--goal` otherwise.
+ */
+export function parseGoals(values: readonly string[], cal: SystemCalendar): ArrivalGoal[] {
+  return values.map((v) => {
+    const m = /^([a-z]+):([^=]+)=(.+)$/.exec(v.trim());
+    const k = m ? GOAL_KINDS[m[1]] : undefined;
+    if (!m || !k) {
+      throw new InputError('--goal', `must be KIND:BODY=VALUE with KIND one of: ${Object.keys(GOAL_KINDS).join(', ')} (e.g. periapsis:ochre=600km)`, v);
+    }
+    const wanted = k.dim === 'date' ? parseTime(cal, '--goal', m[3]) : parseQuantity('--goal', m[3], k.dim);
+    return { kind: k.kind, body: m[2], wanted };
+  });
+}
+
 function collect(value: string, previous: string[] = []): string[] {
   return [...previous, value];
 }
@@ -95,6 +122,7 @@ interface TargetCliOptions {
   maxFlights?: string;
   freeArrival?: boolean;
   vary?: string[];
+  goal?: string[];
   partial?: boolean;
   json?: boolean;
 }
@@ -193,6 +221,11 @@ export function addTargetCommand(program: Command): void {
     .option('--max-flights <n>', 'flights per leg at most (default 400)')
     .option('--free-arrival', "let each arrival come earlier or later than the patched-conic plan's (cheaper; the later schedule moves with it)")
     .option('--vary <kind:event>', "also vary an event's timing: time:BURN, arrival:BURN (a transfer's arrival) or duration:COAST (repeatable)", collect)
+    .option(
+      '--goal <kind:body=value>',
+      'an arrival goal in place of the patched-conic plan\'s: periapsis:BODY=ALT (600km), inclination:BODY=ANGLE (35deg) or entry:BODY=DATE (SOI entry; 413-120T06:00) (repeatable)',
+      collect,
+    )
     .option('--partial', 'write the closest plan found even when not every goal is met (exit code still 1)')
     .option('--json', 'machine-readable output')
     .action((planPath: string, o: TargetCliOptions) =>
@@ -208,6 +241,7 @@ export function addTargetCommand(program: Command): void {
         }
         const loaded = await loadPlanFile(planPath);
         const { system, plan } = loaded;
+        const goals = parseGoals(o.goal ?? [], system.calendar);
         const inputs: InputFile[] = [{ path: planPath, what: 'the plan file being targeted' }];
         if (loaded.systemPath) inputs.push({ path: loaded.systemPath, what: "the plan's system file" });
         const target: OutputTarget = { flag: '--output', path: o.output, kind: 'plan' };
@@ -225,6 +259,7 @@ export function addTargetCommand(program: Command): void {
             maxFlights,
             arrivalTime: !o.freeArrival,
             timeControls,
+            goals,
             onProgress: (p) => {
               if (!first.has(p.leg)) first.set(p.leg, p.residual);
               const done = (p.leg - 1 + legFraction(first.get(p.leg)!, p.residual)) / p.legs;

@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadPlanFile } from '../../../app/node/files.ts';
-import { legFraction, parseVary } from '../../../app/cli/commands/target.ts';
+import { legFraction, parseGoals, parseVary } from '../../../app/cli/commands/target.ts';
 import { evaluate } from '../../../core/conic/evaluate.ts';
 import { parsePlanFile } from '../../../core/io/planFile.ts';
 import { DEFAULT_TARGET_TOLERANCES } from '../../../core/target/index.ts';
@@ -199,5 +199,28 @@ describe('waymark target', () => {
     expect(legFraction(1e4, 1)).toBe(1);
     expect(legFraction(1e4, 0.01)).toBe(1);
     expect(legFraction(0.5, 0.1)).toBe(1); // met from the start
+  });
+});
+
+describe('--goal', () => {
+  const cal = { era: 'TR', dayLength: 86400, yearLength: 365 * 86400, epochYear: 412, epochDay: 1 } as never;
+  it('reads KIND:BODY=VALUE with the value in the goal\'s units, and names the kinds it takes otherwise', () => {
+    expect(parseGoals(['periapsis:ochre=600km', 'inclination:ochre=35deg', 'entry:ochre=401d'], cal)).toEqual([
+      { kind: 'periapsis-altitude', body: 'ochre', wanted: 600e3 },
+      { kind: 'inclination', body: 'ochre', wanted: (35 * Math.PI) / 180 },
+      { kind: 'soi-entry-time', body: 'ochre', wanted: 401 * 86400 },
+    ]);
+    expect(() => parseGoals(['apoapsis:ochre=1km'], cal)).toThrow('--goal must be KIND:BODY=VALUE with KIND one of: periapsis, inclination, entry');
+    expect(() => parseGoals(['periapsis:ochre'], cal)).toThrow('--goal must be KIND:BODY=VALUE');
+  });
+
+  it('an arrival inclination goal is met and shown as the B-plane aim it becomes; a body the plan does not arrive at is refused by its flag', async () => {
+    const ok = await runCli(['target', DEMO, '--model', 'conic', '--goal', 'inclination:ochre=35deg', '-o', join(work, 'inc.plan.json'), '--json']);
+    expect(ok.code).toBe(0);
+    const names = JSON.parse(ok.stdout).legs[0].goals.map((g: GoalJson) => g.name);
+    expect(names[0]).toBe('B-plane miss along T at Ochre (aim: periapsis 400.000 km, inclination 35.000°)');
+    const bad = await runCli(['target', DEMO, '--model', 'conic', '--goal', 'inclination:kiln=3deg', '-o', join(work, 'kiln.plan.json')]);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toContain('--goal[1] must name a body the plan arrives at and burns at (Ochre) (got "kiln")');
   });
 });
