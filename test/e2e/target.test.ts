@@ -3,9 +3,12 @@
  * harness.ts). The panel lists the legs and their goals, runs the targeter in n-body in its
  * worker with the residual drawn as it falls, and applies the targeted plan as one edit; the plan
  * is then read in its truth model: the Budget and the target readout say the target is reached in
- * n-body and the System view draws the n-body path with the patched-conic one as the comparison.
- * Undo brings the previous plan back. Screenshots of the panel after the run at 1024×640 and
- * 1920×1080 go to test/output/e2e/.
+ * n-body, the Budget's flags hold the patched-conic path's miss only as the comparison, the System
+ * view draws the n-body path with the patched-conic one as the comparison and the burn markers on
+ * the n-body path, and the Timeline shows the n-body flight (SOI lane into Ochre, distance to
+ * Ochre within its sphere of influence). Undo brings the previous plan back. Screenshots of the
+ * panel after the run and of the window after applying, at 1024×640 and 1920×1080, go to
+ * test/output/e2e/.
  */
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -105,13 +108,46 @@ describe.skipIf(!have)('targeting the plan in the browser (e2e)', () => {
     expect(await page.textContent('[data-testid=budget-comparison]')).toMatch(/Comparison, patched conics: margin/);
     expect(await page.textContent('[data-testid=target-applied]')).toMatch(/targeted in n-body/);
     // the System view: the n-body flight is the path, the patched-conic one the comparison, the ship on it
-    const drawn = await js<{ truthLines: number; resultIsComparison: boolean; shipOnTrack: boolean }>('window.waymarkDebug.scene.truthDrawing()');
+    const drawn = await js<{ truthLines: number; resultIsComparison: boolean; shipOnTrack: boolean; markers: number; markersOnTrack: number }>(
+      'window.waymarkDebug.scene.truthDrawing()',
+    );
     expect(drawn.truthLines).toBeGreaterThan(0);
     expect(drawn.resultIsComparison).toBe(true);
     expect(drawn.shipOnTrack).toBe(true);
     expect(await page.textContent('[data-testid=legend-truth]')).toMatch(/path \(n-body\)/);
+    // the burn markers sit on the n-body path, every one of them
+    expect(drawn.markers).toBe(5);
+    expect(drawn.markersOnTrack).toBe(drawn.markers);
+
+    // the Budget's flags: the patched-conic path's miss is the comparison's, not an error of the plan
+    expect(await page.locator('[data-testid=flags] li.error').count()).toBe(0);
+    expect(await page.textContent('[data-testid=flags-comparison]')).toMatch(/target-missed/);
+
+    // the Timeline shows the n-body flight: its corner names the model, the SOI lane ends in
+    // Ochre's sphere of influence, the events lane has the n-body entry into it, and the distance
+    // to Ochre falls within Ochre's sphere of influence (the patched-conic flight of the same
+    // schedule stays millions of km outside it)
+    await expect.poll(() => page.textContent('[data-testid=timeline-model] text'), { timeout: HANG_GUARD_MS }).toBe('n-body');
+    const soiNames = await page.locator('.timeline-svg .lane-1 g.soi').evaluateAll((gs) => gs.map((g) => (g as SVGGElement).dataset.name));
+    expect(soiNames.at(-1)).toBe('Ochre');
+    const soiShown = await page.locator('.timeline-svg .lane-1 g.soi text').allTextContents();
+    expect(soiShown).toContain('Ochre');
+    const entries = await page.locator('.timeline-svg path.event-soi-entry title').allTextContents();
+    expect(entries).toContain("enters Ochre's sphere of influence");
+    const minText = (await page.textContent('.timeline-svg .chart-distance .chart-min'))!;
+    const m = /^min ([\d\s\u202f.]+) (km|Gm)$/.exec(minText);
+    expect(m, minText).not.toBeNull();
+    const minDistance = Number(m![1].replace(/[\s\u202f]/g, '')) * (m![2] === 'km' ? 1e3 : 1e9);
+    const ochreSoi = await js<number>("window.waymarkDebug.session.doc.get().system.bodies.find((b) => b.id === 'ochre').derived.soiRadius");
+    expect(minDistance).toBeLessThan(ochreSoi);
+    expect(await page.locator('.timeline-svg .chart-distance path.chart-comparison').getAttribute('d')).toBeTruthy();
+
     await page.locator('[data-testid=target]').scrollIntoViewIfNeeded();
     await page.screenshot({ path: `${OUT}target-applied-1920x1080.png` });
+    await page.setViewportSize({ width: 1024, height: 640 });
+    await page.locator('[data-testid=flags-comparison]').evaluate((el) => el.scrollIntoView({ block: 'end' }));
+    await page.waitForTimeout(100); // one frame for the layout and the scroll to paint
+    await page.screenshot({ path: `${OUT}target-applied-1024x640.png` });
 
     // Undo: the plan before targeting, read in patched conics again
     await page.click('[data-action=undo]');
@@ -121,6 +157,7 @@ describe.skipIf(!have)('targeting the plan in the browser (e2e)', () => {
     expect(await page.textContent('[data-testid=budget-model]')).toBe('patched conics');
     expect(await page.locator('[data-testid=budget-comparison]').count()).toBe(0);
     expect((await js<{ truthLines: number }>('window.waymarkDebug.scene.truthDrawing()')).truthLines).toBe(0);
+    expect(await page.textContent('[data-testid=timeline-model] text')).toBe('patched conics');
     // the result fits the plan again: it may be applied again
     expect(await page.locator('[data-action=target-apply]').count()).toBe(1);
     expect(errors).toEqual([]);

@@ -25,7 +25,7 @@ import { shipStateAt } from '../../../core/conic/index.ts';
 import { isSoftwareRenderer } from './webglInfo.ts';
 import { GAME_STYLE } from '../gamestep/style.ts';
 import type { TrackPath } from '../gamestep/trackPaths.ts';
-import { trackPosition, type NBodySamples, type TruthPath } from '../target/truthTrack.ts';
+import { trackPosition, trackStateAt, type NBodySamples, type TruthPath } from '../target/truthTrack.ts';
 
 /** Scene units per metre: one unit is 1 000 km. */
 export const UNITS_PER_METRE = 1e-6;
@@ -76,6 +76,8 @@ interface BurnMarker {
   group: THREE.Group;
   arrows: THREE.Group;
   rowId: string;
+  /** Placed on the truth model's n-body flight (not on the patched-conic path). */
+  onTrack: boolean;
 }
 
 /** What one frame cost, for the status line and the scrub benchmark. */
@@ -235,8 +237,8 @@ export class SystemScene {
   /** The plan's n-body path in its truth model, one group per central body (positioned like `frames`). */
   private truthRoot = new THREE.Group();
   private truthFrames = new Map<number, THREE.Group>();
-  /** The n-body flight the ship follows (positions relative to the star), or null. */
-  private track: Pick<NBodySamples, 't' | 'star'> | null = null;
+  /** The n-body flight the ship follows and the burn markers sit on (positions relative to the star), or null. */
+  private track: Pick<NBodySamples, 't' | 'star' | 'origin'> | null = null;
   /** A patched-conic flight drawn as the comparison, per central body. */
   private comparisonRoot = new THREE.Group();
   private comparisonFrames = new Map<number, THREE.Group>();
@@ -377,15 +379,6 @@ export class SystemScene {
       this.requestRender();
       return;
     }
-    const frameOf = (central: number): THREE.Group => {
-      let g = this.frames.get(central);
-      if (!g) {
-        g = new THREE.Group();
-        this.frames.set(central, g);
-        this.resultRoot.add(g);
-      }
-      return g;
-    };
     for (const seg of result.segments) {
       const n = seg.sampleT.length;
       if (n < 2) continue;
@@ -406,21 +399,45 @@ export class SystemScene {
         line = new THREE.Line(geo, this.resultIsComparison ? this.shared.comparison : this.shared.coast);
       }
       line.userData.kind = seg.kind;
-      frameOf(seg.central).add(line);
+      this.resultFrame(seg.central).add(line);
     }
-    for (const row of result.budget.rows) this.addMarker(row, frameOf);
+    this.placeMarkers();
     this.ship.visible = true;
     this.applyOptions();
     this.requestRender();
   }
 
-  private addMarker(row: BudgetRow, frameOf: (central: number) => THREE.Group): void {
+  /** The group of the plan's drawing in `central`'s frame (made on first use). */
+  private resultFrame(central: number): THREE.Group {
+    let g = this.frames.get(central);
+    if (!g) {
+      g = new THREE.Group();
+      this.frames.set(central, g);
+      this.resultRoot.add(g);
+    }
+    return g;
+  }
+
+  /** (Re)places the burn markers: on the truth model's n-body flight when there is one, else on the result's path. */
+  private placeMarkers(): void {
+    for (const m of this.markers) m.group.removeFromParent(); // shared geometry and materials: nothing to free
+    this.markers = [];
     if (!this.result) return;
+    for (const row of this.result.budget.rows) this.addMarker(row);
+  }
+
+  private addMarker(row: BudgetRow): void {
+    if (!this.result || !this.system) return;
     // State just before the burn: its frame axes are defined there.
     const s6 = new Float64Array(6);
-    const k = shipStateAt(this.result, row.tStart - Math.max(1e-3, Math.abs(row.tStart) * 1e-12), s6);
-    if (k < 0) return;
-    const central = this.result.segments[k].central;
+    const tBefore = row.tStart - Math.max(1e-3, Math.abs(row.tStart) * 1e-12);
+    let central = this.track ? trackStateAt(this.system, this.track, tBefore, s6) : -1;
+    const onTrack = central >= 0;
+    if (!onTrack) {
+      const k = shipStateAt(this.result, tBefore, s6);
+      if (k < 0) return;
+      central = this.result.segments[k].central;
+    }
     const r = [s6[0], s6[1], s6[2]];
     const v = [s6[3], s6[4], s6[5]];
     const group = new THREE.Group();
@@ -452,8 +469,8 @@ export class SystemScene {
       if (dm > 0) arrows.add(this.shared.arrow(new THREE.Vector3(d[0] / dm, d[1] / dm, d[2] / dm), 1.12, AXIS_HUE.total, 0.14, 0.07));
     }
     group.add(arrows);
-    frameOf(central).add(group);
-    this.markers.push({ central, rel: new THREE.Vector3(r[0] * U, r[1] * U, r[2] * U), group, arrows, rowId: row.planEventId });
+    this.resultFrame(central).add(group);
+    this.markers.push({ central, rel: new THREE.Vector3(r[0] * U, r[1] * U, r[2] * U), group, arrows, rowId: row.planEventId, onTrack });
   }
 
   /** Empties the plan's drawing: per-segment geometry is freed, shared materials and geometry kept. */
@@ -510,9 +527,11 @@ export class SystemScene {
    * Draws (or, with nulls, removes) the plan's path in its truth model when that is n-body: the
    * paths in their central bodies' frames (target/truthTrack.ts), and the flight the ship follows.
    */
-  setTruthTrack(paths: TruthPath[] | null, track: Pick<NBodySamples, 't' | 'star'> | null): void {
+  setTruthTrack(paths: TruthPath[] | null, track: Pick<NBodySamples, 't' | 'star' | 'origin'> | null): void {
     this.clearLines(this.truthRoot, this.truthFrames);
     this.track = track && track.t.length >= 2 ? track : null;
+    this.placeMarkers();
+    this.applyOptions();
     for (const p of paths ?? []) {
       const f32 = new Float32Array(p.points.length);
       for (let k = 0; k < f32.length; k++) f32[k] = p.points[k] * U;
@@ -554,7 +573,7 @@ export class SystemScene {
   }
 
   /** What the System view draws as the truth model's path and the comparison (for tests). */
-  truthDrawing(): { truthLines: number; comparisonLines: number; resultIsComparison: boolean; shipOnTrack: boolean } {
+  truthDrawing(): { truthLines: number; comparisonLines: number; resultIsComparison: boolean; shipOnTrack: boolean; markers: number; markersOnTrack: number } {
     let truthLines = 0;
     let comparisonLines = 0;
     this.truthRoot.traverse((o) => void (o.userData.kind === 'truth' && truthLines++));
@@ -565,6 +584,8 @@ export class SystemScene {
       comparisonLines,
       resultIsComparison: this.resultIsComparison,
       shipOnTrack: this.track !== null && trackPosition(this.track, this.t, s),
+      markers: this.markers.length,
+      markersOnTrack: this.markers.filter((m) => m.onTrack).length,
     };
   }
 

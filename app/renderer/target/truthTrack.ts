@@ -66,3 +66,45 @@ export function trackPosition(samples: Pick<NBodySamples, 't' | 'star'>, t: numb
   for (let j = 0; j < 3; j++) out3[j] = s[3 * lo + j] + f * (s[3 * hi + j] - s[3 * lo + j]);
   return true;
 }
+
+/**
+ * The ship's state at time t on the n-body samples, relative to the body the flight was integrated
+ * about there (written into out6: position m, velocity m/s); returns that body, or −1 outside the
+ * samples. The position is interpolated between the samples around t; the velocity is their
+ * chord (samples lie about 3° of arc apart, so its direction is good to a degree or so: enough to
+ * point a burn's frame arrows, not for physics). Ask just before a burn for the state it starts from.
+ */
+export function trackStateAt(system: StarSystem, samples: Pick<NBodySamples, 't' | 'star' | 'origin'>, t: number, out6: Float64Array | number[]): number {
+  const ts = samples.t;
+  const n = ts.length;
+  if (n < 2 || !(t >= ts[0] && t <= ts[n - 1])) return -1;
+  // last sample at or before t, and the next one at a later time (binary search)
+  let lo = 0;
+  let hi = n - 1;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (ts[mid] <= t) lo = mid;
+    else hi = mid;
+  }
+  if (ts[lo] > t || lo === n - 1) lo = Math.max(0, hi - 1);
+  while (hi < n - 1 && !(ts[hi] > ts[lo])) hi++;
+  while (lo > 0 && !(ts[hi] > ts[lo])) lo--;
+  const dt = ts[hi] - ts[lo];
+  if (!(dt > 0)) return -1;
+  const central = samples.origin[lo];
+  const a = [0, 0, 0];
+  const b = [0, 0, 0];
+  if (central !== 0) {
+    bodyPosition(system, central, ts[lo], a);
+    bodyPosition(system, central, ts[hi], b);
+  }
+  const f = Math.min(1, Math.max(0, (t - ts[lo]) / dt));
+  const s = samples.star;
+  for (let j = 0; j < 3; j++) {
+    const p0 = s[3 * lo + j] - a[j];
+    const p1 = s[3 * hi + j] - b[j];
+    out6[j] = p0 + f * (p1 - p0);
+    out6[3 + j] = (p1 - p0) / dt;
+  }
+  return central;
+}

@@ -6,6 +6,7 @@
  *
  * Series are plain arrays of (t, value) with jumps written as two points at the same t, so a
  * d3 line draws steps, and `valueAt` reads the value at the cursor by binary search.
+ * The lanes of a plan whose truth model is another (n-body) are built in truthSeries.ts.
  */
 import type { Plan } from '../../../core/plan/index.ts';
 import type { PlanResult, TrajectoryEventKind } from '../../../core/plan/index.ts';
@@ -56,6 +57,10 @@ export interface TimelineData {
   /** Distance from the ship to the target body's centre, m (empty without a target). */
   distance: Series;
   targetName: string | null;
+  /** Words of the model the lanes show ("patched conics", "n-body"). */
+  model: string;
+  /** The distance to the target in another model, drawn faint as the comparison (or null). */
+  comparison: { label: string; distance: Series } | null;
 }
 
 function series(points: [number, number][]): Series {
@@ -92,7 +97,10 @@ export function valueAt(s: Series, t: number): number {
 /** Largest number of points in the distance series. */
 export const DISTANCE_POINTS = 3000;
 
-export function timelineData(system: StarSystem, plan: Plan, result: PlanResult): TimelineData {
+/** Words of the model a patched-conic result was flown in (every burn finite or not). */
+export const CONIC_LABEL = 'patched conics';
+
+export function timelineData(system: StarSystem, plan: Plan, result: PlanResult, model = CONIC_LABEL): TimelineData {
   const { segments, events, budget } = result;
 
   const burns: BurnBar[] = budget.rows.map((r) => {
@@ -138,9 +146,27 @@ export function timelineData(system: StarSystem, plan: Plan, result: PlanResult)
   }
   dv.push([result.t1, left]);
 
-  // Distance to the target body from the trajectory's own samples.
-  const dist: [number, number][] = [];
   const targetIndex = plan.target ? findBodyIndex(system, plan.target.body) : -1;
+
+  return {
+    t0: result.t0,
+    t1: result.t1,
+    burns,
+    soi,
+    events: marks,
+    propellant: series(prop),
+    dvLeft: series(dv),
+    distance: conicDistance(system, result, targetIndex),
+    targetName: targetIndex >= 0 ? system.bodies[targetIndex].name : null,
+    model,
+    comparison: null,
+  };
+}
+
+/** Distance from the ship to body `targetIndex` over a patched-conic result, from its own samples (empty for −1). */
+export function conicDistance(system: StarSystem, result: PlanResult, targetIndex: number): Series {
+  const { segments } = result;
+  const dist: [number, number][] = [];
   if (targetIndex >= 0) {
     let total = 0;
     for (const s of segments) total += s.sampleT.length;
@@ -163,16 +189,5 @@ export function timelineData(system: StarSystem, plan: Plan, result: PlanResult)
     }
     dist.sort((a, b) => a[0] - b[0]);
   }
-
-  return {
-    t0: result.t0,
-    t1: result.t1,
-    burns,
-    soi,
-    events: marks,
-    propellant: series(prop),
-    dvLeft: series(dv),
-    distance: series(dist),
-    targetName: targetIndex >= 0 ? system.bodies[targetIndex].name : null,
-  };
+  return series(dist);
 }

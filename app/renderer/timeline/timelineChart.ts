@@ -3,9 +3,12 @@
  * lanes), lanes for burns, sphere-of-influence spans and events, three charts against time, and
  * the time cursor (drag its handle or the axis strip, click anywhere to place it). The Svelte
  * component passes data in and receives cursor intents; moving the cursor only moves one group.
+ * The corner above the lane titles names the model the lanes show; the distance chart draws the
+ * comparison model's distance faint and dashed behind the truth model's.
  */
 import * as d3 from 'd3';
 import type { SystemCalendar } from '../../../core/system/index.ts';
+import { distance as formatDistance } from '../format/format.ts';
 import { PALETTE } from '../scene/palette.ts';
 import type { Series, TimelineData } from './series.ts';
 import { calendarTicks } from './ticks.ts';
@@ -19,7 +22,13 @@ export const LAYOUT = {
   gap: 6,
 } as const;
 
-const LANES = ['Burns', 'Sphere of influence', 'Events'] as const;
+const LANES = [
+  { label: 'Burns', title: 'Burns: bars as long as each burn' },
+  { label: 'SOI', title: 'Sphere of influence: the body the ship is about' },
+  { label: 'Events', title: 'Events of the flight' },
+] as const;
+/** Width of a lane label's character, px (10 px sans; an estimate that errs wide, so labels never collide). */
+const CHAR_PX = 6.6;
 const CHARTS = [
   { key: 'propellant', label: 'Propellant', colour: PALETTE.warn },
   { key: 'dvLeft', label: 'Δv left', colour: PALETTE.path },
@@ -130,14 +139,23 @@ export class TimelineChart {
     const strip = this.gAxis.append('g').attr('class', 'axis-strip-group');
     strip.append('rect').attr('class', 'axis-strip').attr('x', L.left).attr('y', 0).attr('height', L.axis).attr('fill', PALETTE.panel);
     this.gAxis.append('g').attr('class', 'ticks');
-    LANES.forEach((name, k) => {
+    const model = this.gAxis.append('g').attr('class', 'model').attr('data-testid', 'timeline-model');
+    model
+      .append('text')
+      .attr('class', 'model-label')
+      .attr('x', 10)
+      .attr('y', L.axis - 9);
+    model.append('title');
+    LANES.forEach((lane, k) => {
       const y = L.axis + k * L.lane;
       const g = this.gLanes.append('g').attr('class', `lane lane-${k}`).attr('transform', `translate(0,${y})`);
       g.append('text')
         .attr('class', 'lane-label')
         .attr('x', 10)
         .attr('y', L.lane / 2 + 4)
-        .text(name);
+        .text(lane.label)
+        .append('title')
+        .text(lane.title);
       g.append('line').attr('class', 'lane-rule').attr('x1', L.left).attr('y1', L.lane).attr('y2', L.lane);
       g.append('g').attr('class', 'items').attr('clip-path', `url(#${this.clipId})`);
     });
@@ -154,7 +172,9 @@ export class TimelineChart {
       g.append('rect').attr('class', 'chart-bg').attr('x', L.left).attr('y', 0).attr('height', L.chart);
       const inner = g.append('g').attr('clip-path', `url(#${this.clipId})`);
       inner.append('path').attr('class', 'chart-area').attr('fill', c.colour).attr('fill-opacity', 0.12);
+      if (c.key === 'distance') inner.append('path').attr('class', 'chart-comparison').attr('fill', 'none').append('title');
       inner.append('path').attr('class', 'chart-line').attr('stroke', c.colour).attr('fill', 'none').attr('stroke-width', 1.5);
+      if (c.key === 'distance') g.append('text').attr('class', 'chart-legend').attr('y', 11).attr('text-anchor', 'end');
     });
     this.gCursor.append('line').attr('class', 'cursor-line').attr('y1', 0).attr('y2', this.height).attr('stroke', PALETTE.cursor);
     const handle = this.gCursor.append('g').attr('class', 'cursor-handle');
@@ -176,6 +196,13 @@ export class TimelineChart {
   setCalendar(cal: SystemCalendar): void {
     this.cal = cal;
     this.redraw();
+  }
+
+  /** Names the model the lanes show (short words in the corner, the full sentence as its tooltip; faint while `stale`). */
+  setModel(label: string, title: string, stale: boolean): void {
+    const g = this.gAxis.select('.model');
+    g.select('.model-label').classed('stale', stale).text(label);
+    g.select('title').text(title);
   }
 
   setData(data: TimelineData | null, keepView = false): void {
@@ -234,6 +261,7 @@ export class TimelineChart {
     this.gAxis.select('.axis-strip').attr('width', this.width - LAYOUT.left - LAYOUT.right);
     this.gLanes.selectAll('.lane-rule').attr('x2', this.width - LAYOUT.right);
     this.gCharts.selectAll('.chart-bg').attr('width', this.width - LAYOUT.left - LAYOUT.right);
+    this.gCharts.selectAll('.chart-legend').attr('x', this.width - LAYOUT.right - 5);
     this.zoom.extent([
       [LAYOUT.left, 0],
       [this.width - LAYOUT.right, this.height],
@@ -312,17 +340,36 @@ export class TimelineChart {
           .attr('y', 3)
           .attr('height', L.lane - 6);
         g.append('text').attr('y', L.lane / 2 + 4);
+        g.append('title');
         return g;
       });
     soiSel
+      .attr('data-name', (d) => d.name)
       .select('rect')
       .attr('x', (d) => x(d.t0))
       .attr('width', (d) => Math.max(1, x(d.t1) - x(d.t0)))
       .attr('fill', (d) => d.colour);
-    soiSel
-      .select('text')
-      .attr('x', (d) => Math.max(x(d.t0), L.left) + 4)
-      .text((d) => (x(d.t1) - Math.max(x(d.t0), L.left) > 50 ? d.name : ''));
+    soiSel.select('title').text((d) => `${d.name}'s sphere of influence`);
+    // Each span's name inside it when it fits, else just before it when the lane is free there
+    // (a short last span: the arrival), else none; names never overlap each other.
+    let free = L.left; // the lane is free from here on
+    soiSel.select<SVGTextElement>('text').each((d, k, nodes) => {
+      const a = Math.max(x(d.t0), L.left);
+      const b = Math.min(x(d.t1), x.range()[1]);
+      const w = d.name.length * CHAR_PX;
+      const el = d3.select(nodes[k]);
+      if (b - a > w + 8 && a + 4 >= free) {
+        el.attr('x', a + 4)
+          .attr('text-anchor', 'start')
+          .text(d.name);
+        free = a + 4 + w + 6;
+      } else if (b > a - 1 && a - 3 - w >= free) {
+        el.attr('x', a - 3)
+          .attr('text-anchor', 'end')
+          .text(d.name);
+        free = b + 2;
+      } else el.text('');
+    });
     // Events: ticks with a tooltip.
     lane(2)
       .selectAll<SVGPathElement, TimelineData['events'][number]>('path.event')
@@ -335,19 +382,23 @@ export class TimelineChart {
       .join('title')
       .text((d) => d.label);
     // Charts.
-    CHARTS.forEach((c) => this.drawChart(c.key, data[c.key] as Series));
+    CHARTS.forEach((c) => this.drawChart(c.key, data[c.key] as Series, c.key === 'distance' ? data.comparison : null));
     this.extra?.draw(x, this.width);
     this.placeCursor();
   }
 
-  private drawChart(key: ChartKey, s: Series): void {
+  private drawChart(key: ChartKey, s: Series, comparison: TimelineData['comparison']): void {
     const L = LAYOUT;
     const g = this.gCharts.select(`.chart-${key}`);
     const n = s.t.length;
+    const cmp = comparison && comparison.distance.t.length > 0 ? comparison : null;
+    g.select('.chart-legend').text(cmp ? `- - ${cmp.label}` : '');
     if (n === 0) {
       g.selectAll('path').attr('d', null);
       g.select('.chart-max').text('');
-      g.select('.chart-min').text(key === 'distance' ? 'no target' : '');
+      g.select('.chart-min')
+        .text(key === 'distance' ? 'no target' : '')
+        .attr('data-value', null);
       return;
     }
     let lo = Infinity;
@@ -356,12 +407,20 @@ export class TimelineChart {
       lo = Math.min(lo, s.v[k]);
       hi = Math.max(hi, s.v[k]);
     }
+    // the comparison shares the scale (the labels stay the shown model's)
+    let yLo = lo;
+    let yHi = hi;
+    if (cmp)
+      for (let k = 0; k < cmp.distance.v.length; k++) {
+        yLo = Math.min(yLo, cmp.distance.v[k]);
+        yHi = Math.max(yHi, cmp.distance.v[k]);
+      }
     const log = key === 'distance';
     let y: d3.ScaleContinuousNumeric<number, number>;
     if (log)
       y = d3
         .scaleLog()
-        .domain([Math.max(1, lo) * 0.8, Math.max(hi, lo * 2) * 1.2])
+        .domain([Math.max(1, yLo) * 0.8, Math.max(yHi, yLo * 2) * 1.2])
         .range([L.chart - 2, 3]);
     else
       y = d3
@@ -380,10 +439,23 @@ export class TimelineChart {
       .y1((k) => y(Math.max(log ? 1 : -Infinity, s.v[k])));
     g.select('.chart-line').attr('d', line(idx));
     g.select('.chart-area').attr('d', area(idx));
-    const fmt = (v: number) =>
-      key === 'propellant' ? `${(v / 1000).toFixed(1)} t` : key === 'dvLeft' ? `${(v / 1000).toFixed(2)} km/s` : `${(v / 1e9).toFixed(v < 1e9 ? 3 : 1)} Gm`;
+    if (key === 'distance') {
+      const c = g.select('.chart-comparison');
+      if (cmp) {
+        const cs = cmp.distance;
+        const cline = d3
+          .line<number>()
+          .x((k) => this.x(cs.t[k]))
+          .y((k) => y(Math.max(1, cs.v[k])));
+        c.attr('d', cline(d3.range(cs.t.length)));
+        c.select('title').text(`distance to the target in ${cmp.label} (the comparison)`);
+      } else c.attr('d', null);
+    }
+    const fmt = (v: number) => (key === 'propellant' ? `${(v / 1000).toFixed(1)} t` : key === 'dvLeft' ? `${(v / 1000).toFixed(2)} km/s` : formatDistance(v));
     g.select('.chart-max').text(`max ${fmt(hi)}`);
-    g.select('.chart-min').text(`min ${fmt(lo)}`);
+    g.select('.chart-min')
+      .text(`min ${fmt(lo)}`)
+      .attr('data-value', lo);
   }
 
   dispose(): void {
