@@ -58,12 +58,22 @@ export interface Leg {
    * start where they are nearly linear (far misses bend them); empty for the final leg.
    */
   coarse: FlightGoal[];
+  /**
+   * Arrival legs aimed by the designer (TargetOptions.goals): the periapsis altitude and
+   * inclination aimed at, the side of the B-plane and the tolerance on the B-plane miss.
+   */
+  aim?: { altitude: number; i: number; side: 1 | -1; tolerance: number };
   /** Arrival legs: the periapsis time there as a goal (among `goals` only when the arrival time is held). */
   timeGoal: FlightGoal | null;
   /** Probe times the goals read (arrival legs: the reference periapsis time). */
   probes: number[];
-  /** The reference arrival (arrival legs): periapsis time, altitude, inclination, v∞ (m/s). */
-  reference: { t: number; altitude: number; i: number; vinf: number } | null;
+  /**
+   * The reference arrival (arrival legs): the probe time of its B-plane, its periapsis altitude,
+   * inclination and v∞ (m/s); the late probe time (1 % of the approach before the periapsis and
+   * before the burn there starts), the side of the B-plane it passes (sign of sin θ) and the
+   * B-plane tolerance.
+   */
+  reference: { t: number; altitude: number; i: number; vinf: number; late: number; side: 1 | -1; bTol: number } | null;
 }
 
 const s6 = new Float64Array(6);
@@ -126,7 +136,11 @@ function arrivalLeg(
   const peri = ref.events.find((e) => e.kind === 'periapsis' && e.central === k && e.t >= tEntry && e.t <= tBurn + 1e-6);
   // probed halfway from the SOI entry to the periapsis (or the burn): on the approach conic, well
   // before any burn there — a finite capture burn starts minutes before the periapsis it is centred on
-  const t = tEntry + 0.5 * ((peri ? peri.t : tBurn) - tEntry);
+  const tPeri = peri ? peri.t : tBurn;
+  const t = tEntry + 0.5 * (tPeri - tEntry);
+  // the late probe: where an n-body approach is read once more (the star's pull bends an approach
+  // through a large sphere of influence after the halfway point)
+  const late = Math.min(tPeri, tBurn) - 0.01 * (tPeri - tEntry);
   const info = conicInfo(body.mu, relativeTo(system, ref, k, t, s6));
   const axes = bPlaneAxes(info);
   const b = axes ? bPlane(info, axes) : null;
@@ -172,8 +186,8 @@ function arrivalLeg(
     goals,
     coarse,
     timeGoal,
-    probes: [tEntry, t],
-    reference: { t, altitude: info.rp - body.radius, i: info.i, vinf: Math.sqrt(vinf2) },
+    probes: [tEntry, t, late],
+    reference: { t, altitude: info.rp - body.radius, i: info.i, vinf: Math.sqrt(vinf2), late, side: b.br >= 0 ? 1 : -1, bTol },
   };
 }
 

@@ -130,6 +130,7 @@ export interface TargetResult {
   message: string;
 }
 
+const DEG = Math.PI / 180;
 const DEFAULT_MAX_ITERATIONS = 30;
 const DEFAULT_MAX_FLIGHTS = 400;
 /** Finite-difference step on Δv components, m/s: above the n-body integration's noise (rtol 1e-10 over a year ≈ tens of metres at arrival), far below any useful change. */
@@ -255,20 +256,6 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
     const until = leg.kind === 'arrival' && leg.probes.length > 0 ? Math.max(...leg.probes) : undefined;
     let best = Number.POSITIVE_INFINITY;
     let lastFlight: PlanResult | null = null;
-    const flight = (x: Float64Array, out: Float64Array) => {
-      const trial = applyControls(work, controls, x);
-      const f: ModelFlight = flyModel(system, trial, model, { probes: leg.probes, from: from ?? undefined, nbody, signal: options.signal, until });
-      lastFlight = f.conic;
-      flightsAll++;
-      let s = 0;
-      for (let i = 0; i < leg.goals.length; i++) {
-        out[i] = measure(system, f, leg.goals[i]);
-        const r = (out[i] - leg.goals[i].wanted) / leg.goals[i].tolerance;
-        s += r * r;
-      }
-      best = Math.min(best, Math.sqrt(s));
-      options.onProgress?.({ leg: li + 1, legs: legs.length, legName: leg.name, flights: flightsAll, residual: best });
-    };
     const solveOptions = { maxIterations, maxFlights, damping: DAMPING, jacobianUpdate: model === 'nbody' ? ('broyden' as const) : ('difference' as const) };
     // a coarse aim first when the flight starts far off (see legs.ts), then the leg's goals from there
     let start: ArrayLike<number> = x0;
@@ -286,7 +273,54 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
       coarseFlights = c.flights;
       if (c.status === 'converged') start = c.x;
     }
-    const solved = solveTargets(controls, leg.goals, flight, { ...solveOptions, x0: start });
+    // the leg's goals; an n-body arrival instead reads its approach just before the periapsis (the
+    // late probe), aimed from the flight's own v∞ and asymptote: the star's pull bends an approach
+    // through a large sphere of influence after the halfway point, so goals met there can still
+    // miss (the moon demo's Moravel periapsis by 15,700 km)
+    const ref = leg.reference;
+    let goalsShown = leg.goals;
+    if (model === 'nbody' && leg.kind === 'arrival' && ref) {
+      const aim = leg.aim ?? { altitude: ref.altitude, i: ref.i, side: ref.side, tolerance: ref.bTol };
+      const body = system.bodies[leg.body];
+      const words = `(aim: periapsis ${(aim.altitude / 1000).toFixed(3)} km, inclination ${(aim.i / DEG).toFixed(3)}°)`;
+      const base = { body: leg.body, at: ref.late, aim, tolerance: aim.tolerance, wanted: 0, units: 'km', unitScale: 1000 };
+      goalsShown = [
+        { ...base, kind: 'arrival-aim-t', name: `B-plane miss along T at ${body.name} ${words}` },
+        { ...base, kind: 'arrival-aim-r', name: `B-plane miss along R at ${body.name} ${words}` },
+        ...leg.goals.filter((g) => g.kind === 'soi-entry-time'),
+        ...leg.goals.filter((g) => g.kind === 'arrival-periapsis-time').map((g) => ({ ...g, at: ref.late })),
+      ];
+    }
+    const shown = goalsShown;
+    const flight = (x: Float64Array, out: Float64Array) => {
+      const trial = applyControls(work, controls, x);
+      const f: ModelFlight = flyModel(system, trial, model, { probes: leg.probes, from: from ?? undefined, nbody, signal: options.signal, until });
+      lastFlight = f.conic;
+      flightsAll++;
+      let s = 0;
+      for (let i = 0; i < shown.length; i++) {
+        out[i] = measure(system, f, shown[i]);
+        const r = (out[i] - shown[i].wanted) / shown[i].tolerance;
+        s += r * r;
+      }
+      best = Math.min(best, Math.sqrt(s));
+      options.onProgress?.({ leg: li + 1, legs: legs.length, legName: leg.name, flights: flightsAll, residual: best });
+    };
+    let solved = solveTargets(controls, shown, flight, { ...solveOptions, x0: start });
+    if (shown !== leg.goals && solved.status !== 'converged') {
+      // the late reading alone found no way from the coarse aim (a long approach through a large
+      // sphere, e.g. Moravel's): meet the halfway reading first, then the late one from there
+      const midFlight = (x: Float64Array, out: Float64Array) => {
+        const f = flyModel(system, applyControls(work, controls, x), model, { probes: leg.probes, from, nbody, signal: options.signal, until });
+        flightsAll++;
+        for (let i = 0; i < leg.goals.length; i++) out[i] = measure(system, f, leg.goals[i]);
+        options.onProgress?.({ leg: li + 1, legs: legs.length, legName: leg.name, flights: flightsAll, residual: best });
+      };
+      const mid = solveTargets(controls, leg.goals, midFlight, { ...solveOptions, x0: start });
+      coarseIterations += solved.iterations + mid.iterations;
+      coarseFlights += solved.flights + mid.flights;
+      if (mid.status === 'converged') solved = solveTargets(controls, shown, flight, { ...solveOptions, x0: mid.x });
+    }
     const res = { ...solved, iterations: solved.iterations + coarseIterations, flights: solved.flights + coarseFlights };
     iterationsAll += res.iterations;
     if (res.history.length > 0 || res.status === 'converged') work = applyControls(work, controls, res.x);
@@ -295,7 +329,7 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
     if (model === 'nbody' && leg.timeGoal && res.status === 'converged') {
       const f = flyModel(system, work, model, { probes: leg.probes, from, nbody, signal: options.signal, until });
       flightsAll++;
-      shift = measure(system, f, leg.timeGoal) - leg.timeGoal.wanted;
+      shift = measure(system, f, { ...leg.timeGoal, at: leg.reference?.late ?? leg.timeGoal.at }) - leg.timeGoal.wanted;
       work = shiftAfter(work, leg.burns[leg.burns.length - 1], shift);
       shifted += shift;
     }
@@ -308,8 +342,8 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
       goals: res.goals.map((g, i) => ({
         ...g,
         value: res.flown ? g.value : null,
-        units: leg.goals[i].units,
-        unitScale: leg.goals[i].unitScale,
+        units: goalsShown[i].units,
+        unitScale: goalsShown[i].unitScale,
       })),
       controls: controls.map((c, j) => ({
         name: c.name,
@@ -353,8 +387,8 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
 function withArrivalGoals(system: StarSystem, legs: Leg[], extra: readonly ArrivalGoal[], tol: TargetTolerances): Leg[] {
   if (extra.length === 0) return legs;
   const out = legs.map((l) => ({ ...l, goals: l.goals.map((g) => ({ ...g })) }));
-  const DEG = Math.PI / 180;
   const aims = new Map<Leg, { altitude?: number; altTol?: number; i?: number; iTol?: number }>();
+
   extra.forEach((g, j) => {
     const field = `goals[${j + 1}]`; // 1-based, the designer's count
     const k = findBodyIndex(system, g.body);
@@ -431,6 +465,7 @@ function withArrivalGoals(system: StarSystem, legs: Leg[], extra: readonly Arriv
     const words = `(aim: periapsis ${(alt / 1000).toFixed(3)} km, inclination ${(inc / DEG).toFixed(3)}°)`;
     const goalAim = { altitude: alt, i: inc, side: Math.sin(th) >= 0 ? (1 as const) : (-1 as const) };
     // misses from the aim point, recomputed each flight from its own approach
+    leg.aim = { ...goalAim, tolerance: tolB };
     Object.assign(bt, { kind: 'arrival-aim-t', wanted: 0, tolerance: tolB, aim: goalAim, name: `B-plane miss along T at ${body.name} ${words}` });
     Object.assign(br, { kind: 'arrival-aim-r', wanted: 0, tolerance: tolB, aim: goalAim, name: `B-plane miss along R at ${body.name} ${words}` });
   }
@@ -450,7 +485,8 @@ function shiftLeg(leg: Leg, dt: number): Leg {
   });
   const goals = leg.goals.map(move);
   const timeGoal = leg.timeGoal ? (goals[leg.goals.indexOf(leg.timeGoal)] ?? move(leg.timeGoal)) : null;
-  return { ...leg, goals, coarse: leg.coarse.map(move), timeGoal, probes: leg.probes.map((t) => t + dt) };
+  const reference = leg.reference ? { ...leg.reference, t: leg.reference.t + dt, late: leg.reference.late + dt } : null;
+  return { ...leg, goals, coarse: leg.coarse.map(move), timeGoal, reference, probes: leg.probes.map((t) => t + dt) };
 }
 
 /** The plan with every timed burn and timed coast after burn `afterId` moved by dt seconds (and its end, if set). */
