@@ -464,12 +464,16 @@ export function correctPlan(system: StarSystem, plan: Plan, options: CorrectOpti
       changeMagnitude: Math.hypot(change[0], change[1], change[2]),
     };
   });
-  const corrected = freezePlan(system, plan, conic, burns, first.eventIndex, timeCoastIndex);
+  // the corrected plan arrives in n-body, not in patched conics: n-body is its truth model
+  const corrected: Plan = { ...freezePlan(system, plan, conic, burns, first.eventIndex, timeCoastIndex), truthModel: 'nbody' };
   const result = evaluate(system, corrected, { samplesPerSegment: 0 });
   if (result.target && !result.target.reached) {
     notes.push(
       'the patched-conic evaluation of the corrected plan does not reach the target: expected, the correction undoes the conic model’s own arrival error; verify it in the n-body model',
     );
+  }
+  if (plan.target) {
+    notes.push('the burns after the correction keep their patched-conic vectors, so the final orbit differs from the target by what the n-body arrival does; targeting the plan in n-body (waymark target --model nbody) meets the target orbit too');
   }
   return {
     plan: corrected,
