@@ -473,7 +473,9 @@ export function correctPlan(system: StarSystem, plan: Plan, options: CorrectOpti
     );
   }
   if (plan.target) {
-    notes.push('the burns after the correction keep their patched-conic vectors, so the final orbit differs from the target by what the n-body arrival does; targeting the plan in n-body (waymark target --model nbody) meets the target orbit too');
+    notes.push(
+      'the burns after the correction keep their patched-conic vectors, so the final orbit differs from the target by what the n-body arrival does; targeting the plan in n-body (waymark target --model nbody) meets the target orbit too',
+    );
   }
   return {
     plan: corrected,

@@ -94,7 +94,8 @@ export function budgetText(system: StarSystem, plan: Plan, result: PlanResult, f
     );
   }
   if (b.rows.length === 0) out.push('(no burns)');
-  if (finite) out.push('g-loss: Δv the finite burn put into no orbital energy (energy-based: large for a burn that mostly turns the velocity, e.g. a plane change)');
+  if (finite)
+    out.push('g-loss: Δv the finite burn put into no orbital energy (energy-based: large for a burn that mostly turns the velocity, e.g. a plane change)');
   out.push('');
   out.push(`capacity   ${pad(num(b.capacity, 1), 10, true)} m/s`);
   out.push(`planned    ${pad(num(b.total, 1), 10, true)} m/s`);

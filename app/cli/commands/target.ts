@@ -223,7 +223,7 @@ export function addTargetCommand(program: Command): void {
     .option('--vary <kind:event>', "also vary an event's timing: time:BURN, arrival:BURN (a transfer's arrival) or duration:COAST (repeatable)", collect)
     .option(
       '--goal <kind:body=value>',
-      'an arrival goal in place of the patched-conic plan\'s: periapsis:BODY=ALT (600km), inclination:BODY=ANGLE (35deg) or entry:BODY=DATE (SOI entry; 413-120T06:00) (repeatable)',
+      "an arrival goal in place of the patched-conic plan's: periapsis:BODY=ALT (600km), inclination:BODY=ANGLE (35deg) or entry:BODY=DATE (SOI entry; 413-120T06:00) (repeatable)",
       collect,
     )
     .option('--partial', 'write the closest plan found even when not every goal is met (exit code still 1)')

@@ -204,7 +204,7 @@ describe('waymark target', () => {
 
 describe('--goal', () => {
   const cal = { era: 'TR', dayLength: 86400, yearLength: 365 * 86400, epochYear: 412, epochDay: 1 } as never;
-  it('reads KIND:BODY=VALUE with the value in the goal\'s units, and names the kinds it takes otherwise', () => {
+  it("reads KIND:BODY=VALUE with the value in the goal's units, and names the kinds it takes otherwise", () => {
     expect(parseGoals(['periapsis:ochre=600km', 'inclination:ochre=35deg', 'entry:ochre=401d'], cal)).toEqual([
       { kind: 'periapsis-altitude', body: 'ochre', wanted: 600e3 },
       { kind: 'inclination', body: 'ochre', wanted: (35 * Math.PI) / 180 },
