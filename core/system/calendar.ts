@@ -9,7 +9,10 @@
  *   whole number of days), and day numbering restarts at each new year.
  * - Clock times are SI hours, minutes and seconds since the start of the day, so a day longer
  *   than 24 h runs past 23:59 (a 26.1 h day ends at 26:06).
- * - Mission elapsed time counts calendar days of `dayLength` s, then SI hh:mm:ss.
+ * - Mission elapsed time counts standard days of 86 400 s (never the calendar's day), then SI
+ *   hours, minutes and seconds, each with its unit.
+ * - A time within rounding slack (a microsecond) of a whole second reads as that second, so a
+ *   typed date comes back as typed.
  *
  * Written forms:
  * - long:    "Year 412 TR, day 37, 06:12"    (formatDate; era label only when the calendar has one)
@@ -17,7 +20,7 @@
  *   ISO 8601 (year-dayOfYear), with the system's own year and day. The time part and its
  *   seconds are optional ("412-037", "412-037T06:12"); seconds may carry decimals; years may
  *   be negative ("-3-100"). A range in the command line is two dates joined by "..".
- * - elapsed: "T+ 12d 04:33:10" / "T− 0d 00:05:00" (formatElapsed).
+ * - elapsed: "T+ 12 d 04 h 33 min 10 s" / "T− 0 d 00 h 05 min 00 s" (formatElapsed).
  * parseDate reads the compact form and the long form (with or without the era label).
  */
 
@@ -44,24 +47,39 @@ export function daysInYear(cal: SystemCalendar): number {
   return Math.ceil(cal.yearLength / cal.dayLength - 1e-12);
 }
 
-/** Year, day of year and second of day of time t (s from the epoch). */
+/**
+ * Rounding slack of a calendar reading at time t: a microsecond, or a few units in the last
+ * place of t when t is so large that its spacing is coarser. Dates are stored as seconds from
+ * the epoch and the year and day lengths are not whole seconds, so a typed "416-062T13:00"
+ * comes back from (year − epoch year)·yearLength + (day − 1)·dayLength + 46 800 a few 1e-8 s
+ * short of 13:00; read without this slack it would show 12:59:59 (and a midnight as 26:06:23
+ * of the previous day).
+ */
+function slack(t: number): number {
+  return Math.max(1e-6, 8 * Number.EPSILON * Math.abs(t));
+}
+
+/** Year, day of year and second of day of time t (s from the epoch); a time within rounding slack of a whole second reads as that second. */
 export function dateParts(cal: SystemCalendar, t: number): DateParts {
   checkCalendar(cal);
   if (!Number.isFinite(t)) throw new InputError('t', 'must be a finite number', t);
+  const tol = slack(t);
   let y = Math.floor(t / cal.yearLength);
   let inYear = t - y * cal.yearLength;
-  if (inYear >= cal.yearLength) {
+  if (inYear >= cal.yearLength - tol) {
     y += 1;
     inYear -= cal.yearLength;
   }
   if (inYear < 0) inYear = 0;
   let d = Math.floor(inYear / cal.dayLength);
   let inDay = inYear - d * cal.dayLength;
-  if (inDay >= cal.dayLength) {
+  if (inDay >= cal.dayLength - tol) {
     d += 1;
     inDay -= cal.dayLength;
   }
   if (inDay < 0) inDay = 0;
+  const whole = Math.round(inDay);
+  if (Math.abs(inDay - whole) <= tol) inDay = whole;
   return { year: cal.yearAtEpoch + y, day: d + 1, secondOfDay: inDay };
 }
 
@@ -113,19 +131,34 @@ export function formatCompactDate(cal: SystemCalendar, t: number, options: Forma
   return `${p.year}-${pad(p.day, width)}T${clock(p.secondOfDay, options.seconds ?? false)}`;
 }
 
-/** Mission elapsed time "T+ 12d 04:33:10" with days of the calendar's dayLength. */
+/** Seconds in a standard day, the day that "d" means in elapsed times and durations. */
+export const STANDARD_DAY = 86400;
+
+/**
+ * Mission elapsed time "T+ 12 d 04 h 33 min 10 s" in standard days of 86 400 s.
+ * Why standard days: a home-world day is not 24 h (the demo's is 26 h 06 min), and counting
+ * elapsed time in it gave "T+ 774d 25:03:04", whose 25th hour reads as a bug. Here "d" means
+ * the same 86 400 s as in every duration on screen and on the command line, the hours stay
+ * below 24, and each field carries its unit; the home world's day appears only in calendar
+ * dates (formatDayLength says how long it is).
+ */
 export function formatElapsed(cal: SystemCalendar, dt: number): string {
   checkCalendar(cal);
   if (!Number.isFinite(dt)) throw new InputError('dt', 'must be a finite number', dt);
   const sign = dt < 0 ? 'T−' : 'T+';
-  const a = Math.abs(dt);
-  let d = Math.floor(a / cal.dayLength);
-  let rest = a - d * cal.dayLength;
-  if (rest >= cal.dayLength) {
-    d += 1;
-    rest -= cal.dayLength;
-  }
-  return `${sign} ${d}d ${clock(rest, true)}`;
+  const whole = Math.floor(Math.abs(dt) + slack(dt));
+  const d = Math.floor(whole / STANDARD_DAY);
+  const rest = whole - d * STANDARD_DAY;
+  const h = Math.floor(rest / 3600);
+  const m = Math.floor((rest % 3600) / 60);
+  return `${sign} ${d} d ${pad(h)} h ${pad(m)} min ${pad(rest % 60)} s`;
+}
+
+/** The calendar day's length in hours and minutes, "26 h 06 min" (a 24 h day reads "24 h 00 min"). */
+export function formatDayLength(cal: SystemCalendar): string {
+  checkCalendar(cal);
+  const minutes = Math.round(cal.dayLength / 60);
+  return `${Math.floor(minutes / 60)} h ${pad(minutes % 60)} min`;
 }
 
 const COMPACT = /^(-?\d+)-(\d{1,4})(?:T(\d{1,3}):(\d{2})(?::(\d{2}(?:\.\d+)?))?)?$/;

@@ -3,7 +3,7 @@
  * Other folders of core/ and the app import from here only.
  */
 export { buildStarSystem, systemToDocument } from './build.ts';
-export { dateParts, formatCompactDate, formatDate, formatElapsed, parseDate } from './calendar.ts';
+export { STANDARD_DAY, dateParts, formatCompactDate, formatDate, formatDayLength, formatElapsed, parseDate } from './calendar.ts';
 export { SYSTEM_FORMAT, SYSTEM_VERSION } from './document.ts';
 export type { SystemDocument } from './document.ts';
 export { bodyPosition, bodyState, bodyStateRelativeToParent, sampleOrbit } from './ephemeris.ts';

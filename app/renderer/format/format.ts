@@ -80,7 +80,7 @@ export function compactDate(cal: SystemCalendar, t: number, seconds = true): str
   return Number.isFinite(t) ? formatCompactDate(cal, t, { seconds }) : '—';
 }
 
-/** Mission elapsed time "T+ 12d 04:33:10" from the plan start t0. */
+/** Mission elapsed time "T+ 12 d 04 h 33 min 10 s" (standard days of 86 400 s) from the plan start t0. */
 export function elapsed(cal: SystemCalendar, t: number, t0: number): string {
   return Number.isFinite(t) && Number.isFinite(t0) ? formatElapsed(cal, t - t0) : '—';
 }

@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../../core/math/errors.ts';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
-import { dateParts, dateToSeconds, daysInYear, formatCompactDate, formatDate, formatElapsed, parseDate } from '../../../core/system/calendar.ts';
+import { dateParts, dateToSeconds, daysInYear, formatCompactDate, formatDate, formatDayLength, formatElapsed, parseDate } from '../../../core/system/calendar.ts';
 import type { SystemCalendar } from '../../../core/system/model.ts';
 import { demoText } from './fixtures.ts';
 
@@ -54,11 +54,35 @@ describe('formatDate', () => {
 });
 
 describe('formatElapsed', () => {
-  it('writes mission elapsed time with calendar days', () => {
-    expect(formatElapsed(simple, 12 * DAY + 4 * 3600 + 33 * 60 + 10)).toBe('T+ 12d 04:33:10');
-    expect(formatElapsed(simple, -300)).toBe('T− 0d 00:05:00');
-    expect(formatElapsed(simple, 0)).toBe('T+ 0d 00:00:00');
-    expect(formatElapsed(demo, demo.dayLength + 61)).toBe('T+ 1d 00:01:01');
+  it('writes mission elapsed time in standard days, each field with its unit', () => {
+    expect(formatElapsed(simple, 12 * DAY + 4 * 3600 + 33 * 60 + 10)).toBe('T+ 12 d 04 h 33 min 10 s');
+    expect(formatElapsed(simple, -300)).toBe('T− 0 d 00 h 05 min 00 s');
+    expect(formatElapsed(simple, 0)).toBe('T+ 0 d 00 h 00 min 00 s');
+  });
+
+  it('counts 86 400 s days on a calendar whose day is 26 h 06 min, so the hours never pass 23', () => {
+    // The demo day (≈ 93 984 s) is longer than a standard day: one demo day and a minute is 1 d 02 h 07 min.
+    expect(formatElapsed(demo, demo.dayLength + 60)).toBe('T+ 1 d 02 h 07 min 23 s');
+    fc.assert(
+      fc.property(fc.double({ min: -1e10, max: 1e10, noNaN: true }), (dt) => {
+        const m = /^T[+−] (\d+) d (\d\d) h (\d\d) min (\d\d) s$/.exec(formatElapsed(demo, dt));
+        expect(m).not.toBeNull();
+        const [, d, h, min, sec] = (m as RegExpExecArray).map(Number);
+        expect(h).toBeLessThan(24);
+        // The fields add up to |dt| truncated to the second (slack of a microsecond for rounding).
+        expect(Math.abs(dt) - (d * 86400 + h * 3600 + min * 60 + sec)).toBeGreaterThan(-1e-6 - 8 * Number.EPSILON * Math.abs(dt));
+        expect(Math.abs(dt) - (d * 86400 + h * 3600 + min * 60 + sec)).toBeLessThan(1);
+      }),
+      { numRuns: 500 },
+    );
+  });
+});
+
+describe('formatDayLength', () => {
+  it('writes the day in hours and minutes', () => {
+    expect(formatDayLength(simple)).toBe('24 h 00 min');
+    // Demo day 93 983.76 s = 26 h 06 min 23.76 s.
+    expect(formatDayLength(demo)).toBe('26 h 06 min');
   });
 });
 
@@ -118,11 +142,40 @@ describe('parseDate', () => {
     fc.assert(
       fc.property(fc.double({ min: -1e10, max: 1e10, noNaN: true }), (t) => {
         const back = parseDate(demo, formatCompactDate(demo, t, { seconds: true }));
-        // "Never after" up to rounding of t − k·yearLength (a few ulps of |t| + yearLength).
-        expect(back - t).toBeLessThanOrEqual(4 * Number.EPSILON * (Math.abs(t) + demo.yearLength));
+        // "Never after" beyond the reading's rounding slack: a time within a microsecond (or a
+        // few ulps of |t|) below a whole second reads as that second.
+        expect(back - t).toBeLessThanOrEqual(1e-6 + 8 * Number.EPSILON * (Math.abs(t) + demo.yearLength));
         expect(t - back).toBeLessThan(1 + 1e-6);
       }),
       { numRuns: 1000 },
+    );
+  });
+
+  it('gives back a typed date exactly as typed on the demo calendar (416-062T13:00 once read as 12:59:59, and 416-062T00:00 as 416-061T26:06:23)', () => {
+    expect(formatCompactDate(demo, parseDate(demo, '416-062T13:00'))).toBe('416-062T13:00');
+    expect(formatCompactDate(demo, parseDate(demo, '416-062T00:00'))).toBe('416-062T00:00');
+    expect(formatCompactDate(demo, parseDate(demo, '412-149T24:13:23'), { seconds: true })).toBe('412-149T24:13:23');
+  });
+
+  it('property: every canonical compact text on the demo calendar reads back exactly as written', () => {
+    const nDays = daysInYear(demo);
+    fc.assert(
+      fc.property(
+        fc.integer({ min: -3000, max: 3000 }),
+        fc.integer({ min: 1, max: nDays - 1 }),
+        fc.integer({ min: 0, max: Math.floor(demo.dayLength) - 1 }),
+        (year, day, second) => {
+          const hh = Math.floor(second / 3600);
+          const mm = Math.floor((second % 3600) / 60);
+          const ss = second % 60;
+          const p = (n: number) => String(n).padStart(2, '0');
+          const text = `${year}-${String(day).padStart(3, '0')}T${p(hh)}:${p(mm)}:${p(ss)}`;
+          expect(formatCompactDate(demo, parseDate(demo, text), { seconds: true })).toBe(text);
+          const short = `${year}-${String(day).padStart(3, '0')}T${p(hh)}:${p(mm)}`;
+          expect(formatCompactDate(demo, parseDate(demo, short))).toBe(short);
+        },
+      ),
+      { numRuns: 2000 },
     );
   });
 
