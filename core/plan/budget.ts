@@ -7,6 +7,10 @@
  * - dvLeft: what the vehicle can still deliver after the last event (vehicle.ts deltaVLeft).
  * - margin = dvLeft − reserve − missing, where missing is the Δv that burns could not deliver
  *   (out of propellant): a plan that cannot be flown shows how far it is from closing.
+ * - failedBurns: the burns the evaluation could not solve or fly as planned (their rows carry a
+ *   'solve-failed' error flag; a failed solve flies a zero solved Δv). Their Δv is not the Δv
+ *   the plan needs, so the margin is not a valid figure while any is listed: the plan does not
+ *   hold, whatever the margin's sign (a burn counted as 0 m/s would otherwise improve it).
  * Flags: 'negative-margin' (error) when margin < 0.
  */
 import type { ReservePolicy } from './plan.ts';
@@ -31,11 +35,13 @@ export function summarizeBudget(rows: BudgetRow[], totals: BudgetTotals, policy:
   let total = 0;
   let propellantUsed = 0;
   let missing = 0;
-  for (const r of rows) {
+  const failedBurns: Budget['failedBurns'] = [];
+  rows.forEach((r, k) => {
     total += r.dv;
     propellantUsed += r.propellantUsed;
     missing += r.dvMissing ?? 0;
-  }
+    if (r.flags.some((f) => f.code === 'solve-failed')) failedBurns.push({ planEventId: r.planEventId, name: r.name, row: k + 1 });
+  });
   const reserve = reserveFor(policy, total);
   const margin = totals.dvLeft - reserve - missing;
   const flags: Flag[] = [];
@@ -61,6 +67,7 @@ export function summarizeBudget(rows: BudgetRow[], totals: BudgetTotals, policy:
       margin,
       propellantUsed,
       finalMass: totals.finalMass,
+      failedBurns,
     },
     flags,
   };

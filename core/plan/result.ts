@@ -133,6 +133,11 @@ export interface Budget {
   margin: number;
   propellantUsed: number;
   finalMass: number;
+  /**
+   * Burns that could not be solved or flown as planned (flag 'solve-failed'), with their budget
+   * row number from 1. While any is listed the margin is not valid: the plan does not hold.
+   */
+  failedBurns: { planEventId: string; name: string; row: number }[];
 }
 
 /** How the final orbit compares with the plan's target. */

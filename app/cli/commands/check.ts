@@ -6,7 +6,8 @@
  * judges it in another model instead, as a comparison (labelled so; the verdict and exit code
  * are then that model's). Exit code (for content pipelines that gate on it):
  *   0  the plan holds in the model judged: margin >= 0, the target reached (when the plan has
- *      one) and no error flag (impact, stage out of propellant ...);
+ *      one) and no error flag (impact, stage out of propellant, a burn that failed to solve ...;
+ *      a failed solve also marks the margin NOT VALID, since its burn's Δv is not counted);
  *   1  it does not — every failing condition is named ("margin −54.2 m/s is below zero",
  *      "periapsis altitude about Ochre is 2000.250 km, wanted 400.000 km ± 10.000 km");
  *   2  the plan file (or its system file) cannot be read or is invalid — the message names
@@ -45,7 +46,9 @@ export function failingConditions(system: StarSystem, report: TruthReport): stri
   const failures = [...report.failures];
   // the margin and the target are in report.failures already; other errors (impact, out of propellant ...) come from the flags
   for (const f of modelFlags(report)) {
-    if (f.severity === 'error' && f.code !== 'negative-margin' && f.code !== 'target-missed') failures.push(`${f.code}: ${f.message}`);
+    // report.failures already names the flight's error flags in the core's words: not twice
+    if (f.severity === 'error' && f.code !== 'negative-margin' && f.code !== 'target-missed' && !report.failures.includes(f.message))
+      failures.push(`${f.code}: ${f.message}`);
   }
   const nb = report.nbody;
   if (nb?.impact && !report.plan.target)
@@ -101,7 +104,16 @@ export function budgetText(system: StarSystem, plan: Plan, result: PlanResult, f
   out.push(`planned    ${pad(num(b.total, 1), 10, true)} m/s`);
   out.push(`left       ${pad(num(b.dvLeft, 1), 10, true)} m/s`);
   out.push(`reserve    ${pad(num(b.reserve, 1), 10, true)} m/s  (${num(plan.reserve.percent, 1)} % + ${num(plan.reserve.absolute, 1)} m/s)`);
-  out.push(`margin     ${pad(num(b.margin, 1), 10, true)} m/s  ${b.margin >= 0 ? 'HOLDS' : 'DOES NOT HOLD'}`);
+  const failed = b.failedBurns.map((f) => `${f.name || f.planEventId} (row ${f.row})`);
+  out.push(
+    `margin     ${pad(num(b.margin, 1), 10, true)} m/s  ${
+      failed.length > 0
+        ? `NOT VALID: ${failed.join(', ')} failed to solve, so ${failed.length > 1 ? 'their' : 'its'} Δv is not counted`
+        : b.margin >= 0
+          ? 'HOLDS'
+          : 'DOES NOT HOLD'
+    }`,
+  );
   if (flags.length > 0) {
     out.push('');
     for (const f of flags) out.push(`${f.severity.padEnd(7)} ${f.code}: ${f.message}`);

@@ -40,6 +40,25 @@ describe.concurrent('waymark check', () => {
     expect(r.stdout).toMatch(/DOES NOT HOLD\n {2}- margin -\d+\.\d m\/s is below zero$/m);
   });
 
+  it('a later burn that cannot be solved: the margin is marked not valid and the plan does not hold (exit 1)', async () => {
+    // the trim asks for a transfer to Ochre while the ship already orbits it: no solution, flown as 0 m/s of solved Δv
+    const p = editedDemo('unsolved-trim.plan.json', (d) => {
+      d.target = null;
+      d.events.find((e: { id: string }) => e.id === 'trim').solve = { kind: 'transfer', to: 'ochre', arrive_s: 40000000 };
+    });
+    const [bad, good] = await Promise.all([runCli(['check', p]), runCli(['check', DEMO])]);
+    expect(bad.code).toBe(1);
+    expect(bad.stdout).toMatch(/margin\s+\d+\.\d m\/s {2}NOT VALID: Apoapsis trim \(row 5\) failed to solve, so its Δv is not counted/);
+    expect(bad.stdout).toContain("judged in patched conics (the plan's truth model): DOES NOT HOLD");
+    expect(bad.stdout).toMatch(/ {2}- Apoapsis trim: transfer burn not solved/);
+    // the unsolved burn counted as 0 m/s leaves more Δv than the solved plan: a margin that looks better, marked not valid
+    const margin = (s: string) => Number(/margin\s+(-?\d+\.\d) m\/s/.exec(s)?.[1]);
+    expect(margin(bad.stdout)).toBeGreaterThan(margin(good.stdout));
+    // each failing condition once
+    const lines = bad.stdout.split('\n').filter((l) => l.startsWith('  - '));
+    expect(new Set(lines).size).toBe(lines.length);
+  });
+
   it('--model finite on the demo: judged as a comparison, each failing condition named, exit 1', async () => {
     const r = await runCli(['check', DEMO, '--model', 'finite']);
     expect(r.code).toBe(1);

@@ -134,5 +134,6 @@ export function syntheticBudget(margin = 12.5): Budget {
     margin,
     propellantUsed: 250,
     finalMass: 950,
+    failedBurns: [],
   };
 }

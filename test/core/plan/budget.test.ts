@@ -54,6 +54,19 @@ describe('reserve and margin arithmetic', () => {
   });
 });
 
+describe('burns that failed to solve', () => {
+  it('are listed with their row number; the margin arithmetic is unchanged', () => {
+    const failed = { ...row(0, 0), planEventId: 'b2', name: 'Capture' };
+    failed.flags = [{ code: 'solve-failed', severity: 'error', message: 'Capture: not solved', planEventId: 'b2' }];
+    const { budget } = summarizeBudget([row(1200, 10), failed, row(500, 3)], { capacity: 2400, dvLeft: 400, finalMass: 900 }, { percent: 5, absolute: 40 });
+    expect(budget.failedBurns).toEqual([{ planEventId: 'b2', name: 'Capture', row: 2 }]);
+    // 1,700 m/s planned: reserve 5 % · 1,700 + 40 = 125 m/s; margin 400 − 125 = 275 m/s (policy definition)
+    expect(budget.margin).toBeCloseTo(275, 12);
+    const clean = summarizeBudget([row(1200, 10), row(500, 3)], { capacity: 2400, dvLeft: 400, finalMass: 900 }, { percent: 5, absolute: 40 }).budget;
+    expect(clean.failedBurns).toEqual([]);
+  });
+});
+
 describe('demo budgets', () => {
   const system = demoSystem();
 
