@@ -5,9 +5,10 @@
 export { burnTableCsv, ephemerisCsv } from './csv.ts';
 export { inlineLocalRefs } from './fileValidator.ts';
 export { writeOem } from './oem.ts';
-export { parsePlanFile, planToDocument, requirePlanFitsSystem, serializePlanFile } from './planFile.ts';
+export { planSaveIssues } from './planSaveCheck.ts';
+export { checkPlanAgainstSystem, parsePlanFile, planToDocument, requirePlanFitsSystem, serializePlanFile } from './planFile.ts';
 export type { PlanSystemRef } from './planFile.ts';
-export { PLAN_FORMAT, PLAN_VERSION, checkPlanAgainstSystem, checkPlanDocument } from './planSchema.ts';
+export { PLAN_FORMAT, PLAN_VERSION, checkDocumentAgainstSystem, checkPlanDocument } from './planSchema.ts';
 export { budgetReport } from './report.ts';
 export { parseSystemFile } from './systemFile.ts';
 export { parseQuantity, parseRange, parseVector } from './units.ts';

@@ -1,7 +1,8 @@
 /**
  * Plan files: text ↔ `Plan` (core/plan/plan.ts).
  *
- * Loading (`parsePlanFile`) runs, in order, stopping at the first stage with errors:
+ * Loading (`parsePlanFile`) runs, in order (the first two stop at their first problem; the
+ * last three report together):
  *  1. JSON syntax, top level must be an object nested at most MAX_JSON_DEPTH levels deep
  *     (systemFile.ts);
  *  2. `format` must be "waymark-plan"; `version` an integer no newer than PLAN_VERSION; older
@@ -15,8 +16,12 @@
  *     come back with paths under `system.embedded.`) and the plan is checked against it
  *     (`checkPlanAgainstSystem`). A system named by `path` is read by the caller (the file
  *     layer, app/node/files.ts), which then runs `requirePlanFitsSystem`.
- * Any failure throws one `ValidationError('plan file', issues)` with the issues of that stage
- * (and the warnings found so far) — the first MAX_LISTED_ISSUES, then one counting the rest
+ * Stages 3 to 5 run together: the semantic checks and the system checks read the document
+ * defensively and check whatever parts are well-formed, so a file with a bad mass, an unknown
+ * body and a zero tolerance reports all three. A system named by `path` joins them when the
+ * caller passes it (`PlanParseOptions.system`).
+ * Any failure throws one `ValidationError('plan file', issues)` with every problem found
+ * (errors first, then warnings) — the first MAX_LISTED_ISSUES, then one counting the rest
  * (core/math/errors.ts); paths use the file's field names: `events[2].dv_mps[0]`.
  *
  * Migrations: `PLAN_MIGRATIONS[v]` turns a version-v document into version v + 1. Version 1 is
@@ -46,7 +51,7 @@ import type { StarSystem } from '../system/index.ts';
 import {
   PLAN_FORMAT,
   PLAN_VERSION,
-  checkPlanAgainstSystem,
+  checkDocumentAgainstSystem,
   checkPlanDocument,
   type EventDocument,
   type PlanDocument,
@@ -56,7 +61,7 @@ import {
 } from './planSchema.ts';
 import { nestingIssue, parseSystemFile, pointerToPath, schemaIssues, serializeSystemFile, tooLarge } from './systemFile.ts';
 
-export { PLAN_FORMAT, PLAN_VERSION, checkPlanAgainstSystem, checkPlanDocument } from './planSchema.ts';
+export { PLAN_FORMAT, PLAN_VERSION, checkDocumentAgainstSystem, checkPlanDocument } from './planSchema.ts';
 
 const WHAT = 'plan file';
 const RAD_PER_DEG = Math.PI / 180;
@@ -72,6 +77,12 @@ export const PLAN_MIGRATIONS: Readonly<Record<number, PlanMigration>> = {};
 export interface PlanParseOptions {
   /** Migration table to use instead of PLAN_MIGRATIONS (tests). */
   migrations?: Readonly<Record<number, PlanMigration>>;
+  /**
+   * The system a plan naming its system by `path` flies in, when the caller already has it: the
+   * plan is then checked against it as an embedded one is (`checkPlanAgainstSystem`), and its
+   * problems are reported with the file's own.
+   */
+  system?: StarSystem;
 }
 
 export interface ParsedPlan {
@@ -103,7 +114,7 @@ const errorsFirst = (issues: ValidationIssue[]): ValidationIssue[] => [
   ...issues.filter((i) => i.severity === 'warning'),
 ];
 
-/** Reads a plan file; throws ValidationError listing every problem of the failing stage. */
+/** Reads a plan file; throws ValidationError listing every problem found (see the module comment). */
 export function parsePlanFile(text: string, options: PlanParseOptions = {}): ParsedPlan {
   if (typeof text !== 'string') fail([err('', 'must be text')]);
   let raw: unknown;
@@ -125,31 +136,34 @@ export function parsePlanFile(text: string, options: PlanParseOptions = {}): Par
   const size = sizeIssues(doc);
   if (size.length > 0) fail(size);
 
-  if (!validateSchema(doc)) fail(planSchemaIssues(validateSchema.errors ?? []));
+  // Every problem at once: the schema's, the semantic checks of the parts that are well-formed,
+  // and the checks against the system (embedded, or given by the caller).
+  const shape = validateSchema(doc) ? [] : planSchemaIssues(validateSchema.errors ?? []);
   const planDoc = doc as unknown as PlanDocument;
   const issues = checkPlanDocument(planDoc);
-  if (issues.some((i) => i.severity === 'error')) fail(errorsFirst(issues));
-  const plan = documentToPlan(planDoc);
-
-  let system: PlanSystemRef;
-  const { path, embedded } = planDoc.system; // the schema's oneOf: exactly one of the two
-  if (embedded !== undefined) {
-    let loaded: StarSystem;
+  const sysDoc = isObject(doc.system) ? doc.system : {};
+  let loaded: StarSystem | null = options.system ?? null;
+  const embedded = isObject(sysDoc.embedded) && sysDoc.path === undefined; // the schema's oneOf
+  if (embedded) {
     try {
-      const parsed = parseSystemFile(JSON.stringify(embedded));
+      const parsed = parseSystemFile(JSON.stringify(sysDoc.embedded));
       loaded = parsed.system;
       issues.push(...prefixIssues('system.embedded', parsed.warnings));
     } catch (e) {
-      if (e instanceof ValidationError) fail([...prefixIssues('system.embedded', e.issues), ...issues]);
-      throw e;
+      if (!(e instanceof ValidationError)) throw e;
+      loaded = null;
+      issues.push(...prefixIssues('system.embedded', e.issues));
     }
-    const fit = checkPlanAgainstSystem(plan, loaded);
-    issues.push(...fit);
-    if (fit.some((i) => i.severity === 'error')) fail(errorsFirst(issues));
-    system = { kind: 'embedded', system: loaded };
-  } else {
-    system = { kind: 'path', path: path as string };
   }
+  if (loaded) issues.push(...checkDocumentAgainstSystem(doc, loaded));
+  if (shape.length > 0) {
+    // A value the schema refused is reported once, by the schema.
+    const refused = new Set(shape.map((i) => i.path));
+    fail(errorsFirst([...shape, ...issues.filter((i) => !refused.has(i.path))]));
+  }
+  if (issues.some((i) => i.severity === 'error')) fail(errorsFirst(issues));
+  const plan = documentToPlan(planDoc);
+  const system: PlanSystemRef = embedded && loaded ? { kind: 'embedded', system: loaded } : { kind: 'path', path: sysDoc.path as string };
   return { plan, system, warnings: issues, fileVersion };
 }
 
@@ -160,6 +174,14 @@ function sizeIssues(doc: Record<string, unknown>): ValidationIssue[] {
   const stages = isObject(doc.vehicle) ? doc.vehicle.stages : undefined;
   if (Array.isArray(stages) && stages.length > MAX_STAGES) out.push(err('vehicle.stages', overLimitRule(stages.length, MAX_STAGES, 'stages')));
   return out;
+}
+
+/**
+ * Checks of an in-memory plan against the system it flies in (planSchema.ts
+ * `checkDocumentAgainstSystem` on its file document): paths in the plan file's field names.
+ */
+export function checkPlanAgainstSystem(plan: Plan, system: StarSystem): ValidationIssue[] {
+  return checkDocumentAgainstSystem(planToDocument(plan, { kind: 'path', path: '-' }), system);
 }
 
 /**

@@ -11,7 +11,7 @@
  * - `checkPlanDocument(doc)` on a schema-valid document: unique event ids, a vehicle with mass
  *   (and a burnout mass), explicit times in order, target consistency, staging within the stage
  *   count, state and Δv magnitudes the evaluator accepts ...
- * - `checkPlanAgainstSystem(plan, system)` once the system is known: every body id exists, the
+ * - `checkDocumentAgainstSystem(doc, system)` once the system is known: every body id exists, the
  *   start and target orbits clear the body's surface (errors) and its minimum safe altitude
  *   (warnings).
  * Paths use the FILE's field names (`events[2].dv_mps[0]`, `start.periapsis_altitude_m`),
@@ -20,7 +20,6 @@
 
 import type { ValidationIssue } from '../math/index.ts';
 import { MAX_PLAN_SPEED, MAX_START_DISTANCE } from '../plan/index.ts';
-import type { Plan } from '../plan/index.ts';
 import { MIN_BURNOUT_FRACTION, MIN_STAGE_THRUST } from '../plan/index.ts';
 import type { StarSystem } from '../system/index.ts';
 import type { PlanDocument } from './planFileShape.ts';
@@ -53,58 +52,87 @@ function warn(path: string, rule: string): ValidationIssue {
   return { path, rule, severity: 'warning' };
 }
 
-/** Semantic checks of a schema-valid plan document (no system needed). */
+type Loose = Record<string, unknown>;
+const record = (x: unknown): Loose | null => (typeof x === 'object' && x !== null && !Array.isArray(x) ? (x as Loose) : null);
+const num = (x: unknown): x is number => typeof x === 'number' && Number.isFinite(x);
+const str = (x: unknown): x is string => typeof x === 'string';
+const vec = (x: unknown): x is [number, number, number] => Array.isArray(x) && x.length === 3 && x.every(num);
+const list = (x: unknown): unknown[] => (Array.isArray(x) ? x : []);
+
+/**
+ * Semantic checks of a plan document (no system needed). Written for a schema-valid document,
+ * it reads every value defensively, so it also runs on one the schema refused and checks the
+ * parts that are well-formed (a file's problems are all reported at once; a value the schema
+ * refused is skipped).
+ */
 export function checkPlanDocument(doc: PlanDocument): ValidationIssue[] {
   const issues: ValidationIssue[] = [];
+  const d = (record(doc) ?? {}) as Loose;
 
   // Vehicle.
-  const v = doc.vehicle;
-  let mass = v.payload_kg;
-  v.stages.forEach((s, k) => {
-    mass += s.dry_kg + s.propellant_kg;
-    if (s.propellant_kg === 0) issues.push(warn(`vehicle.stages[${k}].propellant_kg`, 'is 0: the stage cannot burn'));
-    if (!(s.thrust_N >= MIN_STAGE_THRUST)) issues.push(err(`vehicle.stages[${k}].thrust_N`, `must be at least ${MIN_STAGE_THRUST} N`));
-  });
-  if (!(mass > 0)) issues.push(err('vehicle', 'must have a total mass > 0 (payload, dry and propellant masses are all 0)'));
-  else if (v.stages.length > 0 && !(v.payload_kg + v.stages[v.stages.length - 1].dry_kg >= MIN_BURNOUT_FRACTION * mass)) {
-    // the evaluator's rule (vehicle.ts checkVehicle): enough must be left when the propellant is gone
-    issues.push(
-      err(
-        'vehicle.payload_kg',
-        `plus the last stage's dry_kg (vehicle.stages[${v.stages.length - 1}].dry_kg) must be > 0 and at least ${MIN_BURNOUT_FRACTION} of the total mass (the burnout mass)`,
-      ),
-    );
+  const v = record(d.vehicle);
+  const stages = list(v?.stages).map(record);
+  if (v) {
+    let mass = num(v.payload_kg) ? v.payload_kg : Number.NaN;
+    stages.forEach((s, k) => {
+      mass += s && num(s.dry_kg) && num(s.propellant_kg) ? s.dry_kg + s.propellant_kg : Number.NaN;
+      if (s?.propellant_kg === 0) issues.push(warn(`vehicle.stages[${k}].propellant_kg`, 'is 0: the stage cannot burn'));
+      if (s && num(s.thrust_N) && s.thrust_N > 0 && !(s.thrust_N >= MIN_STAGE_THRUST))
+        issues.push(err(`vehicle.stages[${k}].thrust_N`, `must be at least ${MIN_STAGE_THRUST} N`));
+    });
+    const last = stages[stages.length - 1];
+    // Mass rules only when every mass is a number the schema accepts (NaN otherwise).
+    if (Number.isNaN(mass) || stages.some((s) => !s || (s.dry_kg as number) < 0 || (s.propellant_kg as number) < 0) || (v.payload_kg as number) < 0) {
+      // skipped: a mass is missing or refused by the schema
+    } else if (!(mass > 0)) issues.push(err('vehicle', 'must have a total mass > 0 (payload, dry and propellant masses are all 0)'));
+    else if (last && !((v.payload_kg as number) + (last.dry_kg as number) >= MIN_BURNOUT_FRACTION * mass)) {
+      // the evaluator's rule (vehicle.ts checkVehicle): enough must be left when the propellant is gone
+      issues.push(
+        err(
+          'vehicle.payload_kg',
+          `plus the last stage's dry_kg (vehicle.stages[${stages.length - 1}].dry_kg) must be > 0 and at least ${MIN_BURNOUT_FRACTION} of the total mass (the burnout mass)`,
+        ),
+      );
+    }
+    const stageNames = new Map<string, number>();
+    stages.forEach((s, k) => {
+      if (!s || !str(s.name)) return;
+      const first = stageNames.get(s.name);
+      if (first !== undefined) issues.push(warn(`vehicle.stages[${k}].name`, `repeats the name of vehicle.stages[${first}]; budget rows name stages`));
+      else stageNames.set(s.name, k);
+    });
   }
-  const stageNames = new Map<string, number>();
-  v.stages.forEach((s, k) => {
-    const first = stageNames.get(s.name);
-    if (first !== undefined) issues.push(warn(`vehicle.stages[${k}].name`, `repeats the name of vehicle.stages[${first}]; budget rows name stages`));
-    else stageNames.set(s.name, k);
-  });
 
   // Start.
-  const start = doc.start;
-  if (start.kind === 'state' && start.r_m.every((x) => x === 0)) issues.push(err('start.r_m', 'must not be the zero vector'));
-  // Magnitudes the evaluator refuses (checkPlan.ts): past them the state's squares overflow.
-  if (start.kind === 'state' && !(Math.hypot(...start.r_m) <= MAX_START_DISTANCE)) {
-    issues.push(err('start.r_m', `must have a magnitude of at most ${MAX_START_DISTANCE} m`));
-  }
-  if (start.kind === 'state' && !(Math.hypot(...start.v_mps) <= MAX_PLAN_SPEED)) {
-    issues.push(err('start.v_mps', `must have a magnitude of at most ${MAX_PLAN_SPEED} m/s`));
+  const start = record(d.start);
+  if (start?.kind === 'state') {
+    if (vec(start.r_m) && start.r_m.every((x) => x === 0)) issues.push(err('start.r_m', 'must not be the zero vector'));
+    // Magnitudes the evaluator refuses (checkPlan.ts): past them the state's squares overflow.
+    if (vec(start.r_m) && !(Math.hypot(...start.r_m) <= MAX_START_DISTANCE)) {
+      issues.push(err('start.r_m', `must have a magnitude of at most ${MAX_START_DISTANCE} m`));
+    }
+    if (vec(start.v_mps) && !(Math.hypot(...start.v_mps) <= MAX_PLAN_SPEED)) {
+      issues.push(err('start.v_mps', `must have a magnitude of at most ${MAX_PLAN_SPEED} m/s`));
+    }
   }
 
   // Events: unique ids, explicit times in order, staging within the stage count.
   const ids = new Map<string, number>();
-  let lastTime = start.epoch_s;
+  let lastTime = start && num(start.epoch_s) ? start.epoch_s : Number.NEGATIVE_INFINITY;
   let lastTimePath = 'start.epoch_s';
   let drops = 0;
-  doc.events.forEach((ev, k) => {
+  list(d.events).forEach((x, k) => {
+    const ev = record(x);
+    if (!ev) return;
     const at = `events[${k}]`;
-    const first = ids.get(ev.id);
-    if (first !== undefined) issues.push(err(`${at}.id`, `must be unique ("${ev.id}" is also the id of events[${first}])`));
-    else ids.set(ev.id, k);
+    if (str(ev.id)) {
+      const first = ids.get(ev.id);
+      if (first !== undefined) issues.push(err(`${at}.id`, `must be unique ("${ev.id}" is also the id of events[${first}])`));
+      else ids.set(ev.id, k);
+    }
 
-    const inOrder = (t: number, path: string): void => {
+    const inOrder = (t: unknown, path: string): void => {
+      if (!num(t)) return;
       if (t < lastTime) issues.push(err(path, `must not be earlier than ${lastTimePath} (${lastTime} s)`));
       else {
         lastTime = t;
@@ -113,33 +141,35 @@ export function checkPlanDocument(doc: PlanDocument): ValidationIssue[] {
     };
 
     if (ev.type === 'burn') {
-      if (ev.t_s !== null) inOrder(ev.t_s, `${at}.t_s`);
-      if (!(Math.hypot(...ev.dv_mps) <= MAX_PLAN_SPEED)) issues.push(err(`${at}.dv_mps`, `must have a magnitude of at most ${MAX_PLAN_SPEED} m/s`));
-      const solve = ev.solve ?? { kind: 'fixed' };
-      if (solve.kind === 'transfer') {
+      inOrder(ev.t_s, `${at}.t_s`);
+      if (vec(ev.dv_mps) && !(Math.hypot(...ev.dv_mps) <= MAX_PLAN_SPEED))
+        issues.push(err(`${at}.dv_mps`, `must have a magnitude of at most ${MAX_PLAN_SPEED} m/s`));
+      const solve = ev.solve === undefined ? { kind: 'fixed' } : (record(ev.solve) ?? {});
+      if (solve.kind === 'transfer' && num(solve.arrive_s) && Number.isFinite(lastTime)) {
         if (!(solve.arrive_s > lastTime)) issues.push(err(`${at}.solve.arrive_s`, `must be later than ${lastTimePath} (${lastTime} s)`));
       }
-      if (solve.kind === 'fixed' && ev.dv_mps.every((x) => x === 0)) issues.push(warn(`${at}.dv_mps`, 'is zero: the burn changes nothing'));
+      if (solve.kind === 'fixed' && vec(ev.dv_mps) && ev.dv_mps.every((x) => x === 0)) issues.push(warn(`${at}.dv_mps`, 'is zero: the burn changes nothing'));
     } else if (ev.type === 'coast') {
-      if (ev.until.kind === 'time') inOrder(ev.until.t_s, `${at}.until.t_s`);
-    } else {
+      const u = record(ev.until);
+      if (u?.kind === 'time') inOrder(u.t_s, `${at}.until.t_s`);
+    } else if (ev.type === 'stage') {
       drops++;
-      if (drops > v.stages.length) {
-        issues.push(err(at, `drops a stage but none is left (the vehicle has ${v.stages.length} stage${v.stages.length === 1 ? '' : 's'})`));
+      if (v && Array.isArray(v.stages) && drops > stages.length) {
+        issues.push(err(at, `drops a stage but none is left (the vehicle has ${stages.length} stage${stages.length === 1 ? '' : 's'})`));
       }
     }
   });
-  if (doc.end_s !== undefined && doc.end_s !== null && doc.end_s < lastTime) {
+  if (num(d.end_s) && d.end_s < lastTime) {
     issues.push(err('end_s', `must not be earlier than ${lastTimePath} (${lastTime} s)`));
   }
 
   // Target.
-  const tg = doc.target;
+  const tg = record(d.target);
   if (tg) {
     const hasE = tg.e !== undefined && tg.e !== null;
     const hasApo = tg.apoapsis_altitude_m !== undefined && tg.apoapsis_altitude_m !== null;
     if (hasE && hasApo) issues.push(err('target', 'must give "e" or "apoapsis_altitude_m", not both'));
-    if (hasApo && tg.apoapsis_altitude_m! < tg.periapsis_altitude_m) {
+    if (num(tg.apoapsis_altitude_m) && num(tg.periapsis_altitude_m) && tg.apoapsis_altitude_m < tg.periapsis_altitude_m) {
       issues.push(err('target.apoapsis_altitude_m', `must be >= target.periapsis_altitude_m (${tg.periapsis_altitude_m} m)`));
     }
   }
@@ -147,12 +177,14 @@ export function checkPlanDocument(doc: PlanDocument): ValidationIssue[] {
 }
 
 /**
- * Checks of a plan against the system it flies in: every body id exists; the start and target
- * orbits clear the body's surface (error) and its minimum safe altitude (warning). Paths in
- * the plan file's field names.
+ * Checks of a plan document against the system it flies in: every body id exists; the start
+ * and target orbits clear the body's surface (error) and its minimum safe altitude (warning).
+ * Reads the document defensively like `checkPlanDocument`, so it runs on a document the schema
+ * refused too (values of the wrong kind are skipped). Paths in the plan file's field names.
  */
-export function checkPlanAgainstSystem(plan: Plan, system: StarSystem): ValidationIssue[] {
+export function checkDocumentAgainstSystem(doc: unknown, system: StarSystem): ValidationIssue[] {
   const issues: ValidationIssue[] = [];
+  const d = record(doc) ?? {};
   const known = system.bodies.map((b) => b.id).join(', ');
   const body = (path: string, id: string): number => {
     const k = Object.hasOwn(system.indexById, id) ? system.indexById[id] : -1;
@@ -160,54 +192,57 @@ export function checkPlanAgainstSystem(plan: Plan, system: StarSystem): Validati
     return k;
   };
 
-  const s = plan.start;
-  const sb = body('start.body', s.body);
-  if (sb >= 0) {
+  const s = record(d.start);
+  const sb = s && str(s.body) ? body('start.body', s.body) : -1;
+  if (s && sb >= 0) {
     const b = system.bodies[sb];
-    if (s.kind === 'parking') {
-      const rp = b.radius + s.periapsisAltitude;
+    if (s.kind === 'parking' && num(s.periapsis_altitude_m)) {
+      const h = s.periapsis_altitude_m;
+      const e = s.e === undefined ? 0 : s.e;
+      const rp = b.radius + h;
       if (!(rp > 0)) issues.push(err('start.periapsis_altitude_m', `must be > -${b.radius} m (the mean radius of ${b.name})`));
       else {
-        if (s.periapsisAltitude < b.safeAlt) {
-          issues.push(warn('start.periapsis_altitude_m', `is below the minimum safe altitude of ${b.name} (${b.safeAlt} m)`));
-        }
-        const ra = (rp * (1 + s.e)) / (1 - s.e);
-        if (ra > b.derived.soiRadius) {
+        if (h < b.safeAlt) issues.push(warn('start.periapsis_altitude_m', `is below the minimum safe altitude of ${b.name} (${b.safeAlt} m)`));
+        if (num(e) && e >= 0 && e < 1 && (rp * (1 + e)) / (1 - e) > b.derived.soiRadius) {
           issues.push(warn('start', `the parking orbit reaches beyond the sphere of influence of ${b.name} (${b.derived.soiRadius} m)`));
         }
       }
-    } else {
-      const r = Math.hypot(s.r[0], s.r[1], s.r[2]);
+    } else if (s.kind === 'state' && vec(s.r_m)) {
+      const r = Math.hypot(s.r_m[0], s.r_m[1], s.r_m[2]);
       if (r <= b.radius) issues.push(err('start.r_m', `is inside ${b.name} (|r| = ${r} m, mean radius ${b.radius} m)`));
       else if (r > b.derived.soiRadius) issues.push(warn('start.r_m', `is outside the sphere of influence of ${b.name} (${b.derived.soiRadius} m)`));
     }
   }
 
-  plan.events.forEach((ev, k) => {
-    if (ev.type === 'burn' && ev.solve.kind === 'transfer') {
-      const to = body(`events[${k}].solve.to`, ev.solve.to);
+  list(d.events).forEach((x, k) => {
+    const ev = record(x);
+    if (!ev) return;
+    const solve = record(ev.solve);
+    if (ev.type === 'burn' && solve?.kind === 'transfer' && str(solve.to)) {
+      const to = body(`events[${k}].solve.to`, solve.to);
       if (to === 0) issues.push(err(`events[${k}].solve.to`, 'must name a body, not the star'));
-      const h = ev.solve.periapsisAltitude;
-      if (to > 0 && h !== undefined) {
+      const h = solve.periapsis_altitude_m;
+      if (to > 0 && num(h)) {
         const b = system.bodies[to];
         if (!(b.radius + h > 0)) issues.push(err(`events[${k}].solve.periapsis_altitude_m`, `must be > -${b.radius} m (the mean radius of ${b.name})`));
         else if (h < b.safeAlt)
           issues.push(warn(`events[${k}].solve.periapsis_altitude_m`, `is below the minimum safe altitude of ${b.name} (${b.safeAlt} m)`));
       }
     }
-    if (ev.type === 'coast' && (ev.until.kind === 'periapsis' || ev.until.kind === 'apoapsis') && ev.until.body !== undefined) {
-      body(`events[${k}].until.body`, ev.until.body);
+    const u = record(ev.until);
+    if (ev.type === 'coast' && u && (u.kind === 'periapsis' || u.kind === 'apoapsis') && str(u.body)) {
+      body(`events[${k}].until.body`, u.body);
     }
   });
 
-  const tg = plan.target;
-  if (tg) {
+  const tg = record(d.target);
+  if (tg && str(tg.body)) {
     const tb = body('target.body', tg.body);
-    if (tb >= 0) {
+    if (tb >= 0 && num(tg.periapsis_altitude_m)) {
       const b = system.bodies[tb];
-      if (!(b.radius + tg.periapsisAltitude > 0)) {
+      if (!(b.radius + tg.periapsis_altitude_m > 0)) {
         issues.push(err('target.periapsis_altitude_m', `must be > -${b.radius} m (the mean radius of ${b.name})`));
-      } else if (tg.periapsisAltitude < b.safeAlt) {
+      } else if (tg.periapsis_altitude_m < b.safeAlt) {
         issues.push(warn('target.periapsis_altitude_m', `is below the minimum safe altitude of ${b.name} (${b.safeAlt} m)`));
       }
     }

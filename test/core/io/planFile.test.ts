@@ -244,7 +244,12 @@ const BAD_FILES: { name: string; text: () => string; expected: string[] }[] = [
     expected: ['vehicle.stages[0].propellant_kg: must be >= 0'],
   },
   { name: 'zero Isp', text: () => edited((d) => (d.vehicle.stages[1].isp_s = 0)), expected: ['vehicle.stages[1].isp_s: must be > 0'] },
-  { name: 'no stages', text: () => edited((d) => (d.vehicle.stages = [])), expected: ['vehicle.stages: must not be empty'] },
+  {
+    name: 'no stages',
+    text: () => edited((d) => (d.vehicle.stages = [])),
+    // The staging event is checked too though the schema refused the stages: every problem at once.
+    expected: ['vehicle.stages: must not be empty', 'events[3]: drops a stage but none is left'],
+  },
   { name: 'missing thrust', text: () => edited((d) => delete d.vehicle.stages[0].thrust_N), expected: ['vehicle.stages[0].thrust_N: is required'] },
   { name: 'unknown field', text: () => edited((d) => (d.events[6].foo = 1)), expected: ['events[6]: unknown field "foo"'] },
   { name: 'unknown top-level field', text: () => edited((d) => (d.speed = 3)), expected: [': unknown field "speed"'] },
@@ -473,5 +478,56 @@ describe('checkPlanAgainstSystem', () => {
     const got = checkPlanAgainstSystem(p, ilmar).map((i) => `${i.severity} ${i.path}: ${i.rule}`);
     expect(got).toContain('warning start.periapsis_altitude_m: is below the minimum safe altitude of Tessel (90000 m)');
     expect(got).toContainEqual(expect.stringMatching(/^error target\.periapsis_altitude_m: must be > -\d+ m \(the mean radius of Ochre\)$/));
+  });
+});
+
+describe('plan file: every problem at once', () => {
+  // A negative dry mass and a zero tolerance (schema) and an unknown transfer target (system):
+  // the system check runs on the parts the schema accepted, so all three are reported.
+  const threeProblems = (d: Doc): void => {
+    d.vehicle.stages[0].dry_kg = -5;
+    d.events[0].solve.to = 'nowhere';
+    d.target.tolerance.e = 0;
+  };
+  const want = ['vehicle.stages[0].dry_kg: must be >= 0', 'events[0].solve.to: names no body of system "Ilmar"', 'target.tolerance.e: must be > 0'];
+  const expectAll = (got: string[]): void => {
+    for (const w of want)
+      expect(
+        got.some((g) => g.startsWith(w)),
+        `${w}\nin\n${got.join('\n')}`,
+      ).toBe(true);
+    expect(got.length).toBe(want.length);
+  };
+
+  it('a file with an embedded system reports the schema and system problems together', () => {
+    const d = JSON.parse(serializePlanFile(samplePlan(), { kind: 'embedded', system: ilmar })) as Doc;
+    threeProblems(d);
+    expectAll(errorsOnly(issuesOf(JSON.stringify(d))));
+  });
+
+  it('a file naming its system by path reports them together when the caller passes the system', () => {
+    const d = JSON.parse(sampleText()) as Doc;
+    threeProblems(d);
+    let issues: ValidationIssue[] = [];
+    try {
+      parsePlanFile(JSON.stringify(d), { system: ilmar });
+    } catch (e) {
+      issues = (e as ValidationError).issues;
+    }
+    expectAll(errorsOnly(issues));
+    // Without the system only the two schema problems can be found.
+    expect(errorsOnly(issuesOf(JSON.stringify(d))).length).toBe(2);
+  });
+
+  it('semantic problems are reported beside schema problems', () => {
+    const got = errorsOnly(
+      issuesOf(
+        edited((d) => {
+          d.reserve.percent = 500;
+          d.events[5].id = 'cruise-1';
+        }),
+      ),
+    );
+    expect(got).toEqual(['reserve.percent: must be <= 100', 'events[5].id: must be unique ("cruise-1" is also the id of events[1])']);
   });
 });
