@@ -98,7 +98,7 @@ export const GAMESTEP_FLAGS: FlagNames = {
   'physics.guidance': '--guidance',
   tolerance: '--tolerance',
   energyTolerance: '--energy-tolerance',
-  warpDt: '--warp-dt',
+  warpDt: '--coast-step',
   maxStepsPerSpan: '--max-steps',
   dtMax: '--dt-max',
 };

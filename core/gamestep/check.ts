@@ -14,7 +14,7 @@
  * Spans flown and spans extrapolated. A game steps at e.g. 1/60 s; a months-long cruise is
  * then ~10⁹ steps. Spans of at most `maxStepsPerSpan` steps are flown at the game's step
  * ('flown'). In a longer span, the part away from burns (the region) is either
- * - flown at a time-warp step `warpDt` ('warp', measured), or
+ * - flown as a long-step coast at the step `warpDt` (mode 'warp', measured), or
  * - 'extrapolated': (1) the error the game brought into the region is carried through it
  *   exactly, by flying the game's state at the region's start with the reference dynamics;
  *   (2) the error the game's step generates in the region is measured on flights of the whole
@@ -137,9 +137,9 @@ export interface GameStepOptions {
   tolerance?: number;
   /** Tolerance on |relative energy drift per orbit| (default DEFAULT_ENERGY_TOLERANCE). */
   energyTolerance?: number;
-  /** Game steps above which a span's region is warped or extrapolated (default DEFAULT_MAX_STEPS_PER_SPAN). */
+  /** Game steps above which a span's region is flown as a long-step coast or extrapolated (default DEFAULT_MAX_STEPS_PER_SPAN). */
   maxStepsPerSpan?: number;
-  /** Time-warp step for the regions of long spans, s; omitted: extrapolate. */
+  /** Step of the long-step coast over the regions of long spans, s; omitted: extrapolate. */
   warpDt?: number;
   /** Steps of the extrapolation window (default DEFAULT_WINDOW_STEPS, at most maxStepsPerSpan). */
   windowSteps?: number;
@@ -327,7 +327,7 @@ class GameStepRun {
       const warped = this.spans.some((sp) => sp.mode === 'warp');
       throw new InputError(
         warped ? 'warpDt' : 'physics.dt',
-        `needs about ${total.toExponential(2)} game steps, more than the ${MAX_GAME_STEPS.toExponential(0)} Waymark flies in one check; ${warped ? 'take a longer warp step, or omit it to extrapolate long coasts' : 'take a longer step or lower maxStepsPerSpan'}`,
+        `needs about ${total.toExponential(2)} game steps, more than the ${MAX_GAME_STEPS.toExponential(0)} Waymark flies in one check; ${warped ? 'take a longer coast step, or omit it to extrapolate long coasts' : 'take a longer step or lower maxStepsPerSpan'}`,
         warped ? this.o.warpDt : physics.dt,
       );
     }

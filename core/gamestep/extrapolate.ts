@@ -5,7 +5,7 @@
  * Spans flown and spans extrapolated. A game steps at e.g. 1/60 s; a months-long cruise is
  * then ~10⁹ steps. Spans of at most `maxStepsPerSpan` steps are flown at the game's step
  * ('flown'). In a longer span, the part away from burns (the region) is either
- * - flown at a time-warp step `warpDt` ('warp', measured), or
+ * - flown as a long-step coast at the step `warpDt` (mode 'warp', measured), or
  * - 'extrapolated': (1) the error the game brought into the region is carried through it
  *   exactly, by flying the game's state at the region's start with the reference dynamics;
  *   (2) the error the game's step generates in the region is measured on flights of the whole

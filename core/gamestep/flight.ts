@@ -5,7 +5,7 @@
  *
  * - Time runs on the game's step grid t_k = t_start + k·h (h rounded to the game's precision;
  *   the clock itself is double, as game engines keep it). A flight may change h between calls
- *   to `fly` (a time-warp step).
+ *   to `fly` (a long-step coast).
  * - Impulsive burns: the inertial Δv (from guidance.ts, solved from the game's own
  *   state or the plan's) is added to the velocity between steps, at the grid time nearest the
  *   burn's centre. Spread burns: from the step nearest the burn's start, each step holds the

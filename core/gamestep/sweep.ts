@@ -9,8 +9,8 @@
  * Search: each integrator's ladder is tried from the largest step down and stops at the first
  * step that passes, so the largest passing step is found when the error grows with the step
  * (the usual case; a step that passes above a failing one is not looked for). Every run is a
- * full gameStepCheck sharing one reference flight. Steps are multiples of dt by powers of two,
- * like a game's time-warp rates.
+ * full gameStepCheck sharing one reference flight. Steps are multiples of dt by powers of two
+ * (a doubling ladder).
  */
 import { InputError, requireFinite } from '../math/index.ts';
 import { bodyState } from '../system/index.ts';

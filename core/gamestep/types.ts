@@ -37,7 +37,7 @@ export const DEFAULT_REBASE: GameRebase = { distance: 10_000, velocity: true };
 export const DEFAULT_TOLERANCE = 10_000;
 /** Default tolerance on the relative energy drift per orbit. */
 export const DEFAULT_ENERGY_TOLERANCE = 1e-6;
-/** Spans needing more game steps than this are warped or extrapolated (about 1 s of flying in float64). */
+/** Spans needing more game steps than this are flown as a long-step coast or extrapolated (about 1 s of flying in float64). */
 export const DEFAULT_MAX_STEPS_PER_SPAN = 50_000_000;
 /** Steps of the window flown at the game's step (extrapolation fallback, and the float32 check of step scaling). */
 export const DEFAULT_WINDOW_STEPS = 10_000_000;
@@ -118,11 +118,11 @@ export interface GameSpanReport {
   t0: number;
   t1: number;
   mode: GameSpanMode;
-  /** Game step of the span, s (warp: the step outside the region). */
+  /** Game step of the span, s ('warp', a long-step coast: the step outside the region). */
   dt: number;
   /** Game steps flown in the span (window steps not included). */
   steps: number;
-  /** The warped or extrapolated part and its step (the window's step for 'extrapolated'). */
+  /** The long-step or extrapolated part and its step (the window's step for 'extrapolated'). */
   region: { t0: number; t1: number; dt: number } | null;
   positionErrorMax: number;
   velocityErrorMax: number;

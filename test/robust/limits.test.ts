@@ -158,7 +158,7 @@ describe('long runs: refused before they start, or bounded', () => {
     const base = { physics: { integrator: 'verlet' as const, dt: 0.02 }, prepared, onProgress: () => void progress++ };
     expect(inputError(() => gameStepCheck(sys, demoPlan, { ...base, samplesPerSpan: 1e9 })).field).toBe('samplesPerSpan');
     expect(inputError(() => gameStepCheck(sys, demoPlan, { ...base, maxStepsPerSpan: 1e12 })).field).toBe('maxStepsPerSpan');
-    // a time-warp step of a microsecond over the months-long cruise
+    // a coast step of a microsecond over the months-long cruise
     const w = inputError(() => gameStepCheck(sys, demoPlan, { ...base, warpDt: 1e-6 }));
     expect(w.field).toBe('warpDt');
     expect(w.message).toContain(`game steps, more than the ${MAX_GAME_STEPS.toExponential(0)} Waymark flies in one check`);

@@ -25,7 +25,7 @@ const FIELDS: Record<string, string> = {
   'physics.guidance': 'Guidance',
   tolerance: 'Tolerance',
   energyTolerance: 'Energy tolerance',
-  warpDt: 'Time-warp step',
+  warpDt: 'Coast step',
   dtMax: 'Largest step',
   years: 'Years',
   span: 'Span',

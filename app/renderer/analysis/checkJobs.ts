@@ -25,7 +25,7 @@ export interface GameStepJobOptions {
   tolerance?: number;
   /** Tolerance on the relative energy drift per orbit. */
   energyTolerance?: number;
-  /** Time-warp step for long coasts, s (omitted: long coasts are extrapolated). */
+  /** Step of a long-step coast, s (omitted: long coasts are extrapolated). */
   warpDt?: number;
   /** Series points per span. */
   samplesPerSpan?: number;

@@ -26,8 +26,8 @@ export interface PhysicsForm {
   tolerance: string;
   /** Relative energy drift per orbit; '' for the default. */
   energyTolerance: string;
-  /** Long coasts: extrapolated from shorter flights, or flown at a time-warp step. */
-  longCoasts: 'extrapolate' | 'warp';
+  /** Long coasts: extrapolated from shorter flights, or flown as a long-step coast (a longer step, `warpDt`). */
+  longCoasts: 'extrapolate' | 'long-step';
   warpDt: string;
 }
 
@@ -126,7 +126,7 @@ export function parseForm(form: PhysicsForm): ParsedForm {
     else energyTolerance = e;
   }
   let warpDt: number | undefined;
-  if (form.longCoasts === 'warp') {
+  if (form.longCoasts === 'long-step') {
     const w = parseStep(form.warpDt);
     if (typeof w === 'string') errors.warpDt = w;
     else warpDt = w;

@@ -57,8 +57,31 @@ export interface VerdictLine {
   tone?: 'good' | 'bad' | 'warn';
 }
 
+/**
+ * The headline word. 'passes': every detail shown is within its tolerance. 'arrival-only': the
+ * core's criterion passes (arrival miss and energy drift within tolerance, what the sweep
+ * judges) but the path exceeds the tolerance on the way, which the headline says. 'fails': the
+ * core's criterion fails. 'diverged': the game's state stopped being finite.
+ */
+export type VerdictWord = 'passes' | 'arrival-only' | 'fails' | 'diverged';
+
+/** The panel's headline word for each verdict. */
+export const VERDICT_WORDS: Record<VerdictWord, string> = {
+  passes: 'Passes',
+  'arrival-only': 'Passes at arrival only',
+  fails: 'Fails',
+  diverged: 'Diverged',
+};
+
+/** Largest finite position error of the flight's series, m (null when none). */
+export function maxPathError(r: GameStepResult): number | null {
+  let m: number | null = null;
+  for (const x of r.series.positionError) if (Number.isFinite(x) && (m === null || x > m)) m = x;
+  return m;
+}
+
 export interface GameVerdict {
-  word: 'passes' | 'fails' | 'diverged';
+  word: VerdictWord;
   headline: string;
   lines: VerdictLine[];
   float32: { rows: { span: number; about: string; distance: string; spacing: string; moveRatio: string; rounded: boolean }[]; summary: string };
@@ -69,7 +92,9 @@ const bodyName = (system: StarSystem, k: number): string => system.bodies[k]?.na
 /** The verdict of one check (see the module comment). */
 export function gameVerdict(system: StarSystem, r: GameStepResult): GameVerdict {
   const cal = system.calendar;
-  const word = r.status === 'diverged' ? 'diverged' : r.passes ? 'passes' : 'fails';
+  // the core passes on the arrival and the drift; the path may still exceed the tolerance on the way
+  const word: VerdictWord = r.status === 'diverged' ? 'diverged' : !r.passes ? 'fails' : r.firstExceed ? 'arrival-only' : 'passes';
+  const pathMax = maxPathError(r);
   const lines: VerdictLine[] = [];
   const a = r.arrival;
   if (a) {
@@ -111,7 +136,7 @@ export function gameVerdict(system: StarSystem, r: GameStepResult): GameVerdict 
       key: 'exceed',
       label: 'Over tolerance',
       value: elapsed(cal, r.firstExceed.t, r.t0),
-      note: `first at ${compactDate(cal, r.firstExceed.t, false)} (${r.firstExceed.basis}, ±${duration(r.firstExceed.resolution)}); tolerance ${errorLength(r.tolerance)}`,
+      note: `first at ${compactDate(cal, r.firstExceed.t, false)} (${r.firstExceed.basis}, ±${duration(r.firstExceed.resolution)}); largest ${errorLength(pathMax)}; tolerance ${errorLength(r.tolerance)}`,
       tone: 'bad',
     });
   } else {
@@ -122,7 +147,7 @@ export function gameVerdict(system: StarSystem, r: GameStepResult): GameVerdict 
   }
   const st = r.stats;
   const flownParts = [`flown ${duration(st.flownTime)}`];
-  if (st.warpTime > 0) flownParts.push(`time-warped ${duration(st.warpTime)}`);
+  if (st.warpTime > 0) flownParts.push(`long-step coast ${duration(st.warpTime)}`);
   if (st.extrapolatedTime > 0) flownParts.push(`extrapolated ${duration(st.extrapolatedTime)}`);
   lines.push({
     key: 'spans',
@@ -164,7 +189,7 @@ export function gameVerdict(system: StarSystem, r: GameStepResult): GameVerdict 
       summary += ` With the floating origin at ${errorLength(r.physics.rebase.distance)} the spacing stays at or below ${errorLength(worst.rebasedSpacing)}.`;
     summary +=
       r.physics.precision === 'float32'
-        ? ` This run flew in float32${r.physics.rebase ? ' with a floating origin' : ''}: it ${word === 'passes' ? 'passes' : 'does not pass'}.`
+        ? ` This run flew in float32${r.physics.rebase ? ' with a floating origin' : ''}: it ${word === 'passes' ? 'passes' : word === 'arrival-only' ? 'passes at arrival only' : 'does not pass'}.`
         : ' Sweep flies the plan in float32 with and without a floating origin for the verdict.';
   }
   const headline =
@@ -172,7 +197,9 @@ export function gameVerdict(system: StarSystem, r: GameStepResult): GameVerdict 
       ? "The game's flight diverged."
       : word === 'passes'
         ? `The game flies this plan within tolerance.`
-        : `The game misses: ${a && a.positionError > r.tolerance ? `arrival off by ${errorLength(a.positionError)}` : r.maxDriftPerOrbit !== null && r.maxDriftPerOrbit > r.energyTolerance ? 'energy drifts more than allowed' : 'outside tolerance'}.`;
+        : word === 'arrival-only' && r.firstExceed
+          ? `The arrival is within tolerance (${errorLength(a?.positionError)} of ${errorLength(r.tolerance)}), but the path exceeds it on the way: up to ${errorLength(pathMax)}, first ${elapsed(cal, r.firstExceed.t, r.t0)}.`
+          : `The game misses: ${a && a.positionError > r.tolerance ? `arrival off by ${errorLength(a.positionError)}` : r.maxDriftPerOrbit !== null && r.maxDriftPerOrbit > r.energyTolerance ? 'energy drifts more than allowed' : 'outside tolerance'}.`;
   return { word, headline, lines, float32: { rows, summary } };
 }
 

@@ -43,6 +43,31 @@ describe.concurrent('waymark gamestep', () => {
     expect(r.stdout).toMatch(/float32 at the mission's distances/);
     expect(r.stdout).toMatch(/verdict: (PASSES|FAILS)/);
     expect(r.code).toBe(/verdict: PASSES/.test(r.stdout) ? 0 : 1);
+    // a path beyond the tolerance on the way is never a plain PASSES
+    if (/tolerance .* first exceeded/.test(r.stdout)) expect(r.stdout).not.toMatch(/verdict: PASSES\n/);
+  });
+
+  it('--coast-step flies long coasts as a long-step coast; --warp-dt is another name for it', async () => {
+    const args = ['gamestep', DEMO, '--integrator', 'verlet', '--dt', '10', '--max-steps', '100000'];
+    const [a, b, bad, badOld] = await Promise.all([
+      runCli([...args, '--coast-step', '120']),
+      runCli([...args, '--warp-dt', '120']),
+      runCli([...args, '--coast-step', '-5']),
+      runCli([...args, '--warp-dt', '0']),
+    ]);
+    expect(a.stderr).toBe('');
+    expect(b.stdout).toBe(a.stdout);
+    // the cruise about Ilmar (8 million game steps at 10 s) is flown at 120 s
+    expect(a.stdout).toMatch(/Ilmar .* long-step +120\.00 s/);
+    expect(a.stdout).toMatch(/long-step coast \d+\.\d+ d,/);
+    expect(a.stdout).not.toMatch(/warp/i);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toContain('--coast-step must be a step > 0');
+    expect(badOld.code).toBe(2);
+    expect(badOld.stderr).toContain('--warp-dt must be a step > 0');
+    const help = await runCli(['gamestep', '--help']);
+    expect(help.stdout).toContain('--coast-step <seconds>');
+    expect(help.stdout).toContain('also --warp-dt');
   });
 
   it('--sweep adds the step ladder and the precision verdict', async () => {

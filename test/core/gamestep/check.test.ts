@@ -179,7 +179,7 @@ describe('game-step check of the demo plan (Ilmar, Tessel to Ochre)', () => {
   const demo = demoSystem();
   const result = evaluate(demo, demoPlan, { samplesPerSegment: 0 });
 
-  it('flies long coasts at a time-warp step when one is given', () => {
+  it('flies long coasts as a long-step coast when a coast step is given', () => {
     const r = gameStepCheck(demo, demoPlan, { physics: { integrator: 'verlet', dt: 4 }, result, maxStepsPerSpan: 1_000_000, warpDt: 60 });
     const s = r.spans[3];
     expect(s.mode).toBe('warp');

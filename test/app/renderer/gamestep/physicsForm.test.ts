@@ -39,7 +39,7 @@ describe("the game-step panel's form", () => {
     expect(physicsCaption(p.options!.physics)).toBe('velocity Verlet (leapfrog), 16.67 ms, float64');
   });
 
-  it('passes a floating origin, a tolerance and a time-warp step in SI', () => {
+  it('passes a floating origin, a tolerance and a long-step coast step in SI', () => {
     const p = parseForm({
       ...DEFAULT_FORM,
       precision: 'float32',
@@ -47,7 +47,7 @@ describe("the game-step panel's form", () => {
       rebaseDistance: '2',
       rebaseVelocity: false,
       tolerance: '500 m',
-      longCoasts: 'warp',
+      longCoasts: 'long-step',
       warpDt: '60',
       energyTolerance: '1e-8',
     });

@@ -2,8 +2,9 @@ import { describe, expect, it } from 'vitest';
 import type { SweepResult } from '../../../../core/gamestep/sweep.ts';
 import { ulp32 } from '../../../../core/gamestep/float32.ts';
 import { laneValue } from '../../../../app/renderer/gamestep/errorChart.ts';
-import { errorLength, errorSpeed, gameVerdict, ratio, stepText, sweepView } from '../../../../app/renderer/gamestep/verdict.ts';
-import { demoCheck, system } from './fixture.ts';
+import { gameStepCheck } from '../../../../core/gamestep/check.ts';
+import { VERDICT_WORDS, errorLength, errorSpeed, gameVerdict, maxPathError, ratio, stepText, sweepView } from '../../../../app/renderer/gamestep/verdict.ts';
+import { demoCheck, plan, planResult, system } from './fixture.ts';
 
 describe('the game-step verdict in plain words', () => {
   it('formats errors across their range and shows "—" for a missing value, never NaN', () => {
@@ -26,13 +27,54 @@ describe('the game-step verdict in plain words', () => {
   it("reads a demo check: the verdict agrees with the core's, the miss is the arrival's, nothing is NaN", () => {
     const r = demoCheck();
     const v = gameVerdict(system, r);
-    expect(v.word).toBe(r.passes ? 'passes' : 'fails');
+    expect(v.word).toBe(!r.passes ? 'fails' : r.firstExceed ? 'arrival-only' : 'passes');
     const miss = v.lines.find((l) => l.key === 'miss')!;
     expect(miss.value).toBe(errorLength(r.arrival!.positionError));
     expect(miss.note).toContain('Ochre');
     expect(miss.tone).toBe(r.arrival!.positionError <= r.tolerance ? 'good' : 'bad');
     expect(v.lines.find((l) => l.key === 'exceed')!.value).toEqual(r.firstExceed ? expect.stringMatching(/^T\+/) : 'never');
     expect(JSON.stringify(v)).not.toMatch(/NaN|undefined|Infinity/);
+  });
+
+  describe('the headline agrees with every line shown', () => {
+    /** The fixture's check flown again with another position tolerance. */
+    const withTolerance = (tolerance: number) =>
+      gameStepCheck(system, plan, { physics: { integrator: 'verlet', dt: 10 }, result: planResult, maxStepsPerSpan: 100_000, samplesPerSpan: 60, tolerance });
+    const r = demoCheck();
+    const miss = r.arrival!.positionError;
+    const pathMax = maxPathError(r)!;
+
+    it('the arrival within tolerance but the path beyond it on the way: not "Passes", and the headline says where it exceeds', () => {
+      // the demo's cruise is extrapolated: its error grows well past the arrival miss (the fixture's check)
+      expect(pathMax).toBeGreaterThan(2 * miss);
+      const t = Math.sqrt(miss * pathMax);
+      const c = withTolerance(t);
+      expect(c.passes).toBe(true); // the core's criterion: arrival and drift
+      expect(c.firstExceed).not.toBeNull();
+      const v = gameVerdict(system, c);
+      expect(v.word).toBe('arrival-only');
+      expect(VERDICT_WORDS[v.word]).not.toBe('Passes');
+      expect(v.headline).toContain(`The arrival is within tolerance (${errorLength(miss)} of ${errorLength(t)})`);
+      expect(v.headline).toContain(`the path exceeds it on the way: up to ${errorLength(maxPathError(c))}`);
+      expect(v.lines.find((l) => l.key === 'exceed')!.tone).toBe('bad');
+    });
+
+    it('every shown error within tolerance: "Passes", every toned line good', () => {
+      const c = withTolerance(2 * pathMax);
+      expect(c.firstExceed).toBeNull();
+      const v = gameVerdict(system, c);
+      expect(v.word).toBe('passes');
+      expect(v.headline).toBe('The game flies this plan within tolerance.');
+      expect(v.lines.filter((l) => l.tone && l.tone !== 'good')).toEqual([]);
+    });
+
+    it('the arrival outside tolerance: "Fails", naming the miss', () => {
+      const c = withTolerance(miss / 2);
+      const v = gameVerdict(system, c);
+      expect(v.word).toBe('fails');
+      expect(v.headline).toBe(`The game misses: arrival off by ${errorLength(c.arrival!.positionError)}.`);
+      expect(v.lines.find((l) => l.key === 'miss')!.tone).toBe('bad');
+    });
   });
 
   it('names the float32 spacing at the largest distance of the mission (IEEE 754 binary32 spacing)', () => {
