@@ -52,6 +52,9 @@ function warn(path: string, rule: string): ValidationIssue {
   return { path, rule, severity: 'warning' };
 }
 
+/** The schema's bound on masses (planFileShape.ts MASS_MAX; zod is not loaded at run time). */
+const SCHEMA_MASS_MAX = 1e12;
+
 type Loose = Record<string, unknown>;
 const record = (x: unknown): Loose | null => (typeof x === 'object' && x !== null && !Array.isArray(x) ? (x as Loose) : null);
 const num = (x: unknown): x is number => typeof x === 'number' && Number.isFinite(x);
@@ -81,8 +84,9 @@ export function checkPlanDocument(doc: PlanDocument): ValidationIssue[] {
         issues.push(err(`vehicle.stages[${k}].thrust_N`, `must be at least ${MIN_STAGE_THRUST} N`));
     });
     const last = stages[stages.length - 1];
-    // Mass rules only when every mass is a number the schema accepts (NaN otherwise).
-    if (Number.isNaN(mass) || stages.some((s) => !s || (s.dry_kg as number) < 0 || (s.propellant_kg as number) < 0) || (v.payload_kg as number) < 0) {
+    // Mass rules only when every mass is one the schema accepts (a refused mass is reported once, by the schema).
+    const accepted = (x: unknown): boolean => num(x) && x >= 0 && x <= SCHEMA_MASS_MAX;
+    if (Number.isNaN(mass) || !accepted(v.payload_kg) || stages.some((s) => !s || !accepted(s.dry_kg) || !accepted(s.propellant_kg))) {
       // skipped: a mass is missing or refused by the schema
     } else if (!(mass > 0)) issues.push(err('vehicle', 'must have a total mass > 0 (payload, dry and propellant masses are all 0)'));
     else if (last && !((v.payload_kg as number) + (last.dry_kg as number) >= MIN_BURNOUT_FRACTION * mass)) {

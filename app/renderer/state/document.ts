@@ -3,9 +3,13 @@
  * where it lives on disk, and whether it has unsaved changes. Plain TypeScript with a Svelte
  * store contract (`subscribe`), so vitest tests it directly and components read `$doc`.
  *
- * Every edit is a pure function Plan → Plan (plan/edits.ts); the store pushes the result on the
- * history and re-runs the field-precise checks of the plan file (planSchema.ts), whose paths
- * (`events[2].dv_mps`) the editor shows beside the fields.
+ * Every edit is a pure function Plan → Plan (plan/edits.ts); the store checks the result by the
+ * rules a saved file meets when it is opened again (the checker; the session's is
+ * core/io planSaveIssues: serialise, then the loader's schema, semantic and system checks), and
+ * refuses an edit that would make the plan invalid: it never reaches the history, the autosave
+ * or a saved file, and `edit` returns the refusal (the field that made it shows why). A plan
+ * already invalid (a recovered copy from an older version) takes any edit that adds no error,
+ * so it can be mended step by step. The checks' issues (`events[2].dv_mps`) show beside the fields.
  */
 import type { ValidationIssue } from '../../../core/math/index.ts';
 import type { Plan } from '../../../core/plan/index.ts';
@@ -46,6 +50,19 @@ export interface DocumentSnapshot {
   loadWarnings: ValidationIssue[];
 }
 
+/** An edit the store did not apply: what it was and the errors its plan would have had. */
+export interface EditRefusal {
+  label: string;
+  /** Errors of the refused plan (paths as the checker gives them). */
+  issues: ValidationIssue[];
+  /** Set by whoever showed the refusal to the user (the field that made the edit). */
+  shown: boolean;
+}
+
+export function isRefusal(x: unknown): x is EditRefusal {
+  return typeof x === 'object' && x !== null && Array.isArray((x as EditRefusal).issues) && typeof (x as EditRefusal).label === 'string';
+}
+
 export type PlanChecker = (plan: Plan, system: StarSystem, ref: PlanSystemRef) => ValidationIssue[];
 
 export const UNTITLED = 'Untitled plan';
@@ -59,6 +76,10 @@ export class PlanDocumentStore implements Readable<DocumentSnapshot> {
   #generation = 0;
   #warnings: ValidationIssue[];
   #out: Observable<DocumentSnapshot>;
+  /** The issues of each plan checked (in this system), so an accepted edit is not checked twice. */
+  #checked = new WeakMap<Plan, ValidationIssue[]>();
+  /** The last refused edit (null until one is); the session tells the user of those no field showed. */
+  readonly refused = new Observable<EditRefusal | null>(null);
 
   constructor(
     initial: LoadedDocument,
@@ -99,21 +120,45 @@ export class PlanDocumentStore implements Readable<DocumentSnapshot> {
       canRedo: h.canRedo,
       undoLabel: h.undoLabel,
       redoLabel: h.redoLabel,
-      issues: this.check(plan, this.#system, this.#ref),
+      issues: this.#issuesOf(plan),
       loadWarnings: this.#warnings,
     };
+  }
+
+  #issuesOf(plan: Plan): ValidationIssue[] {
+    let issues = this.#checked.get(plan);
+    if (!issues) {
+      issues = this.check(plan, this.#system, this.#ref);
+      this.#checked.set(plan, issues);
+    }
+    return issues;
   }
 
   #emit(): void {
     this.#out.set(this.#snapshot());
   }
 
-  /** Applies an edit; a no-op edit (same object back) changes nothing. */
-  edit(label: string, fn: (plan: Plan) => Plan): void {
-    const next = fn(this.#history.present);
-    if (next === this.#history.present) return;
+  /**
+   * Applies an edit and returns null; a no-op edit (same object back) changes nothing. An edit
+   * whose plan has errors (more errors than the present plan, which has none unless it was
+   * loaded so) is not applied: the refusal is returned and published on `refused`.
+   */
+  edit(label: string, fn: (plan: Plan) => Plan): EditRefusal | null {
+    const present = this.#history.present;
+    const next = fn(present);
+    if (next === present) return null;
+    const errors = this.#issuesOf(next).filter((i) => i.severity === 'error');
+    if (errors.length > 0) {
+      const before = this.#issuesOf(present).filter((i) => i.severity === 'error').length;
+      if (errors.length > before) {
+        const refusal: EditRefusal = { label, issues: errors, shown: false };
+        this.refused.set(refusal);
+        return refusal;
+      }
+    }
     this.#history.push(next, label);
     this.#emit();
+    return null;
   }
 
   undo(): boolean {
@@ -131,6 +176,7 @@ export class PlanDocumentStore implements Readable<DocumentSnapshot> {
   /** Replaces the document (open, new, recover): history starts over. */
   load(doc: LoadedDocument, dirty = false): void {
     this.#history.reset(doc.plan);
+    this.#checked = new WeakMap();
     this.#system = doc.system;
     this.#ref = doc.systemRef;
     this.#file = doc.file;

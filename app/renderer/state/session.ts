@@ -23,8 +23,7 @@ import { parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSyste
 import { parseSystemFile } from '../../../core/io/index.ts';
 import { ValidationError, type ValidationIssue } from '../../../core/math/index.ts';
 import type { Plan } from '../../../core/plan/index.ts';
-import { checkPlanAgainstSystem, checkPlanDocument } from '../../../core/io/index.ts';
-import { planToDocument } from '../../../core/io/index.ts';
+import { planSaveIssues } from '../../../core/io/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import {
   NewerVersionError,
@@ -82,11 +81,15 @@ export interface SessionDeps {
   truthDebounceMs?: number;
 }
 
-/** Field-precise issues of a plan in memory (file checks + system checks), paths in memory names. */
-export function planIssues(plan: Plan, system: StarSystem, ref: PlanSystemRef): ValidationIssue[] {
+/**
+ * Field-precise issues of a plan in memory: every issue it would meet saved and opened again
+ * (core/io planSaveIssues: the file's schema, semantic and system checks), paths in memory names.
+ * The document store refuses an edit whose plan this finds errors in.
+ */
+export function planIssues(plan: Plan, system: StarSystem, _ref: PlanSystemRef): ValidationIssue[] {
   let issues: ValidationIssue[];
   try {
-    issues = [...checkPlanDocument(planToDocument(plan, ref)), ...checkPlanAgainstSystem(plan, system)];
+    issues = planSaveIssues(plan, system);
   } catch (err) {
     issues = [{ path: '', rule: describeError(err).message, severity: 'error' }];
   }
@@ -141,6 +144,20 @@ export class Session {
     this.analysis = new AnalysisStore(this.doc, this.evaluation, new AnalysisClient(deps.analysisWorker));
     this.targeting = new TargetStore(this.doc, new AnalysisClient(deps.analysisWorker));
     this.truth = new TruthStore(this.doc, new AnalysisClient(deps.analysisWorker), deps.truthDebounceMs);
+    // A refused edit that no field showed (a button, a menu, a window pick) becomes a notice;
+    // the field that made an edit marks its refusal shown as soon as the edit returns.
+    this.doc.refused.subscribe((r) => {
+      if (r)
+        queueMicrotask(() => {
+          if (!r.shown)
+            this.notify({
+              kind: 'warning',
+              title: `Not applied: ${r.label}`,
+              detail: 'The plan would not be valid (it could not be saved and opened again).',
+              issues: r.issues,
+            });
+        });
+    });
     // The cursor follows the flown span; a new document puts it at the start.
     let generation = -1;
     this.evaluation.subscribe((e) => {

@@ -36,17 +36,49 @@ describe('document store', () => {
     expect(d.get().canUndo).toBe(false);
   });
 
-  it('reports field-precise issues in memory names', () => {
+  it('refuses an edit that would make the plan invalid: no undo step, no change, the rule and field in memory names', () => {
     const d = store();
-    d.edit('bad', (p) => edits.setStart(p, { ...p.start, body: 'nowhere' }));
-    expect(d.get().issues.map((i) => i.path)).toContain('start.body');
-    d.edit('bad time', (p) => {
-      const q = structuredClone(p);
-      const first = q.events.find((e) => e.type === 'burn')!;
-      if (first.type === 'burn') first.t = -1e12;
-      return q;
-    });
-    expect(d.get().issues.some((i) => /^events\[\d+\]\.t$/.test(i.path))).toBe(true);
+    const before = d.get();
+    const r = d.edit('Edit dry mass', (p) => edits.updateStage(p, 0, { dryMass: -5000 }));
+    expect(r?.label).toBe('Edit dry mass');
+    expect(r?.issues.map((i) => `${i.path}: ${i.rule}`)).toEqual(['vehicle.stages[0].dryMass: must be >= 0']);
+    expect(d.get()).toBe(before); // nothing emitted
+    expect(d.get().plan).toBe(before.plan);
+    expect(d.get().canUndo).toBe(false);
+    expect(d.refused.get()).toBe(r);
+    // Every rule of a saved file: schema bounds, semantic checks, the system.
+    const refused = (fn: Parameters<typeof d.edit>[1]) => d.edit('x', fn)?.issues.map((i) => i.path);
+    expect(refused((p) => edits.updateStage(p, 0, { propellantMass: 1e30 }))).toEqual(['vehicle.stages[0].propellantMass']);
+    expect(refused((p) => edits.setStart(p, { ...p.start, epoch: -2e13 }))).toEqual(['start.epoch']);
+    expect(refused((p) => edits.setStart(p, { ...(p.start as Extract<typeof p.start, { kind: 'parking' }>), i: 4 * Math.PI }))).toEqual(['start.i']);
+    expect(refused((p) => edits.setReserve(p, { percent: 500 }))).toEqual(['reserve.percent']);
+    expect(refused((p) => edits.setStart(p, { ...p.start, body: 'nowhere' }))).toEqual(['start.body']);
+    expect(refused((p) => edits.updateStage(p, 0, { isp: Number.NaN }))).toEqual(['vehicle.stages[0].isp']);
+    expect(d.get().plan).toBe(before.plan);
+    // A valid edit goes through and clears nothing else.
+    expect(d.edit('ok', (p) => edits.setReserve(p, { percent: 9 }))).toBeNull();
+    expect(d.get().plan.reserve.percent).toBe(9);
+  });
+
+  it('a plan loaded with problems takes edits that add none, so it can be mended step by step', () => {
+    const bad = structuredClone(parsed.plan);
+    bad.reserve.percent = 500;
+    bad.vehicle.stages[0].isp = -1;
+    const d = new PlanDocumentStore({ plan: bad, system, systemRef: parsed.system, file: null }, planIssues, true);
+    expect(
+      d
+        .get()
+        .issues.filter((i) => i.severity === 'error')
+        .map((i) => i.path),
+    ).toEqual(['vehicle.stages[0].isp', 'reserve.percent']);
+    expect(d.edit('mend', (p) => edits.setReserve(p, { percent: 5 }))).toBeNull();
+    expect(d.edit('worse', (p) => edits.setReserve(p, { absolute: -1 }))).not.toBeNull();
+    expect(
+      d
+        .get()
+        .issues.filter((i) => i.severity === 'error')
+        .map((i) => i.path),
+    ).toEqual(['vehicle.stages[0].isp']);
   });
 
   it('loading another document resets the history', () => {

@@ -223,12 +223,23 @@ describe('session: the open document and its files', () => {
     expect(host.exported[3].text).toMatch(/^CCSDS_OEM_VERS\s+=\s+2\.0/);
   });
 
-  it('an edit that breaks the plan keeps the last result, marked stale, with the field named', async () => {
+  it('an edit that would break the plan is refused: the plan, its result and its undo stay; a refusal no field showed is a notice', async () => {
     const { s } = await session();
-    s.doc.edit('Break isp', (p) => edits.updateStage(p, 0, { isp: -1 }));
-    const e = s.evaluation.get();
-    expect(e.stale).toBe(true);
-    expect(e.result).not.toBeNull();
-    expect(e.error?.field).toBe('vehicle.stages[0].isp');
+    const before = s.doc.get();
+    const result = s.evaluation.get().result;
+    const r = s.doc.edit('Break isp', (p) => edits.updateStage(p, 0, { isp: -1 }));
+    expect(r?.issues.map((i) => i.path)).toEqual(['vehicle.stages[0].isp']);
+    expect(s.doc.get().plan).toBe(before.plan);
+    expect(s.doc.get().canUndo).toBe(false);
+    expect(s.evaluation.get()).toMatchObject({ stale: false, error: null });
+    expect(s.evaluation.get().result).toBe(result);
+    await Promise.resolve();
+    expect(s.notices.get().at(-1)).toMatchObject({ kind: 'warning', title: 'Not applied: Break isp' });
+    // A refusal the field showed (marked shown before the microtask) makes no notice.
+    const count = s.notices.get().length;
+    const shown = s.doc.edit('Break reserve', (p) => edits.setReserve(p, { percent: 500 }));
+    if (shown) shown.shown = true;
+    await Promise.resolve();
+    expect(s.notices.get().length).toBe(count);
   });
 });
