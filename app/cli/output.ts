@@ -38,9 +38,16 @@ export function printText(text: string): void {
   process.stdout.write(`${termSafe(text)}\n`);
 }
 
-/** A document's warnings on stderr, one per line, control characters shown escaped. */
-export function printWarnings(warnings: readonly { path: string; rule: string }[]): void {
-  for (const w of warnings) process.stderr.write(`${termSafe(`warning: ${w.path || '(document)'} ${w.rule}`)}\n`);
+/**
+ * A document's warnings on stderr, one per line, control characters shown escaped: in the
+ * user's words with the field path on a details line when the loader gave words
+ * (core/io/issueWords.ts), else the path and the rule.
+ */
+export function printWarnings(warnings: readonly { path: string; rule: string; words?: string }[]): void {
+  for (const w of warnings) {
+    const text = w.words ? `warning: ${w.words}${w.path ? `\n         (plan field: ${w.path})` : ''}` : `warning: ${w.path || '(document)'} ${w.rule}`;
+    process.stderr.write(`${termSafe(text)}\n`);
+  }
 }
 
 /**

@@ -76,7 +76,7 @@ import { randomBytes } from 'node:crypto';
 import { basename, dirname, isAbsolute, join, resolve } from 'node:path';
 import { ValidationError, WaymarkError, type ValidationIssue } from '../../core/math/index.ts';
 import { PLAN_FORMAT, PLAN_VERSION, parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../core/io/index.ts';
-import { decodeUtf8, parseSystemFile } from '../../core/io/index.ts';
+import { decodeUtf8, issuesInWords, parseSystemFile } from '../../core/io/index.ts';
 import type { Plan } from '../../core/plan/index.ts';
 import { SYSTEM_FORMAT, SYSTEM_VERSION, type StarSystem } from '../../core/system/index.ts';
 import type { ExportKind } from '../preload/api.ts';
@@ -717,10 +717,10 @@ export async function loadPlanFile(path: string): Promise<LoadedPlan> {
   try {
     parsed = parsePlanFile(text);
   } catch (e) {
-    if (e instanceof ValidationError) throw new ValidationError(`plan file ${path}`, e.issues);
+    if (e instanceof ValidationError) throw new ValidationError(`plan file ${path}`, await planIssuesInWords(path, text, e.issues, null));
     throw e;
   }
-  const warnings = [...parsed.warnings];
+  const warnings: ValidationIssue[] = issuesInWords(parsed.warnings, parsed.plan, parsed.system.kind === 'embedded' ? parsed.system.system : null);
   if (parsed.system.kind === 'embedded') {
     return { plan: parsed.plan, system: parsed.system.system, systemRef: parsed.system, systemPath: null, warnings, fileVersion: parsed.fileVersion };
   }
@@ -738,12 +738,43 @@ export async function loadPlanFile(path: string): Promise<LoadedPlan> {
   }
   warnings.push(...sys.warnings.map((w) => ({ ...w, path: `(system file) ${w.path}` })));
   try {
-    warnings.push(...requirePlanFitsSystem(parsed.plan, sys.system));
+    warnings.push(...issuesInWords(requirePlanFitsSystem(parsed.plan, sys.system), parsed.plan, sys.system));
   } catch (e) {
-    if (e instanceof ValidationError) throw new ValidationError(`plan file ${path}`, e.issues);
+    if (e instanceof ValidationError) throw new ValidationError(`plan file ${path}`, issuesInWords(e.issues, parsed.plan, sys.system));
     throw e;
   }
   return { plan: parsed.plan, system: sys.system, systemRef: parsed.system, systemPath, warnings, fileVersion: parsed.fileVersion };
+}
+
+/**
+ * Issues of a plan file the reader refused, in the user's words (core/io/issueWords.ts): events
+ * and stages named from the file's own text, dates in the calendar of its system when that
+ * system can be read (else in seconds from the epoch). Best effort: the issues come back
+ * unchanged in words only where the text or the system cannot be read.
+ */
+async function planIssuesInWords(path: string, text: string, issues: ValidationIssue[], system: StarSystem | null): Promise<ValidationIssue[]> {
+  let doc: unknown = null;
+  try {
+    doc = JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
+  } catch {
+    return issues;
+  }
+  let sys = system;
+  const ref = typeof doc === 'object' && doc !== null ? (doc as { system?: { path?: unknown; embedded?: unknown } }).system : undefined;
+  if (!sys && typeof ref?.path === 'string') {
+    try {
+      sys = (await loadSystemFile(resolveSystemPath(path, ref.path))).system;
+    } catch {
+      sys = null;
+    }
+  } else if (!sys && ref?.embedded !== undefined) {
+    try {
+      sys = parseSystemFile(JSON.stringify(ref.embedded)).system;
+    } catch {
+      sys = null;
+    }
+  }
+  return issuesInWords(issues, doc, sys);
 }
 
 export interface SavePlanOptions extends AtomicWriteOptions, OutputRules {

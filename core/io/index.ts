@@ -4,6 +4,8 @@
  */
 export { burnTableCsv, ephemerisCsv } from './csv.ts';
 export { inlineLocalRefs } from './fileValidator.ts';
+export { issueInWords, issuesInWords } from './issueWords.ts';
+export type { IssueWords } from './issueWords.ts';
 export { writeOem } from './oem.ts';
 export { planSaveIssues } from './planSaveCheck.ts';
 export { checkPlanAgainstSystem, parsePlanFile, planToDocument, requirePlanFitsSystem, serializePlanFile } from './planFile.ts';

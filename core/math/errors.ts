@@ -39,6 +39,12 @@ export interface ValidationIssue {
   severity: 'error' | 'warning';
   /** Set only on the closing issue of a capped list: how many issues it stands for. */
   more?: number;
+  /**
+   * The issue in the user's words, set where the plan and its system are known
+   * (core/io/issueWords.ts): "Burn 1 'Departure': arrival must be later than the burn (412-149T24:13)".
+   * Messages then show these words and the path only in a details line.
+   */
+  words?: string;
 }
 
 /** Issues a ValidationError (or a list of warnings) shows one by one; the rest are counted. */
@@ -89,7 +95,15 @@ export class ValidationError extends WaymarkError {
     const total = countIssues(listed);
     super(
       `${what}: ${formatCount(total)} problem${total === 1 ? '' : 's'}\n` +
-        listed.map((i) => (i.more !== undefined ? `  ${i.rule}` : `  ${i.path || '(document)'} ${i.rule}`)).join('\n'),
+        listed
+          .map((i) =>
+            i.more !== undefined
+              ? `  ${i.rule}`
+              : i.words
+                ? `  ${i.words}${i.path ? `\n    (plan field: ${i.path})` : ''}`
+                : `  ${i.path || '(document)'} ${i.rule}`,
+          )
+          .join('\n'),
     );
     this.issues = listed;
   }

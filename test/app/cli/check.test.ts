@@ -94,8 +94,10 @@ describe.concurrent('waymark check', () => {
     expect(r.code).toBe(2);
     expect(r.stdout).toBe('');
     expect(r.stderr).toContain(`waymark: plan file ${p}: 2 problems`);
-    expect(r.stderr).toContain('  vehicle.stages[1].isp_s must be > 0');
-    expect(r.stderr).toContain('  events[4].dv_mps[0] must be a number');
+    // In the user's words: the stage and the burn named and numbered from 1 as on the cards, the field path on a details line.
+    expect(r.stderr).toContain("  Stage 2 'Cruise stage': Isp must be > 0\n    (plan field: vehicle.stages[1].isp_s)");
+    expect(r.stderr).toContain("  Burn 5 'Mid-course correction': Δv component 1 must be a number\n    (plan field: events[4].dv_mps[0])");
+    expect(r.stderr).not.toMatch(/^ {2}(events|vehicle)\[/m);
   });
 
   it('a bad file with --json: exit 2 and the issues as data', async () => {
@@ -104,7 +106,14 @@ describe.concurrent('waymark check', () => {
     expect(r.code).toBe(2);
     const out = JSON.parse(r.stdout);
     expect(out.error.type).toBe('ValidationError');
-    expect(out.error.issues).toEqual([{ path: 'events[0].frame', rule: 'must be one of: "vnb", "rtn", "inertial"', severity: 'error' }]);
+    expect(out.error.issues).toEqual([
+      {
+        path: 'events[0].frame',
+        rule: 'must be one of: "vnb", "rtn", "inertial"',
+        severity: 'error',
+        words: 'Burn 1 \'Departure\': frame must be one of: "vnb", "rtn", "inertial"',
+      },
+    ]);
   });
 
   it('a plan whose system file is missing, or a plan file that does not exist: exit 2', async () => {

@@ -2,7 +2,16 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../../core/math/errors.ts';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
-import { dateParts, dateToSeconds, daysInYear, formatCompactDate, formatDate, formatDayLength, formatElapsed, parseDate } from '../../../core/system/calendar.ts';
+import {
+  dateParts,
+  dateToSeconds,
+  daysInYear,
+  formatCompactDate,
+  formatDate,
+  formatDayLength,
+  formatElapsed,
+  parseDate,
+} from '../../../core/system/calendar.ts';
 import type { SystemCalendar } from '../../../core/system/model.ts';
 import { demoText } from './fixtures.ts';
 
