@@ -1,7 +1,7 @@
 /**
  * Waymark's own palette ("chart room at night"): ink-teal grounds, chalk text, mint for the
- * planned path, amber for burns, and three hues for the axes of a burn frame. Shared by the
- * 3D view, the charts and the legend so a colour means the same thing everywhere.
+ * planned path, amber for burns, and a hue, shaft and head for each axis of a burn frame.
+ * Shared by the 3D view, the charts and the legend so a colour means the same thing everywhere.
  */
 export const PALETTE = {
   ground: '#0f1416',
@@ -22,12 +22,35 @@ export const PALETTE = {
 } as const;
 
 /**
- * Hues of a burn's Δv components, grouped by what the axis means physically:
- * along-track (VNB's V, RTN's T, inertial X) saffron; in-plane cross-track (VNB's B, RTN's R,
- * inertial Y) orchid; out-of-plane (N in either local frame, inertial Z) sky. The total Δv is
- * drawn in chalk.
+ * Waymark's burn-direction arrows, told apart by lightness and shape first and hue second, so
+ * they read for every common colour-vision deficiency (no pair relies on red against green):
+ * - along-track (VNB's V, RTN's T, inertial X): chalk white, the lightest, a solid shaft with a
+ *   cone (triangle) head;
+ * - in-plane cross-track (VNB's B, RTN's R, inertial Y): sea teal, mid lightness, a dashed
+ *   shaft with a diamond head;
+ * - out-of-plane (N in either local frame, inertial Z): rust, the darkest, a dotted shaft
+ *   ending in a flat bar;
+ * - the total Δv: the burn's own orange (as the burn markers), a solid shaft with a cone head,
+ *   always the longest arrow.
+ * The legend under the System view draws the same shafts and heads.
  */
-export const AXIS_HUE = { along: '#f4b942', inPlane: '#d672c9', normal: '#58c4f0', total: '#dfe6e1' } as const;
+export type ShaftStyle = 'solid' | 'dashed' | 'dotted';
+export type HeadShape = 'cone' | 'diamond' | 'bar';
+
+export const AXIS_STYLE = {
+  along: { hue: '#f4f1e8', shaft: 'solid', head: 'cone' },
+  inPlane: { hue: '#3fb59e', shaft: 'dashed', head: 'diamond' },
+  normal: { hue: '#cc6a3f', shaft: 'dotted', head: 'bar' },
+  total: { hue: '#ff9b45', shaft: 'solid', head: 'cone' },
+} as const satisfies Record<string, { hue: string; shaft: ShaftStyle; head: HeadShape }>;
+
+/** The arrows' hues alone (chips beside the Δv fields, charts). */
+export const AXIS_HUE = {
+  along: AXIS_STYLE.along.hue,
+  inPlane: AXIS_STYLE.inPlane.hue,
+  normal: AXIS_STYLE.normal.hue,
+  total: AXIS_STYLE.total.hue,
+} as const;
 
 export type AxisRole = 'along' | 'inPlane' | 'normal';
 

@@ -20,7 +20,7 @@ import type { BudgetRow, PlanResult } from '../../../core/plan/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { bodyPosition, sampleOrbit } from '../../../core/system/index.ts';
 import { burnToInertial } from '../../../core/plan/index.ts';
-import { AXIS_HUE, FRAME_AXES, PALETTE, bodyColour } from './palette.ts';
+import { AXIS_STYLE, FRAME_AXES, PALETTE, bodyColour, type HeadShape, type ShaftStyle } from './palette.ts';
 import { shipStateAt } from '../../../core/conic/index.ts';
 import { isSoftwareRenderer } from './webglInfo.ts';
 import { GAME_STYLE } from '../gamestep/style.ts';
@@ -147,30 +147,58 @@ class SharedDrawing {
     Array.from({ length: 160 }, (_, k) => new THREE.Vector3(Math.cos((2 * Math.PI * k) / 160), Math.sin((2 * Math.PI * k) / 160), 0)),
   );
   readonly ringGeometry = new THREE.RingGeometry(1.6, 2.1, 24);
-  /** Arrow shaft from the origin to (0, 1, 0) and a unit cone for the head. */
+  /** Arrow shaft from the origin to (0, 1, 0); heads of unit size with their tip at the origin, pointing +y. */
   readonly shaft = new THREE.BufferGeometry().setAttribute('position', new THREE.Float32BufferAttribute([0, 0, 0, 0, 1, 0], 3));
   readonly head = new THREE.ConeGeometry(0.5, 1, 10, 1).translate(0, -0.5, 0);
-  readonly hues = new Map<string, { line: THREE.LineBasicMaterial; mesh: THREE.MeshBasicMaterial }>();
+  readonly diamond = new THREE.OctahedronGeometry(0.5, 0).translate(0, -0.5, 0);
+  /** A flat plate across the shaft's end (seen edge-on: a bar). */
+  readonly bar = new THREE.BoxGeometry(1, 0.3, 1).translate(0, -0.15, 0);
+  readonly hues = new Map<string, { line: THREE.LineBasicMaterial; mesh: THREE.MeshBasicMaterial; dots: THREE.PointsMaterial }>();
 
-  arrowMaterials(hue: string): { line: THREE.LineBasicMaterial; mesh: THREE.MeshBasicMaterial } {
+  arrowMaterials(hue: string): { line: THREE.LineBasicMaterial; mesh: THREE.MeshBasicMaterial; dots: THREE.PointsMaterial } {
     let m = this.hues.get(hue);
     if (!m) {
-      m = { line: new THREE.LineBasicMaterial({ color: hue }), mesh: new THREE.MeshBasicMaterial({ color: hue }) };
+      m = {
+        line: new THREE.LineBasicMaterial({ color: hue }),
+        mesh: new THREE.MeshBasicMaterial({ color: hue }),
+        dots: new THREE.PointsMaterial({ color: hue, size: 2.5, sizeAttenuation: false }),
+      };
       this.hues.set(hue, m);
     }
     return m;
   }
 
-  /** An arrow along unit vector `dir`, `length` long (ArrowHelper's shape with shared materials). */
-  arrow(dir: THREE.Vector3, length: number, hue: string, headLength: number, headWidth: number): THREE.Object3D {
-    const m = this.arrowMaterials(hue);
+  /**
+   * An arrow along unit vector `dir`, `length` long (ArrowHelper's layout with shared materials):
+   * its shaft solid, dashed (dashes of 0.09 with gaps of 0.05 of the arrow's unit) or dotted
+   * (dots every 0.1), and its head a cone, a diamond or a bar (palette.ts AXIS_STYLE).
+   */
+  arrow(dir: THREE.Vector3, length: number, style: { hue: string; shaft: ShaftStyle; head: HeadShape }, headLength: number, headWidth: number): THREE.Object3D {
+    const m = this.arrowMaterials(style.hue);
     const g = new THREE.Group();
-    const shaft = new THREE.Line(this.shaft, m.line);
-    shaft.scale.set(1, Math.max(1e-4, length - headLength), 1);
-    const head = new THREE.Mesh(this.head, m.mesh);
-    head.scale.set(headWidth, headLength, headWidth);
+    const run = Math.max(1e-4, length - headLength);
+    if (style.shaft === 'solid') {
+      const shaft = new THREE.Line(this.shaft, m.line);
+      shaft.scale.set(1, run, 1);
+      g.add(shaft);
+    } else {
+      // dash and dot spacing in the arrow's own units (constant on screen), so a short arrow keeps its pattern
+      const xyz: number[] = [];
+      if (style.shaft === 'dashed') {
+        for (let y = 0; y < run; y += 0.14) xyz.push(0, y, 0, 0, Math.min(run, y + 0.09), 0);
+      } else {
+        for (let y = 0; y <= run; y += 0.1) xyz.push(0, y, 0);
+      }
+      const geo = new THREE.BufferGeometry().setAttribute('position', new THREE.Float32BufferAttribute(xyz, 3));
+      g.add(style.shaft === 'dashed' ? new THREE.LineSegments(geo, m.line) : new THREE.Points(geo, m.dots));
+    }
+    const headGeo = style.head === 'cone' ? this.head : style.head === 'diamond' ? this.diamond : this.bar;
+    const head = new THREE.Mesh(headGeo, m.mesh);
+    if (style.head === 'diamond') head.scale.set(headWidth * 1.5, headLength * 1.2, headWidth * 1.5);
+    else if (style.head === 'bar') head.scale.set(headWidth * 2.2, headLength * 0.6, headWidth * 2.2);
+    else head.scale.set(headWidth, headLength, headWidth);
     head.position.y = length;
-    g.add(shaft, head);
+    g.add(head);
     g.quaternion.setFromUnitVectors(new THREE.Vector3(0, 1, 0), dir);
     return g;
   }
@@ -192,12 +220,15 @@ class SharedDrawing {
       this.ringGeometry,
       this.shaft,
       this.head,
+      this.diamond,
+      this.bar,
       this.circle,
     ])
       x.dispose();
     for (const m of this.hues.values()) {
       m.line.dispose();
       m.mesh.dispose();
+      m.dots.dispose();
     }
   }
 }
@@ -461,12 +492,11 @@ export class SystemScene {
           continue; // degenerate frame (r ∥ v): no arrows for that axis
         }
         const len = 0.3 + 0.7 * (Math.abs(c) / mag);
-        const hue = AXIS_HUE[axes[j].role];
-        arrows.add(this.shared.arrow(new THREE.Vector3(dir[0], dir[1], dir[2]).normalize(), len, hue, 0.16, 0.08));
+        arrows.add(this.shared.arrow(new THREE.Vector3(dir[0], dir[1], dir[2]).normalize(), len, AXIS_STYLE[axes[j].role], 0.16, 0.08));
       }
       const d = row.dvInertial;
       const dm = Math.hypot(d[0], d[1], d[2]);
-      if (dm > 0) arrows.add(this.shared.arrow(new THREE.Vector3(d[0] / dm, d[1] / dm, d[2] / dm), 1.12, AXIS_HUE.total, 0.14, 0.07));
+      if (dm > 0) arrows.add(this.shared.arrow(new THREE.Vector3(d[0] / dm, d[1] / dm, d[2] / dm), 1.12, AXIS_STYLE.total, 0.14, 0.07));
     }
     group.add(arrows);
     this.resultFrame(central).add(group);
@@ -475,7 +505,14 @@ export class SystemScene {
 
   /** Empties the plan's drawing: per-segment geometry is freed, shared materials and geometry kept. */
   private clearResult(): void {
-    const keep = new Set<unknown>([this.shared.dotGeometry, this.shared.ringGeometry, this.shared.shaft, this.shared.head]);
+    const keep = new Set<unknown>([
+      this.shared.dotGeometry,
+      this.shared.ringGeometry,
+      this.shared.shaft,
+      this.shared.head,
+      this.shared.diamond,
+      this.shared.bar,
+    ]);
     this.resultRoot.traverse((o) => {
       const g = (o as THREE.Mesh).geometry;
       if (g && !keep.has(g)) {
