@@ -23,7 +23,7 @@ import { parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSyste
 import { parseSystemFile } from '../../../core/io/index.ts';
 import { ValidationError, type ValidationIssue } from '../../../core/math/index.ts';
 import type { Plan } from '../../../core/plan/index.ts';
-import { planSaveIssues } from '../../../core/io/index.ts';
+import { issuesInWords, planSaveIssues } from '../../../core/io/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import {
   NewerVersionError,
@@ -93,7 +93,7 @@ export function planIssues(plan: Plan, system: StarSystem, _ref: PlanSystemRef):
   } catch (err) {
     issues = [{ path: '', rule: describeError(err).message, severity: 'error' }];
   }
-  return issues.map((i) => ({ ...i, path: fileToMemoryPath(i.path) }));
+  return issuesInWords(issues, plan, system).map((i) => ({ ...i, path: fileToMemoryPath(i.path) }));
 }
 
 function baseNameOf(path: string): string {
@@ -514,9 +514,21 @@ export class Session {
 
 /** Parses plan text and resolves its system; throws ValidationError (or the host's error) on any problem. */
 export async function loadPlanText(deps: Pick<SessionDeps, 'host' | 'bundledSystems'>, text: string, ref: FileRef, mayAsk: boolean): Promise<LoadedDocument> {
-  const parsed = parsePlanFile(text);
+  let parsed: ReturnType<typeof parsePlanFile>;
+  try {
+    parsed = parsePlanFile(text);
+  } catch (err) {
+    if (err instanceof ValidationError) throw new ValidationError('plan file', await refusedInWords(deps, text, ref, err.issues));
+    throw err;
+  }
   if (parsed.system.kind === 'embedded') {
-    return { plan: parsed.plan, system: parsed.system.system, systemRef: parsed.system, file: ref, warnings: parsed.warnings };
+    return {
+      plan: parsed.plan,
+      system: parsed.system.system,
+      systemRef: parsed.system,
+      file: ref,
+      warnings: issuesInWords(parsed.warnings, parsed.plan, parsed.system.system),
+    };
   }
   const path = parsed.system.path;
   let systemText: string | null = null;
@@ -547,6 +559,45 @@ export async function loadPlanText(deps: Pick<SessionDeps, 'host' | 'bundledSyst
     }
     throw err;
   }
-  const warnings = [...parsed.warnings, ...requirePlanFitsSystem(parsed.plan, system)];
+  let fits: ValidationIssue[];
+  try {
+    fits = requirePlanFitsSystem(parsed.plan, system);
+  } catch (err) {
+    if (err instanceof ValidationError) throw new ValidationError(err.what, issuesInWords(err.issues, parsed.plan, system));
+    throw err;
+  }
+  const warnings = issuesInWords([...parsed.warnings, ...fits], parsed.plan, system);
   return { plan: parsed.plan, system, systemRef: parsed.system, file: ref, warnings };
+}
+
+/**
+ * The issues of plan text the reader refused, in the user's words (core/io issueWords): events
+ * and stages named from the text itself, dates in its system's calendar when that system is at
+ * hand without asking (embedded, beside the plan, bundled), else in seconds from the epoch.
+ */
+async function refusedInWords(
+  deps: Pick<SessionDeps, 'host' | 'bundledSystems'>,
+  text: string,
+  ref: FileRef,
+  issues: ValidationIssue[],
+): Promise<ValidationIssue[]> {
+  let doc: unknown;
+  try {
+    doc = JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
+  } catch {
+    return issues;
+  }
+  const sys = typeof doc === 'object' && doc !== null ? (doc as { system?: { path?: unknown; embedded?: unknown } }).system : undefined;
+  let system: StarSystem | null = null;
+  try {
+    if (sys?.embedded !== undefined) system = parseSystemFile(JSON.stringify(sys.embedded)).system;
+    else if (typeof sys?.path === 'string') {
+      const path = sys.path;
+      const systemText = (await deps.host.readSystemBeside(ref, path).catch(() => null)) ?? deps.bundledSystems[baseNameOf(path)] ?? null;
+      if (systemText !== null) system = parseSystemFile(systemText).system;
+    }
+  } catch {
+    system = null;
+  }
+  return issuesInWords(issues, doc, system);
 }

@@ -95,7 +95,7 @@ describe('the game-step verdict in plain words', () => {
     const v = gameVerdict(system, { ...r, status: 'diverged', divergedAt: r.t0 + 3600, arrival: null, passes: false });
     expect(v.word).toBe('diverged');
     expect(v.lines.find((l) => l.key === 'miss')!.value).toBe('—');
-    expect(v.lines.find((l) => l.key === 'diverged')!.value).toMatch(/^T\+ 0d 01:00/);
+    expect(v.lines.find((l) => l.key === 'diverged')!.value).toMatch(/^T\+ 0 d 01 h 00 min/);
     expect(JSON.stringify(v)).not.toMatch(/NaN/);
   });
 

@@ -82,6 +82,19 @@ describe('session: the open document and its files', () => {
     expect(s.doc.get().revision).toBe(before.revision);
   });
 
+  it('a bad plan file says its problems in the user’s words: the burn numbered from 1 as on its card, its time as a calendar date', async () => {
+    const { s } = await session();
+    const bad = JSON.parse(demoText);
+    bad.events[0].solve.arrive_s = bad.events[0].t_s - 86400;
+    bad.vehicle.stages[0].isp_s = -5;
+    expect(await s.openText(JSON.stringify(bad), { name: 'bad.plan.json', path: null, handle: null })).toBe(false);
+    const issues = s.notices.get().at(-1)!.issues!;
+    const arrive = issues.find((i) => i.path === 'events[0].solve.arrive_s');
+    // The system is found beside the plan or bundled, so the time reads in its calendar.
+    expect(arrive?.words).toMatch(new RegExp(`^Burn 1 '${bad.events[0].name}': arrival must be later than the burn \\(\\d+-\\d{3}T\\d\\d:\\d\\d\\)$`));
+    expect(issues.find((i) => i.path === 'vehicle.stages[0].isp_s')?.words).toMatch(new RegExp(`^Stage 1 '${bad.vehicle.stages[0].name}': Isp must be`));
+  });
+
   it('not JSON at all: one issue, nothing changed', async () => {
     const { s } = await session();
     const before = s.doc.get().plan;
