@@ -4,8 +4,8 @@
  * ambiguity); a true minus sign (U+2212) is used for negatives. Times use the system calendar
  * (core/system/calendar.ts).
  */
-import { formatCompactDate, formatDate, formatElapsed } from '../../../core/system/index.ts';
-import type { SystemCalendar } from '../../../core/system/index.ts';
+import { formatCompactDate, formatDate, formatDayLength, formatElapsed } from '../../../core/system/index.ts';
+import type { StarSystem, SystemCalendar } from '../../../core/system/index.ts';
 
 const NNBSP = '\u202f';
 const MINUS = '\u2212';
@@ -83,4 +83,15 @@ export function compactDate(cal: SystemCalendar, t: number, seconds = true): str
 /** Mission elapsed time "T+ 12 d 04 h 33 min 10 s" (standard days of 86 400 s) from the plan start t0. */
 export function elapsed(cal: SystemCalendar, t: number, t0: number): string {
   return Number.isFinite(t) && Number.isFinite(t0) ? formatElapsed(cal, t - t0) : '—';
+}
+
+/**
+ * Whose day the calendar counts and how long it is: "days of Tessel: 26 h 06 min" (or
+ * "calendar day: 25 h 00 min" when the system file gives the lengths itself). Dates count these
+ * days and their clock runs past 24 h when the day is longer; elapsed times count 86 400 s days.
+ */
+export function calendarDay(system: Pick<StarSystem, 'calendar' | 'bodies'>): string {
+  const cal = system.calendar;
+  const home = cal.homeIndex >= 0 ? system.bodies[cal.homeIndex]?.name : undefined;
+  return `${home ? `days of ${home}` : 'calendar day'}: ${formatDayLength(cal)}`;
 }

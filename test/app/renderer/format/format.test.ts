@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { compactDate, date, distance, duration, elapsed, grouped, mass, speed } from '../../../../app/renderer/format/format.ts';
+import { calendarDay, compactDate, date, distance, duration, elapsed, grouped, mass, speed } from '../../../../app/renderer/format/format.ts';
 import type { SystemCalendar } from '../../../../core/system/model.ts';
 
 const cal: SystemCalendar = { yearLength: 400 * 93600, dayLength: 93600, yearAtEpoch: 412, era: 'TR', homeIndex: 2 };
@@ -34,5 +34,15 @@ describe('formatting for the screens', () => {
     // Elapsed time counts standard days of 86 400 s whatever the calendar's day.
     expect(elapsed(cal, 86400 * 2 + 61, 0)).toBe('T+ 2 d 00 h 01 min 01 s');
     expect(elapsed(cal, 0, 10)).toBe('T− 0 d 00 h 00 min 10 s');
+  });
+});
+
+describe('calendarDay', () => {
+  it("names the home world whose day the calendar counts, and the day's length", () => {
+    const bodies = [{ name: 'Ilmar' }, { name: 'Kiln' }, { name: 'Tessel' }] as unknown as Parameters<typeof calendarDay>[0]['bodies'];
+    // 93 600 s = 26 h 00 min; 93 983.76 s (the demo's mean solar day) = 26 h 06 min.
+    expect(calendarDay({ calendar: cal, bodies })).toBe('days of Tessel: 26 h 00 min');
+    expect(calendarDay({ calendar: { ...cal, dayLength: 93983.76 }, bodies })).toBe('days of Tessel: 26 h 06 min');
+    expect(calendarDay({ calendar: { ...cal, dayLength: 90000, homeIndex: -1 }, bodies })).toBe('calendar day: 25 h 00 min');
   });
 });
