@@ -141,6 +141,21 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
     await expect.poll(() => js<number>('window.waymarkDebug.session.doc.get().plan.vehicle.stages[0].isp')).toBe(339);
   });
 
+  it('a typed time comes back as typed, and the Timeline says whose day the calendar counts', async () => {
+    expect(await page.textContent('[data-testid=calendar-day]')).toBe('days of Tessel: 26 h 06 min');
+    const field = page.locator('input[data-path="events[0].solve.arrive"]');
+    const shown = await field.inputValue();
+    // Both once came back a second short: "413-126T12:59:59" and "413-125T26:06:23".
+    for (const typed of ['413-126T13:00', '413-126T00:00']) {
+      await field.fill(typed);
+      await field.press('Enter');
+      await expect.poll(() => field.inputValue()).toBe(`${typed}:00`);
+    }
+    await field.fill(shown);
+    await field.press('Enter');
+    await expect.poll(() => field.inputValue()).toBe(shown);
+  });
+
   it('saves (download), reopens the file, and gets the same plan back', async () => {
     const inMemory = await plan();
     await page.click('[data-testid=menu-file]');
