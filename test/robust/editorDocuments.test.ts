@@ -5,6 +5,7 @@
  * angles past their range, unknown bodies, zero tolerances, times out of order) — go through the
  * document store as the Plan screen sends them; after each one:
  * - a refused edit left the document as it was (the same plan object, revision and undo history);
+ *   Undo and Redo between the edits only ever bring back documents that were accepted;
  * - the present plan serialises, re-opens with the system it flies in, and the re-opened plan
  *   equals it (serialise → parse → same plan), and serialising that gives the same bytes.
  * Bounded by case counts (fast-check, fixed seed), never by a wall clock.
@@ -37,7 +38,8 @@ const plain = value(1, fc.double({ min: -0.5, max: 1.5, noNaN: true }));
 const bodyId = fc.constantFrom(...system.bodies.map((b) => b.id), 'nowhere');
 const name = fc.oneof(fc.string({ maxLength: 12 }), fc.constant(''));
 
-type Op = { label: string; fn: (p: Plan) => Plan };
+/** An edit, or Undo / Redo (the history must hold only documents that save and re-open). */
+type Op = { label: string; fn: (p: Plan) => Plan; history?: 'undo' | 'redo' };
 const pick = (p: Plan, k: number): PlanEvent | undefined => p.events[k % Math.max(1, p.events.length)];
 
 const solve: fc.Arbitrary<BurnSolve> = fc.oneof(
@@ -114,6 +116,16 @@ const op: fc.Arbitrary<Op> = fc.oneof(
   fc
     .record({ kind: fc.constantFrom<edits.NewEventKind>('burn', 'coast', 'stage'), after: fc.integer({ min: -1, max: 20 }) })
     .map(({ kind, after }): Op => ({ label: 'Add', fn: (p) => edits.addEvent(p, kind, after) })),
+  fc.record({ k: fc.nat(), at: fc.integer({ min: -1, max: 20 }) }).map(
+    ({ k, at }): Op => ({
+      label: 'Insert copy',
+      fn: (p) => {
+        const ev = pick(p, k);
+        return ev ? edits.insertEvent(p, { ...ev, id: edits.freshId(p, ev.type) }, at) : p;
+      },
+    }),
+  ),
+  fc.constantFrom<Op>({ label: 'Undo', fn: (p) => p, history: 'undo' }, { label: 'Redo', fn: (p) => p, history: 'redo' }),
   fc.nat().map((k): Op => ({ label: 'Delete', fn: (p) => (pick(p, k) ? edits.deleteEvent(p, pick(p, k)!.id) : p) })),
   fc
     .record({ k: fc.nat(), d: fc.constantFrom(-1, 1) })
@@ -182,7 +194,11 @@ describe('editor documents', () => {
         const doc = newStore(file);
         for (const o of ops) {
           const before = doc.get();
-          const r = doc.edit(o.label, o.fn);
+          if (o.history) {
+            if (o.history === 'undo') doc.undo();
+            else doc.redo();
+          }
+          const r = o.history ? null : doc.edit(o.label, o.fn);
           const after = doc.get();
           if (r) {
             refused++;
@@ -191,7 +207,7 @@ describe('editor documents', () => {
             expect(after.revision).toBe(before.revision);
             expect(after.canUndo).toBe(before.canUndo);
             expect(after.undoLabel).toBe(before.undoLabel);
-          } else if (after.revision !== before.revision) applied++;
+          } else if (after.revision !== before.revision && !o.history) applied++;
           const text = serializePlanFile(after.plan, REF);
           const reopened = parsePlanFile(text, { system });
           expect(reopened.plan).toEqual(after.plan);
