@@ -752,6 +752,16 @@ export async function loadPlanFile(path: string): Promise<LoadedPlan> {
  * system can be read (else in seconds from the epoch). Best effort: the issues come back
  * unchanged in words only where the text or the system cannot be read.
  */
+/** Every issue of a plan file read with the system it names (parsePlanFile reports them together), or null when it loads. */
+function planFileIssues(text: string, system: StarSystem): ValidationIssue[] | null {
+  try {
+    parsePlanFile(text, { system });
+    return null;
+  } catch (e) {
+    return e instanceof ValidationError ? e.issues : null;
+  }
+}
+
 async function planIssuesInWords(path: string, text: string, issues: ValidationIssue[], system: StarSystem | null): Promise<ValidationIssue[]> {
   let doc: unknown = null;
   try {
@@ -767,6 +777,8 @@ async function planIssuesInWords(path: string, text: string, issues: ValidationI
     } catch {
       sys = null;
     }
+    // With its system at hand, the plan's problems against it join the file's own: every problem at once.
+    if (sys) issues = planFileIssues(text, sys) ?? issues;
   } else if (!sys && ref?.embedded !== undefined) {
     try {
       sys = parseSystemFile(JSON.stringify(ref.embedded)).system;

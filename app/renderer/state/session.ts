@@ -595,6 +595,14 @@ async function refusedInWords(
       const path = sys.path;
       const systemText = (await deps.host.readSystemBeside(ref, path).catch(() => null)) ?? deps.bundledSystems[baseNameOf(path)] ?? null;
       if (systemText !== null) system = parseSystemFile(systemText).system;
+      // With its system at hand, the plan's problems against it join the file's own: every problem at once.
+      if (system) {
+        try {
+          parsePlanFile(text, { system });
+        } catch (e) {
+          if (e instanceof ValidationError) issues = e.issues;
+        }
+      }
     }
   } catch {
     system = null;

@@ -100,6 +100,18 @@ describe.concurrent('waymark check', () => {
     expect(r.stderr).not.toMatch(/^ {2}(events|vehicle)\[/m);
   });
 
+  it('a file with three problems in different places reports all three at once (schema and system checks together)', async () => {
+    const p = editedDemo('three.plan.json', (d) => {
+      d.vehicle.stages[0].dry_kg = -5;
+      d.events[0].solve.to = 'nowhere';
+      d.target.tolerance.e = 0;
+    });
+    const r = await runCli(['check', p, '--json']);
+    expect(r.code).toBe(2);
+    const paths = (JSON.parse(r.stdout).error.issues as { path: string; severity: string }[]).filter((i) => i.severity === 'error').map((i) => i.path);
+    expect(paths.sort()).toEqual(['events[0].solve.to', 'target.tolerance.e', 'vehicle.stages[0].dry_kg']);
+  });
+
   it('a bad file with --json: exit 2 and the issues as data', async () => {
     const p = editedDemo('bad2.plan.json', (d) => (d.events[0].frame = 'sideways'));
     const r = await runCli(['check', p, '--json']);
