@@ -85,7 +85,9 @@ describe('the plan read in its truth model (worker, after edits)', () => {
 
   it('says why, in the core’s words, when the plan cannot be flown in its model', async () => {
     const { s } = await session();
-    s.doc.edit('Change truth model', (p) => edits.updateStage(edits.setTruthModel(p, 'finite'), 0, { isp: -1 }));
+    // The editor refuses an edit to such a plan (it could not be saved and opened again), so it is put in the store directly.
+    const d = s.doc.get();
+    s.doc.load({ plan: edits.updateStage(edits.setTruthModel(d.plan, 'finite'), 0, { isp: -1 }), system: d.system, systemRef: d.systemRef, file: d.file });
     await settled(s);
     const t = s.truth.get();
     expect(t.report).toBeNull();
