@@ -14,8 +14,8 @@
  *  4. semantic checks of the document (planSchema.ts `checkPlanDocument`);
  *  5. an embedded system is loaded by the system-file rules (core/io/systemFile.ts; its issues
  *     come back with paths under `system.embedded.`) and the plan is checked against it
- *     (`checkPlanAgainstSystem`). A system named by `path` is read by the caller (the file
- *     layer, app/node/files.ts), which then runs `requirePlanFitsSystem`.
+ *     (planSchema.ts `checkDocumentAgainstSystem`). A system named by `path` is read by the
+ *     caller (the file layer, app/node/files.ts), which then runs `requirePlanFitsSystem`.
  * Stages 3 to 5 run together: the semantic checks and the system checks read the document
  * defensively and check whatever parts are well-formed, so a file with a bad mass, an unknown
  * body and a zero tolerance reports all three. A system named by `path` joins them when the
