@@ -48,7 +48,7 @@ export interface TruthReport {
   goals: TruthGoal[];
   /** Every target goal met (false without a target). */
   reached: boolean;
-  /** The margin holds (≥ 0). */
+  /** The margin holds: ≥ 0 and every burn solved (a failed solve flies no Δv and flatters the margin). */
   marginHolds: boolean;
   /** Each condition that fails, in words ("margin −54.2 m/s is below zero"). */
   failures: string[];
@@ -107,8 +107,9 @@ export function truthReport(system: StarSystem, plan: Plan, options: TruthOption
   }
   const failures: string[] = [];
   const budget = conic.budget;
-  const marginHolds = budget.margin >= 0;
-  if (!marginHolds) failures.push(`margin ${budget.margin.toFixed(1)} m/s is below zero`);
+  // a burn that failed to solve flies no Δv, which can only flatter the margin: it does not hold then
+  const marginHolds = budget.margin >= 0 && budget.failedBurns.length === 0;
+  if (budget.margin < 0) failures.push(`margin ${budget.margin.toFixed(1)} m/s is below zero`);
   // what stops the plan being flown as written, whatever the target: errors of the flight in this model
   for (const f of conic.flags) {
     if (f.severity !== 'error') continue;

@@ -43,3 +43,19 @@ describe('truthReport', () => {
     expect(r.budget.total).toBeCloseTo(evaluate(sys, demoPlan, { samplesPerSegment: 0 }).budget.total, 6);
   });
 });
+
+describe('truthReport with a burn that fails to solve', () => {
+  it('the margin does not hold though it looks larger, and the failed solve is named', () => {
+    const p = structuredClone(demoPlan);
+    const trim = p.events.find((e) => e.id === 'trim');
+    if (trim?.type !== 'burn') throw new Error('the demo has a trim burn');
+    // an opposite apsis a million km below the centre: no burn along the velocity reaches it
+    trim.solve = { kind: 'apsis', altitude: -1e9 };
+    const solved = truthReport(sys, demoPlan, { samples: false });
+    const r = truthReport(sys, p, { samples: false });
+    expect(r.budget.failedBurns.map((b) => b.planEventId)).toEqual(['trim']);
+    expect(r.budget.margin).toBeGreaterThan(solved.budget.margin);
+    expect(r.marginHolds).toBe(false);
+    expect(r.failures.some((f) => /trim|Apoapsis trim/i.test(f))).toBe(true);
+  });
+});
