@@ -23,7 +23,7 @@ import { parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSyste
 import { parseSystemFile } from '../../../core/io/index.ts';
 import { ValidationError, type ValidationIssue } from '../../../core/math/index.ts';
 import type { Plan } from '../../../core/plan/index.ts';
-import { issuesInWords, planSaveIssues } from '../../../core/io/index.ts';
+import { issueInWords, issuesInWords, planSaveIssues } from '../../../core/io/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import {
   NewerVersionError,
@@ -373,7 +373,9 @@ export class Session {
       this.notify({
         kind: 'error',
         title: 'Nothing to export',
-        detail: e.error ? `The plan does not evaluate: ${e.error.message}` : 'The plan has no result yet.',
+        detail: e.error
+          ? `The plan does not evaluate: ${e.error.field ? issueInWords({ path: e.error.field, rule: e.error.message.slice(e.error.field.length + 1) }, s.plan, s.system).text : e.error.message}`
+          : 'The plan has no result yet.',
       });
       return;
     }
