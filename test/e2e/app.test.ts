@@ -151,6 +151,12 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
       await field.press('Enter');
       await expect.poll(() => field.inputValue()).toBe(`${typed}:00`);
     }
+    // An arrival before the burn is refused, said with the burn's number and name and its time as a date.
+    await field.fill('412-100T00:00');
+    await field.press('Enter');
+    await expect
+      .poll(() => page.locator('[data-field-message="events[0].solve.arrive"]').first().textContent())
+      .toMatch(/^Burn 1 'Departure': arrival must be later than the burn \(412-149T\d\d:\d\d\)$/);
     await field.fill(shown);
     await field.press('Enter');
     await expect.poll(() => field.inputValue()).toBe(shown);
