@@ -19,9 +19,10 @@
  * carried through |B| = √(r_p² + 2μ r_p / v∞²) (so dB/dr_p = (r_p + μ/v∞²)/|B|).
  */
 import { InputError } from '../math/index.ts';
-import { findBodyIndex, bodyState, type StarSystem } from '../system/index.ts';
+import { findBodyIndex, type StarSystem } from '../system/index.ts';
 import type { Plan, PlanResult } from '../plan/index.ts';
-import { conicInfo, shipStateAt } from '../conic/index.ts';
+import { conicInfo } from '../conic/index.ts';
+import { conicStateRelativeTo } from './modelFlight.ts';
 import { bPlane, bPlaneAxes } from '../nbody/index.ts';
 import type { FlightGoal } from './measure.ts';
 
@@ -77,18 +78,6 @@ export interface Leg {
 }
 
 const s6 = new Float64Array(6);
-const r6 = new Float64Array(6);
-
-/** Ship state relative to body k at time t of a conic result. */
-function relativeTo(system: StarSystem, result: PlanResult, k: number, t: number, out6: Float64Array): Float64Array {
-  const c = result.segments[shipStateAt(result, t, out6)]?.central ?? k;
-  if (c !== k) {
-    bodyState(system, c, t, r6, k);
-    for (let i = 0; i < 6; i++) out6[i] += r6[i];
-  }
-  return out6;
-}
-
 /** The legs of `plan` from its reference flight (see the module comment). */
 export function planLegs(system: StarSystem, plan: Plan, reference: PlanResult, tol: TargetTolerances = DEFAULT_TARGET_TOLERANCES, arrivalTime = true): Leg[] {
   const rows = new Map(reference.budget.rows.map((r) => [r.planEventId, r]));
@@ -141,7 +130,7 @@ function arrivalLeg(
   // the late probe: where an n-body approach is read once more (the star's pull bends an approach
   // through a large sphere of influence after the halfway point)
   const late = Math.min(tPeri, tBurn) - 0.01 * (tPeri - tEntry);
-  const info = conicInfo(body.mu, relativeTo(system, ref, k, t, s6));
+  const info = conicInfo(body.mu, conicStateRelativeTo(system, ref, k, t, s6));
   const axes = bPlaneAxes(info);
   const b = axes ? bPlane(info, axes) : null;
   if (!axes || !b) return null; // a closed approach has no B-plane: its goals go to the next leg
@@ -166,7 +155,7 @@ function arrivalLeg(
     { kind: 'arrival-br', body: k, at: t, axes: { T, R }, name: `B·R at ${body.name}`, wanted: b.br, tolerance: bTol, units: 'km', unitScale: 1000 },
   ];
   if (arrivalTime) goals.push(timeGoal);
-  const pos = relativeTo(system, ref, k, tEntry, s6);
+  const pos = conicStateRelativeTo(system, ref, k, tEntry, s6);
   const coarse: FlightGoal[] = (['x', 'y', 'z'] as const).map((a, axis) => ({
     kind: 'position',
     body: k,

@@ -129,16 +129,20 @@ export interface FlyModelOptions extends NBodyModelOptions {
 
 const rel6 = new Float64Array(6);
 
+/** The ship's state [r, v] relative to body k at time t of a patched-conic result, into out6. */
+export function conicStateRelativeTo(system: StarSystem, result: PlanResult, k: number, t: number, out6: Float64Array): Float64Array {
+  const c = result.segments[shipStateAt(result, t, out6)]?.central ?? k;
+  if (c !== k) {
+    bodyState(system, c, t, rel6, k);
+    for (let i = 0; i < 6; i++) out6[i] += rel6[i];
+  }
+  return out6;
+}
+
 function conicFlightOf(system: StarSystem, model: TruthModel, result: PlanResult): ModelFlight {
   const entries = result.events.filter((e) => e.kind === 'soi-entry').map((e) => ({ t: e.t, body: e.central }));
   const hit = result.events.find((e) => e.kind === 'impact');
-  const toBody = (k: number, t: number, out6: Float64Array) => {
-    const c = result.segments[shipStateAt(result, t, out6)]?.central ?? k;
-    if (c !== k) {
-      bodyState(system, c, t, rel6, k);
-      for (let i = 0; i < 6; i++) out6[i] += rel6[i];
-    }
-  };
+  const toBody = (k: number, t: number, out6: Float64Array) => conicStateRelativeTo(system, result, k, t, out6);
   return {
     model,
     conic: result,

@@ -24,7 +24,7 @@ import { evaluate } from '../conic/index.ts';
 import { NBodyModel, type NBodyModelOptions } from '../nbody/index.ts';
 import { applyControls, timeControl, type BurnDvControl, type EventTimeControl, type PlanControl } from './controls.ts';
 import { DEFAULT_TARGET_TOLERANCES, planLegs, type Leg, type TargetTolerances } from './legs.ts';
-import { measure } from './measure.ts';
+import { measure, type FlightGoal } from './measure.ts';
 import { flyModel, freezeSchedule, planForModel, type ModelFlight } from './modelFlight.ts';
 import { solveTargets, type GoalOutcome, type SolveStatus } from './solve.ts';
 
@@ -257,18 +257,34 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
     let best = Number.POSITIVE_INFINITY;
     let lastFlight: PlanResult | null = null;
     const solveOptions = { maxIterations, maxFlights, damping: DAMPING, jacobianUpdate: model === 'nbody' ? ('broyden' as const) : ('difference' as const) };
+    /**
+     * The flight that reads `goals` at the controls' values: flown in the model from the leg's start,
+     * counted and reported; `track` also keeps the leg's best residual and its last flight (the
+     * goals the leg reports), which the coarse and halfway stages leave alone.
+     */
+    const flightOn =
+      (goals: readonly FlightGoal[], track: boolean) =>
+      (x: Float64Array, out: Float64Array): void => {
+        const f: ModelFlight = flyModel(system, applyControls(work, controls, x), model, { probes: leg.probes, from, nbody, signal: options.signal, until });
+        flightsAll++;
+        let sum = 0;
+        for (let i = 0; i < goals.length; i++) {
+          out[i] = measure(system, f, goals[i]);
+          const r = (out[i] - goals[i].wanted) / goals[i].tolerance;
+          sum += r * r;
+        }
+        if (track) {
+          lastFlight = f.conic;
+          best = Math.min(best, Math.sqrt(sum));
+        }
+        options.onProgress?.({ leg: li + 1, legs: legs.length, legName: leg.name, flights: flightsAll, residual: best });
+      };
     // a coarse aim first when the flight starts far off (see legs.ts), then the leg's goals from there
     let start: ArrayLike<number> = x0;
     let coarseIterations = 0;
     let coarseFlights = 0;
     if (leg.coarse.length > 0) {
-      const coarseFlight = (x: Float64Array, out: Float64Array) => {
-        const f = flyModel(system, applyControls(work, controls, x), model, { probes: leg.probes, from, nbody, signal: options.signal, until });
-        flightsAll++;
-        for (let i = 0; i < leg.coarse.length; i++) out[i] = measure(system, f, leg.coarse[i]);
-        options.onProgress?.({ leg: li + 1, legs: legs.length, legName: leg.name, flights: flightsAll, residual: best });
-      };
-      const c = solveTargets(controls, leg.coarse, coarseFlight, { ...solveOptions, x0 });
+      const c = solveTargets(controls, leg.coarse, flightOn(leg.coarse, false), { ...solveOptions, x0 });
       coarseIterations = c.iterations;
       coarseFlights = c.flights;
       if (c.status === 'converged') start = c.x;
@@ -292,31 +308,12 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
       ];
     }
     const shown = goalsShown;
-    const flight = (x: Float64Array, out: Float64Array) => {
-      const trial = applyControls(work, controls, x);
-      const f: ModelFlight = flyModel(system, trial, model, { probes: leg.probes, from: from ?? undefined, nbody, signal: options.signal, until });
-      lastFlight = f.conic;
-      flightsAll++;
-      let s = 0;
-      for (let i = 0; i < shown.length; i++) {
-        out[i] = measure(system, f, shown[i]);
-        const r = (out[i] - shown[i].wanted) / shown[i].tolerance;
-        s += r * r;
-      }
-      best = Math.min(best, Math.sqrt(s));
-      options.onProgress?.({ leg: li + 1, legs: legs.length, legName: leg.name, flights: flightsAll, residual: best });
-    };
+    const flight = flightOn(shown, true);
     let solved = solveTargets(controls, shown, flight, { ...solveOptions, x0: start });
     if (shown !== leg.goals && solved.status !== 'converged') {
       // the late reading alone found no way from the coarse aim (a long approach through a large
       // sphere, e.g. Moravel's): meet the halfway reading first, then the late one from there
-      const midFlight = (x: Float64Array, out: Float64Array) => {
-        const f = flyModel(system, applyControls(work, controls, x), model, { probes: leg.probes, from, nbody, signal: options.signal, until });
-        flightsAll++;
-        for (let i = 0; i < leg.goals.length; i++) out[i] = measure(system, f, leg.goals[i]);
-        options.onProgress?.({ leg: li + 1, legs: legs.length, legName: leg.name, flights: flightsAll, residual: best });
-      };
-      const mid = solveTargets(controls, leg.goals, midFlight, { ...solveOptions, x0: start });
+      const mid = solveTargets(controls, leg.goals, flightOn(leg.goals, false), { ...solveOptions, x0: start });
       coarseIterations += solved.iterations + mid.iterations;
       coarseFlights += solved.flights + mid.flights;
       if (mid.status === 'converged') solved = solveTargets(controls, shown, flight, { ...solveOptions, x0: mid.x });

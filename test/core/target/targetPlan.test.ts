@@ -8,23 +8,10 @@ import { isSchedule, planLegs, targetPlan, truthReport, type TargetResult } from
 import { clonePlan, demoPlan } from '../../fixtures/demoPlan.ts';
 import { flyStarCentred } from '../dynamics/starCentred.ts';
 import { demoSystem } from '../plan/helpers.ts';
+import { elements } from './elements.ts';
 
 const DEG = Math.PI / 180;
 const sys = demoSystem();
-
-/** Periapsis radius, inclination and eccentricity of a state about a body of gravitational parameter mu, by the vector formulas (Curtis, Orbital Mechanics for Engineering Students, Algorithm 4.2). */
-function elements(mu: number, s: ArrayLike<number>): { rp: number; i: number; e: number } {
-  const r = [s[0], s[1], s[2]];
-  const v = [s[3], s[4], s[5]];
-  const h = [r[1] * v[2] - r[2] * v[1], r[2] * v[0] - r[0] * v[2], r[0] * v[1] - r[1] * v[0]];
-  const hn = Math.hypot(h[0], h[1], h[2]);
-  const rn = Math.hypot(r[0], r[1], r[2]);
-  const vr = (r[0] * v[0] + r[1] * v[1] + r[2] * v[2]) / rn;
-  const v2 = v[0] ** 2 + v[1] ** 2 + v[2] ** 2;
-  const ev = [0, 1, 2].map((k) => ((v2 - mu / rn) * r[k] - rn * vr * v[k]) / mu);
-  const e = Math.hypot(ev[0], ev[1], ev[2]);
-  return { rp: (hn * hn) / mu / (1 + e), i: Math.acos(h[2] / hn), e };
-}
 
 function allFinite(plan: Plan): Plan {
   return { ...plan, events: plan.events.map((e) => (e.type === 'burn' ? { ...e, mode: 'finite' as const } : e)) };
