@@ -21,7 +21,7 @@
 import type { ValidationIssue } from '../math/index.ts';
 import { MAX_PLAN_SPEED, MAX_START_DISTANCE } from '../plan/index.ts';
 import { MIN_BURNOUT_FRACTION, MIN_STAGE_THRUST } from '../plan/index.ts';
-import type { StarSystem } from '../system/index.ts';
+import { MAX_PLAN_YEARS_FROM_EPOCH, type StarSystem } from '../system/index.ts';
 import type { PlanDocument } from './planFileShape.ts';
 
 export type {
@@ -196,7 +196,23 @@ export function checkDocumentAgainstSystem(doc: unknown, system: StarSystem): Va
     return k;
   };
 
+  // Every absolute time the plan names, within MAX_PLAN_YEARS_FROM_EPOCH calendar years of the epoch.
+  const cal = system.calendar;
+  const span = MAX_PLAN_YEARS_FROM_EPOCH * cal.yearLength;
+  const era = cal.era ? ` ${cal.era}` : '';
+  const nearEpoch = (path: string, t: unknown): void => {
+    if (!num(t) || Math.abs(t) <= span) return;
+    const year = cal.yearAtEpoch + Math.floor(t / cal.yearLength);
+    issues.push(
+      err(
+        path,
+        `falls in year ${year}${era}, more than ${MAX_PLAN_YEARS_FROM_EPOCH.toLocaleString('en-US')} years from the epoch of ${system.name} (year ${cal.yearAtEpoch}${era}); Waymark flies plans within years ${cal.yearAtEpoch - MAX_PLAN_YEARS_FROM_EPOCH} to ${cal.yearAtEpoch + MAX_PLAN_YEARS_FROM_EPOCH}`,
+      ),
+    );
+  };
+
   const s = record(d.start);
+  if (s) nearEpoch('start.epoch_s', s.epoch_s);
   const sb = s && str(s.body) ? body('start.body', s.body) : -1;
   if (s && sb >= 0) {
     const b = system.bodies[sb];
@@ -222,6 +238,8 @@ export function checkDocumentAgainstSystem(doc: unknown, system: StarSystem): Va
     const ev = record(x);
     if (!ev) return;
     const solve = record(ev.solve);
+    nearEpoch(`events[${k}].t_s`, ev.t_s);
+    if (solve) nearEpoch(`events[${k}].solve.arrive_s`, solve.arrive_s);
     if (ev.type === 'burn' && solve?.kind === 'transfer' && str(solve.to)) {
       const to = body(`events[${k}].solve.to`, solve.to);
       if (to === 0) issues.push(err(`events[${k}].solve.to`, 'must name a body, not the star'));
@@ -234,6 +252,7 @@ export function checkDocumentAgainstSystem(doc: unknown, system: StarSystem): Va
       }
     }
     const u = record(ev.until);
+    if (u?.kind === 'time') nearEpoch(`events[${k}].until.t_s`, u.t_s);
     if (ev.type === 'coast' && u && (u.kind === 'periapsis' || u.kind === 'apoapsis') && str(u.body)) {
       body(`events[${k}].until.body`, u.body);
     }

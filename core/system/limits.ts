@@ -37,6 +37,12 @@ export const MAX_STABILITY_SAMPLES = 10_000;
 export const MAX_DISPERSION_SAMPLES = 100_000;
 /** Game steps of one game-step check (all spans, windows and probes; the demo's takes about 10⁸). */
 export const MAX_GAME_STEPS = 2_000_000_000;
+/**
+ * Calendar years between the system's epoch and any time a plan names (its start, burn times,
+ * arrival dates). The n-body ephemeris is integrated from the epoch, so a plan thousands of
+ * years away would take minutes to verify; ten centuries cover any story's mission.
+ */
+export const MAX_PLAN_YEARS_FROM_EPOCH = 1_000;
 /** Series points per span of a game-step check. */
 export const MAX_GAME_SAMPLES_PER_SPAN = 100_000;
 

@@ -15,6 +15,7 @@ import { parseSystemFile } from '../../../core/io/systemFile.ts';
 import type { Plan } from '../../../core/plan/plan.ts';
 import { planTruthModel } from '../../../core/plan/index.ts';
 import { samplePlan, stateStartPlan } from './planSamples.ts';
+import { MAX_PLAN_YEARS_FROM_EPOCH } from '../../../core/system/index.ts';
 
 type Doc = Record<string, any>;
 const SYSTEM_TEXT = readFileSync(new URL('../../../assets/systems/ilmar.system.json', import.meta.url), 'utf8');
@@ -478,6 +479,22 @@ describe('checkPlanAgainstSystem', () => {
     const got = checkPlanAgainstSystem(p, ilmar).map((i) => `${i.severity} ${i.path}: ${i.rule}`);
     expect(got).toContain('warning start.periapsis_altitude_m: is below the minimum safe altitude of Tessel (90000 m)');
     expect(got).toContainEqual(expect.stringMatching(/^error target\.periapsis_altitude_m: must be > -\d+ m \(the mean radius of Ochre\)$/));
+  });
+  it('refuses times more than 1,000 calendar years from the epoch, naming the year (year −5000 was accepted)', () => {
+    const cal = ilmar.calendar;
+    const p = samplePlan();
+    // year −5000 of the calendar: (−5000 − yearAtEpoch) whole years before the epoch
+    p.start = { ...p.start, epoch: (-5000 - cal.yearAtEpoch) * cal.yearLength };
+    const burn = p.events[0] as { t: number | null };
+    burn.t = (MAX_PLAN_YEARS_FROM_EPOCH + 1) * cal.yearLength;
+    const got = checkPlanAgainstSystem(p, ilmar).filter((i) => i.severity === 'error');
+    expect(got.map((i) => i.path)).toEqual(['start.epoch_s', 'events[0].t_s']);
+    expect(got[0].rule).toMatch(/^falls in year -5000\b.*more than 1,000 years from the epoch of Ilmar/);
+    expect(got[1].rule).toMatch(new RegExp(`^falls in year ${cal.yearAtEpoch + MAX_PLAN_YEARS_FROM_EPOCH + 1}\\b`));
+    // the edge: exactly the limit is accepted
+    burn.t = MAX_PLAN_YEARS_FROM_EPOCH * cal.yearLength;
+    p.start = { ...p.start, epoch: -MAX_PLAN_YEARS_FROM_EPOCH * cal.yearLength };
+    expect(checkPlanAgainstSystem(p, ilmar).filter((i) => i.severity === 'error')).toEqual([]);
   });
 });
 
