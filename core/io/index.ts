@@ -3,6 +3,27 @@
  * Other folders of core/ and the app import from here only.
  */
 export { burnTableCsv, ephemerisCsv } from './csv.ts';
+export {
+  ALTITUDE_MARGIN,
+  DEPARTURE_SPAN_RECURRENCES,
+  DISPERSION_DEFAULTS,
+  GAME_STEP_DEFAULTS,
+  INTEGRATOR_NAMES,
+  PORKCHOP_GRID,
+  PORKCHOP_GRID_CHOICES,
+  RESOLVE_NAMES,
+  TOF_SPAN_HOHMANN,
+  WINDOW_COUNT,
+  integratorChoices,
+  integratorName,
+  orbitAltitude,
+  parseIntegrator,
+  porkchopRanges,
+  requireSafeAltitude,
+  safeAltitude,
+  slug,
+} from './defaults.ts';
+export type { DispersionDefaults, GameStepDefaults, IntegratorId, PorkchopRanges } from './defaults.ts';
 export { inlineLocalRefs } from './fileValidator.ts';
 export { issueInWords, issuesInWords } from './issueWords.ts';
 export type { IssueWords } from './issueWords.ts';

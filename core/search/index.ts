@@ -9,7 +9,9 @@ export { computePorkchopAsync, computePorkchopRows, createGrid, gridCell, gridMi
 export type { PorkchopGrid } from './porkchop.ts';
 export { PORKCHOP_METRICS } from './request.ts';
 export type { PorkchopMetric, PorkchopRequest } from './request.ts';
-export { FROM_PARENT, SIBLINGS, prepareTransfer } from './transfer.ts';
+export { porkchopPair } from './pair.ts';
+export type { PorkchopPair } from './pair.ts';
+export { FROM_PARENT, SIBLINGS, TO_PARENT, prepareTransfer } from './transfer.ts';
 export type { TransferCell } from './transfer.ts';
 export { findWindows } from './windows.ts';
 export type { TransferWindow, WindowOptions } from './windows.ts';

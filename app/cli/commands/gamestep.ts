@@ -1,11 +1,13 @@
 /**
- * `waymark gamestep PLAN --integrator NAME --dt SECONDS [--float32] [--rebase] [--sweep]
+ * `waymark gamestep PLAN [--integrator NAME] [--dt SECONDS] [--float32] [--rebase] [--sweep]
  *  [--tolerance KM] [--json]` — flies a plan file with a game's own physics and compares it with
  * the reference flight (core/gamestep/check.ts); with --sweep also the largest step per
  * integrator, the cheapest integrator and the float32 / floating-origin verdict
  * (core/gamestep/sweep.ts).
  *
- * Options: --dt takes seconds, a fraction (1/60) or a duration with a unit (10ms); --tolerance
+ * Options (defaults shared with the app's Game step panel, core/io/defaults.ts): --integrator
+ * takes an id or the slug of its name (verlet or velocity-verlet-leapfrog; default verlet);
+ * --dt takes seconds, a fraction (1/60, the default) or a duration with a unit (10ms); --tolerance
  * is in km (or with a unit, 500m; default: the plan target's periapsis tolerance, else 10 km);
  * --gravity central|all, --burns impulsive|spread, --guidance resolve|open-loop,
  * --rebase-distance (default 10 km), --no-rebase-velocity, --coast-step (fly long coasts as a
@@ -20,7 +22,7 @@
  * ONLY" with the largest error), 1 it does not, 2 bad input or file, 3 numerical failure.
  */
 import { type Command, Option } from 'commander';
-import { parseQuantity } from '../../../core/io/index.ts';
+import { GAME_STEP_DEFAULTS, integratorChoices, integratorName, parseIntegrator, parseQuantity } from '../../../core/io/index.ts';
 import { InputError } from '../../../core/math/index.ts';
 import {
   DEFAULT_REBASE,
@@ -89,7 +91,7 @@ function choice<T extends string>(field: string, text: string, allowed: readonly
 
 /** The physics the options describe. */
 export function physicsFromOptions(o: GamestepOptions): GamePhysicsInput {
-  const integrator = choice<GameIntegrator>('--integrator', o.integrator, GAME_INTEGRATORS);
+  const integrator = parseIntegrator<GameIntegrator>('--integrator', o.integrator, GAME_INTEGRATORS);
   const dt = parseStep('--dt', o.dt);
   const rebase = o.rebase ? { distance: parseKm('--rebase-distance', o.rebaseDistance), velocity: o.rebaseVelocity !== false } : null;
   return {
@@ -130,7 +132,7 @@ export function checkText(system: StarSystem, planName: string, r: GameStepResul
   const out: string[] = [];
   out.push(`game-step check — plan ${planName}, system ${system.name}`);
   out.push(
-    `physics: ${p.integrator}, dt ${num(p.dt, 6)} s, ${p.precision}, ` +
+    `physics: ${integratorName(p.integrator)} (${p.integrator}), dt ${num(p.dt, 6)} s, ${p.precision}, ` +
       `${p.rebase ? `floating origin at ${len(p.rebase.distance)}${p.rebase.velocity ? ' (position and velocity)' : ' (position)'}` : 'no floating origin'}, ` +
       `${p.gravity === 'central' ? 'central-body gravity' : 'gravity of all bodies'}, ${p.burns} burns, ${p.guidance === 'resolve' ? 're-solved' : 'open-loop'} guidance`,
   );
@@ -291,15 +293,15 @@ export function addGamestepCommand(program: Command): void {
     .command('gamestep')
     .description("fly a plan with a game's fixed-step physics (integrator, step, float32, floating origin) and compare with the reference flight")
     .argument('<plan>', 'plan file (.plan.json)')
-    .requiredOption('--integrator <name>', `the game's integrator: ${GAME_INTEGRATORS.join(', ')}`)
-    .requiredOption('--dt <seconds>', 'fixed step: seconds, a fraction (1/60) or with a unit (20ms)')
+    .option('--integrator <name>', `the game's integrator, by id or name: ${integratorChoices(GAME_INTEGRATORS)}`, GAME_STEP_DEFAULTS.integrator)
+    .option('--dt <seconds>', 'fixed step: seconds, a fraction (1/60) or with a unit (20ms)', GAME_STEP_DEFAULTS.dt)
     .option('--float32', 'single-precision arithmetic (emulated)')
     .option('--rebase', 'floating origin: re-centre the craft when it strays beyond --rebase-distance')
     .option('--rebase-distance <km>', 'floating-origin threshold (km, or with a unit)', String(DEFAULT_REBASE.distance / 1000))
     .option('--no-rebase-velocity', 're-centre the position only, not the velocity')
-    .option('--gravity <model>', 'central (patched conics) or all (every body)', 'central')
-    .option('--burns <model>', 'impulsive (at the nearest step) or spread (over steps at the thrust)', 'impulsive')
-    .option('--guidance <g>', 'resolve (solved burns re-solved from the game state) or open-loop', 'resolve')
+    .option('--gravity <model>', 'central (patched conics) or all (every body)', GAME_STEP_DEFAULTS.gravity)
+    .option('--burns <model>', 'impulsive (at the nearest step) or spread (over steps at the thrust)', GAME_STEP_DEFAULTS.burns)
+    .option('--guidance <g>', 'resolve (solved burns re-solved from the game state) or open-loop', GAME_STEP_DEFAULTS.guidance)
     .option('--sweep', 'also sweep the step per integrator and compare float64 / float32 / floating origin')
     .option('--tolerance <km>', 'position tolerance at arrival (km, or with a unit)')
     .option('--energy-tolerance <x>', 'relative energy drift per orbit allowed')

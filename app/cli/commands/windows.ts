@@ -6,9 +6,11 @@
  * Times: a calendar date of the system ("412-037", "412-037T06:12", "Year 412 TR, day 37") or
  * a duration from the epoch with a unit ("120d", "3.5e7s"); flight times are durations.
  * `d` is 86 400 s here (core/io/units.ts), and flight times are printed in those days.
- * Defaults: departures over 1.5 synodic periods from the epoch (1.5 moon periods for a
- * planet–moon pair), flight times from 0.5 to 2 Hohmann flight times, a 200×200 grid, parking
- * and capture periapses 100 km above each body's minimum safe altitude.
+ * Defaults (core/io/defaults.ts, shared with the app's Windows screen): departures over 1.5
+ * synodic periods from the epoch (1.5 moon periods for a planet–moon pair), flight times from
+ * 0.5 to 2 Hohmann flight times, a 200×200 grid, parking and capture periapses 100 km above each
+ * body's minimum safe altitude (never below it). Any pair of bodies: a pair no single transfer
+ * covers (Tessel → Skerry) searches the leg that has the window (Tessel → Moravel) and says so.
  *
  * Output: text table (calendar dates, flight days, Δv in m/s, C3 in km²/s², v∞ in km/s);
  * `--json`: { request, grid: { min, nDepart, nTof, secondAxis, unsolved }, windows } in SI;
@@ -22,13 +24,12 @@
 import { availableParallelism } from 'node:os';
 import type { Command } from 'commander';
 import { parseQuantity, parseRange } from '../../../core/io/index.ts';
+import { ALTITUDE_MARGIN, DEPARTURE_SPAN_RECURRENCES, PORKCHOP_GRID, TOF_SPAN_HOHMANN, WINDOW_COUNT, porkchopRanges, requireSafeAltitude, type PorkchopRanges } from '../../../core/io/index.ts';
 import { InputError } from '../../../core/math/index.ts';
-import { hohmann } from '../../../core/orbit/index.ts';
-import { synodicPeriod } from '../../../core/orbit/index.ts';
 import { computePorkchopAsync, gridCell, gridMinimum, type PorkchopGrid } from '../../../core/search/index.ts';
 import { FLOAT_PLANES, INT_PLANES } from '../../../core/search/index.ts';
 import { PORKCHOP_METRICS, type PorkchopMetric, type PorkchopRequest } from '../../../core/search/index.ts';
-import { FROM_PARENT, prepareTransfer, SIBLINGS, type TransferCell } from '../../../core/search/index.ts';
+import { prepareTransfer, type TransferCell } from '../../../core/search/index.ts';
 import { findWindows, type TransferWindow } from '../../../core/search/index.ts';
 import { formatCompactDate, parseDate } from '../../../core/system/index.ts';
 import { findBodyIndex, type StarSystem, type SystemCalendar } from '../../../core/system/index.ts';
@@ -39,8 +40,6 @@ import { computePorkchopPooled } from '../pool.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 
 const DAY = 86400;
-/** Default parking/capture altitude above the body's minimum safe altitude, m. */
-export const DEFAULT_ALTITUDE_MARGIN = 100e3;
 /** Grids of fewer cells than this run in the calling thread when --workers is 'auto'. */
 export const AUTO_WORKER_CELLS = 250_000;
 const MAX_AUTO_WORKERS = 8;
@@ -101,26 +100,43 @@ interface WindowsOptions {
   gridOut?: string;
 }
 
-/** Turns the options into a porkchop request (defaults filled from the system). */
+/** Turns the options into a porkchop request (defaults from core/io/defaults.ts and the system). */
 export function buildRequest(system: StarSystem, o: WindowsOptions): PorkchopRequest {
+  return resolveRequest(system, o).request;
+}
+
+/** The request and, for a pair no single transfer covers, why another leg is searched (in words). */
+export function resolveRequest(system: StarSystem, o: WindowsOptions): { request: PorkchopRequest; through: string | null } {
   const cal = system.calendar;
-  const from = bodyIndex(system, '--from', o.from);
-  const to = bodyIndex(system, '--to', o.to);
+  const askedFrom = bodyIndex(system, '--from', o.from);
+  const askedTo = bodyIndex(system, '--to', o.to);
   const [nDepart, nSecond] = parseGrid(o.grid);
-  const A = system.bodies[from];
-  const B = system.bodies[to];
-  const parkingAltitude = o.parking !== undefined ? parseQuantity('--parking', o.parking, 'length') : A.safeAlt + DEFAULT_ALTITUDE_MARGIN;
-  const arrivalAltitude = o.capture !== undefined ? parseQuantity('--capture', o.capture, 'length') : B.safeAlt + DEFAULT_ALTITUDE_MARGIN;
   if (o.flyby && o.captureE !== '0') throw new InputError('--capture-e', 'cannot be combined with --flyby');
   const metric = o.metric as PorkchopMetric;
   if (!PORKCHOP_METRICS.includes(metric)) throw new InputError('--metric', `must be one of ${PORKCHOP_METRICS.join(', ')}`, o.metric);
   if (o.tof !== undefined && o.arrive !== undefined) throw new InputError('--arrive', 'cannot be combined with --tof');
+  const parkingWanted = o.parking !== undefined ? parseQuantity('--parking', o.parking, 'length') : undefined;
+  // The leg with the window and its default ranges (typed error for an unusable pair).
+  let ranges: PorkchopRanges;
+  try {
+    ranges = porkchopRanges(system, askedFrom, askedTo, 0, parkingWanted);
+  } catch (e) {
+    if (e instanceof InputError && (e.field === 'from' || e.field === 'to')) throw new InputError(`--${e.field}`, e.rule, e.value);
+    throw e;
+  }
+  const { from, to } = ranges.pair;
+  const A = system.bodies[from];
+  const B = system.bodies[to];
+  const parkingAltitude = parkingWanted ?? ranges.parkingAltitude;
+  const arrivalAltitude = o.capture !== undefined ? parseQuantity('--capture', o.capture, 'length') : ranges.captureAltitude;
+  requireSafeAltitude('--parking', A, parkingAltitude);
+  if (!o.flyby) requireSafeAltitude('--capture', B, arrivalAltitude);
   const base: PorkchopRequest = {
     from,
     to,
-    depart: { start: 0, end: 1, n: nDepart },
+    depart: { start: ranges.depart.start, end: ranges.depart.end, n: nDepart },
     secondAxis: 'tof',
-    second: { start: 1, end: 2, n: nSecond },
+    second: { start: ranges.tof.min, end: ranges.tof.max, n: nSecond },
     parkingAltitude,
     parkingEccentricity: parseQuantity('--parking-e', o.parkingE, 'none'),
     arrivalAltitude,
@@ -129,33 +145,11 @@ export function buildRequest(system: StarSystem, o: WindowsOptions): PorkchopReq
     retrograde: !!o.retrograde,
     metric,
   };
-  // Resolves the pair (typed error for an unusable pair) before the defaults need it.
-  let setup: ReturnType<typeof prepareTransfer>;
-  try {
-    setup = prepareTransfer(system, base);
-  } catch (e) {
-    if (e instanceof InputError && (e.field === 'from' || e.field === 'to')) throw new InputError(`--${e.field}`, e.rule, e.value);
-    throw e;
-  }
-  const central = system.bodies[setup.central];
-  let recurrence: number;
-  let hohmannTof: number;
-  if (setup.kind === SIBLINGS) {
-    recurrence = A.derived.period === B.derived.period ? A.derived.period : synodicPeriod(A.derived.period, B.derived.period);
-    hohmannTof = hohmann(central.mu, A.elements!.a, B.elements!.a).tof;
-  } else if (setup.kind === FROM_PARENT) {
-    recurrence = B.derived.period;
-    hohmannTof = hohmann(central.mu, setup.rPark, B.elements!.a).tof;
-  } else {
-    recurrence = A.derived.period;
-    hohmannTof = hohmann(central.mu, A.elements!.a, setup.rArrive).tof;
-  }
+  prepareTransfer(system, base); // the orbits are usable (typed error otherwise)
   const time = (field: string, text: string): number => parseTime(cal, field, text);
   if (o.depart !== undefined) {
     const [t0, t1] = parseRange('--depart', o.depart, time);
     base.depart = { start: t0, end: t1, n: nDepart };
-  } else {
-    base.depart = { start: 0, end: 1.5 * recurrence, n: nDepart };
   }
   if (o.arrive !== undefined) {
     const [t0, t1] = parseRange('--arrive', o.arrive, time);
@@ -165,10 +159,8 @@ export function buildRequest(system: StarSystem, o: WindowsOptions): PorkchopReq
     const [t0, t1] = parseRange('--tof', o.tof, 'time');
     if (!(t0 > 0)) throw new InputError('--tof', 'must start above zero', o.tof);
     base.second = { start: t0, end: t1, n: nSecond };
-  } else {
-    base.second = { start: 0.5 * hohmannTof, end: 2 * hohmannTof, n: nSecond };
   }
-  return base;
+  return { request: base, through: ranges.pair.through };
 }
 
 function workerCount(text: string, cells: number): number {
@@ -331,20 +323,23 @@ export function addWindowsCommand(program: Command): void {
     .requiredOption('--system <file>', 'system file')
     .requiredOption('--from <body>', 'departure body id')
     .requiredOption('--to <body>', 'arrival body id')
-    .option('--depart <start..end>', 'departure range: calendar dates (412-037) or times from the epoch (0d..800d)')
-    .option('--tof <min..max>', 'flight-time range (e.g. 100d..400d)')
+    .option(
+      '--depart <start..end>',
+      `departure range: calendar dates (412-037) or times from the epoch (0d..800d); default: from the epoch over ${DEPARTURE_SPAN_RECURRENCES} synodic periods`,
+    )
+    .option('--tof <min..max>', `flight-time range (e.g. 100d..400d); default: ${TOF_SPAN_HOHMANN[0]} to ${TOF_SPAN_HOHMANN[1]} Hohmann flight times`)
     .option('--arrive <start..end>', 'arrival-time range instead of --tof (grid over departure x arrival)')
-    .option('--grid <NxM>', 'samples: departures x flight times', '200x200')
-    .option('--parking <alt>', 'parking-orbit periapsis altitude (default: minimum safe altitude + 100 km)')
+    .option('--grid <NxM>', 'samples: departures x flight times', `${PORKCHOP_GRID}x${PORKCHOP_GRID}`)
+    .option('--parking <alt>', `parking-orbit periapsis altitude, at least the body's minimum safe altitude (default: that + ${ALTITUDE_MARGIN / 1e3} km)`)
     .option('--parking-e <e>', 'parking-orbit eccentricity', '0')
-    .option('--capture <alt>', 'capture periapsis altitude (default: minimum safe altitude + 100 km)')
+    .option('--capture <alt>', `capture periapsis altitude, at least the body's minimum safe altitude (default: that + ${ALTITUDE_MARGIN / 1e3} km)`)
     .option('--capture-e <e>', 'target-orbit eccentricity', '0')
     .option('--flyby', 'no capture burn (arrival Δv = 0)')
     .option('--revs <n>', 'largest number of complete revolutions on the arc', '0')
     .option('--retrograde', 'retrograde transfer arcs')
     .option('--metric <m>', `what "best" means: ${PORKCHOP_METRICS.join(', ')}`, 'total')
     .option('--workers <n>', "worker threads for the grid (0 = in this thread; 'auto' by grid size)", 'auto')
-    .option('--top <k>', 'number of windows to list', '5')
+    .option('--top <k>', 'number of windows to list', String(WINDOW_COUNT))
     .option('--grid-out <file>', 'also write the whole grid (JSON, or CSV for a .csv name)')
     .option('--json', 'machine-readable output')
     .option('--csv', 'the windows as CSV')
@@ -359,7 +354,7 @@ export function addWindowsCommand(program: Command): void {
         const { system } = await loadSystemFile(o.system);
         const outputRules: OutputRules = { inputs: [{ path: o.system, what: 'the system file read (--system)' }] };
         if (gridOut) await checkOutputs([gridOut], outputRules);
-        const request = buildRequest(system, o);
+        const { request, through } = resolveRequest(system, o);
         const top = parseCount('--top', o.top, 1);
         const cells = request.depart.n * request.second.n;
         const workers = workerCount(o.workers, cells);
@@ -386,6 +381,7 @@ export function addWindowsCommand(program: Command): void {
         if (o.json) {
           printJson({
             request: { ...grid.request, fromId: system.bodies[request.from].id, toId: system.bodies[request.to].id },
+            through,
             grid: {
               min: min ? { ...cellJson(cal, min), i: m!.i, j: m!.j } : null,
               nDepart: grid.request.depart.n,
@@ -399,7 +395,7 @@ export function addWindowsCommand(program: Command): void {
         } else if (o.csv) {
           printData(windowsCsv(cal, windows));
         } else if (gridOut?.path !== STDOUT) {
-          printText(textReport(system, grid, min, windows));
+          printText(`${through === null ? '' : `${through}\n`}${textReport(system, grid, min, windows)}`);
         }
         return windows.length === 0 ? EXIT_NO : undefined;
       }),

@@ -4,6 +4,7 @@
  * n-body panel.
  */
 import type { FlownSpan } from '../../../core/integrate/index.ts';
+import { integratorName } from '../../../core/io/index.ts';
 
 export interface MethodGroup {
   method: string;
@@ -16,14 +17,6 @@ export interface MethodGroup {
   fallback: boolean;
 }
 
-const LABEL: Record<string, string> = {
-  rk45: 'RK45 (Dormand–Prince)',
-  yoshida4: 'Yoshida 4th-order symplectic',
-  verlet: 'velocity Verlet',
-  'symplectic-euler': 'semi-implicit Euler',
-  'explicit-euler': 'explicit Euler',
-  rk4: 'classic RK4',
-};
 
 export function methodGroups(spans: readonly FlownSpan[]): MethodGroup[] {
   const out: MethodGroup[] = [];
@@ -32,7 +25,7 @@ export function methodGroups(spans: readonly FlownSpan[]): MethodGroup[] {
     const key = s.reason.replace(/[-+]?\d[\d.e+-]*/g, '#');
     let g = out.find((x) => x.method === s.method && x.reason.replace(/[-+]?\d[\d.e+-]*/g, '#') === key);
     if (!g) {
-      g = { method: s.method, label: LABEL[s.method] ?? s.method, reason: s.reason, spans: 0, seconds: 0, fallback: s.method !== 'rk45' };
+      g = { method: s.method, label: integratorName(s.method), reason: s.reason, spans: 0, seconds: 0, fallback: s.method !== 'rk45' };
       out.push(g);
     }
     g.spans++;

@@ -12,6 +12,7 @@ import type { EvaluationState } from '../state/evaluation.ts';
 import { Observable, type Readable } from '../state/observable.ts';
 import type { AnalysisClient } from './client.ts';
 import type { AnalysisJob } from './protocol.ts';
+import { dispersionFormDefaults, dispersionOptions } from './dispersionForm.ts';
 
 export type AnalysisKind = 'verify' | 'correct' | 'disperse';
 
@@ -88,7 +89,7 @@ export class AnalysisStore implements Readable<AnalysisState> {
       if (!e.result || e.stale) return this.fail(kind, 'the plan does not evaluate; fix it first');
       job = { kind, system: d.system, plan: d.plan, result: e.result };
     } else if (kind === 'correct') job = { kind, system: d.system, plan: d.plan };
-    else job = { kind, system: d.system, plan: d.plan, options: dispersion ?? { samples: 500 } };
+    else job = { kind, system: d.system, plan: d.plan, options: dispersion ?? dispersionOptions(dispersionFormDefaults()) };
     const { revision, generation } = d;
     const seq = ++this.#seq;
     this.#out.set({ ...this.#out.get(), running: kind, progress: 0, note: '' });

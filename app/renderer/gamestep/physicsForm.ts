@@ -7,7 +7,7 @@
  * Steps accept seconds ("0.02"), a fraction ("1/60") or a duration with a unit ("20 ms");
  * lengths are km unless a unit is given ("500 m").
  */
-import { parseQuantity } from '../../../core/io/index.ts';
+import { GAME_STEP_DEFAULTS, INTEGRATOR_NAMES, parseQuantity } from '../../../core/io/index.ts';
 import { DEFAULT_ENERGY_TOLERANCE, DEFAULT_REBASE, type GameIntegrator, type GamePhysicsInput } from '../../../core/gamestep/index.ts';
 import type { GameStepJobOptions } from '../analysis/checkJobs.ts';
 
@@ -31,29 +31,25 @@ export interface PhysicsForm {
   warpDt: string;
 }
 
+/** The form's starting values: the command line's `gamestep` defaults (core/io/defaults.ts). */
 export const DEFAULT_FORM: PhysicsForm = {
-  integrator: 'verlet',
-  dt: '1/60',
+  integrator: GAME_STEP_DEFAULTS.integrator,
+  dt: GAME_STEP_DEFAULTS.dt,
   precision: 'float64',
   rebase: false,
   rebaseDistance: String(DEFAULT_REBASE.distance / 1000),
   rebaseVelocity: true,
-  gravity: 'central',
-  burns: 'impulsive',
-  guidance: 'resolve',
+  gravity: GAME_STEP_DEFAULTS.gravity,
+  burns: GAME_STEP_DEFAULTS.burns,
+  guidance: GAME_STEP_DEFAULTS.guidance,
   tolerance: '',
   energyTolerance: '',
   longCoasts: 'extrapolate',
-  warpDt: '10',
+  warpDt: GAME_STEP_DEFAULTS.coastStep,
 };
 
-/** The integrators in the panel's words, in the core's order. */
-export const INTEGRATOR_NAMES: Record<GameIntegrator, string> = {
-  'symplectic-euler': 'semi-implicit Euler',
-  verlet: 'velocity Verlet (leapfrog)',
-  'explicit-euler': 'explicit Euler',
-  rk4: 'classic RK4',
-};
+/** The integrators' display names: the one table of core/io/defaults.ts (the command line's help uses it too). */
+export { INTEGRATOR_NAMES };
 
 /** Step presets offered beside the step field. */
 export const STEP_PRESETS = ['1/60', '1/30', '1/50', '0.02', '0.1', '1', '10', '60'];

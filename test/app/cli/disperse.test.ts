@@ -26,7 +26,7 @@ describe.concurrent('waymark disperse', () => {
   });
 
   it('zero σ: P(margin holds) is exactly 1 for the demo', async () => {
-    const r = await runCli(['disperse', DEMO, '--samples', '20', '--json', '--workers', '1']);
+    const r = await runCli(['disperse', DEMO, '--samples', '20', '--mag-sigma', '0', '--point-sigma', '0', '--json', '--workers', '1']);
     expect(r.code).toBe(0);
     const j = JSON.parse(r.stdout);
     expect(j.pMarginHolds).toBe(1);

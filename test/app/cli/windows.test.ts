@@ -88,12 +88,27 @@ describe('waymark windows', () => {
     ).toBe(1);
   });
 
+  it('a pair no single transfer covers searches the leg with the window and says so (Tessel to Skerry: Tessel to Moravel)', () => {
+    const r = cli('windows', ...DEMO, '--from', 'tessel', '--to', 'skerry', '--grid', '12x10', '--json');
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(out.request.fromId).toBe('tessel');
+    expect(out.request.toId).toBe('moravel');
+    expect(out.through).toBe('Skerry is reached through Moravel: the window shown is Tessel → Moravel');
+    // the default capture is Moravel's, above its 1000 km safe altitude
+    expect(out.request.arrivalAltitude).toBeGreaterThanOrEqual(1000e3);
+  });
+
   it('bad input exits 2 with a typed error naming the option', () => {
-    const r = cli('windows', ...DEMO, '--from', 'tessel', '--to', 'skerry', '--grid', '10x10', '--json');
+    const r = cli('windows', ...DEMO, '--from', 'tessel', '--to', 'tessel', '--grid', '10x10', '--json');
     expect(r.code).toBe(2);
     const e = JSON.parse(r.stdout).error;
     expect(e.type).toBe('InputError');
     expect(e.field).toBe('--to');
+    // Moravel's minimum safe altitude is 1000 km: a 400 km capture is refused, never carried
+    const c = cli('windows', ...DEMO, '--from', 'tessel', '--to', 'moravel', '--capture', '400km', '--grid', '10x10', '--json');
+    expect(c.code).toBe(2);
+    expect(JSON.parse(c.stdout).error.field).toBe('--capture');
     const g = cli('windows', ...DEMO, '--from', 'tessel', '--to', 'ochre', '--grid', '10by10');
     expect(g.code).toBe(2);
     expect(g.stderr).toMatch(/--grid/);
