@@ -6,7 +6,7 @@ export { sampleEphemeris } from './ephemerisSampler.ts';
 export type { EphemerisSpan, SampledEphemeris } from './ephemerisSampler.ts';
 export { evaluate } from './evaluate.ts';
 export { planFromWindow } from './fromWindow.ts';
-export { conicInfo, createConicInfo } from './soiCrossing.ts';
+export { conicInfo, createConicInfo, timeToApsis } from './soiCrossing.ts';
 export type { ConicInfo } from './soiCrossing.ts';
 export { shipStateAt } from './shipState.ts';
 export { solveBurn } from './solveBurn.ts';

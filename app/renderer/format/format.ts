@@ -6,6 +6,7 @@
  */
 import { formatCompactDate, formatDate, formatDayLength, formatElapsed } from '../../../core/system/index.ts';
 import type { StarSystem, SystemCalendar } from '../../../core/system/index.ts';
+import { displayCalendar, type DayMode } from './dayMode.ts';
 
 const NNBSP = '\u202f';
 const MINUS = '\u2212';
@@ -86,11 +87,13 @@ export function elapsed(cal: SystemCalendar, t: number, t0: number): string {
 }
 
 /**
- * Whose day the calendar counts and how long it is: "days of Tessel: 26 h 06 min" (or
- * "calendar day: 25 h 00 min" when the system file gives the lengths itself). Dates count these
- * days and their clock runs past 24 h when the day is longer; elapsed times count 86 400 s days.
+ * Whose day the dates count and how long it is: "days of Tessel: 26 h 06 min" (or
+ * "calendar day: 25 h 00 min" when the system file gives the lengths itself), or with the
+ * standard-day option (dayMode.ts) "standard days: 24 h 00 min". Dates count these days and
+ * their clock runs past 24 h when the day is longer; elapsed times count 86 400 s days.
  */
-export function calendarDay(system: Pick<StarSystem, 'calendar' | 'bodies'>): string {
+export function calendarDay(system: Pick<StarSystem, 'calendar' | 'bodies'>, mode: DayMode = 'home'): string {
+  if (mode === 'standard') return `standard days: ${formatDayLength(displayCalendar(system.calendar, mode))}`;
   const cal = system.calendar;
   const home = cal.homeIndex >= 0 ? system.bodies[cal.homeIndex]?.name : undefined;
   return `${home ? `days of ${home}` : 'calendar day'}: ${formatDayLength(cal)}`;

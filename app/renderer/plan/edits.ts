@@ -32,7 +32,11 @@ export function freshId(plan: Plan, prefix: string): string {
 
 export type NewEventKind = 'burn' | 'coast' | 'stage';
 
-/** The event a user gets from "Add burn / coast / staging": valid, small, easy to change. */
+/**
+ * The event a user gets from "Add burn / coast / staging" without context: valid, small, easy to
+ * change (a zero burn at the end of the event before it; plan/newBurn.ts chooses a burn that
+ * fits the end of a flown plan).
+ */
 export function newEvent(plan: Plan, kind: NewEventKind): PlanEvent {
   switch (kind) {
     case 'burn': {
@@ -43,7 +47,7 @@ export function newEvent(plan: Plan, kind: NewEventKind): PlanEvent {
         name: `Burn ${n}`,
         t: null,
         frame: 'vnb',
-        dv: [10, 0, 0],
+        dv: [0, 0, 0],
         solve: { kind: 'fixed' },
         mode: 'impulsive',
         pointing: 'velocity',
@@ -61,11 +65,24 @@ export function newEvent(plan: Plan, kind: NewEventKind): PlanEvent {
   }
 }
 
-/** Inserts a new event after index `after` (−1: at the start; default: at the end). */
-export function addEvent(plan: Plan, kind: NewEventKind, after = plan.events.length - 1): Plan {
+/** Inserts a new event after index `after` (−1: at the start; default: at the end): `event` when given, else newEvent's. */
+export function addEvent(plan: Plan, kind: NewEventKind, after = plan.events.length - 1, event?: PlanEvent): Plan {
   const next = clone(plan);
-  next.events.splice(Math.max(0, Math.min(after + 1, next.events.length)), 0, newEvent(plan, kind));
+  next.events.splice(Math.max(0, Math.min(after + 1, next.events.length)), 0, event ? structuredClone(event) : newEvent(plan, kind));
   return next;
+}
+
+/**
+ * Where a new event goes, as the index of the event it follows (addEvent's `after`): at the end
+ * unless the user has put an insertion point after an event (`afterId`) or at the start
+ * (`'start'`). An insertion point after an event no longer in the plan means the end.
+ */
+export type InsertionPoint = null | 'start' | { afterId: string };
+export function insertionAfter(plan: Plan, point: InsertionPoint): number {
+  if (point === null) return plan.events.length - 1;
+  if (point === 'start') return -1;
+  const i = plan.events.findIndex((e) => e.id === point.afterId);
+  return i < 0 ? plan.events.length - 1 : i;
 }
 
 export function insertEvent(plan: Plan, event: PlanEvent, at: number): Plan {

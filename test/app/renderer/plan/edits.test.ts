@@ -108,3 +108,24 @@ describe('putting a porkchop transfer into a plan', async () => {
     expect(new Set(ids).size).toBe(ids.length);
   });
 });
+
+describe('where a new event goes', () => {
+  it('at the end by default, after the event an insertion point names, or at the start', () => {
+    const n = plan.events.length;
+    expect(edits.insertionAfter(plan, null)).toBe(n - 1);
+    expect(edits.insertionAfter(plan, 'start')).toBe(-1);
+    expect(edits.insertionAfter(plan, { afterId: plan.events[2].id })).toBe(2);
+    // a point after an event that is gone means the end
+    expect(edits.insertionAfter(plan, { afterId: 'no-such-event' })).toBe(n - 1);
+    const atEnd = edits.addEvent(plan, 'coast', edits.insertionAfter(plan, null));
+    expect(atEnd.events.slice(0, n)).toEqual(plan.events);
+    expect(atEnd.events[n].type).toBe('coast');
+    const third = edits.addEvent(plan, 'stage', edits.insertionAfter(plan, { afterId: plan.events[2].id }));
+    expect(third.events[3].type).toBe('stage');
+    expect(third.events.filter((_, k) => k !== 3)).toEqual(plan.events);
+  });
+  it('a burn without context is a zero burn (never an arbitrary Δv)', () => {
+    const b = edits.newEvent(plan, 'burn');
+    expect(b.type === 'burn' && b.dv).toEqual([0, 0, 0]);
+  });
+});
