@@ -1,6 +1,6 @@
 /**
  * The layers of core/ (DESIGN.md, DEVELOPERS.md):
- *   math ← integrate ← orbit ← system ← dynamics ← plan ← conic ← nbody ← target ← gamestep ← checks ← search ← io.
+ *   math ← integrate ← orbit ← system ← dynamics ← plan ← conic ← nbody ← target ← gamestep ← checks ← search ← route ← io.
  * A folder imports only itself and the folders below it, and another folder only through its
  * front door (index.ts); no module takes part in an import cycle; and core/ imports no Node
  * built-in, no DOM-only module and no UI package, so it runs unchanged in the renderer, workers
@@ -10,7 +10,7 @@ import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { dirname, join, normalize, relative } from 'node:path';
 import { describe, expect, it } from 'vitest';
 
-const LAYERS = ['math', 'integrate', 'orbit', 'system', 'dynamics', 'plan', 'conic', 'nbody', 'target', 'gamestep', 'checks', 'search', 'io'];
+const LAYERS = ['math', 'integrate', 'orbit', 'system', 'dynamics', 'plan', 'conic', 'nbody', 'target', 'gamestep', 'checks', 'search', 'route', 'io'];
 const core = new URL('../../core/', import.meta.url).pathname;
 
 function files(dir: string): string[] {

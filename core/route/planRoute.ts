@@ -1,0 +1,213 @@
+/**
+ * A whole route from intent: where the ship is (a circular orbit of a planet or moon), where it
+ * must end (an orbit of another), a departure date range and a vehicle — the event sequence
+ * built hop by hop (chain.ts), then targeted in the plan's truth model with core/target
+ * targetPlan.
+ *
+ * Hops and the orbits between them:
+ * - 'siblings' (siblings.ts): the best porkchop window in the date range; the first hop of a
+ *   route lays the parking orbit so the departure burn is tangential.
+ * - 'to-moon' (toMoon.ts): the cheapest coast × time-of-flight pair from the ship's conic.
+ * - 'to-parent' (toParent.ts): a patched-conic escape against the moon's motion, its size
+ *   corrected on the flight to reach the aim periapsis.
+ * - Arrivals (arrive.ts): the final orbit in two apsis burns (and a plane burn at a node for an
+ *   inclination); an intermediate orbit in one capture burn.
+ * Intermediate orbits: after 'to-parent' followed by an interplanetary hop, a low circular orbit of
+ * the planet (altitude max(2 × safe altitude, 5 % of the radius)); after 'siblings' followed by
+ * 'to-moon', an ellipse about the planet from 85 % of the moon's orbit radius to 1.8 times it
+ * (within 80 % of the planet's sphere of influence), as the moon demo plan does (captured high in
+ * the well, a short transfer to the moon).
+ * Limits (what these choices cost): from a moon to another planet the route drops into a low orbit
+ * of the home planet and leaves it again — a direct escape from the moon's orbit onto the
+ * interplanetary arc would save most of that capture burn (roughly the planet's low-orbit
+ * capture from the moon's distance, a few km/s at Tessel). A departure from an orbit the route did
+ * not lay (after a 'to-parent' hop) is rarely tangential and costs more. The date range applies to
+ * the route's first departure; a later interplanetary window is searched over a range of the same
+ * length from the arrival of the hop before. Single-revolution, prograde transfer arcs only.
+ */
+import { InputError, SolverError } from '../math/index.ts';
+import { bodyState, formatDate, type StarSystem } from '../system/index.ts';
+import type { Plan, PlanTarget } from '../plan/index.ts';
+import { targetPlan, type TargetResult } from '../target/index.ts';
+import type { RouteHopKind } from './chain.ts';
+import { checkIntent, type RouteIntent } from './intent.ts';
+import { eventId, situationAfter, type Draft, type Situation } from './draft.ts';
+import { captureDv, captureEvents, finalAim, finalArrivalDv, finalArrivalEvents, type ArrivalAim, type FinalOrbit } from './arrive.ts';
+import { bestWindow, siblingsEvents } from './siblings.ts';
+import { searchMoonTransfer, toMoonEvents } from './toMoon.ts';
+import { toParentEvents } from './toParent.ts';
+import { cross, parkingThrough, planeWithInclination, unit, type V3 } from './geometry.ts';
+
+export interface RouteHop {
+  kind: RouteHopKind;
+  from: string;
+  to: string;
+  /** Departure burn and arrival periapsis times, s from the epoch. */
+  depart: number;
+  arrive: number;
+  /** Patched-conic estimate of the hop's burns (departure and arrival), m/s. */
+  dv: number;
+}
+
+export interface RouteResult {
+  /** The targeted plan (truthModel set). */
+  plan: Plan;
+  hops: RouteHop[];
+  /** The targeter's report. */
+  target: TargetResult;
+  /** Sum of the hops' estimates before targeting, m/s. */
+  dvEstimate: number;
+  /** One sentence for the designer. */
+  message: string;
+}
+
+export interface RouteOptions {
+  /** Called as the route is built and targeted: fraction done (0…1) and what is being done. */
+  onProgress?: (fraction: number, words: string) => void;
+  /** Checked between hops and during the targeting; when set, SolverError('route', 'cancelled'). */
+  signal?: { aborted: boolean };
+}
+
+/** Intermediate orbit at body k before the next hop (see the module comment). */
+function intermediateAim(system: StarSystem, k: number, next: RouteHopKind, nextTo: number): ArrivalAim {
+  const b = system.bodies[k];
+  if (next === 'to-moon') {
+    const aM = system.bodies[nextTo].elements?.a ?? 0;
+    const rp = Math.max(0.85 * aM, b.radius + 2 * b.safeAlt);
+    const ra = Math.max(rp, Math.min(1.8 * aM, 0.8 * b.derived.soiRadius));
+    return { altitude: rp - b.radius, e: (ra - rp) / (ra + rp) };
+  }
+  return { altitude: Math.max(2 * b.safeAlt, 0.05 * b.radius), e: 0 };
+}
+
+/** A circular start orbit about body k at time t whose plane is `normal` (tilted to `inclination` about its node when given). */
+function startInPlane(draft: Draft, k: number, altitude: number, normal: V3, inclination: number | null, t: number): Situation {
+  const h = planeWithInclination(normal, inclination);
+  let p = cross(h, [0, 0, 1]);
+  if (Math.hypot(p[0], p[1], p[2]) < 1e-9) p = cross(h, [1, 0, 0]);
+  const u = unit(p);
+  draft.start = parkingThrough(draft.system, k, altitude, h, u, t, 0);
+  const b = draft.system.bodies[k];
+  const r = b.radius + altitude;
+  const vc = Math.sqrt(b.mu / r);
+  const q = cross(h, u);
+  return { t, central: k, state: Float64Array.from([r * u[0], r * u[1], r * u[2], vc * q[0], vc * q[1], vc * q[2]]) };
+}
+
+/** Orbit normal of body k about its parent at time t. */
+function orbitNormal(system: StarSystem, k: number, t: number): V3 {
+  const s = new Float64Array(6);
+  bodyState(system, k, t, s, system.bodies[k].parentIndex);
+  return unit(cross(s, [s[3], s[4], s[5]]));
+}
+
+const kmps = (v: number): string => `${(v / 1000).toFixed(2)} km/s`;
+
+/** Builds and targets a route (see the module comment). InputError for a bad intent; SolverError when no route is found or it is cancelled. */
+export function planRoute(system: StarSystem, intent: RouteIntent, options: RouteOptions = {}): RouteResult {
+  const ci = checkIntent(system, intent);
+  const { onProgress, signal } = options;
+  const cancelled = (): void => {
+    if (signal?.aborted) throw new SolverError('route', 'cancelled', 'route cancelled');
+  };
+  const draft: Draft = { system, vehicle: ci.vehicle, reserve: ci.reserve, start: null, events: [] };
+  const finalOrbit: FinalOrbit = { periapsisAltitude: ci.periapsisAltitude, apoapsisAltitude: ci.apoapsisAltitude, inclination: ci.inclination };
+  const hops: RouteHop[] = [];
+  let sit: Situation | null = null;
+  const altitudeHere = ci.fromAltitude;
+  const links = ci.links;
+  for (let k = 0; k < links.length; k++) {
+    cancelled();
+    const link = links[k];
+    const x = system.indexById[link.from];
+    const y = system.indexById[link.to];
+    const by = system.bodies[y];
+    const last = k === links.length - 1;
+    onProgress?.((0.5 * k) / links.length, `Building the hop from ${system.bodies[x].name} to ${by.name}`);
+    const aim = last ? finalAim(by, finalOrbit) : intermediateAim(system, y, links[k + 1].kind, system.indexById[links[k + 1].to]);
+    let depart: number;
+    let dv: number;
+    let vArrive: number;
+    if (link.kind === 'siblings') {
+      const span = ci.departBefore - ci.departAfter;
+      const after = sit ? Math.max(ci.departAfter, sit.t + 3600) : ci.departAfter;
+      const before = Math.max(ci.departBefore, after + span);
+      const w = bestWindow(system, x, y, after, before, altitudeHere, aim);
+      const leg = siblingsEvents(draft, x, y, w, altitudeHere, sit ? null : ci.fromInclination, aim, sit);
+      depart = leg.depart;
+      dv = leg.dvDepart;
+      vArrive = leg.vArrive;
+    } else {
+      if (!sit) {
+        const plane = link.kind === 'to-moon' ? orbitNormal(system, y, ci.departAfter) : orbitNormal(system, x, ci.departAfter);
+        sit = startInPlane(draft, x, ci.fromAltitude, plane, ci.fromInclination, ci.departAfter);
+      }
+      if (link.kind === 'to-moon') {
+        const leg = searchMoonTransfer(draft, sit, y, aim, signal);
+        toMoonEvents(draft, sit, y, leg, aim);
+        depart = leg.depart;
+        dv = leg.dvDepart;
+        vArrive = leg.vArrive;
+      } else {
+        const tol = last ? 0.25 * (aim.altitude - ci.periapsisAltitude) : Math.max(10e3, 0.1 * aim.altitude);
+        const leg = toParentEvents(draft, sit, aim, tol);
+        depart = leg.depart;
+        dv = leg.dvDepart;
+        vArrive = leg.vArrive;
+      }
+    }
+    const arrive = situationAfter(draft).t;
+    if (last) {
+      dv += finalArrivalDv(by, finalOrbit, vArrive);
+      finalArrivalEvents(draft, by, finalOrbit);
+    } else {
+      dv += captureDv(by, aim, vArrive);
+      captureEvents(draft, by, aim);
+      // a short coast in the captured orbit so the next hop starts from a settled state
+      draft.events.push({ type: 'coast', id: eventId(draft, `Coast about ${by.name}`), name: `Coast about ${by.name}`, until: { kind: 'duration', dt: 600 } });
+    }
+    sit = situationAfter(draft);
+    hops.push({ kind: link.kind, from: link.from, to: link.to, depart, arrive, dv });
+  }
+  const fb = system.bodies[ci.from];
+  const tb = system.bodies[ci.to];
+  const target: PlanTarget = {
+    body: tb.id,
+    periapsisAltitude: ci.periapsisAltitude,
+    e: ci.apoapsisGiven ? null : 0,
+    apoapsisAltitude: ci.apoapsisGiven ? ci.apoapsisAltitude : null,
+    i: ci.inclination,
+    tolerance: { periapsisAltitude: 10e3, e: 0.01, i: (0.2 * Math.PI) / 180 },
+  };
+  if (!draft.start) throw new InputError('from', 'gives no start orbit');
+  const orbitWords = ci.apoapsisGiven
+    ? `a ${(ci.periapsisAltitude / 1000).toFixed(0)} × ${(ci.apoapsisAltitude / 1000).toFixed(0)} km orbit`
+    : `a ${(ci.periapsisAltitude / 1000).toFixed(0)} km circular orbit`;
+  const plan: Plan = {
+    name: ci.name ?? `${fb.name} to ${tb.name}`,
+    description: `From a ${(ci.fromAltitude / 1000).toFixed(0)} km orbit of ${fb.name} to ${orbitWords} of ${tb.name}, built as a route of ${hops.length} hop${hops.length === 1 ? '' : 's'}.`,
+    vehicle: ci.vehicle,
+    start: draft.start,
+    events: draft.events,
+    target,
+    reserve: ci.reserve,
+    end: null,
+    truthModel: ci.truthModel,
+  };
+  cancelled();
+  onProgress?.(0.5, 'Targeting the route');
+  const result = targetPlan(system, plan, {
+    model: ci.truthModel,
+    signal,
+    onProgress: (p) => onProgress?.(0.5 + (0.5 * (p.leg - 1)) / p.legs, `Targeting the ${p.legName}`),
+  });
+  onProgress?.(1, 'Route done');
+  const dvEstimate = hops.reduce((s, h) => s + h.dv, 0);
+  const cal = system.calendar;
+  const met = result.status === 'met';
+  const message =
+    `${plan.name}: ${hops.length} hop${hops.length === 1 ? '' : 's'}, departing ${formatDate(cal, hops[0].depart)} and arriving ${formatDate(cal, hops[hops.length - 1].arrive)}, ` +
+    `${kmps(result.dv.after)} in ${ci.truthModel === 'conic' ? 'patched conics' : ci.truthModel === 'finite' ? 'finite burns' : 'n-body'} (estimate ${kmps(dvEstimate)}), ` +
+    `${met ? 'target orbit met' : 'target orbit not met'}${met ? '' : `: ${result.message}`}`;
+  return { plan: result.plan, hops, target: result, dvEstimate, message: message.endsWith('.') ? message : `${message}.` };
+}
