@@ -3,7 +3,7 @@
  * cancel terminates the worker (a new one starts with the next job) and the job resolves null.
  */
 import type { TargetProgress } from '../../../core/target/index.ts';
-import type { AnalysisJob, AnalysisOutput, FromAnalysisWorker, ToAnalysisWorker } from './protocol.ts';
+import { answerError, type AnalysisJob, type AnalysisOutput, type FromAnalysisWorker, type ToAnalysisWorker } from './protocol.ts';
 
 export interface AnalysisWorkerLike {
   postMessage(m: ToAnalysisWorker): void;
@@ -47,7 +47,7 @@ export class AnalysisClient {
         else {
           this.#pending = null;
           if (m.type === 'done') p.resolve({ output: m.output, ms: m.ms });
-          else p.reject(new Error(m.message));
+          else p.reject(answerError(m));
         }
       };
       this.#worker = w;

@@ -2,9 +2,9 @@
  * One analysis job as the worker runs it: n-body verification (core/nbody/verify.ts),
  * differential correction (core/nbody/correct.ts), a dispersion run (core/nbody/disperse.ts),
  * targeting the plan in a model (core/target targetPlan), the plan read in its truth model
- * (core/target truthReport) or one of the checks (analysis/checkJobs.ts), with progress as a
- * fraction and a note (a targeting job adds the targeter's own report). Plain code, tested
- * without a Worker.
+ * (core/target truthReport), a route for an intent (core/route planRoute) or one of the checks
+ * (analysis/checkJobs.ts), with progress as a fraction and a note (a targeting job adds the
+ * targeter's own report). Plain code, tested without a Worker.
  */
 import { correctPlan } from '../../../core/nbody/index.ts';
 import { disperse } from '../../../core/nbody/index.ts';
@@ -14,6 +14,7 @@ import { truthModelLabel } from '../../../core/plan/index.ts';
 import type { AnalysisJob, AnalysisOutput } from './protocol.ts';
 import { runCheckJob } from './checkJobs.ts';
 import { targetFraction } from '../target/progress.ts';
+import { planRoute } from '../route/routeCore.ts';
 
 export function runAnalysisJob(job: AnalysisJob, onProgress: (fraction: number, note: string, detail?: TargetProgress) => void): AnalysisOutput {
   switch (job.kind) {
@@ -62,6 +63,8 @@ export function runAnalysisJob(job: AnalysisJob, onProgress: (fraction: number, 
           onProgress: (done, total) => onProgress(total > 0 ? done / total : 0, `flying the plan in ${truthModelLabel(job.model)}`),
         }),
       };
+    case 'route':
+      return { kind: 'route', route: planRoute(job.system, job.intent, { onProgress: (fraction, words) => onProgress(fraction, words) }) };
     default:
       return runCheckJob(job, onProgress);
   }

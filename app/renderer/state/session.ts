@@ -45,6 +45,7 @@ import { AnalysisClient, type AnalysisWorkerLike } from '../analysis/client.ts';
 import { AnalysisStore } from '../analysis/store.ts';
 import { TargetStore } from '../analysis/targetStore.ts';
 import { TruthStore } from '../analysis/truthStore.ts';
+import { RouteStore } from '../analysis/routeStore.ts';
 
 export interface Notice {
   id: number;
@@ -124,6 +125,8 @@ export class Session {
   readonly targeting: TargetStore;
   /** The plan read in its truth model for the readouts (its own worker). */
   readonly truth: TruthStore;
+  /** "Plan a route": the route panel and the route builder (its own worker). */
+  readonly route: RouteStore;
   readonly cursor = new CursorStore();
   readonly notices = new Observable<Notice[]>([]);
   readonly recent = new Observable<RecentFile[]>([]);
@@ -144,6 +147,7 @@ export class Session {
     this.analysis = new AnalysisStore(this.doc, this.evaluation, new AnalysisClient(deps.analysisWorker));
     this.targeting = new TargetStore(this.doc, new AnalysisClient(deps.analysisWorker));
     this.truth = new TruthStore(this.doc, new AnalysisClient(deps.analysisWorker), deps.truthDebounceMs);
+    this.route = new RouteStore(this.doc, new AnalysisClient(deps.analysisWorker));
     // A refused edit that no field showed (a button, a menu, a window pick) becomes a notice;
     // the field that made an edit marks its refusal shown as soon as the edit returns.
     this.doc.refused.subscribe((r) => {

@@ -5,7 +5,7 @@
  * The core runs each job synchronously; cancelling terminates the worker (analysis/client.ts).
  */
 import { runAnalysisJob } from '../analysis/runJob.ts';
-import type { FromAnalysisWorker, ToAnalysisWorker } from '../analysis/protocol.ts';
+import { errorAnswer, type FromAnalysisWorker, type ToAnalysisWorker } from '../analysis/protocol.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 
@@ -33,6 +33,6 @@ scope.onmessage = (e: MessageEvent<ToAnalysisWorker>) => {
     });
     post({ type: 'done', id, output, ms: performance.now() - t0 });
   } catch (err) {
-    post({ type: 'error', id, message: err instanceof Error ? err.message : String(err) });
+    post(errorAnswer(id, err));
   }
 };

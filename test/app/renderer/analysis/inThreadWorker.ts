@@ -1,6 +1,6 @@
 /** A "worker" that runs analysis jobs in this thread, answering asynchronously as a real one would (progress with its detail, done or error). */
 import type { AnalysisWorkerLike } from '../../../../app/renderer/analysis/client.ts';
-import type { FromAnalysisWorker, ToAnalysisWorker } from '../../../../app/renderer/analysis/protocol.ts';
+import { errorAnswer, type FromAnalysisWorker, type ToAnalysisWorker } from '../../../../app/renderer/analysis/protocol.ts';
 import { runAnalysisJob } from '../../../../app/renderer/analysis/runJob.ts';
 
 export interface TestWorker extends AnalysisWorkerLike {
@@ -21,7 +21,7 @@ export function inThreadWorker(): TestWorker {
           const output = runAnalysisJob(m.job, (fraction, note, detail) => send({ type: 'progress', id: m.id, fraction, note, detail }));
           send({ type: 'done', id: m.id, output, ms: 1 });
         } catch (e) {
-          send({ type: 'error', id: m.id, message: (e as Error).message });
+          send(errorAnswer(m.id, e));
         }
       }, 0);
     },
