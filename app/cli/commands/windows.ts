@@ -24,7 +24,16 @@
 import { availableParallelism } from 'node:os';
 import type { Command } from 'commander';
 import { parseQuantity, parseRange } from '../../../core/io/index.ts';
-import { ALTITUDE_MARGIN, DEPARTURE_SPAN_RECURRENCES, PORKCHOP_GRID, TOF_SPAN_HOHMANN, WINDOW_COUNT, porkchopRanges, requireSafeAltitude, type PorkchopRanges } from '../../../core/io/index.ts';
+import {
+  ALTITUDE_MARGIN,
+  DEPARTURE_SPAN_RECURRENCES,
+  PORKCHOP_GRID,
+  TOF_SPAN_HOHMANN,
+  WINDOW_COUNT,
+  porkchopRanges,
+  requireSafeAltitude,
+  type PorkchopRanges,
+} from '../../../core/io/index.ts';
 import { InputError } from '../../../core/math/index.ts';
 import { computePorkchopAsync, gridCell, gridMinimum, type PorkchopGrid } from '../../../core/search/index.ts';
 import { FLOAT_PLANES, INT_PLANES } from '../../../core/search/index.ts';

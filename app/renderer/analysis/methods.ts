@@ -17,7 +17,6 @@ export interface MethodGroup {
   fallback: boolean;
 }
 
-
 export function methodGroups(spans: readonly FlownSpan[]): MethodGroup[] {
   const out: MethodGroup[] = [];
   for (const s of spans) {
