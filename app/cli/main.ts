@@ -9,6 +9,7 @@ import { addGamestepCommand } from './commands/gamestep.ts';
 import { addStabilityCommand } from './commands/stability.ts';
 import { addCorrectCommand } from './commands/correct.ts';
 import { addDisperseCommand } from './commands/disperse.ts';
+import { addRouteCommand } from './commands/route.ts';
 import { addTargetCommand } from './commands/target.ts';
 import { addWindowsCommand } from './commands/windows.ts';
 import { termSafe } from './output.ts';
@@ -28,6 +29,7 @@ export function buildProgram(): Command {
   addStabilityCommand(program);
   addCorrectCommand(program);
   addTargetCommand(program);
+  addRouteCommand(program);
   addDisperseCommand(program);
   return program;
 }
