@@ -1,13 +1,15 @@
 /**
  * End to end: planning a route as a new user would, from the demo plan (browser mode, headless
  * chromium; setup in harness.ts). File → "New plan from a route…" opens the route panel; the
- * demo ship carries too little Δv for Moravel's moons, so "edit the vehicle" takes the user to the
- * stages to fill the tanks, and "Plan a route…" brings the form back as it was; From Tessel
- * 300 km, To Skerry 500 km, a departure range around the window the route builder finds (asked of
- * core here, so nothing is hard-coded), patched conics; Propose runs in the analysis worker; the
- * verdict is "met"; "Use this plan" replaces the plan as one edit: the Plan screen shows its
- * events, the Budget its burns, the status line its truth model; Undo brings the plan back. The panel is measured at 1024×640 and 1920×1080 (no two boxes overlap, nothing outside
- * the dialog or the window) and screenshots go to test/output/e2e/. Waits are hang guards only.
+ * demo ship carries too little Δv for Moravel's moons, so "edit the vehicle" takes the user to
+ * the stages to fill the tanks, and "Plan a route…" brings the form back as it was; a run in
+ * n-body is cancelled; then From Tessel 300 km, To Skerry 500 km, a departure range around the
+ * window the route builder finds (asked of core here, so nothing is hard-coded), patched conics;
+ * Propose runs in the analysis worker; the verdict is "met"; "Use this plan" replaces the plan
+ * as one edit: the Plan screen shows its events, the Budget its burns, the status line its truth
+ * model; Undo brings the plan back. The panel is measured at 1024×640 and 1920×1080 (no two
+ * boxes overlap, nothing outside the dialog or the window) and screenshots go to
+ * test/output/e2e/. Waits are hang guards only.
  */
 import { readFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
@@ -142,6 +144,23 @@ describe.skipIf(!have)('planning a route in the browser (e2e)', () => {
     await page.click('[data-action=route-open]');
     expect(await page.inputValue('[data-route=to]')).toBe('skerry');
     expect(await page.inputValue('[data-route=periapsis]')).toBe('1');
+  });
+
+  it('Cancel stops a run in n-body: the worker is stopped, no route is offered, the plan is unchanged', async () => {
+    const revision = await js<number>('window.waymarkDebug.session.doc.get().revision');
+    await page.fill('[data-route=periapsis]', '500');
+    await page.selectOption('[data-route=truthModel]', 'nbody');
+    await page.click('[data-action=route-propose]');
+    const cancel = page.locator('[data-action=route-cancel]');
+    await cancel.waitFor({ timeout: HANG_GUARD_MS });
+    expect(await page.isDisabled('[data-route=to]')).toBe(true);
+    await cancel.click();
+    await page.waitForSelector('[data-action=route-propose]', { timeout: HANG_GUARD_MS });
+    expect(await page.textContent('[data-testid=route-panel]')).toMatch(/Cancelled\./);
+    expect(await js<boolean>('window.waymarkDebug.session.route.get().cancelled')).toBe(true);
+    expect(await js<unknown>('window.waymarkDebug.session.route.get().result')).toBeNull();
+    expect(await page.isDisabled('[data-action=route-use]')).toBe(true);
+    expect(await js<number>('window.waymarkDebug.session.doc.get().revision')).toBe(revision);
   });
 
   it('Tessel 300 km to Skerry 500 km in patched conics: proposed, met, used as one edit, undone', async () => {
