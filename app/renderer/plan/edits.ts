@@ -240,3 +240,13 @@ export function applyTransfer(plan: Plan, transfer: Plan): Plan {
   next.target = plan.target ? structuredClone(plan.target) : structuredClone(transfer.target);
   return next;
 }
+
+/** Sets a burn's time (s from the epoch); anything but a burn with this id is a no-op. */
+export function retimeBurn(plan: Plan, id: string, t: number): Plan {
+  const i = plan.events.findIndex((e) => e.id === id);
+  const ev = plan.events[i];
+  if (ev?.type !== 'burn' || ev.t === t) return plan;
+  const next = clone(plan);
+  (next.events[i] as BurnEvent).t = t;
+  return next;
+}

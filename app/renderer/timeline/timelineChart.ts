@@ -8,10 +8,12 @@
  */
 import * as d3 from 'd3';
 import type { SystemCalendar } from '../../../core/system/index.ts';
+import { formatCompactDate } from '../../../core/system/index.ts';
 import { distance as formatDistance } from '../format/format.ts';
 import { PALETTE } from '../scene/palette.ts';
 import type { Series, TimelineData } from './series.ts';
 import { calendarTicks } from './ticks.ts';
+import { BURN_HIT_PX, DRAG_THRESHOLD_PX } from './burnDrag.ts';
 
 export const LAYOUT = {
   left: 118,
@@ -21,6 +23,17 @@ export const LAYOUT = {
   chart: 46,
   gap: 6,
 } as const;
+
+/** The same with shorter lanes and charts, for short windows (the 3D view keeps its height); the left and right margins are LAYOUT's. */
+export const DENSE_LAYOUT = {
+  ...LAYOUT,
+  axis: 20,
+  lane: 16,
+  chart: 34,
+  gap: 4,
+} as const;
+
+export type TimelineLayout = typeof LAYOUT | typeof DENSE_LAYOUT;
 
 const LANES = [
   { label: 'Burns', title: 'Burns: bars as long as each burn' },
@@ -40,6 +53,12 @@ export interface TimelineCallbacks {
   onCursor(t: number): void;
   /** The user clicked a burn bar. */
   onSelectBurn?(id: string): void;
+  /** Null when the burn's mark may be dragged, else why not (its tooltip). */
+  whyNotDraggable?(id: string): string | null;
+  /** The time a drag of the burn by dx pixels at the axis's scale gives (snapped), for the preview and the release. */
+  draggedTime?(id: string, t0: number, dxPx: number, secondsPerPx: number): number;
+  /** The user dragged a burn's mark and let go: the burn's new time (one edit). */
+  onRetimeBurn?(id: string, t: number): void;
 }
 
 type ChartKey = (typeof CHARTS)[number]['key'];
@@ -75,12 +94,18 @@ export class TimelineChart {
   private width = 600;
   private height = 0;
   private cursorT = 0;
+  private readonly L: TimelineLayout;
+  /** The burn being dragged: its id, its time before, and its previewed time. */
+  private dragging: { id: string; t0: number; t: number } | null = null;
 
   constructor(
     private readonly container: HTMLElement,
     private readonly cb: TimelineCallbacks,
+    options: { dense?: boolean } = {},
   ) {
-    this.height = LAYOUT.axis + LANES.length * LAYOUT.lane + LAYOUT.gap + CHARTS.length * (LAYOUT.chart + LAYOUT.gap);
+    this.L = options.dense ? DENSE_LAYOUT : LAYOUT;
+    const L = this.L;
+    this.height = L.axis + LANES.length * L.lane + L.gap + CHARTS.length * (L.chart + L.gap);
     this.baseHeight = this.height;
     this.svg = d3.select(container).append('svg').attr('class', 'timeline-svg').attr('height', this.height);
     this.svg.append('defs').append('clipPath').attr('id', this.clipId).append('rect');
@@ -96,7 +121,7 @@ export class TimelineChart {
       .zoom<SVGSVGElement, unknown>()
       .filter((ev: Event) => {
         const target = ev.target as Element;
-        if (target.closest('.cursor-handle, .axis-strip')) return false;
+        if (target.closest('.cursor-handle, .axis-strip, .burn.draggable')) return false;
         return (ev.type === 'wheel' || (ev as MouseEvent).button === 0) && !(ev as MouseEvent).ctrlKey;
       })
       .on('zoom', (ev: d3.D3ZoomEvent<SVGSVGElement, unknown>) => {
@@ -113,7 +138,7 @@ export class TimelineChart {
     this.svg.on('click.cursor', (ev: MouseEvent) => {
       if (!down || Math.hypot(ev.clientX - down[0], ev.clientY - down[1]) > 3) return;
       const target = ev.target as Element;
-      const burn = target.closest('.burn-bar') as SVGElement | null;
+      const burn = target.closest('.burn') as SVGElement | null;
       if (burn?.dataset.id) this.cb.onSelectBurn?.(burn.dataset.id);
       const [px] = d3.pointer(ev, this.svg.node());
       if (px >= LAYOUT.left) this.cb.onCursor(this.clampT(this.x.invert(px)));
@@ -129,13 +154,65 @@ export class TimelineChart {
     this.resize();
   }
 
+  /** Seconds per pixel of the time axis as shown now. */
+  secondsPerPx(): number {
+    const [a, b] = this.x.domain();
+    const [p, q] = this.x.range();
+    return (b - a) / Math.max(1, q - p);
+  }
+
+  /** Drag on a draggable burn mark: the bar follows (snapped), the time shows in its tooltip; release makes the edit, a click selects. */
+  private burnDrag(): d3.DragBehavior<SVGGElement, TimelineData['burns'][number], unknown> {
+    let startX = 0;
+    return (
+      d3
+        .drag<SVGGElement, TimelineData['burns'][number]>()
+        // only burns with a time of their own; a press elsewhere pans (the zoom's own drag)
+        .filter((ev: MouseEvent, d) => ev.button === 0 && !ev.ctrlKey && (this.cb.whyNotDraggable ? this.cb.whyNotDraggable(d.id) === null : false))
+        .on('start', (ev: d3.D3DragEvent<SVGGElement, TimelineData['burns'][number], unknown>, d) => {
+          startX = ev.x;
+          this.dragging = { id: d.id, t0: d.t, t: d.t };
+        })
+        .on('drag', (ev: d3.D3DragEvent<SVGGElement, TimelineData['burns'][number], unknown>, d) => {
+          if (!this.dragging || this.dragging.id !== d.id) return;
+          const dx = ev.x - startX;
+          const t = this.cb.draggedTime ? this.cb.draggedTime(d.id, d.t, dx, this.secondsPerPx()) : d.t + dx * this.secondsPerPx();
+          this.dragging.t = t;
+          this.drawDragPreview();
+        })
+        .on('end', (ev: d3.D3DragEvent<SVGGElement, TimelineData['burns'][number], unknown>, d) => {
+          const drag = this.dragging;
+          this.dragging = null;
+          const dx = ev.x - startX;
+          if (!drag || drag.id !== d.id) return;
+          // a press without a drag is a click (the svg's click handler selects the burn)
+          if (Math.abs(dx) >= DRAG_THRESHOLD_PX && drag.t !== drag.t0) this.cb.onRetimeBurn?.(d.id, drag.t);
+          this.redraw();
+        })
+    );
+  }
+
+  /** Moves the dragged burn's mark to its previewed time. */
+  private drawDragPreview(): void {
+    const drag = this.dragging;
+    if (!drag) return;
+    const shift = this.x(drag.t) - this.x(drag.t0);
+    this.gLanes
+      .selectAll<SVGGElement, TimelineData['burns'][number]>('g.burn')
+      .filter((d) => d.id === drag.id)
+      .attr('transform', `translate(${shift},0)`)
+      .classed('dragging', true)
+      .select('.burn-time')
+      .text(this.cal ? formatCompactDate(this.cal, drag.t, { seconds: true }) : '');
+  }
+
   private clampT(t: number): number {
     if (!this.data) return t;
     return Math.min(this.data.t1, Math.max(this.data.t0, t));
   }
 
   private buildStatic(): void {
-    const L = LAYOUT;
+    const L = this.L;
     const strip = this.gAxis.append('g').attr('class', 'axis-strip-group');
     strip.append('rect').attr('class', 'axis-strip').attr('x', L.left).attr('y', 0).attr('height', L.axis).attr('fill', PALETTE.panel);
     this.gAxis.append('g').attr('class', 'ticks');
@@ -163,8 +240,17 @@ export class TimelineChart {
     CHARTS.forEach((c, k) => {
       const y = chartTop + k * (L.chart + L.gap);
       const g = this.gCharts.append('g').attr('class', `chart chart-${c.key}`).attr('transform', `translate(0,${y})`);
-      g.append('text').attr('class', 'lane-label').attr('x', 10).attr('y', 14).text(c.label);
-      g.append('text').attr('class', 'chart-scale chart-max').attr('x', 10).attr('y', 28);
+      // title, max and min stacked in the chart's height (closer together in the dense layout)
+      const dense = L.chart < LAYOUT.chart;
+      g.append('text')
+        .attr('class', 'lane-label')
+        .attr('x', 10)
+        .attr('y', dense ? 10 : 14)
+        .text(c.label);
+      g.append('text')
+        .attr('class', 'chart-scale chart-max')
+        .attr('x', 10)
+        .attr('y', dense ? 21 : 28);
       g.append('text')
         .attr('class', 'chart-scale chart-min')
         .attr('x', 10)
@@ -282,7 +368,7 @@ export class TimelineChart {
   }
 
   private redraw(): void {
-    const L = LAYOUT;
+    const L = this.L;
     const x = this.x;
     const data = this.data;
     // Axis.
@@ -314,22 +400,52 @@ export class TimelineChart {
       return;
     }
     const lane = (k: number) => this.gLanes.select(`.lane-${k} .items`);
-    const minW = 3;
-    // Burns: bars as long as the burn (at least 3 px so an impulsive burn shows).
-    lane(0)
-      .selectAll<SVGRectElement, TimelineData['burns'][number]>('rect.burn-bar')
+    const minW = 4;
+    // Burns: bars as long as the burn (at least 4 px so an impulsive burn shows), each over a
+    // grab area of at least BURN_HIT_PX; a burn with a time of its own drags (ew cursor), one
+    // timed by the event before it says why not in its tooltip.
+    const why = (id: string) => (this.cb.whyNotDraggable ? this.cb.whyNotDraggable(id) : 'not draggable here');
+    const burns = lane(0)
+      .selectAll<SVGGElement, TimelineData['burns'][number]>('g.burn')
       .data(data.burns, (d) => d.id)
-      .join('rect')
+      .join((enter) => {
+        const g = enter.append('g').attr('class', 'burn');
+        g.append('rect').attr('class', 'burn-hit').attr('fill', 'transparent').attr('y', 0).attr('height', L.lane);
+        g.append('rect')
+          .attr('class', 'burn-bar')
+          .attr('y', 3)
+          .attr('height', L.lane - 6);
+        g.append('text')
+          .attr('class', 'burn-time chart-scale')
+          .attr('y', L.lane - 4);
+        g.append('title');
+        g.call(this.burnDrag());
+        return g;
+      })
+      .attr('data-id', (d) => d.id)
+      .attr('transform', null)
+      .classed('dragging', false)
+      .classed('draggable', (d) => why(d.id) === null)
+      .attr('cursor', (d) => (why(d.id) === null ? 'ew-resize' : 'not-allowed'));
+    burns
+      .select('.burn-bar')
       .attr('class', (d) => `burn-bar${d.flagged ? ` flag-${d.flagged}` : ''}`)
       .attr('data-id', (d) => d.id)
       .attr('x', (d) => Math.min(x(d.tStart), x(d.t) - minW / 2))
-      .attr('width', (d) => Math.max(minW, x(d.tEnd) - x(d.tStart)))
-      .attr('y', 3)
-      .attr('height', L.lane - 6)
-      .selectAll('title')
-      .data((d) => [d])
-      .join('title')
-      .text((d) => `${d.name}: ${d.dv.toFixed(1)} m/s`);
+      .attr('width', (d) => Math.max(minW, x(d.tEnd) - x(d.tStart)));
+    burns
+      .select('.burn-hit')
+      .attr('x', (d) => Math.min(x(d.tStart), x(d.t) - BURN_HIT_PX / 2))
+      .attr('width', (d) => Math.max(BURN_HIT_PX, x(d.tEnd) - x(d.tStart)));
+    burns
+      .select('.burn-time')
+      .attr('x', (d) => x(d.t) + BURN_HIT_PX / 2 + 2)
+      .text('');
+    burns.select('title').text((d) => {
+      const w = why(d.id);
+      return `${d.name}: ${d.dv.toFixed(1)} m/s${w === null ? ' · drag to retime (whole minutes), [ ] with it selected' : ` · ${w}`}`;
+    });
+    if (this.dragging) this.drawDragPreview();
     // SOI spans.
     const soiSel = lane(1)
       .selectAll<SVGGElement, TimelineData['soi'][number]>('g.soi')
@@ -388,7 +504,7 @@ export class TimelineChart {
   }
 
   private drawChart(key: ChartKey, s: Series, comparison: TimelineData['comparison']): void {
-    const L = LAYOUT;
+    const L = this.L;
     const g = this.gCharts.select(`.chart-${key}`);
     const n = s.t.length;
     const cmp = comparison && comparison.distance.t.length > 0 ? comparison : null;
