@@ -740,6 +740,63 @@ export class SystemScene {
     for (const m of this.markers) m.arrows.visible = o.showArrows;
   }
 
+  /**
+   * Frames the whole plan: the focus becomes the body whose frame holds every segment of the
+   * flight and the given bodies (the innermost body all their central bodies orbit: the star for
+   * an interplanetary plan, a planet for a transfer among its moons), and the camera backs off
+   * until a sphere around that body holding the whole path, and the given bodies where they are
+   * now and at the plan's end, fits the view's narrower field of view (so a narrow or short view
+   * still shows the destination). Returns the focus it chose.
+   */
+  frameWholePlan(bodies: readonly number[] = []): FocusTarget {
+    const sys = this.system;
+    const result = this.result;
+    if (!sys || !result || result.segments.length === 0) return this.focus;
+    const ancestors = (i: number): number[] => {
+      const out: number[] = [];
+      for (let k = i; k >= 0; k = sys.bodies[k].parentIndex) out.push(k);
+      return out;
+    };
+    const involved = new Set<number>(bodies.filter((i) => i >= 0 && i < sys.bodies.length));
+    for (const seg of result.segments) involved.add(seg.central);
+    const common = [...involved].map(ancestors).reduce((a, b) => a.filter((k) => b.includes(k)))[0] ?? 0;
+    const p = [0, 0, 0];
+    let r = 0;
+    for (const seg of result.segments) {
+      let reach = 0;
+      for (let k = 0; k < seg.samples.length; k += 3) reach = Math.max(reach, Math.hypot(seg.samples[k], seg.samples[k + 1], seg.samples[k + 2]));
+      if (seg.central !== common) {
+        bodyPosition(sys, seg.central, seg.t0, p, common);
+        reach += Math.hypot(p[0], p[1], p[2]);
+      }
+      r = Math.max(r, reach);
+    }
+    for (const i of involved) {
+      if (i === common) continue;
+      for (const t of [this.t, result.t0, result.t1]) {
+        bodyPosition(sys, i, t, p, common);
+        r = Math.max(r, Math.hypot(p[0], p[1], p[2]) + sys.bodies[i].radius);
+      }
+    }
+    this.focus = { kind: 'body', index: common };
+    if (!(r > 0)) {
+      this.frameFocus();
+      return this.focus;
+    }
+    // the sphere of radius r fits a cone of half-angle θ at distance r / sin θ; θ: the narrower half field of view
+    const halfV = (this.camera.fov * Math.PI) / 360;
+    const halfH = Math.atan(Math.tan(halfV) * Math.max(1e-3, this.camera.aspect));
+    const dist = (1.08 * r * U) / Math.sin(Math.min(halfV, halfH));
+    const dir = this.camera.position.clone().sub(this.controls.target);
+    if (dir.lengthSq() === 0) dir.set(0, -1, 0.6);
+    dir.normalize().multiplyScalar(dist);
+    this.controls.target.set(0, 0, 0);
+    this.camera.position.copy(dir);
+    this.controls.update();
+    this.requestRender();
+    return this.focus;
+  }
+
   /** Puts the camera at a distance that shows the focused object and its surroundings. */
   frameFocus(): void {
     const sys = this.system;
