@@ -149,3 +149,39 @@ describe('planRoute against the Hohmann transfer between circular coplanar plane
     expect(Math.abs(flownArrive - arrive) / arrive).toBeLessThan(0.015);
   });
 });
+
+/**
+ * The other models: a route targeted with every burn finite (Tessel to Quill, 1 s) and in n-body
+ * (Skerry to Lough, sister moons of Moravel, about 1 s): every goal met in that model, as the
+ * targeter measures its flight there (each model's flight is checked against odex in
+ * test/core/dynamics and test/core/target).
+ */
+describe('planRoute in the finite-burn and n-body models', () => {
+  it('finite burns: Tessel to Quill met, every burn flown finite', () => {
+    const r = planRoute(sys, {
+      from: { body: 'tessel', altitude: 300e3 },
+      to: { body: 'quill', periapsisAltitude: 100e3 },
+      departAfter: 0,
+      departBefore: 20 * DAY,
+      vehicle: heavy,
+      truthModel: 'finite',
+    });
+    expect(r.target.status).toBe('met');
+    expect(r.plan.truthModel).toBe('finite');
+    for (const l of r.target.legs) for (const g of l.goals) expect(g.met, `${l.name}: ${g.name}`).toBe(true);
+  });
+
+  it('n-body: Skerry to Lough met in the restricted n-body model', () => {
+    const r = planRoute(sys, {
+      from: { body: 'skerry', altitude: 100e3 },
+      to: { body: 'lough', periapsisAltitude: 200e3 },
+      departAfter: 0,
+      departBefore: 40 * DAY,
+      vehicle: heavy,
+      truthModel: 'nbody',
+    });
+    expect(r.target.status).toBe('met');
+    expect(r.plan.truthModel).toBe('nbody');
+    for (const l of r.target.legs) for (const g of l.goals) expect(g.met, `${l.name}: ${g.name}`).toBe(true);
+  });
+});
