@@ -242,7 +242,11 @@ const INTENT_FIELDS: Record<string, RouteField> = {
  * not show (the vehicle, the reserve) gives `field` null and a sentence naming it.
  */
 export function routeErrorAtField(err: unknown, system: StarSystem, plan: Plan): { field: RouteField | null; message: string } {
-  if (!(err instanceof InputError)) return { field: null, message: err instanceof Error ? err.message : String(err) };
+  if (!(err instanceof InputError)) {
+    // a solver's failure reads "route: no-solution: …" (core/math SolverError): its detail is what the user needs
+    const message = err instanceof Error ? err.message.replace(/^route: [a-z-]+: /, '') : String(err);
+    return { field: null, message };
+  }
   const field = INTENT_FIELDS[err.field] ?? null;
   // a date's value would read as plain seconds: the field shows the date itself
   const value = field === 'departAfter' || field === 'departBefore' ? undefined : err.value;

@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { parsePlanFile, parseSystemFile } from '../../../../core/io/index.ts';
-import { InputError } from '../../../../core/math/index.ts';
+import { InputError, SolverError } from '../../../../core/math/index.ts';
 import {
   chooseFrom,
   chooseTo,
@@ -163,5 +163,10 @@ describe('the route form', () => {
     expect(other.field).toBeNull();
     expect(other.message).toMatch(/Isp/);
     expect(routeErrorAtField(new Error('no window in the range'), system, plan)).toEqual({ field: null, message: 'no window in the range' });
+    // a solver's failure as the worker passes it on: its detail without the solver's name and reason code
+    expect(routeErrorAtField(new SolverError('route', 'no-solution', 'no window between the dates'), system, plan)).toEqual({
+      field: null,
+      message: 'no window between the dates',
+    });
   });
 });
