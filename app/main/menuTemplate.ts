@@ -29,6 +29,7 @@ export function menuTemplate(o: MenuOptions): MenuItemConstructorOptions[] {
     label: 'File',
     submenu: [
       item('New Plan', 'CmdOrCtrl+N', { command: 'new' }),
+      item('New Plan from a Route…', undefined, { command: 'new-from-route' }),
       item('Open…', 'CmdOrCtrl+O', { command: 'open' }),
       { label: 'Open Recent', submenu: recent },
       { type: 'separator' },

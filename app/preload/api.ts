@@ -66,6 +66,8 @@ export type ExportKind = 'oem' | 'csv' | 'burns-csv' | 'report';
 /** What a menu item asks the renderer to do. */
 export type MenuCommand =
   | { command: 'new' }
+  /** Open "Plan a route": the route builder proposes a plan that replaces this one as one undoable edit. */
+  | { command: 'new-from-route' }
   | { command: 'open' }
   | { command: 'open-recent'; path: string }
   | { command: 'save' }

@@ -495,6 +495,9 @@ export class Session {
     switch (c.command) {
       case 'new':
         return this.newPlan();
+      case 'new-from-route':
+        this.route.show();
+        return;
       case 'open':
         return this.open();
       case 'open-recent':

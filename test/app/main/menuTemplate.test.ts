@@ -30,6 +30,8 @@ describe('native menu template', () => {
     expect(send).toHaveBeenLastCalledWith({ command: 'open-recent', path: '/p/a.plan.json' });
     (byLabel('Ephemeris (CCSDS OEM)…')!.click as () => void)();
     expect(send).toHaveBeenLastCalledWith({ command: 'export', kind: 'oem' });
+    (byLabel('New Plan from a Route…')!.click as () => void)();
+    expect(send).toHaveBeenLastCalledWith({ command: 'new-from-route' });
   });
 
   it('uses Cmd+Shift+Z for redo and the app menu for Quit on macOS', () => {

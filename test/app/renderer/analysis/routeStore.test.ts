@@ -44,6 +44,17 @@ function skerryIntent(s: Session) {
 }
 
 describe('planning a route from the app (in the analysis worker)', () => {
+  it("the menu's New plan from a route opens the route panel and changes nothing else", async () => {
+    const s = await session();
+    const before = s.doc.get();
+    expect(s.route.get().open).toBe(false);
+    await s.command({ command: 'new-from-route' });
+    expect(s.route.get().open).toBe(true);
+    expect(s.doc.get().revision).toBe(before.revision);
+    s.route.hide();
+    expect(s.route.get().open).toBe(false);
+  });
+
   it('a refused intent comes back across the worker at the form field, in its words', async () => {
     const s = await session();
     const intent = skerryIntent(s);
