@@ -122,6 +122,8 @@ describe.skipIf(!have)('planning a route in the browser (e2e)', () => {
   it('refuses a periapsis below the safe altitude at its field, in km', async () => {
     await page.click('[data-testid=menu-file]');
     await page.click('[data-action=new-from-route]');
+    // the keyboard starts on the first choice
+    await expect.poll(() => js<string | null>("document.activeElement?.getAttribute('data-route') ?? null"), { timeout: HANG_GUARD_MS }).toBe('from');
     await page.selectOption('[data-route=to]', 'skerry');
     await page.fill('[data-route=periapsis]', '1');
     await page.click('[data-action=route-propose]');
