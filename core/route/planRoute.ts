@@ -12,26 +12,35 @@
  *   corrected on the flight to reach the aim periapsis.
  * - Arrivals (arrive.ts): the final orbit in two apsis burns (and a plane burn at a node for an
  *   inclination); an intermediate orbit in one capture burn.
- * Intermediate orbits: after 'to-parent' followed by an interplanetary hop, a low circular orbit of
- * the planet (altitude max(2 × safe altitude, 5 % of the radius)); after 'siblings' followed by
+ * Intermediate orbits: from a moon to another planet (or its moon) the route is built two ways
+ * and the cheaper patched-conic flight kept — a direct escape from the moon's orbit onto the
+ * interplanetary arc (escape.ts), or a stop in a low circular orbit of the home planet (altitude
+ * max(2 × safe altitude, 5 % of the radius)) and a departure from it. On the demo system the
+ * direct escape wins: Quill → Moravel 13.8 km/s against 16.1 via a low orbit of Tessel, and from
+ * Lough the low orbit of Moravel (≈ 16 km/s to capture, ≈ 17 km/s to leave) makes the route
+ * impossible for any sensible ship. Neither is the cheapest way: a fall from the moon to a low
+ * periapsis at the planet with the departure burn there (no capture; the Oberth effect) would cost
+ * a few km/s less, but needs the moon's phase matched to the window. After 'siblings' followed by
  * 'to-moon', an ellipse about the planet from 85 % of the moon's orbit radius to 1.8 times it
  * (within 80 % of the planet's sphere of influence), as the moon demo plan does (captured high in
  * the well, a short transfer to the moon).
- * Limits (what these choices cost): from a moon to another planet the route drops into a low orbit
- * of the home planet and leaves it again — a direct escape from the moon's orbit onto the
- * interplanetary arc would save most of that capture burn (roughly the planet's low-orbit
- * capture from the moon's distance, a few km/s at Tessel). A departure from an orbit the route did
- * not lay (after a 'to-parent' hop) is rarely tangential and costs more. The date range applies to
- * the route's first departure; a later interplanetary window is searched over a range of the same
- * length from the arrival of the hop before. Single-revolution, prograde transfer arcs only.
+ * Limits: a departure from an orbit the route did not lay (after a stop in a low orbit) is
+ * rarely tangential and costs more. The date range applies to the route's first departure; a
+ * later interplanetary window is searched over a range of the same length from the arrival of
+ * the hop before. Single-revolution, prograde transfer arcs only. A final inclination is reached
+ * with a plane burn in the final orbit (not folded into the capture). Targeting in n-body meets
+ * some routes (sister moons, planet to planet) but not all: a route whose final burns are
+ * frozen into a timed schedule after a long coast can miss in n-body (see the report).
  */
 import { InputError, SolverError } from '../math/index.ts';
 import { bodyState, formatDate, type StarSystem } from '../system/index.ts';
 import type { Plan, PlanTarget } from '../plan/index.ts';
 import { targetPlan, type TargetResult } from '../target/index.ts';
 import type { RouteHopKind } from './chain.ts';
-import { checkIntent, type RouteIntent } from './intent.ts';
-import { eventId, situationAfter, type Draft, type Situation } from './draft.ts';
+import { checkIntent, type CheckedIntent, type RouteIntent } from './intent.ts';
+import { draftPlan, eventId, situationAfter, type Draft, type Situation } from './draft.ts';
+import { escapeEvents } from './escape.ts';
+import { evaluate } from '../conic/index.ts';
 import { captureDv, captureEvents, finalAim, finalArrivalDv, finalArrivalEvents, type ArrivalAim, type FinalOrbit } from './arrive.ts';
 import { bestWindow, siblingsEvents } from './siblings.ts';
 import { searchMoonTransfer, toMoonEvents } from './toMoon.ts';
@@ -104,31 +113,45 @@ function orbitNormal(system: StarSystem, k: number, t: number): V3 {
 const kmps = (v: number): string => `${(v / 1000).toFixed(2)} km/s`;
 
 /** Builds and targets a route (see the module comment). InputError for a bad intent; SolverError when no route is found or it is cancelled. */
-export function planRoute(system: StarSystem, intent: RouteIntent, options: RouteOptions = {}): RouteResult {
-  const ci = checkIntent(system, intent);
+/**
+ * The route's events hop by hop into a new draft. `direct`: a route starting with a moon → planet
+ * hop followed by an interplanetary one escapes from the moon straight onto the interplanetary
+ * arc (escape.ts) instead of stopping in a low orbit of the planet.
+ */
+function buildRoute(system: StarSystem, ci: CheckedIntent, options: RouteOptions, direct: boolean): { draft: Draft; hops: RouteHop[] } {
   const { onProgress, signal } = options;
-  const cancelled = (): void => {
-    if (signal?.aborted) throw new SolverError('route', 'cancelled', 'route cancelled');
-  };
   const draft: Draft = { system, vehicle: ci.vehicle, reserve: ci.reserve, start: null, events: [] };
   const finalOrbit: FinalOrbit = { periapsisAltitude: ci.periapsisAltitude, apoapsisAltitude: ci.apoapsisAltitude, inclination: ci.inclination };
   const hops: RouteHop[] = [];
   let sit: Situation | null = null;
-  const altitudeHere = ci.fromAltitude;
+  let altitudeHere = ci.fromAltitude;
   const links = ci.links;
   for (let k = 0; k < links.length; k++) {
-    cancelled();
+    if (signal?.aborted) throw new SolverError('route', 'cancelled', 'route cancelled');
     const link = links[k];
     const x = system.indexById[link.from];
-    const y = system.indexById[link.to];
+    const escape = direct && k === 0 && link.kind === 'to-parent' && links[1]?.kind === 'siblings';
+    if (escape) k++;
+    const arrivalLink = links[k];
+    const y = system.indexById[arrivalLink.to];
     const by = system.bodies[y];
     const last = k === links.length - 1;
-    onProgress?.((0.5 * k) / links.length, `Building the hop from ${system.bodies[x].name} to ${by.name}`);
+    onProgress?.((0.25 * k) / links.length, `Building the hop from ${system.bodies[x].name} to ${by.name}`);
     const aim = last ? finalAim(by, finalOrbit) : intermediateAim(system, y, links[k + 1].kind, system.indexById[links[k + 1].to]);
     let depart: number;
     let dv: number;
     let vArrive: number;
-    if (link.kind === 'siblings') {
+    if (escape) {
+      const P = system.bodies[x].parentIndex;
+      const aM = system.bodies[x].elements?.a ?? 0;
+      const w = bestWindow(system, P, y, ci.departAfter, ci.departBefore, aM - system.bodies[P].radius, aim);
+      const leg = escapeEvents(draft, x, y, w, ci.fromAltitude, ci.fromInclination, aim);
+      depart = leg.depart;
+      dv = leg.dvDepart;
+      vArrive = leg.vArrive;
+      hops.push({ kind: 'to-parent', from: link.from, to: link.to, depart, arrive: leg.leaveMoon, dv });
+      dv = 0;
+    } else if (link.kind === 'siblings') {
       const span = ci.departBefore - ci.departAfter;
       const after = sit ? Math.max(ci.departAfter, sit.t + 3600) : ci.departAfter;
       const before = Math.max(ci.departBefore, after + span);
@@ -165,20 +188,61 @@ export function planRoute(system: StarSystem, intent: RouteIntent, options: Rout
       captureEvents(draft, by, aim);
       // a short coast in the captured orbit so the next hop starts from a settled state
       draft.events.push({ type: 'coast', id: eventId(draft, `Coast about ${by.name}`), name: `Coast about ${by.name}`, until: { kind: 'duration', dt: 600 } });
+      altitudeHere = aim.altitude;
     }
     sit = situationAfter(draft);
-    hops.push({ kind: link.kind, from: link.from, to: link.to, depart, arrive, dv });
+    hops.push({
+      kind: arrivalLink.kind,
+      from: escape ? system.bodies[system.bodies[x].parentIndex].id : arrivalLink.from,
+      to: arrivalLink.to,
+      depart,
+      arrive,
+      dv,
+    });
   }
-  const fb = system.bodies[ci.from];
-  const tb = system.bodies[ci.to];
+  return { draft, hops };
+}
+
+/** Total Δv of a draft's patched-conic flight with its target (Infinity when it fails or runs short of propellant). */
+function flownCost(draft: Draft, target: PlanTarget): number {
+  const res = evaluate(draft.system, { ...draftPlan(draft), target }, { samplesPerSegment: 0 });
+  if (res.budget.failedBurns.length > 0 || !res.target?.reached) return Number.POSITIVE_INFINITY;
+  return res.budget.total;
+}
+
+/** Builds and targets a route (see the module comment). InputError for a bad intent; SolverError when no route is found or it is cancelled. */
+export function planRoute(system: StarSystem, intent: RouteIntent, options: RouteOptions = {}): RouteResult {
+  const ci = checkIntent(system, intent);
+  const { onProgress, signal } = options;
+  const cancelled = (): void => {
+    if (signal?.aborted) throw new SolverError('route', 'cancelled', 'route cancelled');
+  };
+  const tb0 = system.bodies[ci.to];
   const target: PlanTarget = {
-    body: tb.id,
+    body: tb0.id,
     periapsisAltitude: ci.periapsisAltitude,
     e: ci.apoapsisGiven ? null : 0,
     apoapsisAltitude: ci.apoapsisGiven ? ci.apoapsisAltitude : null,
     i: ci.inclination,
     tolerance: { periapsisAltitude: 10e3, e: 0.01, i: (0.2 * Math.PI) / 180 },
   };
+  // a moon to another planet: both ways are built and the cheaper flight is kept
+  const twoWays = ci.links.length > 1 && ci.links[0].kind === 'to-parent' && ci.links[1].kind === 'siblings';
+  let built: { draft: Draft; hops: RouteHop[] } | null = null;
+  let firstError: unknown = null;
+  for (const direct of twoWays ? [true, false] : [false]) {
+    try {
+      const b = buildRoute(system, ci, options, direct);
+      if (!built || flownCost(b.draft, target) < flownCost(built.draft, target)) built = b;
+    } catch (e) {
+      if (e instanceof SolverError && e.reason === 'cancelled') throw e;
+      firstError ??= e;
+    }
+  }
+  if (!built) throw firstError;
+  const { draft, hops } = built;
+  const fb = system.bodies[ci.from];
+  const tb = system.bodies[ci.to];
   if (!draft.start) throw new InputError('from', 'gives no start orbit');
   const orbitWords = ci.apoapsisGiven
     ? `a ${(ci.periapsisAltitude / 1000).toFixed(0)} × ${(ci.apoapsisAltitude / 1000).toFixed(0)} km orbit`
