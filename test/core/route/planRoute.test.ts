@@ -45,6 +45,8 @@ const CASES: [string, string, number, number, string[]][] = [
   ['quill', 'moravel', 100e3, 900000e3, ['to-parent', 'siblings']],
   ['tessel', 'skerry', 300e3, 500e3, ['siblings', 'to-moon']],
   ['quill', 'skerry', 100e3, 500e3, ['to-parent', 'siblings', 'to-moon']],
+  // from a moon of the giant Moravel: only the direct escape is affordable (planRoute.ts)
+  ['lough', 'quill', 100e3, 100e3, ['to-parent', 'siblings', 'to-moon']],
 ];
 
 describe('planRoute: the seven kinds of route on the demo system, in patched conics', () => {
@@ -156,6 +158,40 @@ describe('planRoute against the Hohmann transfer between circular coplanar plane
  * targeter measures its flight there (each model's flight is checked against odex in
  * test/core/dynamics and test/core/target).
  */
+describe('planRoute progress and cancellation', () => {
+  it('reports progress from 0 to 1 in order, in words', () => {
+    const seen: [number, string][] = [];
+    planRoute(
+      sys,
+      { from: { body: 'quill', altitude: 100e3 }, to: { body: 'tessel', periapsisAltitude: 400e3 }, departAfter: 0, departBefore: 10 * DAY, vehicle: heavy },
+      {
+        onProgress: (f, w) => seen.push([f, w]),
+      },
+    );
+    expect(seen.length).toBeGreaterThan(2);
+    for (let k = 1; k < seen.length; k++) expect(seen[k][0]).toBeGreaterThanOrEqual(seen[k - 1][0]);
+    expect(seen[0][0]).toBe(0);
+    expect(seen[seen.length - 1][0]).toBe(1);
+    expect(seen[0][1]).toMatch(/Quill to Tessel/);
+  });
+
+  it('a set signal stops the route with a cancelled SolverError', () => {
+    expect(() =>
+      planRoute(
+        sys,
+        {
+          from: { body: 'tessel', altitude: 300e3 },
+          to: { body: 'skerry', periapsisAltitude: 500e3 },
+          departAfter: 0,
+          departBefore: 400 * DAY,
+          vehicle: heavy,
+        },
+        { signal: { aborted: true } },
+      ),
+    ).toThrow(/cancelled/);
+  });
+});
+
 describe('planRoute in the finite-burn and n-body models', () => {
   it('finite burns: Tessel to Quill met, every burn flown finite', () => {
     const r = planRoute(sys, {
