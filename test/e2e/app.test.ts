@@ -108,13 +108,22 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
     await page.screenshot({ path: `${OUT}03-scrubbed.png` });
   });
 
-  it('adding a burn adds a budget row and raises the planned total; undo and redo take it back and forth', async () => {
+  it('adding a burn adds a budget row (a zero burn: the demo already ends in its target orbit); a Δv typed in raises the planned total; undo and redo take them back and forth', async () => {
     const rows = await budgetRows();
     const total = await page.textContent('[data-testid=total]');
+    const n = await js<number>('window.waymarkDebug.session.doc.get().plan.events.length');
     await page.click('[data-action=add-burn]');
     await expect.poll(budgetRows).toBe(rows + 1);
-    expect(await page.textContent('[data-testid=total]')).not.toBe(total);
+    expect(await page.locator('[data-testid=budget-table] tbody tr.row').last().textContent()).toMatch(/0\.0 m\/s/);
+    expect(await page.textContent('[data-testid=total]')).toBe(total);
+    const dv = page.locator(`input[data-path="events[${n}].dv[0]"]`);
+    await dv.fill('5');
+    await dv.press('Enter');
+    await expect.poll(() => page.textContent('[data-testid=total]')).not.toBe(total);
+    const raised = await page.textContent('[data-testid=total]');
     expect(await page.locator('[data-testid=unsaved]').count()).toBe(1);
+    await page.click('[data-action=undo]');
+    await expect.poll(() => page.textContent('[data-testid=total]')).toBe(total);
     await page.click('[data-action=undo]');
     await expect.poll(budgetRows).toBe(rows);
     expect(await page.textContent('[data-testid=total]')).toBe(total);
@@ -126,6 +135,8 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
     await expect.poll(budgetRows).toBe(rows);
     await page.keyboard.press('Control+y');
     await expect.poll(budgetRows).toBe(rows + 1);
+    await page.keyboard.press('Control+y');
+    await expect.poll(() => page.textContent('[data-testid=total]')).toBe(raised);
     await page.screenshot({ path: `${OUT}04-burn-added.png` });
   });
 

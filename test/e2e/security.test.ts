@@ -247,7 +247,7 @@ describe.skipIf(!have)('the renderer never runs strings as code and shows file n
     });
 
     it('Timeline: burn tooltips and SOI spans carry the names as text', async () => {
-      const tips = await texts('.timeline-svg .burn-bar title');
+      const tips = await texts('.timeline-svg g.burn > title');
       for (const name of [HOSTILE.departure, HOSTILE.midCourse, HOSTILE.capture])
         expect(
           tips.some((t) => t.startsWith(`${name}:`)),
