@@ -85,6 +85,8 @@ describe.skipIf(!have)('the checks in the browser (e2e)', () => {
 
   it('the lanes zoom and pan with the Timeline', async () => {
     const before = await page.getAttribute('[data-testid=gamestep-lanes] [data-lane=velocity] path.gs-curve', 'd');
+    // the game-step lanes scroll inside the Timeline (it never grows over the 3D view): bring the lane into view
+    await page.locator('[data-testid=gamestep-lanes] [data-lane=velocity] .chart-bg').scrollIntoViewIfNeeded();
     const box = (await page.locator('[data-testid=gamestep-lanes] [data-lane=velocity] .chart-bg').boundingBox())!;
     await page.mouse.move(box.x + box.width * 0.05, box.y + box.height / 2);
     for (let k = 0; k < 6; k++) await page.mouse.wheel(0, -300);
@@ -92,7 +94,7 @@ describe.skipIf(!have)('the checks in the browser (e2e)', () => {
     const after = await page.getAttribute('[data-testid=gamestep-lanes] [data-lane=velocity] path.gs-curve', 'd');
     expect(after).not.toBe(before);
     await page.locator('[data-testid=timeline]').screenshot({ path: `${OUT}c3-gamestep-lanes-zoomed.png` });
-    await page.click('text=Whole plan');
+    await page.click('[data-testid=timeline] button:has-text("Whole plan")');
   });
 
   it("draws the game's path in the System view (pixels change with its toggle)", async () => {
