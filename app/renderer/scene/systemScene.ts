@@ -19,6 +19,7 @@ import { CSS2DObject, CSS2DRenderer } from 'three/examples/jsm/renderers/CSS2DRe
 import type { BudgetRow, PlanResult } from '../../../core/plan/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { bodyPosition, sampleOrbit } from '../../../core/system/index.ts';
+import { planExtent } from './planExtent.ts';
 import { burnToInertial } from '../../../core/plan/index.ts';
 import { AXIS_STYLE, FRAME_AXES, PALETTE, bodyColour, type HeadShape, type ShaftStyle } from './palette.ts';
 import { shipStateAt } from '../../../core/conic/index.ts';
@@ -752,32 +753,7 @@ export class SystemScene {
     const sys = this.system;
     const result = this.result;
     if (!sys || !result || result.segments.length === 0) return this.focus;
-    const ancestors = (i: number): number[] => {
-      const out: number[] = [];
-      for (let k = i; k >= 0; k = sys.bodies[k].parentIndex) out.push(k);
-      return out;
-    };
-    const involved = new Set<number>(bodies.filter((i) => i >= 0 && i < sys.bodies.length));
-    for (const seg of result.segments) involved.add(seg.central);
-    const common = [...involved].map(ancestors).reduce((a, b) => a.filter((k) => b.includes(k)))[0] ?? 0;
-    const p = [0, 0, 0];
-    let r = 0;
-    for (const seg of result.segments) {
-      let reach = 0;
-      for (let k = 0; k < seg.samples.length; k += 3) reach = Math.max(reach, Math.hypot(seg.samples[k], seg.samples[k + 1], seg.samples[k + 2]));
-      if (seg.central !== common) {
-        bodyPosition(sys, seg.central, seg.t0, p, common);
-        reach += Math.hypot(p[0], p[1], p[2]);
-      }
-      r = Math.max(r, reach);
-    }
-    for (const i of involved) {
-      if (i === common) continue;
-      for (const t of [this.t, result.t0, result.t1]) {
-        bodyPosition(sys, i, t, p, common);
-        r = Math.max(r, Math.hypot(p[0], p[1], p[2]) + sys.bodies[i].radius);
-      }
-    }
+    const { centre: common, radius: r } = planExtent(sys, result, bodies, [this.t, result.t0, result.t1]);
     this.focus = { kind: 'body', index: common };
     if (!(r > 0)) {
       this.frameFocus();
