@@ -9,7 +9,7 @@
  */
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { OUT, buildApp, requireChromium, startApp, type E2eApp, HANG_GUARD_MS } from './harness.ts';
+import { OUT, buildApp, openFile, requireChromium, startApp, type E2eApp, HANG_GUARD_MS } from './harness.ts';
 
 const have = requireChromium();
 const BUILD = new URL('../../dist/e2e-edit-time/', import.meta.url).pathname;
@@ -67,6 +67,27 @@ describe.skipIf(!have)('editing that follows intent and time that reads right (e
       await page.screenshot({ path: `${OUT}edit-time-load-${viewport.width}x${viewport.height}.png` });
       await context.close();
     }
+  });
+
+  it("frames the whole plan again after opening another plan: the Skerry plan's destination is inside the 3D view", async () => {
+    const { page, context } = await app.openPage({ viewport: { width: 1024, height: 640 } });
+    // look somewhere else first: the home world up close
+    await page.selectOption('[data-testid=focus]', { label: 'Tessel' });
+    await openFile(page, new URL('../../assets/plans/tessel-to-skerry.plan.json', import.meta.url).pathname);
+    await expect.poll(() => page.evaluate('window.waymarkDebug.session.doc.get().plan.target.body'), { timeout: HANG_GUARD_MS }).toBe('skerry');
+    await expect.poll(() => page.inputValue('[data-testid=focus]'), { timeout: HANG_GUARD_MS }).toBe('body:0');
+    await page.evaluate('window.waymarkDebug.scene.renderNow()');
+    const view = await rect(page, '[data-testid=system-canvas]');
+    const moravel = (await page.evaluate(
+      `(() => { const e = Array.from(document.querySelectorAll('.scene-label')).find((x) => x.textContent === 'Moravel'); if (!e) return null; const r = e.getBoundingClientRect(); return { x: r.x + r.width / 2, y: r.y + r.height / 2 }; })()`,
+    )) as { x: number; y: number } | null;
+    expect(moravel).not.toBeNull();
+    expect(moravel!.x).toBeGreaterThan(view.x);
+    expect(moravel!.x).toBeLessThan(view.x + view.w);
+    expect(moravel!.y).toBeGreaterThan(view.y);
+    expect(moravel!.y).toBeLessThan(view.y + view.h);
+    await page.screenshot({ path: `${OUT}edit-time-opened-skerry-1024x640.png` });
+    await context.close();
   });
 
   it('"+ Burn" goes to the end with defaults it explains; an insertion point puts a coast after event 1; the budget numbers burns as the cards do', async () => {
