@@ -14,6 +14,7 @@
  *   Mechanics for Engineering Students, §6.2 / §8.2 — from memory), which brackets the
  *   single-revolution minimum of a near-circular pair.
  */
+import type { checkStability } from '../checks/index.ts';
 import type { GameIntegrator } from '../gamestep/index.ts';
 import { InputError } from '../math/index.ts';
 import { hohmann, synodicPeriod } from '../orbit/index.ts';
@@ -174,6 +175,10 @@ export function parseIntegrator<T extends IntegratorId>(field: string, text: str
 export function integratorChoices(allowed: readonly IntegratorId[]): string {
   return allowed.map((id) => `${id} = ${INTEGRATOR_NAMES[id]}`).join(', ');
 }
+
+/** The stability check's integrators, its default first. */
+export const STABILITY_METHODS: readonly (StabilityMethod & IntegratorId)[] = ['yoshida4', 'verlet'];
+type StabilityMethod = NonNullable<NonNullable<Parameters<typeof checkStability>[1]>['method']>;
 
 // ---------------------------------------------------------------------------------------------
 // Game step

@@ -14,6 +14,7 @@ import {
   PORKCHOP_GRID,
   PORKCHOP_GRID_CHOICES,
   RESOLVE_NAMES,
+  STABILITY_METHODS,
   WINDOW_COUNT,
   integratorName,
   orbitAltitude,
@@ -93,13 +94,15 @@ describe('one set of defaults for the command line and the app', () => {
     }
   });
 
-  it('integrators: one display name per id, used by the game-step panel, the n-body readout and the command line', () => {
+  it('integrators: one display name per id, used by the game-step panel, the n-body readout and the command line (gamestep, stability)', () => {
     expect(PANEL_NAMES).toBe(INTEGRATOR_NAMES);
     const help = option('gamestep', '--integrator').description;
     for (const id of GAME_INTEGRATORS) {
       expect(help).toContain(`${id} = ${INTEGRATOR_NAMES[id]}`);
       expect(physicsCaption({ ...DEFAULT_FORM, integrator: id, dt: 1, rebase: null }).startsWith(INTEGRATOR_NAMES[id])).toBe(true);
     }
+    expect(defaultOf('stability', '--method')).toBe(STABILITY_METHODS[0]);
+    for (const id of STABILITY_METHODS) expect(option('stability', '--method').description).toContain(`${id} = ${INTEGRATOR_NAMES[id]}`);
     for (const id of Object.keys(INTEGRATOR_NAMES) as IntegratorId[]) {
       const [g] = methodGroups([{ t0: 0, t1: 1, method: id, reason: 'default' } as never]);
       expect(g.label).toBe(integratorName(id));

@@ -4,7 +4,7 @@
  * method and reports what happened to each orbit (core/checks/stability.ts).
  *
  * Options: --merge-moons / --no-merge-moons (default: merge when flying the moons would exceed
- * the step budget, and say so), --method yoshida4|verlet, --steps-per-orbit N, --max-steps N,
+ * the step budget, and say so), --method yoshida4|verlet (or the names' slugs, core/io/defaults.ts), --steps-per-orbit N, --max-steps N,
  * --samples N. A progress bar is drawn on stderr at a terminal.
  * Text: step and span, the energy error of the run, a table per body (a, e, i ranges), the
  * sibling pairs (epoch spacing and closest approach in mutual Hill radii), the flags; `--json`:
@@ -13,6 +13,7 @@
  */
 import type { Command } from 'commander';
 import { InputError } from '../../../core/math/index.ts';
+import { integratorChoices, integratorName, parseIntegrator, STABILITY_METHODS } from '../../../core/io/index.ts';
 import { checkStability, DEFAULT_YEARS, type StabilityResult } from '../../../core/checks/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { loadSystemFile } from '../../node/files.ts';
@@ -48,7 +49,7 @@ function pad(s: string, n: number, right = false): string {
 export function stabilityText(system: StarSystem, r: StabilityResult): string {
   const out: string[] = [];
   const B = system.bodies;
-  out.push(`stability of ${system.name}: ${num(r.years, 1)} years (${r.method}, step ${num(r.h / 86400, 4)} d, ${r.steps} steps)`);
+  out.push(`stability of ${system.name}: ${num(r.years, 1)} years (${integratorName(r.method)}, step ${num(r.h / 86400, 4)} d, ${r.steps} steps)`);
   out.push(`energy error of the run: largest ${r.energy.maxRelativeError.toExponential(2)}, final ${r.energy.finalRelativeError.toExponential(2)} (relative)`);
   if (r.mergedMoons) out.push(`note: ${r.mergeReason}`);
   out.push('');
@@ -85,7 +86,7 @@ export function addStabilityCommand(program: Command): void {
     .option('--years <n>', "span in years of the system's calendar", String(DEFAULT_YEARS))
     .option('--merge-moons', 'fly each planet with its moons as one body')
     .option('--no-merge-moons', 'fly the moons (default: merged only when the step budget would be exceeded)')
-    .option('--method <m>', 'yoshida4 or verlet', 'yoshida4')
+    .option('--method <m>', `integrator, by id or name: ${integratorChoices(STABILITY_METHODS)}`, STABILITY_METHODS[0])
     .option('--steps-per-orbit <n>', 'steps per periapsis time scale of the fastest orbit')
     .option('--max-steps <n>', 'step budget')
     .option('--samples <n>', 'element-history samples')
@@ -93,14 +94,14 @@ export function addStabilityCommand(program: Command): void {
     .action((systemPath: string, o: StabilityCliOptions) =>
       guard({ json: !!o.json, flags: STABILITY_FLAGS }, async () => {
         const years = positive('--years', o.years, false);
-        if (o.method !== 'yoshida4' && o.method !== 'verlet') throw new InputError('--method', 'must be one of: yoshida4, verlet', o.method);
+        const method = parseIntegrator('--method', o.method, STABILITY_METHODS);
         const { system, warnings } = await loadSystemFile(systemPath);
         const bar = createProgress('stability', '‰', progressEnabled(!!o.json));
         let r: StabilityResult;
         try {
           r = checkStability(system, {
             years,
-            method: o.method,
+            method,
             mergeMoons: o.mergeMoons === undefined ? 'auto' : o.mergeMoons,
             stepsPerOrbit: o.stepsPerOrbit !== undefined ? positive('--steps-per-orbit', o.stepsPerOrbit, true) : undefined,
             maxSteps: o.maxSteps !== undefined ? positive('--max-steps', o.maxSteps, true) : undefined,

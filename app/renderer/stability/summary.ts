@@ -10,6 +10,7 @@ import type { StarSystem } from '../../../core/system/index.ts';
 import { CLOSE_ENCOUNTER_HILL, GLADMAN_SPACING, type StabilityFlagCode, type StabilityResult } from '../../../core/checks/index.ts';
 import type { StabilityEstimate } from '../analysis/checkJobs.ts';
 import { grouped } from '../format/format.ts';
+import { integratorName } from '../../../core/io/index.ts';
 
 export const FLAG_WORDS: Record<StabilityFlagCode, string> = {
   'hill-criterion': 'Too close for Hill stability',
@@ -56,7 +57,7 @@ export function stabilitySummary(system: StarSystem, r: StabilityResult): Stabil
     ok: n === 0,
     energy: `largest ${Number.isFinite(e) ? e.toExponential(1).replace('-', '\u2212') : '—'}, at the end ${Number.isFinite(r.energy.finalRelativeError) ? r.energy.finalRelativeError.toExponential(1).replace('-', '\u2212') : '—'}`,
     energyOk,
-    run: `${r.method === 'yoshida4' ? 'Yoshida 4th-order symplectic' : 'leapfrog'}, step ${grouped(r.h / system.calendar.dayLength, 3)} days, ${grouped(r.steps)} steps`,
+    run: `${integratorName(r.method)}, step ${grouped(r.h / system.calendar.dayLength, 3)} days, ${grouped(r.steps)} steps`,
     merged: r.mergedMoons ? r.mergeReason : null,
     flags,
   };

@@ -69,7 +69,7 @@ describe.concurrent('the command line names flags in its errors', () => {
     const cases: [string[], string][] = [
       [['--grid', '100000x10'], 'waymark: --grid departures must be an integer from 1 to 20000 (got 100000)'],
       [['--revs', '1000'], 'waymark: --revs must be an integer from 0 to 50 (got 1000)'],
-      [['--parking', '-5km'], 'waymark: --parking must be >= 0 (got -5000)'],
+      [['--parking', '-5km'], "waymark: --parking must be at least Tessel's minimum safe altitude, 90 km (got -5000)"],
       [['--capture-e', '2'], 'waymark: --capture-e must be < 1 (closed orbit) (got 2)'],
     ];
     const runs = await Promise.all(cases.map(([args]) => windows(...args)));

@@ -22,7 +22,7 @@ describe.concurrent('waymark stability', () => {
   it('text output with moons merged on request', async () => {
     const r = await runCli(['stability', DEMO, '--years', '100', '--merge-moons']);
     expect(r.code).toBe(0);
-    expect(r.stdout).toMatch(/^stability of Ilmar: 100\.0 years \(yoshida4/);
+    expect(r.stdout).toMatch(/^stability of Ilmar: 100\.0 years \(Yoshida 4th-order symplectic/);
     expect(r.stdout).toMatch(/moons merged into their planets on request/);
     expect(r.stdout).toMatch(/Moravel–Fennick/);
     expect(r.stdout).toMatch(/no flags/);
