@@ -150,6 +150,8 @@ function buildRoute(system: StarSystem, ci: CheckedIntent, options: RouteOptions
       dv = leg.dvDepart;
       vArrive = leg.vArrive;
       hops.push({ kind: 'to-parent', from: link.from, to: link.to, depart, arrive: leg.leaveMoon, dv });
+      // the interplanetary hop starts where the ship leaves the moon
+      depart = leg.leaveMoon;
       dv = 0;
     } else if (link.kind === 'siblings') {
       const span = ci.departBefore - ci.departAfter;
