@@ -31,7 +31,7 @@ import type { Command } from 'commander';
 import { burnTableCsv, ephemerisCsv } from '../../../core/io/index.ts';
 import { writeOem } from '../../../core/io/index.ts';
 import { budgetReport } from '../../../core/io/index.ts';
-import { parseQuantity } from '../../../core/io/index.ts';
+import { integratorName, parseQuantity } from '../../../core/io/index.ts';
 import { InputError } from '../../../core/math/index.ts';
 import { sampleEphemeris } from '../../../core/conic/index.ts';
 import type { NBodyResult } from '../../../core/nbody/index.ts';
@@ -188,7 +188,7 @@ export function addFlyCommand(program: Command): void {
 
 function printNBody(names: string[], nb: NBodyResult): void {
   printText(`\nn-body verification: ${nb.status}${nb.impact ? ` (impact on ${names[nb.impact.body]})` : ''}`);
-  for (const s of nb.spans) printText(`  ${s.method.padEnd(16)} ${num(s.t0, 0)} .. ${num(s.t1, 0)} s  ${s.reason}`);
+  for (const s of nb.spans) printText(`  ${integratorName(s.method).padEnd(28)} ${num(s.t0, 0)} .. ${num(s.t1, 0)} s  ${s.reason}`);
   const a = nb.arrival;
   if (a) {
     const deg = 180 / Math.PI;
