@@ -14,7 +14,10 @@
  *
  * Events: a coast of the chosen duration, a direct 'transfer' burn to M aimed at the arrival
  * periapsis altitude (core/conic solveBurn: Lambert from the ship's position, aimed off the
- * moon's centre by the impact parameter), the coast to periapsis at M, then the arrival burns.
+ * moon's centre by the impact parameter), halfway a mid-course 'transfer' burn to the same aim
+ * (zero in patched conics; in n-body it gives the targeter a burn near the moon — without it a
+ * route from Tessel to Quill is not met in n-body, with it it is), the coast to periapsis at M,
+ * then the arrival burns.
  */
 import { SolverError } from '../math/index.ts';
 import { propagateKepler, solveLambert, type LambertSolution } from '../orbit/index.ts';
@@ -90,6 +93,26 @@ export function toMoonEvents(draft: Draft, from: Situation, m: number, leg: Moon
     type: 'burn',
     id: eventId(draft, name),
     name,
+    t: null,
+    frame: 'vnb',
+    dv: [0, 0, 0],
+    solve: { kind: 'transfer', to: moon.id, arrive: leg.arrive, periapsisAltitude: aim.altitude },
+    mode: 'impulsive',
+    pointing: 'velocity',
+  });
+  // halfway, a mid-course burn re-aims the arrival (0 in patched conics; in other models the
+  // targeter's handle near the moon)
+  push({
+    type: 'coast',
+    id: eventId(draft, 'Coast to mid-course'),
+    name: 'Coast to mid-course',
+    until: { kind: 'duration', dt: 0.5 * (leg.arrive - leg.depart) },
+  });
+  const mid = `Mid-course correction to ${moon.name}`;
+  push({
+    type: 'burn',
+    id: eventId(draft, mid),
+    name: mid,
     t: null,
     frame: 'vnb',
     dv: [0, 0, 0],
