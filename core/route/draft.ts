@@ -52,6 +52,19 @@ export function draftPlan(draft: Draft, extra: PlanEvent[] = []): Plan {
 
 const ERROR_FLAGS = new Set(['solve-failed', 'impact', 'out-of-order', 'condition-not-met', 'atmosphere-entry']);
 
+/** A failed flight's flag in the designer's words: the event's name rather than its index, and what the failure means. */
+function flightInWords(draft: Draft, flag: { code: string; message: string; planEventId: string | null }): string {
+  const ev = draft.events.find((e) => e.id === flag.planEventId);
+  const name = ev ? `'${ev.name}'` : 'the flight';
+  if (flag.code === 'condition-not-met' && ev?.type === 'coast') {
+    const u = ev.until;
+    const where = 'body' in u && typeof u.body === 'string' ? (draft.system.bodies[draft.system.indexById[u.body]]?.name ?? u.body) : null;
+    const goal = u.kind === 'periapsis' && where ? `a periapsis at ${where}` : `its ${u.kind}`;
+    return `${name} never reaches ${goal} (the flight before it does not lead there)`;
+  }
+  return `${name}: ${flag.message.replace(/^events\[\d+\]: /, '')}`;
+}
+
 /**
  * Flies the draft with `extra` appended and returns where the ship is at the end; SolverError
  * ('route', 'no-solution') when the flight hits an error (a burn not solved, an impact, a coast
@@ -61,7 +74,7 @@ const ERROR_FLAGS = new Set(['solve-failed', 'impact', 'out-of-order', 'conditio
 export function situationAfter(draft: Draft, extra: PlanEvent[] = [], trial = false): Situation {
   const result = evaluate(draft.system, draftPlan(draft, extra), { samplesPerSegment: 0 });
   const bad = result.flags.find((f) => ERROR_FLAGS.has(f.code) && !(trial && (f.code === 'impact' || f.code === 'atmosphere-entry')));
-  if (bad) throw new SolverError('route', 'no-solution', bad.message, { event: bad.planEventId });
+  if (bad) throw new SolverError('route', 'no-solution', flightInWords(draft, bad), { event: bad.planEventId });
   const state = new Float64Array(6);
   const k = shipStateAt(result, result.t1, state);
   if (k < 0) throw new SolverError('route', 'no-solution', 'the flight has no trajectory');

@@ -24,6 +24,14 @@
  * 'to-moon', an ellipse about the planet from 85 % of the moon's orbit radius to 1.8 times it
  * (within 80 % of the planet's sphere of influence), as the moon demo plan does (captured high in
  * the well, a short transfer to the moon).
+ * Propellant: the route is built and targeted with the ship's stages scaled to carry any route
+ * (ample.ts) — a burn past the tanks would be flown short and the coast after it would never
+ * reach its aim — and the real ship is put back afterwards: its margin is the budget's
+ * (carried − needed − reserve); a ship that cannot carry the route gets the route, verdict not
+ * met, and "the route needs about 12.4 km/s; the Long Patience carries 6.5 km/s — add propellant
+ * or a stage". In finite burns (durations depend on the masses) a ship that carries the built
+ * route is targeted as itself. A hop that cannot be built at all is a SolverError('route',
+ * 'no-solution') naming the hop's bodies, its departure and what failed, in words.
  * Limits: a departure from an orbit the route did not lay (after a stop in a low orbit) is
  * rarely tangential and costs more. The date range applies to the route's first departure; a
  * later interplanetary window is searched over a range of the same length from the arrival of
@@ -34,7 +42,7 @@
  */
 import { InputError, SolverError } from '../math/index.ts';
 import { bodyState, formatDate, type StarSystem } from '../system/index.ts';
-import type { Plan, PlanTarget } from '../plan/index.ts';
+import { deltaVLeft, type Plan, type PlanTarget } from '../plan/index.ts';
 import { targetPlan, type TargetResult } from '../target/index.ts';
 import type { RouteHopKind } from './chain.ts';
 import { checkIntent, type CheckedIntent, type RouteIntent } from './intent.ts';
@@ -45,6 +53,7 @@ import { captureDv, captureEvents, finalAim, finalArrivalDv, finalArrivalEvents,
 import { bestWindow, siblingsEvents } from './siblings.ts';
 import { searchMoonTransfer, toMoonEvents } from './toMoon.ts';
 import { toParentEvents } from './toParent.ts';
+import { ampleVehicle } from './ample.ts';
 import { cross, parkingThrough, planeWithInclination, unit, type V3 } from './geometry.ts';
 
 export interface RouteHop {
@@ -110,9 +119,26 @@ function orbitNormal(system: StarSystem, k: number, t: number): V3 {
   return unit(cross(s, [s[3], s[4], s[5]]));
 }
 
-const kmps = (v: number): string => `${(v / 1000).toFixed(2)} km/s`;
+const kmps = (v: number, digits = 2): string => `${(v / 1000).toFixed(digits)} km/s`;
 
-/** Builds and targets a route (see the module comment). InputError for a bad intent; SolverError when no route is found or it is cancelled. */
+/** The detail of a SolverError, without its "solver: reason: " head. */
+const detailOf = (e: SolverError): string => e.message.replace(/^[a-z][\w-]*: [a-z-]+: /, '');
+
+/**
+ * A hop that cannot be built, in the designer's words: SolverError('route', 'no-solution')
+ * naming the hop's bodies and its departure (the date range for the first hop, the arrival of
+ * the hop before otherwise) and what failed.
+ */
+function hopError(system: StarSystem, ci: CheckedIntent, from: string, to: string, sit: Situation | null, e: SolverError): SolverError {
+  const cal = system.calendar;
+  const when = sit ? `after ${formatDate(cal, sit.t)}` : `between ${formatDate(cal, ci.departAfter)} and ${formatDate(cal, ci.departBefore)}`;
+  return new SolverError('route', 'no-solution', `the hop from ${from} to ${to} departing ${when} cannot be built: ${detailOf(e)}`, {
+    from,
+    to,
+    cause: e.message,
+  });
+}
+
 /**
  * The route's events hop by hop into a new draft. `direct`: a route starting with a moon → planet
  * hop followed by an interplanetary one escapes from the moon straight onto the interplanetary
@@ -120,7 +146,8 @@ const kmps = (v: number): string => `${(v / 1000).toFixed(2)} km/s`;
  */
 function buildRoute(system: StarSystem, ci: CheckedIntent, options: RouteOptions, direct: boolean): { draft: Draft; hops: RouteHop[] } {
   const { onProgress, signal } = options;
-  const draft: Draft = { system, vehicle: ci.vehicle, reserve: ci.reserve, start: null, events: [] };
+  // built with the ample vehicle: no burn is cut short while the route is laid (ample.ts)
+  const draft: Draft = { system, vehicle: ampleVehicle(ci.vehicle), reserve: ci.reserve, start: null, events: [] };
   const finalOrbit: FinalOrbit = { periapsisAltitude: ci.periapsisAltitude, apoapsisAltitude: ci.apoapsisAltitude, inclination: ci.inclination };
   const hops: RouteHop[] = [];
   let sit: Situation | null = null;
@@ -130,77 +157,87 @@ function buildRoute(system: StarSystem, ci: CheckedIntent, options: RouteOptions
     if (signal?.aborted) throw new SolverError('route', 'cancelled', 'route cancelled');
     const link = links[k];
     const x = system.indexById[link.from];
-    const escape = direct && k === 0 && link.kind === 'to-parent' && links[1]?.kind === 'siblings';
-    if (escape) k++;
+    const escapes = direct && k === 0 && link.kind === 'to-parent' && links[1]?.kind === 'siblings';
+    if (escapes) k++;
     const arrivalLink = links[k];
     const y = system.indexById[arrivalLink.to];
     const by = system.bodies[y];
-    const last = k === links.length - 1;
-    onProgress?.((0.25 * k) / links.length, `Building the hop from ${system.bodies[x].name} to ${by.name}`);
-    const aim = last ? finalAim(by, finalOrbit) : intermediateAim(system, y, links[k + 1].kind, system.indexById[links[k + 1].to]);
-    let depart: number;
-    let dv: number;
-    let vArrive: number;
-    if (escape) {
-      const P = system.bodies[x].parentIndex;
-      const aM = system.bodies[x].elements?.a ?? 0;
-      const w = bestWindow(system, P, y, ci.departAfter, ci.departBefore, aM - system.bodies[P].radius, aim);
-      const leg = escapeEvents(draft, x, y, w, ci.fromAltitude, ci.fromInclination, aim);
-      depart = leg.depart;
-      dv = leg.dvDepart;
-      vArrive = leg.vArrive;
-      hops.push({ kind: 'to-parent', from: link.from, to: link.to, depart, arrive: leg.leaveMoon, dv });
-      // the interplanetary hop starts where the ship leaves the moon
-      depart = leg.leaveMoon;
-      dv = 0;
-    } else if (link.kind === 'siblings') {
-      const span = ci.departBefore - ci.departAfter;
-      const after = sit ? Math.max(ci.departAfter, sit.t + 3600) : ci.departAfter;
-      const before = Math.max(ci.departBefore, after + span);
-      const w = bestWindow(system, x, y, after, before, altitudeHere, aim);
-      const leg = siblingsEvents(draft, x, y, w, altitudeHere, sit ? null : ci.fromInclination, aim, sit);
-      depart = leg.depart;
-      dv = leg.dvDepart;
-      vArrive = leg.vArrive;
-    } else {
-      if (!sit) {
-        const plane = link.kind === 'to-moon' ? orbitNormal(system, y, ci.departAfter) : orbitNormal(system, x, ci.departAfter);
-        sit = startInPlane(draft, x, ci.fromAltitude, plane, ci.fromInclination, ci.departAfter);
-      }
-      if (link.kind === 'to-moon') {
-        const leg = searchMoonTransfer(draft, sit, y, aim, signal);
-        toMoonEvents(draft, sit, y, leg, aim);
+    try {
+      const last = k === links.length - 1;
+      onProgress?.((0.25 * k) / links.length, `Building the hop from ${system.bodies[x].name} to ${by.name}`);
+      const aim = last ? finalAim(by, finalOrbit) : intermediateAim(system, y, links[k + 1].kind, system.indexById[links[k + 1].to]);
+      let depart: number;
+      let dv: number;
+      let vArrive: number;
+      if (escapes) {
+        const P = system.bodies[x].parentIndex;
+        const aM = system.bodies[x].elements?.a ?? 0;
+        const w = bestWindow(system, P, y, ci.departAfter, ci.departBefore, aM - system.bodies[P].radius, aim);
+        const leg = escapeEvents(draft, x, y, w, ci.fromAltitude, ci.fromInclination, aim);
+        depart = leg.depart;
+        dv = leg.dvDepart;
+        vArrive = leg.vArrive;
+        hops.push({ kind: 'to-parent', from: link.from, to: link.to, depart, arrive: leg.leaveMoon, dv });
+        // the interplanetary hop starts where the ship leaves the moon
+        depart = leg.leaveMoon;
+        dv = 0;
+      } else if (link.kind === 'siblings') {
+        const span = ci.departBefore - ci.departAfter;
+        const after = sit ? Math.max(ci.departAfter, sit.t + 3600) : ci.departAfter;
+        const before = Math.max(ci.departBefore, after + span);
+        const w = bestWindow(system, x, y, after, before, altitudeHere, aim);
+        const leg = siblingsEvents(draft, x, y, w, altitudeHere, sit ? null : ci.fromInclination, aim, sit);
         depart = leg.depart;
         dv = leg.dvDepart;
         vArrive = leg.vArrive;
       } else {
-        const tol = last ? 0.25 * (aim.altitude - ci.periapsisAltitude) : Math.max(10e3, 0.1 * aim.altitude);
-        const leg = toParentEvents(draft, sit, aim, tol);
-        depart = leg.depart;
-        dv = leg.dvDepart;
-        vArrive = leg.vArrive;
+        if (!sit) {
+          const plane = link.kind === 'to-moon' ? orbitNormal(system, y, ci.departAfter) : orbitNormal(system, x, ci.departAfter);
+          sit = startInPlane(draft, x, ci.fromAltitude, plane, ci.fromInclination, ci.departAfter);
+        }
+        if (link.kind === 'to-moon') {
+          const leg = searchMoonTransfer(draft, sit, y, aim, signal);
+          toMoonEvents(draft, sit, y, leg, aim);
+          depart = leg.depart;
+          dv = leg.dvDepart;
+          vArrive = leg.vArrive;
+        } else {
+          const tol = last ? 0.25 * (aim.altitude - ci.periapsisAltitude) : Math.max(10e3, 0.1 * aim.altitude);
+          const leg = toParentEvents(draft, sit, aim, tol);
+          depart = leg.depart;
+          dv = leg.dvDepart;
+          vArrive = leg.vArrive;
+        }
       }
+      const arrive = situationAfter(draft).t;
+      if (last) {
+        dv += finalArrivalDv(by, finalOrbit, vArrive);
+        finalArrivalEvents(draft, by, finalOrbit);
+      } else {
+        dv += captureDv(by, aim, vArrive);
+        captureEvents(draft, by, aim);
+        // a short coast in the captured orbit so the next hop starts from a settled state
+        draft.events.push({
+          type: 'coast',
+          id: eventId(draft, `Coast about ${by.name}`),
+          name: `Coast about ${by.name}`,
+          until: { kind: 'duration', dt: 600 },
+        });
+        altitudeHere = aim.altitude;
+      }
+      sit = situationAfter(draft);
+      hops.push({
+        kind: arrivalLink.kind,
+        from: escapes ? system.bodies[system.bodies[x].parentIndex].id : arrivalLink.from,
+        to: arrivalLink.to,
+        depart,
+        arrive,
+        dv,
+      });
+    } catch (e) {
+      if (!(e instanceof SolverError) || e.reason === 'cancelled') throw e;
+      throw hopError(system, ci, system.bodies[x].name, by.name, sit, e);
     }
-    const arrive = situationAfter(draft).t;
-    if (last) {
-      dv += finalArrivalDv(by, finalOrbit, vArrive);
-      finalArrivalEvents(draft, by, finalOrbit);
-    } else {
-      dv += captureDv(by, aim, vArrive);
-      captureEvents(draft, by, aim);
-      // a short coast in the captured orbit so the next hop starts from a settled state
-      draft.events.push({ type: 'coast', id: eventId(draft, `Coast about ${by.name}`), name: `Coast about ${by.name}`, until: { kind: 'duration', dt: 600 } });
-      altitudeHere = aim.altitude;
-    }
-    sit = situationAfter(draft);
-    hops.push({
-      kind: arrivalLink.kind,
-      from: escape ? system.bodies[system.bodies[x].parentIndex].id : arrivalLink.from,
-      to: arrivalLink.to,
-      depart,
-      arrive,
-      dv,
-    });
   }
   return { draft, hops };
 }
@@ -210,6 +247,21 @@ function flownCost(draft: Draft, target: PlanTarget): number {
   const res = evaluate(draft.system, { ...draftPlan(draft), target }, { samplesPerSegment: 0 });
   if (res.budget.failedBurns.length > 0 || !res.target?.reached) return Number.POSITIVE_INFINITY;
   return res.budget.total;
+}
+
+/**
+ * The route targeted with the ample vehicle, given back with the designer's ship: the margin of
+ * the budget (plan/budget.ts: Δv left − reserve − missing, here carried − needed − reserve), and
+ * when the ship cannot carry the Δv the route needs, the verdict not met and the shortfall in words.
+ */
+function withShip(t: TargetResult, ci: CheckedIntent, carried: number): TargetResult {
+  // the reserve as plan/budget.ts reserveFor holds it back: percent of the Δv needed plus an absolute amount
+  const marginOf = (needed: number): number => carried - needed - ((ci.reserve.percent / 100) * needed + ci.reserve.absolute);
+  const plan = { ...t.plan, vehicle: ci.vehicle };
+  const margin = { before: marginOf(t.dv.before), after: marginOf(t.dv.after) };
+  if (!(t.dv.after > carried)) return { ...t, plan, margin };
+  const shortfall = `the route needs about ${kmps(t.dv.after, 1)}; the ${ci.vehicle.name || 'ship'} carries ${kmps(carried, 1)} — add propellant or a stage`;
+  return { ...t, plan, margin, status: 'not-met', message: t.status === 'met' ? shortfall : `${shortfall}; and ${t.message}` };
 }
 
 /** Builds and targets a route (see the module comment). InputError for a bad intent; SolverError when no route is found or it is cancelled. */
@@ -262,11 +314,17 @@ export function planRoute(system: StarSystem, intent: RouteIntent, options: Rout
   };
   cancelled();
   onProgress?.(0.5, 'Targeting the route');
-  const result = targetPlan(system, plan, {
+  // targeted with the ample vehicle (the impulsive trajectory does not depend on the masses), but
+  // in finite burns, whose durations do, with the ship itself when it carries the route
+  const ample = draft.vehicle;
+  const carried = deltaVLeft(ci.vehicle);
+  const ownShip = ci.truthModel === 'finite' && !(evaluate(system, plan, { samplesPerSegment: 0 }).budget.total > carried);
+  const targeted = targetPlan(system, ownShip ? plan : { ...plan, vehicle: ample }, {
     model: ci.truthModel,
     signal,
     onProgress: (p) => onProgress?.(0.5 + (0.5 * (p.leg - 1)) / p.legs, `Targeting the ${p.legName}`),
   });
+  const result = ownShip ? targeted : withShip(targeted, ci, carried);
   onProgress?.(1, 'Route done');
   const dvEstimate = hops.reduce((s, h) => s + h.dv, 0);
   const cal = system.calendar;

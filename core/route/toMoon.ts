@@ -29,6 +29,13 @@ import type { ArrivalAim } from './arrive.ts';
 
 export const MOON_COAST_STEPS = 48;
 export const MOON_TOF_STEPS = 32;
+/**
+ * An aim offset B at the moon tilts the arc's plane by about atan(B / (r₂ sin θ)) (θ the transfer
+ * angle, r₂ the moon's distance): pairs with B ≥ PLANE_SWING · r₂ sin θ (a tilt over ≈ 6°, near
+ * a 180° transfer where the plane is undefined) are skipped — there the solved burn can take
+ * another plane than the search saw (a 10 km/s burn for a 3.5 km/s transfer).
+ */
+export const PLANE_SWING = 0.1;
 
 export interface MoonLeg {
   depart: number;
@@ -65,6 +72,35 @@ export function searchMoonTransfer(draft: Draft, from: Situation, m: number, aim
       let sol: LambertSolution | undefined;
       try {
         sol = solveLambert(mu, [s[0], s[1], s[2]], [m6[0], m6[1], m6[2]], tof)[0];
+      } catch {
+        continue;
+      }
+      if (!sol) continue;
+      // the burn aims off the moon's centre by B on the side v̂∞ × ẑ (core/conic solveBurn): the
+      // pair is costed on that arc, and refused when the offset can swing the arc's plane
+      const vix = sol.v2[0] - m6[3];
+      const viy = sol.v2[1] - m6[4];
+      const viz = sol.v2[2] - m6[5];
+      const vi = Math.hypot(vix, viy, viz);
+      if (!(vi > 0)) continue;
+      const B = rArr * Math.sqrt(1 + (2 * moon.mu) / (rArr * vi * vi));
+      const r2 = Math.hypot(m6[0], m6[1], m6[2]);
+      const cx = s[1] * m6[2] - s[2] * m6[1];
+      const cy = s[2] * m6[0] - s[0] * m6[2];
+      const cz = s[0] * m6[1] - s[1] * m6[0];
+      const sinAngle = Math.hypot(cx, cy, cz) / (Math.hypot(s[0], s[1], s[2]) * r2);
+      if (!(B < PLANE_SWING * r2 * sinAngle)) continue;
+      let bx = viy;
+      let by = -vix;
+      let bz = 0;
+      if (Math.hypot(bx, by) < 1e-9 * vi) {
+        bx = 0;
+        by = viz;
+        bz = -viy;
+      }
+      const bn = Math.hypot(bx, by, bz);
+      try {
+        sol = solveLambert(mu, [s[0], s[1], s[2]], [m6[0] + (B * bx) / bn, m6[1] + (B * by) / bn, m6[2] + (B * bz) / bn], tof)[0];
       } catch {
         continue;
       }

@@ -1,5 +1,7 @@
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { evaluate, shipStateAt } from '../../../core/conic/index.ts';
+import { parsePlanFile } from '../../../core/io/index.ts';
 import type { Vehicle } from '../../../core/plan/index.ts';
 import { planRoute, type RouteResult } from '../../../core/route/index.ts';
 import { AU, body, demoSystem, MU_EARTH, MU_SUN, R_EARTH, testSystem } from '../plan/helpers.ts';
@@ -219,5 +221,56 @@ describe('planRoute in the finite-burn and n-body models', () => {
     expect(r.target.status).toBe('met');
     expect(r.plan.truthModel).toBe('nbody');
     for (const l of r.target.legs) for (const g of l.goals) expect(g.met, `${l.name}: ${g.name}`).toBe(true);
+  });
+});
+
+/**
+ * A ship that cannot carry the route (the demo plan's ship, about 6.5 km/s, to Skerry, about
+ * 12.5 km/s): the route is built and targeted as for any ship — burns are not cut short by the
+ * tanks while it is laid — and given back not met, with the shortfall in words. The carried Δv is
+ * checked against the rocket equation written out here (Tsiolkovsky, g₀ = 9.80665 m/s²).
+ */
+describe('planRoute with a ship that cannot carry the route', () => {
+  const small = parsePlanFile(readFileSync(new URL('../../../assets/plans/tessel-to-ochre.plan.json', import.meta.url), 'utf8')).plan.vehicle;
+  const intent = {
+    from: { body: 'tessel', altitude: 300e3 },
+    to: { body: 'skerry', periapsisAltitude: 500e3 },
+    departAfter: 0,
+    departBefore: 400 * DAY,
+  };
+
+  it('Tessel to Skerry: the same route as a ship that can, verdict not met, the shortfall named', () => {
+    const r = planRoute(sys, { ...intent, vehicle: small });
+    const big = planRoute(sys, { ...intent, vehicle: heavy });
+    expect(big.target.status).toBe('met');
+    expect(r.target.status).toBe('not-met');
+    // the same flight: built and targeted without regard to the tanks (the two targetings start
+    // from the same plan and take the same steps: equal to rounding)
+    expect(Math.abs(r.target.dv.after - big.target.dv.after)).toBeLessThan(1e-3);
+    expect(r.hops.map((h) => [h.kind, h.depart, h.arrive])).toEqual(big.hops.map((h) => [h.kind, h.depart, h.arrive]));
+    expect(r.plan.vehicle).toEqual(small);
+    let m = small.payloadMass + small.stages.reduce((s, st) => s + st.dryMass + st.propellantMass, 0);
+    let carried = 0;
+    for (const st of small.stages) {
+      carried += 9.80665 * st.isp * Math.log(m / (m - st.propellantMass));
+      m -= st.dryMass + st.propellantMass;
+    }
+    const words = /the route needs about (\d+\.\d) km\/s; the (.+) carries (\d+\.\d) km\/s — add propellant or a stage/.exec(r.message);
+    expect(words, r.message).not.toBeNull();
+    expect(Number(words?.[1])).toBeCloseTo(r.target.dv.after / 1000, 1);
+    expect(words?.[2]).toBe(small.name);
+    expect(Number(words?.[3])).toBeCloseTo(carried / 1000, 1);
+    // the margin as the budget defines it (plan/budget.ts): carried − needed − reserve, the
+    // route's default reserve 5 % + 50 m/s
+    const needed = r.target.dv.after;
+    expect(r.target.margin.after).toBeCloseTo(carried - needed - (0.05 * needed + 50), 3);
+  });
+
+  it('a ship that can: the margin is the one its own flight budgets', () => {
+    const r = planRoute(sys, { ...intent, vehicle: heavy });
+    const flown = evaluate(sys, r.plan, { samplesPerSegment: 0 });
+    expect(r.plan.vehicle).toEqual(heavy);
+    // the budget sums the same rows: equal but for rounding
+    expect(Math.abs(r.target.margin.after - flown.budget.margin)).toBeLessThan(1e-6);
   });
 });
