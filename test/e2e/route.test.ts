@@ -1,15 +1,17 @@
 /**
  * End to end: planning a route as a new user would, from the demo plan (browser mode, headless
  * chromium; setup in harness.ts). File → "New plan from a route…" opens the route panel; the
- * demo ship carries too little Δv for Moravel's moons, so "edit the vehicle" takes the user to
- * the stages to fill the tanks, and "Plan a route…" brings the form back as it was; a run in
- * n-body is cancelled; then From Tessel 300 km, To Skerry 500 km, a departure range around the
- * window the route builder finds (asked of core here, so nothing is hard-coded), patched conics;
- * Propose runs in the analysis worker; the verdict is "met"; "Use this plan" replaces the plan
- * as one edit: the Plan screen shows its events, the Budget its burns, the status line its truth
- * model; Undo brings the plan back. The panel is measured at 1024×640 and 1920×1080 (no two
- * boxes overlap, nothing outside the dialog or the window) and screenshots go to
- * test/output/e2e/. Waits are hang guards only.
+ * demo ship carries too little Δv for Moravel's moons: the summary says by how much beside the
+ * verdict, and its "edit the vehicle" takes the user to the stages to fill the tanks;
+ * "Plan a route…" brings the form back as it was; a run in n-body is cancelled; then From
+ * Tessel 300 km, To Skerry 500 km, a departure range around the window the route builder finds
+ * (asked of core here, so nothing is hard-coded), patched conics; Propose runs in the analysis
+ * worker; the verdict is "met"; from the Plan screen "Replace this plan" replaces the plan as one
+ * edit: the Plan screen shows its events, the Budget its burns, the status line its truth model;
+ * Undo brings the plan back. From the File menu, "Open as a new plan" asks about the unsaved
+ * changes and opens the route's plan as a new untitled document. The panel is measured at
+ * 1024×640 and 1920×1080 (no two boxes overlap, nothing outside the dialog or the window) and
+ * screenshots go to test/output/e2e/. Waits are hang guards only.
  */
 import { readFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
@@ -17,7 +19,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parsePlanFile, parseSystemFile } from '../../core/io/index.ts';
 import { planRoute } from '../../core/route/index.ts';
 import { formatCompactDate } from '../../core/system/index.ts';
-import { chooseTo, defaultRouteForm, readRouteForm } from '../../app/renderer/route/routeForm.ts';
+import { ROUTE_FIELD_LABELS, chooseTo, defaultRouteForm, readRouteForm } from '../../app/renderer/route/routeForm.ts';
 import { HANG_GUARD_MS, OUT, buildApp, requireChromium, startApp, type E2eApp } from './harness.ts';
 
 const have = requireChromium();
@@ -78,6 +80,30 @@ async function dialogProblems(): Promise<string[]> {
   });
 }
 
+/**
+ * Texts of the Timeline's left column (each chart's title, max and min; each lane's name) whose
+ * boxes overlap another's by more than 1 px either way (sub-pixel rounding of the font boxes).
+ */
+async function timelineLabelOverlaps(): Promise<string[]> {
+  return page.evaluate(() => {
+    const texts = Array.from(document.querySelectorAll<SVGTextElement>('.timeline-svg .lane-label, .timeline-svg .chart-scale')).filter(
+      (t) => t.getBoundingClientRect().height > 0,
+    );
+    // three charts of title, max and min at least: the check has something to measure
+    const out: string[] = texts.length >= 9 ? [] : [`only ${texts.length} labels shown`];
+    for (const [i, a] of texts.entries()) {
+      const r = a.getBoundingClientRect();
+      for (const b of texts.slice(i + 1)) {
+        const q = b.getBoundingClientRect();
+        const w = Math.min(r.right, q.right) - Math.max(r.left, q.left);
+        const h = Math.min(r.bottom, q.bottom) - Math.max(r.top, q.top);
+        if (w > 1 && h > 1) out.push(`'${a.textContent}' overlaps '${b.textContent}' by ${h.toFixed(1)} px`);
+      }
+    }
+    return out;
+  });
+}
+
 describe.skipIf(!have)('planning a route in the browser (e2e)', () => {
   /** The departure range typed: 30 days either side of the window core finds for the default range. */
   let range: { after: string; before: string };
@@ -115,26 +141,65 @@ describe.skipIf(!have)('planning a route in the browser (e2e)', () => {
     // the defaults come from the plan: its start body and altitude
     expect(await page.inputValue('[data-route=from]')).toBe('tessel');
     expect(await page.inputValue('[data-route=fromAltitude]')).toBe('300');
+    expect(await page.inputValue('[data-route=fromInclination]')).toBe('');
+    // from the Plan screen the route's plan takes this plan's place
+    expect((await page.textContent('[data-action=route-use]'))!.trim()).toBe('Replace this plan');
     await page.click('[data-testid=route-panel] [data-action=route-discard]');
     expect(await page.locator('[data-testid=route-panel]').count()).toBe(0);
   });
 
-  it('refuses a periapsis below the safe altitude at its field, in km', async () => {
+  it('refuses a periapsis below the safe altitude and a missing date at their fields, in the words the form shows', async () => {
     await page.click('[data-testid=menu-file]');
     await page.click('[data-action=new-from-route]');
     // the keyboard starts on the first choice
     await expect.poll(() => js<string | null>("document.activeElement?.getAttribute('data-route') ?? null"), { timeout: HANG_GUARD_MS }).toBe('from');
+    // from the File menu the route's plan opens as a new plan
+    expect((await page.textContent('[data-action=route-use]'))!.trim()).toBe('Open as a new plan');
     await page.selectOption('[data-route=to]', 'skerry');
     await page.fill('[data-route=periapsis]', '1');
+    const before = await page.inputValue('[data-route=departBefore]');
+    await page.fill('[data-route=departBefore]', '');
     await page.click('[data-action=route-propose]');
     const msg = (await page.textContent('[data-route-message=periapsis]'))!;
     expect(msg).toMatch(/^Periapsis altitude must be at least 8 km, Skerry's safe altitude$/);
+    // the date's message names the field as the dialog shows it: its group's name, then its own label
+    const shown = await page.evaluate(() => {
+      const input = document.querySelector('[data-route=departBefore]')!;
+      const group = input.closest('.group')!;
+      return `${group.querySelector('.legend')!.textContent!.trim()} ${input.closest('label')!.querySelector('span')!.textContent!.trim()}`;
+    });
+    expect(shown).toBe(ROUTE_FIELD_LABELS.departBefore);
+    expect((await page.textContent('[data-route-message=departBefore]'))!).toBe(`${shown} is required`);
     expect(await page.textContent('[data-testid=route-panel]')).not.toMatch(/NaN/);
     expect(await js<boolean>('window.waymarkDebug.session.route.get().running')).toBe(false);
+    await page.fill('[data-route=departBefore]', before);
+  });
+
+  it('the demo ship carries too little for Skerry: the shortfall beside the verdict, and "edit the vehicle" there', async () => {
+    await page.fill('[data-route=periapsis]', '500');
+    await page.selectOption('[data-route=truthModel]', 'conic');
+    await page.click('[data-action=route-propose]');
+    await page.waitForSelector('[data-testid=route-verdict]', { timeout: HANG_GUARD_MS });
+    const r = await js<{ dvEstimate: number }>('window.waymarkDebug.session.route.get().result');
+    const short = (await page.textContent('[data-testid=route-shortfall]'))!.replace(/\s+/g, ' ').trim();
+    expect(short).toMatch(/^Short by [\d\s\u202f]+ m\/s: the estimate is more than .+ carries \([\d\s\u202f]+ m\/s\) — edit the vehicle$/);
+    // the shortfall is the estimate less what the ship carries (as the intro shows it), to the whole m/s shown
+    const num = (t: string) => Number(t.replace(/[\s\u202f]/g, ''));
+    const carries = num(/carries \(([\d\s\u202f]+) m\/s\)/.exec(short)![1]);
+    expect(num((await page.textContent('[data-testid=route-capacity]'))!.replace(' m/s', ''))).toBe(carries);
+    expect(Math.abs(num(/^Short by ([\d\s\u202f]+) m\/s/.exec(short)![1]) - (r.dvEstimate - carries))).toBeLessThanOrEqual(1); // both shown rounded to whole m/s
+    // beside the verdict: on its line, or right under it
+    const v = (await page.locator('[data-testid=route-verdict]').boundingBox())!;
+    const b = (await page.locator('[data-testid=route-shortfall]').boundingBox())!;
+    expect(b.y).toBeLessThan(v.y + v.height + 8);
+    await page.locator('[data-testid=route-result]').evaluate((el) => el.scrollIntoView({ block: 'end' }));
+    await page.waitForTimeout(100); // one frame for the scroll to paint
+    expect(await dialogProblems()).toEqual([]);
+    await page.screenshot({ path: `${OUT}route-shortfall-1024x640.png` });
   });
 
   it('"edit the vehicle" puts the panel aside at the vehicle; the form comes back as it was', async () => {
-    await page.click('[data-action=route-edit-vehicle]');
+    await page.click('[data-action=route-shortfall-edit-vehicle]');
     expect(await page.locator('[data-testid=route-panel]').count()).toBe(0);
     expect(await js<string | null>("document.activeElement?.getAttribute('data-path') ?? null")).toBe('vehicle.name');
     for (const [k, t] of TANKS.entries()) {
@@ -145,7 +210,9 @@ describe.skipIf(!have)('planning a route in the browser (e2e)', () => {
     await expect.poll(() => js<number>('window.waymarkDebug.session.doc.get().plan.vehicle.stages[1].propellantMass')).toBe(TANKS[1] * 1000);
     await page.click('[data-action=route-open]');
     expect(await page.inputValue('[data-route=to]')).toBe('skerry');
-    expect(await page.inputValue('[data-route=periapsis]')).toBe('1');
+    expect(await page.inputValue('[data-route=periapsis]')).toBe('500');
+    // opened from the Plan screen this time: the plan in this document is replaced
+    expect((await page.textContent('[data-action=route-use]'))!.trim()).toBe('Replace this plan');
   });
 
   it('Cancel stops a run in n-body: the worker is stopped, no route is offered, the plan is unchanged', async () => {
@@ -201,7 +268,7 @@ describe.skipIf(!have)('planning a route in the browser (e2e)', () => {
     expect(await dialogProblems()).toEqual([]);
     await page.screenshot({ path: `${OUT}route-panel-1920x1080.png` });
 
-    // Use this plan: one edit, the route's plan on every screen
+    // Replace this plan: one edit, the route's plan on every screen
     const proposed = await js<{ name: string; events: { name: string }[]; truthModel?: string }>('window.waymarkDebug.session.route.get().result.plan');
     await page.click('[data-action=route-use]');
     expect(await page.locator('[data-testid=route-panel]').count()).toBe(0);
@@ -227,11 +294,65 @@ describe.skipIf(!have)('planning a route in the browser (e2e)', () => {
     await page.setViewportSize({ width: 1024, height: 640 });
     await page.waitForTimeout(100); // one frame for the layout to paint
     await page.screenshot({ path: `${OUT}route-used-1024x640.png` });
+    expect(await timelineLabelOverlaps()).toEqual([]);
 
     // Undo: the plan before the route (the demo with its tanks filled) again
     await page.click('[data-action=undo]');
     expect(await plan()).toEqual(before);
     await expect.poll(() => page.textContent('[data-testid=budget-table]'), { timeout: HANG_GUARD_MS }).toMatch(/Ochre capture/);
+    expect(errors).toEqual([]);
+  });
+
+  it('File › New plan from a route: "Open as a new plan" asks about unsaved changes, then opens an untitled plan', async () => {
+    const before = await plan();
+    const docName = await js<string>('window.waymarkDebug.session.doc.get().name');
+    expect(docName).toBe('tessel-to-ochre.plan.json');
+    // the tanks filled above are unsaved changes
+    expect(await js<boolean>('window.waymarkDebug.session.doc.get().dirty')).toBe(true);
+    await page.click('[data-testid=menu-file]');
+    await page.click('[data-action=new-from-route]');
+    await page.waitForSelector('[data-testid=route-panel]', { timeout: HANG_GUARD_MS });
+    await page.selectOption('[data-route=to]', 'skerry');
+    await page.fill('[data-route=fromAltitude]', '300');
+    await page.fill('[data-route=periapsis]', '500');
+    await page.fill('[data-route=departAfter]', range.after);
+    await page.fill('[data-route=departBefore]', range.before);
+    await page.selectOption('[data-route=truthModel]', 'conic');
+    await page.click('[data-action=route-propose]');
+    await page.waitForSelector('[data-testid=route-verdict]', { timeout: HANG_GUARD_MS });
+    expect(await page.locator('[data-testid=route-shortfall]').count()).toBe(0);
+    const proposed = await js<{ name: string }>('window.waymarkDebug.session.route.get().result.plan');
+    expect((await page.textContent('[data-action=route-use]'))!.trim()).toBe('Open as a new plan');
+
+    // the question first; Cancel keeps the open document and the route on offer
+    await page.click('[data-action=route-use]');
+    await page.waitForSelector('[data-testid=ask]', { timeout: HANG_GUARD_MS });
+    expect(await page.textContent('[data-testid=ask]')).toMatch(/tessel-to-ochre\.plan\.json has unsaved changes/);
+    await page.click('[data-testid=ask] [data-choice=cancel]');
+    expect(await page.locator('[data-testid=route-panel]').count()).toBe(1);
+    expect(await plan()).toEqual(before);
+    expect(await page.isDisabled('[data-action=route-use]')).toBe(false);
+
+    // Discard changes: a new untitled document with the route's plan
+    await page.click('[data-action=route-use]');
+    await page.waitForSelector('[data-testid=ask]', { timeout: HANG_GUARD_MS });
+    await page.click('[data-testid=ask] [data-choice=discard]');
+    await expect.poll(() => page.locator('[data-testid=route-panel]').count(), { timeout: HANG_GUARD_MS }).toBe(0);
+    expect(await plan()).toEqual(proposed);
+    expect(await js<unknown>('window.waymarkDebug.session.doc.get().file')).toBeNull();
+    expect(await js<string>('window.waymarkDebug.session.doc.get().name')).toBe('Untitled plan');
+    expect(await js<boolean>('window.waymarkDebug.session.doc.get().canUndo')).toBe(false);
+    expect(await page.textContent('.statusline')).toMatch(/Untitled plan/);
+    expect(await page.textContent('.statusline')).not.toMatch(/tessel-to-ochre/);
+    expect(await page.inputValue('input[data-path=name]')).toBe(proposed.name);
+    await page.waitForSelector('[data-testid=budget-table] tbody tr.row', { timeout: HANG_GUARD_MS });
+    await page.waitForTimeout(100); // one frame for the layout to paint
+    await page.screenshot({ path: `${OUT}route-new-1024x640.png` });
+    expect(await timelineLabelOverlaps()).toEqual([]);
+    await page.setViewportSize({ width: 1920, height: 1080 });
+    await page.waitForTimeout(100); // one frame for the layout to paint
+    await page.screenshot({ path: `${OUT}route-new-1920x1080.png` });
+    await page.setViewportSize({ width: 1024, height: 640 });
     expect(errors).toEqual([]);
   });
 });

@@ -19,6 +19,8 @@ export interface RouteForm {
   from: string;
   /** Circular orbit altitude about From, km. */
   fromAltitude: string;
+  /** Departure orbit inclination, °; empty: any (the route builder chooses the plane). */
+  fromInclination: string;
   to: string;
   /** Target orbit periapsis altitude, km. */
   periapsis: string;
@@ -37,6 +39,7 @@ export type RouteField = keyof RouteForm;
 export const ROUTE_FIELD_LABELS: Readonly<Record<RouteField, string>> = {
   from: 'From',
   fromAltitude: 'Orbit altitude',
+  fromInclination: 'Orbit inclination',
   to: 'To',
   periapsis: 'Periapsis altitude',
   apoapsis: 'Apoapsis altitude',
@@ -125,6 +128,7 @@ export function defaultRouteForm(system: StarSystem, plan: Plan): RouteForm {
   const form: RouteForm = {
     from,
     fromAltitude: formatNumber(fromAltitudeDefault(system, plan, from), UNITS.km),
+    fromInclination: '',
     to,
     periapsis: formatNumber(bodyById(system, to)?.safeAlt ?? 0, UNITS.km),
     apoapsis: '',
@@ -136,7 +140,7 @@ export function defaultRouteForm(system: StarSystem, plan: Plan): RouteForm {
   return withDepartureRange(system, form);
 }
 
-/** The form with "and" set one repeat period after "Depart between" (unchanged when either is unreadable). */
+/** The form with "Depart before" set one repeat period after "Depart after" (unchanged when either is unreadable). */
 export function withDepartureRange(system: StarSystem, form: RouteForm): RouteForm {
   const after = parseTime(ROUTE_FIELD_LABELS.departAfter, form.departAfter, system.calendar);
   const period = repeatPeriod(system, form.from, form.to);
@@ -184,6 +188,8 @@ export function readRouteForm(system: StarSystem, plan: Plan, form: RouteForm): 
   const altitude = number('fromAltitude');
   if (altitude !== null && from && altitude < from.safeAlt)
     errors.fromAltitude = `${L.fromAltitude} must be at least ${km(from.safeAlt)}, ${from.name}'s safe altitude`;
+  const fromInc = number('fromInclination', { nullable: true }, UNITS.deg);
+  if (fromInc !== null && !(fromInc >= 0 && fromInc <= Math.PI)) errors.fromInclination = `${L.fromInclination} must be from 0° to 180°, or empty for any`;
   const peri = number('periapsis');
   if (peri !== null && to && peri < to.safeAlt) errors.periapsis = `${L.periapsis} must be at least ${km(to.safeAlt)}, ${to.name}'s safe altitude`;
   const apo = number('apoapsis', { nullable: true });
@@ -211,7 +217,7 @@ export function readRouteForm(system: StarSystem, plan: Plan, form: RouteForm): 
   return {
     ok: true,
     intent: {
-      from: { body: from.id, altitude, inclination: null },
+      from: { body: from.id, altitude, inclination: fromInc },
       to: { body: to.id, periapsisAltitude: peri, apoapsisAltitude: apo, inclination: inc },
       departAfter: after,
       departBefore: before,
@@ -225,8 +231,11 @@ export function readRouteForm(system: StarSystem, plan: Plan, form: RouteForm): 
 
 // The route builder's intent fields, as the form shows them.
 const INTENT_FIELDS: Record<string, RouteField> = {
+  from: 'from',
   'from.body': 'from',
   'from.altitude': 'fromAltitude',
+  'from.inclination': 'fromInclination',
+  to: 'to',
   'to.body': 'to',
   'to.periapsisAltitude': 'periapsis',
   'to.apoapsisAltitude': 'apoapsis',
@@ -236,21 +245,55 @@ const INTENT_FIELDS: Record<string, RouteField> = {
   truthModel: 'truthModel',
 };
 
+// What each kind of solver failure (core/math SolverReason) means for a route, in the user's words.
+const SOLVER_WORDS: Record<string, string> = {
+  'no-solution': 'No route was found',
+  'no-convergence': 'The burns could not be targeted: the search for them did not settle',
+  'no-bracket': 'No departure time in the range gives a transfer',
+  'step-underflow': 'The flight could not be followed to its end: the steps became too small',
+  'step-budget': 'The flight could not be followed to its end in the steps allowed',
+  'non-finite': 'The calculation ran out of range',
+  cancelled: 'The route was cancelled',
+  singular: 'The geometry has no single answer (a transfer of exactly half a revolution, say)',
+  'precision-lost': 'The numbers are beyond what the calculation can resolve',
+  collision: 'The path falls into a body',
+};
+// "route: no-solution: detail", as core/math SolverError writes its message (the worker passes the message on).
+const SOLVER_MESSAGE = /^([a-z][\w-]*): ([a-z-]+): ([\s\S]*)$/;
+
+/** A message with any field path left in it ("events[4].dv") named in words ("the Δv of event 5"). */
+function pathsInWords(text: string, system: StarSystem): string {
+  const named = issueInWords({ path: 'route', rule: text }, null, system).rule;
+  // any path core/io does not name: items counted from 1, dots as spaces ("hops[1]" → "hop 2")
+  return named.replace(
+    /\b([A-Za-z_]+)s?\[(\d+)\]((?:\.[A-Za-z_]+)*)/g,
+    (_m, list: string, k: string, rest: string) => `${list.replace(/s$/, '')} ${Number(k) + 1}${rest.replace(/\./g, ' ')}`,
+  );
+}
+
 /**
- * The route builder's refusal (InputError(field, rule)) at the form's field, in its words and
- * units (core/io issueInWords writes SI values as the fields show them); a field the form does
- * not show (the vehicle, the reserve) gives `field` null and a sentence naming it.
+ * The route builder's refusal or failure in the user's words. An InputError(field, rule) lands
+ * at the form's field, in its words and units (core/io issueInWords writes SI values as the
+ * fields show them); a field the form does not show (the vehicle, the reserve) gives `field` null
+ * and a sentence naming it. A SolverError (or its message passed on by the worker) reads as what
+ * its reason means for the route, then the solver's own detail; no field path or reason code is
+ * left in either.
  */
 export function routeErrorAtField(err: unknown, system: StarSystem, plan: Plan): { field: RouteField | null; message: string } {
   if (!(err instanceof InputError)) {
-    // a solver's failure reads "route: no-solution: …" (core/math SolverError): its detail is what the user needs
-    const message = err instanceof Error ? err.message.replace(/^route: [a-z-]+: /, '') : String(err);
-    return { field: null, message };
+    const raw = err instanceof Error ? err.message : String(err);
+    const m = SOLVER_MESSAGE.exec(raw);
+    const reason = m && SOLVER_WORDS[m[2]] !== undefined ? m[2] : null;
+    const detail = pathsInWords(reason ? m![3] : raw, system).trim();
+    if (!reason) return { field: null, message: detail };
+    const head = SOLVER_WORDS[reason];
+    // the detail, when there is one, says where and why; a head alone ends the sentence
+    return { field: null, message: detail ? `${head}: ${detail}` : `${head}.` };
   }
   const field = INTENT_FIELDS[err.field] ?? null;
   // a date's value would read as plain seconds: the field shows the date itself
   const value = field === 'departAfter' || field === 'departBefore' ? undefined : err.value;
   const words = issueInWords({ path: err.field, rule: err.rule, value }, plan, system);
-  if (field) return { field, message: `${ROUTE_FIELD_LABELS[field]} ${words.rule}` };
-  return { field: null, message: words.text };
+  if (field) return { field, message: pathsInWords(`${ROUTE_FIELD_LABELS[field]} ${words.rule}`, system) };
+  return { field: null, message: pathsInWords(words.text, system) };
 }

@@ -147,7 +147,7 @@ export class Session {
     this.analysis = new AnalysisStore(this.doc, this.evaluation, new AnalysisClient(deps.analysisWorker));
     this.targeting = new TargetStore(this.doc, new AnalysisClient(deps.analysisWorker));
     this.truth = new TruthStore(this.doc, new AnalysisClient(deps.analysisWorker), deps.truthDebounceMs);
-    this.route = new RouteStore(this.doc, new AnalysisClient(deps.analysisWorker));
+    this.route = new RouteStore(this.doc, new AnalysisClient(deps.analysisWorker), (plan) => this.newPlanFrom(plan));
     // A refused edit that no field showed (a button, a menu, a window pick) becomes a notice;
     // the field that made an edit marks its refusal shown as soon as the edit returns.
     this.doc.refused.subscribe((r) => {
@@ -264,6 +264,22 @@ export class Session {
     const s = this.doc.get();
     this.doc.load({ plan: blankPlan(s.system), system: s.system, systemRef: s.systemRef, file: null });
     await this.clearOwnRecovery();
+  }
+
+  /**
+   * `plan` (a route's) as a new untitled document, as New does: the unsaved-changes question
+   * first; the plan is unsaved work (marked so, autosaved). Refused, with its issues in words,
+   * when it could not be saved and opened again.
+   */
+  async newPlanFrom(plan: Plan): Promise<'opened' | 'cancelled' | { refused: string }> {
+    const s = this.doc.get();
+    const errors = planIssues(plan, s.system, s.systemRef).filter((i) => i.severity === 'error');
+    if (errors.length > 0) return { refused: errors.map((i) => (i as { words?: string }).words ?? i.rule).join('; ') };
+    if (!(await this.confirmDiscard('open the route as a new plan'))) return 'cancelled';
+    const now = this.doc.get();
+    this.doc.load({ plan, system: now.system, systemRef: now.systemRef, file: null }, true);
+    await this.clearOwnRecovery();
+    return 'opened';
   }
 
   async open(): Promise<void> {
@@ -496,7 +512,7 @@ export class Session {
       case 'new':
         return this.newPlan();
       case 'new-from-route':
-        this.route.show();
+        this.route.show('new');
         return;
       case 'open':
         return this.open();

@@ -3,7 +3,8 @@ import { describe, expect, it } from 'vitest';
 import { evaluate } from '../../../../core/conic/evaluate.ts';
 import { chooseTo, defaultRouteForm, readRouteForm } from '../../../../app/renderer/route/routeForm.ts';
 import { routeSummary } from '../../../../app/renderer/route/routeSummary.ts';
-import { Session } from '../../../../app/renderer/state/session.ts';
+import { Session, type Question } from '../../../../app/renderer/state/session.ts';
+import { UNTITLED } from '../../../../app/renderer/state/document.ts';
 import { fakeHost } from '../state/fakeHost.ts';
 import { inThreadWorker, type TestWorker } from './inThreadWorker.ts';
 
@@ -11,13 +12,13 @@ const root = new URL('../../../../', import.meta.url);
 const systemText = readFileSync(new URL('assets/systems/ilmar.system.json', root), 'utf8');
 const demoText = readFileSync(new URL('assets/plans/tessel-to-ochre.plan.json', root), 'utf8');
 
-async function session(worker: () => TestWorker = inThreadWorker) {
+async function session(worker: () => TestWorker = inThreadWorker, ask: (q: Question) => Promise<string> = async () => 'cancel') {
   return Session.create({
     host: fakeHost(),
     evaluate: (s, p) => evaluate(s, p),
     bundledSystems: { 'ilmar.system.json': systemText },
     demo: { name: 'tessel-to-ochre.plan.json', text: demoText },
-    ask: async () => 'cancel',
+    ask,
     autosaveMs: 0,
     analysisWorker: worker,
     truthDebounceMs: 0,
@@ -44,12 +45,13 @@ function skerryIntent(s: Session) {
 }
 
 describe('planning a route from the app (in the analysis worker)', () => {
-  it("the menu's New plan from a route opens the route panel and changes nothing else", async () => {
+  it("the menu's New plan from a route opens the route panel for a new plan and changes nothing else", async () => {
     const s = await session();
     const before = s.doc.get();
     expect(s.route.get().open).toBe(false);
     await s.command({ command: 'new-from-route' });
     expect(s.route.get().open).toBe(true);
+    expect(s.route.get().use).toBe('new');
     expect(s.doc.get().revision).toBe(before.revision);
     s.route.hide();
     expect(s.route.get().open).toBe(false);
@@ -85,12 +87,13 @@ describe('planning a route from the app (in the analysis worker)', () => {
     expect(r.result).toBeNull();
     expect(worker!.terminated).toBeGreaterThan(0);
     expect(s.doc.get().revision).toBe(before.revision);
-    expect(s.route.use()).toBe(false);
+    expect(await s.route.use()).toBe(false);
   });
 
-  it('proposes Tessel 300 km to Skerry 500 km; Use replaces the plan as one undoable edit', async () => {
+  it("proposes Tessel 300 km to Skerry 500 km; from the Plan screen, Use replaces the open document's plan as one undoable edit", async () => {
     const s = await session();
     const before = s.doc.get();
+    s.route.show('replace');
     const notes: string[] = [];
     const unsubscribe = s.route.subscribe((x) => {
       if (x.note && notes[notes.length - 1] !== x.note) notes.push(x.note);
@@ -118,9 +121,12 @@ describe('planning a route from the app (in the analysis worker)', () => {
     expect(JSON.stringify(summary)).not.toMatch(/NaN|undefined/);
     expect(summary.met).toBe(result.target.status === 'met');
 
-    expect(s.route.use()).toBe(true);
+    expect(await s.route.use()).toBe(true);
     const after = s.doc.get();
     expect(after.plan).toEqual(result.plan);
+    // the same document: its file and generation stay
+    expect(after.file).toEqual(before.file);
+    expect(after.generation).toBe(before.generation);
     expect(after.revision).not.toBe(before.revision);
     expect(after.undoLabel).toMatch(/^Plan a route/);
     expect(s.route.get().open).toBe(false);
@@ -129,5 +135,51 @@ describe('planning a route from the app (in the analysis worker)', () => {
     s.undo();
     expect(s.doc.get().plan).toEqual(before.plan);
     expect(s.doc.get().canUndo).toBe(false);
+  }, 120_000);
+
+  it('from File › New plan from a route, Use opens the plan as a new untitled document, asking about unsaved changes first', async () => {
+    const questions: Question[] = [];
+    let answer = 'cancel';
+    const s = await session(inThreadWorker, async (q) => {
+      questions.push(q);
+      return answer;
+    });
+    // unsaved changes in the open plan
+    expect(s.doc.edit('rename', (p) => ({ ...p, name: 'Edited demo' }))).toBeNull();
+    const before = s.doc.get();
+    expect(before.dirty).toBe(true);
+    expect(before.file?.name).toBe('tessel-to-ochre.plan.json');
+    await s.command({ command: 'new-from-route' });
+    await s.route.propose(skerryIntent(s));
+    const result = s.route.get().result!;
+    expect(s.route.get().error).toBeNull();
+
+    // the user cancels the question: the open document and the route on offer stay
+    expect(await s.route.use()).toBe(false);
+    expect(questions.map((q) => q.title)).toEqual(['Unsaved changes']);
+    expect(questions[0].message).toMatch(/^tessel-to-ochre\.plan\.json has unsaved changes/);
+    expect(s.doc.get().generation).toBe(before.generation);
+    expect(s.doc.get().revision).toBe(before.revision);
+    expect(s.doc.get().plan.name).toBe('Edited demo');
+    expect(s.route.get().open).toBe(true);
+    expect(s.route.get().result).toBe(result);
+    expect(s.route.get().using).toBe(false);
+
+    // the user discards the changes: a new untitled document holds the route's plan
+    answer = 'discard';
+    expect(await s.route.use()).toBe(true);
+    expect(questions.length).toBe(2);
+    const after = s.doc.get();
+    expect(after.file).toBeNull();
+    expect(after.name).toBe(UNTITLED);
+    expect(after.generation).not.toBe(before.generation);
+    expect(after.plan).toEqual(result.plan);
+    expect(after.system).toBe(before.system);
+    expect(after.systemRef).toEqual(before.systemRef);
+    // unsaved work, nothing to undo into the old document
+    expect(after.dirty).toBe(true);
+    expect(after.canUndo).toBe(false);
+    expect(s.route.get().open).toBe(false);
+    expect(s.route.get().result).toBeNull();
   }, 120_000);
 });

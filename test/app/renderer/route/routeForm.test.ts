@@ -65,6 +65,7 @@ describe('the route form', () => {
     expect(Number(f.periapsis) * 1000).toBe(file.bodies.find((b) => b.id === f.to)!.min_safe_altitude_m);
     expect(f.apoapsis).toBe('');
     expect(f.inclination).toBe('');
+    expect(f.fromInclination).toBe('');
     expect(f.truthModel).toBe(plan.truthModel ?? 'conic');
     // the range: the plan's epoch to one synodic period of Tessel and Ochre, 1/|1/T1 − 1/T2|
     // (analytic); the fields show whole seconds, so the read-back is within half a second
@@ -127,6 +128,12 @@ describe('the route form', () => {
     // empty apoapsis and inclination: circular, any inclination
     const c = readRouteForm(system, plan, { ...form, apoapsis: ' ', inclination: '' });
     expect(c.ok && c.intent.to.apoapsisAltitude === null && c.intent.to.inclination === null).toBe(true);
+    // the departure orbit's inclination, degrees to radians (51.6° = 51.6·π/180; 1e-14: one rounding)
+    const d = readRouteForm(system, plan, { ...form, fromInclination: '51.6' });
+    if (!d.ok) throw new Error(JSON.stringify(d.errors));
+    expect(d.intent.from.body).toBe('tessel');
+    expect(d.intent.from.altitude).toBe(300_000);
+    expect(d.intent.from.inclination! / ((51.6 * Math.PI) / 180)).toBeCloseTo(1, 14);
   });
 
   it('refuses bad input at each field in the form’s words, never a NaN', () => {
@@ -147,6 +154,8 @@ describe('the route form', () => {
       'Apoapsis altitude must be at least the periapsis altitude (500 km), or empty for a circular orbit',
     );
     expect(bad({ inclination: '181' }).inclination).toBe('Inclination must be from 0° to 180°, or empty for any');
+    expect(bad({ fromInclination: '-1' }).fromInclination).toBe('Orbit inclination must be from 0° to 180°, or empty for any');
+    expect(bad({ fromInclination: 'polar' }).fromInclination).toMatch(/^Orbit inclination\b/);
     expect(bad({ departAfter: 'soon' }).departAfter).toMatch(/^Depart after /);
     expect(bad({ departAfter: '413-001', departBefore: '412-200' }).departBefore).toBe('Depart before must be later than depart after (413-001T00:00:00)');
     // every problem at once
@@ -163,10 +172,40 @@ describe('the route form', () => {
     expect(other.field).toBeNull();
     expect(other.message).toMatch(/Isp/);
     expect(routeErrorAtField(new Error('no window in the range'), system, plan)).toEqual({ field: null, message: 'no window in the range' });
-    // a solver's failure as the worker passes it on: its detail without the solver's name and reason code
+    const inc = routeErrorAtField(new InputError('from.inclination', 'must be an inclination from 0 to 180°', 4), system, plan);
+    expect(inc.field).toBe('fromInclination');
+    expect(inc.message).toMatch(/^Orbit inclination must be an inclination from 0 to 180°/);
+  });
+
+  it("reads a solver's failure as what it means for the route, with no reason code or field path left", () => {
+    // a solver's failure as the worker passes it on (its message only): the reason as a sentence, then its detail
+    const passedOn = (e: SolverError) => routeErrorAtField(new Error(e.message), system, plan);
+    expect(passedOn(new SolverError('route', 'no-solution', 'no transfer from Tessel to Ochre found in the date range'))).toEqual({
+      field: null,
+      message: 'No route was found: no transfer from Tessel to Ochre found in the date range',
+    });
     expect(routeErrorAtField(new SolverError('route', 'no-solution', 'no window between the dates'), system, plan)).toEqual({
       field: null,
-      message: 'no window between the dates',
+      message: 'No route was found: no window between the dates',
     });
+    const reasons = ['no-convergence', 'step-underflow', 'step-budget', 'no-bracket', 'non-finite', 'singular', 'precision-lost', 'collision'] as const;
+    const heads = new Set<string>();
+    for (const reason of reasons) {
+      const m = passedOn(new SolverError('lambert', reason, 'at the second hop')).message;
+      expect(m).not.toMatch(new RegExp(`lambert|${reason}`));
+      expect(m).toMatch(/^[A-Z].*: at the second hop$/);
+      heads.add(m);
+    }
+    // each reason its own sentence
+    expect(heads.size).toBe(reasons.length);
+    // a field path in the detail is named in words
+    const path = passedOn(new SolverError('route', 'no-solution', 'events[4].dv must be finite; hops[1] failed')).message;
+    expect(path).not.toMatch(/\[\d+\]|events|no-solution|route:/);
+    expect(path).toMatch(/event 5/);
+    expect(path).toMatch(/hop 2/);
+    // an InputError of a field the form does not show: named, never its path
+    const reserve = routeErrorAtField(new InputError('reserve', 'must hold a percent and an absolute amount, both at least 0', -1), system, plan);
+    expect(reserve.field).toBeNull();
+    expect(reserve.message).not.toMatch(/\[\d+\]/);
   });
 });
