@@ -42,11 +42,16 @@
  * Marquardt stalls ≈ 70 km off the 400 km orbit after 30 iterations: the escape burn from Quill,
  * thousands of times more sensitive than the capture burns, dominates the damping; neither a
  * mid-course burn on the fall to Tessel nor the capture burns' times as controls met it) and
- * Tessel → Skerry (the Moravel and Skerry arrivals converge, but the frozen capture at Skerry —
- * an inertial Δv at the conic periapsis time — flown after the n-body arrival puts the ship into
- * Skerry, so the final leg has no flight to start from). Targeting in patched conics first and
- * then in n-body changes neither (core/target starts every model from the conic reference
- * flight). The n-body Δv reported is the schedule's Σ|Δv| (withScheduleDv).
+ * Tessel → Skerry (the Moravel and Skerry arrivals converge on their B-planes and times, but
+ * the n-body approach reaches the 600 km periapsis at 2.28 km/s where the patched conics had
+ * ≈ 2.65: the capture frozen at the conic's 1.45 km/s leaves 0.88 km/s, below the 1.17 km/s of
+ * the 600 × 500 km ellipse, and the ship falls into Skerry, so the final leg has no flight to
+ * start from; the cure belongs to core/target — re-solving the next leg's solved burns (apsis,
+ * capture) from the n-body state once an arrival leg converges — as re-targeting a corrected
+ * schedule re-reads its goals from the schedule's own patched-conic flight, which is wrong).
+ * Targeting in patched conics first and then in n-body changes neither (core/target starts
+ * every model from the conic reference flight). The n-body Δv reported is the schedule's Σ|Δv|
+ * (withScheduleDv).
  */
 import { InputError, SolverError } from '../math/index.ts';
 import { bodyState, formatDate, type StarSystem } from '../system/index.ts';
