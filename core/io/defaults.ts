@@ -19,7 +19,7 @@ import type { GameIntegrator } from '../gamestep/index.ts';
 import { InputError } from '../math/index.ts';
 import { hohmann, synodicPeriod } from '../orbit/index.ts';
 import { FROM_PARENT, porkchopPair, SIBLINGS, type PorkchopPair } from '../search/index.ts';
-import type { Body, StarSystem } from '../system/index.ts';
+import { dateParts, type Body, type StarSystem } from '../system/index.ts';
 
 const DAY = 86400;
 
@@ -63,7 +63,7 @@ export interface PorkchopRanges {
   recurrence: number;
   /** Hohmann flight time of the leg, s. */
   hohmannTof: number;
-  /** Departure range, s from the system's epoch (whole days). */
+  /** Departure range, s from the system's epoch (starts of calendar days of the system). */
   depart: { start: number; end: number };
   /** Flight-time range, s (whole days, at least one day). */
   tof: { min: number; max: number };
@@ -97,12 +97,15 @@ export function porkchopRanges(system: StarSystem, from: number, to: number, dep
     recurrence = A.derived.period;
     hohmannTof = hohmann(B.mu, A.elements!.a, B.radius + orbitAltitude(B)).tof;
   }
-  const start = wholeDays(departFrom);
+  // The start of the calendar day (the system's own day) that departFrom falls in, so the range
+  // reads as a whole date in the app and on the command line.
+  const start = departFrom - dateParts(system.calendar, departFrom).secondOfDay;
+  const end = start + Math.max(DAY, wholeDays(DEPARTURE_SPAN_RECURRENCES * recurrence));
   return {
     pair,
     recurrence,
     hohmannTof,
-    depart: { start, end: start + Math.max(DAY, wholeDays(DEPARTURE_SPAN_RECURRENCES * recurrence)) },
+    depart: { start, end: end - dateParts(system.calendar, end).secondOfDay },
     tof: {
       min: Math.max(DAY, wholeDays(TOF_SPAN_HOHMANN[0] * hohmannTof)),
       max: Math.max(2 * DAY, wholeDays(TOF_SPAN_HOHMANN[1] * hohmannTof)),

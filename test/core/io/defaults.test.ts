@@ -14,6 +14,7 @@ import {
   type IntegratorId,
 } from '../../../core/io/defaults.ts';
 import { GAME_INTEGRATORS } from '../../../core/gamestep/index.ts';
+import { dateParts } from '../../../core/system/index.ts';
 import { InputError } from '../../../core/math/errors.ts';
 import { demoSystem } from '../search/fixtures.ts';
 
@@ -51,10 +52,16 @@ describe('defaults: porkchop ranges', () => {
     const synodic = 1 / Math.abs(1 / period(A.elements!.a) - 1 / period(B.elements!.a));
     const at = (A.elements!.a + B.elements!.a) / 2;
     const tH = Math.PI * Math.sqrt((at * at * at) / mu);
+    const cal = sys.calendar;
     const r = porkchopRanges(sys, A.index, B.index, 10 * DAY);
-    // the ranges are rounded to whole days: half a day either way
-    expect(r.depart.start).toBe(10 * DAY);
-    expect(Math.abs(r.depart.end - r.depart.start - DEPARTURE_SPAN_RECURRENCES * synodic)).toBeLessThanOrEqual(DAY / 2);
+    // departures start and end at the start of a day of the system's calendar (the one the app
+    // and the command line print), so each end moves by less than one calendar day
+    expect(r.depart.start).toBeLessThanOrEqual(10 * DAY);
+    expect(10 * DAY - r.depart.start).toBeLessThan(cal.dayLength);
+    expect(dateParts(cal, r.depart.start).secondOfDay).toBe(0);
+    expect(dateParts(cal, r.depart.end).secondOfDay).toBe(0);
+    expect(Math.abs(r.depart.end - r.depart.start - DEPARTURE_SPAN_RECURRENCES * synodic)).toBeLessThanOrEqual(cal.dayLength + DAY / 2);
+    // flight times are durations: whole standard days, half a day either way
     expect(Math.abs(r.tof.min - TOF_SPAN_HOHMANN[0] * tH)).toBeLessThanOrEqual(DAY / 2);
     expect(Math.abs(r.tof.max - TOF_SPAN_HOHMANN[1] * tH)).toBeLessThanOrEqual(DAY / 2);
     expect(r.pair.through).toBeNull();
@@ -76,7 +83,9 @@ describe('defaults: porkchop ranges', () => {
     const at = (rp + Q.elements!.a) / 2;
     const tH = Math.PI * Math.sqrt((at * at * at) / T.mu);
     expect(Math.abs(r.tof.max - 2 * tH)).toBeLessThanOrEqual(DAY / 2);
-    expect(Math.abs(r.depart.end - 1.5 * 2 * Math.PI * Math.sqrt(Q.elements!.a ** 3 / T.mu))).toBeLessThanOrEqual(DAY / 2);
+    // the range starts at the epoch (a day's start) and ends at the start of a calendar day
+    expect(r.depart.start).toBe(0);
+    expect(Math.abs(r.depart.end - 1.5 * 2 * Math.PI * Math.sqrt(Q.elements!.a ** 3 / T.mu))).toBeLessThanOrEqual(sys.calendar.dayLength + DAY / 2);
   });
 });
 
