@@ -23,8 +23,8 @@
  * point where the departure burn (solved as the evaluation solves it) is least.
  */
 import { SolverError } from '../math/index.ts';
-import { propagateKepler, solveLambert } from '../orbit/index.ts';
-import { bodyPosition, bodyState, type StarSystem } from '../system/index.ts';
+import { propagateKepler, solveLambert, synodicPeriod } from '../orbit/index.ts';
+import { bodyPosition, bodyState, formatDate, type StarSystem } from '../system/index.ts';
 import { solveBurn } from '../conic/index.ts';
 import { computePorkchopRows, createGrid, findWindows, type TransferWindow } from '../search/index.ts';
 import type { PlanEvent } from '../plan/index.ts';
@@ -67,9 +67,51 @@ export function bestWindow(system: StarSystem, x: number, y: number, after: numb
     metric: 'total',
   });
   grid.unsolved = computePorkchopRows(system, setup, 0, WINDOW_ROWS, grid.planes);
-  const w = findWindows(system, grid, { count: 1 })[0];
+  // findWindows lists windows in departure order ("the next K windows"): the best is the cheapest of all
+  let w: TransferWindow | undefined;
+  for (const c of findWindows(system, grid, { count: Number.MAX_SAFE_INTEGER })) if (!w || c.dvTotal < w.dvTotal) w = c;
   if (!w) throw new SolverError('route', 'no-solution', `no transfer from ${system.bodies[x].name} to ${system.bodies[y].name} found in the date range`);
   return w;
+}
+
+/** A window cheaper by this fraction outside the range is worth telling the designer about. */
+export const OUTSIDE_WINDOW_SAVING = 0.05;
+
+/**
+ * When the best departure of [after, before] lies on the range's edge (no window opens inside
+ * it, the cheapest departure is wherever the range is cut), the best window over one and a half
+ * synodic periods from `after`: if it departs outside the range and saves more than
+ * OUTSIDE_WINDOW_SAVING, a sentence saying when it opens and what it costs; else null.
+ */
+export function windowOutsideRange(
+  system: StarSystem,
+  x: number,
+  y: number,
+  inRange: TransferWindow,
+  after: number,
+  before: number,
+  parkingAltitude: number,
+  aim: ArrivalAim,
+): string | null {
+  if (!inRange.atEdge) return null;
+  const bx = system.bodies[x];
+  const by = system.bodies[y];
+  const recurrence = synodicPeriod(bx.derived.period, by.derived.period);
+  if (!(recurrence > 0 && Number.isFinite(recurrence))) return null;
+  let wide: TransferWindow;
+  try {
+    wide = bestWindow(system, x, y, after, after + 1.5 * recurrence, parkingAltitude, aim);
+  } catch {
+    return null;
+  }
+  const outside = wide.departure < after || wide.departure > before;
+  if (!outside || !(wide.dvTotal < (1 - OUTSIDE_WINDOW_SAVING) * inRange.dvTotal)) return null;
+  const cal = system.calendar;
+  const kms = (v: number) => `${(v / 1000).toFixed(2)} km/s`;
+  return (
+    `no ${bx.name} → ${by.name} window opens between ${formatDate(cal, after)} and ${formatDate(cal, before)}: ` +
+    `the cheapest departure there is at the range's edge (${kms(inRange.dvTotal)}); a window opens ${formatDate(cal, wide.departure)} (${kms(wide.dvTotal)}) — widen the departure range to include it`
+  );
 }
 
 /** v∞ at departure of the window's Lambert arc (about the common parent), m/s. */
