@@ -43,7 +43,9 @@ export function formatNumber(si: number | null, unit: NumberUnit): string {
   if (!Number.isFinite(si)) return String(si);
   const v = si / unit.scale;
   const fixed = v.toFixed(unit.decimals);
-  return fixed.includes('.') ? fixed.replace(/\.?0+$/, '') : fixed;
+  const short = fixed.includes('.') ? fixed.replace(/\.?0+$/, '') : fixed;
+  // a tiny negative rounds to "-0", which reads as a bug: it is 0 at the field's precision
+  return short === '-0' ? '0' : short;
 }
 
 const PLAIN = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;

@@ -7,6 +7,10 @@ const cal: SystemCalendar = { yearLength: 400 * 93600, dayLength: 93600, yearAtE
 describe('editor field text', () => {
   it('shows SI values in the display unit without trailing zeros', () => {
     expect(formatNumber(300_000, UNITS.km)).toBe('300');
+    // a tiny negative reads 0, not "-0" (a targeted Δv component of −1e-9 m/s showed "-0")
+    expect(formatNumber(-1e-4, UNITS.km)).toBe('0');
+    expect(formatNumber(-0, UNITS.km)).toBe('0');
+    expect(formatNumber(-2_000, UNITS.km)).toBe('-2');
     expect(formatNumber(23.354 * (Math.PI / 180), UNITS.deg)).toBe('23.354');
     expect(formatNumber(27_000, UNITS.t)).toBe('27');
     expect(formatNumber(null, UNITS.km)).toBe('');
