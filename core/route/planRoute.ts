@@ -50,8 +50,8 @@
  * capture) from the n-body state once an arrival leg converges — as re-targeting a corrected
  * schedule re-reads its goals from the schedule's own patched-conic flight, which is wrong).
  * Targeting in patched conics first and then in n-body changes neither (core/target starts
- * every model from the conic reference flight). The n-body Δv reported is the schedule's Σ|Δv|
- * (withScheduleDv).
+ * every model from the conic reference flight). The n-body Δv reported is the schedule's own
+ * budget (core/target scheduleBudget: every burn counted, whatever its patched-conic reading).
  */
 import { InputError, SolverError } from '../math/index.ts';
 import { bodyState, formatDate, type StarSystem } from '../system/index.ts';
@@ -263,26 +263,11 @@ function flownCost(draft: Draft, target: PlanTarget): number {
 }
 
 /**
- * An n-body result's Δv from its schedule: every burn of the targeted plan is fixed, impulsive, at
- * a set time (core/target freezeSchedule), so the Δv it needs is Σ|Δv| whatever the flight. The
- * targeter's own figure re-flies the schedule in patched conics, which without the moon's and the
- * Sun's pull can end early (an impact before the capture) and drop the later burns (Quill to
- * Tessel: 0.71 km/s reported for a 3.4 km/s route).
- */
-function withScheduleDv(t: TargetResult): TargetResult {
-  let after = 0;
-  for (const e of t.plan.events) if (e.type === 'burn') after += Math.hypot(e.dv[0], e.dv[1], e.dv[2]);
-  const fixed = t.plan.events.every((e) => e.type !== 'burn' || (e.solve.kind === 'fixed' && e.mode === 'impulsive'));
-  return fixed ? { ...t, dv: { ...t.dv, after, added: after - t.dv.before } } : t;
-}
-
-/**
  * The route targeted with the ample vehicle, given back with the designer's ship: the margin of
  * the budget (plan/budget.ts: Δv left − reserve − missing, here carried − needed − reserve), and
  * when the ship cannot carry the Δv the route needs, the verdict not met and the shortfall in words.
  */
-function withShip(targeted: TargetResult, ci: CheckedIntent, carried: number): TargetResult {
-  const t = ci.truthModel === 'nbody' ? withScheduleDv(targeted) : targeted;
+function withShip(t: TargetResult, ci: CheckedIntent, carried: number): TargetResult {
   // the reserve as plan/budget.ts reserveFor holds it back: percent of the Δv needed plus an absolute amount
   const marginOf = (needed: number): number => carried - needed - ((ci.reserve.percent / 100) * needed + ci.reserve.absolute);
   const plan = { ...t.plan, vehicle: ci.vehicle };

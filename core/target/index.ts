@@ -19,5 +19,6 @@ export { flyModel, freezeSchedule, isSchedule, planForModel, scheduleActions } f
 export type { FlyModelOptions, ModelFlight } from './modelFlight.ts';
 export { targetPlan } from './targetPlan.ts';
 export type { ArrivalGoal, ControlChange, FailureReason, LegReport, TargetOptions, TargetProgress, TargetResult } from './targetPlan.ts';
+export { burnsNotFlown, scheduleBudget } from './scheduleBudget.ts';
 export { truthReport } from './truth.ts';
 export type { TruthGoal, TruthOptions, TruthReport } from './truth.ts';

@@ -11,21 +11,23 @@
  *    (solve.ts, bounded Levenberg–Marquardt) meets the leg's goals in the model. n-body trials
  *    start from the state just before the leg's first burn (the flight before it never changes).
  * 4. The targeted plan: the controlled burns fixed at the solved vectors, `truthModel` set to the
- *    model; its Δv, margin and goals re-flown for the report.
+ *    model; its Δv, margin and goals re-flown for the report (n-body: the schedule's own budget,
+ *    scheduleBudget.ts, every burn counted whatever its patched-conic reading does).
  *
  * Failures say which goal was not met and why, in the designer's words: no burn moves it (no
  * sensitivity), a control at its bound, a burn short of propellant, the flight does not arrive.
  */
 import { InputError, SolverError, type WaymarkError } from '../math/index.ts';
 import { findBodyIndex, type StarSystem } from '../system/index.ts';
-import type { BurnEvent, Plan, PlanResult, TruthModel } from '../plan/index.ts';
+import type { Budget, BurnEvent, Plan, PlanResult, TruthModel } from '../plan/index.ts';
 import { planTruthModel } from '../plan/index.ts';
 import { evaluate } from '../conic/index.ts';
 import { NBodyModel, type NBodyModelOptions } from '../nbody/index.ts';
 import { applyControls, timeControl, type BurnDvControl, type EventTimeControl, type PlanControl } from './controls.ts';
 import { DEFAULT_TARGET_TOLERANCES, planLegs, type Leg, type TargetTolerances } from './legs.ts';
 import { measure, type FlightGoal } from './measure.ts';
-import { flyModel, freezeSchedule, planForModel, type ModelFlight } from './modelFlight.ts';
+import { flyModel, freezeSchedule, isSchedule, planForModel, type ModelFlight } from './modelFlight.ts';
+import { scheduleBudget } from './scheduleBudget.ts';
 import { solveTargets, type GoalOutcome, type SolveStatus } from './solve.ts';
 
 export interface TargetProgress {
@@ -218,7 +220,12 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
   const legs = withArrivalGoals(system, planLegs(system, plan, reference, tol, options.arrivalTime ?? true), options.goals ?? [], tol);
   const nbody = model === 'nbody' ? new NBodyModel(system, options) : undefined;
   let work: Plan = model === 'nbody' ? freezeSchedule(system, plan, evaluate(system, plan, { samplesPerSegment: 0 })) : plan;
-  const before = evaluate(system, planForModel(work, model), { samplesPerSegment: 0 });
+  // n-body: the schedule's own budget, every burn counted (its patched-conic reading may end before the last)
+  const budgetOf = (p: Plan): Budget => {
+    const res = evaluate(system, planForModel(p, model), { samplesPerSegment: 0 });
+    return model === 'nbody' && isSchedule(p) ? scheduleBudget(p, res) : res.budget;
+  };
+  const before = budgetOf(work);
   const reports: LegReport[] = [];
   // each timing control joins the first leg with a burn at or after its event
   const timing = new Map<number, { kind: EventTimeControl['kind']; eventId: string }[]>();
@@ -360,9 +367,9 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
   });
 
   const targeted: Plan = { ...work, truthModel: model };
-  const after = evaluate(system, planForModel(targeted, model), { samplesPerSegment: 0 });
+  const after = budgetOf(targeted);
   const met = reports.every((r) => r.status === 'converged');
-  const dv = { before: before.budget.total, after: after.budget.total, added: after.budget.total - before.budget.total };
+  const dv = { before: before.total, after: after.total, added: after.total - before.total };
   const failed = reports.find((r) => r.status !== 'converged');
   const message = met
     ? `Every goal met in the ${modelWords(model)} model: ${reports.length} leg${reports.length === 1 ? '' : 's'}, ${iterationsAll} iterations, ${flightsAll} flights; Δv ${signed(dv.added)} m/s.`
@@ -375,7 +382,7 @@ export function targetPlan(system: StarSystem, plan: Plan, options: TargetOption
     iterations: iterationsAll,
     flights: flightsAll,
     dv,
-    margin: { before: before.budget.margin, after: after.budget.margin },
+    margin: { before: before.margin, after: after.margin },
     message,
   };
 }

@@ -7,8 +7,10 @@
  * - 'nbody': the plan as a timed burn schedule (a plan targeted in n-body already is one; any other
  *   plan is flown as the schedule of its patched-conic flight, with a note) flown through the
  *   restricted n-body model by core/nbody verifyNBody; the final orbit is the osculating orbit
- *   about the target at the end of the flight. The budget is the schedule's (Δv per burn is the
- *   burn's fixed vector, so it is the same in every model for impulsive burns).
+ *   about the target at the end of the flight. The budget is the schedule's own (scheduleBudget.ts:
+ *   every burn counted from its fixed vector, thrust and duration, whatever the path); the
+ *   patched-conic reading of the schedule gives only the times and path figures, and when it ends
+ *   before a burn (an impact the n-body ship does not meet) a note says so.
  */
 import type { StarSystem } from '../system/index.ts';
 import { findBodyIndex } from '../system/index.ts';
@@ -17,6 +19,7 @@ import { planTruthModel, truthModelLabel } from '../plan/index.ts';
 import { evaluate } from '../conic/index.ts';
 import { verifyNBody, type NBodyModelOptions, type NBodyResult } from '../nbody/index.ts';
 import { freezeSchedule, isSchedule, planForModel, scheduleActions } from './modelFlight.ts';
+import { burnsNotFlown, scheduleBudget } from './scheduleBudget.ts';
 
 const DEG = Math.PI / 180;
 
@@ -37,7 +40,7 @@ export interface TruthReport {
   label: string;
   /** The plan as flown (for 'nbody' the timed schedule). */
   plan: Plan;
-  /** Patched-conic evaluation of the plan as the model flies it (for 'nbody': of the schedule, for times, masses and the budget). */
+  /** Patched-conic evaluation of the plan as the model flies it (for 'nbody': of the schedule, for times and masses; a comparison only, its budget may leave out burns after an early end). */
   conic: PlanResult;
   /** The n-body flight ('nbody' only). */
   nbody: NBodyResult | null;
@@ -106,7 +109,25 @@ export function truthReport(system: StarSystem, plan: Plan, options: TruthOption
     if (t.i !== null) goal('inclination', achieved ? achieved.i : null, t.i, t.tolerance.i, '°', DEG);
   }
   const failures: string[] = [];
-  const budget = conic.budget;
+  // n-body: the schedule's own budget, every burn counted (the patched-conic reading may end before the last)
+  const schedule = model === 'nbody' && isSchedule(flown);
+  const budget = schedule ? scheduleBudget(flown, conic) : conic.budget;
+  if (model === 'nbody') {
+    const missed = burnsNotFlown(flown, conic);
+    if (missed.length > 0) {
+      const hit = conic.events.find((e) => e.kind === 'impact');
+      const why = hit
+        ? `hits ${system.bodies[hit.central]?.name ?? 'a body'} on day ${(hit.t / 86400).toFixed(2)}`
+        : `ends on day ${(conic.t1 / 86400).toFixed(2)}`;
+      const which = missed.map((b) => b.name).join(', ');
+      notes.push(
+        schedule
+          ? `the patched-conic reading of the schedule ${why}, before ${which}: a comparison only; the budget counts every burn of the schedule`
+          : // the patched-conic flight that froze the schedule never reached these burns, so they have no fixed Δv
+            `the patched-conic flight ${why}, before ${which}: ${missed.length > 1 ? 'they have' : 'it has'} no fixed Δv to fly or count (target the plan in n-body)`,
+      );
+    }
+  }
   // a burn that failed to solve flies no Δv, which can only flatter the margin: it does not hold then
   const marginHolds = budget.margin >= 0 && budget.failedBurns.length === 0;
   if (budget.margin < 0) failures.push(`margin ${budget.margin.toFixed(1)} m/s is below zero`);
@@ -116,8 +137,12 @@ export function truthReport(system: StarSystem, plan: Plan, options: TruthOption
     // the patched-conic path's own impact or miss says nothing of an n-body flight
     if (model === 'nbody' && (f.code === 'impact' || f.code === 'target-missed')) continue;
     if (f.code === 'negative-margin' || f.code === 'target-missed') continue; // said below in the target's and margin's words
+    // n-body: the propellant's errors are the schedule budget's (below), for every burn
+    if (model === 'nbody' && f.code === 'out-of-propellant') continue;
     failures.push(f.message);
   }
+  if (model === 'nbody')
+    for (const r of budget.rows) for (const f of r.flags) if (f.severity === 'error' && f.code === 'out-of-propellant') failures.push(f.message);
   if (nbody?.status === 'impact' && nbody.impact) {
     failures.push(`the n-body flight hits ${system.bodies[nbody.impact.body]?.name ?? 'a body'} on day ${(nbody.impact.t / 86400).toFixed(2)}`);
   }

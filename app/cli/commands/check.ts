@@ -38,7 +38,11 @@ const CONIC_PATH_FLAGS = new Set(['target-missed', 'impact']);
 
 /** The flags that apply to the plan read in `report.model`: every flag for the patched-conic models, the budget's and the burns' for n-body. */
 export function modelFlags(report: TruthReport): Flag[] {
-  return report.model === 'nbody' ? report.conic.flags.filter((f) => !CONIC_PATH_FLAGS.has(f.code)) : report.conic.flags;
+  if (report.model !== 'nbody') return report.conic.flags;
+  // the schedule's burns the patched-conic reading never reached (it ended early) flag from the schedule's budget
+  const flown = new Set(report.conic.budget.rows.map((r) => r.planEventId));
+  const later = report.budget.rows.filter((r) => !flown.has(r.planEventId)).flatMap((r) => r.flags);
+  return [...report.conic.flags.filter((f) => !CONIC_PATH_FLAGS.has(f.code)), ...later];
 }
 
 /** The verdict in the model judged: every failing condition in words (empty: the plan holds). */
@@ -168,7 +172,8 @@ export function addCheckCommand(program: Command): void {
           });
         } else {
           printWarnings(loaded.warnings);
-          const out = [budgetText(system, plan, report.conic, modelFlags(report))];
+          // the budget in the model judged (n-body: the schedule's, every burn counted)
+          const out = [budgetText(system, plan, { ...report.conic, budget: report.budget }, modelFlags(report))];
           const target = targetText(system, report);
           if (target.length > 0) out.push('', ...target);
           for (const n of report.notes) out.push(`note: ${n}`);

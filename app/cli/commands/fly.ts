@@ -100,7 +100,8 @@ export function addFlyCommand(program: Command): void {
         const truth = planTruthModel(plan);
         const model = asked ?? truth;
         const report = readInModel(system, plan, model, !!o.json || toStdout !== undefined, step);
-        const result = report.conic;
+        // the patched-conic flight with the budget in the model flown (n-body: the schedule's, every burn counted)
+        const result = { ...report.conic, budget: report.budget };
         const nbody: NBodyResult | null = report.nbody;
         const flown = report.plan;
 

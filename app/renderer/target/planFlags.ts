@@ -24,6 +24,12 @@ export interface PlanFlags {
   comparison: { label: string; flags: Flag[] } | null;
 }
 
+/** Flags of the schedule's burns that the patched-conic reading of an n-body report never reached. */
+function unflownBurnFlags(report: TruthReport): Flag[] {
+  const flown = new Set(report.conic.budget.rows.map((r) => r.planEventId));
+  return report.budget.rows.filter((r) => !flown.has(r.planEventId)).flatMap((r) => r.flags);
+}
+
 const same = (a: Flag, b: Flag) => a.code === b.code && a.message === b.message;
 
 /**
@@ -46,8 +52,10 @@ export function planFlags(ro: Pick<Readout, 'truthModel' | 'source'>, evaluation
     };
   }
   // finite burns: the report's flight is the plan's in its model, every flag its own; n-body: the
-  // schedule's patched-conic flight is a comparison, its path flags are not the plan's
-  const own = report.model === 'finite' ? report.conic.flags : report.conic.flags.filter((f) => !PATH_FLAGS.has(f.code));
+  // schedule's patched-conic flight is a comparison, its path flags are not the plan's; the burns it
+  // never reached (it ended early) flag from the schedule's own budget (core/target scheduleBudget)
+  const later = report.model === 'nbody' ? unflownBurnFlags(report) : [];
+  const own = report.model === 'finite' ? report.conic.flags : [...report.conic.flags.filter((f) => !PATH_FLAGS.has(f.code)), ...later];
   const rest = evaluation.flags.filter((f) => !own.some((o) => same(o, f)));
   return {
     label: report.label,

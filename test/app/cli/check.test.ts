@@ -153,3 +153,41 @@ describe('check: finite burns', () => {
     expect(plain.stdout).not.toContain('g-loss');
   });
 });
+
+describe('check: n-body, a schedule whose patched-conic reading ends early', () => {
+  it('the budget table counts every burn of the schedule, and a note says the patched-conic reading is a comparison', async () => {
+    const E = 14e6;
+    // 300 km circular about Tessel (μ 3e14 m³/s², radius 5900 km); a 1.5 km/s retrograde burn drops
+    // the periapsis deep below the surface, so no flight of this path reaches the burn a day later
+    const r0 = 6.2e6;
+    const p = editedDemo('impacting-schedule.plan.json', (d) => {
+      d.start = { kind: 'state', body: 'tessel', epoch_s: E, r_m: [r0, 0, 0], v_mps: [0, Math.sqrt(3e14 / r0), 0] };
+      const burn = (id: string, name: string, t: number, dv: number[]) => ({
+        type: 'burn',
+        id,
+        name,
+        t_s: t,
+        frame: 'inertial',
+        dv_mps: dv,
+        solve: { kind: 'fixed' },
+        mode: 'impulsive',
+        pointing: 'velocity',
+      });
+      d.events = [
+        burn('deorbit', 'Deorbit', E + 60, [0, -1500, 0]),
+        { type: 'stage', id: 'drop-kick', name: 'Drop kick stage' },
+        burn('late', 'Late burn', E + 86400, [0, 0, 300]),
+      ];
+      d.target = null;
+      d.end_s = E + 90000;
+      d.truth_model = 'nbody';
+    });
+    const r = await runCli(['check', p]);
+    expect(r.stderr).toBe('');
+    expect(r.stdout).toMatch(/^Deorbit /m);
+    expect(r.stdout).toMatch(/^Late burn /m);
+    // 1500 + 300 m/s, both counted (the patched-conic reading alone flies 1500)
+    expect(r.stdout).toMatch(/^planned\s+1800\.0 m\/s$/m);
+    expect(r.stdout).toMatch(/note: the patched-conic reading of the schedule hits Tessel on day \d+\.\d\d, before Late burn: a comparison only/);
+  });
+});

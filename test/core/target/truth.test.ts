@@ -41,6 +41,11 @@ describe('truthReport', () => {
     expect(r.failures.some((f) => /^periapsis altitude about Ochre is \d{7,}\.\d{3} km, wanted 400\.000 km ± 10\.000 km$/.test(f))).toBe(true);
     // the schedule's burns are the plan's: the same Δv
     expect(r.budget.total).toBeCloseTo(evaluate(sys, demoPlan, { samplesPerSegment: 0 }).budget.total, 6);
+    // the schedule's patched-conic reading flies every burn here: the schedule's own budget is the
+    // same bookkeeping of the same burns in the same order, to the last bit, and no note is added
+    expect(r.conic.budget.rows).toHaveLength(r.budget.rows.length);
+    expect(r.budget.margin).toBe(r.conic.budget.margin);
+    expect(r.notes.some((n) => n.includes('patched-conic reading of the schedule'))).toBe(false);
   });
 });
 

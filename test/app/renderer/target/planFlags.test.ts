@@ -9,9 +9,18 @@ const atmosphere = flag('atmosphere-entry', 'warning', "the ship descends below 
 const longBurn = flag('long-burn', 'warning', 'Ochre capture: lasts 9.0 % of the orbital period');
 const dry = flag('out-of-propellant', 'error', 'Apoapsis trim: out of propellant');
 
-/** A truth report with only what the flags read: its model, its words, its flight's flags and its failures. */
-function report(model: TruthReport['model'], flags: Flag[], failures: string[]): TruthReport {
-  return { model, label: model === 'nbody' ? 'n-body' : 'patched conics, every burn finite', conic: { flags }, failures } as unknown as TruthReport;
+/**
+ * A truth report with only what the flags read: its model, its words, its flight's flags and its
+ * failures, and the burns of its budget (`unflown`: rows of burns its patched-conic reading never reached).
+ */
+function report(model: TruthReport['model'], flags: Flag[], failures: string[], unflown: { planEventId: string; flags: Flag[] }[] = []): TruthReport {
+  return {
+    model,
+    label: model === 'nbody' ? 'n-body' : 'patched conics, every burn finite',
+    conic: { flags, budget: { rows: [] } },
+    budget: { rows: unflown },
+    failures,
+  } as unknown as TruthReport;
 }
 
 describe("the Budget's flags of the plan in its truth model", () => {
@@ -35,6 +44,17 @@ describe("the Budget's flags of the plan in its truth model", () => {
     const f = planFlags({ truthModel: 'nbody', source: 'stale' }, { flags: [dry, longBurn] }, report('nbody', [dry, longBurn], failures));
     expect(f.problems).toEqual(failures);
     expect(f.flags).toEqual([longBurn]);
+    expect(f.comparison).toBeNull();
+  });
+
+  it('in n-body, a burn the patched-conic reading never reached (it hit a body first): its flags from the schedule budget', () => {
+    const ranDry = { ...flag('stage-dry-mid-burn', 'warning', 'Capture: Cruise stage ran dry during the burn'), planEventId: 'capture' };
+    const short = { ...flag('out-of-propellant', 'error', 'Capture: out of propellant, 12.0 m/s of 900.0 m/s not delivered'), planEventId: 'capture' };
+    const r = report('nbody', [longBurn], [short.message], [{ planEventId: 'capture', flags: [ranDry, short] }]);
+    const f = planFlags({ truthModel: 'nbody', source: 'truth' }, { flags: [longBurn] }, r);
+    // the error is the report's failure (problems), the warning the plan's own flag, neither a comparison
+    expect(f.problems).toEqual([short.message]);
+    expect(f.flags).toEqual([longBurn, ranDry]);
     expect(f.comparison).toBeNull();
   });
 
