@@ -63,7 +63,7 @@ import { draftPlan, eventId, situationAfter, type Draft, type Situation } from '
 import { escapeEvents } from './escape.ts';
 import { evaluate } from '../conic/index.ts';
 import { captureDv, captureEvents, finalAim, finalArrivalDv, finalArrivalEvents, type ArrivalAim, type FinalOrbit } from './arrive.ts';
-import { bestWindow, siblingsEvents } from './siblings.ts';
+import { bestWindow, siblingsEvents, windowOutsideRange } from './siblings.ts';
 import { searchMoonTransfer, toMoonEvents } from './toMoon.ts';
 import { toParentEvents } from './toParent.ts';
 import { ampleVehicle } from './ample.ts';
@@ -157,12 +157,14 @@ function hopError(system: StarSystem, ci: CheckedIntent, from: string, to: strin
  * hop followed by an interplanetary one escapes from the moon straight onto the interplanetary
  * arc (escape.ts) instead of stopping in a low orbit of the planet.
  */
-function buildRoute(system: StarSystem, ci: CheckedIntent, options: RouteOptions, direct: boolean): { draft: Draft; hops: RouteHop[] } {
+function buildRoute(system: StarSystem, ci: CheckedIntent, options: RouteOptions, direct: boolean): { draft: Draft; hops: RouteHop[]; windowNotes: string[] } {
   const { onProgress, signal } = options;
   // built with the ample vehicle: no burn is cut short while the route is laid (ample.ts)
   const draft: Draft = { system, vehicle: ampleVehicle(ci.vehicle), reserve: ci.reserve, start: null, events: [] };
   const finalOrbit: FinalOrbit = { periapsisAltitude: ci.periapsisAltitude, apoapsisAltitude: ci.apoapsisAltitude, inclination: ci.inclination };
   const hops: RouteHop[] = [];
+  // sentences about cheaper windows outside the departure range (siblings.ts windowOutsideRange)
+  const windowNotes: string[] = [];
   let sit: Situation | null = null;
   let altitudeHere = ci.fromAltitude;
   const links = ci.links;
@@ -186,6 +188,8 @@ function buildRoute(system: StarSystem, ci: CheckedIntent, options: RouteOptions
         const P = system.bodies[x].parentIndex;
         const aM = system.bodies[x].elements?.a ?? 0;
         const w = bestWindow(system, P, y, ci.departAfter, ci.departBefore, aM - system.bodies[P].radius, aim);
+        const outside = windowOutsideRange(system, P, y, w, ci.departAfter, ci.departBefore, aM - system.bodies[P].radius, aim);
+        if (outside) windowNotes.push(outside);
         const leg = escapeEvents(draft, x, y, w, ci.fromAltitude, ci.fromInclination, aim);
         depart = leg.depart;
         dv = leg.dvDepart;
@@ -199,6 +203,8 @@ function buildRoute(system: StarSystem, ci: CheckedIntent, options: RouteOptions
         const after = sit ? Math.max(ci.departAfter, sit.t + 3600) : ci.departAfter;
         const before = Math.max(ci.departBefore, after + span);
         const w = bestWindow(system, x, y, after, before, altitudeHere, aim);
+        const outside = windowOutsideRange(system, x, y, w, after, before, altitudeHere, aim);
+        if (outside) windowNotes.push(outside);
         const leg = siblingsEvents(draft, x, y, w, altitudeHere, sit ? null : ci.fromInclination, aim, sit);
         depart = leg.depart;
         dv = leg.dvDepart;
@@ -252,7 +258,7 @@ function buildRoute(system: StarSystem, ci: CheckedIntent, options: RouteOptions
       throw hopError(system, ci, system.bodies[x].name, by.name, sit, e);
     }
   }
-  return { draft, hops };
+  return { draft, hops, windowNotes };
 }
 
 /** Total Δv of a draft's patched-conic flight with its target (Infinity when it fails or runs short of propellant). */
@@ -295,7 +301,7 @@ export function planRoute(system: StarSystem, intent: RouteIntent, options: Rout
   };
   // a moon to another planet: both ways are built and the cheaper flight is kept
   const twoWays = ci.links.length > 1 && ci.links[0].kind === 'to-parent' && ci.links[1].kind === 'siblings';
-  let built: { draft: Draft; hops: RouteHop[] } | null = null;
+  let built: ReturnType<typeof buildRoute> | null = null;
   let firstError: unknown = null;
   for (const direct of twoWays ? [true, false] : [false]) {
     try {
@@ -307,7 +313,7 @@ export function planRoute(system: StarSystem, intent: RouteIntent, options: Rout
     }
   }
   if (!built) throw firstError;
-  const { draft, hops } = built;
+  const { draft, hops, windowNotes } = built;
   const fb = system.bodies[ci.from];
   const tb = system.bodies[ci.to];
   if (!draft.start) throw new InputError('from', 'gives no start orbit');
@@ -345,6 +351,7 @@ export function planRoute(system: StarSystem, intent: RouteIntent, options: Rout
   const message =
     `${plan.name}: ${hops.length} hop${hops.length === 1 ? '' : 's'}, departing ${formatDate(cal, hops[0].depart)} and arriving ${formatDate(cal, hops[hops.length - 1].arrive)}, ` +
     `${kmps(result.dv.after)} in ${ci.truthModel === 'conic' ? 'patched conics' : ci.truthModel === 'finite' ? 'finite burns' : 'n-body'} (estimate ${kmps(dvEstimate)}), ` +
-    `${met ? 'target orbit met' : 'target orbit not met'}${met ? '' : `: ${result.message}`}`;
+    `${met ? 'target orbit met' : 'target orbit not met'}${met ? '' : `: ${result.message}`}` +
+    windowNotes.map((n) => `; ${n}`).join('');
   return { plan: result.plan, hops, target: result, dvEstimate, message: message.endsWith('.') ? message : `${message}.` };
 }

@@ -107,6 +107,20 @@ describe('planRoute: the seven kinds of route on the demo system, in patched con
  * departure and √(μ/r₂)(1 − √(2r₁/(r₁+r₂))) at arrival, Δv = √(v∞² + 2μ/r) − √(μ/r) from the
  * parking orbit, and at the arrival the two apsis burns from the hyperbola's periapsis speed.
  */
+describe('planRoute with a departure range that holds no window', () => {
+  it('Tessel to Moravel between days 100 and 160: the route is built, and the message says when the next window opens', () => {
+    const day = sys.calendar.dayLength;
+    const r = planRoute(sys, {
+      from: { body: 'tessel', altitude: 300e3 },
+      to: { body: 'moravel', periapsisAltitude: 2000e3 },
+      departAfter: 99 * day,
+      departBefore: 160 * day,
+      vehicle: heavy,
+    });
+    expect(r.message).toMatch(/no Tessel → Moravel window opens between .* a window opens Year 41[23] TR, day \d+, .* widen the departure range/);
+  });
+});
+
 describe('planRoute against the Hohmann transfer between circular coplanar planets', () => {
   const MU_F = 4.28e13;
   const R_F = 3.396e6;
