@@ -38,7 +38,9 @@ describe.concurrent('waymark gamestep', () => {
       '200000',
     ]);
     expect(r.stderr).toBe('');
-    expect(r.stdout).toMatch(/physics: semi-implicit Euler \(symplectic-euler\), dt 0\.500000 s, float32, floating origin at 5\.00 km \(position and velocity\)/);
+    expect(r.stdout).toMatch(
+      /physics: semi-implicit Euler \(symplectic-euler\), dt 0\.500000 s, float32, floating origin at 5\.00 km \(position and velocity\)/,
+    );
     expect(r.stdout).toMatch(/tolerance 50\.00 km/);
     expect(r.stdout).toMatch(/float32 at the mission's distances/);
     expect(r.stdout).toMatch(/verdict: (PASSES|FAILS)/);
