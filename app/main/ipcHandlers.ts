@@ -137,13 +137,22 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
     return opened;
   }
 
-  /** Refuses to replace a plan file a newer Waymark wrote (a file that cannot be read counts as none). */
+  /**
+   * Refuses to replace a plan file a newer Waymark wrote, and a file that is there but cannot be
+   * read (unreadable, over the size limit, not UTF-8, not a regular file): what it holds is
+   * unknown, so it is never overwritten silently. Only "nothing there" (ENOENT) lets the save go on.
+   */
   async function refuseNewer(path: string): Promise<void> {
     let text: string;
     try {
       text = await deps.files.readText(path);
-    } catch {
-      return; // no readable plan there (none yet, or one the guard of writeAtomic judges)
+    } catch (err) {
+      if ((err as { code?: unknown }).code === 'ENOENT') return; // no file there yet
+      const reason = err instanceof Error ? err.message : String(err);
+      throw new ArgumentError(
+        basename(path),
+        `is there but could not be read (${reason}), so what it holds is unknown and it is not overwritten; make it readable or remove it, or use Save As to save under another name`,
+      );
     }
     const problem = headerProblem(text, 'plan');
     if (problem?.newer) throw new ArgumentError(basename(path), `${problem.rule}: it is not overwritten; use Save As to save under another name`);

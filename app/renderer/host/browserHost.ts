@@ -105,13 +105,17 @@ export function createBrowserHost(env: BrowserEnv): Host {
   }
 
   async function writeHandle(handle: WritableHandle, text: string): Promise<void> {
-    let current: string | null = null;
+    let current: string;
     try {
-      current = await (await handle.getFile()).text();
-    } catch {
-      current = null; // nothing there yet, or not readable: nothing to protect
+      current = await (await handle.getFile()).text(); // a new file from the save picker reads as ''
+    } catch (err) {
+      // What is there is unknown: it is not overwritten silently.
+      const reason = err instanceof Error ? err.message : String(err);
+      throw new Error(
+        `${handle.name} is there but could not be read (${reason}), so what it holds is unknown and it is not overwritten; use Save As to save under another name`,
+      );
     }
-    const problem = current === null ? null : headerProblem(current, 'plan');
+    const problem = headerProblem(current, 'plan');
     if (problem?.newer)
       throw new NewerVersionError(handle.name, `${handle.name} ${problem.rule}: it is not overwritten; use Save As to save under another name`);
     const w = await handle.createWritable();

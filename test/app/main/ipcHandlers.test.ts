@@ -16,6 +16,9 @@ const PLAN = '{"format":"waymark-plan","version":1,"name":"a"}';
 const PLAN_B = '{"format":"waymark-plan","version":1,"name":"b"}';
 const SYSTEM = '{"format":"waymark-system","version":1,"name":"s"}';
 const NEWER_PLAN = '{"format":"waymark-plan","version":2,"name":"from the future"}';
+/** Markers for files on the fake disk that are there but cannot be read (the fake's readText throws as the real one does). */
+const UNREADABLE = '<unreadable>';
+const OVERSIZED = '<over the size limit>';
 
 function setup(over: Partial<HandlerDeps> = {}) {
   const disk = new Map<string, string>([
@@ -33,7 +36,9 @@ function setup(over: Partial<HandlerDeps> = {}) {
   const files = {
     readText: vi.fn(async (p: string) => {
       const t = disk.get(p);
-      if (t === undefined) throw new Error(`ENOENT ${p}`);
+      if (t === undefined) throw Object.assign(new Error(`ENOENT ${p}`), { code: 'ENOENT' });
+      if (t === UNREADABLE) throw Object.assign(new Error(`cannot read ${p}: permission denied (EACCES)`), { code: 'EACCES' });
+      if (t === OVERSIZED) throw new Error(`cannot read ${p}: it is larger than the 32 MiB limit`);
       return t;
     }),
     // No links on this disk: a path is its own real path when a file or a folder is there.
@@ -269,6 +274,24 @@ describe('IPC handlers (main process, Electron mocked away)', () => {
     expect(writeAtomic).not.toHaveBeenCalled();
     await expect(h[IPC.saveAs](me, 'a.plan.json', PLAN_B)).resolves.toEqual({ path: '/plans/b.plan.json', name: 'b.plan.json' });
     expect(disk.get('/plans/b.plan.json')).toBe(PLAN_B);
+  });
+
+  it.each([
+    ['unreadable', UNREADABLE, /permission denied \(EACCES\)/],
+    ['over the size limit', OVERSIZED, /larger than the 32 MiB limit/],
+  ])('refuses to overwrite an existing plan that cannot be read (%s), saying why and what to do', async (_what, marker, reason) => {
+    const { h, disk, writeAtomic, dialogs } = await opened();
+    disk.set('/plans/a.plan.json', marker);
+    const err = await h[IPC.save](me, '/plans/a.plan.json', PLAN_B).catch((e: Error) => e);
+    expect(err).toBeInstanceOf(Error);
+    expect((err as Error).message).toMatch(/a\.plan\.json is there but could not be read/);
+    expect((err as Error).message).toMatch(reason);
+    expect((err as Error).message).toMatch(/it is not overwritten; make it readable or remove it, or use Save As/);
+    // Save As onto it is refused the same way.
+    dialogs.showSave.mockResolvedValueOnce('/plans/a.plan.json');
+    await expect(h[IPC.saveAs](me, 'a.plan.json', PLAN_B)).rejects.toThrow(/could not be read/);
+    expect(disk.get('/plans/a.plan.json')).toBe(marker);
+    expect(writeAtomic).not.toHaveBeenCalled();
   });
 
   it('Save As does not overwrite a newer-version plan either, even when the dialog picked it', async () => {

@@ -91,6 +91,22 @@ describe('browser host', () => {
     expect(ok.written).toEqual(['new']);
   });
 
+  it('does not write over a file it cannot read (Save and Save As), and says why', async () => {
+    const written: string[] = [];
+    const h: WritableHandle = {
+      name: 'locked.plan.json',
+      getFile: async () => Promise.reject(Object.assign(new Error('The requested file could not be read'), { name: 'NotReadableError' })),
+      createWritable: async () => ({ write: async (d: string) => void written.push(d), close: async () => undefined }),
+    };
+    const { e } = env({ fsAccess: { showOpenFilePicker: async () => [h], showSaveFilePicker: async () => h } });
+    const host = createBrowserHost(e);
+    await expect(host.save({ name: 'locked.plan.json', path: null, handle: h }, 'new')).rejects.toThrow(
+      /locked\.plan\.json is there but could not be read \(The requested file could not be read\), so what it holds is unknown and it is not overwritten; use Save As/,
+    );
+    await expect(host.saveAs('locked.plan.json', 'new')).rejects.toThrow(/could not be read/);
+    expect(written).toEqual([]);
+  });
+
   it('treats an aborted picker as cancelled', async () => {
     const abort = Object.assign(new Error('user aborted'), { name: 'AbortError' });
     const { e } = env({
