@@ -74,6 +74,8 @@ const LEAVES: Record<string, Leaf> = {
   to: { words: 'destination', kind: 'plain' },
   body: { words: 'body', kind: 'plain' },
   revs: { words: 'revolutions', kind: 'plain' },
+  // a burn's derived block (resolvedBurns.ts): the figures Waymark saved, recomputed on open
+  resolved: { words: 'figures saved with the plan', kind: 'plain' },
 };
 
 // Leaves whose card label differs inside a burn's solve block.

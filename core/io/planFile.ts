@@ -38,6 +38,10 @@
  * open → save → open gives an equal Plan and save → open → save the same bytes. A radian
  * value that no double in degrees maps to exactly (not one read from a file) is written as
  * its nearest degree value and reads back within 1 ulp.
+ *
+ * Resolved burns: a burn's optional `resolved` block is derived data (resolvedBurns.ts). It is
+ * written only when the caller passes the figures, read into `ParsedPlan.resolved` (never into
+ * the Plan), and checked against the recomputed figures by the caller that has the system.
  */
 
 import { migrateDocument, type Migration } from './migrate.ts';
@@ -59,6 +63,8 @@ import {
   type TargetDocument,
   type UntilDocument,
 } from './planSchema.ts';
+import type { ResolvedBurn, ResolvedBurns } from './resolvedBurns.ts';
+import type { ResolvedBurnDocument } from './planSchema.ts';
 import { nestingIssue, parseSystemFile, pointerToPath, schemaIssues, serializeSystemFile, tooLarge } from './systemFile.ts';
 
 export { PLAN_FORMAT, PLAN_VERSION, checkDocumentAgainstSystem, checkPlanDocument } from './planSchema.ts';
@@ -93,6 +99,11 @@ export interface ParsedPlan {
   warnings: ValidationIssue[];
   /** Version the file was written in (before migration). */
   fileVersion: number;
+  /**
+   * The burns' `resolved` blocks as written, by event id: derived data, not part of the plan. The
+   * caller that has the system checks them (resolvedBurns.ts staleResolvedIssues).
+   */
+  resolved: ResolvedBurns;
 }
 
 const validateSchema = compileFileSchema(schema);
@@ -164,7 +175,48 @@ export function parsePlanFile(text: string, options: PlanParseOptions = {}): Par
   if (issues.some((i) => i.severity === 'error')) fail(errorsFirst(issues));
   const plan = documentToPlan(planDoc);
   const system: PlanSystemRef = embedded && loaded ? { kind: 'embedded', system: loaded } : { kind: 'path', path: sysDoc.path as string };
-  return { plan, system, warnings: issues, fileVersion };
+  return { plan, system, warnings: issues, fileVersion, resolved: resolvedFromDocument(planDoc) };
+}
+
+/** The recorded `resolved` blocks of a checked document, by burn id (SI, in-memory names). */
+function resolvedFromDocument(doc: PlanDocument): Map<string, ResolvedBurn> {
+  const out = new Map<string, ResolvedBurn>();
+  for (const ev of doc.events) {
+    if (ev.type !== 'burn' || !ev.resolved) continue;
+    const r = ev.resolved;
+    out.set(ev.id, {
+      model: r.model,
+      frame: r.frame,
+      dvFrame: vec3(r.dv_frame_mps),
+      dvInertial: vec3(r.dv_inertial_mps),
+      dv: r.dv_magnitude_mps,
+      tStart: r.t_start_s,
+      tEnd: r.t_end_s,
+      duration: r.duration_s,
+      propellantUsed: r.propellant_kg,
+      massAfter: r.mass_after_kg,
+    });
+  }
+  return out;
+}
+
+/** The note each written `resolved` block carries, for a reader of the file. */
+export const RESOLVED_NOTE = 'derived: written by Waymark on save from the plan evaluated in its truth model; recomputed and checked on open';
+
+function resolvedToDocument(r: ResolvedBurn): ResolvedBurnDocument {
+  return {
+    note: RESOLVED_NOTE,
+    model: r.model,
+    frame: r.frame,
+    dv_frame_mps: vec3(r.dvFrame),
+    dv_inertial_mps: vec3(r.dvInertial),
+    dv_magnitude_mps: r.dv,
+    t_start_s: r.tStart,
+    t_end_s: r.tEnd,
+    duration_s: r.duration,
+    propellant_kg: r.propellantUsed,
+    mass_after_kg: r.massAfter,
+  };
 }
 
 /** More events than MAX_EVENTS or stages than MAX_STAGES (core/system/limits.ts): refused before the schema walks them. */
@@ -536,10 +588,18 @@ function targetToDocument(t: PlanTarget): TargetDocument {
 /**
  * The file text of a plan: stable key order, 2-space indent, trailing newline. An embedded
  * system is written exactly as `serializeSystemFile` writes a system file, indented in place.
- * Throws ValidationError when a number is not finite (JSON has no NaN or Infinity).
+ * `resolved` (resolvedBurns.ts resolveBurns, computed by the caller that writes the file): each
+ * burn found there gets its derived `resolved` block after its settings; without it none is
+ * written. Throws ValidationError when a number is not finite (JSON has no NaN or Infinity).
  */
-export function serializePlanFile(plan: Plan, system: PlanSystemRef): string {
+export function serializePlanFile(plan: Plan, system: PlanSystemRef, resolved?: ResolvedBurns): string {
   const doc = planToDocument(plan, system);
+  if (resolved && resolved.size > 0) {
+    for (const ev of doc.events) {
+      const r = ev.type === 'burn' ? resolved.get(ev.id) : undefined;
+      if (ev.type === 'burn' && r) ev.resolved = resolvedToDocument(r);
+    }
+  }
   const embedded = system.kind === 'embedded' ? serializeSystemFile(system.system).replace(/\n$/, '').split('\n') : null;
   return `${writeJson(doc, '', '', embedded)}\n`;
 }

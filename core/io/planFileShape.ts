@@ -200,6 +200,43 @@ const until = z
 const eventId = id.meta({ description: 'Stable id of the event, unique within the plan.' });
 const eventName = z.string().meta({ description: 'Display name.' });
 
+const vectorMps = (what: string) => vector3.meta({ description: what });
+const resolvedFigure = (what: string) => z.number().min(-MASS_MAX).max(MASS_MAX).meta({ description: what });
+
+/**
+ * What the plan's evaluation solved for a burn, written by Waymark on save (derived data, never
+ * read as the plan: on open it is recomputed and compared, and a stale copy is a warning).
+ */
+const resolvedBurn = z
+  .strictObject({
+    note: z
+      .string()
+      .meta({ description: 'Free text Waymark writes ("derived: written by Waymark on save, recomputed and checked on open"); ignored on load.' })
+      .optional(),
+    model: z.enum(['conic', 'finite', 'nbody']).meta({
+      description:
+        'The model the burn was solved and flown in: the plan\'s truth model ("conic": patched conics, the burn flown as its mode says; "finite": patched conics, the burn flown finite; "nbody": the plan\'s timed burn schedule for the restricted n-body flight, whose Δv is a fixed inertial vector).',
+    }),
+    frame: z.enum(['vnb', 'rtn', 'inertial']).meta({
+      description: 'Frame of dv_frame_mps: the burn\'s own frame, except "inertial" for the n-body schedule (its burns are fixed inertial vectors).',
+    }),
+    dv_frame_mps: vectorMps('Solved Δv (settings plus correction) as components in `frame`, m/s.'),
+    dv_inertial_mps: vectorMps("Solved Δv in the system's inertial axes [x, y, z], m/s."),
+    dv_magnitude_mps: resolvedFigure('Magnitude of the solved Δv, m/s.'),
+    t_start_s: time.meta({
+      description: 'Start of the burn, s from the system epoch: centre − duration/2 (for an impulsive burn the start of the finite burn of the same Δv).',
+    }),
+    t_end_s: time.meta({ description: 'End of the burn, s from the system epoch: centre + duration/2.' }),
+    duration_s: z.number().min(0).max(T_BOUND).meta({ description: "Burn time at the vehicle's thrust and the mass at the burn (across staging), s." }),
+    propellant_kg: z.number().min(0).max(MASS_MAX).meta({ description: 'Propellant the burn uses, kg.' }),
+    mass_after_kg: z.number().min(0).max(MASS_MAX).meta({ description: 'Ship mass after the burn, kg.' }),
+  })
+  .meta({
+    id: 'resolvedBurn',
+    description:
+      "DERIVED DATA, written by Waymark on save: the burn as the plan's evaluation solved it in its truth model. Not an input: Waymark recomputes it on open and warns, naming the burn, when the plan no longer gives these figures (Δv within 1 mm/s, times within 1 ms, masses within 1 g, or 1e-12 of the value where that is larger; see core/io/resolvedBurns.ts). Absent in files written before it existed, or when the burn was not flown (a failed solve, a flight that ended before it).",
+  });
+
 const burnEvent = z
   .strictObject({
     type: z.literal('burn'),
@@ -223,6 +260,7 @@ const burnEvent = z
         description: 'Finite burns: thrust held along the velocity ("velocity", the default) or fixed in inertial space along the impulsive Δv ("inertial").',
       })
       .optional(),
+    resolved: resolvedBurn.optional(),
   })
   .meta({ description: 'A burn.' });
 
@@ -331,6 +369,7 @@ export type StateStartDocument = z.input<typeof stateStart>;
 export type SolveDocument = z.input<typeof solve>;
 export type UntilDocument = z.input<typeof until>;
 export type BurnEventDocument = z.input<typeof burnEvent>;
+export type ResolvedBurnDocument = z.input<typeof resolvedBurn>;
 export type CoastEventDocument = z.input<typeof coastEvent>;
 export type StageEventDocument = z.input<typeof stageEvent>;
 export type EventDocument = z.input<typeof event>;

@@ -31,6 +31,7 @@ export type {
   ParkingStartDocument,
   PlanDocument,
   PlanSystemDocument,
+  ResolvedBurnDocument,
   SolveDocument,
   StageDocument,
   StageEventDocument,

@@ -10,6 +10,7 @@ import { describe, expect, it } from 'vitest';
 import { fileJsonSchemaText } from '../../../core/io/fileJsonSchema.ts';
 import { parsePlanFile, serializePlanFile, type PlanSystemRef } from '../../../core/io/planFile.ts';
 import { parseSystemFile, serializeSystemFile } from '../../../core/io/systemFile.ts';
+import { resolveBurns } from '../../../core/io/resolvedBurns.ts';
 import type { Plan } from '../../../core/plan/plan.ts';
 import { FILE_SCHEMAS, SCHEMA_DIR } from './fileSchemas.ts';
 import { samplePlan, stateStartPlan } from './planSamples.ts';
@@ -97,12 +98,14 @@ describe('every declared field is written and read back', () => {
       [stateStartPlan(), { kind: 'embedded', system }],
       [extra, { kind: 'path', path: 'x.system.json' }],
     ];
-    const texts = cases.map(([plan, ref]) => serializePlanFile(plan, ref));
+    // The first is written with its burns' derived `resolved` blocks, as a save writes them.
+    const texts = cases.map(([plan, ref], k) => serializePlanFile(plan, ref, k === 0 ? resolveBurns(system, plan) : undefined));
     texts.forEach((text, k) => {
       const back = parsePlanFile(text);
       expect(back.plan).toEqual(cases[k][0]);
-      expect(serializePlanFile(back.plan, back.system)).toBe(text);
+      expect(serializePlanFile(back.plan, back.system, back.resolved)).toBe(text);
     });
+    expect(texts[0]).toContain('"resolved"');
     // "$schema" is read and not written back; the embedded system has its own schema (below).
     expect(
       unusedProperties(
