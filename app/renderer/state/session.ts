@@ -6,8 +6,11 @@
  * system resolved and checked against it; any problem becomes one notice listing every issue
  * with its field path, and the open document stays as it was.
  *
- * Systems named by path are looked for, in order: beside the plan file (desktop), among the
- * systems bundled with the app (by file name), then by asking the user for the file.
+ * A system named by path is read from where the plan names it (beside the plan file, desktop)
+ * and nowhere else without asking: when it cannot be, the user is told which file and why and
+ * asked to choose it (or to use the bundled copy of that name, explicitly). The bundled systems
+ * serve the bundled demo plan. A system not read from beside the plan is embedded in the
+ * document, and every browser save embeds it (see loadPlanText, planText).
  *
  * A plan file written by a newer Waymark is refused on open (core/io/planFile.ts says which
  * version), and Save never overwrites one: the host refuses (NewerVersionError) and the session
@@ -189,7 +192,7 @@ export class Session {
     if (deps.demo) {
       try {
         // No path and no handle: saving the demo asks where (desktop) or downloads it (browser).
-        initial = await loadPlanText(deps, deps.demo.text, { name: deps.demo.name, path: null, handle: null }, false);
+        initial = await loadPlanText(deps, deps.demo.text, { name: deps.demo.name, path: null, handle: null }, false, 'bundled');
       } catch (err) {
         demoProblem = err;
       }
@@ -198,7 +201,7 @@ export class Session {
       const [name, text] = Object.entries(deps.bundledSystems)[0] ?? [];
       if (!text) throw new Error('no star system is bundled with the app');
       const system = parseSystemFile(text).system;
-      initial = { plan: blankPlan(system), system, systemRef: { kind: 'path', path: `../systems/${name}` }, file: null };
+      initial = { plan: blankPlan(system), system, systemRef: { kind: 'embedded', system }, file: null };
     }
     const s = new Session(deps, initial);
     if (demoProblem) s.noticeFromError('The demo plan did not load', demoProblem);
@@ -322,9 +325,14 @@ export class Session {
     }
   }
 
+  /**
+   * The plan file's text. A browser saves by download or through a file handle, with no folder
+   * to name a system file in: the system is embedded there always.
+   */
   planText(): string {
     const s = this.doc.get();
-    return serializePlanFile(s.plan, s.systemRef);
+    const ref: PlanSystemRef = this.deps.host.kind === 'browser' ? { kind: 'embedded', system: s.system } : s.systemRef;
+    return serializePlanFile(s.plan, ref);
   }
 
   suggestedName(): string {
@@ -537,13 +545,35 @@ export class Session {
   }
 }
 
-/** Parses plan text and resolves its system; throws ValidationError (or the host's error) on any problem. */
-export async function loadPlanText(deps: Pick<SessionDeps, 'host' | 'bundledSystems'>, text: string, ref: FileRef, mayAsk: boolean): Promise<LoadedDocument> {
+/** Where a plan's text came from: a file the user opened (its system is looked for as it names it) or the bundled demo. */
+export type PlanOrigin = 'user' | 'bundled';
+
+/**
+ * Parses plan text and resolves its system; throws ValidationError (or the host's error) on any problem.
+ *
+ * A system named by path is read from where the plan names it (relative to the plan file's
+ * folder) and nowhere else. When that cannot be done (the host cannot read beside the plan, as
+ * in a browser; the file is missing, unreadable or not a system file) and `mayAsk`, the user is
+ * told which file and why, and asked to choose it (or, when the app bundles a file of that name,
+ * to use that copy: a choice, never a silent substitution). A system file that is not valid is
+ * refused with its issues. Only the bundled demo plan (`origin` 'bundled') takes the bundled
+ * system without asking. The system file's own warnings join the plan's.
+ *
+ * A system that was not read from beside the plan (chosen, or bundled) is embedded in the
+ * document, so a save carries exactly the system the plan was evaluated in.
+ */
+export async function loadPlanText(
+  deps: Pick<SessionDeps, 'host' | 'bundledSystems'> & Partial<Pick<SessionDeps, 'ask'>>,
+  text: string,
+  ref: FileRef,
+  mayAsk: boolean,
+  origin: PlanOrigin = 'user',
+): Promise<LoadedDocument> {
   let parsed: ReturnType<typeof parsePlanFile>;
   try {
     parsed = parsePlanFile(text);
   } catch (err) {
-    if (err instanceof ValidationError) throw new ValidationError('plan file', await refusedInWords(deps, text, ref, err.issues));
+    if (err instanceof ValidationError) throw new ValidationError('plan file', await refusedInWords(deps, text, ref, err.issues, origin));
     throw err;
   }
   if (parsed.system.kind === 'embedded') {
@@ -556,30 +586,62 @@ export async function loadPlanText(deps: Pick<SessionDeps, 'host' | 'bundledSyst
     };
   }
   const path = parsed.system.path;
-  let systemText: string | null = null;
-  try {
-    systemText = await deps.host.readSystemBeside(ref, path);
-  } catch {
-    systemText = null;
+  const fileName = baseNameOf(path);
+  const bundled = deps.bundledSystems[fileName] ?? null;
+  /** The system's text and where it came from. */
+  let found: { text: string; from: 'beside' | 'chosen' | 'bundled'; name: string } | null = null;
+  /** Why the system named could not be read where the plan names it. */
+  let why: string;
+  if (origin === 'bundled' && bundled !== null) {
+    found = { text: bundled, from: 'bundled', name: fileName };
+    why = '';
+  } else {
+    try {
+      const beside = await deps.host.readSystemBeside(ref, path);
+      if (beside !== null) found = { text: beside, from: 'beside', name: fileName };
+      why = ref.path
+        ? `it could not be read beside ${ref.name}`
+        : `this ${deps.host.kind === 'browser' ? 'browser' : 'window'} cannot read files beside ${ref.name} (it only has the plan file itself)`;
+    } catch (err) {
+      why = `it could not be read beside ${ref.name}: ${describeError(err).message}`;
+    }
   }
-  systemText ??= deps.bundledSystems[baseNameOf(path)] ?? null;
-  if (systemText === null && mayAsk) {
-    const picked = await deps.host.openSystem(`The plan names the system file "${path}"; choose it.`);
-    systemText = picked?.text ?? null;
+  if (!found && mayAsk && deps.ask) {
+    const choices = [
+      { id: 'choose', label: `Choose ${fileName}…`, primary: true },
+      ...(bundled !== null ? [{ id: 'bundled', label: `Use the bundled ${fileName}` }] : []),
+      { id: 'cancel', label: 'Cancel' },
+    ];
+    const answer = await deps.ask({
+      title: 'Which system file?',
+      message:
+        `${ref.name} names the system file "${path}" (relative to the plan's folder), and ${why}. ` +
+        `Choose the system file '${fileName}' this plan was made with.` +
+        (bundled !== null ? ` The copy bundled with Waymark is used only if you choose it; it may differ from the one the plan was made with.` : ''),
+      choices,
+    });
+    if (answer === 'choose') {
+      const picked = await deps.host.openSystem(`Choose the system file '${fileName}' this plan was made with.`);
+      if (picked) found = { text: picked.text, from: 'chosen', name: picked.ref.name };
+      else why += '; no file was chosen';
+    } else if (answer === 'bundled' && bundled !== null) found = { text: bundled, from: 'bundled', name: `bundled ${fileName}` };
+    else why += '; the question was cancelled';
   }
-  if (systemText === null) {
-    throw new ValidationError('plan file', [
-      { path: 'system.path', rule: `names "${path}", which was not found (not beside the plan, not bundled, none chosen)`, severity: 'error' },
-    ]);
+  if (!found) {
+    throw new ValidationError('plan file', [{ path: 'system.path', rule: `names "${path}", which was not loaded: ${why}`, severity: 'error' }]);
   }
   let system: StarSystem;
+  let systemWarnings: ValidationIssue[];
+  const where = (p: string) => `system (${found!.name}) ${p}`.trim();
   try {
-    system = parseSystemFile(systemText).system;
+    const sys = parseSystemFile(found.text);
+    system = sys.system;
+    systemWarnings = sys.warnings.map((i) => ({ ...i, path: where(i.path) }));
   } catch (err) {
     if (err instanceof ValidationError) {
       throw new ValidationError(
-        'plan file',
-        err.issues.map((i) => ({ ...i, path: `system (${baseNameOf(path)}) ${i.path}`.trim() })),
+        `plan file (its system ${found.name} is not a valid system file)`,
+        err.issues.map((i) => ({ ...i, path: where(i.path) })),
       );
     }
     throw err;
@@ -591,20 +653,23 @@ export async function loadPlanText(deps: Pick<SessionDeps, 'host' | 'bundledSyst
     if (err instanceof ValidationError) throw new ValidationError(err.what, issuesInWords(err.issues, parsed.plan, system));
     throw err;
   }
-  const warnings = issuesInWords([...parsed.warnings, ...fits], parsed.plan, system);
-  return { plan: parsed.plan, system, systemRef: parsed.system, file: ref, warnings };
+  const warnings = [...issuesInWords([...parsed.warnings, ...fits], parsed.plan, system), ...systemWarnings];
+  // A system not read from where the plan names it travels with the plan from now on.
+  const systemRef: PlanSystemRef = found.from === 'beside' && deps.host.kind !== 'browser' ? parsed.system : { kind: 'embedded', system };
+  return { plan: parsed.plan, system, systemRef, file: ref, warnings };
 }
 
 /**
  * The issues of plan text the reader refused, in the user's words (core/io issueWords): events
  * and stages named from the text itself, dates in its system's calendar when that system is at
- * hand without asking (embedded, beside the plan, bundled), else in seconds from the epoch.
+ * hand without asking (embedded, beside the plan, bundled for the bundled demo), else in seconds from the epoch.
  */
 async function refusedInWords(
   deps: Pick<SessionDeps, 'host' | 'bundledSystems'>,
   text: string,
   ref: FileRef,
   issues: ValidationIssue[],
+  origin: PlanOrigin,
 ): Promise<ValidationIssue[]> {
   let doc: unknown;
   try {
@@ -618,7 +683,8 @@ async function refusedInWords(
     if (sys?.embedded !== undefined) system = parseSystemFile(JSON.stringify(sys.embedded)).system;
     else if (typeof sys?.path === 'string') {
       const path = sys.path;
-      const systemText = (await deps.host.readSystemBeside(ref, path).catch(() => null)) ?? deps.bundledSystems[baseNameOf(path)] ?? null;
+      const systemText =
+        (await deps.host.readSystemBeside(ref, path).catch(() => null)) ?? (origin === 'bundled' ? (deps.bundledSystems[baseNameOf(path)] ?? null) : null);
       if (systemText !== null) system = parseSystemFile(systemText).system;
       // With its system at hand, the plan's problems against it join the file's own: every problem at once.
       if (system) {

@@ -1,4 +1,6 @@
-import { readFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
 import { describe, expect, it, vi } from 'vitest';
 import { parsePlanFile } from '../../../../core/io/planFile.ts';
 import { evaluate } from '../../../../core/conic/evaluate.ts';
@@ -6,6 +8,7 @@ import * as edits from '../../../../app/renderer/plan/edits.ts';
 import { Session, blankPlan, type SessionDeps } from '../../../../app/renderer/state/session.ts';
 import { NewerVersionError } from '../../../../app/renderer/host/host.ts';
 import { fakeHost, type FakeHost } from './fakeHost.ts';
+import { runCli } from '../../cli/runCli.ts';
 
 const root = new URL('../../../../', import.meta.url);
 const systemText = readFileSync(new URL('assets/systems/ilmar.system.json', root), 'utf8');
@@ -83,14 +86,15 @@ describe('session: the open document and its files', () => {
   });
 
   it('a bad plan file says its problems in the user’s words: the burn numbered from 1 as on its card, its time as a calendar date', async () => {
-    const { s } = await session();
+    const { s, host } = await session();
     const bad = JSON.parse(demoText);
     bad.events[0].solve.arrive_s = bad.events[0].t_s - 86400;
     bad.vehicle.stages[0].isp_s = -5;
-    expect(await s.openText(JSON.stringify(bad), { name: 'bad.plan.json', path: null, handle: null })).toBe(false);
+    vi.mocked(host.readSystemBeside).mockResolvedValue(systemText);
+    expect(await s.openText(JSON.stringify(bad), { name: 'bad.plan.json', path: '/plans/bad.plan.json', handle: null })).toBe(false);
     const issues = s.notices.get().at(-1)!.issues!;
     const arrive = issues.find((i) => i.path === 'events[0].solve.arrive_s');
-    // The system is found beside the plan or bundled, so the time reads in its calendar.
+    // The system is found beside the plan, so the time reads in its calendar.
     expect(arrive?.words).toMatch(new RegExp(`^Burn 1 '${bad.events[0].name}': arrival must be later than the burn \\(\\d+-\\d{3}T\\d\\d:\\d\\d\\)$`));
     expect(issues.find((i) => i.path === 'vehicle.stages[0].isp_s')?.words).toMatch(new RegExp(`^Stage 1 '${bad.vehicle.stages[0].name}': Isp must be`));
   });
@@ -103,14 +107,24 @@ describe('session: the open document and its files', () => {
     expect(s.doc.get().plan).toBe(before);
   });
 
-  it('asks for a system file it cannot find, and refuses the plan without one', async () => {
-    const { s, host } = await session();
+  it('asks for a system file it cannot read beside the plan, saying which and why, and refuses the plan without one', async () => {
+    const ask = vi.fn<SessionDeps['ask']>(async () => 'cancel');
+    const { s, host } = await session(fakeHost(), ask);
     const other = demoText.replace('../systems/ilmar.system.json', '../systems/elsewhere.system.json');
     expect(await s.openText(other, { name: 'o.plan.json', path: null, handle: null })).toBe(false);
-    expect(host.openSystem).toHaveBeenCalled();
-    expect(s.notices.get().at(-1)!.issues![0].path).toBe('system.path');
+    // Asked first, in words, with no picker behind the user's back; nothing bundled by that name to offer.
+    expect(host.openSystem).not.toHaveBeenCalled();
+    const q = ask.mock.calls[0][0];
+    expect(q.message).toMatch(/^o\.plan\.json names the system file "\.\.\/systems\/elsewhere\.system\.json" \(relative to the plan's folder\), and this browser cannot read files beside o\.plan\.json/);
+    expect(q.message).toMatch(/Choose the system file 'elsewhere\.system\.json' this plan was made with\./);
+    expect(q.choices.map((c) => c.id)).toEqual(['choose', 'cancel']);
+    const n = s.notices.get().at(-1)!;
+    expect(n.issues![0].path).toBe('system.path');
+    expect(n.issues![0].rule).toMatch(/names "\.\.\/systems\/elsewhere\.system\.json", which was not loaded: .*the question was cancelled/);
+    ask.mockResolvedValue('choose');
     host.nextSystem = { ref: { name: 'elsewhere.system.json', path: null, handle: null }, text: systemText };
     expect(await s.openText(other, { name: 'o.plan.json', path: null, handle: null })).toBe(true);
+    expect(host.openSystem).toHaveBeenCalledOnce();
     expect(s.doc.get().name).toBe('o.plan.json');
   });
 
@@ -127,6 +141,7 @@ describe('session: the open document and its files', () => {
 
   it('Discard opens the other plan', async () => {
     const { s, host } = await session(fakeHost(), async () => 'discard');
+    vi.mocked(host.readSystemBeside).mockResolvedValue(systemText);
     s.doc.edit('Rename', (p) => edits.setPlanInfo(p, { name: 'Changed' }));
     host.nextOpen = { ref: { name: 'n.plan.json', path: null, handle: null }, text: demoText };
     await s.open();
@@ -255,4 +270,130 @@ describe('session: the open document and its files', () => {
     await Promise.resolve();
     expect(s.notices.get().length).toBe(count);
   });
+});
+
+describe('session: the system a plan names, and plans that travel', () => {
+  /** A folder with plans/trip.plan.json (the demo, naming ../systems/ilmar.system.json) and that system file as given. */
+  function folder(system: string): { plan: string; dir: string } {
+    const dir = mkdtempSync(join(tmpdir(), 'waymark-session-'));
+    mkdirSync(join(dir, 'plans'));
+    mkdirSync(join(dir, 'systems'));
+    writeFileSync(join(dir, 'plans', 'trip.plan.json'), demoText);
+    writeFileSync(join(dir, 'systems', 'ilmar.system.json'), system);
+    return { plan: join(dir, 'plans', 'trip.plan.json'), dir };
+  }
+  /** A desktop-like fake host that reads systems beside the plan from the real disk. */
+  function desktopHost(): FakeHost {
+    const host = fakeHost();
+    (host as { kind: string }).kind = 'electron';
+    vi.mocked(host.readSystemBeside).mockImplementation(async (ref, rel) => readFileSync(join(dirname(ref.path!), rel), 'utf8'));
+    return host;
+  }
+  /** `waymark check PLAN --model conic --json`: the budget the command line reads the plan file with. */
+  async function cliBudget(planPath: string): Promise<{ total: number; margin: number }> {
+    const run = await runCli(['check', planPath, '--model', 'conic', '--json']);
+    expect([0, 1], run.stderr).toContain(run.code);
+    return JSON.parse(run.stdout).budget;
+  }
+  // The app and the command line run the same evaluation on the same plan and system: the only
+  // differences allowed are the plan file's own rounding of what it writes (shortest decimals of
+  // the degree values), a few ulps of a 6 km/s total.
+  const SAME = 1e-9; // m/s
+
+  it('a plan beside an edited system file evaluates against that file, in the app and on the command line alike', async () => {
+    const edited = systemText.replace('"mu_m3_s2": 3e14', '"mu_m3_s2": 3.3e14'); // Tessel 10 % heavier
+    expect(edited).not.toBe(systemText);
+    const { plan, dir } = folder(edited);
+    try {
+      const { s } = await session(desktopHost());
+      const bundledTotal = s.evaluation.get().result!.budget.total;
+      expect(await s.openText(demoText, { name: 'trip.plan.json', path: plan, handle: null })).toBe(true);
+      const d = s.doc.get();
+      expect(d.system.bodies.find((b) => b.id === 'tessel')!.mu).toBe(3.3e14);
+      // Read from beside the plan, so it stays named by path when saved on the desktop.
+      expect(d.systemRef).toEqual({ kind: 'path', path: '../systems/ilmar.system.json' });
+      const app = s.evaluation.get().result!.budget;
+      // A heavier home world changes the departure by far more than any rounding: the bundled system was not used.
+      expect(Math.abs(app.total - bundledTotal)).toBeGreaterThan(10);
+      const cli = await cliBudget(plan);
+      expect(Math.abs(cli.total - app.total)).toBeLessThan(SAME);
+      expect(Math.abs(cli.margin - app.margin)).toBeLessThan(SAME);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 30_000);
+
+  it('a system beside the plan that cannot be read: the question and the refusal say which file and why, and nothing changes', async () => {
+    const ask = vi.fn<SessionDeps['ask']>(async () => 'cancel');
+    const host = desktopHost();
+    const { s } = await session(host, ask);
+    const before = s.doc.get();
+    vi.mocked(host.readSystemBeside).mockRejectedValue(new Error('relativePath names no system file this plan may read (it must be a Waymark system file in the plan\'s folder)'));
+    expect(await s.openText(demoText, { name: 'trip.plan.json', path: '/plans/trip.plan.json', handle: null })).toBe(false);
+    const q = ask.mock.calls[0][0];
+    expect(q.message).toMatch(/trip\.plan\.json names the system file "\.\.\/systems\/ilmar\.system\.json" \(relative to the plan's folder\), and it could not be read beside trip\.plan\.json: relativePath names no system file this plan may read/);
+    expect(q.message).toMatch(/Choose the system file 'ilmar\.system\.json' this plan was made with/);
+    // The bundled copy of that name is offered as a choice of its own, not taken silently.
+    expect(q.choices.map((c) => c.id)).toEqual(['choose', 'bundled', 'cancel']);
+    expect(host.openSystem).not.toHaveBeenCalled();
+    const n = s.notices.get().at(-1)!;
+    expect(n.title).toBe('trip.plan.json was not opened');
+    expect(n.issues![0].rule).toMatch(/which was not loaded: it could not be read beside trip\.plan\.json: relativePath names no system file .*; the question was cancelled/);
+    expect(s.doc.get().plan).toBe(before.plan);
+    expect(s.doc.get().revision).toBe(before.revision);
+  });
+
+  it('a chosen file that is not a valid system is refused with its issues, after one explained picker', async () => {
+    const ask = vi.fn<SessionDeps['ask']>(async () => 'choose');
+    const host = fakeHost();
+    const { s } = await session(host, ask);
+    const before = s.doc.get();
+    host.nextSystem = { ref: { name: 'odd.system.json', path: null, handle: null }, text: '{"format":"waymark-system","version":1,"name":"x"}' };
+    expect(await s.openText(demoText, { name: 'trip.plan.json', path: null, handle: null })).toBe(false);
+    expect(ask).toHaveBeenCalledOnce();
+    expect(host.openSystem).toHaveBeenCalledOnce();
+    const n = s.notices.get().at(-1)!;
+    expect(n.detail).toMatch(/its system odd\.system\.json is not a valid system file/);
+    expect(n.issues!.length).toBeGreaterThan(0);
+    expect(n.issues!.every((i) => i.path.startsWith('system (odd.system.json)'))).toBe(true);
+    expect(s.doc.get().plan).toBe(before.plan);
+  });
+
+  it("the system file's warnings show in the app, as on the command line", async () => {
+    // Kiln's safe altitude above its own radius: a warning of the system file, not an error.
+    const warned = systemText.replace('"min_safe_altitude_m": 6000', '"min_safe_altitude_m": 3e6');
+    expect(warned).not.toBe(systemText);
+    const { plan, dir } = folder(warned);
+    try {
+      const { s } = await session(desktopHost());
+      expect(await s.openText(demoText, { name: 'trip.plan.json', path: plan, handle: null })).toBe(true);
+      const n = s.notices.get().at(-1)!;
+      expect(n.title).toBe('trip.plan.json opened with warnings');
+      expect(n.issues!.some((i) => i.path.startsWith('system (ilmar.system.json) bodies') && /larger than the body's radius/.test(i.rule))).toBe(true);
+      const run = await runCli(['check', plan, '--model', 'conic']);
+      expect(run.stderr).toMatch(/larger than the body's radius/);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 30_000);
+
+  it('a browser save embeds the system, and the command line reads the saved file to the same budget', async () => {
+    const host = fakeHost(); // a browser: downloads, no folder
+    const { s } = await session(host);
+    s.doc.edit('Edit reserve', (p) => edits.setReserve(p, { percent: 4.5 }));
+    expect(await s.save()).toBe(true);
+    const text = host.files.get('tessel-to-ochre.plan.json')!;
+    expect(parsePlanFile(text).system.kind).toBe('embedded');
+    const dir = mkdtempSync(join(tmpdir(), 'waymark-download-'));
+    try {
+      const saved = join(dir, 'tessel-to-ochre.plan.json'); // a download folder: no systems/ beside it
+      writeFileSync(saved, text);
+      const app = s.evaluation.get().result!.budget;
+      const cli = await cliBudget(saved);
+      expect(Math.abs(cli.total - app.total)).toBeLessThan(SAME);
+      expect(Math.abs(cli.margin - app.margin)).toBeLessThan(SAME);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 30_000);
 });
