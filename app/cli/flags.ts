@@ -8,7 +8,33 @@
  * ("--depart START must be a calendar date ..."). Fields not listed (a file's own paths such as
  * `events[2].dv`) pass unchanged.
  */
+import { parseQuantity } from '../../core/io/index.ts';
 import { InputError } from '../../core/math/index.ts';
+import type { StarSystem } from '../../core/system/index.ts';
+
+const RAD_PER_DEG = Math.PI / 180;
+
+/**
+ * An angle typed on the command line, in radians: degrees unless a unit says otherwise
+ * (`30` and `30deg` are 30°, `0.5rad` is 0.5 rad). Output that prints angles says `deg`.
+ */
+export function parseAngle(flag: string, text: string): number {
+  const t = text.trim();
+  return /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/.test(t) ? parseQuantity(flag, `${t}deg`, 'angle') : parseQuantity(flag, t, 'angle');
+}
+
+/**
+ * The index of the body a flag names: its id or its name, letters in any case (`tessel`,
+ * `Tessel`, `TESSEL`). InputError naming the flag and listing the bodies as the system names them.
+ */
+export function bodyIndexNamed(system: StarSystem, flag: string, text: string): number {
+  const want = text.trim().toLowerCase();
+  const k = system.bodies.findIndex((b) => b.id.toLowerCase() === want || b.name.toLowerCase() === want);
+  if (k < 0) {
+    throw new InputError(flag, `must name a body of ${system.name} (one of: ${system.bodies.map((b) => (b.name.toLowerCase() === b.id.toLowerCase() ? b.name : `${b.name} (${b.id})`)).join(', ')})`, text);
+  }
+  return k;
+}
 
 /** Field → flag, or [flag, what of it] for a flag that sets several fields (`--grid` sets both axes' sample counts). */
 export type FlagNames = Readonly<Record<string, string | readonly [flag: string, part: string]>>;

@@ -9,7 +9,7 @@
  * - `--from tessel:300km`: the body and the circular orbit's altitude (a bare number is metres;
  *   no altitude: the body's minimum safe altitude). `--to skerry:500km`: the target body and
  *   periapsis altitude; `--apoapsis` makes the target orbit elliptical, `--inclination` sets its
- *   inclination (`10deg`; a bare number is radians), `--from-inclination` the start orbit's.
+ *   inclination (`10` or `10deg` is 10°, `0.2rad` radians), `--from-inclination` the start orbit's.
  * - `--after`/`--before`: the departure range, calendar dates of the system ("412-037",
  *   "412-037T06:12") or times from the epoch ("120d").
  * - `--vehicle-from PLAN`: the vehicle of that plan file; without it an invented single-stage
@@ -32,7 +32,7 @@ import { truthModelLabel, type Vehicle } from '../../../core/plan/index.ts';
 import { planRoute, ROUTE_HOP_WORDS, type RouteIntent, type RouteResult } from '../../../core/route/index.ts';
 import { formatDate, type StarSystem } from '../../../core/system/index.ts';
 import { checkOutputs, loadPlanFile, loadSystemFile, writeOutput, type InputFile, type OutputTarget } from '../../node/files.ts';
-import type { FlagNames } from '../flags.ts';
+import { bodyIndexNamed, parseAngle, type FlagNames } from '../flags.ts';
 import { EXIT_NO, EXIT_OK, guard, printJson, printText, printWarnings, termSafe } from '../output.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 import { fixed, parseModel } from '../truthText.ts';
@@ -90,15 +90,15 @@ export function routeIntent(system: StarSystem, o: RouteCliOptions, vehicle: Veh
   const to = parseBodyAltitude('--to', o.to);
   return {
     from: {
-      body: from.body,
+      body: system.bodies[bodyIndexNamed(system, '--from', from.body)].id,
       altitude: from.altitude as number,
-      inclination: o.fromInclination === undefined ? null : parseQuantity('--from-inclination', o.fromInclination, 'angle'),
+      inclination: o.fromInclination === undefined ? null : parseAngle('--from-inclination', o.fromInclination),
     },
     to: {
-      body: to.body,
+      body: system.bodies[bodyIndexNamed(system, '--to', to.body)].id,
       periapsisAltitude: to.altitude as number,
       apoapsisAltitude: o.apoapsis === undefined ? null : parseQuantity('--apoapsis', o.apoapsis, 'length'),
-      inclination: o.inclination === undefined ? null : parseQuantity('--inclination', o.inclination, 'angle'),
+      inclination: o.inclination === undefined ? null : parseAngle('--inclination', o.inclination),
     },
     departAfter: parseTime(system.calendar, '--after', o.after),
     departBefore: parseTime(system.calendar, '--before', o.before),
@@ -135,8 +135,8 @@ export function addRouteCommand(program: Command): void {
     .requiredOption('--from <body[:alt]>', "departure body and circular orbit altitude (e.g. tessel:300km; default altitude: the body's safe altitude)")
     .requiredOption('--to <body[:alt]>', "target body and periapsis altitude (e.g. skerry:500km; default: the body's safe altitude)")
     .option('--apoapsis <alt>', 'target apoapsis altitude (default: a circular orbit)')
-    .option('--inclination <angle>', 'target inclination (e.g. 10deg; default: any)')
-    .option('--from-inclination <angle>', "start orbit's inclination (default: the route's choice)")
+    .option('--inclination <angle>', 'target inclination, degrees unless a unit says otherwise (10, 10deg, 0.2rad; default: any)')
+    .option('--from-inclination <angle>', "start orbit's inclination, degrees unless a unit says otherwise (default: the route's choice)")
     .requiredOption('--after <date>', 'earliest departure: a calendar date (412-037) or a time from the epoch (10d)')
     .requiredOption('--before <date>', 'latest departure')
     .option('--vehicle-from <plan>', 'take the vehicle of this plan file')

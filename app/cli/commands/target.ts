@@ -55,13 +55,13 @@ import {
   type TargetTolerances,
 } from '../../../core/target/index.ts';
 import { checkOutputs, loadPlanFile, STDOUT, writeOutput, type InputFile, type OutputTarget } from '../../node/files.ts';
-import { TARGET_FLAGS } from '../flags.ts';
+import { parseAngle, TARGET_FLAGS } from '../flags.ts';
 import { EXIT_NO, EXIT_OK, guard, printJson, printText, printWarnings, termSafe } from '../output.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 import { fixed, goalLines, parseModel } from '../truthText.ts';
 import { systemRefFor } from './correct.ts';
 import { parseTime } from './windows.ts';
-import type { SystemCalendar } from '../../../core/system/index.ts';
+import type { StarSystem, SystemCalendar } from '../../../core/system/index.ts';
 
 const DEG = Math.PI / 180;
 
@@ -91,18 +91,21 @@ export const GOAL_KINDS: Readonly<Record<string, { kind: ArrivalGoal['kind']; di
 
 /**
  * `--goal KIND:BODY=VALUE` values → arrival goals: `periapsis:ochre=600km` (altitude; a bare number
- * is metres), `inclination:ochre=35deg` (a bare number is radians), `entry:ochre=413-120T06:00` (a
+ * is metres), `inclination:ochre=35deg` (a bare number is degrees, `0.6rad` radians), `entry:ochre=413-120T06:00` (a
  * calendar date, or a time from the epoch such as 401d). InputError naming `--goal` otherwise.
  */
-export function parseGoals(values: readonly string[], cal: SystemCalendar): ArrivalGoal[] {
+export function parseGoals(values: readonly string[], cal: SystemCalendar, system?: StarSystem): ArrivalGoal[] {
   return values.map((v) => {
     const m = /^([a-z]+):([^=]+)=(.+)$/.exec(v.trim());
     const k = m ? GOAL_KINDS[m[1]] : undefined;
     if (!m || !k) {
       throw new InputError('--goal', `must be KIND:BODY=VALUE with KIND one of: ${Object.keys(GOAL_KINDS).join(', ')} (e.g. periapsis:ochre=600km)`, v);
     }
-    const wanted = k.dim === 'date' ? parseTime(cal, '--goal', m[3]) : parseQuantity('--goal', m[3], k.dim);
-    return { kind: k.kind, body: m[2], wanted };
+    const wanted = k.dim === 'date' ? parseTime(cal, '--goal', m[3]) : k.dim === 'angle' ? parseAngle('--goal', m[3]) : parseQuantity('--goal', m[3], k.dim);
+    // a body named in any case (Ochre, OCHRE) is the system's id; an unknown one is left for the plan's check to name
+    const typed = m[2].trim().toLowerCase();
+    const named = system?.bodies.find((b) => b.id.toLowerCase() === typed || b.name.toLowerCase() === typed);
+    return { kind: k.kind, body: named ? named.id : m[2], wanted };
   });
 }
 
@@ -143,7 +146,10 @@ function positive(flag: string, text: string, dim: 'length' | 'angle' | 'none' |
 export function tolerancesFrom(o: TargetCliOptions): Partial<TargetTolerances> {
   const t: Partial<TargetTolerances> = {};
   if (o.altitudeTolerance !== undefined) t.altitude = positive('--altitude-tolerance', o.altitudeTolerance, 'length');
-  if (o.inclinationTolerance !== undefined) t.i = positive('--inclination-tolerance', o.inclinationTolerance, 'angle');
+  if (o.inclinationTolerance !== undefined) {
+    t.i = parseAngle('--inclination-tolerance', o.inclinationTolerance);
+    if (!(t.i > 0)) throw new InputError('--inclination-tolerance', 'must be > 0', o.inclinationTolerance);
+  }
   if (o.eTolerance !== undefined) t.e = positive('--e-tolerance', o.eTolerance, 'none');
   if (o.timeTolerance !== undefined) t.time = positive('--time-tolerance', o.timeTolerance, 'time');
   return t;
@@ -213,7 +219,7 @@ export function addTargetCommand(program: Command): void {
     .requiredOption('-o, --output <file>', 'where to write the targeted plan (- for standard output)')
     .option('--model <model>', "conic, finite or nbody (default: the plan's truth model)")
     .option('--altitude-tolerance <d>', `how close altitudes must come (m, or with a unit: 0.1km; default ${d.altitude / 1e3}km)`)
-    .option('--inclination-tolerance <a>', `how close inclinations must come (rad, or 0.001deg; default ${Number((d.i / DEG).toPrecision(3))}deg)`)
+    .option('--inclination-tolerance <a>', `how close inclinations must come (degrees unless a unit says otherwise: 0.001, 1e-5rad; default ${Number((d.i / DEG).toPrecision(3))}deg)`)
     .option('--e-tolerance <e>', `how close eccentricities must come (default ${d.e})`)
     .option('--time-tolerance <t>', `how close arrival times must come (s, min, h, d; default ${d.time}s)`)
     .option('--max-change <dv>', "largest change of any burn's Δv component (m/s, or with a unit; default unbounded)")
@@ -241,7 +247,7 @@ export function addTargetCommand(program: Command): void {
         }
         const loaded = await loadPlanFile(planPath);
         const { system, plan } = loaded;
-        const goals = parseGoals(o.goal ?? [], system.calendar);
+        const goals = parseGoals(o.goal ?? [], system.calendar, system);
         const inputs: InputFile[] = [{ path: planPath, what: 'the plan file being targeted' }];
         if (loaded.systemPath) inputs.push({ path: loaded.systemPath, what: "the plan's system file" });
         const target: OutputTarget = { flag: '--output', path: o.output, kind: 'plan' };

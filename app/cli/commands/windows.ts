@@ -41,10 +41,10 @@ import { PORKCHOP_METRICS, type PorkchopMetric, type PorkchopRequest } from '../
 import { prepareTransfer, type TransferCell } from '../../../core/search/index.ts';
 import { findWindows, type TransferWindow } from '../../../core/search/index.ts';
 import { formatCompactDate, parseDate } from '../../../core/system/index.ts';
-import { findBodyIndex, type StarSystem, type SystemCalendar } from '../../../core/system/index.ts';
+import { type StarSystem, type SystemCalendar } from '../../../core/system/index.ts';
 import { checkOutputs, loadSystemFile, STDOUT, writeOutput, type OutputRules, type OutputTarget } from '../../node/files.ts';
 import { EXIT_NO, guard, jsonReplacer, num, printData, printJson, printText, termSafe } from '../output.ts';
-import { windowsFlags } from '../flags.ts';
+import { bodyIndexNamed, windowsFlags } from '../flags.ts';
 import { computePorkchopPooled } from '../pool.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 
@@ -81,9 +81,7 @@ function parseCount(field: string, text: string, min: number): number {
 }
 
 function bodyIndex(system: StarSystem, field: string, id: string): number {
-  const k = findBodyIndex(system, id);
-  if (k < 0) throw new InputError(field, `must name a body of the system (one of: ${system.bodies.map((b) => b.id).join(', ')})`, id);
-  return k;
+  return bodyIndexNamed(system, field, id);
 }
 
 interface WindowsOptions {
