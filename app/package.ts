@@ -1,8 +1,9 @@
 /**
  * `npm run package`: the desktop app as a folder ready to run, per platform, under release/
  * (@electron/packager): builds main, preload and renderer into dist/, then packs dist/, the
- * package.json (its `main` names dist/main/main.js) and the production dependencies (ajv for
- * the main process; devDependencies are pruned) into an asar archive beside the Electron runtime.
+ * package.json (its `main` names dist/main/main.js) into an asar archive beside the Electron
+ * runtime. The package has no production dependencies (the main process bundles ajv:
+ * app/main/build.ts), so packager's pruning leaves no node_modules.
  * The packaged app has no DevTools (app.isPackaged; app/main/security.ts).
  *
  * Packager downloads the Electron runtime for the target platform when it runs (from electron's

@@ -20,9 +20,10 @@ import { createGrid, type PorkchopGrid } from '../../core/search/index.ts';
 import type { PorkchopRequest } from '../../core/search/index.ts';
 import type { StarSystem } from '../../core/system/index.ts';
 import type { ChunkResult, ChunkTask } from './workers/porkchopWorker.ts';
+import { workerUrl } from './workers/entry.ts';
 
-/** The worker entry (a .mjs bootstrap that registers tsx, then loads porkchopWorker.ts). */
-export const PORKCHOP_WORKER_URL = new URL('./workers/porkchopWorker.mjs', import.meta.url).href;
+/** The worker entry: built JavaScript when running built, else a .mjs bootstrap that registers tsx (workers/entry.ts). */
+export const PORKCHOP_WORKER_URL = workerUrl('porkchopWorker');
 
 /** Chunks per worker by default: enough for load balance and a smooth progress bar. */
 export const CHUNKS_PER_WORKER = 8;

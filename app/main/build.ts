@@ -24,6 +24,8 @@ export async function buildMainAndPreload(): Promise<void> {
       lib: { entry: `${repo}${config.entries.main}`, formats: ['es'], fileName: () => 'main.js' },
       rollupOptions: { external },
     },
+    // ajv (the file validators) is bundled in: the package has no run-time dependencies.
+    ssr: { noExternal: true },
   });
   await build({
     ...common,

@@ -32,8 +32,9 @@ import { EXIT_OK, guard, num, printJson, printText, printWarnings } from '../out
 import { DISPERSE_FLAGS } from '../flags.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 import type { DisperseTask } from '../workers/disperseWorker.ts';
+import { workerUrl } from '../workers/entry.ts';
 
-export const DISPERSE_WORKER_URL = new URL('../workers/disperseWorker.mjs', import.meta.url).href;
+export const DISPERSE_WORKER_URL = workerUrl('disperseWorker');
 /** Workers used when --workers is not given. */
 export const MAX_AUTO_WORKERS = 8;
 /** Chunks per worker: load balance and a smooth progress bar. */
