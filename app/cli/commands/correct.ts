@@ -20,7 +20,7 @@ import { dirname, relative, resolve } from 'node:path';
 import type { Command } from 'commander';
 import { InputError } from '../../../core/math/index.ts';
 import { correctPlan } from '../../../core/nbody/index.ts';
-import { serializePlanFile, type PlanSystemRef } from '../../../core/io/index.ts';
+import { resolveBurnsForSave, serializePlanFile, type PlanSystemRef } from '../../../core/io/index.ts';
 import { checkOutputs, loadPlanFile, STDOUT, writeOutput, type InputFile, type OutputTarget } from '../../node/files.ts';
 import { EXIT_OK, guard, num, printJson, printText, printWarnings, termSafe, vecText } from '../output.ts';
 import { CORRECT_FLAGS } from '../flags.ts';
@@ -65,7 +65,12 @@ export function addCorrectCommand(program: Command): void {
         const target: OutputTarget = { flag: '--output', path: o.output, kind: 'plan' };
         await checkOutputs([target], { inputs });
         const c = correctPlan(system, loaded.plan, { burns: o.burn, time: !!o.time, maxIterations });
-        const text = serializePlanFile(c.plan, systemRefFor(o.output, loaded.systemRef, loaded.systemPath));
+        const text = serializePlanFile(
+          c.plan,
+          systemRefFor(o.output, loaded.systemRef, loaded.systemPath),
+          // the burns as solved, written beside their settings (derived; checked on open)
+          resolveBurnsForSave(system, c.plan),
+        );
         await writeOutput(target, text, { inputs }, { forTerminal: termSafe });
         if (o.json) {
           printJson({

@@ -26,7 +26,7 @@
  */
 import { resolve } from 'node:path';
 import type { Command } from 'commander';
-import { parseQuantity, serializePlanFile } from '../../../core/io/index.ts';
+import { parseQuantity, resolveBurnsForSave, serializePlanFile } from '../../../core/io/index.ts';
 import { InputError } from '../../../core/math/index.ts';
 import { truthModelLabel, type Vehicle } from '../../../core/plan/index.ts';
 import { planRoute, ROUTE_HOP_WORDS, type RouteIntent, type RouteResult } from '../../../core/route/index.ts';
@@ -169,7 +169,12 @@ export function addRouteCommand(program: Command): void {
         }
         const met = r.target.status === 'met';
         if (met) {
-          const text = serializePlanFile(r.plan, systemRefFor(o.output, { kind: 'path', path: o.system }, resolve(o.system)));
+          const text = serializePlanFile(
+            r.plan,
+            systemRefFor(o.output, { kind: 'path', path: o.system }, resolve(o.system)),
+            // the burns as solved, written beside their settings (derived; checked on open)
+            resolveBurnsForSave(system, r.plan),
+          );
           await writeOutput(target, text, { inputs }, { forTerminal: termSafe });
         }
         if (o.json) {

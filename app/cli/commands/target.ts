@@ -42,7 +42,7 @@
  * margin before and after, and the verdict. `--json`: the core's report in SI.
  */
 import type { Command } from 'commander';
-import { parseQuantity, serializePlanFile } from '../../../core/io/index.ts';
+import { parseQuantity, resolveBurnsForSave, serializePlanFile } from '../../../core/io/index.ts';
 import { InputError } from '../../../core/math/index.ts';
 import { planTruthModel, truthModelLabel, type TruthModel } from '../../../core/plan/index.ts';
 import {
@@ -219,7 +219,10 @@ export function addTargetCommand(program: Command): void {
     .requiredOption('-o, --output <file>', 'where to write the targeted plan (- for standard output)')
     .option('--model <model>', "conic, finite or nbody (default: the plan's truth model)")
     .option('--altitude-tolerance <d>', `how close altitudes must come (m, or with a unit: 0.1km; default ${d.altitude / 1e3}km)`)
-    .option('--inclination-tolerance <a>', `how close inclinations must come (degrees unless a unit says otherwise: 0.001, 1e-5rad; default ${Number((d.i / DEG).toPrecision(3))}deg)`)
+    .option(
+      '--inclination-tolerance <a>',
+      `how close inclinations must come (degrees unless a unit says otherwise: 0.001, 1e-5rad; default ${Number((d.i / DEG).toPrecision(3))}deg)`,
+    )
     .option('--e-tolerance <e>', `how close eccentricities must come (default ${d.e})`)
     .option('--time-tolerance <t>', `how close arrival times must come (s, min, h, d; default ${d.time}s)`)
     .option('--max-change <dv>', "largest change of any burn's Δv component (m/s, or with a unit; default unbounded)")
@@ -282,7 +285,12 @@ export function addTargetCommand(program: Command): void {
         const met = r.status === 'met';
         const write = met || !!o.partial;
         if (write) {
-          const text = serializePlanFile(r.plan, systemRefFor(o.output, loaded.systemRef, loaded.systemPath));
+          const text = serializePlanFile(
+            r.plan,
+            systemRefFor(o.output, loaded.systemRef, loaded.systemPath),
+            // the burns as solved, written beside their settings (derived; checked on open)
+            resolveBurnsForSave(loaded.system, r.plan),
+          );
           await writeOutput(target, text, { inputs }, { forTerminal: termSafe });
         }
         const notWritten = write ? null : `not written: not every goal is met (--partial writes the closest plan found to ${o.output})`;
