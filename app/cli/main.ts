@@ -18,6 +18,7 @@ import { addRouteCommand } from './commands/route.ts';
 import { addTargetCommand } from './commands/target.ts';
 import { addWindowsCommand } from './commands/windows.ts';
 import { EXIT_BAD_INPUT, EXIT_OK, termSafe } from './output.ts';
+import { addAllExamples } from './examples.ts';
 
 export function buildProgram(): Command {
   const program = new Command();
@@ -38,6 +39,7 @@ export function buildProgram(): Command {
   addTargetCommand(program);
   addRouteCommand(program);
   addDisperseCommand(program);
+  addAllExamples(program);
   return program;
 }
 
