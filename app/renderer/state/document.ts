@@ -186,9 +186,10 @@ export class PlanDocumentStore implements Readable<DocumentSnapshot> {
     this.#emit();
   }
 
-  /** The current plan was written to `file`. */
-  markSaved(file: FileRef): void {
+  /** The current plan was written to `file` (naming its system by `systemRef` when given: a Save As to another folder). */
+  markSaved(file: FileRef, systemRef?: PlanSystemRef): void {
     this.#file = file;
+    if (systemRef) this.#ref = systemRef;
     this.#savedRevision = this.#history.revision;
     this.#emit();
   }

@@ -39,6 +39,7 @@ import {
   type RecoverySnapshot,
 } from '../host/host.ts';
 import { fileToMemoryPath } from '../plan/paths.ts';
+import { rebaseSystemPath, relativeFrom } from './systemPath.ts';
 import { CursorStore } from './cursor.ts';
 import { PlanDocumentStore, UNTITLED, type LoadedDocument } from './document.ts';
 import { EvaluationStore, describeError, type Evaluate } from './evaluation.ts';
@@ -377,9 +378,22 @@ export class Session {
   }
 
   async saveAs(): Promise<boolean> {
+    const before = this.doc.get();
     try {
       const ref = await this.deps.host.saveAs(this.suggestedName(), this.planText());
       if (!ref) return false;
+      // In another folder, the plan names the same system file from there (or embeds it when no
+      // relative path reaches it), written again at once so the file on disk resolves.
+      const sys = before.systemRef;
+      if (this.deps.host.kind !== 'browser' && sys.kind === 'path' && ref.path && before.file?.path) {
+        const rel = rebaseSystemPath(before.file.path, ref.path, sys.path);
+        const moved: PlanSystemRef = rel === null ? { kind: 'embedded', system: before.system } : { kind: 'path', path: rel };
+        if (rel !== sys.path) {
+          const again = await this.deps.host.save(ref, serializePlanFile(before.plan, moved));
+          if (!again) return false;
+          return this.saved(again, moved);
+        }
+      }
       return this.saved(ref);
     } catch (err) {
       this.noticeFromError('The plan was not saved', err);
@@ -387,8 +401,8 @@ export class Session {
     }
   }
 
-  private async saved(ref: FileRef): Promise<boolean> {
-    this.doc.markSaved(ref);
+  private async saved(ref: FileRef, systemRef?: PlanSystemRef): Promise<boolean> {
+    this.doc.markSaved(ref, systemRef);
     await this.clearOwnRecovery();
     await this.refreshRecent();
     return true;
@@ -589,7 +603,7 @@ export async function loadPlanText(
   const fileName = baseNameOf(path);
   const bundled = deps.bundledSystems[fileName] ?? null;
   /** The system's text and where it came from. */
-  let found: { text: string; from: 'beside' | 'chosen' | 'bundled'; name: string } | null = null;
+  let found: { text: string; from: 'beside' | 'chosen' | 'bundled'; name: string; path?: string | null } | null = null;
   /** Why the system named could not be read where the plan names it. */
   let why: string;
   if (origin === 'bundled' && bundled !== null) {
@@ -622,7 +636,7 @@ export async function loadPlanText(
     });
     if (answer === 'choose') {
       const picked = await deps.host.openSystem(`Choose the system file '${fileName}' this plan was made with.`);
-      if (picked) found = { text: picked.text, from: 'chosen', name: picked.ref.name };
+      if (picked) found = { text: picked.text, from: 'chosen', name: picked.ref.name, path: picked.ref.path };
       else why += '; no file was chosen';
     } else if (answer === 'bundled' && bundled !== null) found = { text: bundled, from: 'bundled', name: `bundled ${fileName}` };
     else why += '; the question was cancelled';
@@ -654,8 +668,17 @@ export async function loadPlanText(
     throw err;
   }
   const warnings = [...issuesInWords([...parsed.warnings, ...fits], parsed.plan, system), ...systemWarnings];
-  // A system not read from where the plan names it travels with the plan from now on.
-  const systemRef: PlanSystemRef = found.from === 'beside' && deps.host.kind !== 'browser' ? parsed.system : { kind: 'embedded', system };
+  // A system read beside the plan stays named so; a file the user chose on the desktop is named
+  // from the plan's folder; any other (bundled, or chosen in a browser) travels with the plan.
+  const chosenRel = found.from === 'chosen' && found.path && ref.path ? relativeFrom(ref.path, found.path) : null;
+  const systemRef: PlanSystemRef =
+    deps.host.kind === 'browser'
+      ? { kind: 'embedded', system }
+      : found.from === 'beside'
+        ? parsed.system
+        : chosenRel !== null
+          ? { kind: 'path', path: chosenRel }
+          : { kind: 'embedded', system };
   return { plan: parsed.plan, system, systemRef, file: ref, warnings };
 }
 

@@ -323,6 +323,43 @@ describe('session: the system a plan names, and plans that travel', () => {
     }
   }, 30_000);
 
+  it('Save As into another folder names the same system file from there, so the saved plan resolves (the command line reads it)', async () => {
+    const { plan, dir } = folder(systemText);
+    try {
+      const host = desktopHost();
+      const target = join(dir, 'elsewhere', 'deep', 'trip.plan.json');
+      mkdirSync(dirname(target), { recursive: true });
+      vi.mocked(host.saveAs).mockImplementation(async (_name, text) => {
+        writeFileSync(target, text);
+        return { name: 'trip.plan.json', path: target, handle: null };
+      });
+      vi.mocked(host.save).mockImplementation(async (ref, text) => {
+        writeFileSync(ref.path!, text);
+        return ref;
+      });
+      const { s } = await session(host);
+      expect(await s.openText(demoText, { name: 'trip.plan.json', path: plan, handle: null })).toBe(true);
+      expect(await s.saveAs()).toBe(true);
+      const written = parsePlanFile(readFileSync(target, 'utf8')).system;
+      expect(written).toEqual({ kind: 'path', path: '../../systems/ilmar.system.json' });
+      expect(s.doc.get().systemRef).toEqual(written);
+      const run = await runCli(['check', target, '--model', 'conic', '--json']);
+      expect([0, 1], run.stderr).toContain(run.code);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 30_000);
+
+  it('a system file chosen on the desktop is named from the plan’s folder when saved', async () => {
+    const ask = vi.fn<SessionDeps['ask']>(async () => 'choose');
+    const host = desktopHost();
+    vi.mocked(host.readSystemBeside).mockRejectedValue(new Error('relativePath names no system file this plan may read'));
+    host.nextSystem = { ref: { name: 'ilmar.system.json', path: '/data/systems/ilmar.system.json', handle: null }, text: systemText };
+    const { s } = await session(host, ask);
+    expect(await s.openText(demoText, { name: 'trip.plan.json', path: '/data/plans/trip.plan.json', handle: null })).toBe(true);
+    expect(s.doc.get().systemRef).toEqual({ kind: 'path', path: '../systems/ilmar.system.json' });
+  });
+
   it('a system beside the plan that cannot be read: the question and the refusal say which file and why, and nothing changes', async () => {
     const ask = vi.fn<SessionDeps['ask']>(async () => 'cancel');
     const host = desktopHost();
