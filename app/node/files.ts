@@ -75,7 +75,15 @@ import * as fsp from 'node:fs/promises';
 import { randomBytes } from 'node:crypto';
 import { basename, dirname, isAbsolute, join, resolve } from 'node:path';
 import { ValidationError, WaymarkError, type ValidationIssue } from '../../core/math/index.ts';
-import { PLAN_FORMAT, PLAN_VERSION, parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../core/io/index.ts';
+import {
+  PLAN_FORMAT,
+  PLAN_VERSION,
+  parsePlanFile,
+  requirePlanFitsSystem,
+  serializePlanFile,
+  staleResolvedIssues,
+  type PlanSystemRef,
+} from '../../core/io/index.ts';
 import { decodeUtf8, issuesInWords, parseSystemFile } from '../../core/io/index.ts';
 import type { Plan } from '../../core/plan/index.ts';
 import { SYSTEM_FORMAT, SYSTEM_VERSION, type StarSystem } from '../../core/system/index.ts';
@@ -468,7 +476,7 @@ export const OUTPUT_KIND_WORDS: Record<OutputKind, string> = {
 const EXPORT_SIGNATURES: [ExportKind | 'grid-json' | 'grid-csv', RegExp][] = [
   ['oem', /^CCSDS_OEM_VERS\s*=/],
   ['csv', /^t_s,x_m,y_m,z_m,vx_mps,vy_mps,vz_mps,/],
-  ['burns-csv', /^id,name,t_s,t_start_s,t_end_s,dv_mps,/],
+  ['burns-csv', /^(?:event,name,id|id,name),t_s,t_start_s,t_end_s,dv_mps,/],
   ['report', /^# Δv budget: /],
   ['grid-json', /^\{"request":\{/],
   ['grid-csv', /^i,j,departure_s,(tof_s|arrival_s),/],
@@ -695,7 +703,7 @@ export interface LoadedPlan {
   systemRef: PlanSystemRef;
   /** Absolute path of the system file, or null when the system is embedded. */
   systemPath: string | null;
-  /** Warnings of the plan, its system and the plan-against-system checks. */
+  /** Warnings of the plan, its system, the plan-against-system checks and the burns' stale saved figures (core/io staleResolvedIssues). */
   warnings: ValidationIssue[];
   fileVersion: number;
 }
@@ -722,6 +730,8 @@ export async function loadPlanFile(path: string): Promise<LoadedPlan> {
   }
   const warnings: ValidationIssue[] = issuesInWords(parsed.warnings, parsed.plan, parsed.system.kind === 'embedded' ? parsed.system.system : null);
   if (parsed.system.kind === 'embedded') {
+    // the burns' saved figures (derived) against the plan's evaluation now: a stale block is a warning
+    warnings.push(...issuesInWords(staleResolvedIssues(parsed.system.system, parsed.plan, parsed.resolved), parsed.plan, parsed.system.system));
     return { plan: parsed.plan, system: parsed.system.system, systemRef: parsed.system, systemPath: null, warnings, fileVersion: parsed.fileVersion };
   }
   const systemPath = resolveSystemPath(path, parsed.system.path);
@@ -743,6 +753,7 @@ export async function loadPlanFile(path: string): Promise<LoadedPlan> {
     if (e instanceof ValidationError) throw new ValidationError(`plan file ${path}`, issuesInWords(e.issues, parsed.plan, sys.system));
     throw e;
   }
+  warnings.push(...issuesInWords(staleResolvedIssues(sys.system, parsed.plan, parsed.resolved), parsed.plan, sys.system));
   return { plan: parsed.plan, system: sys.system, systemRef: parsed.system, systemPath, warnings, fileVersion: parsed.fileVersion };
 }
 

@@ -9,6 +9,8 @@ import { ValidationError } from '../../../core/math/errors.ts';
 import { parsePlanFile, serializePlanFile, type PlanSystemRef } from '../../../core/io/planFile.ts';
 import { FileError, atomicWriteFile, backupPath, loadPlanFile, resolveSystemPath, savePlanFile } from '../../../app/node/files.ts';
 import { samplePlan, stateStartPlan } from '../../core/io/planSamples.ts';
+import { resolveBurns } from '../../../core/io/resolvedBurns.ts';
+import { demoPlan } from '../../fixtures/demoPlan.ts';
 
 const ROOT = new URL('../../../', import.meta.url).pathname;
 const CHILD = new URL('./saveChild.ts', import.meta.url).pathname;
@@ -290,6 +292,25 @@ describe('loadPlanFile and savePlanFile', () => {
     const loaded = await loadPlanFile(p);
     expect(loaded.systemPath).toBeNull();
     expect(loaded.system.bodies.length).toBe(sys.bodies.length);
+  });
+
+  it("a burn's saved figures that the plan no longer gives are a warning naming the burn, with the system by path or embedded", async () => {
+    const dir = freshDir();
+    const plain = join(dir, 'plain.plan.json');
+    await savePlanFile(plain, demoPlan, ref(dir));
+    const system = (await loadPlanFile(plain)).system;
+    for (const sysRef of [ref(dir), { kind: 'embedded', system } as PlanSystemRef]) {
+      const p = join(dir, `${sysRef.kind}.plan.json`);
+      writeFileSync(p, serializePlanFile(demoPlan, sysRef, resolveBurns(system, demoPlan)));
+      expect((await loadPlanFile(p)).warnings.filter((w) => w.path.endsWith('.resolved'))).toEqual([]);
+      const doc = JSON.parse(readFileSync(p, 'utf8'));
+      const k = (doc.events as { type: string }[]).findIndex((e) => e.type === 'burn');
+      doc.events[k].resolved.dv_inertial_mps[1] += 0.5;
+      writeFileSync(p, JSON.stringify(doc));
+      const stale = (await loadPlanFile(p)).warnings.filter((w) => w.path === `events[${k}].resolved`);
+      expect(stale.length).toBe(1);
+      expect((stale[0] as { words?: string }).words).toMatch(new RegExp(`^Burn ${k + 1} '${doc.events[k].name}': figures saved with the plan are out of date`));
+    }
   });
 
   it('a missing system file is reported against system.path', async () => {
