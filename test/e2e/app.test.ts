@@ -9,6 +9,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parsePlanFile } from '../../core/io/planFile.ts';
+import { runCli } from '../app/cli/runCli.ts';
 import { OUT, buildApp, openFile as openThroughPicker, requireChromium, startApp, type E2eApp, HANG_GUARD_MS } from './harness.ts';
 
 const have = requireChromium();
@@ -187,6 +188,22 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
     await expect.poll(() => page.textContent('[data-testid=doc-name]')).toContain('saved.plan.json');
     expect(await plan()).toEqual(inMemory);
     expect(await js<boolean>('window.waymarkDebug.session.doc.get().canUndo')).toBe(false);
+  });
+
+  it('the downloaded plan carries its system, and `waymark check` reads it to the budget the app shows', async () => {
+    const saved = `${OUT}saved.plan.json`; // a download folder: no system file beside it
+    expect(parsePlanFile(readFileSync(saved, 'utf8')).system.kind).toBe('embedded');
+    const app = await js<{ total: number; margin: number }>('window.waymarkDebug.session.evaluation.get().result.budget');
+    const run = await runCli(['check', saved, '--model', 'conic', '--json']);
+    expect([0, 1], run.stderr).toContain(run.code);
+    const cli = JSON.parse(run.stdout).budget as { total: number; margin: number };
+    // Same evaluation of the same plan and system, but in two engines (the page's Chromium, the
+    // command line's Node), whose Math functions may round differently in the last bit; the
+    // iterative burn solutions then stop on neighbouring iterates (seen: 7e-8 m/s on a 6 km/s
+    // total, about 1e-11 relative). 1e-6 m/s bounds that, far below the 0.1 m/s the budget shows.
+    const ENGINES = 1e-6; // m/s
+    expect(Math.abs(cli.total - app.total)).toBeLessThan(ENGINES);
+    expect(Math.abs(cli.margin - app.margin)).toBeLessThan(ENGINES);
   });
 
   it('a bad plan file shows its messages with field paths and changes nothing', async () => {

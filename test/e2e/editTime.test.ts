@@ -74,6 +74,8 @@ describe.skipIf(!have)('editing that follows intent and time that reads right (e
     // look somewhere else first: the home world up close
     await page.selectOption('[data-testid=focus]', { label: 'Tessel' });
     await openFile(page, new URL('../../assets/plans/tessel-to-skerry.plan.json', import.meta.url).pathname);
+    // A browser cannot read the system file beside the plan: the app asks; the bundled copy is chosen explicitly.
+    await page.click('[data-testid=ask] [data-choice=bundled]', { timeout: HANG_GUARD_MS });
     await expect.poll(() => page.evaluate('window.waymarkDebug.session.doc.get().plan.target.body'), { timeout: HANG_GUARD_MS }).toBe('skerry');
     await expect.poll(() => page.inputValue('[data-testid=focus]'), { timeout: HANG_GUARD_MS }).toBe('body:0');
     await page.evaluate('window.waymarkDebug.scene.renderNow()');

@@ -22,7 +22,14 @@
  * user recovers or discards it, autosave does not write, so new edits cannot replace the older
  * copy, and the offer cannot be dismissed without a choice.
  */
-import { parsePlanFile, requirePlanFitsSystem, serializePlanFile, type PlanSystemRef } from '../../../core/io/index.ts';
+import {
+  parsePlanFile,
+  requirePlanFitsSystem,
+  resolveBurnsForSave,
+  serializePlanFile,
+  staleResolvedIssues,
+  type PlanSystemRef,
+} from '../../../core/io/index.ts';
 import { parseSystemFile } from '../../../core/io/index.ts';
 import { ValidationError, type ValidationIssue } from '../../../core/math/index.ts';
 import type { Plan } from '../../../core/plan/index.ts';
@@ -333,7 +340,10 @@ export class Session {
   planText(): string {
     const s = this.doc.get();
     const ref: PlanSystemRef = this.deps.host.kind === 'browser' ? { kind: 'embedded', system: s.system } : s.systemRef;
-    return serializePlanFile(s.plan, ref);
+    // each burn's resolved figures (derived data: the plan evaluated once in its truth model),
+    // computed here rather than taken from the evaluation store so they are exactly what the check
+    // on open recomputes; a plan that does not evaluate saves without them
+    return serializePlanFile(s.plan, ref, resolveBurnsForSave(s.system, s.plan));
   }
 
   suggestedName(): string {
@@ -389,7 +399,7 @@ export class Session {
         const rel = rebaseSystemPath(before.file.path, ref.path, sys.path);
         const moved: PlanSystemRef = rel === null ? { kind: 'embedded', system: before.system } : { kind: 'path', path: rel };
         if (rel !== sys.path) {
-          const again = await this.deps.host.save(ref, serializePlanFile(before.plan, moved));
+          const again = await this.deps.host.save(ref, serializePlanFile(before.plan, moved, resolveBurnsForSave(before.system, before.plan)));
           if (!again) return false;
           return this.saved(again, moved);
         }
@@ -508,7 +518,8 @@ export class Session {
     if (s.revision === this.#autosavedRevision) return;
     let text: string;
     try {
-      text = this.planText();
+      // The copy carries the system it was made in: recovered later, it needs no file beside it.
+      text = serializePlanFile(s.plan, { kind: 'embedded', system: s.system });
     } catch {
       return; // not writable yet (e.g. a non-finite number mid-edit)
     }
@@ -596,7 +607,12 @@ export async function loadPlanText(
       system: parsed.system.system,
       systemRef: parsed.system,
       file: ref,
-      warnings: issuesInWords(parsed.warnings, parsed.plan, parsed.system.system),
+      // the burns' saved figures (derived) against the plan's evaluation now: a stale block is a warning
+      warnings: issuesInWords(
+        [...parsed.warnings, ...staleResolvedIssues(parsed.system.system, parsed.plan, parsed.resolved)],
+        parsed.plan,
+        parsed.system.system,
+      ),
     };
   }
   const path = parsed.system.path;
@@ -667,7 +683,8 @@ export async function loadPlanText(
     if (err instanceof ValidationError) throw new ValidationError(err.what, issuesInWords(err.issues, parsed.plan, system));
     throw err;
   }
-  const warnings = [...issuesInWords([...parsed.warnings, ...fits], parsed.plan, system), ...systemWarnings];
+  const stale = staleResolvedIssues(system, parsed.plan, parsed.resolved);
+  const warnings = [...issuesInWords([...parsed.warnings, ...fits, ...stale], parsed.plan, system), ...systemWarnings];
   // A system read beside the plan stays named so; a file the user chose on the desktop is named
   // from the plan's folder; any other (bundled, or chosen in a browser) travels with the plan.
   const chosenRel = found.from === 'chosen' && found.path && ref.path ? relativeFrom(ref.path, found.path) : null;

@@ -360,6 +360,28 @@ describe('session: the system a plan names, and plans that travel', () => {
     expect(s.doc.get().systemRef).toEqual({ kind: 'path', path: '../systems/ilmar.system.json' });
   });
 
+  it('the recovery copy carries its system, so it is recovered without the file beside the plan and without a question', async () => {
+    const { plan, dir } = folder(systemText.replace('"mu_m3_s2": 3e14', '"mu_m3_s2": 3.3e14'));
+    try {
+      const host = desktopHost();
+      const { s } = await session(host);
+      expect(await s.openText(demoText, { name: 'trip.plan.json', path: plan, handle: null })).toBe(true);
+      s.doc.edit('Edit reserve', (p) => edits.setReserve(p, { percent: 4.5 }));
+      await s.autosave();
+      expect(parsePlanFile(host.recovery!.text).system.kind).toBe('embedded');
+      const ask = vi.fn<SessionDeps['ask']>(async () => 'cancel');
+      const later = desktopHost();
+      later.recovery = host.recovery;
+      vi.mocked(later.readSystemBeside).mockRejectedValue(new Error('not opened in this session'));
+      const { s: s2 } = await session(later, ask);
+      expect(await s2.recover(later.recovery!)).toBe(true);
+      expect(ask).not.toHaveBeenCalled();
+      expect(s2.doc.get().system.bodies.find((b) => b.id === 'tessel')!.mu).toBe(3.3e14);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
   it('a system beside the plan that cannot be read: the question and the refusal say which file and why, and nothing changes', async () => {
     const ask = vi.fn<SessionDeps['ask']>(async () => 'cancel');
     const host = desktopHost();
