@@ -12,8 +12,6 @@ import { parseQuantity } from '../../core/io/index.ts';
 import { InputError } from '../../core/math/index.ts';
 import type { StarSystem } from '../../core/system/index.ts';
 
-const RAD_PER_DEG = Math.PI / 180;
-
 /**
  * An angle typed on the command line, in radians: degrees unless a unit says otherwise
  * (`30` and `30deg` are 30°, `0.5rad` is 0.5 rad). Output that prints angles says `deg`.
@@ -31,7 +29,11 @@ export function bodyIndexNamed(system: StarSystem, flag: string, text: string): 
   const want = text.trim().toLowerCase();
   const k = system.bodies.findIndex((b) => b.id.toLowerCase() === want || b.name.toLowerCase() === want);
   if (k < 0) {
-    throw new InputError(flag, `must name a body of ${system.name} (one of: ${system.bodies.map((b) => (b.name.toLowerCase() === b.id.toLowerCase() ? b.name : `${b.name} (${b.id})`)).join(', ')})`, text);
+    throw new InputError(
+      flag,
+      `must name a body of ${system.name} (one of: ${system.bodies.map((b) => (b.name.toLowerCase() === b.id.toLowerCase() ? b.name : `${b.name} (${b.id})`)).join(', ')})`,
+      text,
+    );
   }
   return k;
 }

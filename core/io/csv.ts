@@ -21,9 +21,14 @@ const EOL = '\r\n';
 
 export const EPHEMERIS_CSV_COLUMNS = ['t_s', 'x_m', 'y_m', 'z_m', 'vx_mps', 'vy_mps', 'vz_mps', 'mass_kg', 'central'] as const;
 
+/**
+ * Burn-table columns. A burn is named as the plan's cards name it: `event` its 1-based place
+ * among the plan's events and `name` its name; `id` is the event's id in the plan file.
+ */
 export const BURN_CSV_COLUMNS = [
-  'id',
+  'event',
   'name',
+  'id',
   't_s',
   't_start_s',
   't_end_s',
@@ -79,13 +84,15 @@ export function ephemerisCsv(system: StarSystem, eph: SampledEphemeris): string 
 }
 
 /** Burn-table CSV: one row per budget row; stages and flag codes joined with ";". */
-export function burnTableCsv(budget: Budget): string {
+export function burnTableCsv(budget: Budget, plan?: { readonly events: readonly { readonly id: string }[] }): string {
   const out: string[] = [row([...BURN_CSV_COLUMNS])];
   for (const r of budget.rows) {
+    const k = plan ? plan.events.findIndex((e) => e.id === r.planEventId) : -1;
     out.push(
       row([
-        r.planEventId,
+        k >= 0 ? k + 1 : null,
         r.name,
+        r.planEventId,
         r.t,
         r.tStart,
         r.tEnd,

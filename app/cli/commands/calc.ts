@@ -20,7 +20,6 @@ import { bielliptic } from '../../../core/orbit/index.ts';
 import { hillRadius, sphereOfInfluence } from '../../../core/orbit/index.ts';
 import type { Body, StarSystem } from '../../../core/system/index.ts';
 import { loadSystemFile } from '../../node/files.ts';
-import { withExamples } from '../examples.ts';
 import { bodyIndexNamed, CALC_FLAGS, parseAngle } from '../flags.ts';
 import { guard, num, printJson, printWarnings, vecText } from '../output.ts';
 
@@ -96,7 +95,7 @@ export function addCalcCommands(program: Command): void {
         const s = propagateKepler(mu, [...r, ...v], dt);
         const out = { r: Array.from(s.slice(0, 3)), v: Array.from(s.slice(3, 6)), dt };
         if (o.json) printJson(out);
-        else console.log([...muLine(named, mu), `after ${num(dt, 1)} s`].join('\n') + `\n  r = ${vecText(out.r, 1e3)} km\n  v = ${vecText(out.v, 1e3)} km/s`);
+        else console.log(`${[...muLine(named, mu), `after ${num(dt, 1)} s`].join('\n')}\n  r = ${vecText(out.r, 1e3)} km\n  v = ${vecText(out.v, 1e3)} km/s`);
       }),
     );
 
@@ -181,7 +180,12 @@ export function addCalcCommands(program: Command): void {
         const sols = solveLambert(mu, r1, r2, tof, { revs, retrograde: !!o.retrograde });
         const out = sols.map((s) => ({ revs: s.revs, branch: s.branch, v1: Array.from(s.v1), v2: Array.from(s.v2), iterations: s.iterations }));
         if (o.json) printJson({ solutions: out });
-        else for (const line of [...muLine(named, mu), ...out.map((s) => `revs ${s.revs} ${s.branch.padEnd(6)}  v1 = ${vecText(s.v1, 1e3)} km/s  v2 = ${vecText(s.v2, 1e3)} km/s`)]) console.log(line);
+        else
+          for (const line of [
+            ...muLine(named, mu),
+            ...out.map((s) => `revs ${s.revs} ${s.branch.padEnd(6)}  v1 = ${vecText(s.v1, 1e3)} km/s  v2 = ${vecText(s.v2, 1e3)} km/s`),
+          ])
+            console.log(line);
       }),
     );
 
@@ -197,7 +201,11 @@ export function addCalcCommands(program: Command): void {
         const mu = muFrom(o, named);
         const h = hohmann(mu, radiusFrom(o, 'r1', 'alt1', named), radiusFrom(o, 'r2', 'alt2', named));
         if (o.json) printJson(h);
-        else console.log([...muLine(named, mu), ''].join('\n') + `dv1 = ${num(h.dv1, 2)} m/s\ndv2 = ${num(h.dv2, 2)} m/s\ntotal = ${num(h.dvTotal, 2)} m/s\nflight time = ${num(h.tof / 86400, 4)} d`);
+        else
+          console.log(
+            [...muLine(named, mu), ''].join('\n') +
+              `dv1 = ${num(h.dv1, 2)} m/s\ndv2 = ${num(h.dv2, 2)} m/s\ntotal = ${num(h.dvTotal, 2)} m/s\nflight time = ${num(h.tof / 86400, 4)} d`,
+          );
       }),
     );
 

@@ -9,9 +9,11 @@
  *   n-body prints which method flew each span and the arrival difference from the patched-conic
  *   flight of the same burns, and exports the n-body states. Every model prints the target's
  *   goals as that model reaches them (value, wanted ± tolerance, met).
- * - `--step T` (default 1 h): the fixed step of the exported ephemeris (a duration with a unit,
- *   e.g. 600, 10min, 1h); samples come from each segment's exact conic
- *   (core/conic/ephemerisSampler.ts).
+ * - `--step T`: the fixed step of the exported ephemeris (a duration with a unit, e.g. 600, 10min,
+ *   1h); samples come from each segment's exact conic (core/conic/ephemerisSampler.ts). Without
+ *   it, each span gets its own step (app/cli/exportStep.ts): its shortest osculating period / 64,
+ *   or for a hyperbolic span its duration / 64, so every orbit has at least 64 points; the n-body
+ *   model flies one grid, at the smallest of those steps.
  * - `--oem FILE`: CCSDS OEM (KVN), one metadata block per central-body span (core/io/oem.ts);
  *   `--csv FILE`: ephemeris CSV; `--burns FILE`: burn-table CSV; `--report FILE`: Markdown
  *   budget report. Every file is saved atomically, the previous version kept as FILE.bak,
@@ -33,31 +35,38 @@ import { writeOem } from '../../../core/io/index.ts';
 import { budgetReport } from '../../../core/io/index.ts';
 import { integratorName, parseQuantity } from '../../../core/io/index.ts';
 import { InputError } from '../../../core/math/index.ts';
-import { sampleEphemeris } from '../../../core/conic/index.ts';
+import { evaluate, sampleEphemeris } from '../../../core/conic/index.ts';
 import type { NBodyResult } from '../../../core/nbody/index.ts';
 import { nbodyStatesToEphemeris } from '../../../core/nbody/index.ts';
-import type { PlanResult } from '../../../core/plan/index.ts';
+import type { Plan, PlanResult } from '../../../core/plan/index.ts';
 import { planTruthModel, TRUTH_MODELS, truthModelLabel } from '../../../core/plan/index.ts';
 import { formatCompactDate } from '../../../core/system/index.ts';
 import { checkOutputs, loadPlanFile, STDOUT, writeOutput, type InputFile, type OutputTarget } from '../../node/files.ts';
 import { EXIT_NO, EXIT_OK, guard, num, printJson, printText, printWarnings, termSafe } from '../output.ts';
 import { FLY_FLAGS } from '../flags.ts';
+import { defaultSpanSteps, POINTS_PER_ORBIT, sampleBySpan, type SpanStep } from '../exportStep.ts';
 import { modelWords, parseModel, readInModel, targetText } from '../truthText.ts';
 
 /** The models `--model` takes. */
 export const MODELS = TRUTH_MODELS;
-/** Default export step, s. */
-export const DEFAULT_STEP = 3600;
-
-/** Burns inside each span, as OEM comments (impulsive burns make the velocity jump there). */
-function burnComments(result: PlanResult, spans: { t: Float64Array }[]): string[][] {
+/** Burns inside each span, as OEM comments (impulsive burns make the velocity jump there), named as on the plan's cards: number and name. */
+function burnComments(result: PlanResult, plan: Plan, spans: { t: Float64Array }[]): string[][] {
   return spans.map((span) => {
     const t0 = span.t[0];
     const t1 = span.t[span.t.length - 1];
     return result.budget.rows
       .filter((r) => r.t >= t0 && r.t <= t1)
-      .map((r) => `burn ${r.planEventId} (${r.name}) at t = ${r.t} s, dv ${num(r.dv, 3)} m/s; do not interpolate across it`);
+      .map(
+        (r) =>
+          `burn ${plan.events.findIndex((e) => e.id === r.planEventId) + 1} ${r.name} at t = ${r.t} s, dv ${num(r.dv, 3)} m/s; do not interpolate across it`,
+      );
   });
+}
+
+/** The step words of the OEM header comment. */
+function stepWords(step: number | null, spans: readonly SpanStep[]): string {
+  if (step !== null) return `step ${step} s`;
+  return `step per span (its shortest orbital period / ${POINTS_PER_ORBIT}, or a hyperbolic span's duration / ${POINTS_PER_ORBIT}): ${spans.map((s) => `${num(s.step, 1)} s`).join(', ')}`;
 }
 
 export function addFlyCommand(program: Command): void {
@@ -70,13 +79,16 @@ export function addFlyCommand(program: Command): void {
     .option('--csv <file>', 'write the ephemeris as CSV')
     .option('--burns <file>', 'write the burn table as CSV')
     .option('--report <file>', 'write the Markdown budget report')
-    .option('--step <t>', 'ephemeris step (s, min, h, d)', String(DEFAULT_STEP))
+    .option(
+      '--step <t>',
+      `ephemeris step (s, min, h, d); default per span: its orbital period / ${POINTS_PER_ORBIT} (a hyperbolic span: its duration / ${POINTS_PER_ORBIT})`,
+    )
     .option('--json', 'machine-readable output')
-    .action((planPath: string, o: { model?: string; oem?: string; csv?: string; burns?: string; report?: string; step: string; json?: boolean }) =>
+    .action((planPath: string, o: { model?: string; oem?: string; csv?: string; burns?: string; report?: string; step?: string; json?: boolean }) =>
       guard({ json: !!o.json, flags: FLY_FLAGS }, async () => {
         const asked = o.model === undefined ? undefined : parseModel('--model', o.model);
-        const step = parseQuantity('--step', o.step, 'time');
-        if (!(step > 0)) throw new InputError('--step', 'must be > 0', o.step);
+        const step = o.step === undefined ? null : parseQuantity('--step', o.step, 'time');
+        if (step !== null && !(step > 0)) throw new InputError('--step', 'must be > 0', o.step);
         const outputs: OutputTarget[] = (
           [
             ['--oem', o.oem, 'oem'],
@@ -99,7 +111,10 @@ export function addFlyCommand(program: Command): void {
           writeOutput({ flag, path, kind }, text, { inputs }, { forTerminal: termSafe });
         const truth = planTruthModel(plan);
         const model = asked ?? truth;
-        const report = readInModel(system, plan, model, !!o.json || toStdout !== undefined, step);
+        // without --step the n-body flight's one grid takes the smallest span step of the patched-conic flight
+        const nbodyStep =
+          step ?? (model === 'nbody' && (o.oem || o.csv) ? Math.min(...defaultSpanSteps(evaluate(system, plan)).map((s) => s.step)) : undefined);
+        const report = readInModel(system, plan, model, !!o.json || toStdout !== undefined, nbodyStep);
         // the patched-conic flight with the budget in the model flown (n-body: the schedule's, every burn counted)
         const result = { ...report.conic, budget: report.budget };
         const nbody: NBodyResult | null = report.nbody;
@@ -107,15 +122,20 @@ export function addFlyCommand(program: Command): void {
 
         const files: Record<string, string> = {};
         if (o.oem || o.csv) {
-          const eph = nbody?.states ? nbodyStatesToEphemeris(nbody.states, result, step) : sampleEphemeris(system, result, { step });
+          const spanSteps = defaultSpanSteps(result);
+          const eph = nbody?.states
+            ? nbodyStatesToEphemeris(nbody.states, result, nbodyStep as number)
+            : step !== null
+              ? sampleEphemeris(system, result, { step })
+              : sampleBySpan(system, result, spanSteps);
           if (o.oem) {
             const text = writeOem(system, eph, {
               objectName: plan.vehicle.name,
               creationDate: new Date().toISOString().slice(0, 19),
               comments: [
-                `Plan: ${plan.name}; ${nbody ? 'restricted n-body model (RK45)' : `patched-conic model${model === 'finite' ? ', every burn finite' : ''}`}; step ${step} s.`,
+                `Plan: ${plan.name}; ${nbody ? 'restricted n-body model (RK45)' : `patched-conic model${model === 'finite' ? ', every burn finite' : ''}`}; ${nbody ? `step ${num(nbodyStep as number, 1)} s` : stepWords(step, spanSteps)}.`,
               ],
-              spanComments: burnComments(result, eph.spans),
+              spanComments: burnComments(result, plan, eph.spans),
             });
             await save('--oem', o.oem, 'oem', text);
             files.oem = o.oem;
@@ -126,7 +146,7 @@ export function addFlyCommand(program: Command): void {
           }
         }
         if (o.burns) {
-          await save('--burns', o.burns, 'burns-csv', burnTableCsv(result.budget));
+          await save('--burns', o.burns, 'burns-csv', burnTableCsv(result.budget, plan));
           files.burns = o.burns;
         }
         if (o.report) {

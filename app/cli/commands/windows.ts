@@ -41,7 +41,7 @@ import { PORKCHOP_METRICS, type PorkchopMetric, type PorkchopRequest } from '../
 import { prepareTransfer, type TransferCell } from '../../../core/search/index.ts';
 import { findWindows, type TransferWindow } from '../../../core/search/index.ts';
 import { formatCompactDate, parseDate } from '../../../core/system/index.ts';
-import { type StarSystem, type SystemCalendar } from '../../../core/system/index.ts';
+import type { StarSystem, SystemCalendar } from '../../../core/system/index.ts';
 import { checkOutputs, loadSystemFile, STDOUT, writeOutput, type OutputRules, type OutputTarget } from '../../node/files.ts';
 import { EXIT_NO, guard, jsonReplacer, num, printData, printJson, printText, termSafe } from '../output.ts';
 import { bodyIndexNamed, windowsFlags } from '../flags.ts';

@@ -60,7 +60,7 @@ describe('waymark fly', () => {
     expect(rows[0]).toEqual(['t_s', 'x_m', 'y_m', 'z_m', 'vx_mps', 'vy_mps', 'vz_mps', 'mass_kg', 'central']);
     expect(new Set(rows.slice(1).map((r) => r[8]))).toEqual(new Set(['tessel', 'ilmar', 'ochre']));
     const b = parseCsv(readFileSync(burns, 'utf8'));
-    expect(b.slice(1).map((r) => r[0])).toEqual(['departure', 'mid-course', 'capture', 'plane', 'trim']);
+    expect(b.slice(1).map((r) => r[2])).toEqual(['departure', 'mid-course', 'capture', 'plane', 'trim']);
     const md = readFileSync(report, 'utf8');
     expect(md).toContain('# Δv budget: Long Patience to Ochre');
     expect(md).toContain('**The margin holds.**');

@@ -40,7 +40,8 @@ describe('--help examples', () => {
 
   it('the program has the commands the README lists (so the checks below cover something)', () => {
     const paths = commands.map(commandPath);
-    for (const p of ['calc kepler', 'calc elements', 'check', 'fly', 'windows', 'route', 'target', 'disperse', 'stability', 'gamestep', 'correct']) expect(paths).toContain(p);
+    for (const p of ['calc kepler', 'calc elements', 'check', 'fly', 'windows', 'route', 'target', 'disperse', 'stability', 'gamestep', 'correct'])
+      expect(paths).toContain(p);
   });
 
   it.each(commands.map((c) => [commandPath(c), c] as const))('%s: --help ends with at least one example', (_path, cmd) => {

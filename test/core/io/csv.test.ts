@@ -53,7 +53,8 @@ describe('CSV (RFC 4180)', () => {
   it('burn-table CSV: one row per budget row, names quoted, empty for "no value"', () => {
     const b = syntheticBudget();
     const text = burnTableCsv(b);
-    expect(text.split('\r\n')[1].startsWith('kick,"Kick, ""prograde""",4000,3990,4010,1234.5,vnb,')).toBe(true);
+    // without the plan the card number is empty ("no value")
+    expect(text.split('\r\n')[1].startsWith(',"Kick, ""prograde""",kick,4000,3990,4010,1234.5,vnb,')).toBe(true);
     const rows = parseCsv(text);
     expect(rows[0]).toEqual([...BURN_CSV_COLUMNS]);
     expect(rows.length).toBe(1 + b.rows.length);
@@ -65,5 +66,16 @@ describe('CSV (RFC 4180)', () => {
     expect(rows[2][col('stages')]).toBe('Kick;Cruise');
     expect(rows[2][col('flags')]).toBe('stage-dry-mid-burn');
     expect(rows[2][col('dv_x_mps')]).toBe('11');
+  });
+
+  it("burn-table CSV with the plan: each burn's number is its place among the plan's events, as on its card", () => {
+    const b = syntheticBudget();
+    const events = [{ id: 'coast-1' }, ...b.rows.map((r) => ({ id: r.planEventId }))].reverse();
+    const rows = parseCsv(burnTableCsv(b, { events }));
+    const col = (name: string) => BURN_CSV_COLUMNS.indexOf(name as (typeof BURN_CSV_COLUMNS)[number]);
+    b.rows.forEach((r, k) => {
+      expect(rows[k + 1][col('id')]).toBe(r.planEventId);
+      expect(Number(rows[k + 1][col('event')])).toBe(events.findIndex((e) => e.id === r.planEventId) + 1);
+    });
   });
 });
