@@ -288,4 +288,34 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
     await page.screenshot({ path: `${OUT}08-after-window.png` });
     expect(pageErrors).toEqual([]);
   });
+  it('a moon route round-trips: opened (its system chosen explicitly), downloaded, read by `waymark check` to the same budget, and opened again to the same plan', async () => {
+    await page.click('[data-testid=menu-file]');
+    const choosing = page.waitForEvent('filechooser');
+    await page.click('[data-action=open]');
+    await page.click('[data-testid=ask] [data-choice=discard]'); // the porkchop's edit above is not kept
+    const chooser = await choosing;
+    await chooser.setFiles(new URL('../../assets/plans/tessel-to-skerry.plan.json', import.meta.url).pathname);
+    // The browser cannot read ../systems/ilmar.system.json beside the plan: it says so and asks.
+    await expect.poll(() => page.textContent('[data-testid=ask]')).toMatch(/names the system file "\.\.\/systems\/ilmar\.system\.json".*this browser cannot read files beside/);
+    await page.click('[data-testid=ask] [data-choice=bundled]');
+    await expect.poll(() => js<string>('window.waymarkDebug.session.doc.get().plan.target.body')).toBe('skerry');
+    const inMemory = await plan();
+    await page.click('[data-testid=menu-file]');
+    const [download] = await Promise.all([page.waitForEvent('download'), page.click('[data-action=save]')]);
+    const saved = `${OUT}moon.plan.json`;
+    await download.saveAs(saved);
+    expect(parsePlanFile(readFileSync(saved, 'utf8')).system.kind).toBe('embedded');
+    const app = await js<{ total: number; margin: number }>('window.waymarkDebug.session.evaluation.get().result.budget');
+    const run = await runCli(['check', saved, '--model', 'conic', '--json']);
+    expect([0, 1], run.stderr).toContain(run.code);
+    const cli = JSON.parse(run.stdout).budget as { total: number; margin: number };
+    const ENGINES = 1e-6; // m/s: two engines' last-bit rounding through iterative burn solutions (see the demo's round trip above)
+    expect(Math.abs(cli.total - app.total)).toBeLessThan(ENGINES);
+    expect(Math.abs(cli.margin - app.margin)).toBeLessThan(ENGINES);
+    await openFile(saved); // embedded: no question this time
+    await expect.poll(() => page.textContent('[data-testid=doc-name]')).toContain('moon.plan.json');
+    expect(await page.locator('[data-testid=ask]').count()).toBe(0);
+    expect(await plan()).toEqual(inMemory);
+    expect(pageErrors).toEqual([]);
+  });
 });
