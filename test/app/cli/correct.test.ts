@@ -1,4 +1,4 @@
-import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -25,6 +25,12 @@ describe.concurrent('waymark correct', () => {
     expect(mc.solve.kind).toBe('fixed');
     expect(mc.frame).toBe('inertial');
     expect(loaded.system.name).toBe('Ilmar');
+    // each burn carries what was solved (derived), and it is what the plan gives on open
+    const written = JSON.parse(readFileSync(out, 'utf8')) as { events: { type: string; resolved?: { model: string } }[] };
+    const burns = written.events.filter((e) => e.type === 'burn');
+    expect(burns.length).toBeGreaterThan(0);
+    for (const b of burns) expect(b.resolved?.model).toBe(loaded.plan.truthModel ?? 'conic');
+    expect(loaded.warnings.filter((w) => w.path.endsWith('.resolved'))).toEqual([]);
   });
 
   it('--json: one document with the iterations, the correction and the margins', async () => {
