@@ -81,7 +81,8 @@ const common: BuildOptions = {
   target: 'node20',
   logLevel: 'warning',
   legalComments: 'none',
-  minify: true,
+  // minified: less for node to parse at every start (WAYMARK_BUILD_PLAIN=1 keeps names, for profiling)
+  minify: process.env.WAYMARK_BUILD_PLAIN !== '1',
   // piscina's optional niceness helper (a native module) is looked up at run time and may be absent.
   external: ['@napi-rs/nice'],
   plugins: [ajvPrecompiled(), mainRunsOnce()],
