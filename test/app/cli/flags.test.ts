@@ -2,11 +2,14 @@
  * Errors at the command line name the flag the user typed, not the core's field: `--grid`,
  * not `depart.n`; `--revs`, not `maxRevs`; `--dt`, not `physics.dt`. And `--dt 20ms` reads.
  */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { CALC_FLAGS, DISPERSE_FLAGS, GAMESTEP_FLAGS, STABILITY_FLAGS, inFlagWords, windowsFlags } from '../../../app/cli/flags.ts';
+import { bodyIndexNamed, CALC_FLAGS, DISPERSE_FLAGS, GAMESTEP_FLAGS, parseAngle, STABILITY_FLAGS, inFlagWords, windowsFlags } from '../../../app/cli/flags.ts';
+import { parseSystemFile } from '../../../core/io/systemFile.ts';
 import { parseStep } from '../../../app/cli/commands/gamestep.ts';
 import { InputError, SolverError } from '../../../core/math/errors.ts';
-import { runCli } from './runCli.ts';
+import { ROOT, runCli } from './runCli.ts';
 
 const SYSTEM = 'assets/systems/ilmar.system.json';
 const PLAN = 'assets/plans/tessel-to-ochre.plan.json';
@@ -96,5 +99,31 @@ describe.concurrent('the command line names flags in its errors', () => {
     expect(r.code).toBe(2);
     expect(r.stderr).toMatch(/^waymark: --samples /);
     expect(r.stderr).not.toContain('options.');
+  });
+});
+
+describe('angles and body names as typed', () => {
+  it('parseAngle: a bare number is degrees, a unit says otherwise', () => {
+    // exact conversions (π/180 is the definition of the degree); toBe: the same double the unit table gives
+    expect(parseAngle('--i', '30')).toBe(parseAngle('--i', '30deg'));
+    expect(parseAngle('--i', '30')).toBeCloseTo(Math.PI / 6, 15);
+    expect(parseAngle('--i', '-1.5e1')).toBeCloseTo(-Math.PI / 12, 15);
+    expect(parseAngle('--i', '0.5rad')).toBe(0.5);
+    expect(() => parseAngle('--i', '30grad')).toThrow(/--i has unknown unit "grad"/);
+  });
+
+  it('bodyIndexNamed: id or name in any case; none matching lists the names as the system has them', () => {
+    const { system } = parseSystemFile(readFileSync(join(ROOT, SYSTEM), 'utf8'));
+    const k = system.indexById.tessel;
+    for (const t of ['tessel', 'Tessel', 'TESSEL', ' tEsSeL ']) expect(bodyIndexNamed(system, '--from', t)).toBe(k);
+    let err: unknown = null;
+    try {
+      bodyIndexNamed(system, '--from', 'Tesel');
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(InputError);
+    expect((err as InputError).field).toBe('--from');
+    for (const b of system.bodies) expect((err as InputError).rule).toContain(b.name);
   });
 });
