@@ -4,7 +4,8 @@
  * the tarball installed offline in a temporary folder, then, with plain node and no tsx to be
  * found from that folder: the README's example script, the installed `waymark` bin, and a
  * porkchop grid on two worker threads started from the built files. Each answer is compared
- * with the same computation run here from the TypeScript sources.
+ * with the same computation run here from the TypeScript sources (a bad file's report with the
+ * command line run from the sources).
  */
 import { describe, expect, it } from 'vitest';
 import { execFileSync, spawnSync } from 'node:child_process';
@@ -93,6 +94,18 @@ describe('the packed package, installed (slow)', () => {
       expect(checked.budget.margin).toBe(budget.margin);
       // a usage error exits 2, as from the sources
       expect(node([bin, 'check'], inst).code).toBe(2);
+      // a file that breaks the schema: the validators generated at build time report what the
+      // sources' run-time ajv reports, word for word
+      const bad = JSON.parse(readFileSync(planPath, 'utf8')) as { events: { dv_mps?: unknown }[]; vehicle: { stages: { isp_s: number }[] } };
+      bad.events[0].dv_mps = 'x';
+      bad.vehicle.stages[0].isp_s = -3;
+      const badPath = join(work, 'plans/bad.plan.json');
+      writeFileSync(badPath, JSON.stringify(bad));
+      const built = node([bin, 'check', badPath], inst);
+      const sources = node([join(ROOT, 'node_modules/tsx/dist/cli.mjs'), join(ROOT, 'app/cli/main.ts'), 'check', badPath], inst);
+      expect(built.code).toBe(2);
+      expect(built.stderr).toMatch(/dv_mps/);
+      expect(built.stderr).toBe(sources.stderr);
 
       // a grid on two workers started from the built files is the grid computed here in one thread
       const sys = join(work, 'systems/ilmar.system.json');
