@@ -8,6 +8,9 @@
  * - a hyperbolic (or parabolic) span: the span's duration divided by 64 (the time to cross the
  *   sphere of influence, or to the plan's end), so the pass gets at least 64 points;
  * - never more than the span's duration / 64 either.
+ * The n-body flight is sampled on one grid at the smallest of these steps, then each of its spans
+ * keeps every k-th sample, k = ⌊span step / grid step⌋ (`thinToSpanSteps`), so a long cruise is
+ * not written at the parking orbit's step.
  * The period comes from vis-viva, a = 1 / (2/r − v²/μ), P = 2π √(a³/μ) (common practice).
  */
 import { sampleEphemeris, type EphemerisSpan, type SampledEphemeris } from '../../core/conic/index.ts';
@@ -56,6 +59,37 @@ export function defaultSpanSteps(result: PlanResult): SpanStep[] {
     a = k;
   }
   return out;
+}
+
+/**
+ * An ephemeris on one fine grid (`gridStep`) thinned span by span: a span keeps every k-th
+ * sample (its first and last always), k = ⌊step / gridStep⌋ with step the smallest default step
+ * of the patched-conic spans about the same centre that overlap it (the grid's own when none).
+ */
+export function thinToSpanSteps(eph: SampledEphemeris, gridStep: number, steps: readonly SpanStep[]): SampledEphemeris {
+  const spans = eph.spans.map((span): EphemerisSpan => {
+    const n = span.t.length;
+    if (n < 3) return span;
+    const t0 = span.t[0];
+    const t1 = span.t[n - 1];
+    let step = Number.POSITIVE_INFINITY;
+    for (const s of steps) if (s.center === span.center && s.t0 < t1 && s.t1 > t0) step = Math.min(step, s.step);
+    const k = Number.isFinite(step) ? Math.max(1, Math.floor(step / gridStep + 1e-9)) : 1;
+    if (k === 1) return span;
+    const keep: number[] = [];
+    for (let j = 0; j < n - 1; j += k) keep.push(j);
+    keep.push(n - 1);
+    const t = new Float64Array(keep.length);
+    const states = new Float64Array(6 * keep.length);
+    const mass = new Float64Array(keep.length);
+    keep.forEach((j, i) => {
+      t[i] = span.t[j];
+      states.set(span.states.subarray(6 * j, 6 * j + 6), 6 * i);
+      mass[i] = span.mass[j];
+    });
+    return { center: span.center, t, states, mass };
+  });
+  return { step: eph.step, spans };
 }
 
 /** The patched-conic ephemeris sampled span by span, each at its own step (one span per run of segments, as sampleEphemeris makes them). */

@@ -13,7 +13,8 @@
  *   1h); samples come from each segment's exact conic (core/conic/ephemerisSampler.ts). Without
  *   it, each span gets its own step (app/cli/exportStep.ts): its shortest osculating period / 64,
  *   or for a hyperbolic span its duration / 64, so every orbit has at least 64 points; the n-body
- *   model flies one grid, at the smallest of those steps.
+ *   model flies one grid at the smallest of those steps and each span keeps the samples its own
+ *   step needs.
  * - `--oem FILE`: CCSDS OEM (KVN), one metadata block per central-body span (core/io/oem.ts);
  *   `--csv FILE`: ephemeris CSV; `--burns FILE`: burn-table CSV; `--report FILE`: Markdown
  *   budget report. Every file is saved atomically, the previous version kept as FILE.bak,
@@ -44,7 +45,7 @@ import { formatCompactDate } from '../../../core/system/index.ts';
 import { checkOutputs, loadPlanFile, STDOUT, writeOutput, type InputFile, type OutputTarget } from '../../node/files.ts';
 import { EXIT_NO, EXIT_OK, guard, num, printJson, printText, printWarnings, termSafe } from '../output.ts';
 import { FLY_FLAGS } from '../flags.ts';
-import { defaultSpanSteps, POINTS_PER_ORBIT, sampleBySpan, type SpanStep } from '../exportStep.ts';
+import { defaultSpanSteps, POINTS_PER_ORBIT, sampleBySpan, thinToSpanSteps, type SpanStep } from '../exportStep.ts';
 import { modelWords, parseModel, readInModel, targetText } from '../truthText.ts';
 
 /** The models `--model` takes. */
@@ -124,7 +125,9 @@ export function addFlyCommand(program: Command): void {
         if (o.oem || o.csv) {
           const spanSteps = defaultSpanSteps(result);
           const eph = nbody?.states
-            ? nbodyStatesToEphemeris(nbody.states, result, nbodyStep as number)
+            ? step !== null
+              ? nbodyStatesToEphemeris(nbody.states, result, step)
+              : thinToSpanSteps(nbodyStatesToEphemeris(nbody.states, result, nbodyStep as number), nbodyStep as number, spanSteps)
             : step !== null
               ? sampleEphemeris(system, result, { step })
               : sampleBySpan(system, result, spanSteps);
@@ -133,7 +136,7 @@ export function addFlyCommand(program: Command): void {
               objectName: plan.vehicle.name,
               creationDate: new Date().toISOString().slice(0, 19),
               comments: [
-                `Plan: ${plan.name}; ${nbody ? 'restricted n-body model (RK45)' : `patched-conic model${model === 'finite' ? ', every burn finite' : ''}`}; ${nbody ? `step ${num(nbodyStep as number, 1)} s` : stepWords(step, spanSteps)}.`,
+                `Plan: ${plan.name}; ${nbody ? 'restricted n-body model (RK45)' : `patched-conic model${model === 'finite' ? ', every burn finite' : ''}`}; ${nbody && step !== null ? `step ${step} s` : stepWords(step, spanSteps)}.`,
               ],
               spanComments: burnComments(result, plan, eph.spans),
             });

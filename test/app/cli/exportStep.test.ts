@@ -6,7 +6,7 @@ import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { defaultSpanSteps, POINTS_PER_ORBIT } from '../../../app/cli/exportStep.ts';
+import { defaultSpanSteps, POINTS_PER_ORBIT, thinToSpanSteps } from '../../../app/cli/exportStep.ts';
 import { evaluate } from '../../../core/conic/evaluate.ts';
 import { parseCsv } from '../../../core/io/csv.ts';
 import { parseOem } from '../../../core/io/oem.ts';
@@ -90,5 +90,31 @@ describe('burns named as on the cards', () => {
     const comments = parseOem(readFileSync(oem, 'utf8')).segments.flatMap((s) => s.comments.filter((c) => c.startsWith('burn ')));
     expect(comments.length).toBe(rows.length - 1);
     rows.slice(1).forEach((r, k) => expect(comments[k].startsWith(`burn ${r[0]} ${r[1]} at t = `)).toBe(true));
+  });
+});
+
+describe('thinToSpanSteps (the n-body grid thinned span by span)', () => {
+  it("each span keeps every k-th sample, k = its step / the grid's, and its ends", () => {
+    const grid = 10;
+    const span = (center: number, t0: number, n: number) => ({
+      center,
+      t: Float64Array.from({ length: n }, (_, j) => t0 + j * grid),
+      states: Float64Array.from({ length: 6 * n }, (_, j) => j),
+      mass: Float64Array.from({ length: n }, (_, j) => 1000 - j),
+    });
+    const eph = { step: grid, spans: [span(1, 0, 1001), span(0, 10000, 95)] };
+    const steps = [
+      { a: 0, b: 1, center: 1, t0: 0, t1: 10000, step: 100, period: 6400 },
+      { a: 1, b: 2, center: 0, t0: 10000, t1: 10940, step: grid, period: null },
+    ];
+    const out = thinToSpanSteps(eph, grid, steps);
+    const [a, b] = out.spans;
+    expect(a.t.length).toBe(101); // 0, 100, ..., 10000
+    for (let i = 1; i < a.t.length; i++) expect(a.t[i] - a.t[i - 1]).toBeLessThanOrEqual(100);
+    expect(a.t[a.t.length - 1]).toBe(10000);
+    // a kept sample keeps its own state and mass
+    expect(Array.from(a.states.subarray(6, 12))).toEqual([60, 61, 62, 63, 64, 65]);
+    expect(a.mass[1]).toBe(990);
+    expect(b.t.length).toBe(95); // the span at the grid's step keeps everything
   });
 });
