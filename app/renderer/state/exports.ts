@@ -42,7 +42,7 @@ export function exportFile(
     case 'csv':
       return { name: `${base}.ephemeris.csv`, text: ephemerisCsv(system, sampleEphemeris(system, result, { step: exportStep(result) })) };
     case 'burns-csv':
-      return { name: `${base}.burns.csv`, text: burnTableCsv(result.budget) };
+      return { name: `${base}.burns.csv`, text: burnTableCsv(result.budget, plan) };
     case 'report':
       return { name: `${base}.report.md`, text: budgetReport(system, plan, result) };
   }
