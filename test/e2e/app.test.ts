@@ -296,7 +296,9 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
     const chooser = await choosing;
     await chooser.setFiles(new URL('../../assets/plans/tessel-to-skerry.plan.json', import.meta.url).pathname);
     // The browser cannot read ../systems/ilmar.system.json beside the plan: it says so and asks.
-    await expect.poll(() => page.textContent('[data-testid=ask]')).toMatch(/names the system file "\.\.\/systems\/ilmar\.system\.json".*this browser cannot read files beside/);
+    await expect
+      .poll(() => page.textContent('[data-testid=ask]'))
+      .toMatch(/names the system file "\.\.\/systems\/ilmar\.system\.json".*this browser cannot read files beside/);
     await page.click('[data-testid=ask] [data-choice=bundled]');
     await expect.poll(() => js<string>('window.waymarkDebug.session.doc.get().plan.target.body')).toBe('skerry');
     const inMemory = await plan();

@@ -206,7 +206,7 @@ export class Session {
       }
     }
     if (!initial) {
-      const [name, text] = Object.entries(deps.bundledSystems)[0] ?? [];
+      const text = Object.values(deps.bundledSystems)[0];
       if (!text) throw new Error('no star system is bundled with the app');
       const system = parseSystemFile(text).system;
       initial = { plan: blankPlan(system), system, systemRef: { kind: 'embedded', system }, file: null };

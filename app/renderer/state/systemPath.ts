@@ -19,7 +19,13 @@ function normalize(parts: string[]): string[] {
 /** The root of an absolute path (`/`, `C:`, `\\server\share`), or null when it is relative. */
 function rootOf(path: string): string | null {
   if (/^[A-Za-z]:[\\/]/.test(path)) return path.slice(0, 2).toUpperCase();
-  if (/^[\\/]{2}[^\\/]+[\\/][^\\/]+/.test(path)) return path.split(/[\\/]+/).slice(1, 3).join('/').toLowerCase().replace(/^/, '//');
+  if (/^[\\/]{2}[^\\/]+[\\/][^\\/]+/.test(path))
+    return path
+      .split(/[\\/]+/)
+      .slice(1, 3)
+      .join('/')
+      .toLowerCase()
+      .replace(/^/, '//');
   if (/^[\\/]/.test(path)) return '/';
   return null;
 }

@@ -115,7 +115,9 @@ describe('session: the open document and its files', () => {
     // Asked first, in words, with no picker behind the user's back; nothing bundled by that name to offer.
     expect(host.openSystem).not.toHaveBeenCalled();
     const q = ask.mock.calls[0][0];
-    expect(q.message).toMatch(/^o\.plan\.json names the system file "\.\.\/systems\/elsewhere\.system\.json" \(relative to the plan's folder\), and this browser cannot read files beside o\.plan\.json/);
+    expect(q.message).toMatch(
+      /^o\.plan\.json names the system file "\.\.\/systems\/elsewhere\.system\.json" \(relative to the plan's folder\), and this browser cannot read files beside o\.plan\.json/,
+    );
     expect(q.message).toMatch(/Choose the system file 'elsewhere\.system\.json' this plan was made with\./);
     expect(q.choices.map((c) => c.id)).toEqual(['choose', 'cancel']);
     const n = s.notices.get().at(-1)!;
@@ -387,17 +389,23 @@ describe('session: the system a plan names, and plans that travel', () => {
     const host = desktopHost();
     const { s } = await session(host, ask);
     const before = s.doc.get();
-    vi.mocked(host.readSystemBeside).mockRejectedValue(new Error('relativePath names no system file this plan may read (it must be a Waymark system file in the plan\'s folder)'));
+    vi.mocked(host.readSystemBeside).mockRejectedValue(
+      new Error("relativePath names no system file this plan may read (it must be a Waymark system file in the plan's folder)"),
+    );
     expect(await s.openText(demoText, { name: 'trip.plan.json', path: '/plans/trip.plan.json', handle: null })).toBe(false);
     const q = ask.mock.calls[0][0];
-    expect(q.message).toMatch(/trip\.plan\.json names the system file "\.\.\/systems\/ilmar\.system\.json" \(relative to the plan's folder\), and it could not be read beside trip\.plan\.json: relativePath names no system file this plan may read/);
+    expect(q.message).toMatch(
+      /trip\.plan\.json names the system file "\.\.\/systems\/ilmar\.system\.json" \(relative to the plan's folder\), and it could not be read beside trip\.plan\.json: relativePath names no system file this plan may read/,
+    );
     expect(q.message).toMatch(/Choose the system file 'ilmar\.system\.json' this plan was made with/);
     // The bundled copy of that name is offered as a choice of its own, not taken silently.
     expect(q.choices.map((c) => c.id)).toEqual(['choose', 'bundled', 'cancel']);
     expect(host.openSystem).not.toHaveBeenCalled();
     const n = s.notices.get().at(-1)!;
     expect(n.title).toBe('trip.plan.json was not opened');
-    expect(n.issues![0].rule).toMatch(/which was not loaded: it could not be read beside trip\.plan\.json: relativePath names no system file .*; the question was cancelled/);
+    expect(n.issues![0].rule).toMatch(
+      /which was not loaded: it could not be read beside trip\.plan\.json: relativePath names no system file .*; the question was cancelled/,
+    );
     expect(s.doc.get().plan).toBe(before.plan);
     expect(s.doc.get().revision).toBe(before.revision);
   });
