@@ -169,7 +169,7 @@ describe('- is standard output for every export', () => {
     expect(csv.stdout).toBe(readFileSync(join(dir, 'same.csv'), 'utf8')); // exactly what the file gets
     expect(parseCsv(csv.stdout)[0][0]).toBe('t_s');
     expect(parseOem(oem.stdout).segments.length).toBeGreaterThan(0);
-    expect(parseCsv(burns.stdout)[0].slice(0, 2)).toEqual(['id', 'name']);
+    expect(parseCsv(burns.stdout)[0].slice(0, 2)).toEqual(['event', 'name']);
     expect(report.stdout).toMatch(/^# Δv budget: Long Patience to Ochre\n/);
     expect(existsSync(join(ROOT, '-'))).toBe(false);
     expect(existsSync(join(dir, '-'))).toBe(false);
