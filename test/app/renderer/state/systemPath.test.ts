@@ -8,12 +8,12 @@ import { describe, expect, it } from 'vitest';
 import { rebaseSystemPath, relativeFrom, resolveFrom } from '../../../../app/renderer/state/systemPath.ts';
 
 const POSIX: [string, string][] = [
-  ['/home/u/plans/trip.plan.json', '/home/u/systems/ilmar.system.json'],
-  ['/home/u/plans/trip.plan.json', '/home/u/plans/ilmar.system.json'],
-  ['/home/u/plans/trip.plan.json', '/home/u/plans/sys/deep/x.system.json'],
+  ['/designs/plans/trip.plan.json', '/designs/systems/ilmar.system.json'],
+  ['/designs/plans/trip.plan.json', '/designs/plans/ilmar.system.json'],
+  ['/designs/plans/trip.plan.json', '/designs/plans/sys/deep/x.system.json'],
   ['/a/b/c/d/p.plan.json', '/x.system.json'],
   ['/p.plan.json', '/a/b/x.system.json'],
-  ['/home/u/plans/trip.plan.json', '/home/u/plans2/x.system.json'],
+  ['/designs/plans/trip.plan.json', '/designs/plans2/x.system.json'],
 ];
 const WINDOWS: [string, string][] = [
   ['C:\\Users\\u\\plans\\trip.plan.json', 'C:\\Users\\u\\systems\\ilmar.system.json'],
@@ -40,10 +40,10 @@ describe('system paths relative to the plan file', () => {
   });
 
   it.each([
-    ['/home/u/plans/trip.plan.json', '/home/u/elsewhere/deep/trip.plan.json', '../systems/ilmar.system.json'],
-    ['/home/u/plans/trip.plan.json', '/home/u/plans/copy.plan.json', '../systems/ilmar.system.json'],
-    ['/home/u/plans/trip.plan.json', '/tmp/trip.plan.json', './ilmar.system.json'],
-    ['/home/u/plans/trip.plan.json', '/home/u/trip.plan.json', 'sys/../ilmar.system.json'],
+    ['/designs/plans/trip.plan.json', '/designs/elsewhere/deep/trip.plan.json', '../systems/ilmar.system.json'],
+    ['/designs/plans/trip.plan.json', '/designs/plans/copy.plan.json', '../systems/ilmar.system.json'],
+    ['/designs/plans/trip.plan.json', '/archive/trip.plan.json', './ilmar.system.json'],
+    ['/designs/plans/trip.plan.json', '/designs/trip.plan.json', 'sys/../ilmar.system.json'],
   ])('a plan saved from %s to %s names %s from its new folder', (from, to, rel) => {
     const target = posix.resolve(posix.dirname(from), rel);
     const moved = rebaseSystemPath(from, to, rel);
