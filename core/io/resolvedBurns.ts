@@ -25,26 +25,19 @@
  */
 import { ValidationError, InputError, SolverError, type ValidationIssue } from '../math/index.ts';
 import type { StarSystem } from '../system/index.ts';
-import type { Budget, BurnFrame, Plan, TruthModel } from '../plan/index.ts';
+import type { Budget, BudgetRow, Plan, TruthModel } from '../plan/index.ts';
 import { planTruthModel } from '../plan/index.ts';
 import { evaluate } from '../conic/index.ts';
 import { freezeSchedule, isSchedule, planForModel, scheduleBudget } from '../target/index.ts';
 
-/** One burn as solved (SI): the in-memory form of the file's `resolved` block. */
-export interface ResolvedBurn {
-  model: TruthModel;
-  /** Frame of dvFrame: the burn's own, 'inertial' for the n-body schedule. */
-  frame: BurnFrame;
-  dvFrame: [number, number, number];
-  dvInertial: [number, number, number];
-  /** |Δv|, m/s. */
-  dv: number;
-  tStart: number;
-  tEnd: number;
-  duration: number;
-  propellantUsed: number;
-  massAfter: number;
-}
+/**
+ * One burn as solved (SI): the in-memory form of the file's `resolved` block — the budget row's
+ * figures (frame of dvFrame: the burn's own, 'inertial' for the n-body schedule) and the model.
+ */
+export type ResolvedBurn = { model: TruthModel } & Pick<
+  BudgetRow,
+  'frame' | 'dvFrame' | 'dvInertial' | 'dv' | 'tStart' | 'tEnd' | 'duration' | 'propellantUsed' | 'massAfter'
+>;
 
 /** Resolved burns by plan event id. */
 export type ResolvedBurns = ReadonlyMap<string, ResolvedBurn>;
