@@ -242,7 +242,8 @@ export function flyGame(ctx: RunContext, burns: GameBurn[], start: GameState, tE
   onCheck(flight.t);
   let ok = true;
   for (const r of regions) {
-    if (!(ok = flyTo(r.t0))) break;
+    ok = flyTo(r.t0);
+    if (!ok) break;
     const ta = flight.t;
     const tb = r.t1;
     if (!(tb > ta)) continue;

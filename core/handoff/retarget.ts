@@ -27,17 +27,7 @@ import { InputError, SolverError, WaymarkError } from '../math/index.ts';
 import { propagateKepler } from '../orbit/index.ts';
 import { bodyState, type StarSystem } from '../system/index.ts';
 import { inertialToBurn, type Plan } from '../plan/index.ts';
-import {
-  DEFAULT_TARGET_TOLERANCES,
-  measure,
-  planLegs,
-  solveTargets,
-  type Control,
-  type FlightGoal,
-  type Leg,
-  type ModelFlight,
-  type TargetTolerances,
-} from '../target/index.ts';
+import { measure, planLegs, solveTargets, type Control, type FlightGoal, type Leg, type ModelFlight, type TargetTolerances } from '../target/index.ts';
 import { ReferenceTrack, flyReference, normalizePhysics, prepareGameStep, type GameBurn, type GamePhysics, type GamePhysicsInput } from '../gamestep/index.ts';
 import { flyGame, gridTime, referenceSettings, stateNear, stepIndex, type GameRun, type GameState, type RunContext, type RunRegion } from './gameRun.ts';
 import type { GameSchedule, ScheduledBurn } from './schedule.ts';
