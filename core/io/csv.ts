@@ -17,7 +17,8 @@ import type { SampledEphemeris } from '../conic/index.ts';
 import type { Budget } from '../plan/index.ts';
 import type { StarSystem } from '../system/index.ts';
 
-const EOL = '\r\n';
+/** Line end of every CSV written (RFC 4180: CRLF). */
+export const CSV_EOL = '\r\n';
 
 export const EPHEMERIS_CSV_COLUMNS = ['t_s', 'x_m', 'y_m', 'z_m', 'vx_mps', 'vy_mps', 'vz_mps', 'mass_kg', 'central'] as const;
 
@@ -61,7 +62,8 @@ export function csvField(v: string | number | null): string {
   return /[",\r\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : v;
 }
 
-function row(fields: (string | number | null)[]): string {
+/** One CSV record: the fields, each as `csvField` writes it, joined with commas. */
+export function csvRow(fields: readonly (string | number | null)[]): string {
   return fields.map(csvField).join(',');
 }
 
@@ -70,26 +72,26 @@ function row(fields: (string | number | null)[]): string {
  * of the body the state is relative to. Span boundaries appear twice (once per centre).
  */
 export function ephemerisCsv(system: StarSystem, eph: SampledEphemeris): string {
-  const out: string[] = [row([...EPHEMERIS_CSV_COLUMNS])];
+  const out: string[] = [csvRow([...EPHEMERIS_CSV_COLUMNS])];
   for (const span of eph.spans) {
     const id = system.bodies[span.center]?.id;
     if (id === undefined) throw new InputError('ephemeris.center', 'must be a body index of the system', span.center);
     const s = span.states;
     for (let j = 0; j < span.t.length; j++) {
       const o = 6 * j;
-      out.push(row([span.t[j], s[o], s[o + 1], s[o + 2], s[o + 3], s[o + 4], s[o + 5], span.mass[j], id]));
+      out.push(csvRow([span.t[j], s[o], s[o + 1], s[o + 2], s[o + 3], s[o + 4], s[o + 5], span.mass[j], id]));
     }
   }
-  return out.join(EOL) + EOL;
+  return out.join(CSV_EOL) + CSV_EOL;
 }
 
 /** Burn-table CSV: one row per budget row; stages and flag codes joined with ";". */
 export function burnTableCsv(budget: Budget, plan?: { readonly events: readonly { readonly id: string }[] }): string {
-  const out: string[] = [row([...BURN_CSV_COLUMNS])];
+  const out: string[] = [csvRow([...BURN_CSV_COLUMNS])];
   for (const r of budget.rows) {
     const k = plan ? plan.events.findIndex((e) => e.id === r.planEventId) : -1;
     out.push(
-      row([
+      csvRow([
         k >= 0 ? k + 1 : null,
         r.name,
         r.planEventId,
@@ -116,7 +118,7 @@ export function burnTableCsv(budget: Budget, plan?: { readonly events: readonly 
       ]),
     );
   }
-  return out.join(EOL) + EOL;
+  return out.join(CSV_EOL) + CSV_EOL;
 }
 
 /** Reads RFC 4180 CSV text into rows of fields (accepts LF or CRLF line ends). */

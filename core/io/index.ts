@@ -1,5 +1,5 @@
 /**
- * Front door of core/io. File formats at the edge: units, system and plan files (schema-checked, versioned, migrated), CCSDS OEM, CSV, reports.
+ * Front door of core/io. File formats at the edge: units, system and plan files (schema-checked, versioned, migrated), CCSDS OEM, CSV, reports, the burn schedule for a game (JSON and CSV).
  * Other folders of core/ and the app import from here only.
  */
 export { burnTableCsv, ephemerisCsv } from './csv.ts';
@@ -26,6 +26,19 @@ export {
 } from './defaults.ts';
 export type { DispersionDefaults, GameStepDefaults, IntegratorId, PorkchopRanges } from './defaults.ts';
 export { inlineLocalRefs } from './fileValidator.ts';
+export { GAME_AXES, GAME_AXES_NAMES } from './gameAxes.ts';
+export type { GameAxes, GameAxesName } from './gameAxes.ts';
+export {
+  GAME_SCHEDULE_DEFAULTS,
+  GAME_SCHEDULE_FORMAT,
+  GAME_SCHEDULE_VERSION,
+  gameScheduleCsv,
+  gameScheduleCsvColumns,
+  gameScheduleJson,
+  gameScheduleOptions,
+  readGameScheduleJson,
+} from './gameSchedule.ts';
+export type { GameScheduleDocument, GameScheduleOptions } from './gameSchedule.ts';
 export { issueInWords, issuesInWords } from './issueWords.ts';
 export type { IssueWords } from './issueWords.ts';
 export { writeOem } from './oem.ts';

@@ -8,12 +8,14 @@
 import { fileURLToPath } from 'node:url';
 import type * as z from 'zod';
 import { fileJsonSchemaText } from '../../../core/io/fileJsonSchema.ts';
+import { gameScheduleShape } from '../../../core/io/gameScheduleShape.ts';
 import { planFileShape } from '../../../core/io/planFileShape.ts';
 import { systemFileShape } from '../../../core/system/systemFileShape.ts';
 
 export const SCHEMA_DIR = new URL('../../../assets/schema/', import.meta.url);
 
 export const FILE_SCHEMAS: { file: string; shape: z.ZodType }[] = [
+  { file: 'game-schedule.schema.json', shape: gameScheduleShape },
   { file: 'plan.schema.json', shape: planFileShape },
   { file: 'system.schema.json', shape: systemFileShape },
 ];
