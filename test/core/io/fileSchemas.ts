@@ -10,6 +10,7 @@ import type * as z from 'zod';
 import { fileJsonSchemaText } from '../../../core/io/fileJsonSchema.ts';
 import { gameScheduleShape } from '../../../core/io/gameScheduleShape.ts';
 import { planFileShape } from '../../../core/io/planFileShape.ts';
+import { runtimeFileShape } from '../../../core/io/runtimeFileShape.ts';
 import { systemFileShape } from '../../../core/system/systemFileShape.ts';
 
 export const SCHEMA_DIR = new URL('../../../assets/schema/', import.meta.url);
@@ -17,6 +18,7 @@ export const SCHEMA_DIR = new URL('../../../assets/schema/', import.meta.url);
 export const FILE_SCHEMAS: { file: string; shape: z.ZodType }[] = [
   { file: 'game-schedule.schema.json', shape: gameScheduleShape },
   { file: 'plan.schema.json', shape: planFileShape },
+  { file: 'runtime-ephemeris.schema.json', shape: runtimeFileShape },
   { file: 'system.schema.json', shape: systemFileShape },
 ];
 
