@@ -8,3 +8,5 @@ export { DEFAULT_GAME_FLIGHTS, GAME_TOLERANCES, LEG_CLEARANCE_STEPS, RECOMMEND_H
 export type { ErrorCurve, Recommendation, RetargetGoal, RetargetLeg, RetargetOptions, RetargetProgress, RetargetResult } from './retarget.ts';
 export { DEFAULT_COARSE_STEPS, DEFAULT_RUN_MAX_STEPS, ORDER_SLACK, REGION_MARGIN, flyGame } from './gameRun.ts';
 export type { GameRun, GameRunOptions, GameState, RunContext, RunRegion } from './gameRun.ts';
+export { FINE_WINDOW, gameRuntimeData } from './runtimeData.ts';
+export type { GameRuntimeOptions } from './runtimeData.ts';

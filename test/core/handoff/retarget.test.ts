@@ -191,11 +191,21 @@ describe('a step too coarse for the demo: semi-implicit Euler at 30 s', () => {
     expect(rec?.reason).toBe('step');
     expect(rec?.dt).toBeLessThan(30);
     expect(coarse.message).toContain(String(rec?.dt));
-    const fine = retargetForGame(system, demoPlan, { physics: { integrator: 'symplectic-euler', dt: rec?.dt ?? 0 }, verify: 'every-step', compare: false, recommend: false });
+    const fine = retargetForGame(system, demoPlan, {
+      physics: { integrator: 'symplectic-euler', dt: rec?.dt ?? 0 },
+      verify: 'every-step',
+      compare: false,
+      recommend: false,
+    });
     expect(fine.status, fine.message).toBe('met');
     expect(plainMisses(fine).misses).toEqual([]);
     // the step one rung coarser than the recommendation does not meet the goals (the recommendation is the largest on the ladder)
-    const coarser = retargetForGame(system, demoPlan, { physics: { integrator: 'symplectic-euler', dt: 2 * (rec?.dt ?? 0) }, verify: 'every-step', compare: false, recommend: false });
+    const coarser = retargetForGame(system, demoPlan, {
+      physics: { integrator: 'symplectic-euler', dt: 2 * (rec?.dt ?? 0) },
+      verify: 'every-step',
+      compare: false,
+      recommend: false,
+    });
     expect(coarser.status).toBe('not-met');
   });
 });
