@@ -11,11 +11,10 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { retargetForGame, type GameSchedule, type RetargetResult } from '../../../core/handoff/index.ts';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
-import { bodyState, bodyStateRelativeToParent, type StarSystem } from '../../../core/system/index.ts';
+import { bodyStateRelativeToParent, type StarSystem } from '../../../core/system/index.ts';
 import { demoPlan } from '../../fixtures/demoPlan.ts';
 
 const { system } = parseSystemFile(readFileSync(new URL('../../../assets/systems/ilmar.system.json', import.meta.url), 'utf8'));
-const DEG = Math.PI / 180;
 
 interface PlainFlight {
   /** Central body and state relative to it at the end. */
@@ -145,7 +144,6 @@ function plainMisses(result: RetargetResult): { misses: string[]; periapsisAltit
 }
 
 describe('retargeting the demo for semi-implicit Euler at 1/60 s, float64', () => {
-  const ochre = system.bodies.findIndex((b) => b.name === 'Ochre');
   const result = retargetForGame(system, demoPlan, { physics: { integrator: 'symplectic-euler', dt: 1 / 60 }, verify: 'extrapolated', compare: true });
 
   it('meets every goal in its own verification, where the plan’s own burns do not', () => {
