@@ -11,8 +11,11 @@
  * series of a near-circular orbit reaches about a metre at 10¹¹ m (the first dropped term,
  * 2 J₁₃(π/2)·a by the Jacobi–Anger expansion, from memory), and ends at the fewest
  * equal pieces that hold the tolerance.
- * Relative to the parent, a moon needs only its own orbit's accuracy (2.6·10⁸ m for Quill, not the
- * 10¹¹ m of its planet's), so it costs far fewer coefficients than a star-centred fit.
+ * Relative to the parent, a moon's track carries only its own orbit (Quill's 2.6·10⁸ m, not the
+ * 10¹¹ m of Tessel's): its roundoff floor is 400 times lower, and a game adds the planet's track
+ * only when it needs star-centred positions. It does not save pieces: the pieces are set by the
+ * fastest motion in the series, the moon's own orbit either way (measured for Quill over the demo
+ * span, degree 12: 31 pieces both ways at 1 m, 54 against 57 at 1 mm).
  */
 import { InputError, requireFinite, requirePositive } from '../math/index.ts';
 import { type StarSystem, bodyStateRelativeToParent } from '../system/index.ts';

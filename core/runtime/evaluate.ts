@@ -27,7 +27,7 @@ function arcAt(track: RuntimeTrack, t: number): RuntimeArc {
   const arcs = track.arcs;
   const last = arcs.length - 1;
   if (!(t >= arcs[0].t0 && t <= arcs[last].t1)) {
-    throw new InputError('t', `must lie in track '${track.name}''s span [${arcs[0].t0}, ${arcs[last].t1}] s`, t);
+    throw new InputError('t', `must lie in the span of track '${track.name}' [${arcs[0].t0}, ${arcs[last].t1}] s`, t);
   }
   let lo = 0;
   let hi = last;
