@@ -49,6 +49,10 @@ export const COMMAND_EXAMPLES: Readonly<Record<string, readonly string[]>> = {
   ],
   windows: ['waymark windows --system assets/systems/ilmar.system.json --from Tessel --to ochre --depart 0d..400d --grid 100x100'],
   gamestep: ['waymark gamestep assets/plans/tessel-to-ochre.plan.json --dt 1/60 --float32'],
+  handoff: [
+    'waymark handoff assets/plans/tessel-to-ochre.plan.json --integrator symplectic-euler --dt 1/60 --schedule burns.schedule.json',
+    'waymark handoff assets/plans/tessel-to-ochre.plan.json --verify extrapolated --csv burns.schedule.csv --length km --time steps --axes y-up-left-handed',
+  ],
   stability: ['waymark stability assets/systems/ilmar.system.json --years 10'],
   correct: ['waymark correct assets/plans/tessel-to-ochre.plan.json -o corrected.plan.json'],
   target: [

@@ -178,3 +178,15 @@ export const TARGET_FLAGS: FlagNames = {
   eventId: '--vary',
   goals: '--goal',
 };
+
+/** `handoff`: the game physics (as `gamestep`), retargeting's tolerances and the schedule's units (core/handoff, core/io gameSchedule.ts). */
+export const HANDOFF_FLAGS: FlagNames = {
+  ...GAMESTEP_FLAGS,
+  'tolerance.altitude': '--tolerance-altitude',
+  'tolerance.i': '--tolerance-inclination',
+  'tolerance.time': '--tolerance-time',
+  verify: '--verify',
+  'options.length': '--length',
+  'options.time': '--time',
+  'options.axes': '--axes',
+};

@@ -11,6 +11,7 @@ import { Command, CommanderError } from 'commander';
 import { addCalcCommands } from './commands/calc.ts';
 import { addPlanCommands } from './commands/check.ts';
 import { addGamestepCommand } from './commands/gamestep.ts';
+import { addHandoffCommand } from './commands/handoff.ts';
 import { addStabilityCommand } from './commands/stability.ts';
 import { addCorrectCommand } from './commands/correct.ts';
 import { addDisperseCommand } from './commands/disperse.ts';
@@ -34,6 +35,7 @@ export function buildProgram(): Command {
   addPlanCommands(program);
   addWindowsCommand(program);
   addGamestepCommand(program);
+  addHandoffCommand(program);
   addStabilityCommand(program);
   addCorrectCommand(program);
   addTargetCommand(program);

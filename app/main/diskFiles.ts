@@ -24,7 +24,7 @@ export function createDiskFiles(): DiskFiles {
     // Strict UTF-8: a file that is not is refused with its name and the offset of its first bad byte.
     readText: async (path) => decodeUtf8(await readRegularFile(path, { maxBytes: MAX_FILE_CHARS }), basename(path)),
     realpath: (path) => fsp.realpath(path),
-    writeAtomic: (path: string, text: string, kind?: OutputKind) =>
+    writeAtomic: (path: string, text: string | Uint8Array, kind?: OutputKind) =>
       kind === undefined
         ? atomicWriteFile(path, text)
         : writeOutput({ flag: kind === 'plan' ? 'Save' : 'Export', path, kind }, text, { unidentified: 'replace' }),

@@ -26,7 +26,16 @@
  *   as a backup.
  */
 import { basename, dirname, isAbsolute, relative, resolve, sep } from 'node:path';
-import { IPC, type DocumentState, type ExportKind, type OpenedFile, type RecentEntry, type RecoverySnapshot, type SavedFile } from '../preload/api.ts';
+import {
+  BINARY_EXPORTS,
+  IPC,
+  type DocumentState,
+  type ExportKind,
+  type OpenedFile,
+  type RecentEntry,
+  type RecoverySnapshot,
+  type SavedFile,
+} from '../preload/api.ts';
 import { headerProblem, type FileKind } from '../preload/fileHeader.ts';
 import type { OutputKind } from '../node/files.ts';
 import type { RecentStore } from './recentFiles.ts';
@@ -34,6 +43,7 @@ import {
   ArgumentError,
   requireArguments,
   requireDocumentState,
+  requireBytes,
   requireExportKind,
   requireFileName,
   requireFilePath,
@@ -58,8 +68,21 @@ export const EXPORT_FILTERS: Record<ExportKind, FileFilter> = {
   csv: { name: 'CSV ephemeris', extensions: ['csv'] },
   'burns-csv': { name: 'CSV burn table', extensions: ['csv'] },
   report: { name: 'Markdown report', extensions: ['md'] },
+  'schedule-json': { name: 'Burn schedule for a game (JSON)', extensions: ['json'] },
+  'schedule-csv': { name: 'Burn schedule for a game (CSV)', extensions: ['csv'] },
+  'runtime-json': { name: 'Runtime ephemeris (JSON)', extensions: ['json'] },
+  'runtime-bin': { name: 'Runtime ephemeris (binary)', extensions: ['bin'] },
 };
-const EXPORT_EXTENSIONS: Record<ExportKind, string[]> = { oem: ['.oem', '.txt'], csv: ['.csv'], 'burns-csv': ['.csv'], report: ['.md'] };
+const EXPORT_EXTENSIONS: Record<ExportKind, string[]> = {
+  oem: ['.oem', '.txt'],
+  csv: ['.csv'],
+  'burns-csv': ['.csv'],
+  report: ['.md'],
+  'schedule-json': ['.json'],
+  'schedule-csv': ['.csv'],
+  'runtime-json': ['.json'],
+  'runtime-bin': ['.bin'],
+};
 
 export interface HandlerDeps {
   dialogs: {
@@ -73,7 +96,7 @@ export interface HandlerDeps {
     /** The path with every symbolic link resolved; rejects when nothing is there. */
     realpath(path: string): Promise<string>;
     /** Saves atomically with a backup; with a `kind`, through the output guard of app/node/files.ts first. */
-    writeAtomic(path: string, text: string, kind?: OutputKind): Promise<void>;
+    writeAtomic(path: string, text: string | Uint8Array, kind?: OutputKind): Promise<void>;
   };
   recent: RecentStore;
   recovery: {
@@ -251,16 +274,18 @@ export function createIpcHandlers(deps: HandlerDeps): Record<string, Handler> {
     ),
 
     [IPC.exportFile]: guard(
-      async (kind: ExportKind, suggestedName: string, text: string): Promise<SavedFile | null> => {
+      async (kind: ExportKind, suggestedName: string, text: string | Uint8Array): Promise<SavedFile | null> => {
         const path = await deps.dialogs.showSave(suggestedName, [EXPORT_FILTERS[kind]]);
         if (path === null) return null;
         requireFilePath('path', path, EXPORT_EXTENSIONS[kind]);
         await deps.files.writeAtomic(path, text, kind);
         return { path, name: basename(path) };
       },
-      (args): [ExportKind, string, string] => {
+      (args): [ExportKind, string, string | Uint8Array] => {
         requireArguments(args, ['kind', 'suggestedName', 'text']);
-        return [requireExportKind('kind', args[0]), requireFileName('suggestedName', args[1]), requireText('text', args[2])];
+        const kind = requireExportKind('kind', args[0]);
+        const data = BINARY_EXPORTS.includes(kind) ? requireBytes('text', args[2]) : requireText('text', args[2]);
+        return [kind, requireFileName('suggestedName', args[1]), data];
       },
     ),
 

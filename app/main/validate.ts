@@ -55,7 +55,14 @@ export function requireFileName(name: string, v: unknown): string {
   return s;
 }
 
-export const EXPORT_KINDS: readonly ExportKind[] = ['oem', 'csv', 'burns-csv', 'report'];
+export const EXPORT_KINDS: readonly ExportKind[] = ['oem', 'csv', 'burns-csv', 'report', 'schedule-json', 'schedule-csv', 'runtime-json', 'runtime-bin'];
+
+/** Bytes (a Uint8Array) within the size limit. */
+export function requireBytes(name: string, v: unknown, max = MAX_FILE_CHARS): Uint8Array {
+  if (!(v instanceof Uint8Array)) throw new ArgumentError(name, 'must be bytes (a Uint8Array)');
+  if (v.byteLength > max) throw new ArgumentError(name, `must be at most ${max} bytes`);
+  return v;
+}
 
 export function requireExportKind(name: string, v: unknown): ExportKind {
   if (typeof v !== 'string' || !(EXPORT_KINDS as readonly string[]).includes(v)) {

@@ -464,6 +464,10 @@ export const OUTPUT_KIND_WORDS: Record<OutputKind, string> = {
   csv: 'an ephemeris CSV',
   'burns-csv': 'a burn table (CSV)',
   report: 'a Markdown budget report',
+  'schedule-json': 'a burn schedule for a game (JSON)',
+  'schedule-csv': 'a burn schedule for a game (CSV)',
+  'runtime-json': 'a runtime ephemeris (JSON)',
+  'runtime-bin': 'a runtime ephemeris (binary)',
   'grid-json': 'a porkchop grid (JSON)',
   'grid-csv': 'a porkchop grid (CSV)',
 };
@@ -478,6 +482,10 @@ const EXPORT_SIGNATURES: [ExportKind | 'grid-json' | 'grid-csv', RegExp][] = [
   ['csv', /^t_s,x_m,y_m,z_m,vx_mps,vy_mps,vz_mps,/],
   ['burns-csv', /^(?:event,name,id|id,name),t_s,t_start_s,t_end_s,dv_mps,/],
   ['report', /^# Δv budget: /],
+  ['schedule-json', /^\{\s*"format"\s*:\s*"waymark-game-schedule"/],
+  ['schedule-csv', /^step,elapsed_(?:s|steps),id,name,central,dv_x_/],
+  ['runtime-json', /^\{\s*"format"\s*:\s*"waymark-runtime-ephemeris"/],
+  ['runtime-bin', /^WMRE/],
   ['grid-json', /^\{"request":\{/],
   ['grid-csv', /^i,j,departure_s,(tof_s|arrival_s),/],
 ];
@@ -667,10 +675,19 @@ export function writeStdout(data: string, out: StdoutLike = process.stdout, opti
   });
 }
 
-/** Writes one output: to standard output for `-`, else checked (checkOutput) and saved atomically with a backup. */
-export async function writeOutput(t: OutputTarget, data: string, rules: OutputRules = {}, options: AtomicWriteOptions & StdoutOptions = {}): Promise<void> {
+/** Writes one output: text to standard output for `-` (bytes never go there), else checked (checkOutput) and saved atomically with a backup. */
+export async function writeOutput(
+  t: OutputTarget,
+  data: string | Uint8Array,
+  rules: OutputRules = {},
+  options: AtomicWriteOptions & StdoutOptions = {},
+): Promise<void> {
   const { forTerminal, ...write } = options;
-  if (t.path === STDOUT) return writeStdout(data, process.stdout, { forTerminal });
+  if (t.path === STDOUT) {
+    if (typeof data !== 'string')
+      throw new FileError(STDOUT, 'save', `${OUTPUT_KIND_WORDS[t.kind]} is binary and does not go to standard output; name a file`, null, t.flag);
+    return writeStdout(data, process.stdout, { forTerminal });
+  }
   await checkOutput(t, rules);
   await atomicWriteFile(t.path, data, write);
 }

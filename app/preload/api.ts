@@ -60,8 +60,17 @@ export interface RecoverySnapshot {
   savedAt: number;
 }
 
-/** oem: CCSDS OEM ephemeris; csv: ephemeris CSV; burns-csv: the burn table as CSV; report: Markdown budget report. */
-export type ExportKind = 'oem' | 'csv' | 'burns-csv' | 'report';
+/** The plan's exports (File → Export): oem: CCSDS OEM ephemeris; csv: ephemeris CSV; burns-csv: the burn table as CSV; report: Markdown budget report. */
+export type PlanExportKind = 'oem' | 'csv' | 'burns-csv' | 'report';
+/**
+ * The game hand-off's exports ("Retarget for my game"): the burn schedule for a game as JSON or
+ * CSV (core/io gameSchedule.ts) and the runtime ephemeris as JSON or binary (core/runtime format.ts).
+ */
+export type HandoffExportKind = 'schedule-json' | 'schedule-csv' | 'runtime-json' | 'runtime-bin';
+export type ExportKind = PlanExportKind | HandoffExportKind;
+
+/** The exports whose data is bytes (a Uint8Array), not text. */
+export const BINARY_EXPORTS: readonly ExportKind[] = ['runtime-bin'];
 
 /** What a menu item asks the renderer to do. */
 export type MenuCommand =
@@ -72,7 +81,7 @@ export type MenuCommand =
   | { command: 'open-recent'; path: string }
   | { command: 'save' }
   | { command: 'save-as' }
-  | { command: 'export'; kind: ExportKind }
+  | { command: 'export'; kind: PlanExportKind }
   | { command: 'undo' }
   | { command: 'redo' }
   /** The user chose "Save" when closing with unsaved changes: save, then call closeConfirmed. */
@@ -96,7 +105,8 @@ export interface WaymarkBridge {
   readSystemBeside(planPath: string, relativePath: string): Promise<OpenedFile>;
   save(path: string, text: string): Promise<SavedFile>;
   saveAs(suggestedName: string, text: string): Promise<SavedFile | null>;
-  exportFile(kind: ExportKind, suggestedName: string, text: string): Promise<SavedFile | null>;
+  /** `data` is text, or bytes for the BINARY_EXPORTS. */
+  exportFile(kind: ExportKind, suggestedName: string, data: string | Uint8Array): Promise<SavedFile | null>;
   recentList(): Promise<RecentEntry[]>;
   recoveryRead(): Promise<RecoverySnapshot | null>;
   recoveryWrite(snapshot: RecoverySnapshot): Promise<void>;

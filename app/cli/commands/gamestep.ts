@@ -40,7 +40,8 @@ import { EXIT_NO, EXIT_OK, guard, num, printJson, printText, printWarnings } fro
 import { GAMESTEP_FLAGS } from '../flags.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 
-interface GamestepOptions {
+/** The game-physics options `gamestep` and `handoff` share (addPhysicsOptions declares them). */
+export interface PhysicsOptions {
   integrator: string;
   dt: string;
   float32?: boolean;
@@ -49,7 +50,11 @@ interface GamestepOptions {
   rebaseVelocity: boolean;
   gravity: string;
   burns: string;
-  guidance: string;
+  /** Not declared where the command flies open loop only (`handoff`). */
+  guidance?: string;
+}
+
+interface GamestepOptions extends PhysicsOptions {
   sweep?: boolean;
   tolerance?: string;
   energyTolerance?: string;
@@ -89,8 +94,8 @@ function choice<T extends string>(field: string, text: string, allowed: readonly
   return text as T;
 }
 
-/** The physics the options describe. */
-export function physicsFromOptions(o: GamestepOptions): GamePhysicsInput {
+/** The physics the options describe (guidance open loop when the command has no --guidance). */
+export function physicsFromOptions(o: PhysicsOptions): GamePhysicsInput {
   const integrator = parseIntegrator<GameIntegrator>('--integrator', o.integrator, GAME_INTEGRATORS);
   const dt = parseStep('--dt', o.dt);
   const rebase = o.rebase ? { distance: parseKm('--rebase-distance', o.rebaseDistance), velocity: o.rebaseVelocity !== false } : null;
@@ -101,7 +106,7 @@ export function physicsFromOptions(o: GamestepOptions): GamePhysicsInput {
     rebase,
     gravity: choice('--gravity', o.gravity, ['central', 'all'] as const),
     burns: choice('--burns', o.burns, ['impulsive', 'spread'] as const),
-    guidance: choice('--guidance', o.guidance, ['resolve', 'open-loop'] as const),
+    guidance: choice('--guidance', o.guidance ?? 'open-loop', ['resolve', 'open-loop'] as const),
   };
 }
 
@@ -288,11 +293,9 @@ export function sweepText(s: SweepResult): string {
   return out.join('\n');
 }
 
-export function addGamestepCommand(program: Command): void {
-  program
-    .command('gamestep')
-    .description("fly a plan with a game's fixed-step physics (integrator, step, float32, floating origin) and compare with the reference flight")
-    .argument('<plan>', 'plan file (.plan.json)')
+/** Declares the game-physics options (PhysicsOptions, read by physicsFromOptions) on a command, with the shared defaults. */
+export function addPhysicsOptions(cmd: Command): Command {
+  return cmd
     .option('--integrator <name>', `the game's integrator, by id or name: ${integratorChoices(GAME_INTEGRATORS)}`, GAME_STEP_DEFAULTS.integrator)
     .option('--dt <seconds>', 'fixed step: seconds, a fraction (1/60) or with a unit (20ms)', GAME_STEP_DEFAULTS.dt)
     .option('--float32', 'single-precision arithmetic (emulated)')
@@ -300,7 +303,15 @@ export function addGamestepCommand(program: Command): void {
     .option('--rebase-distance <km>', 'floating-origin threshold (km, or with a unit)', String(DEFAULT_REBASE.distance / 1000))
     .option('--no-rebase-velocity', 're-centre the position only, not the velocity')
     .option('--gravity <model>', 'central (patched conics) or all (every body)', GAME_STEP_DEFAULTS.gravity)
-    .option('--burns <model>', 'impulsive (at the nearest step) or spread (over steps at the thrust)', GAME_STEP_DEFAULTS.burns)
+    .option('--burns <model>', 'impulsive (at the nearest step) or spread (over steps at the thrust)', GAME_STEP_DEFAULTS.burns);
+}
+
+export function addGamestepCommand(program: Command): void {
+  const cmd = program
+    .command('gamestep')
+    .description("fly a plan with a game's fixed-step physics (integrator, step, float32, floating origin) and compare with the reference flight")
+    .argument('<plan>', 'plan file (.plan.json)');
+  addPhysicsOptions(cmd)
     .option('--guidance <g>', 'resolve (solved burns re-solved from the game state) or open-loop', GAME_STEP_DEFAULTS.guidance)
     .option('--sweep', 'also sweep the step per integrator and compare float64 / float32 / floating origin')
     .option('--tolerance <km>', 'position tolerance at arrival (km, or with a unit)')

@@ -38,8 +38,8 @@ export interface BrowserEnv {
   storage: Pick<Storage, 'getItem' | 'setItem' | 'removeItem'>;
   /** <input type="file"> picker: name and bytes of the chosen file, or null when cancelled. */
   pickFile(accept: string): Promise<{ name: string; bytes: Uint8Array } | null>;
-  /** Saves text as a download. */
-  download(name: string, text: string, mime: string): void;
+  /** Saves text (or bytes) as a download. */
+  download(name: string, text: string | Uint8Array, mime: string): void;
   /** File System Access API pickers, when the browser has them. */
   fsAccess: {
     showOpenFilePicker(o: { types: FilePickerType[]; multiple: false }): Promise<WritableHandle[]>;
@@ -53,7 +53,16 @@ export interface BrowserEnv {
 
 const PLAN_TYPES: FilePickerType[] = [{ description: 'Waymark plan', accept: { 'application/json': ['.json'] } }];
 const SYSTEM_TYPES: FilePickerType[] = [{ description: 'Waymark star system', accept: { 'application/json': ['.json'] } }];
-const EXPORT_MIME: Record<ExportKind, string> = { oem: 'text/plain', csv: 'text/csv', 'burns-csv': 'text/csv', report: 'text/markdown' };
+const EXPORT_MIME: Record<ExportKind, string> = {
+  oem: 'text/plain',
+  csv: 'text/csv',
+  'burns-csv': 'text/csv',
+  report: 'text/markdown',
+  'schedule-json': 'application/json',
+  'schedule-csv': 'text/csv',
+  'runtime-json': 'application/json',
+  'runtime-bin': 'application/octet-stream',
+};
 
 function isAbort(err: unknown): boolean {
   return err instanceof Error && err.name === 'AbortError';
@@ -214,7 +223,7 @@ export function pageEnv(win: Window & typeof globalThis): BrowserEnv {
       });
     },
     download(name, text, mime) {
-      const url = URL.createObjectURL(new Blob([text], { type: mime }));
+      const url = URL.createObjectURL(new Blob([text as BlobPart], { type: mime }));
       const a = win.document.createElement('a');
       a.href = url;
       a.download = name;

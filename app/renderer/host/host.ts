@@ -5,9 +5,9 @@
  * browserHost.ts (file picker / download or the File System Access API; localStorage).
  * `createHost()` (index.ts) picks the one that fits where the page runs.
  */
-import type { ExportKind, MenuCommand, RecoverySnapshot } from '../../preload/api.ts';
+import type { ExportKind, MenuCommand, PlanExportKind, RecoverySnapshot } from '../../preload/api.ts';
 
-export type { ExportKind, MenuCommand, RecoverySnapshot };
+export type { ExportKind, MenuCommand, PlanExportKind, RecoverySnapshot };
 
 /**
  * A save refused because the file there was written by a newer Waymark (its format may hold
@@ -66,7 +66,8 @@ export interface Host {
   save(ref: FileRef, text: string): Promise<FileRef | null>;
   /** Asks where, then writes; NewerVersionError as for save. */
   saveAs(suggestedName: string, text: string): Promise<FileRef | null>;
-  exportFile(kind: ExportKind, suggestedName: string, text: string): Promise<boolean>;
+  /** `data` is text, or bytes for a binary export (preload/api.ts BINARY_EXPORTS). */
+  exportFile(kind: ExportKind, suggestedName: string, data: string | Uint8Array): Promise<boolean>;
   readRecovery(): Promise<RecoverySnapshot | null>;
   writeRecovery(snapshot: RecoverySnapshot): Promise<void>;
   clearRecovery(): Promise<void>;

@@ -10,7 +10,7 @@ import { sampleEphemeris } from '../../../core/conic/index.ts';
 import type { Plan } from '../../../core/plan/index.ts';
 import type { PlanResult } from '../../../core/plan/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
-import type { ExportKind } from '../host/host.ts';
+import type { PlanExportKind } from '../host/host.ts';
 
 export const EXPORT_MAX_SAMPLES = 20_000;
 /** Finest export step, s. */
@@ -25,7 +25,7 @@ export function baseName(fileName: string): string {
 }
 
 export function exportFile(
-  kind: ExportKind,
+  kind: PlanExportKind,
   system: StarSystem,
   plan: Plan,
   result: PlanResult,

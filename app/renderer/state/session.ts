@@ -37,7 +37,7 @@ import { issueInWords, issuesInWords, planSaveIssues } from '../../../core/io/in
 import type { StarSystem } from '../../../core/system/index.ts';
 import {
   NewerVersionError,
-  type ExportKind,
+  type PlanExportKind,
   type FileRef,
   type Host,
   type MenuCommand,
@@ -418,7 +418,7 @@ export class Session {
     return true;
   }
 
-  async exportAs(kind: ExportKind): Promise<void> {
+  async exportAs(kind: PlanExportKind): Promise<void> {
     const s = this.doc.get();
     const e = this.evaluation.get();
     if (!e.result || e.stale) {

@@ -147,8 +147,16 @@ const REFUSED: [string, string, unknown[], RegExp][] = [
   ]),
   [IPC.exportFile, 'text oversized', row(IPC.exportFile, 2, 'x'.repeat(MAX_FILE_CHARS + 1)), /text must be at most/],
   [IPC.exportFile, 'text not a string', row(IPC.exportFile, 2, 7), /text must be a string/],
-  [IPC.exportFile, 'an unknown kind', row(IPC.exportFile, 0, 'exe'), /kind must be one of oem, csv, burns-csv, report/],
+  [
+    IPC.exportFile,
+    'an unknown kind',
+    row(IPC.exportFile, 0, 'exe'),
+    /kind must be one of oem, csv, burns-csv, report, schedule-json, schedule-csv, runtime-json, runtime-bin/,
+  ],
   [IPC.exportFile, 'a kind that is not a string', row(IPC.exportFile, 0, { kind: 'oem' }), /kind must be one of/],
+  [IPC.exportFile, 'bytes for a text export', row(IPC.exportFile, 2, new Uint8Array(4)), /text must be a string/],
+  [IPC.exportFile, 'text for a binary export (runtime-bin)', ['runtime-bin', 'r.bin', 'WMRE'], /text must be bytes/],
+  [IPC.exportFile, 'oversized bytes', ['runtime-bin', 'r.bin', new Uint8Array(MAX_FILE_CHARS + 1)], /text must be at most \d+ bytes/],
   ...[IPC.saveAs, IPC.exportFile].flatMap((ch): [string, string, unknown[], RegExp][] => {
     const k = ch === IPC.saveAs ? 0 : 1;
     return [
@@ -357,6 +365,11 @@ describe('IPC handlers (main process, Electron mocked away)', () => {
     expect(writeAtomic).toHaveBeenCalledWith('/out/plan.oem', 'CCSDS_OEM_VERS = 2.0', 'oem');
     dialogs.showSave.mockResolvedValueOnce('/out/plan.exe');
     await expect(h[IPC.exportFile](me, 'csv', 'plan.csv', 'a,b')).rejects.toThrow(/path must end in \.csv/);
+    // the runtime ephemeris in binary form crosses as bytes and is written as bytes
+    const bytes = new Uint8Array([0x57, 0x4d, 0x52, 0x45, 1, 0]);
+    dialogs.showSave.mockResolvedValueOnce('/out/plan.runtime.bin');
+    await expect(h[IPC.exportFile](me, 'runtime-bin', 'plan.runtime.bin', bytes)).resolves.toEqual({ path: '/out/plan.runtime.bin', name: 'plan.runtime.bin' });
+    expect(writeAtomic).toHaveBeenLastCalledWith('/out/plan.runtime.bin', bytes, 'runtime-bin');
   });
 
   it('keeps a recovery snapshot and validates its shape', async () => {

@@ -15,6 +15,9 @@ import { burnTableCsv, ephemerisCsv } from '../../../core/io/csv.ts';
 import { writeOem } from '../../../core/io/oem.ts';
 import { serializePlanFile } from '../../../core/io/planFile.ts';
 import { budgetReport } from '../../../core/io/report.ts';
+import { gameScheduleCsv, gameScheduleJson } from '../../../core/io/gameSchedule.ts';
+import type { GameSchedule } from '../../../core/handoff/index.ts';
+import { encodeRuntimeBinary, encodeRuntimeJson, runtimeEphemeris } from '../../../core/runtime/index.ts';
 import {
   FileError,
   checkOutput,
@@ -44,7 +47,18 @@ function freshDir(): string {
   return d;
 }
 
-type Exports = Record<'oem' | 'csv' | 'burns-csv' | 'report', string>;
+type Exports = Record<'oem' | 'csv' | 'burns-csv' | 'report' | 'schedule-json' | 'schedule-csv' | 'runtime-json' | 'runtime-bin', string | Uint8Array>;
+
+/** A small burn schedule for a game (one impulse), as `waymark handoff` writes it through core/io. */
+const schedule: GameSchedule = {
+  plan: 'Guard test',
+  system: 'Ilmar',
+  physics: { integrator: 'verlet', dt: 1 / 60, precision: 'float64', rebase: null, gravity: 'central', burns: 'impulsive', guidance: 'open-loop' },
+  t0: 1000,
+  start: { central: 'Tessel', state: [6.2e6, 0, 0, 0, 8000, 0] },
+  endStep: 600,
+  burns: [{ id: 'b', name: 'Burn', step: 60, t: 1001, dv: [0, 10, 0], dvMag: 10, dvBurnFrame: [10, 0, 0], change: [0, 0, 0], central: 'Tessel', thrust: null }],
+};
 let exportsMade: Exports | null = null;
 
 /** The four exports of the demo plan, as core/io writes them (made once). */
@@ -58,11 +72,17 @@ function makeExports(): Exports {
   const plan = structuredClone(demoPlan);
   const result = evaluate(system, plan);
   const eph = sampleEphemeris(system, result, { step: 86400 });
+  // the bodies over one day: a small runtime ephemeris, as `waymark handoff --runtime` writes it through core/runtime
+  const runtime = runtimeEphemeris(system, { t0: 0, t1: 86400 });
   return {
     oem: writeOem(system, eph, { objectName: plan.vehicle.name, creationDate: '2000-01-01T00:00:00' }),
     csv: ephemerisCsv(system, eph),
     'burns-csv': burnTableCsv(result.budget),
     report: budgetReport(system, plan, result),
+    'schedule-json': `${JSON.stringify(gameScheduleJson(schedule), null, 2)}\n`,
+    'schedule-csv': gameScheduleCsv(schedule, { length: 'km', time: 'steps' }),
+    'runtime-json': `${JSON.stringify(encodeRuntimeJson(runtime))}\n`,
+    'runtime-bin': new Uint8Array(encodeRuntimeBinary(runtime)),
   };
 }
 
@@ -78,7 +98,7 @@ const systemText = (version = 1): string => {
 };
 
 /** Writes `text` to a fresh file and returns its path. */
-function fileWith(name: string, text: string): string {
+function fileWith(name: string, text: string | Uint8Array): string {
   const p = join(freshDir(), name);
   writeFileSync(p, text);
   return p;
@@ -106,7 +126,7 @@ describe('checkOutput: what an output may replace', () => {
     await expect(checkOutput(T('--csv', join(dir, 'new.csv'), 'csv'))).resolves.toBe(join(dir, 'new.csv'));
     await expect(checkOutput(T('--csv', fileWith('empty.csv', ''), 'csv'))).resolves.toBeTruthy();
     const texts = exportsOfDemo();
-    for (const kind of ['oem', 'csv', 'burns-csv', 'report'] as const) {
+    for (const kind of ['oem', 'csv', 'burns-csv', 'report', 'schedule-json', 'schedule-csv', 'runtime-json', 'runtime-bin'] as const) {
       await expect(checkOutput(T(`--${kind}`, fileWith(`old.${kind}`, texts[kind]), kind))).resolves.toBeTruthy();
     }
     await expect(checkOutput(T('--output', fileWith('old.plan.json', planText(1)), 'plan'))).resolves.toBeTruthy();
