@@ -17,7 +17,7 @@
  * Piece k of a uniform fit covers [t0 + k·length, t0 + k·length + length]; the evaluation and the
  * reader compute its ends by exactly that expression.
  */
-import { SolverError } from '../math/index.ts';
+import { InputError, SolverError } from '../math/index.ts';
 import { MAX_DEGREE, type VectorSource, checkPoints, chebyshevPosition, fitChebyshev3 } from './chebyshev.ts';
 
 /** The pieces of one fitted interval (one arc of a track). */
@@ -71,6 +71,9 @@ let largest = 0;
 /** Distance between the series and f at t (and the largest |coordinate| of f seen, in `largest`). */
 function distance(f: VectorSource, coef: Float64Array, offset: number, degree: number, a: number, b: number, t: number): number {
   f(t, state);
+  if (!(Number.isFinite(state[0]) && Number.isFinite(state[1]) && Number.isFinite(state[2]))) {
+    throw new InputError('source', `must give a finite position (at t = ${t})`, [state[0], state[1], state[2]]);
+  }
   chebyshevPosition(coef, offset, degree, a, b, t, fitted);
   const r = Math.max(Math.abs(state[0]), Math.abs(state[1]), Math.abs(state[2]));
   if (r > largest) largest = r;
@@ -82,8 +85,8 @@ function distance(f: VectorSource, coef: Float64Array, offset: number, degree: n
  * largest distance at the check points; each local peak within REFINE_FRACTION of that largest is
  * then refined by golden-section search between its neighbouring check points (a peak of the
  * error sits a little off the extreme of T_{N+1} where the next terms tilt it; Press et al.,
- * §10.2, from memory); plus NOISE_ULPS units of roundoff of the largest coordinate. A NaN anywhere
- * makes the result NaN, which fails every tolerance.
+ * §10.2, from memory); plus NOISE_ULPS units of roundoff of the largest coordinate. Throws
+ * InputError when f gives a non-finite position.
  */
 export function pieceError(f: VectorSource, coef: Float64Array, offset: number, degree: number, a: number, b: number, points: Float64Array): number {
   const half = 0.5 * (b - a);
@@ -94,7 +97,6 @@ export function pieceError(f: VectorSource, coef: Float64Array, offset: number, 
   let worst = 0;
   for (let m = 0; m < n; m++) {
     const d = distance(f, coef, offset, degree, a, b, at(points[m], m));
-    if (Number.isNaN(d)) return Number.NaN;
     sampled[m] = d;
     if (d > worst) worst = d;
   }
@@ -123,7 +125,6 @@ export function pieceError(f: VectorSource, coef: Float64Array, offset: number, 
         x2 = lo + g * (hi - lo);
         d2 = distance(f, coef, offset, degree, a, b, at(x2, m));
       }
-      if (Number.isNaN(d1) || Number.isNaN(d2)) return Number.NaN;
     }
     refined = Math.max(refined, d1, d2);
   }
@@ -186,7 +187,7 @@ export function fitUniform(
     const errors = new Float64Array(count);
     return tryUniform(f, t0, t1, degree, count, tolerance, coef, errors) <= tolerance;
   };
-  let good = Math.min(Math.max(1, Math.round(firstCount)), maxCount);
+  let good = Number.isFinite(firstCount) ? Math.min(Math.max(1, Math.round(firstCount)), maxCount) : 1;
   let bad = 0; // largest count known to fail (0: none yet)
   if (ok(good)) {
     while (good > 1) {

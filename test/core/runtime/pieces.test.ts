@@ -4,7 +4,7 @@
  * only where the function bends, and a tolerance double precision cannot hold fails.
  */
 import { describe, expect, it } from 'vitest';
-import { SolverError, stream } from '../../../core/math/index.ts';
+import { InputError, SolverError, stream } from '../../../core/math/index.ts';
 import { chebyshevPosition, checkPoints, fitChebyshev3 } from '../../../core/runtime/chebyshev.ts';
 import { type FittedPieces, fitBisected, fitUniform, pieceError } from '../../../core/runtime/pieces.ts';
 
@@ -71,6 +71,15 @@ describe('fitUniform', () => {
       }
       expect(worst).toBeGreaterThan(1e-9);
     }
+  });
+
+  it('a source giving a non-finite position (here only at the interval’s end, a check point and no node) is an InputError naming the source', () => {
+    const endNaN = (t: number, out: Float64Array) => {
+      helix(t, out);
+      if (t === 40) out[1] = Number.NaN;
+    };
+    expect(() => fitUniform(endNaN, 0, 40, 8, 1e-9, 1)).toThrow(/^source must give a finite position \(at t = 40\)/);
+    expect(() => fitBisected(endNaN, 0, 40, 8, () => 1e-9)).toThrow(InputError);
   });
 
   it('a tolerance below double precision fails with a SolverError instead of running on', () => {
