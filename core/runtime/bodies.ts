@@ -3,11 +3,11 @@
  * from the conic ephemeris (core/system bodyStateRelativeToParent), fitted over [t0, t1] with
  * equal pieces of one degree per body (pieces.ts fitUniform) to a position tolerance.
  *
- * Degree and piece length (defaults measured on the Ilmar system over the demo plan's year, 1 m):
- * per body, the total coefficient count falls only slowly beyond degree 12 (4,524 doubles at 12,
- * 4,095 at 14, 3,465 at 20) while each evaluation costs one multiply-add per coefficient, so
- * degree 12 (13 coefficients per axis, the size the planetary ephemerides use, Newhall 1989, from
- * memory). The piece count search starts from half an orbital period per piece, where a degree-12
+ * Degree and piece length (defaults measured on the Ilmar system over the demo plan's 242 days,
+ * 1 m): the coefficients of all bodies fall steeply up to degree 12 and slowly beyond (7,263 doubles
+ * at degree 8, 5,379 at 10, 4,524 at 12, 4,095 at 14, 3,465 at 20) while an evaluation costs two
+ * flops per coefficient, so degree 12 (13 coefficients per axis, within the range the planetary
+ * ephemerides use, Newhall 1989, from memory). The piece count search starts from half an orbital period per piece, where a degree-12
  * series of a near-circular orbit reaches about a metre at 10¹¹ m (the first dropped term,
  * 2 J₁₃(π/2)·a by the Jacobi–Anger expansion, from memory), and ends at the fewest
  * equal pieces that hold the tolerance.
