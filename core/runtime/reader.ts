@@ -151,16 +151,19 @@ function fromBinary(buf: ArrayBuffer): { head: Head; tracks: Track[] } {
     const name = text(`${at}.name`);
     u8(`${at}.kind`);
     const degree = u8(`${at}.degree`);
+    if (degree < 1) fail(`${at}.degree`, 'must be at least 1');
     take(16, `${at}.tolerance`); // tolerance, maxError: not needed to evaluate
     take(32 * u32(`${at}.fine`), `${at}.fine`);
     const arcs: Arc[] = [];
     const arcCount = u32(`${at}.arcs`);
+    if (arcCount < 1) fail(`${at}.arcs`, 'must hold at least one arc');
     for (let i = 0; i < arcCount; i++) {
       const ap = `${at}.arcs[${i}]`;
       text(`${ap}.center`);
       const center = i32(`${ap}.centerIndex`);
       const listed = u8(`${ap}.layout`) === 1;
       const n = u32(`${ap}.count`);
+      if (n < 1) fail(`${ap}.count`, 'must be at least 1');
       const t0 = f64(`${ap}.t0`);
       const t1 = f64(`${ap}.t1`);
       const length = listed ? 0 : f64(`${ap}.length`);
