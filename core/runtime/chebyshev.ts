@@ -92,19 +92,32 @@ export function chebyshevPosition(
   out3: Float64Array | number[],
 ): Float64Array | number[] {
   const n = degree + 1;
+  const ox = offset;
+  const oy = offset + n;
+  const oz = offset + 2 * n;
   const s = (2 * (t - a)) / (b - a) - 1;
   const s2 = 2 * s;
-  for (let c = 0; c < 3; c++) {
-    const o = offset + c * n;
-    let b1 = 0;
-    let b2 = 0;
-    for (let j = degree; j >= 1; j--) {
-      const b0 = s2 * b1 - b2 + coef[o + j];
-      b2 = b1;
-      b1 = b0;
-    }
-    out3[c] = s * b1 - b2 + coef[o];
+  // the three axes' recurrences side by side: independent chains the processor overlaps
+  let x1 = 0;
+  let x2 = 0;
+  let y1 = 0;
+  let y2 = 0;
+  let z1 = 0;
+  let z2 = 0;
+  for (let j = degree; j >= 1; j--) {
+    const x0 = s2 * x1 - x2 + coef[ox + j];
+    const y0 = s2 * y1 - y2 + coef[oy + j];
+    const z0 = s2 * z1 - z2 + coef[oz + j];
+    x2 = x1;
+    x1 = x0;
+    y2 = y1;
+    y1 = y0;
+    z2 = z1;
+    z1 = z0;
   }
+  out3[0] = s * x1 - x2 + coef[ox];
+  out3[1] = s * y1 - y2 + coef[oy];
+  out3[2] = s * z1 - z2 + coef[oz];
   return out3;
 }
 
@@ -119,20 +132,33 @@ export function chebyshevVelocity(
   out3: Float64Array | number[],
 ): Float64Array | number[] {
   const n = degree + 1;
+  const ox = offset;
+  const oy = offset + n;
+  const oz = offset + 2 * n;
   const s = (2 * (t - a)) / (b - a) - 1;
   const s2 = 2 * s;
   const dsdt = 2 / (b - a);
-  for (let c = 0; c < 3; c++) {
-    const o = offset + c * n;
-    let d1 = 0;
-    let d2 = 0;
-    for (let m = degree - 1; m >= 0; m--) {
-      const d0 = (m + 1) * coef[o + m + 1] + s2 * d1 - d2;
-      d2 = d1;
-      d1 = d0;
-    }
-    out3[c] = d1 * dsdt;
+  let x1 = 0;
+  let x2 = 0;
+  let y1 = 0;
+  let y2 = 0;
+  let z1 = 0;
+  let z2 = 0;
+  for (let m = degree - 1; m >= 0; m--) {
+    const w = m + 1;
+    const x0 = w * coef[ox + w] + s2 * x1 - x2;
+    const y0 = w * coef[oy + w] + s2 * y1 - y2;
+    const z0 = w * coef[oz + w] + s2 * z1 - z2;
+    x2 = x1;
+    x1 = x0;
+    y2 = y1;
+    y1 = y0;
+    z2 = z1;
+    z1 = z0;
   }
+  out3[0] = x1 * dsdt;
+  out3[1] = y1 * dsdt;
+  out3[2] = z1 * dsdt;
   return out3;
 }
 

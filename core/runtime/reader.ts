@@ -241,17 +241,30 @@ export function openRuntimeEphemeris(data: object | ArrayBuffer): RuntimeEphemer
     const c = arc.coef;
     const s = (2 * (t - a)) / (b - a) - 1;
     const s2 = 2 * s;
-    for (let axis = 0; axis < 3; axis++) {
-      const o = off + axis * (deg + 1);
-      let b1 = 0;
-      let b2 = 0;
-      for (let j = deg; j >= 1; j--) {
-        const b0 = s2 * b1 - b2 + c[o + j];
-        b2 = b1;
-        b1 = b0;
-      }
-      out[axis] = s * b1 - b2 + c[o];
+    const ox = off;
+    const oy = off + deg + 1;
+    const oz = off + 2 * (deg + 1);
+    // the three axes side by side (independent recurrences, so the processor overlaps them)
+    let x1 = 0;
+    let x2 = 0;
+    let y1 = 0;
+    let y2 = 0;
+    let z1 = 0;
+    let z2 = 0;
+    for (let j = deg; j >= 1; j--) {
+      const x0 = s2 * x1 - x2 + c[ox + j];
+      const y0 = s2 * y1 - y2 + c[oy + j];
+      const z0 = s2 * z1 - z2 + c[oz + j];
+      x2 = x1;
+      x1 = x0;
+      y2 = y1;
+      y1 = y0;
+      z2 = z1;
+      z1 = z0;
     }
+    out[0] = s * x1 - x2 + c[ox];
+    out[1] = s * y1 - y2 + c[oy];
+    out[2] = s * z1 - z2 + c[oz];
   };
 
   const part = [0, 0, 0];
@@ -273,17 +286,30 @@ export function openRuntimeEphemeris(data: object | ArrayBuffer): RuntimeEphemer
       const s = (2 * (t - a)) / (b - a) - 1;
       const s2 = 2 * s;
       const dsdt = 2 / (b - a);
-      for (let axis = 0; axis < 3; axis++) {
-        const o = off + axis * (deg + 1);
-        let d1 = 0;
-        let d2 = 0;
-        for (let m = deg - 1; m >= 0; m--) {
-          const d0 = (m + 1) * c[o + m + 1] + s2 * d1 - d2;
-          d2 = d1;
-          d1 = d0;
-        }
-        out[axis] = d1 * dsdt;
+      const ox = off;
+      const oy = off + deg + 1;
+      const oz = off + 2 * (deg + 1);
+      let x1 = 0;
+      let x2 = 0;
+      let y1 = 0;
+      let y2 = 0;
+      let z1 = 0;
+      let z2 = 0;
+      for (let m = deg - 1; m >= 0; m--) {
+        const w = m + 1;
+        const x0 = w * c[ox + w] + s2 * x1 - x2;
+        const y0 = w * c[oy + w] + s2 * y1 - y2;
+        const z0 = w * c[oz + w] + s2 * z1 - z2;
+        x2 = x1;
+        x1 = x0;
+        y2 = y1;
+        y1 = y0;
+        z2 = z1;
+        z1 = z0;
       }
+      out[0] = x1 * dsdt;
+      out[1] = y1 * dsdt;
+      out[2] = z1 * dsdt;
       return out;
     },
     absolutePosition(track, t, out) {
