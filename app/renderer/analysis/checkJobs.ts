@@ -1,6 +1,7 @@
 /**
  * The checks as analysis-worker jobs: the game-step check of the plan (core/gamestep/check.ts),
- * its time-step sweep (core/gamestep/sweep.ts), the system stability check
+ * its time-step sweep (core/gamestep/sweep.ts), the plan's burns retargeted for the game's
+ * physics with the runtime data of the schedule (core/handoff), the system stability check
  * (core/checks/stability.ts) and a quick estimate of how long a stability run will take.
  * Plain code, run by runJob.ts in the worker and tested without one.
  *
@@ -13,9 +14,13 @@
  */
 import { gameStepCheck, type GamePhysicsInput, type GameStepResult } from '../../../core/gamestep/index.ts';
 import { gameStepSweep, type SweepResult } from '../../../core/gamestep/index.ts';
+import { gameRuntimeData, retargetForGame, type RetargetResult } from '../../../core/handoff/index.ts';
+import type { RuntimeEphemeris } from '../../../core/runtime/index.ts';
+import type { TargetTolerances } from '../../../core/target/index.ts';
 import type { Plan } from '../../../core/plan/index.ts';
 import type { PlanResult } from '../../../core/plan/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
+import { retargetFraction } from '../handoff/progress.ts';
 import { checkStability, DEFAULT_MAX_STEPS, type StabilityResult } from '../../../core/checks/index.ts';
 
 /** Options of a game-step check that the app passes through (SI). */
@@ -29,6 +34,21 @@ export interface GameStepJobOptions {
   warpDt?: number;
   /** Series points per span. */
   samplesPerSpan?: number;
+}
+
+/** Options of "Retarget for my game" (SI). */
+export interface RetargetJobOptions {
+  physics: GamePhysicsInput;
+  /** Tolerances set (the rest: core/handoff GAME_TOLERANCES). */
+  tolerance?: Partial<TargetTolerances>;
+  /** The final flight of the schedule: every game step, or long coasts extrapolated. */
+  verify: 'every-step' | 'extrapolated';
+}
+
+/** A retargeting and the runtime data of its schedule (bodies and the ship's path), for "Save runtime data…". */
+export interface RetargetOutput {
+  retarget: RetargetResult;
+  runtime: RuntimeEphemeris;
 }
 
 export interface StabilityJobOptions {
@@ -59,12 +79,14 @@ export const APP_SAMPLES_PER_SPAN = 240;
 export type CheckJob =
   | ({ kind: 'gamestep'; system: StarSystem; plan: Plan; result: PlanResult | null } & GameStepJobOptions)
   | { kind: 'sweep'; system: StarSystem; plan: Plan; result: PlanResult | null; physics: GamePhysicsInput; tolerance?: number; energyTolerance?: number }
+  | ({ kind: 'retarget'; system: StarSystem; plan: Plan } & RetargetJobOptions)
   | ({ kind: 'stability'; system: StarSystem } & StabilityJobOptions)
   | { kind: 'stability-estimate'; system: StarSystem };
 
 export type CheckOutput =
   | { kind: 'gamestep'; check: GameStepResult }
   | { kind: 'sweep'; sweep: SweepResult }
+  | ({ kind: 'retarget' } & RetargetOutput)
   | { kind: 'stability'; stability: StabilityResult }
   | { kind: 'stability-estimate'; estimate: StabilityEstimate };
 
@@ -108,6 +130,20 @@ export function runCheckJob(job: CheckJob, onProgress: (fraction: number, note: 
           onProgress: (done, total) => onProgress(total > 0 ? done / total : 0, `flight ${Math.min(done + 1, total)} of at most ${total}`),
         }),
       };
+    case 'retarget': {
+      let last = 0;
+      const retarget = retargetForGame(job.system, job.plan, {
+        physics: job.physics,
+        tolerance: job.tolerance,
+        verify: job.verify,
+        onProgress: (p) => {
+          last = retargetFraction(p, last);
+          onProgress(last, p.message);
+        },
+      });
+      onProgress(1, 'fitting the runtime data');
+      return { kind: 'retarget', retarget, runtime: gameRuntimeData(job.system, job.plan, retarget.schedule) };
+    }
     case 'stability':
       return {
         kind: 'stability',

@@ -2,7 +2,8 @@
  * The two checks of the open document, each run on demand in its own analysis worker (so a
  * long stability run does not hold up a game-step check, and neither holds up the n-body
  * analyses of analysis/store.ts):
- * - game: the game-step check of the plan and its time-step sweep (one at a time). A result
+ * - game: the game-step check of the plan, its time-step sweep and "Retarget for my game" (the
+ *   plan's burns retargeted for the game's physics; one at a time). A result
  *   belongs to the document revision it was run for; after an edit it is stale (shown as such,
  *   and its error lanes and path leave the Timeline and the System view) until run again.
  * - stability: the system stability check, and the estimate of how long a run takes. A result
@@ -20,7 +21,7 @@ import type { EvaluationState } from '../state/evaluation.ts';
 import { Observable, type Readable } from '../state/observable.ts';
 import type { AnalysisClient } from './client.ts';
 import { checkError, type CheckError } from './checkErrors.ts';
-import type { GameStepJobOptions, StabilityEstimate, StabilityJobOptions } from './checkJobs.ts';
+import type { GameStepJobOptions, RetargetJobOptions, RetargetOutput, StabilityEstimate, StabilityJobOptions } from './checkJobs.ts';
 import type { AnalysisJob, AnalysisOutput } from './protocol.ts';
 
 export interface CheckSlot<T, I> {
@@ -51,9 +52,10 @@ export interface JobLane<K extends string> {
 }
 
 export interface ChecksState {
-  game: JobLane<'gamestep' | 'sweep'> & {
+  game: JobLane<'gamestep' | 'sweep' | 'retarget'> & {
     check: CheckSlot<GameStepResult, GameStepJobOptions>;
     sweep: CheckSlot<SweepResult, SweepInput>;
+    retarget: CheckSlot<RetargetOutput, RetargetJobOptions>;
   };
   stability: JobLane<'stability' | 'stability-estimate'> & {
     result: CheckSlot<StabilityResult, StabilityJobOptions>;
@@ -93,7 +95,7 @@ export class CheckStore implements Readable<ChecksState> {
     private readonly now: () => number = () => (typeof performance !== 'undefined' ? performance.now() : Date.now()),
   ) {
     this.#out = new Observable<ChecksState>({
-      game: { ...idle, check: emptySlot(), sweep: emptySlot() },
+      game: { ...idle, check: emptySlot(), sweep: emptySlot(), retarget: emptySlot() },
       stability: { ...idle, result: emptySlot(), estimate: null, estimateFor: null },
       revision: -1,
       generation: -1,
@@ -107,7 +109,7 @@ export class CheckStore implements Readable<ChecksState> {
         this.#seq.game++;
         this.#seq.stability++;
         this.#out.set({
-          game: { ...idle, check: emptySlot(), sweep: emptySlot() },
+          game: { ...idle, check: emptySlot(), sweep: emptySlot(), retarget: emptySlot() },
           stability: {
             ...idle,
             result: emptySlot(),
@@ -146,6 +148,15 @@ export class CheckStore implements Readable<ChecksState> {
     if (!e.result || e.stale) return Promise.resolve(this.failGame('sweep', 'the plan does not evaluate; fix it first'));
     const job: AnalysisJob = { kind: 'sweep', system: d.system, plan: d.plan, result: e.result, ...input };
     return this.runGame('sweep', 'sweep', job, input);
+  }
+
+  /** "Retarget for my game": the plan's burns retargeted for the game's physics, and the runtime data of the schedule. */
+  runRetarget(options: RetargetJobOptions): Promise<void> {
+    const d = this.doc.get();
+    const e = this.evaluation.get();
+    if (!e.result || e.stale) return Promise.resolve(this.failGame('retarget', 'the plan does not evaluate; fix it first'));
+    const job: AnalysisJob = { kind: 'retarget', system: d.system, plan: d.plan, ...options };
+    return this.runGame('retarget', 'retarget', job, options);
   }
 
   cancelGame(): void {
@@ -197,7 +208,12 @@ export class CheckStore implements Readable<ChecksState> {
     this.clients.stability.dispose();
   }
 
-  private async runGame(slot: 'check' | 'sweep', kind: 'gamestep' | 'sweep', job: AnalysisJob, input: GameStepJobOptions | SweepInput): Promise<void> {
+  private async runGame(
+    slot: 'check' | 'sweep' | 'retarget',
+    kind: 'gamestep' | 'sweep' | 'retarget',
+    job: AnalysisJob,
+    input: GameStepJobOptions | SweepInput | RetargetJobOptions,
+  ): Promise<void> {
     const d = this.doc.get();
     const run = await this.start('game', kind, job);
     if (!run) return;
@@ -213,6 +229,10 @@ export class CheckStore implements Readable<ChecksState> {
       this.#out.set({ ...s, game: { ...s.game, ...idle, check: { ...base, input: input as GameStepJobOptions, value: o.check, ms: run.ms, error: null } } });
     else if (o.kind === 'sweep')
       this.#out.set({ ...s, game: { ...s.game, ...idle, sweep: { ...base, input: input as SweepInput, value: o.sweep, ms: run.ms, error: null } } });
+    else if (o.kind === 'retarget') {
+      const value: RetargetOutput = { retarget: o.retarget, runtime: o.runtime };
+      this.#out.set({ ...s, game: { ...s.game, ...idle, retarget: { ...base, input: input as RetargetJobOptions, value, ms: run.ms, error: null } } });
+    }
   }
 
   /**
@@ -244,7 +264,7 @@ export class CheckStore implements Readable<ChecksState> {
     else this.#out.set({ ...s, stability: { ...s.stability, ...(patch as Partial<ChecksState['stability']>) } });
   }
 
-  private failGame(slot: 'check' | 'sweep', message: string): void {
+  private failGame(slot: 'check' | 'sweep' | 'retarget', message: string): void {
     const s = this.#out.get();
     this.#out.set({ ...s, game: { ...s.game, [slot]: { ...s.game[slot], error: { message, detail: message } } } });
   }

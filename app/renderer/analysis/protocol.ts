@@ -1,7 +1,7 @@
 /**
  * Messages between the renderer and the analysis worker (n-body verification, correction,
  * dispersion, targeting the plan in a model, the plan read in its truth model, and the checks of
- * analysis/checkJobs.ts: game-step check, step sweep, system stability and its run-time estimate).
+ * analysis/checkJobs.ts: game-step check, step sweep, retargeting for a game, system stability and its run-time estimate).
  * A targeting job's progress carries the targeter's own report (leg, flights, residual). A job
  * refused for its input (InputError: a route's intent) keeps the field and rule across, so the
  * form can show it at that field.

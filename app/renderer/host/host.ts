@@ -5,9 +5,9 @@
  * browserHost.ts (file picker / download or the File System Access API; localStorage).
  * `createHost()` (index.ts) picks the one that fits where the page runs.
  */
-import type { ExportKind, MenuCommand, PlanExportKind, RecoverySnapshot } from '../../preload/api.ts';
+import type { ExportKind, HandoffExportKind, MenuCommand, PlanExportKind, RecoverySnapshot } from '../../preload/api.ts';
 
-export type { ExportKind, MenuCommand, PlanExportKind, RecoverySnapshot };
+export type { ExportKind, HandoffExportKind, MenuCommand, PlanExportKind, RecoverySnapshot };
 
 /**
  * A save refused because the file there was written by a newer Waymark (its format may hold
