@@ -148,4 +148,23 @@ describe.skipIf(!have)('Retarget for my game (e2e)', () => {
     expect(await page.textContent('[data-testid=retarget-saved]')).toMatch(/runtime\.bin/);
     expect(errors).toEqual([]);
   });
+
+  it('a step too coarse (velocity Verlet at 120 s): not met, why, and the step that works as one click into the physics form', async () => {
+    await page.selectOption('[data-field=integrator]', 'verlet');
+    await page.fill('[data-field=dt]', '120');
+    await page.click('[data-action=retarget-run]');
+    await expect.poll(() => page.textContent('[data-testid=retarget-verdict]'), G).toMatch(/^\s*Not met/);
+    const verdict = (await page.textContent('[data-testid=retarget-verdict]'))!;
+    expect(verdict).toMatch(/does not reach .* within tolerance/);
+    const rec = await js<{ dt: number | null }>('window.waymarkDebug.checks.get().game.retarget.value.retarget.recommendation');
+    expect(rec.dt).not.toBeNull();
+    expect(rec.dt!).toBeLessThan(120);
+    const marks = await page.locator('[data-testid=retarget-goals] tr.name .mark').allTextContents();
+    expect(marks.some((m) => m.trim() === '✗ not met')).toBe(true);
+    await page.locator('[data-action=retarget-fix]').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: `${OUT}handoff-1024x640-not-met.png` });
+    await page.click('[data-action=retarget-fix]');
+    expect(Number(await page.inputValue('[data-field=dt]'))).toBe(rec.dt);
+    expect(errors).toEqual([]);
+  });
 });

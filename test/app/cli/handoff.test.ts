@@ -88,6 +88,19 @@ describe.concurrent('waymark handoff', () => {
     expect(t.stdout).toMatch(/verification: long coasts extrapolated; [\d,]+ game steps flown/);
   });
 
+  it('a step too coarse (velocity Verlet at 120 s): exit 1, the goals missed and the step that works, no schedule written', async () => {
+    const json = join(dir, 'coarse.schedule.json');
+    const r = await runCli(['handoff', DEMO, '--integrator', 'verlet', '--dt', '120', '--verify', 'extrapolated', '--schedule', json, '--json']);
+    expect(r.code).toBe(1);
+    const rt = JSON.parse(r.stdout).retarget;
+    expect(rt.status).toBe('not-met');
+    expect(rt.goals.some((g: { met: boolean }) => !g.met)).toBe(true);
+    expect(rt.recommendation.reason).toBe('step');
+    expect(rt.recommendation.dt).toBeLessThan(120);
+    expect(JSON.parse(r.stdout).written).toEqual([]);
+    expect(() => readFileSync(json)).toThrow(/ENOENT/);
+  });
+
   it('bad flags exit 2 with a message naming the flag, before any work', async () => {
     const cases: [string[], RegExp][] = [
       [['--verify', 'sometimes'], /--verify must be one of: every-step, extrapolated/],
