@@ -167,4 +167,18 @@ describe.skipIf(!have)('Retarget for my game (e2e)', () => {
     expect(Number(await page.inputValue('[data-field=dt]'))).toBe(rec.dt);
     expect(errors).toEqual([]);
   });
+
+  it("with the game-step check's lanes too, the Timeline stacks both: the check's lanes, then the retargeting's", async () => {
+    await page.click('[data-action=gamestep-run]');
+    await page.waitForSelector('[data-testid=gamestep-result]', G);
+    await expect.poll(() => page.locator('[data-testid=gamestep-lanes] path.gs-curve').count(), G).toBeGreaterThan(0);
+    expect(await page.locator('[data-testid=retarget-lane] path.rt-after').count()).toBeGreaterThan(0);
+    const top = async (sel: string) => (await page.locator(sel).boundingBox())!.y;
+    expect(await top('[data-testid=retarget-lane] .rt-lane')).toBeGreaterThan(await top('[data-testid=gamestep-lanes] [data-lane=energy]'));
+    await page.setViewportSize({ width: 1920, height: 1080 });
+    await page.waitForTimeout(200);
+    await page.locator('[data-testid=retarget-lane] .rt-lane').scrollIntoViewIfNeeded();
+    await page.locator('[data-testid=timeline]').screenshot({ path: `${OUT}handoff-1920x1080-timeline-stacked.png` });
+    expect(errors).toEqual([]);
+  });
 });
