@@ -189,7 +189,8 @@ export function flyReference(
     const m = active ? Math.hypot(active.dv[0], active.dv[1], active.dv[2]) : 0;
     if (active && m > 0) {
       for (let i = 0; i < 3; i++) u[i] = active.dv[i] / m;
-      forces.setThrust(spreadPhase(active.b), active.b.tStart, u, null);
+      // the phase lasts as long as this burn's own Δv takes (a re-solved or retargeted Δv may differ from the plan's)
+      forces.setThrust({ ...spreadPhase(active.b), duration: active.tEnd - active.b.tStart }, active.b.tStart, u, null);
     } else {
       forces.setThrust(null, 0, u, null);
     }

@@ -32,7 +32,7 @@ import {
 } from '../gamestep/index.ts';
 
 /** Each side of a long coast span kept flown at the game's step, as a fraction of the span. */
-export const REGION_MARGIN = 0.01;
+export const REGION_MARGIN = 0.001;
 /** The measured order may differ from the method's by this much for step scaling to be used. */
 export const ORDER_SLACK = 0.2;
 /** Default game steps above which a coast span's interior is extrapolated ('extrapolate'). */

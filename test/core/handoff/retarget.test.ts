@@ -21,8 +21,8 @@ interface PlainFlight {
   central: number;
   r: number[];
   v: number[];
-  /** Closest approach to `arrivalBody` before the first burn there: time (s) and distance (m). */
-  closest: { t: number; d: number };
+  /** The state relative to `arrivalBody` at the step of the first burn there, before it (the approach hyperbola). */
+  approach: { t: number; r: number[]; v: number[] } | null;
 }
 
 /** The schedule flown step by step (see the file comment). */
@@ -35,10 +35,11 @@ function flyPlainly(sys: StarSystem, s: GameSchedule, arrivalBody: number): Plai
   const burns = [...s.burns].sort((a, b) => a.step - b.step);
   const firstBurnAtArrival = burns.find((b) => idx(b.central) === arrivalBody)?.step ?? s.endStep;
   const b6 = new Float64Array(6);
-  let closest = { t: 0, d: Number.POSITIVE_INFINITY };
+  let approach: PlainFlight['approach'] = null;
   let k = 0;
   let nextBurn = 0;
   while (k < s.endStep) {
+    if (k === firstBurnAtArrival && c === arrivalBody && !approach) approach = { t: s.t0 + k * h, r: [x, y, z], v: [vx, vy, vz] };
     while (nextBurn < burns.length && burns[nextBurn].step === k) {
       const dv = burns[nextBurn].dv;
       vx += dv[0];
@@ -69,7 +70,6 @@ function flyPlainly(sys: StarSystem, s: GameSchedule, arrivalBody: number): Plai
       n = Math.min(n, Math.max(1, Math.floor((0.5 * gap) / ((speed + Math.hypot(b6[3], b6[4], b6[5])) * h))));
     }
     if (n === 0) continue;
-    const track = c === arrivalBody && k < firstBurnAtArrival;
     let i = 0;
     for (; i < n; i++) {
       const r2 = x * x + y * y + z * z;
@@ -80,9 +80,7 @@ function flyPlainly(sys: StarSystem, s: GameSchedule, arrivalBody: number): Plai
       x += h * vx;
       y += h * vy;
       z += h * vz;
-      const q2 = x * x + y * y + z * z;
-      if (track && k + i + 1 <= firstBurnAtArrival && q2 < closest.d * closest.d) closest = { t: s.t0 + (k + i + 1) * h, d: Math.sqrt(q2) };
-      if (q2 > soi2) {
+      if (x * x + y * y + z * z > soi2) {
         i++;
         break;
       }
@@ -100,7 +98,25 @@ function flyPlainly(sys: StarSystem, s: GameSchedule, arrivalBody: number): Plai
       c = bodies[c].parentIndex;
     }
   }
-  return { central: c, r: [x, y, z], v: [vx, vy, vz], closest };
+  return { central: c, r: [x, y, z], v: [vx, vy, vz], approach };
+}
+
+/**
+ * Time from periapsis of a hyperbola (s; negative before it): true anomaly ν from the eccentricity
+ * vector, hyperbolic anomaly tanh(H/2) = √((e − 1)/(e + 1))·tan(ν/2), mean anomaly M = e·sinh H − H,
+ * mean motion n = √(μ/(−a)³) (Vallado, 4th ed., §2.2, from memory).
+ */
+function sincePeriapsis(mu: number, r: number[], v: number[]): number {
+  const rn = Math.hypot(r[0], r[1], r[2]);
+  const v2 = v[0] ** 2 + v[1] ** 2 + v[2] ** 2;
+  const rv = r[0] * v[0] + r[1] * v[1] + r[2] * v[2];
+  const ev = [0, 1, 2].map((j) => ((v2 - mu / rn) * r[j] - rv * v[j]) / mu);
+  const e = Math.hypot(ev[0], ev[1], ev[2]);
+  const a = 1 / (2 / rn - v2 / mu);
+  const cosNu = (ev[0] * r[0] + ev[1] * r[1] + ev[2] * r[2]) / (e * rn);
+  const nu = Math.sign(rv) * Math.acos(Math.max(-1, Math.min(1, cosNu)));
+  const H = 2 * Math.atanh(Math.sqrt((e - 1) / (e + 1)) * Math.tan(nu / 2));
+  return (e * Math.sinh(H) - H) / Math.sqrt(mu / (-a) ** 3);
 }
 
 /** Periapsis and apoapsis radius and inclination of the two-body orbit of (r, v) about μ (Vallado, 4th ed., Algorithm 9, from memory). */
@@ -136,10 +152,13 @@ function plainMisses(result: RetargetResult): { misses: string[]; periapsisAltit
   within('periapsis altitude about', el.rp - R);
   within('apoapsis altitude about', el.ra - R);
   within('inclination about', el.i);
-  // arrival: the closest approach on the way in comes at the periapsis time held (tolerance 60 s) and at
-  // the plan's 400 km (the altitude of the B-plane aim; the altitude tolerance)
-  within('periapsis time', f.closest.t);
-  if (!(Math.abs(f.closest.d - R - 400e3) <= result.tolerance.altitude)) misses.push('arrival periapsis altitude');
+  // arrival: the approach hyperbola just before the first burn at Ochre passes its periapsis at the time
+  // held (tolerance 60 s) and at the plan's 400 km (the altitude of the B-plane aim; the altitude tolerance)
+  if (!f.approach) return { misses: ['approach to Ochre'], periapsisAltitude: el.rp - R };
+  const mu = system.bodies[ochre].mu;
+  within('periapsis time', f.approach.t - sincePeriapsis(mu, f.approach.r, f.approach.v));
+  const hyp = elements(mu, f.approach.r, f.approach.v);
+  if (!(Math.abs(hyp.rp - R - 400e3) <= result.tolerance.altitude)) misses.push('arrival periapsis altitude');
   return { misses, periapsisAltitude: el.rp - R };
 }
 
@@ -168,12 +187,16 @@ describe('retargeting the demo for semi-implicit Euler at 1/60 s, float64', () =
 
   it('the schedule holds each burn at a whole step, its Δv close to the plan’s, with its burn-frame components', () => {
     const s = result.schedule;
+    // the frame of each burn is the game's own: the departure about Tessel, the rest (after the mid-course in cruise) about Ochre
+    expect(s.burns.map((b) => b.central)).toEqual(['Tessel', 'Ilmar', 'Ochre', 'Ochre', 'Ochre']);
     for (const b of s.burns) {
       expect(Number.isInteger(b.step)).toBe(true);
       expect(b.t).toBeCloseTo(s.t0 + b.step * s.physics.dt, 6);
       expect(Math.hypot(...b.dvBurnFrame)).toBeCloseTo(b.dvMag, 6);
-      // a game's step error needs cm/s, not m/s, of correction
-      expect(Math.hypot(...b.change)).toBeLessThan(1);
+      // a game's step error needs cm/s of correction (the departure's and mid-course's); the burns at Ochre
+      // also take up the arrival-time slack the tolerance leaves (the leg aims within a quarter of it, 15 s:
+      // dm/s) — nowhere m/s
+      expect(Math.hypot(...b.change)).toBeLessThan(0.5);
     }
   });
 });
@@ -205,5 +228,19 @@ describe('a step too coarse for the demo: semi-implicit Euler at 30 s', () => {
       recommend: false,
     });
     expect(coarser.status).toBe('not-met');
+  });
+});
+
+describe('spread burns: the thrust held over steps at the vehicle’s thrust until |Δv| is delivered', () => {
+  it('are retargeted for velocity Verlet at 1 s, verified at every step', { timeout: 300_000 }, () => {
+    const r = retargetForGame(system, demoPlan, { physics: { integrator: 'verlet', dt: 1, burns: 'spread' }, verify: 'every-step', compare: true });
+    expect(r.status, r.message).toBe('met');
+    // flown open loop, the plan's impulsive Δv spread over the kick stage's 3.6-minute burn misses Ochre altogether
+    const bt = goal(r, 'B·T');
+    expect(Math.abs((bt.before ?? Number.POSITIVE_INFINITY) - bt.wanted)).toBeGreaterThan(1e4 * bt.tolerance);
+    for (const b of r.schedule.burns) {
+      expect(b.thrust).not.toBeNull();
+      expect(b.thrust?.steps).toBeGreaterThan(1);
+    }
   });
 });

@@ -1,12 +1,11 @@
 /**
- * Runtime data of a retargeted schedule: the ship's Chebyshev track against the path it was fitted
- * to (the schedule flown by the reference dynamics, RK45 at rtol 1e-12, flown again here from the
- * schedule's own start state) and the bodies' tracks against the system's ephemeris, read through
+ * Runtime data of a plan for a game: the ship's Chebyshev track against the path it was fitted to
+ * (the plan's burns flown by the reference dynamics, RK45 at rtol 1e-12, flown again here) and the bodies' tracks against the system's ephemeris, read through
  * the standalone reader after a JSON round trip; the burns' velocity jumps survive the fit.
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { gameRuntimeData, retargetForGame } from '../../../core/handoff/index.ts';
+import { gameRuntimeData } from '../../../core/handoff/index.ts';
 import { flyReference, prepareGameStep, ReferenceTrack } from '../../../core/gamestep/index.ts';
 import { encodeRuntimeJson, openRuntimeEphemeris } from '../../../core/runtime/index.ts';
 import { parseSystemFile } from '../../../core/io/systemFile.ts';
@@ -16,10 +15,9 @@ import { demoPlan } from '../../fixtures/demoPlan.ts';
 
 const { system } = parseSystemFile(readFileSync(new URL('../../../assets/systems/ilmar.system.json', import.meta.url), 'utf8'));
 
-describe('runtime data for the demo schedule', () => {
-  // a coarse game step keeps this quick; the runtime data depends on the schedule's burns, not on the step
-  const r = retargetForGame(system, demoPlan, { physics: { integrator: 'verlet', dt: 1 }, verify: 'extrapolated', compare: false, recommend: false });
-  const data = gameRuntimeData(system, demoPlan, r.schedule);
+describe('runtime data for the demo plan', () => {
+  const data = gameRuntimeData(system, demoPlan, { gravity: 'central', burns: 'impulsive' });
+  const prep = prepareGameStep(system, demoPlan, { guidance: 'open-loop' });
   const reader = openRuntimeEphemeris(JSON.parse(JSON.stringify(encodeRuntimeJson(data))));
   const ship = reader.trackIndex('ship');
   const shipTrack = data.tracks.find((t) => t.name === 'ship');
@@ -29,15 +27,9 @@ describe('runtime data for the demo schedule', () => {
     for (const t of data.tracks.filter((x) => x.kind === 'body')) expect(t.maxError).toBeLessThanOrEqual(1);
   });
 
-  it('puts the ship where the schedule flies it, at random times, within the stated error', () => {
-    // the path flown again independently of the fit: the schedule's burns in the reference dynamics
-    const prep = prepareGameStep(system, demoPlan, { guidance: 'open-loop' });
-    const byId = new Map(r.schedule.burns.map((b) => [b.id, b]));
-    const burns = prep.burns.map((b) => {
-      const s = byId.get(b.id);
-      if (!s) throw new Error(b.id);
-      return { ...b, t: s.t, tStart: s.t, dv: s.dv, dvMag: s.dvMag, event: null };
-    });
+  it('puts the ship where the plan flies it, at random times, within the stated error', () => {
+    // the plan's path flown again here: its burns in the reference dynamics (RK45, rtol 1e-12)
+    const burns = prep.burns.map((b) => ({ ...b, event: null }));
     const track = new ReferenceTrack(
       system,
       flyReference({ ...prep.settings, burns, guidance: 'open-loop' }, prep.t0, prep.start.abs, prep.start.central, prep.t1, true),
@@ -61,7 +53,7 @@ describe('runtime data for the demo schedule', () => {
   it('keeps each burn as a velocity jump equal to its Δv', () => {
     const v0 = [0, 0, 0];
     const v1 = [0, 0, 0];
-    for (const b of r.schedule.burns) {
+    for (const b of prep.burns) {
       reader.velocity(ship, b.t - 1e-3, v0);
       reader.velocity(ship, b.t + 1e-3, v1);
       const jump = Math.hypot(v1[0] - v0[0] - b.dv[0], v1[1] - v0[1] - b.dv[1], v1[2] - v0[2] - b.dv[2]);
