@@ -85,6 +85,7 @@ export function newtonSolve(
       for (let i = 0; i < m; i++) d += J[i * n + j] ** 2;
       maxDiag = Math.max(maxDiag, d);
     }
+    if (!(maxDiag > 0)) break; // no control moves any goal
     const neg = Array.from(r, (v) => -v);
     const p = dampedLeastSquares(J, neg, m, n, TINY * maxDiag);
     let f = 1;
