@@ -9,6 +9,11 @@
  *   `truthReport` (the plan in its truth model), `targetPlan`, `planRoute`, `disperse`.
  * - Exports: `budgetReport` (text), `burnTableCsv`, `ephemerisCsv`, `writeOem` (CCSDS OEM)
  *   from `sampleEphemeris`.
+ * - For a game: `gameStepCheck` (how its integrator flies the plan), `retargetForGame` (the burns
+ *   retargeted for its integrator: a schedule it flies open loop), `gameScheduleJson` /
+ *   `gameScheduleCsv` / `readGameScheduleJson` (the schedule in the game's units and axes),
+ *   `gameRuntimeData` with `encodeRuntimeJson` / `encodeRuntimeBinary` (bodies and the ship's path
+ *   as Chebyshev tracks) and `openRuntimeEphemeris` (the reader a game copies).
  * - Errors: InputError (a bad argument: `field`, `rule`), ValidationError (a bad document:
  *   `issues`, each with a `path` and a `rule`), SolverError (numerical failure), FileError.
  */
@@ -23,19 +28,28 @@ export type { DispersionOptions, DispersionResult, NBodyResult } from '../../cor
 export { targetPlan, truthReport } from '../../core/target/index.ts';
 export type { TargetOptions, TargetResult, TruthReport } from '../../core/target/index.ts';
 export { planRoute } from '../../core/route/index.ts';
+export { gameStepCheck } from '../../core/gamestep/index.ts';
+export type { GamePhysicsInput, GameStepResult } from '../../core/gamestep/index.ts';
+export { gameRuntimeData, retargetForGame } from '../../core/handoff/index.ts';
+export type { GameSchedule, RetargetOptions, RetargetResult, ScheduledBurn } from '../../core/handoff/index.ts';
+export { decodeRuntimeBinary, decodeRuntimeJson, encodeRuntimeBinary, encodeRuntimeJson, openRuntimeEphemeris } from '../../core/runtime/index.ts';
+export type { RuntimeEphemeris, RuntimeEphemerisReader } from '../../core/runtime/index.ts';
 export type { RouteIntent, RouteOptions, RouteResult } from '../../core/route/index.ts';
 export {
   budgetReport,
   burnTableCsv,
   ephemerisCsv,
+  gameScheduleCsv,
+  gameScheduleJson,
   parsePlanFile,
   parseQuantity,
   parseSystemFile,
   PLAN_FORMAT,
   PLAN_VERSION,
+  readGameScheduleJson,
   serializePlanFile,
   writeOem,
 } from '../../core/io/index.ts';
-export type { PlanSystemRef } from '../../core/io/index.ts';
+export type { GameScheduleOptions, PlanSystemRef } from '../../core/io/index.ts';
 export { FileError, loadPlanFile, loadSystemFile } from '../node/files.ts';
 export type { LoadedPlan, LoadedSystem } from '../node/files.ts';
