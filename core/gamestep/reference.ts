@@ -56,6 +56,8 @@ export interface ReferenceSettings {
   /** 'all': frame body schedule — frame body frames.central[k] from frames.t[k] on (t ascending, t[0] ≤ start). */
   frames: { t: number[]; central: number[] };
   rtol?: number;
+  /** RK45 step budget per piece (default REFERENCE_MAX_STEPS). */
+  maxSteps?: number;
   atol?: number;
   signal?: { aborted: boolean };
 }
@@ -196,7 +198,7 @@ export function flyReference(
     }
     const f = forces.deriv;
     const events = s.gravity === 'central' ? soiEvents(system, c) : [];
-    const res = rk45(f, t, y, tb, { rtol, atol, dense: keepDense, events, maxSteps: REFERENCE_MAX_STEPS, signal: s.signal });
+    const res = rk45(f, t, y, tb, { rtol, atol, dense: keepDense, events, maxSteps: s.maxSteps ?? REFERENCE_MAX_STEPS, signal: s.signal });
     stats.steps += res.stats.accepted;
     stats.rejected += res.stats.rejected;
     stats.fevals += res.stats.fevals;

@@ -18,7 +18,7 @@
  * retargeting measures it once per region and passes it back in (`generated`); mode 'every-step'
  * flies every step of the flight.
  */
-import { InputError } from '../math/index.ts';
+import { InputError, WaymarkError } from '../math/index.ts';
 import { bodyState, type StarSystem } from '../system/index.ts';
 import {
   GameFlight,
@@ -73,8 +73,10 @@ export interface GameRun {
   probes: Map<number, GameState>;
   impact: { t: number; body: number } | null;
   entries: { t: number; body: number }[];
-  /** Time the state became non-finite, or null. */
+  /** Time the flight could not be followed further (its state became non-finite, or a long coast could not be carried), or null. */
   divergedAt: number | null;
+  /** Why, in words. */
+  stopReason: string | null;
   /** Steps at the game's step, and coarse steps of extrapolations. */
   steps: number;
   coarseSteps: number;
@@ -115,9 +117,17 @@ export function stepIndex(ctx: RunContext, t: number): number {
   return Math.round((t - ctx.gridT0) / ctx.hs);
 }
 
+/**
+ * The reference dynamics' settings for a schedule. Step budget RETARGET_REFERENCE_STEPS: the demo's
+ * whole flight takes about 7,000 RK45 steps at rtol 1e-12, so a path needing a hundred times that
+ * grazes a body (a game step far too coarse) and is given up quickly.
+ */
 export function referenceSettings(ctx: RunContext, burns: GameBurn[], rtol?: number): ReferenceSettings {
-  return { ...ctx.prep.settings, burns, guidance: 'open-loop', rtol: rtol ?? ctx.prep.settings.rtol };
+  return { ...ctx.prep.settings, burns, guidance: 'open-loop', rtol: rtol ?? ctx.prep.settings.rtol, maxSteps: RETARGET_REFERENCE_STEPS };
 }
+
+/** RK45 steps per reference piece in a retargeting (see referenceSettings). */
+export const RETARGET_REFERENCE_STEPS = 200_000;
 
 function newFlight(ctx: RunContext, burns: GameBurn[]): GameFlight {
   const p = ctx.physics;
@@ -175,6 +185,7 @@ export function flyGame(ctx: RunContext, burns: GameBurn[], start: GameState, tE
     impact: null,
     entries: [],
     divergedAt: null,
+    stopReason: null,
     steps: 0,
     coarseSteps: 0,
     regions: [],
@@ -235,6 +246,7 @@ export function flyGame(ctx: RunContext, burns: GameBurn[], start: GameState, tE
     if (status === 'cancelled') throw new InputError('signal', 'the flight was cancelled');
     if (status === 'diverged') {
       run.divergedAt = flight.t;
+      run.stopReason = 'its state stopped being finite';
       return false;
     }
     return true;
@@ -249,67 +261,76 @@ export function flyGame(ctx: RunContext, burns: GameBurn[], start: GameState, tE
     if (!(tb > ta)) continue;
     flight.state(abs);
     const c0 = flight.central;
-    // (1) carried: the game's state through the region with the reference dynamics
-    const carriedFlight = flyReference(referenceSettings(ctx, burns), ta, abs, c0, tb, true);
-    const carried = new ReferenceTrack(system, carriedFlight);
-    const end = new Float64Array(6);
-    const cEnd = carried.at(tb, end);
-    // (2) generated: coarse flights at H and 2H, scaled to the game's step
-    let gen = o.generated?.get(r.t0);
-    let region: RunRegion | null = null;
-    if (gen && gen.length === 0) {
-      // measured before: the order did not hold, so the region is flown at every step
-      run.regions.push({ t0: ta, t1: tb, how: 'flown', coarse: [0, 0], order: Number.NaN, generatedPosition: 0, generatedVelocity: 0 });
-      continue;
-    }
-    if (!gen) {
-      const steps = (tb - ta) / hs;
-      const m = Math.max(1, Math.ceil(Math.log2(steps / (o.coarseSteps ?? DEFAULT_COARSE_STEPS))));
-      const H = hs * 2 ** m;
-      const e1 = coarseError(ctx, burns, ta, abs, c0, tb, H, end, run, o.signal);
-      const e2 = coarseError(ctx, burns, ta, abs, c0, tb, 2 * H, end, run, o.signal);
-      const n1 = Math.hypot(e1[0], e1[1], e1[2]);
-      const n2 = Math.hypot(e2[0], e2[1], e2[2]);
-      const p = n1 > 0 && n2 > 0 ? Math.log2(n2 / n1) : Number.NaN;
-      const order = METHOD_ORDER[ctx.physics.integrator];
-      const scaled = Number.isFinite(p) && Math.abs(p - order) <= ORDER_SLACK;
-      region = {
-        t0: ta,
-        t1: tb,
-        how: scaled ? 'scaled' : 'flown',
-        coarse: [H, 2 * H],
-        order: Number.isFinite(p) ? p : 0,
-        generatedPosition: 0,
-        generatedVelocity: 0,
-      };
-      if (scaled) {
-        const f = (hs / H) ** p;
-        gen = Float64Array.from(e1, (x) => x * f);
-        o.generated?.set(r.t0, gen);
-      } else {
-        o.generated?.set(r.t0, new Float64Array(0));
+    try {
+      // (1) carried: the game's state through the region with the reference dynamics
+      const carriedFlight = flyReference(referenceSettings(ctx, burns), ta, abs, c0, tb, true);
+      const carried = new ReferenceTrack(system, carriedFlight);
+      const end = new Float64Array(6);
+      const cEnd = carried.at(tb, end);
+      // (2) generated: coarse flights at H and 2H, scaled to the game's step
+      let gen = o.generated?.get(r.t0);
+      let region: RunRegion | null = null;
+      if (gen && gen.length === 0) {
+        // measured before: the order did not hold, so the region is flown at every step
+        run.regions.push({ t0: ta, t1: tb, how: 'flown', coarse: [0, 0], order: Number.NaN, generatedPosition: 0, generatedVelocity: 0 });
+        continue;
       }
-    } else {
-      region = { t0: ta, t1: tb, how: 'scaled', coarse: [0, 0], order: Number.NaN, generatedPosition: 0, generatedVelocity: 0 };
-    }
-    if (!gen) {
+      if (!gen) {
+        const steps = (tb - ta) / hs;
+        const m = Math.max(1, Math.ceil(Math.log2(steps / (o.coarseSteps ?? DEFAULT_COARSE_STEPS))));
+        const H = hs * 2 ** m;
+        const e1 = coarseError(ctx, burns, ta, abs, c0, tb, H, end, run, o.signal);
+        const e2 = coarseError(ctx, burns, ta, abs, c0, tb, 2 * H, end, run, o.signal);
+        const n1 = Math.hypot(e1[0], e1[1], e1[2]);
+        const n2 = Math.hypot(e2[0], e2[1], e2[2]);
+        const p = n1 > 0 && n2 > 0 ? Math.log2(n2 / n1) : Number.NaN;
+        const order = METHOD_ORDER[ctx.physics.integrator];
+        const scaled = Number.isFinite(p) && Math.abs(p - order) <= ORDER_SLACK;
+        region = {
+          t0: ta,
+          t1: tb,
+          how: scaled ? 'scaled' : 'flown',
+          coarse: [H, 2 * H],
+          order: Number.isFinite(p) ? p : 0,
+          generatedPosition: 0,
+          generatedVelocity: 0,
+        };
+        if (scaled) {
+          const f = (hs / H) ** p;
+          gen = Float64Array.from(e1, (x) => x * f);
+          o.generated?.set(r.t0, gen);
+        } else {
+          o.generated?.set(r.t0, new Float64Array(0));
+        }
+      } else {
+        region = { t0: ta, t1: tb, how: 'scaled', coarse: [0, 0], order: Number.NaN, generatedPosition: 0, generatedVelocity: 0 };
+      }
+      if (!gen) {
+        run.regions.push(region);
+        continue; // flown at every step by the next flyTo
+      }
+      region.generatedPosition = Math.hypot(gen[0], gen[1], gen[2]);
+      region.generatedVelocity = Math.hypot(gen[3], gen[4], gen[5]);
       run.regions.push(region);
-      continue; // flown at every step by the next flyTo
+      // samples through the region: carried + generated growing with the time flown (linear in τ)
+      for (let t = Math.max(nextSample, ta); t < tb; t += sampleEvery) {
+        carried.at(t, tmp6);
+        const f = (t - ta) / (tb - ta);
+        for (let i = 0; i < 3; i++) tmp6[i] += gen[i] * f;
+        sample(t, true, tmp6);
+        nextSample = t + sampleEvery;
+      }
+      for (let i = 0; i < 6; i++) end[i] += gen[i];
+      flight.reset(tb, end, ctx.physics.gravity === 'central' ? cEnd : c0);
+      if (flight.central !== lastCentral) lastCentral = flight.central;
+    } catch (e) {
+      if (!(e instanceof WaymarkError) || o.signal?.aborted) throw e;
+      // a path the reference dynamics cannot follow through the coast (a near-collision, a step budget spent)
+      run.divergedAt = ta;
+      run.stopReason = `its path through the long coast could not be followed (${e.message})`;
+      ok = false;
+      break;
     }
-    region.generatedPosition = Math.hypot(gen[0], gen[1], gen[2]);
-    region.generatedVelocity = Math.hypot(gen[3], gen[4], gen[5]);
-    run.regions.push(region);
-    // samples through the region: carried + generated growing with the time flown (linear in τ)
-    for (let t = Math.max(nextSample, ta); t < tb; t += sampleEvery) {
-      carried.at(t, tmp6);
-      const f = (t - ta) / (tb - ta);
-      for (let i = 0; i < 3; i++) tmp6[i] += gen[i] * f;
-      sample(t, true, tmp6);
-      nextSample = t + sampleEvery;
-    }
-    for (let i = 0; i < 6; i++) end[i] += gen[i];
-    flight.reset(tb, end, ctx.physics.gravity === 'central' ? cEnd : c0);
-    if (flight.central !== lastCentral) lastCentral = flight.central;
   }
   if (ok) flyTo(tEnd);
   flight.state(run.end.abs);

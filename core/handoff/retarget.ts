@@ -55,10 +55,12 @@ export const LEG_CLEARANCE_STEPS = 4;
 export const RECOMMEND_HALVINGS = 4;
 /** A leg is done when every goal is within this fraction of its tolerance (or within the tolerance once the flights are spent). */
 export const OUTER_AIM = 0.25;
+/** Each game flight must bring the leg's misses (norm, in tolerances) below this fraction of the last one's, or the leg stops (a spread burn's leg shrinks them by a third to a half per flight). */
+export const CONVERGENCE_RATIO = 0.9;
 /** The reference solve between game flights aims this close (in tolerances): the defect moves a little between flights. */
 export const INNER_AIM = 0.05;
 /** Newton iterations of a reference solve at most. */
-export const INNER_ITERATIONS = 12;
+export const INNER_ITERATIONS = 8;
 /** Finite-difference step of a Δv component, m/s (changes the demo's B-plane point by about 150 km: linear, far above the reference's noise). */
 export const DIFFERENCE_STEP = 1e-3;
 /** Relative tolerance of the reference flights the defect is taken against (tighter than any goal needs). */
@@ -367,6 +369,7 @@ export function retargetForGame(system: StarSystem, plan: Plan, options: Retarge
     // the defect's own slope in the controls (Broyden's rank-one secant update from successive game flights)
     const n = x.length;
     const D = new Float64Array(m * n);
+    let lastMissNorm = Number.POSITIVE_INFINITY;
     let prevX: Float64Array | null = null;
     let prevD: Float64Array | null = null;
     for (let it = 0; ; it++) {
@@ -387,8 +390,22 @@ export function retargetForGame(system: StarSystem, plan: Plan, options: Retarge
       // meant (an arrival late by the whole time tolerance costs the capture burn m/s)
       if (allMet(goals, gGame, OUTER_AIM) || (report.met && it + 1 >= maxFlights)) break;
       if (it + 1 >= maxFlights) break;
+      // a game flight that does not bring the misses well down means the game's physics is not
+      // near the reference's here (a step too coarse): more flights would not help
+      const missNorm = Math.hypot(...Array.from(gGame, (g, i) => (g - goals[i].wanted) / goals[i].tolerance));
+      if (it > 0 && !(missNorm < CONVERGENCE_RATIO * lastMissNorm)) {
+        notes.push(`${leg.name}: the game's misses stopped shrinking (${lastMissNorm.toPrecision(3)} → ${missNorm.toPrecision(3)} tolerances)`);
+        break;
+      }
+      lastMissNorm = missNorm;
       const refBefore = w.stats.referenceFlights;
-      readGoals(system, referenceView(w, gameBurnsNow, legStart, run.end.t), goals, gRef);
+      try {
+        readGoals(system, referenceView(w, gameBurnsNow, legStart, run.end.t), goals, gRef);
+      } catch (e) {
+        if (!(e instanceof WaymarkError) || signal?.aborted) throw e;
+        notes.push(`${leg.name}: ${e.message}`);
+        break;
+      }
       const defect = gGame.map((g, i) => g - gRef[i]);
       if (prevX && prevD) broydenUpdate(D, m, n, prevX, x, prevD, defect);
       prevX = Float64Array.from(x);
@@ -410,7 +427,7 @@ export function retargetForGame(system: StarSystem, plan: Plan, options: Retarge
           { scale: 1, aim: INNER_AIM, maxIterations: INNER_ITERATIONS, step: DIFFERENCE_STEP },
         );
       } catch (e) {
-        if (!(e instanceof WaymarkError)) throw e;
+        if (!(e instanceof WaymarkError) || signal?.aborted) throw e;
         notes.push(`${leg.name}: ${e.message}`);
         break;
       }
