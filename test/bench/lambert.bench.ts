@@ -7,8 +7,13 @@
  * Mechanics for Engineering Students, Algorithm 5.2; bisection bracket as in Vallado,
  * Fundamentals of Astrodynamics and Applications, Algorithm 58), written here, independent of
  * core/orbit/lambert.ts. The two are also compared for agreement.
+ *
+ * C reference, also in the same run when gcc is present: the same method as
+ * core/orbit/lambert.ts written plainly in C (test/bench/c/lambert.c), built with gcc -O2, on
+ * the same cases; its answers are compared with the TypeScript ones.
  */
 import { lambertAll, lambertSingleRev, solveLambert } from '../../core/orbit/lambert.ts';
+import { buildC, runC } from './cref.ts';
 import { printTable, timeMedian } from './table.ts';
 
 const MU_SUN = 1.32712440018e20;
@@ -189,6 +194,31 @@ export async function run(): Promise<void> {
     1,
   );
   const izzoRate = reps / (tIzzo.median / 1000);
+
+  // The same method in C (-O2) on the same cases and repetitions.
+  let cRate: number | string = '—';
+  let cRatio: number | string = '—';
+  let cDiff: number | string = '—';
+  let cIterSame: number | string = '—';
+  const bin = buildC('lambert');
+  const c = bin ? runC(bin, single, reps) : null;
+  if (c) {
+    cRate = c.figures[0];
+    cRatio = c.figures[0] / izzoRate;
+    let worst = 0;
+    let same = 0;
+    for (let i = 0; i < n; i++) {
+      const j = 7 * i;
+      const it = lambertSingleRev(MU_SUN, single[j], single[j + 1], single[j + 2], single[j + 3], single[j + 4], single[j + 5], single[j + 6], false, o1, o2);
+      if (it === c.out[j + 6]) same++;
+      if (it < 0 || c.out[j + 6] < 0) continue;
+      const s1 = Math.hypot(o1[0], o1[1], o1[2]);
+      const s2 = Math.hypot(o2[0], o2[1], o2[2]);
+      for (let k = 0; k < 3; k++) worst = Math.max(worst, Math.abs(o1[k] - c.out[j + k]) / s1, Math.abs(o2[k] - c.out[j + 3 + k]) / s2);
+    }
+    cDiff = worst;
+    cIterSame = same;
+  }
   const refRate = refReps / (tRef.median / 1000);
 
   // Multi-revolution: up to 3 revolutions, flights of 1–5 years so that several counts exist.
@@ -231,6 +261,14 @@ export async function run(): Promise<void> {
     }
   }
 
+  printTable(
+    ['figure', 'TypeScript', 'C -O2, same method (test/bench/c/lambert.c)', 'ratio TS time / C time'],
+    [
+      ['single-revolution solves / s', izzoRate, cRate, cRatio],
+      ['max |Δv| / |v| per component, TS vs C', cDiff, '—', '—'],
+      [`cases with the same iteration count (of ${n})`, cIterSame, '—', '—'],
+    ],
+  );
   printTable(
     ['figure', 'Izzo (core/orbit/lambert.ts)', 'reference (universal variables, bisection)', 'ratio'],
     [

@@ -3,13 +3,18 @@
  * threads, and the wall time of a 1000 × 1000 grid (departure and arrival Δv per cell) on two
  * workers against the 1 s target of the Windows view. Reference measured in the same run: the
  * same cells through the allocating library calls (bodyState into fresh arrays, solveLambert,
- * hyperbolic.ts departure/arrival) on a subsample.
+ * hyperbolic.ts departure/arrival) on a subsample. C reference, in the same run when gcc is
+ * present: the same per-cell work written plainly in C (test/bench/c/porkchopCell.c, gcc -O2)
+ * on the same grid, with its answers compared cell by cell.
  */
 import { readFileSync } from 'node:fs';
 import { parseSystemFile } from '../../core/io/systemFile.ts';
 import { arrival, departure } from '../../core/orbit/hyperbolic.ts';
 import { solveLambert } from '../../core/orbit/lambert.ts';
 import { cellTimes, computePorkchop, type PorkchopGrid } from '../../core/search/porkchop.ts';
+import { CELL_DV_ARRIVE, CELL_DV_DEPART, lastCell, prepareTransfer, transferMetric } from '../../core/search/transfer.ts';
+import { EPHEMERIS_STRIDE } from '../../core/system/ephemeris.ts';
+import { buildC, runC } from './cref.ts';
 import type { PorkchopRequest } from '../../core/search/request.ts';
 import { bodyState } from '../../core/system/ephemeris.ts';
 import { PorkchopPool } from '../../app/cli/pool.ts';
@@ -80,6 +85,39 @@ export async function run(): Promise<void> {
   reference(true);
   const tRef = await median(() => reference(false), 3);
   const refRate = sample.length / (tRef / 1e3);
+  const rate = (ms: number): number => cells / (ms / 1e3);
+
+  // The same per-cell work in C (-O2) on the same grid.
+  let cRate: number | string = '—';
+  let cRatio: number | string = '—';
+  let cDiff: number | string = '—';
+  const bin = buildC('porkchopCell');
+  const setup = prepareTransfer(system, request);
+  if (bin && setup.kind === 0 && setup.maxRevs === 0 && !setup.retrograde && setup.central === 0) {
+    const k = system.ephemeris.k;
+    const input = new Float64Array(14 + 2 * EPHEMERIS_STRIDE);
+    const r = setup.request;
+    input.set([setup.mu, setup.muFrom, setup.rPark, setup.vPark, setup.muTo, setup.rArrive, setup.vTarget, setup.flyby ? 1 : 0]);
+    input.set([r.depart.start, r.depart.end, r.depart.n, r.second.start, r.second.end, r.second.n], 8);
+    input.set(k.subarray(from * EPHEMERIS_STRIDE, (from + 1) * EPHEMERIS_STRIDE), 14);
+    input.set(k.subarray(to * EPHEMERIS_STRIDE, (to + 1) * EPHEMERIS_STRIDE), 14 + EPHEMERIS_STRIDE);
+    const c = runC(bin, input, 3);
+    if (c) {
+      cRate = c.figures[0];
+      cRatio = c.figures[0] / rate(tInThread);
+      // the grid stores float32; compare the C doubles with the TypeScript cell in double precision
+      let w = 0;
+      for (const [i, j] of sample) {
+        const { departure: t, tof } = cellTimes(g, i, j);
+        transferMetric(system, setup, t, tof);
+        const q = 2 * (i * r.second.n + j);
+        w = Math.max(w, Math.abs(lastCell[CELL_DV_DEPART] - c.out[q]) / c.out[q], Math.abs(lastCell[CELL_DV_ARRIVE] - c.out[q + 1]) / c.out[q + 1]);
+      }
+      cDiff = w;
+    }
+  } else if (bin) {
+    console.log('  (C reference skipped: it covers sibling bodies, single revolution, prograde only)');
+  }
 
   // worker pools: cold (pool start + first grid), then warm medians
   const t0 = performance.now();
@@ -93,10 +131,11 @@ export async function run(): Promise<void> {
   const t1 = await median(() => pool1.compute(system, request), 3);
   await pool1.close();
 
-  const rate = (ms: number): number => cells / (ms / 1e3);
   printTable(
     ['figure', 'value', 'reference', 'ref value', 'ratio'],
     [
+      ['cells/s, calling thread', rate(tInThread), 'C -O2, same per-cell work', cRate, cRatio],
+      ['max rel. Δv diff TS (double) vs C', cDiff, `${sample.length} cells`, '', ''],
       ['cells/s, calling thread', rate(tInThread), 'allocating path, same cells', refRate, rate(tInThread) / refRate],
       ['cells/s, 1 worker', rate(t1), 'calling thread', rate(tInThread), t1 > 0 ? tInThread / t1 : 0],
       ['cells/s, 2 workers', rate(t2), 'calling thread', rate(tInThread), tInThread / t2],
