@@ -11,6 +11,11 @@
  * fixed-step spans of the propagation front door use. Evaluation finds the step by binary search
  * over the stored step start times and allocates nothing when `out` is given.
  *
+ * DOP853 (dop853.ts) stores eight vectors per step (width 8), its 7th-order continuous extension
+ * in the same nested form continued (Hairer et al. §II.10, the CONTD8 evaluation):
+ *
+ *   y = r1 + θ·(r2 + (1−θ)·(r3 + θ·(r4 + (1−θ)·(r5 + θ·(r6 + (1−θ)·(r7 + θ·r8)))))).
+ *
  * Integration may run backward (t decreasing); the object covers [min, max] of tStart, tEnd.
  */
 import { InputError, requireFinite } from '../math/index.ts';
@@ -25,19 +30,23 @@ export class DenseOutput {
 
   private starts: Float64Array; // step start times t_k
   private widths: Float64Array; // signed step sizes h_k
-  private coef: Float64Array; // 5n per step: r1..r5
+  /** Coefficient vectors per step: 5 (r1..r5) or 8 (r1..r8). */
+  readonly width: 5 | 8;
+  private coef: Float64Array; // width·n per step
   private count = 0;
 
-  constructor(n: number, tStart: number, capacity = 64) {
+  constructor(n: number, tStart: number, capacity = 64, width: 5 | 8 = 5) {
     if (!Number.isInteger(n) || n < 1) throw new InputError('n', 'must be an integer >= 1', n);
     requireFinite('tStart', tStart);
+    if (width !== 5 && width !== 8) throw new InputError('width', 'must be 5 or 8', width);
     this.n = n;
+    this.width = width;
     this.tStart = tStart;
     this.tEnd = tStart;
     const cap = Math.max(1, capacity | 0);
     this.starts = new Float64Array(cap);
     this.widths = new Float64Array(cap);
-    this.coef = new Float64Array(cap * 5 * n);
+    this.coef = new Float64Array(cap * width * n);
   }
 
   /** Number of stored steps. */
@@ -46,15 +55,15 @@ export class DenseOutput {
   }
 
   /**
-   * Appends one step [t0, t0 + h] with its five coefficient vectors laid out r1..r5 in
-   * `coeffs` (length ≥ 5n) and moves tEnd to t0 + h. Steps must be contiguous and in the
+   * Appends one step [t0, t0 + h] with its `width` coefficient vectors laid out r1..r5 (or
+   * r1..r8) in `coeffs` (length ≥ width·n) and moves tEnd to t0 + h. Steps must be contiguous and in the
    * direction of integration.
    */
   appendStep(t0: number, h: number, coeffs: ArrayLike<number>): void {
     const k = this.slot();
     this.starts[k] = t0;
     this.widths[k] = h;
-    const m = 5 * this.n;
+    const m = this.width * this.n;
     const base = k * m;
     const c = this.coef;
     for (let i = 0; i < m; i++) c[base + i] = coeffs[i];
@@ -69,7 +78,9 @@ export class DenseOutput {
     const k = this.slot();
     this.starts[k] = t0;
     this.widths[k] = h;
-    hermiteCoefficients(this.n, h, y0, f0, y1, f1, this.coef, k * 5 * this.n);
+    const base = k * this.width * this.n;
+    hermiteCoefficients(this.n, h, y0, f0, y1, f1, this.coef, base);
+    this.coef.fill(0, base + 5 * this.n, base + this.width * this.n);
     this.tEnd = t0 + h;
   }
 
@@ -87,7 +98,8 @@ export class DenseOutput {
 
   /** Evaluates stored step k at θ ∈ [0, 1] (no range checks; for the integrators' own use). */
   evalStep(k: number, theta: number, out: Float64Array): Float64Array {
-    return evalCoefficients(this.n, this.coef, k * 5 * this.n, theta, out);
+    const m = this.width * this.n;
+    return this.width === 8 ? evalCoefficients8(this.n, this.coef, k * m, theta, out) : evalCoefficients(this.n, this.coef, k * m, theta, out);
   }
 
   /** Moves tEnd back to t (inside the last step), e.g. when a terminal event stops the solve. */
@@ -118,7 +130,7 @@ export class DenseOutput {
       const w = new Float64Array(cap);
       w.set(this.widths);
       this.widths = w;
-      const c = new Float64Array(cap * 5 * this.n);
+      const c = new Float64Array(cap * this.width * this.n);
       c.set(this.coef);
       this.coef = c;
     }
@@ -135,6 +147,20 @@ export function evalCoefficients(n: number, c: ArrayLike<number>, base: number, 
   for (let i = 0; i < n; i++) {
     const j = base + i;
     out[i] = c[j] + theta * (c[j + n] + th1 * (c[j + 2 * n] + theta * (c[j + 3 * n] + th1 * c[j + 4 * n])));
+  }
+  return out;
+}
+
+/**
+ * Evaluates one step's coefficients r1..r8 (stored from `base`, n each) at θ, DOP853's form:
+ * y = r1 + θ·(r2 + (1−θ)·(r3 + θ·(r4 + (1−θ)·(r5 + θ·(r6 + (1−θ)·(r7 + θ·r8)))))).
+ */
+export function evalCoefficients8(n: number, c: ArrayLike<number>, base: number, theta: number, out: Float64Array): Float64Array {
+  const th1 = 1 - theta;
+  for (let i = 0; i < n; i++) {
+    const j = base + i;
+    const p = c[j + 4 * n] + theta * (c[j + 5 * n] + th1 * (c[j + 6 * n] + theta * c[j + 7 * n]));
+    out[i] = c[j] + theta * (c[j + n] + th1 * (c[j + 2 * n] + theta * (c[j + 3 * n] + th1 * p)));
   }
   return out;
 }

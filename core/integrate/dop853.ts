@@ -8,17 +8,17 @@
  *
  * - FSAL: f at the new point is the 1st stage of the next step (12 evaluations per step).
  * - Same options, result shape and statuses as rk45.ts, so callers can switch.
- * - Dense output and event location use the cubic Hermite interpolant through (y, f) at the
- *   step ends (dense.ts hermiteCoefficients; 4th order), NOT the book's 7th-order continuous
- *   extension (its three extra stages are not implemented). Between steps it is far less
- *   accurate than the step ends: use rk45 where dense output at tight tolerances matters.
+ * - Dense output of order 7 (Hairer et al. §II.10, the continuous extension of the DOP853 code):
+ *   three extra stages per accepted step, evaluated only when dense output is kept or an event
+ *   is to be located (so fevals counts them then); stored as eight vectors per step (dense.ts,
+ *   width 8). Events are refined on the same interpolant.
  * - Non-finite derivative values reject the trial step and shrink it; a non-finite derivative at
  *   the initial point throws SolverError 'non-finite'.
  * - The state update uses compensated summation, so round-off stays near one ulp over long runs.
  * - The step loop allocates nothing: stage buffers are Float64Arrays created once per solve.
  */
 import { InputError, SolverError, requireFinite } from '../math/index.ts';
-import { DenseOutput, hermiteCoefficients } from './dense.ts';
+import { DenseOutput } from './dense.ts';
 import { EventLocator, checkEvents } from './eventLocator.ts';
 import type { OdeFunction, SolveStats } from './ode.ts';
 import { DEFAULT_ATOL, DEFAULT_MAX_STEPS, DEFAULT_RTOL, MIN_RTOL, type RK45Options, type RK45Result, type RK45Status } from './rk45.ts';
@@ -40,10 +40,10 @@ const UNDERFLOW_ULPS = 16;
 /** Nodes c_1..c_12 of the DOP853 tableau (Hairer et al. §II.10, DOP853 code). */
 export const DOP853_C: readonly number[] = [
   0,
-  0.526001519587677318785587544488e-1,
-  0.789002279381515978178381316732e-1,
-  0.11835034190722739672675719751,
-  0.28164965809277260327324280249,
+  0.05260015195876773,
+  0.0789002279381516,
+  0.1183503419072274,
+  0.2816496580927726,
   1 / 3,
   0.25,
   4 / 13,
@@ -55,48 +55,80 @@ export const DOP853_C: readonly number[] = [
 
 /** Rows a_i (i = 2..12, then the weights b as row 13) of the DOP853 tableau, full length 12 each. */
 export const DOP853_A: readonly (readonly number[])[] = [
-  [0.526001519587677318785587544488e-1],
-  [1.97250569845378994544595329183e-2, 5.91751709536136983633785987549e-2],
-  [2.95875854768068491816892993775e-2, 0, 8.87627564304205475450678981324e-2],
-  [2.41365134159266685502369798665e-1, 0, -8.84549479328286085344864962717e-1, 9.24834003261792003115737966543e-1],
-  [3.7037037037037037037037037037e-2, 0, 0, 1.70828608729473871279604482173e-1, 1.25467687566822425016691814123e-1],
-  [3.7109375e-2, 0, 0, 1.70252211019544039314978060272e-1, 6.02165389804559606850219397283e-2, -1.7578125e-2],
+  [0.05260015195876773],
+  [0.0197250569845379, 0.0591751709536137],
+  [0.02958758547680685, 0, 0.08876275643042054],
+  [0.2413651341592667, 0, -0.8845494793282861, 0.924834003261792],
+  [0.037037037037037035, 0, 0, 0.17082860872947386, 0.12546768756682242],
+  [3.7109375e-2, 0, 0, 0.17025221101954405, 0.06021653898045596, -1.7578125e-2],
+  [0.03709200011850479, 0, 0, 0.17038392571223998, 0.10726203044637328, -0.015319437748624402, 0.008273789163814023],
+  [0.6241109587160757, 0, 0, -3.3608926294469414, -0.868219346841726, 27.59209969944671, 20.154067550477894, -43.48988418106996],
+  [0.47766253643826434, 0, 0, -2.4881146199716677, -0.590290826836843, 21.230051448181193, 15.279233632882423, -33.28821096898486, -0.020331201708508627],
   [
-    3.70920001185047927108779319836e-2, 0, 0, 1.70383925712239993810214054705e-1, 1.07262030446373284651809199168e-1, -1.53194377486244017527936158236e-2,
-    8.27378916381402288758473766002e-3,
+    -0.9371424300859873, 0, 0, 5.186372428844064, 1.0914373489967295, -8.149787010746927, -18.52006565999696, 22.739487099350505, 2.4936055526796523,
+    -3.0467644718982196,
   ],
   [
-    6.24110958716075717114429577812e-1, 0, 0, -3.36089262944694129406857109825, -8.68219346841726006818189891453e-1, 2.75920996994467083049415600797e1,
-    2.01540675504778934086186788979e1, -4.34898841810699588477366255144e1,
-  ],
-  [
-    4.77662536438264365890433908527e-1, 0, 0, -2.48811461997166764192642586468, -5.90290826836842996371446475743e-1, 2.12300514481811942347288949897e1,
-    1.52792336328824235832596922938e1, -3.32882109689848629194453265587e1, -2.03312017085086261358222928593e-2,
-  ],
-  [
-    -9.3714243008598732571704021658e-1, 0, 0, 5.18637242884406370830023853209, 1.09143734899672957818500254654, -8.14978701074692612513997267357,
-    -1.85200656599969598641566180701e1, 2.27394870993505042818970056734e1, 2.49360555267965238987089396762, -3.0467644718982195003823669022,
-  ],
-  [
-    2.27331014751653820792359768449, 0, 0, -1.05344954667372501984066689879e1, -2.00087205822486249909675718444, -1.79589318631187989172765950534e1,
-    2.79488845294199600508499808837e1, -2.85899827713502369474065508674, -8.87285693353062954433549289258, 1.23605671757943030647266201528e1,
-    6.43392746015763530355970484046e-1,
+    2.273310147516538, 0, 0, -10.53449546673725, -2.0008720582248625, -17.9589318631188, 27.94888452941996, -2.8589982771350235, -8.87285693353063,
+    12.360567175794303, 0.6433927460157636,
   ],
 ];
 
 /** 8th-order weights b_1..b_12. */
 export const DOP853_B: readonly number[] = [
-  5.42937341165687622380535766363e-2, 0, 0, 0, 0, 4.45031289275240888144113950566, 1.89151789931450038304281599044, -5.8012039600105847814672114227,
-  3.1116436695781989440891606237e-1, -1.52160949662516078556178806805e-1, 2.01365400804030348374776537501e-1, 4.47106157277725905176885569043e-2,
+  0.054293734116568765, 0, 0, 0, 0, 4.450312892752409, 1.8915178993145003, -5.801203960010585, 0.3111643669578199, -0.1521609496625161, 0.20136540080403034,
+  0.04471061572777259,
 ];
 
 /** 3rd-order embedded weights: non-zero b̂_1, b̂_9, b̂_12 (DOP853 BHH1..3). */
-export const DOP853_BHH: readonly number[] = [0.244094488188976377952755905512, 0.733846688281611857341361741547, 0.220588235294117647058823529412e-1];
+export const DOP853_BHH: readonly number[] = [0.2440944881889764, 0.7338466882816118, 0.022058823529411766];
 
 /** 5th-order error coefficients ER_1..ER_12 (b − b̂5). */
 export const DOP853_ER: readonly number[] = [
-  0.1312004499419488073250102996e-1, 0, 0, 0, 0, -0.1225156446376204440720569753e1, -0.4957589496572501915214079952, 0.1664377182454986536961530415e1,
-  -0.350328848749973681688648729, 0.3341791187130174790297318841, 0.8192320648511571246570742613e-1, -0.2235530786388629525884427845e-1,
+  0.01312004499419488, 0, 0, 0, 0, -1.2251564463762044, -0.4957589496572502, 1.6643771824549864, -0.35032884874997366, 0.3341791187130175, 0.08192320648511571,
+  -0.022355307863886294,
+];
+
+/** Extra stages 14..16 for the dense output: nodes c_14..c_16. */
+export const DOP853_C_EXTRA: readonly number[] = [0.1, 0.2, 7 / 9];
+
+/**
+ * Rows a_14..a_16 over k1..k15 (k13 = f at the new point), full length 13..15
+ * (DOP853 code, A141..A1615).
+ */
+export const DOP853_A_EXTRA: readonly (readonly number[])[] = [
+  [
+    0.056167502283047954, 0, 0, 0, 0, 0, 0.25350021021662483, -0.2462390374708025, -0.12419142326381637, 0.15329179827876568, 0.00820105229563469,
+    0.007567897660545699, -8.298e-3,
+  ],
+  [
+    0.03183464816350214, 0, 0, 0, 0, 0.028300909672366776, 0.053541988307438566, -0.05492374857139099, 0, 0, -0.00010834732869724932, 0.0003825710908356584,
+    -0.00034046500868740456, 0.1413124436746325,
+  ],
+  [
+    -0.42889630158379194, 0, 0, 0, 0, -4.697621415361164, 7.683421196062599, 4.06898981839711, 0.3567271874552811, 0, 0, 0, -0.0013990241651590145,
+    2.9475147891527724, -9.15095847217987,
+  ],
+];
+
+/** Dense output rows d_4..d_7 over k1..k16 (DOP853 code, D41..D716); r5..r8 = h·Σ d_ij k_j. */
+export const DOP853_D: readonly (readonly number[])[] = [
+  [
+    -8.428938276109013, 0, 0, 0, 0, 0.5667149535193777, -3.0689499459498917, 2.38466765651207, 2.117034582445028, -0.871391583777973, 2.2404374302607883,
+    0.6315787787694688, -0.08899033645133331, 18.148505520854727, -9.194632392478356, -4.436036387594894,
+  ],
+  [
+    10.427508642579134, 0, 0, 0, 0, 242.28349177525817, 165.20045171727028, -374.5467547226902, -22.113666853125306, 7.733432668472264, -30.674084731089398,
+    -9.332130526430229, 15.697238121770845, -31.139403219565178, -9.35292435884448, 35.81684148639408,
+  ],
+  [
+    19.985053242002433, 0, 0, 0, 0, -387.0373087493518, -189.17813819516758, 527.8081592054236, -11.57390253995963, 6.8812326946963, -1.0006050966910838,
+    0.7777137798053443, -2.778205752353508, -60.19669523126412, 84.32040550667716, 11.99229113618279,
+  ],
+  [
+    -25.69393346270375, 0, 0, 0, 0, -154.18974869023643, -231.5293791760455, 357.6391179106141, 93.40532418362432, -37.45832313645163, 104.0996495089623,
+    29.8402934266605, -43.53345659001114, 96.32455395918828, -39.17726167561544, -149.72683625798564,
+  ],
 ];
 
 interface Settings {
@@ -161,7 +193,7 @@ export function dop853(f: OdeFunction, t0: number, y0: ArrayLike<number>, tEnd: 
   const stats: SolveStats = { accepted: 0, rejected: 0, fevals: 0 };
   const y = Float64Array.from(y0 as ArrayLike<number>);
   const locator = new EventLocator(events, n, 'dop853');
-  const dense = options.dense ? new DenseOutput(n, t0) : undefined;
+  const dense = options.dense ? new DenseOutput(n, t0, 64, 8) : undefined;
   if (span === 0) {
     return { t: t0, y, status: 'done', message: 'tEnd equals t0: nothing to integrate', stats, events: locator.hits, dense, hNext: 0 };
   }
@@ -178,15 +210,16 @@ export function dop853(f: OdeFunction, t0: number, y0: ArrayLike<number>, tEnd: 
   const s: Settings = { n, tEnd, dir, rtol, atol, maxStep, minStep, maxSteps };
   const h = options.h0 !== undefined ? Math.min(options.h0, maxStep) : initialStep(f, t0, y, k1, s, stats);
 
-  // Stage buffers: k[0..11] = k1..k12, k[12] = f at the new point (FSAL, swapped with k[0]).
+  // Stage buffers: k[0..11] = k1..k12, k[12] = f at the new point (FSAL, swapped with k[0]),
+  // k[13..15] = the dense output's extra stages.
   const k: Float64Array[] = [k1];
-  for (let j = 1; j < 13; j++) k.push(new Float64Array(n));
+  for (let j = 1; j < 16; j++) k.push(new Float64Array(n));
   let ycur = y;
   let ynew = new Float64Array(n);
   const ys = new Float64Array(n);
   let comp = new Float64Array(n);
   let compNew = new Float64Array(n);
-  const rc = new Float64Array(5 * n);
+  const rc = new Float64Array(8 * n);
   const A = DOP853_A;
   const C = DOP853_C;
   const B = DOP853_B;
@@ -325,13 +358,13 @@ export function dop853(f: OdeFunction, t0: number, y0: ArrayLike<number>, tEnd: 
 
     let rcReady = false;
     if (dense) {
-      hermiteCoefficients(n, hs, ycur, ka, ynew, kn, rc);
+      denseCoeffs(f, n, t, hs, ycur, ynew, k, ys, rc, stats);
       dense.appendStep(t, hs, rc);
       rcReady = true;
     }
     if (locator.active && locator.detect(tn, ynew)) {
-      if (!rcReady) hermiteCoefficients(n, hs, ycur, ka, ynew, kn, rc);
-      const stopAt = locator.locate(t, hs, tn, ynew, rc);
+      if (!rcReady) denseCoeffs(f, n, t, hs, ycur, ynew, k, ys, rc, stats);
+      const stopAt = locator.locate(t, hs, tn, ynew, rc, 8);
       if (!Number.isNaN(stopAt)) {
         const hit = locator.hits[locator.hits.length - 1];
         ycur.set(hit.y);
@@ -365,6 +398,58 @@ export function dop853(f: OdeFunction, t0: number, y0: ArrayLike<number>, tEnd: 
     }
   }
   return { t, y: Float64Array.from(ycur), status, message, stats, events: locator.hits, dense, hNext: dir * hh };
+}
+
+// The 7th-order continuous extension of the accepted step from (y, k) to ynew, k[12] = f(ynew)
+// (Hairer et al. §II.10, DOP853 code): three extra stages into k[13..15], then r1..r8 into rc.
+function denseCoeffs(
+  f: OdeFunction,
+  n: number,
+  t: number,
+  hs: number,
+  y: Float64Array,
+  ynew: Float64Array,
+  k: Float64Array[],
+  ys: Float64Array,
+  rc: Float64Array,
+  stats: SolveStats,
+): void {
+  for (let st = 0; st < 3; st++) {
+    const row = DOP853_A_EXTRA[st];
+    const m = row.length;
+    for (let i = 0; i < n; i++) {
+      let acc = 0;
+      for (let j = 0; j < m; j++) {
+        const a = row[j];
+        if (a !== 0) acc += a * k[j][i];
+      }
+      ys[i] = y[i] + hs * acc;
+    }
+    f(t + DOP853_C_EXTRA[st] * hs, ys, k[13 + st]);
+  }
+  stats.fevals += 3;
+  const k1 = k[0];
+  const kn = k[12];
+  for (let i = 0; i < n; i++) {
+    const dy = ynew[i] - y[i];
+    const bspl = hs * k1[i] - dy;
+    rc[i] = y[i];
+    rc[n + i] = dy;
+    rc[2 * n + i] = bspl;
+    rc[3 * n + i] = dy - hs * kn[i] - bspl;
+  }
+  for (let r = 0; r < 4; r++) {
+    const row = DOP853_D[r];
+    const base = (4 + r) * n;
+    for (let i = 0; i < n; i++) {
+      let acc = 0;
+      for (let j = 0; j < 16; j++) {
+        const d = row[j];
+        if (d !== 0) acc += d * k[j][i];
+      }
+      rc[base + i] = hs * acc;
+    }
+  }
 }
 
 // Starting step size (Hairer et al. §II.4, the HINIT routine of the DOP853 code, order 8), RMS norms.

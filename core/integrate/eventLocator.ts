@@ -18,7 +18,7 @@
  */
 import { InputError, SolverError } from '../math/index.ts';
 import { brent } from '../math/index.ts';
-import { evalCoefficients } from './dense.ts';
+import { evalCoefficients, evalCoefficients8 } from './dense.ts';
 
 export interface EventSpec {
   /** Event function; an event is a zero crossing of g along the solution. Do not keep `y`. */
@@ -101,11 +101,12 @@ export class EventLocator {
 
   /**
    * After detect() returned true: refines the crossings of the step [tA, tA + hs] on the
-   * interpolant with coefficients rc (dense.ts layout), records hits in time order up to and
+   * interpolant with coefficients rc (dense.ts layout, width 5 or 8 vectors), records hits in time order up to and
    * including the first terminal one, and returns that terminal hit's time (NaN if none).
    * yB is the state at the step end (used exactly for a hit there).
    */
-  locate(tA: number, hs: number, tB: number, yB: Float64Array, rc: Float64Array): number {
+  locate(tA: number, hs: number, tB: number, yB: Float64Array, rc: Float64Array, width: 5 | 8 = 5): number {
+    const interp = width === 8 ? evalCoefficients8 : evalCoefficients;
     const n = this.n;
     const ys = this.ys;
     const cands = this.candidates;
@@ -124,7 +125,7 @@ export class EventLocator {
       const gs = (s: number): number => {
         if (s === tA) return gA;
         if (s === tB) return gB;
-        evalCoefficients(n, rc, 0, (s - tA) / hs, ys);
+        interp(n, rc, 0, (s - tA) / hs, ys);
         const v = g(s, ys);
         if (typeof v !== 'number' || !Number.isFinite(v)) throw this.nonFinite(i, s, v);
         return v;
@@ -137,7 +138,7 @@ export class EventLocator {
     for (const c of cands) {
       const y = new Float64Array(n);
       if (c.t === tB) y.set(yB);
-      else evalCoefficients(n, rc, 0, (c.t - tA) / hs, y);
+      else interp(n, rc, 0, (c.t - tA) / hs, y);
       const spec = this.events[c.index];
       const hit: EventHit = { index: c.index, t: c.t, y, direction: c.direction };
       if (spec.name !== undefined) hit.name = spec.name;
