@@ -3,18 +3,23 @@
  * a symplectic fixed-step method for a long span (default 10,000 years of the home world), and
  * what happened to each orbit.
  *
- * Method: Yoshida's 4th-order composition of leapfrog (default; Yoshida, Phys. Lett. A 150
- * (1990) 262, core/integrate/yoshida4.ts) or leapfrog itself, on `mutualAccel`
- * (core/integrate/gravity.ts), from the barycentric epoch states of `initialStates`
+ * Method: the Wisdom–Holman map (default; Wisdom & Holman, AJ 102 (1991) 1528,
+ * wisdomHolman.ts: Jacobi coordinates, star then planets outward, each planet's flown moons
+ * after it; h = shortest period / DEFAULT_WH_STEPS_PER_PERIOD), or, as the cross-check,
+ * Yoshida's 4th-order composition of leapfrog (Yoshida, Phys. Lett. A 150 (1990) 262,
+ * core/integrate/yoshida4.ts) or leapfrog itself on `mutualAccel` (core/integrate/gravity.ts), from the barycentric epoch states of `initialStates`
  * (nbodyEphemeris.ts: each conic read as the orbit of its body's subsystem barycentre).
  * Symplectic methods keep the energy error bounded over long runs (Hairer, Lubich & Wanner,
  * Geometric Numerical Integration, 2nd ed., ch. X); the run's relative energy error is
  * reported so the reader can judge the run.
- * Step: h = min over the flown bodies of T·(1 − e)^{3/2} / stepsPerOrbit (the periapsis
- * passage sets the time scale of an eccentric orbit).
+ * Step (Yoshida, leapfrog): h = min over the flown bodies of T·(1 − e)^{3/2} / stepsPerOrbit
+ * (the periapsis passage sets the time scale of an eccentric orbit). Wisdom–Holman integrates
+ * the Kepler part exactly, so its step is a fraction of the shortest period.
  *
  * Moons make the step small. With mergeMoons (default 'auto': when the run with moons would
- * need more than maxSteps steps) each planet and everything orbiting it fly as one body at the
+ * need more than maxSteps steps, or with Wisdom–Holman more than WH_MOON_STEP_FACTOR × the
+ * planets' steps — a moon flown by the map follows its planet through the interaction term,
+ * at leapfrog accuracy for the same step) each planet and everything orbiting it fly as one body at the
  * subsystem's barycentre with the subsystem's μ; the result says so and why.
  *
  * Reported, per body: osculating a, e, i about its parent (planets: the subsystem barycentre
@@ -41,11 +46,12 @@ import { InputError, SolverError, WaymarkError, requireFinite } from '../math/in
 import { fixedStepper } from '../integrate/index.ts';
 import { mutualAccel } from '../integrate/index.ts';
 import { stateToElements } from '../orbit/index.ts';
+import { wisdomHolmanStepper } from './wisdomHolman.ts';
 import type { StarSystem } from '../system/index.ts';
 import { initialStates } from '../system/index.ts';
 import { MAX_STABILITY_BODIES, MAX_STABILITY_SAMPLES, MAX_STABILITY_STEPS, MAX_STABILITY_WORK, requireWithinLimit } from '../system/index.ts';
 
-export type StabilityMethod = 'yoshida4' | 'verlet';
+export type StabilityMethod = 'wisdom-holman' | 'yoshida4' | 'verlet';
 
 export interface StabilityOptions {
   /** Span in years of the system's calendar (default DEFAULT_YEARS). */
@@ -53,7 +59,11 @@ export interface StabilityOptions {
   /** Span, s (overrides years). */
   span?: number;
   method?: StabilityMethod;
-  /** Steps per periapsis time scale of the fastest orbit (default DEFAULT_STEPS_PER_ORBIT). */
+  /**
+   * Steps per orbit of the fastest flown body: for 'wisdom-holman' per period (default
+   * DEFAULT_WH_STEPS_PER_PERIOD, h = shortest period / 20), for 'yoshida4' and 'verlet' per
+   * periapsis time scale T·(1 − e)^{3/2} (default DEFAULT_STEPS_PER_ORBIT).
+   */
   stepsPerOrbit?: number;
   /** Merge moons into their planets: true, false or 'auto' (default: merge when the run with moons exceeds maxSteps). */
   mergeMoons?: boolean | 'auto';
@@ -69,6 +79,11 @@ export interface StabilityOptions {
 
 export const DEFAULT_YEARS = 10_000;
 export const DEFAULT_STEPS_PER_ORBIT = 200;
+/** Wisdom–Holman steps per shortest period (the map integrates the Kepler part exactly; common practice is 1/20 to 1/30 of the shortest period). */
+export const DEFAULT_WH_STEPS_PER_PERIOD = 20;
+export const DEFAULT_METHOD: StabilityMethod = 'wisdom-holman';
+/** With 'wisdom-holman' and mergeMoons 'auto', moons are merged when flying them needs more than this × the steps of the planets alone. */
+export const WH_MOON_STEP_FACTOR = 4;
 export const DEFAULT_MAX_STEPS = 20_000_000;
 export const DEFAULT_SAMPLES = 1000;
 export const DEFAULT_EJECTION_FACTOR = 10;
@@ -189,12 +204,12 @@ function descendants(system: StarSystem, k: number): number[] {
 }
 
 /** Step for a set of bodies (system indices, star excluded). */
-function stepFor(system: StarSystem, indices: number[], stepsPerOrbit: number): number {
+function stepFor(system: StarSystem, indices: number[], stepsPerOrbit: number, perPeriod: boolean): number {
   let h = Infinity;
   for (const k of indices) {
     const b = system.bodies[k];
     if (!b.elements) continue;
-    h = Math.min(h, (b.derived.period * (1 - b.elements.e) ** 1.5) / stepsPerOrbit);
+    h = Math.min(h, (b.derived.period * (perPeriod ? 1 : (1 - b.elements.e) ** 1.5)) / stepsPerOrbit);
   }
   return h;
 }
@@ -215,9 +230,12 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
     if (!(years > 0)) throw new InputError('years', 'must be > 0', years);
     span = years * yearLength;
   }
-  const method = options.method ?? 'yoshida4';
-  if (method !== 'yoshida4' && method !== 'verlet') throw new InputError('method', "must be 'yoshida4' or 'verlet'", method);
-  const stepsPerOrbit = posInt('stepsPerOrbit', options.stepsPerOrbit, DEFAULT_STEPS_PER_ORBIT, 4);
+  const method = options.method ?? DEFAULT_METHOD;
+  if (method !== 'wisdom-holman' && method !== 'yoshida4' && method !== 'verlet') {
+    throw new InputError('method', "must be 'wisdom-holman', 'yoshida4' or 'verlet'", method);
+  }
+  const wh = method === 'wisdom-holman';
+  const stepsPerOrbit = posInt('stepsPerOrbit', options.stepsPerOrbit, wh ? DEFAULT_WH_STEPS_PER_PERIOD : DEFAULT_STEPS_PER_ORBIT, 4);
   const maxSteps = requireWithinLimit('maxSteps', posInt('maxSteps', options.maxSteps, DEFAULT_MAX_STEPS, 1), MAX_STABILITY_STEPS, 'steps');
   const nSamples = requireWithinLimit('samples', posInt('samples', options.samples, DEFAULT_SAMPLES, 2), MAX_STABILITY_SAMPLES, 'samples');
   const ejectionFactor = requireFinite('ejectionFactor', options.ejectionFactor ?? DEFAULT_EJECTION_FACTOR);
@@ -227,18 +245,22 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
 
   const planets = bodies[0].children;
   const all = bodies.slice(1).map((b) => b.index);
-  const hAll = stepFor(system, all, stepsPerOrbit);
-  const hPlanets = stepFor(system, planets, stepsPerOrbit);
+  const hAll = stepFor(system, all, stepsPerOrbit, wh);
+  const hPlanets = stepFor(system, planets, stepsPerOrbit, wh);
   const hasMoons = all.length > planets.length;
   // the work of a run: steps × force evaluations per step × body pairs (the star counts)
-  const evalsPerStep = method === 'yoshida4' ? 3 : 1;
+  const evalsPerStep = method === 'yoshida4' ? 3 : 1; // Wisdom–Holman: one, plus the Kepler drifts
   const pairsOf = (flown: number): number => ((flown + 1) * flown) / 2;
   const workOf = (steps: number, flown: number): number => steps * evalsPerStep * pairsOf(flown);
   let merged = merge === true && hasMoons;
   let mergeReason: string | null = merged ? 'moons merged into their planets on request' : null;
   if (merge === 'auto' && hasMoons) {
     const stepsAll = Math.ceil(span / hAll);
-    if (stepsAll > maxSteps) {
+    const stepsPlanets = Math.ceil(span / hPlanets);
+    if (wh && stepsAll > WH_MOON_STEP_FACTOR * stepsPlanets) {
+      merged = true;
+      mergeReason = `moons merged into their planets: flying them needs ${stepsAll.toExponential(2)} steps, ${(stepsAll / stepsPlanets).toFixed(0)} × the planets' ${stepsPlanets.toExponential(2)} (Wisdom–Holman flies moons only at leapfrog accuracy; pass mergeMoons: false to fly them)`;
+    } else if (stepsAll > maxSteps) {
       merged = true;
       mergeReason = `moons merged into their planets: flying them needs ${stepsAll.toExponential(2)} steps, more than the budget of ${maxSteps.toExponential(2)}`;
     } else if (workOf(stepsAll, all.length) > MAX_STABILITY_WORK || all.length > MAX_STABILITY_BODIES) {
@@ -400,7 +422,7 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
     energyHist[s] = totalEnergy(x, v, mus);
   };
 
-  const stepper = fixedStepper(method, mutualAccel(mus), 3 * N);
+  const stepper = wh ? wisdomHolmanStepper(mus, jacobiOrder(parts, bodies)) : fixedStepper(method, mutualAccel(mus), 3 * N);
   sample(0, 0);
   const E0 = energyHist[0];
   const sampleAt = (s: number): number => Math.round((s * nSteps) / (nSamples - 1));
@@ -515,6 +537,25 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
     status,
     notes,
   };
+}
+
+/**
+ * Jacobi order for the Wisdom–Holman map: the star, then the planets outward by epoch semi-major
+ * axis, each followed by its flown moons (moons then orbit the barycentre of everything inside
+ * them; see wisdomHolman.ts for what that costs).
+ */
+function jacobiOrder(parts: Particle[], bodies: StarSystem['bodies']): Int32Array {
+  const out: number[] = [0];
+  const planetsOut = parts
+    .map((_, j) => j)
+    .filter((j) => j > 0 && parts[j].parent === 0)
+    .sort((a, b) => (bodies[parts[a].index].elements?.a ?? 0) - (bodies[parts[b].index].elements?.a ?? 0));
+  const visit = (j: number): void => {
+    out.push(j);
+    for (let q = 1; q < parts.length; q++) if (parts[q].parent === j) visit(q);
+  };
+  for (const p of planetsOut) visit(p);
+  return Int32Array.from(out);
 }
 
 function emptyRange(): Range {
