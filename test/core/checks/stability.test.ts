@@ -107,7 +107,7 @@ describe('system stability check', () => {
     const moravel = r.bodies.find((b) => b.id === 'moravel')!;
     expect(moravel.merged.map((k) => demo.bodies[k].id).sort()).toEqual(['lough', 'skerry']);
     expect(r.flags).toEqual([]);
-    expect(() => checkStability(demo, { years: 200, maxSteps: 1_000_000, mergeMoons: false })).toThrow(InputError);
+    expect(() => checkStability(demo, { years: 200, maxSteps: 1_000_000, mergeMoons: false, method: 'yoshida4' })).toThrow(InputError);
   });
 
   it('cancels and rejects bad input with typed errors', () => {
