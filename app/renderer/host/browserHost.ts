@@ -194,7 +194,12 @@ export function createBrowserHost(env: BrowserEnv): Host {
 }
 
 /** The real page's environment. */
+/** Delay of a title change: past the next frame at 60 Hz, too short to notice. */
+const TITLE_DELAY_MS = 40;
+
 export function pageEnv(win: Window & typeof globalThis): BrowserEnv {
+  /** The title waiting to be shown (setTitle below), or null. */
+  let pendingTitle: string | null = null;
   const w = win as unknown as {
     showOpenFilePicker?: NonNullable<BrowserEnv['fsAccess']>['showOpenFilePicker'];
     showSaveFilePicker?: NonNullable<BrowserEnv['fsAccess']>['showSaveFilePicker'];
@@ -238,7 +243,15 @@ export function pageEnv(win: Window & typeof globalThis): BrowserEnv {
         ? { showOpenFilePicker: w.showOpenFilePicker.bind(win), showSaveFilePicker: w.showSaveFilePicker.bind(win) }
         : null,
     setTitle(title) {
-      win.document.title = title;
+      // after the frame that shows the edit (a title change costs a round trip to the browser),
+      // the last one of a burst only
+      const first = pendingTitle === null;
+      pendingTitle = title;
+      if (first)
+        setTimeout(() => {
+          if (pendingTitle !== null) win.document.title = pendingTitle;
+          pendingTitle = null;
+        }, TITLE_DELAY_MS);
     },
     onBeforeUnload(isDirty) {
       win.addEventListener('beforeunload', (e) => {

@@ -126,7 +126,7 @@ export class TimelineChart {
       })
       .on('zoom', (ev: d3.D3ZoomEvent<SVGSVGElement, unknown>) => {
         this.x = ev.transform.rescaleX(this.x0);
-        this.redraw();
+        if (!this.settingData) this.redraw();
       });
     this.svg.call(this.zoom).on('dblclick.zoom', null);
 
@@ -302,7 +302,13 @@ export class TimelineChart {
     const sameSpan = prev && prev.t0 === data.t0 && prev.t1 === data.t1;
     this.x0.domain([data.t0 - pad, data.t1 + pad]);
     if (!(keepView && sameSpan)) {
-      this.svg.call(this.zoom.transform, d3.zoomIdentity);
+      // the zoom event this emits must not draw: the one redraw below does, with the new extents
+      this.settingData = true;
+      try {
+        this.svg.call(this.zoom.transform, d3.zoomIdentity);
+      } finally {
+        this.settingData = false;
+      }
       this.x = this.x0.copy();
     } else this.x = d3.zoomTransform(this.svg.node()!).rescaleX(this.x0);
     const span = data.t1 - data.t0 + 2 * pad;
@@ -366,6 +372,9 @@ export class TimelineChart {
     const visible = Number.isFinite(px) && px >= LAYOUT.left - 0.5 && px <= this.width - LAYOUT.right + 0.5;
     this.gCursor.attr('transform', `translate(${px},0)`).attr('display', visible ? null : 'none');
   }
+
+  /** setData is resetting the zoom (its zoom event then does not redraw). */
+  private settingData = false;
 
   private redraw(): void {
     const L = this.L;
