@@ -107,6 +107,13 @@ const D = new Float64Array(3);
  * 16 γ = √(μs/2), 17 ρ, 18 σ, 19 1 − λ² (= c/s), 20 1 − λ.
  */
 const G = new Float64Array(21);
+/**
+ * Input of prepare (numbers travel through here, not as arguments, so that no call boxes them):
+ * 0 μ, 1–3 r1, 4–6 r2, 7 tof, 8–10 reference normal.
+ */
+const IN = new Float64Array(11);
+/** x of the solution handed to velocities (and written by solveSingle). */
+const XS = new Float64Array(1);
 /** Iterations of the last solveX call. */
 let lastIter = 0;
 /** x at the minimum time of the last tMin call. */
@@ -272,23 +279,21 @@ function tMin(N: number, lam: number): number {
 // Geometry (Izzo 2015, with cancellation-free forms of λ, ρ and σ near 0°, 180° and coincident points).
 
 /**
- * Fills G for the given problem. Returns 0 on success, 1 if the points are collinear and the
+ * Fills G for the problem in IN (μ, r1, r2, tof, reference normal). Returns 0 on success, 1 if the points are collinear and the
  * reference normal is along r1 (no plane can be chosen), 2 if the points coincide.
  */
-function prepare(
-  mu: number,
-  r1x: number,
-  r1y: number,
-  r1z: number,
-  r2x: number,
-  r2y: number,
-  r2z: number,
-  tof: number,
-  retrograde: boolean,
-  nx: number,
-  ny: number,
-  nz: number,
-): number {
+function prepare(retrograde: boolean): number {
+  const mu = IN[0];
+  const r1x = IN[1];
+  const r1y = IN[2];
+  const r1z = IN[3];
+  const r2x = IN[4];
+  const r2y = IN[5];
+  const r2z = IN[6];
+  const tof = IN[7];
+  const nx = IN[8];
+  const ny = IN[9];
+  const nz = IN[10];
   const r1n = Math.sqrt(r1x * r1x + r1y * r1y + r1z * r1z);
   const r2n = Math.sqrt(r2x * r2x + r2y * r2y + r2z * r2z);
   const cx = r2x - r1x;
@@ -384,14 +389,15 @@ function prepare(
   return 0;
 }
 
-/** Terminal velocities for the solution x (Izzo 2015); writes 3 components at o1, o2. */
-function velocities(x: number, out1: Float64Array, o1: number, out2: Float64Array, o2: number): void {
+/** Terminal velocities for the solution x = XS[0] (Izzo 2015); writes 3 components at o1, o2. */
+function velocities(out1: Float64Array, o1: number, out2: Float64Array, o2: number): void {
   const lam = G[0];
   const r1n = G[14];
   const r2n = G[15];
   const gamma = G[16];
   const rho = G[17];
   const sigma = G[18];
+  const x = XS[0];
   const y = Math.sqrt(G[19] + lam * lam * x * x);
   const a = lam * y - x;
   const b = lam * y + x;
@@ -414,22 +420,82 @@ function tofZero(lam: number): number {
   return Math.atan2(q, lam) + lam * q;
 }
 
-/** Initial guess for the single-revolution x (after Izzo 2015): rational, power-law and hyperbolic forms. */
-function guessSingle(T: number, lam: number): number {
-  const oml = G[20];
-  const T00 = tofZero(lam);
-  // 1 − λ³ and 1 − λ⁵ through 1 − λ, accurate as λ → 1.
-  const T1 = (2 / 3) * oml * (1 + lam + lam * lam);
-  if (T >= T00) return -(T - T00) / (T - T00 + 4);
-  if (T <= T1) return (T1 * (T1 - T)) / ((2 / 5) * oml * (1 + lam * (1 + lam * (1 + lam * (1 + lam)))) * T) + 1;
-  return (T / T00) ** (Math.LN2 / Math.log(T1 / T00)) - 1;
-}
-
-/** Single-revolution x for the prepared geometry; NaN without convergence. */
-function solveSingle(tol: number, maxIter: number): number {
+/**
+ * Single-revolution x for the prepared geometry into XS[0] (NaN without convergence); returns
+ * whether it converged. This is solveX from Izzo's initial guess (rational, power-law and
+ * hyperbolic forms, after Izzo 2015) with sense −1 on (−1, ∞), with T(x)'s
+ * Lancaster–Blanchard form and dTdx written out in the loop — the same operations in the same
+ * order, so the same bits — because the hot loops (porkchop grids) run through here and a call
+ * per evaluation would box its numbers.
+ */
+function solveSingle(tol: number, maxIter: number): boolean {
   const lam = G[0];
   const T = G[1];
-  return solveX(T, guessSingle(T, lam), 0, lam, tol, maxIter, -1, Infinity, -1);
+  const oml2 = G[19];
+  const oml = G[20];
+  // initial guess; T00 = tofZero(λ), 1 − λ³ and 1 − λ⁵ through 1 − λ (accurate as λ → 1)
+  const q0 = Math.sqrt(oml2);
+  const T00 = Math.atan2(q0, lam) + lam * q0;
+  const T1 = (2 / 3) * oml * (1 + lam + lam * lam);
+  let x: number;
+  if (T >= T00) x = -(T - T00) / (T - T00 + 4);
+  else if (T <= T1) x = (T1 * (T1 - T)) / ((2 / 5) * oml * (1 + lam * (1 + lam * (1 + lam * (1 + lam)))) * T) + 1;
+  else x = (T / T00) ** (Math.LN2 / Math.log(T1 / T00)) - 1;
+  const l2 = lam * lam;
+  const l3 = l2 * lam;
+  let lo = -1;
+  let hi = Infinity;
+  for (let it = 1; it <= maxIter; it++) {
+    const dist = Math.abs(x - 1);
+    // √(1 − λ² + λ²x²): z of tofX and y of dTdx
+    const z = Math.sqrt(oml2 + lam * lam * x * x);
+    let t: number;
+    if (dist >= LAGRANGE_BAND) {
+      const E = x * x - 1;
+      const y = Math.sqrt(Math.abs(E));
+      const lx = lam * x;
+      const zml = lx > 0 ? oml2 / (z + lx) : z - lx;
+      const d = E < 0 ? Math.atan2(zml * y, x * z - lam * E) : Math.asinh(y * zml);
+      t = (x - lam * z - d / y) / E;
+    } else {
+      t = tofX(x, 0, lam);
+    }
+    const delta = t - T;
+    if (delta > 0) lo = x;
+    else hi = x;
+    let d1: number;
+    let d2: number;
+    let d3: number;
+    if (dist < DERIV_BAND) {
+      derivatives(x, t, 0, lam);
+      d1 = D[0];
+      d2 = D[1];
+      d3 = D[2];
+    } else {
+      const umx2 = 1 - x * x;
+      const z2 = z * z;
+      const z3 = z2 * z;
+      d1 = (3 * t * x - 2 + (2 * l3 * x) / z) / umx2;
+      d2 = (3 * t + 5 * x * d1 + (2 * oml2 * l3) / z3) / umx2;
+      d3 = (7 * x * d2 + 8 * d1 - (6 * oml2 * l2 * l3 * x) / (z3 * z2)) / umx2;
+    }
+    const d1s = d1 * d1;
+    let xn = x - (delta * (d1s - (delta * d2) / 2)) / (d1 * (d1s - delta * d2) + (d3 * delta * delta) / 6);
+    const scale = Math.abs(x) > 1 ? Math.abs(x) : 1;
+    if (Math.abs(xn - x) <= tol * scale || delta === 0) {
+      lastIter = it;
+      XS[0] = Math.abs(xn - x) <= tol * scale ? xn : x;
+      return true;
+    }
+    if (!(xn > lo && xn < hi)) {
+      // Out of the bracket (or not a number): fall back to bisection.
+      xn = hi === Infinity ? (x > lo ? x + 1 + Math.abs(x) : lo + 1 + Math.abs(lo)) : (lo + hi) / 2;
+    }
+    x = xn;
+  }
+  lastIter = maxIter;
+  XS[0] = NaN;
+  return false;
 }
 
 /** Largest feasible revolution count for the prepared geometry, at most `want`. */
@@ -489,6 +555,21 @@ function solveBranch(N: number, side: number, tol: number, maxIter: number): num
 
 const Z_NORMAL = [0, 0, 1];
 
+/** Fills IN for prepare from array inputs. */
+function setInput(mu: number, r1: ArrayLike<number>, r2: ArrayLike<number>, tof: number, normal: ArrayLike<number>): void {
+  IN[0] = mu;
+  IN[1] = r1[0];
+  IN[2] = r1[1];
+  IN[3] = r1[2];
+  IN[4] = r2[0];
+  IN[5] = r2[1];
+  IN[6] = r2[2];
+  IN[7] = tof;
+  IN[8] = normal[0];
+  IN[9] = normal[1];
+  IN[10] = normal[2];
+}
+
 /**
  * All solutions of Lambert's problem up to `options.revs` complete revolutions: the single
  * revolution first, then for each feasible revolution count its left and right branches.
@@ -523,7 +604,8 @@ export function solveLambert(mu: number, r1: ArrayLike<number>, r2: ArrayLike<nu
     normal = h;
   }
 
-  const status = prepare(mu, r1[0], r1[1], r1[2], r2[0], r2[1], r2[2], tof, retrograde, normal[0], normal[1], normal[2]);
+  setInput(mu, r1, r2, tof, normal);
+  const status = prepare(retrograde);
   if (status === 2) throw new InputError('r2', 'must differ from r1 (coincident points)', r2);
   if (status === 1) {
     throw new InputError(
@@ -547,7 +629,8 @@ export function solveLambert(mu: number, r1: ArrayLike<number>, r2: ArrayLike<nu
     }
     const v1 = new Float64Array(3);
     const v2 = new Float64Array(3);
-    velocities(x, v1, 0, v2, 0);
+    XS[0] = x;
+    velocities(v1, 0, v2, 0);
     for (let i = 0; i < 3; i++) {
       if (!Number.isFinite(v1[i]) || !Number.isFinite(v2[i])) {
         throw new SolverError('lambert', 'no-solution', `${branch} solution for ${revs} revolution(s) is not finite`, { ...inputs, revs, branch, x });
@@ -556,7 +639,8 @@ export function solveLambert(mu: number, r1: ArrayLike<number>, r2: ArrayLike<nu
     out.push({ revs, branch, v1, v2, iterations: lastIter, x });
   };
 
-  push(solveSingle(tol, maxIter), 0, 'single');
+  solveSingle(tol, maxIter);
+  push(XS[0], 0, 'single');
   const nmax = feasibleRevs(wantRevs);
   for (let n = 1; n <= nmax; n++) {
     push(solveBranch(n, -1, tol, maxIter), n, 'left');
@@ -583,14 +667,32 @@ export function lambertSingleRev(
   out1: Float64Array,
   out2: Float64Array,
 ): number {
+  // Small enough to be inlined into the caller's loop, so its numbers reach IN unboxed.
+  IN[0] = mu;
+  IN[1] = r1x;
+  IN[2] = r1y;
+  IN[3] = r1z;
+  IN[4] = r2x;
+  IN[5] = r2y;
+  IN[6] = r2z;
+  IN[7] = tof;
+  return singleRevFromInput(retrograde, out1, out2);
+}
+
+/** lambertSingleRev on the problem in IN[0..7] (reference normal +z). */
+function singleRevFromInput(retrograde: boolean, out1: Float64Array, out2: Float64Array): number {
+  const mu = IN[0];
+  const tof = IN[7];
   if (!(mu > 0) || !(tof > 0) || !(tof < Infinity) || !(mu < Infinity)) return -1;
-  const r1s = r1x * r1x + r1y * r1y + r1z * r1z;
-  const r2s = r2x * r2x + r2y * r2y + r2z * r2z;
+  const r1s = IN[1] * IN[1] + IN[2] * IN[2] + IN[3] * IN[3];
+  const r2s = IN[4] * IN[4] + IN[5] * IN[5] + IN[6] * IN[6];
   if (!(r1s > 0 && r1s < Infinity && r2s > 0 && r2s < Infinity)) return -1;
-  if (prepare(mu, r1x, r1y, r1z, r2x, r2y, r2z, tof, retrograde, 0, 0, 1) !== 0) return -1;
-  const x = solveSingle(LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER);
-  if (Number.isNaN(x)) return -1;
-  velocities(x, out1, 0, out2, 0);
+  IN[8] = 0;
+  IN[9] = 0;
+  IN[10] = 1;
+  if (prepare(retrograde) !== 0) return -1;
+  if (!solveSingle(LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER)) return -1;
+  velocities(out1, 0, out2, 0);
   if (!(Math.abs(out1[0] + out1[1] + out1[2] + out2[0] + out2[1] + out2[2]) < Infinity)) return -1;
   return lastIter;
 }
@@ -619,10 +721,10 @@ export function lambertAll(
   const r1s = r1[0] * r1[0] + r1[1] * r1[1] + r1[2] * r1[2];
   const r2s = r2[0] * r2[0] + r2[1] * r2[1] + r2[2] * r2[2];
   if (!(r1s > 0 && r1s < Infinity && r2s > 0 && r2s < Infinity)) return -1;
-  if (prepare(mu, r1[0], r1[1], r1[2], r2[0], r2[1], r2[2], tof, retrograde, 0, 0, 1) !== 0) return -1;
-  const x = solveSingle(LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER);
-  if (Number.isNaN(x)) return -1;
-  velocities(x, outV1, 0, outV2, 0);
+  setInput(mu, r1, r2, tof, Z_NORMAL);
+  if (prepare(retrograde) !== 0) return -1;
+  if (!solveSingle(LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER)) return -1;
+  velocities(outV1, 0, outV2, 0);
   outRevs[0] = 0;
   if (outBranch) outBranch[0] = 0;
   let k = 1;
@@ -631,7 +733,8 @@ export function lambertAll(
     for (let side = -1; side <= 1; side += 2) {
       const xb = solveBranch(n, side, LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER);
       if (Number.isNaN(xb)) continue;
-      velocities(xb, outV1, 3 * k, outV2, 3 * k);
+      XS[0] = xb;
+      velocities(outV1, 3 * k, outV2, 3 * k);
       outRevs[k] = n;
       if (outBranch) outBranch[k] = side < 0 ? 1 : 2;
       k++;
@@ -667,12 +770,12 @@ export function lambertBest(
   const r1s = r1[0] * r1[0] + r1[1] * r1[1] + r1[2] * r1[2];
   const r2s = r2[0] * r2[0] + r2[1] * r2[1] + r2[2] * r2[2];
   if (!(r1s > 0 && r1s < Infinity && r2s > 0 && r2s < Infinity)) return -1;
-  if (prepare(mu, r1[0], r1[1], r1[2], r2[0], r2[1], r2[2], tof, retrograde, 0, 0, 1) !== 0) return -1;
+  setInput(mu, r1, r2, tof, Z_NORMAL);
+  if (prepare(retrograde) !== 0) return -1;
   let bestCode = -1;
   let bestCost = Infinity;
-  const x = solveSingle(LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER);
-  if (!Number.isNaN(x)) {
-    velocities(x, bestV1, 0, bestV2, 0);
+  if (solveSingle(LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER)) {
+    velocities(bestV1, 0, bestV2, 0);
     const c = cost(bestV1[0], bestV1[1], bestV1[2], bestV2[0], bestV2[1], bestV2[2]);
     if (c < bestCost) {
       bestCost = c;
@@ -690,7 +793,8 @@ export function lambertBest(
     for (let side = -1; side <= 1; side += 2) {
       const xb = solveBranch(n, side, LAMBERT_DEFAULT_TOL, LAMBERT_DEFAULT_MAX_ITER);
       if (Number.isNaN(xb)) continue;
-      velocities(xb, bestV1, 0, bestV2, 0);
+      XS[0] = xb;
+      velocities(bestV1, 0, bestV2, 0);
       const c = cost(bestV1[0], bestV1[1], bestV1[2], bestV2[0], bestV2[1], bestV2[2]);
       if (c < bestCost) {
         bestCost = c;
