@@ -141,11 +141,12 @@ export const RESOLVE_NAMES: Readonly<Record<DispersionDefaults['resolve'], strin
 // ---------------------------------------------------------------------------------------------
 // Integrators: one id ↔ one display name
 
-export type IntegratorId = 'rk45' | 'yoshida4' | 'verlet' | 'symplectic-euler' | 'explicit-euler' | 'rk4';
+export type IntegratorId = 'rk45' | 'wisdom-holman' | 'yoshida4' | 'verlet' | 'symplectic-euler' | 'explicit-euler' | 'rk4';
 
 /** Each integrator's display name; the command line accepts the id or the name's slug. */
 export const INTEGRATOR_NAMES: Readonly<Record<IntegratorId, string>> = {
   rk45: 'RK45 (Dormand–Prince)',
+  'wisdom-holman': 'Wisdom–Holman map',
   yoshida4: 'Yoshida 4th-order symplectic',
   verlet: 'velocity Verlet (leapfrog)',
   'symplectic-euler': 'semi-implicit Euler',
@@ -180,7 +181,7 @@ export function integratorChoices(allowed: readonly IntegratorId[]): string {
 }
 
 /** The stability check's integrators, its default first. */
-export const STABILITY_METHODS: readonly (StabilityMethod & IntegratorId)[] = ['yoshida4', 'verlet'];
+export const STABILITY_METHODS: readonly (StabilityMethod & IntegratorId)[] = ['wisdom-holman', 'yoshida4', 'verlet'];
 type StabilityMethod = NonNullable<NonNullable<Parameters<typeof checkStability>[1]>['method']>;
 
 // ---------------------------------------------------------------------------------------------

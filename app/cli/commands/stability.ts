@@ -4,7 +4,8 @@
  * method and reports what happened to each orbit (core/checks/stability.ts).
  *
  * Options: --merge-moons / --no-merge-moons (default: merge when flying the moons would exceed
- * the step budget, and say so), --method yoshida4|verlet (or the names' slugs, core/io/defaults.ts), --steps-per-orbit N, --max-steps N,
+ * the step budget, and say so), --method wisdom-holman|yoshida4|verlet (default
+ * wisdom-holman; or the names' slugs, core/io/defaults.ts), --steps-per-orbit N, --max-steps N,
  * --samples N. A progress bar is drawn on stderr at a terminal.
  * Text: step and span, the energy error of the run, a table per body (a, e, i ranges), the
  * sibling pairs (epoch spacing and closest approach in mutual Hill radii), the flags; `--json`:
@@ -87,7 +88,7 @@ export function addStabilityCommand(program: Command): void {
     .option('--merge-moons', 'fly each planet with its moons as one body')
     .option('--no-merge-moons', 'fly the moons (default: merged only when the step budget would be exceeded)')
     .option('--method <m>', `integrator, by id or name: ${integratorChoices(STABILITY_METHODS)}`, STABILITY_METHODS[0])
-    .option('--steps-per-orbit <n>', 'steps per periapsis time scale of the fastest orbit')
+    .option('--steps-per-orbit <n>', 'steps per orbit of the fastest body (wisdom-holman: per period, default 20; yoshida4/verlet: per periapsis time scale, default 200)')
     .option('--max-steps <n>', 'step budget')
     .option('--samples <n>', 'element-history samples')
     .option('--json', 'machine-readable output')

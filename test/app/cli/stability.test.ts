@@ -5,7 +5,7 @@ const DEMO = 'assets/systems/ilmar.system.json';
 
 describe.concurrent('waymark stability', () => {
   it('runs the demo system for a few decades and prints JSON (no flags: exit 0)', async () => {
-    const r = await runCli(['stability', DEMO, '--years', '30', '--samples', '50', '--json']);
+    const r = await runCli(['stability', DEMO, '--years', '30', '--samples', '50', '--method', 'yoshida4', '--json']);
     expect(r.stderr).toBe('');
     expect(r.code).toBe(0);
     const out = JSON.parse(r.stdout);
@@ -19,10 +19,10 @@ describe.concurrent('waymark stability', () => {
     expect(out.energy.maxRelativeError).toBeLessThan(2e-12); // Yoshida 4 over 30 years: measured 2.6e-13
   });
 
-  it('text output with moons merged on request', async () => {
+  it('text output with moons merged on request (the default method, Wisdom–Holman)', async () => {
     const r = await runCli(['stability', DEMO, '--years', '100', '--merge-moons']);
     expect(r.code).toBe(0);
-    expect(r.stdout).toMatch(/^stability of Ilmar: 100\.0 years \(Yoshida 4th-order symplectic/);
+    expect(r.stdout).toMatch(/^stability of Ilmar: 100\.0 years \(Wisdom–Holman map/);
     expect(r.stdout).toMatch(/moons merged into their planets on request/);
     expect(r.stdout).toMatch(/Moravel–Fennick/);
     expect(r.stdout).toMatch(/no flags/);
