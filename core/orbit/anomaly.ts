@@ -106,30 +106,30 @@ export function solveEllipticKepler(M: number, e: number, sinCos?: Float64Array)
   const m = Math.abs(M);
   let E = 0;
   if (m === 0) {
-    sinOut = 0;
-    cosOut = 1;
+    SC[0] = 0;
+    SC[1] = 1;
   } else E = solveEllipticReduced(m, e);
   if (sinCos) {
-    sinCos[0] = M < 0 ? -sinOut : sinOut;
-    sinCos[1] = cosOut;
+    sinCos[0] = M < 0 ? -SC[0] : SC[0];
+    sinCos[1] = SC[1];
   }
   return M < 0 ? -E : E;
 }
 
-// sin E and cos E of the last solveEllipticReduced result (see solveEllipticKepler).
-let sinOut = 0;
-let cosOut = 1;
+// sin E and cos E of the last solveEllipticReduced result (see solveEllipticKepler); in a
+// typed array, since a number stored in a module variable is boxed on every store.
+const SC = new Float64Array(2);
 
 function withSinCos(E: number): number {
-  sinOut = Math.sin(E);
-  cosOut = Math.cos(E);
+  SC[0] = Math.sin(E);
+  SC[1] = Math.cos(E);
   return E;
 }
 
 /** Below this eccentricity the iteration starts from E₀ = M and uses the plain residual forms. */
 const LOW_E = 0.3;
 
-/** Solves E − e sin E = m for m ∈ (0, π]; leaves sin E and cos E in sinOut, cosOut. */
+/** Solves E − e sin E = m for m ∈ (0, π]; leaves sin E and cos E in SC[0], SC[1]. */
 function solveEllipticReduced(m: number, e: number): number {
   // tiny M: E = M/(1 − e) exactly to rounding once the cubic term e·E³/6 is below ε·(1 − e)·E
   const lin = m / (1 - e);
@@ -178,8 +178,8 @@ function solveEllipticReduced(m: number, e: number): number {
       fp = cosE > 0 ? 1 - e + (e * sinE * sinE) / (1 + cosE) : 1 - e * cosE;
     }
     if (f === 0) {
-      sinOut = sinE;
-      cosOut = cosE;
+      SC[0] = sinE;
+      SC[1] = cosE;
       return E;
     }
     if (f < 0) lo = E;
@@ -197,8 +197,8 @@ function solveEllipticReduced(m: number, e: number): number {
       const s2 = step * step;
       const cs = 1 - s2 * (0.5 - s2 / 24);
       const sn = step * (1 - s2 * (1 / 6 - s2 / 120));
-      sinOut = sinE * cs + cosE * sn;
-      cosOut = cosE * cs - sinE * sn;
+      SC[0] = sinE * cs + cosE * sn;
+      SC[1] = cosE * cs - sinE * sn;
       return E + step;
     }
     let En = E + step;

@@ -169,8 +169,15 @@ function burnFromOrbitInPlane(r: Float64Array, vx: number, vy: number, vz: numbe
   return Math.sqrt((vx - px) * (vx - px) + (vy - py) * (vy - py) + (vz - pz) * (vz - pz));
 }
 
-// Fills lastCell from the arc's terminal velocities; returns the metric (Infinity if not finite).
-function finish(s: TransferSetup, v1x: number, v1y: number, v1z: number, v2x: number, v2y: number, v2z: number): number {
+// Fills lastCell from the arc's terminal velocities v1, v2 (read from arrays: a call with six
+// number arguments would box them per cell); returns the metric (Infinity if not finite).
+function finish(s: TransferSetup, v1: Float64Array, v2: Float64Array): number {
+  const v1x = v1[0];
+  const v1y = v1[1];
+  const v1z = v1[2];
+  const v2x = v2[0];
+  const v2y = v2[1];
+  const v2z = v2[2];
   let dvD: number;
   let c3: number;
   let vInfD: number;
@@ -214,8 +221,17 @@ function finish(s: TransferSetup, v1x: number, v1y: number, v1z: number, v2x: nu
   return Math.abs(total + c3 + vInfD + vInfA) < Infinity && !Number.isNaN(m) ? m : Infinity;
 }
 
-const cost = (v1x: number, v1y: number, v1z: number, v2x: number, v2y: number, v2z: number): number =>
-  finish(current as TransferSetup, v1x, v1y, v1z, v2x, v2y, v2z);
+const CV1 = new Float64Array(3);
+const CV2 = new Float64Array(3);
+const cost = (v1x: number, v1y: number, v1z: number, v2x: number, v2y: number, v2z: number): number => {
+  CV1[0] = v1x;
+  CV1[1] = v1y;
+  CV1[2] = v1z;
+  CV2[0] = v2x;
+  CV2[1] = v2y;
+  CV2[2] = v2z;
+  return finish(current as TransferSetup, CV1, CV2);
+};
 
 /**
  * Solves one cell into `lastCell` from the departure body's state `dep6` and the arrival
@@ -254,7 +270,7 @@ export function solveCell(s: TransferSetup, dep6: Float64Array, arr6: Float64Arr
   }
   if (s.maxRevs === 0) {
     if (lambertSingleRev(s.mu, R1[0], R1[1], R1[2], R2[0], R2[1], R2[2], tof, s.retrograde, V1, V2) < 0) return unsolved();
-    if (finish(s, V1[0], V1[1], V1[2], V2[0], V2[1], V2[2]) === Infinity) return unsolved();
+    if (finish(s, V1, V2) === Infinity) return unsolved();
     lastCell[CELL_REVS] = 0;
     lastCell[CELL_BRANCH] = 0;
     return true;
@@ -263,7 +279,7 @@ export function solveCell(s: TransferSetup, dep6: Float64Array, arr6: Float64Arr
   const code = lambertBest(s.mu, R1, R2, tof, s.maxRevs, s.retrograde, cost, V1, V2);
   current = null;
   if (code < 0) return unsolved();
-  if (finish(s, V1[0], V1[1], V1[2], V2[0], V2[1], V2[2]) === Infinity) return unsolved();
+  if (finish(s, V1, V2) === Infinity) return unsolved();
   lastCell[CELL_REVS] = lambertCodeRevs(code);
   lastCell[CELL_BRANCH] = code === 0 ? 0 : code % 2 === 1 ? 1 : 2;
   return true;
