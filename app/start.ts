@@ -29,13 +29,12 @@ const since = (t0: number) => `${((performance.now() - t0) / 1000).toFixed(1)} s
 async function ensureRenderer(): Promise<string> {
   const outDir = `${repo}${config.build.rendererDir}`;
   const hash = inputsHash(repo, RENDERER_INPUTS);
-  const decision = decideBuild(existsSync(`${outDir}/index.html`), readStamp(outDir), hash);
-  if (decision === 'reuse') return outDir;
-  console.log(decision === 'build' ? 'Building the app (first start, about 8 s)…' : 'Sources changed: rebuilding the app (about 8 s)…');
+  const present = existsSync(`${outDir}/index.html`);
+  if (decideBuild(present, readStamp(outDir), hash) === 'reuse') return outDir;
+  console.log(present ? 'Sources changed: rebuilding the app (about 10 s)…' : 'Building the app (first start, about 10 s)…');
   const t0 = performance.now();
   const { buildRenderer } = await import('./renderer/build/buildRenderer.ts');
-  const root = await buildRenderer();
-  writeStamp(root, hash);
+  const root = await buildRenderer(); // stamps the build
   console.log(`built the renderer in ${since(t0)}`);
   return root;
 }
@@ -58,7 +57,7 @@ async function main(): Promise<void> {
   if (mode === 'build') {
     // an explicit build always builds (and stamps, so the next start reuses it)
     const [{ buildRenderer }, { buildMainAndPreload }] = await Promise.all([import('./renderer/build/buildRenderer.ts'), import('./main/build.ts')]);
-    writeStamp(await buildRenderer(), inputsHash(repo, RENDERER_INPUTS));
+    await buildRenderer(); // stamps the build
     await buildMainAndPreload();
     writeStamp(`${repo}${config.build.main.replace(/\/[^/]+$/, '')}`, inputsHash(repo, MAIN_INPUTS));
     console.log(`built ${config.build.rendererDir}, ${config.build.main}, ${config.build.preload}`);
