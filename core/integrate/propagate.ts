@@ -5,12 +5,14 @@
  *
  * Policy (method 'auto'):
  * - by default Dormand–Prince RK45 (rk45.ts), reason 'default';
+ * - at tight tolerances (rtol ≤ DOP853_RTOL) the 8th-order DOP853 (dop853.ts), reason
+ *   'tight tolerance: rtol … ≤ 1e-11' — a quarter of RK45's evaluations at rtol 1e-12;
  * - when a period estimate is given and the span exceeds longCoastRevs revolutions, a
  *   symplectic method (LONG_COAST_METHOD, Yoshida 4) flies it at fixedStep or
  *   period / DEFAULT_STEPS_PER_REV, reason 'long coast: N revolutions > M' — symplectic
  *   methods keep the energy error bounded over long coasts (Hairer, Lubich & Wanner, Geometric
  *   Numerical Integration, 2nd ed., §I.1 and ch. X);
- * - if RK45 stops with 'step-budget' or 'step-underflow', FALLBACK_METHOD flies the rest from
+ * - if RK45 (or DOP853) stops with 'step-budget' or 'step-underflow', FALLBACK_METHOD flies the rest from
  *   where RK45 stopped, at fixedStep, else period / DEFAULT_STEPS_PER_REV, else the last step
  *   size RK45 proposed; reason 'RK45 failed: <status> at t=…; fell back to yoshida4 with h=…'.
  *   No fallback when it would need more than FALLBACK_MAX_STEPS steps: the result then keeps
@@ -26,9 +28,10 @@ import { DenseOutput, hermiteCoefficients } from './dense.ts';
 import { EventLocator, checkEvents, type EventHit, type EventSpec } from './eventLocator.ts';
 import { FIXED_METHODS, integrateFixed, requireStatePair, type FixedMethod } from './fixed.ts';
 import type { AccelFunction, OdeFunction, SolveStats } from './ode.ts';
-import { rk45 } from './rk45.ts';
+import { dop853 } from './dop853.ts';
+import { DEFAULT_RTOL, rk45 } from './rk45.ts';
 
-export type MethodChoice = 'auto' | 'rk45' | FixedMethod;
+export type MethodChoice = 'auto' | 'rk45' | 'dop853' | FixedMethod;
 
 export interface PropagateRequest {
   accel: AccelFunction;
@@ -55,7 +58,7 @@ export interface PropagateRequest {
 export interface FlownSpan {
   t0: number;
   t1: number;
-  method: 'rk45' | FixedMethod;
+  method: 'rk45' | 'dop853' | FixedMethod;
   reason: string;
   stats: SolveStats;
 }
@@ -73,6 +76,8 @@ export interface PropagateResult {
   dense?: DenseOutput;
 }
 
+/** Tolerance at and below which 'auto' flies with DOP853 instead of RK45 (tighter than the n-body default 1e-10, whose callers stay on RK45). */
+export const DOP853_RTOL = 1e-11;
 /** Revolutions above which 'auto' flies a coast with a symplectic method. */
 export const DEFAULT_LONG_COAST_REVS = 500;
 /** Fixed steps per revolution when the step comes from the period estimate. */
@@ -84,7 +89,7 @@ export const FALLBACK_METHOD: FixedMethod = 'yoshida4';
 /** Largest number of fixed steps a fallback may take. */
 export const FALLBACK_MAX_STEPS = 10_000_000;
 
-const METHODS: readonly MethodChoice[] = ['auto', 'rk45', ...FIXED_METHODS];
+const METHODS: readonly MethodChoice[] = ['auto', 'rk45', ...FIXED_METHODS, 'dop853'];
 
 function fmt(x: number): string {
   return String(Number(x.toPrecision(6)));
@@ -134,7 +139,7 @@ export function propagate(req: PropagateRequest): PropagateResult {
   });
 
   // Choose the first method.
-  let first: 'rk45' | FixedMethod;
+  let first: 'rk45' | 'dop853' | FixedMethod;
   let reason: string;
   let h = req.fixedStep;
   if (method === 'auto') {
@@ -143,6 +148,9 @@ export function propagate(req: PropagateRequest): PropagateResult {
       first = LONG_COAST_METHOD;
       h ??= req.period / DEFAULT_STEPS_PER_REV;
       reason = `long coast: ${fmt(revs)} revolutions > ${fmt(longCoastRevs)}`;
+    } else if ((req.rtol ?? DEFAULT_RTOL) <= DOP853_RTOL) {
+      first = 'dop853';
+      reason = `tight tolerance: rtol ${fmt(req.rtol ?? DEFAULT_RTOL)} ≤ ${fmt(DOP853_RTOL)}`;
     } else {
       first = 'rk45';
       reason = 'default';
@@ -150,13 +158,13 @@ export function propagate(req: PropagateRequest): PropagateResult {
   } else {
     first = method;
     reason = 'requested by caller';
-    if (method !== 'rk45' && h === undefined) {
+    if (method !== 'rk45' && method !== 'dop853' && h === undefined) {
       if (req.period === undefined) throw new InputError('fixedStep', `must be given for method ${method} when period is not`);
       h = req.period / DEFAULT_STEPS_PER_REV;
     }
   }
 
-  if (first !== 'rk45') {
+  if (first !== 'rk45' && first !== 'dop853') {
     const locator = new EventLocator(events, n2, 'propagate');
     const dense = req.dense ? new DenseOutput(n2, t0) : undefined;
     const span = flyFixed(first, accel, t0, y, tEnd, h as number, n, locator, dense, req.signal);
@@ -164,7 +172,7 @@ export function propagate(req: PropagateRequest): PropagateResult {
     return result(span.t, y, span.status, span.message, locator.hits, dense);
   }
 
-  // RK45 on the first-order form.
+  // RK45 or DOP853 on the first-order form.
   const xs = new Float64Array(n);
   const vs = new Float64Array(n);
   const as = new Float64Array(n);
@@ -179,7 +187,9 @@ export function propagate(req: PropagateRequest): PropagateResult {
       dydt[n + i] = as[i];
     }
   };
-  const r = rk45(ode, t0, y, tEnd, {
+  const adaptive = first === 'dop853' ? dop853 : rk45;
+  const label = first === 'dop853' ? 'DOP853' : 'RK45';
+  const r = adaptive(ode, t0, y, tEnd, {
     rtol: req.rtol,
     atol: req.atol,
     maxSteps: req.maxSteps,
@@ -187,11 +197,11 @@ export function propagate(req: PropagateRequest): PropagateResult {
     dense: req.dense,
     signal: req.signal,
   });
-  spans.push({ t0, t1: r.t, method: 'rk45', reason, stats: r.stats });
+  spans.push({ t0, t1: r.t, method: first, reason, stats: r.stats });
   const failed = r.status === 'step-budget' || r.status === 'step-underflow';
   if (!failed || method !== 'auto') return result(r.t, r.y, r.status, r.message, r.events, r.dense);
 
-  // Fallback from where RK45 stopped.
+  // Fallback from where RK45 (DOP853) stopped.
   const hFallback = req.fixedStep ?? (req.period !== undefined ? req.period / DEFAULT_STEPS_PER_REV : Math.abs(r.hNext));
   const remaining = Math.abs(tEnd - r.t);
   const need = hFallback > 0 ? remaining / hFallback : Infinity;
@@ -214,7 +224,7 @@ export function propagate(req: PropagateRequest): PropagateResult {
     t0: r.t,
     t1: span.t,
     method: FALLBACK_METHOD,
-    reason: `RK45 failed: ${r.status} at t=${r.t}; fell back to ${FALLBACK_METHOD} with h=${fmt(hFallback)}`,
+    reason: `${label} failed: ${r.status} at t=${r.t}; fell back to ${FALLBACK_METHOD} with h=${fmt(hFallback)}`,
     stats: span.stats,
   });
   return result(span.t, yy, span.status, `${r.message}; ${span.message}`, locator.hits, dense);

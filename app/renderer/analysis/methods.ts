@@ -24,7 +24,7 @@ export function methodGroups(spans: readonly FlownSpan[]): MethodGroup[] {
     const key = s.reason.replace(/[-+]?\d[\d.e+-]*/g, '#');
     let g = out.find((x) => x.method === s.method && x.reason.replace(/[-+]?\d[\d.e+-]*/g, '#') === key);
     if (!g) {
-      g = { method: s.method, label: integratorName(s.method), reason: s.reason, spans: 0, seconds: 0, fallback: s.method !== 'rk45' };
+      g = { method: s.method, label: integratorName(s.method), reason: s.reason, spans: 0, seconds: 0, fallback: s.method !== 'rk45' && s.method !== 'dop853' };
       out.push(g);
     }
     g.spans++;

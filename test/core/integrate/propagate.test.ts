@@ -32,6 +32,19 @@ describe('propagate: the front door picks the integrator and records why', () =>
     expect(posError(r.v, ex.subarray(3)) / Math.sqrt(MU / O.a)).toBeLessThan(1e-7);
   });
 
+  it("'auto' at rtol 1e-12 (≤ 1e-11) picks dop853 with its reason and matches the analytic orbit", () => {
+    const r = propagate(base({ rtol: 1e-12, atol: 1e-12, dense: true }));
+    expect(r.status).toBe('done');
+    expect(r.spans).toHaveLength(1);
+    expect(r.spans[0]).toMatchObject({ t0: 0, t1: 2 * P, method: 'dop853', reason: 'tight tolerance: rtol 1e-12 ≤ 1e-11' });
+    const ex = stateAt(O, 2 * P);
+    // Two revolutions at rtol 1e-12: DOP853 reaches ~1e-12 relative (analytic Kepler); 1e-10 leaves margin.
+    expect(posError(r.x, ex) / O.a).toBeLessThan(1e-10);
+    expect(posError(r.dense!.at(0.7 * P), stateAt(O, 0.7 * P)) / O.a).toBeLessThan(1e-10);
+    // Explicitly requested, the same method with the caller's reason.
+    expect(propagate(base({ method: 'dop853', rtol: 1e-9, atol: 1e-9 })).spans[0]).toMatchObject({ method: 'dop853', reason: 'requested by caller' });
+  });
+
   it("a long coast (2400 revolutions > 500) is flown by a symplectic method, reason 'long coast: 2400 revolutions > 500'", () => {
     // Small orbit (period 10 s) so 2400 revolutions at the default 1000 steps per revolution stay quick.
     const a = 100,
