@@ -3,9 +3,10 @@
  * for two bodies orbiting the same parent, in time-of-flight mode, single revolution — the
  * departure body's state once per row, per cell the arrival body's state from the conic
  * ephemeris (core/system/ephemeris.ts: Kepler's equation by Halley iteration from Mikkola's
- * starter as in core/orbit/anomaly.ts), one Lambert arc (lambert_core.h, Izzo 2015) and the
+ * starter as in core/orbit/anomaly.ts), one Lambert arc (lambert_core.h, Izzo 2015), the
  * periapsis burns v_p = sqrt(v_inf^2 + 2 mu / r_p) minus the orbit speed (Curtis, Orbital
- * Mechanics for Engineering Students, sections 8.7-8.9).
+ * Mechanics for Engineering Students, sections 8.7-8.9), and the grid's eight planes stored
+ * as core/search/planes.ts stores them (six float, two int8).
  * Usage: porkchopCell IN OUT REPS — IN: 14 doubles (mu, muFrom, rPark, vPark, muTo, rArrive,
  * vTarget, flyby, depStart, depEnd, depN, tofStart, tofEnd, tofN) then the two bodies' 14-double
  * ephemeris rows (EPHEMERIS_STRIDE layout); OUT: dvDepart, dvArrive per cell (row-major).
@@ -112,7 +113,13 @@ static double axis(double start, double end, int n, int k) {
   return n == 1 ? start : start + ((end - start) * k) / (n - 1);
 }
 
-static void grid(const double *H, const double *kf, const double *kt, double *out) {
+/* The grid's planes, as core/search/planes.ts stores them. */
+typedef struct {
+  float *dvDepart, *dvArrive, *dvTotal, *c3, *vInfDepart, *vInfArrive;
+  signed char *revs, *branch;
+} Planes;
+
+static void grid(const double *H, const double *kf, const double *kt, double *out, Planes *P) {
   double mu = H[0], muFrom = H[1], rPark = H[2], vPark = H[3], muTo = H[4], rArr = H[5], vTarget = H[6];
   int flyby = H[7] != 0, nDep = (int)H[10], nTof = (int)H[13];
   double dep[6], arr[6], v1[3], v2[3];
@@ -122,16 +129,31 @@ static void grid(const double *H, const double *kf, const double *kt, double *ou
     for (int j = 0; j < nTof; j++) {
       double tof = axis(H[11], H[12], nTof, j);
       body_state(kt, tDep + tof, arr);
-      double *o = out + 2 * ((size_t)i * nTof + j);
-      if (!(tof > 0) || lambert_single(mu, dep, arr, tof, v1, v2) < 0) { o[0] = o[1] = INFINITY; continue; }
+      size_t idx = (size_t)i * nTof + j;
+      double *o = out + 2 * idx;
+      if (!(tof > 0) || lambert_single(mu, dep, arr, tof, v1, v2) < 0) {
+        o[0] = o[1] = INFINITY;
+        P->dvDepart[idx] = P->dvArrive[idx] = P->dvTotal[idx] = P->c3[idx] = P->vInfDepart[idx] = P->vInfArrive[idx] = INFINITY;
+        P->revs[idx] = P->branch[idx] = -1;
+        continue;
+      }
       double dx = v1[0] - dep[3], dy = v1[1] - dep[4], dz = v1[2] - dep[5];
       double c3 = dx * dx + dy * dy + dz * dz;
       double dvD = sqrt(c3 + (2 * muFrom) / rPark) - vPark;
       dx = v2[0] - arr[3]; dy = v2[1] - arr[4]; dz = v2[2] - arr[5];
       double w2 = dx * dx + dy * dy + dz * dz;
       double dvA = flyby ? 0 : sqrt(w2 + (2 * muTo) / rArr) - vTarget;
-      o[0] = dvD;
-      o[1] = dvA;
+      double vInfD = sqrt(c3), vInfA = sqrt(w2), total = dvD + dvA;
+      int ok = fabs(total + c3 + vInfD + vInfA) < INFINITY;
+      o[0] = ok ? dvD : INFINITY;
+      o[1] = ok ? dvA : INFINITY;
+      P->dvDepart[idx] = ok ? dvD : INFINITY;
+      P->dvArrive[idx] = ok ? dvA : INFINITY;
+      P->dvTotal[idx] = ok ? total : INFINITY;
+      P->c3[idx] = ok ? c3 : INFINITY;
+      P->vInfDepart[idx] = ok ? vInfD : INFINITY;
+      P->vInfArrive[idx] = ok ? vInfA : INFINITY;
+      P->revs[idx] = P->branch[idx] = ok ? 0 : -1;
     }
   }
 }
@@ -144,12 +166,14 @@ int main(int argc, char **argv) {
   fclose(f);
   size_t cells = (size_t)buf[10] * (size_t)buf[13];
   double *out = malloc(2 * cells * sizeof(double));
+  Planes P = {malloc(cells * sizeof(float)), malloc(cells * sizeof(float)), malloc(cells * sizeof(float)), malloc(cells * sizeof(float)),
+              malloc(cells * sizeof(float)), malloc(cells * sizeof(float)), malloc(cells), malloc(cells)};
   int reps = atoi(argv[3]);
   double *times = malloc(reps * sizeof(double));
-  grid(buf, buf + 14, buf + 28, out);
+  grid(buf, buf + 14, buf + 28, out, &P);
   for (int r = 0; r < reps; r++) {
     double t0 = now_s();
-    grid(buf, buf + 14, buf + 28, out);
+    grid(buf, buf + 14, buf + 28, out, &P);
     times[r] = now_s() - t0;
   }
   f = fopen(argv[2], "wb");
