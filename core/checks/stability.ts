@@ -67,7 +67,7 @@ export interface StabilityOptions {
   stepsPerOrbit?: number;
   /** Merge moons into their planets: true, false or 'auto' (default: merge when the run with moons exceeds maxSteps). */
   mergeMoons?: boolean | 'auto';
-  /** Step budget (default DEFAULT_MAX_STEPS); a run that needs more even with moons merged is refused. */
+  /** Step budget (default DEFAULT_MAX_STEPS, DEFAULT_WH_MAX_STEPS for 'wisdom-holman'); a run that needs more even with moons merged is refused. */
   maxSteps?: number;
   /** Element-history samples (default DEFAULT_SAMPLES, ≥ 2). */
   samples?: number;
@@ -84,6 +84,8 @@ export const DEFAULT_WH_STEPS_PER_PERIOD = 20;
 export const DEFAULT_METHOD: StabilityMethod = 'wisdom-holman';
 /** With 'wisdom-holman' and mergeMoons 'auto', moons are merged when flying them needs more than this × the steps of the planets alone. */
 export const WH_MOON_STEP_FACTOR = 4;
+/** Step budget of 'wisdom-holman' (one force evaluation per step: 1,000,000 years of the demo, 6.2e7 steps, fit). */
+export const DEFAULT_WH_MAX_STEPS = 100_000_000;
 export const DEFAULT_MAX_STEPS = 20_000_000;
 export const DEFAULT_SAMPLES = 1000;
 export const DEFAULT_EJECTION_FACTOR = 10;
@@ -236,7 +238,12 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
   }
   const wh = method === 'wisdom-holman';
   const stepsPerOrbit = posInt('stepsPerOrbit', options.stepsPerOrbit, wh ? DEFAULT_WH_STEPS_PER_PERIOD : DEFAULT_STEPS_PER_ORBIT, 4);
-  const maxSteps = requireWithinLimit('maxSteps', posInt('maxSteps', options.maxSteps, DEFAULT_MAX_STEPS, 1), MAX_STABILITY_STEPS, 'steps');
+  const maxSteps = requireWithinLimit(
+    'maxSteps',
+    posInt('maxSteps', options.maxSteps, wh ? DEFAULT_WH_MAX_STEPS : DEFAULT_MAX_STEPS, 1),
+    MAX_STABILITY_STEPS,
+    'steps',
+  );
   const nSamples = requireWithinLimit('samples', posInt('samples', options.samples, DEFAULT_SAMPLES, 2), MAX_STABILITY_SAMPLES, 'samples');
   const ejectionFactor = requireFinite('ejectionFactor', options.ejectionFactor ?? DEFAULT_EJECTION_FACTOR);
   if (!(ejectionFactor > 1)) throw new InputError('ejectionFactor', 'must be > 1', ejectionFactor);

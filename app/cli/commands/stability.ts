@@ -88,7 +88,10 @@ export function addStabilityCommand(program: Command): void {
     .option('--merge-moons', 'fly each planet with its moons as one body')
     .option('--no-merge-moons', 'fly the moons (default: merged only when the step budget would be exceeded)')
     .option('--method <m>', `integrator, by id or name: ${integratorChoices(STABILITY_METHODS)}`, STABILITY_METHODS[0])
-    .option('--steps-per-orbit <n>', 'steps per orbit of the fastest body (wisdom-holman: per period, default 20; yoshida4/verlet: per periapsis time scale, default 200)')
+    .option(
+      '--steps-per-orbit <n>',
+      'steps per orbit of the fastest body (wisdom-holman: per period, default 20; yoshida4/verlet: per periapsis time scale, default 200)',
+    )
     .option('--max-steps <n>', 'step budget')
     .option('--samples <n>', 'element-history samples')
     .option('--json', 'machine-readable output')

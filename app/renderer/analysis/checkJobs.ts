@@ -21,7 +21,7 @@ import type { Plan } from '../../../core/plan/index.ts';
 import type { PlanResult } from '../../../core/plan/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { retargetFraction } from '../handoff/progress.ts';
-import { checkStability, DEFAULT_MAX_STEPS, type StabilityResult } from '../../../core/checks/index.ts';
+import { checkStability, DEFAULT_MAX_STEPS, DEFAULT_WH_MAX_STEPS, type StabilityMethod, type StabilityResult } from '../../../core/checks/index.ts';
 
 /** Options of a game-step check that the app passes through (SI). */
 export interface GameStepJobOptions {
@@ -54,6 +54,8 @@ export interface RetargetOutput {
 export interface StabilityJobOptions {
   years: number;
   mergeMoons: boolean | 'auto';
+  /** Integrator (default: the core's, Wisdom–Holman). */
+  method?: StabilityMethod;
 }
 
 /** What a stability run of this system costs: per merge mode, the step and the measured step rate. */
@@ -81,7 +83,7 @@ export type CheckJob =
   | { kind: 'sweep'; system: StarSystem; plan: Plan; result: PlanResult | null; physics: GamePhysicsInput; tolerance?: number; energyTolerance?: number }
   | ({ kind: 'retarget'; system: StarSystem; plan: Plan } & RetargetJobOptions)
   | ({ kind: 'stability'; system: StarSystem } & StabilityJobOptions)
-  | { kind: 'stability-estimate'; system: StarSystem };
+  | { kind: 'stability-estimate'; system: StarSystem; method?: StabilityMethod };
 
 export type CheckOutput =
   | { kind: 'gamestep'; check: GameStepResult }
@@ -93,13 +95,13 @@ export type CheckOutput =
 const now = (): number => (typeof performance !== 'undefined' ? performance.now() : Date.now());
 
 /** One timing run: the step at this merge mode, and the step rate over about ESTIMATE_STEPS steps. */
-function timeStability(system: StarSystem, mergeMoons: boolean): { h: number; stepsPerSecond: number } {
+function timeStability(system: StarSystem, mergeMoons: boolean, method?: StabilityMethod): { h: number; stepsPerSecond: number } {
   // a short run gives about the step (h = span / ⌈span / h₀⌉ ≤ h₀); a run of about ESTIMATE_STEPS steps then gives h₀ closely, and the rate
-  const probe = checkStability(system, { span: 0.01 * system.calendar.yearLength, mergeMoons, samples: 2 });
+  const probe = checkStability(system, { span: 0.01 * system.calendar.yearLength, mergeMoons, method, samples: 2 });
   const h = probe.h;
-  checkStability(system, { span: ESTIMATE_WARMUP * h, mergeMoons, samples: 2 }); // warms the JIT
+  checkStability(system, { span: ESTIMATE_WARMUP * h, mergeMoons, method, samples: 2 }); // warms the JIT
   const t0 = now();
-  const r = checkStability(system, { span: ESTIMATE_STEPS * h, mergeMoons, samples: 2 });
+  const r = checkStability(system, { span: ESTIMATE_STEPS * h, mergeMoons, method, samples: 2 });
   const ms = Math.max(1, now() - t0);
   return { h: r.h, stepsPerSecond: (1000 * r.steps) / ms };
 }
@@ -150,14 +152,16 @@ export function runCheckJob(job: CheckJob, onProgress: (fraction: number, note: 
         stability: checkStability(job.system, {
           years: job.years,
           mergeMoons: job.mergeMoons,
+          method: job.method,
           onProgress: (f) => onProgress(f, `${Math.round(f * job.years).toLocaleString('en')} of ${job.years.toLocaleString('en')} years`),
         }),
       };
     case 'stability-estimate': {
       const hasMoons = job.system.bodies.some((b) => b.derived.depth > 1);
-      const moons = timeStability(job.system, false);
-      const merged = hasMoons ? timeStability(job.system, true) : moons;
-      return { kind: 'stability-estimate', estimate: { yearLength: job.system.calendar.yearLength, hasMoons, moons, merged, maxSteps: DEFAULT_MAX_STEPS } };
+      const moons = timeStability(job.system, false, job.method);
+      const merged = hasMoons ? timeStability(job.system, true, job.method) : moons;
+      const maxSteps = (job.method ?? 'wisdom-holman') === 'wisdom-holman' ? DEFAULT_WH_MAX_STEPS : DEFAULT_MAX_STEPS;
+      return { kind: 'stability-estimate', estimate: { yearLength: job.system.calendar.yearLength, hasMoons, moons, merged, maxSteps } };
     }
   }
 }

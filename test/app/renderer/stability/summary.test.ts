@@ -9,7 +9,7 @@ const system = demoSystem();
 
 describe('the stability check in plain words', () => {
   it('says "no flags" for the demo over a short span, and trusts its small energy error', () => {
-    const r = checkStability(system, { years: 10, samples: 50 });
+    const r = checkStability(system, { years: 10, samples: 50, method: 'yoshida4' });
     const s = stabilitySummary(system, r);
     expect(s.ok).toBe(true);
     expect(s.headline).toMatch(/^No flags over 10 years:/);
@@ -34,7 +34,7 @@ describe('the stability check in plain words', () => {
   });
 
   it('puts the pairs closest first on one log bar with the 3 R_H threshold at log 3 / log max', () => {
-    const r = checkStability(system, { years: 10, samples: 50 });
+    const r = checkStability(system, { years: 10, samples: 50, method: 'yoshida4' });
     const { rows, maxHill } = pairRows(system, r);
     expect(rows.length).toBe(r.pairs.length);
     const closest = Math.min(...r.pairs.map((p) => p.minHill));
@@ -49,8 +49,8 @@ describe('the stability check in plain words', () => {
 
   it("estimates the run: the core's own merge decision and step count, time from the measured rate", () => {
     // a step budget of 5 000: one year with moons needs more, so 'auto' merges them, as the core does
-    const probe = checkStability(system, { years: 0.5, mergeMoons: false, samples: 2 });
-    const probeMerged = checkStability(system, { years: 0.5, mergeMoons: true, samples: 2 });
+    const probe = checkStability(system, { years: 0.5, mergeMoons: false, samples: 2, method: 'yoshida4' });
+    const probeMerged = checkStability(system, { years: 0.5, mergeMoons: true, samples: 2, method: 'yoshida4' });
     const est: StabilityEstimate = {
       yearLength: system.calendar.yearLength,
       hasMoons: true,
@@ -58,7 +58,7 @@ describe('the stability check in plain words', () => {
       merged: { h: probeMerged.h, stepsPerSecond: 2e6 },
       maxSteps: 5000,
     };
-    const run = checkStability(system, { years: 1, maxSteps: 5000, samples: 2 });
+    const run = checkStability(system, { years: 1, maxSteps: 5000, samples: 2, method: 'yoshida4' });
     const e = runEstimate(est, 1, 'auto')!;
     expect(e.merged).toBe(run.mergedMoons);
     expect(e.merged).toBe(true);
@@ -66,7 +66,7 @@ describe('the stability check in plain words', () => {
     expect(e.seconds).toBeCloseTo(e.steps / 2e6, 12);
     expect(e.refused).toBe(false);
     expect(runEstimate(est, 1, false)!.refused).toBe(true);
-    expect(() => checkStability(system, { years: 1, maxSteps: 5000, mergeMoons: false, samples: 2 })).toThrow(/maxSteps/);
+    expect(() => checkStability(system, { years: 1, maxSteps: 5000, mergeMoons: false, samples: 2, method: 'yoshida4' })).toThrow(/maxSteps/);
     expect(runEstimate(est, NaN, 'auto')).toBeNull();
     expect(runEstimate(est, 0.01, 'auto')!.text).toMatch(/^under a second here/);
   });
