@@ -10,7 +10,24 @@ import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import { dirname, join, normalize, relative } from 'node:path';
 import { describe, expect, it } from 'vitest';
 
-const LAYERS = ['math', 'integrate', 'orbit', 'system', 'runtime', 'dynamics', 'plan', 'conic', 'nbody', 'target', 'gamestep', 'handoff', 'checks', 'search', 'route', 'io'];
+const LAYERS = [
+  'math',
+  'integrate',
+  'orbit',
+  'system',
+  'runtime',
+  'dynamics',
+  'plan',
+  'conic',
+  'nbody',
+  'target',
+  'gamestep',
+  'handoff',
+  'checks',
+  'search',
+  'route',
+  'io',
+];
 const core = new URL('../../core/', import.meta.url).pathname;
 
 function files(dir: string): string[] {
