@@ -19,6 +19,7 @@
  * flies every step of the flight.
  */
 import { InputError, WaymarkError } from '../math/index.ts';
+import { propagateKepler } from '../orbit/index.ts';
 import { bodyState, type StarSystem } from '../system/index.ts';
 import {
   GameFlight,
@@ -362,17 +363,10 @@ function coarseError(
 }
 
 /** The ship's state relative to body k at exactly time t, from a grid state near t (Kepler about k over the gap). */
-export function stateNear(
-  system: StarSystem,
-  s: GameState,
-  k: number,
-  t: number,
-  out6: Float64Array,
-  kepler: (mu: number, s6: Float64Array, dt: number, out: Float64Array) => void,
-): Float64Array {
+export function stateNear(system: StarSystem, s: GameState, k: number, t: number, out6: Float64Array): Float64Array {
   bodyState(system, k, s.t, b6);
   for (let i = 0; i < 6; i++) tmp6[i] = s.abs[i] - b6[i];
-  if (t !== s.t) kepler(system.bodies[k].mu, tmp6, t - s.t, out6);
+  if (t !== s.t) propagateKepler(system.bodies[k].mu, tmp6, t - s.t, out6);
   else out6.set(tmp6);
   return out6;
 }

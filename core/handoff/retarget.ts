@@ -25,7 +25,6 @@
  *    halved (up to RECOMMEND_HALVINGS times).
  */
 import { InputError, SolverError, WaymarkError } from '../math/index.ts';
-import { propagateKepler } from '../orbit/index.ts';
 import { bodyState, type StarSystem } from '../system/index.ts';
 import { inertialToBurn, type Plan } from '../plan/index.ts';
 import { measure, planLegs, type FlightGoal, type Leg, type ModelFlight, type TargetTolerances } from '../target/index.ts';
@@ -205,20 +204,16 @@ function gameFlightView(ctx: RunContext, run: GameRun): ModelFlight {
     stateAt(k, t, out6) {
       const s = run.probes.get(t);
       if (!s) return false;
-      stateNear(sys, s, k, t, out6, kepler);
+      stateNear(sys, s, k, t, out6);
       return true;
     },
     endState(k, out6) {
-      stateNear(sys, run.end, k, run.end.t, out6, kepler);
+      stateNear(sys, run.end, k, run.end.t, out6);
     },
     entries: run.entries,
     impact: run.impact,
     checkpoint: () => null,
   };
-}
-
-function kepler(mu: number, s6: Float64Array, dt: number, out: Float64Array): void {
-  propagateKepler(mu, s6, dt, out);
 }
 
 const a6 = new Float64Array(6);
@@ -230,7 +225,6 @@ function referenceView(w: Work, burns: GameBurn[], start: GameState, tEnd: numbe
   const f = flyReference(referenceSettings(w.ctx, burns, RETARGET_RTOL), start.t, start.abs, start.central, tEnd, true);
   w.stats.referenceFlights++;
   const track = new ReferenceTrack(system, f);
-  const impact = null;
   return {
     model: 'conic',
     conic: w.ctx.prep.result,
@@ -249,7 +243,7 @@ function referenceView(w: Work, burns: GameBurn[], start: GameState, tEnd: numbe
       for (let i = 0; i < 6; i++) out6[i] = a6[i] - c6[i];
     },
     entries: [],
-    impact,
+    impact: null,
     checkpoint: () => null,
   };
 }

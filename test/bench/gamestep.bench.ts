@@ -22,30 +22,9 @@ import { gameStepCheck, prepareGameStep } from '../../core/gamestep/check.ts';
 import { checkStability } from '../../core/checks/stability.ts';
 import { initialStates } from '../../core/system/nbodyEphemeris.ts';
 import { demoPlan } from '../fixtures/demoPlan.ts';
-import { printTable } from './table.ts';
+import { bareEuler, printTable } from './table.ts';
 
 const SYSTEM_PATH = new URL('../../assets/systems/ilmar.system.json', import.meta.url);
-
-function bareEuler(steps: number, h: number): number {
-  const mu = 3e14;
-  let x = 6.2e6,
-    y = 0,
-    z = 0;
-  let vx = 0,
-    vy = Math.sqrt(mu / 6.2e6),
-    vz = 0;
-  for (let k = 0; k < steps; k++) {
-    const r2 = x * x + y * y + z * z;
-    const f = -mu / (r2 * Math.sqrt(r2));
-    vx += h * f * x;
-    vy += h * f * y;
-    vz += h * f * z;
-    x += h * vx;
-    y += h * vy;
-    z += h * vz;
-  }
-  return x + y + z;
-}
 
 function bareLeapfrog(mus: Float64Array, x0: Float64Array, v0: Float64Array, h: number, steps: number): number {
   const N = mus.length;

@@ -19,7 +19,7 @@ import { parseSystemFile } from '../../core/io/systemFile.ts';
 import { gameStepCheck } from '../../core/gamestep/index.ts';
 import { retargetForGame } from '../../core/handoff/index.ts';
 import { demoPlan } from '../fixtures/demoPlan.ts';
-import { printTable } from './table.ts';
+import { bareEuler, printTable } from './table.ts';
 
 const SYSTEM_PATH = new URL('../../assets/systems/ilmar.system.json', import.meta.url);
 const ROOT = fileURLToPath(new URL('../../', import.meta.url));
@@ -28,27 +28,6 @@ function time<T>(fn: () => T): { ms: number; value: T } {
   const t0 = performance.now();
   const value = fn();
   return { ms: performance.now() - t0, value };
-}
-
-function bareEuler(steps: number, h: number): number {
-  const mu = 3e14;
-  let x = 6.2e6,
-    y = 0,
-    z = 0;
-  let vx = 0,
-    vy = Math.sqrt(mu / 6.2e6),
-    vz = 0;
-  for (let k = 0; k < steps; k++) {
-    const r2 = x * x + y * y + z * z;
-    const f = -mu / (r2 * Math.sqrt(r2));
-    vx += h * f * x;
-    vy += h * f * y;
-    vz += h * f * z;
-    x += h * vx;
-    y += h * vy;
-    z += h * vz;
-  }
-  return x + y + z;
 }
 
 export function run(): void {

@@ -30,3 +30,25 @@ export function fmt(x: number): string {
   if (Number.isInteger(x)) return String(x);
   return x.toPrecision(4);
 }
+
+/** A bare semi-implicit Euler loop about one central body, local variables only: the cost floor of a game step. */
+export function bareEuler(steps: number, h: number): number {
+  const mu = 3e14;
+  let x = 6.2e6,
+    y = 0,
+    z = 0;
+  let vx = 0,
+    vy = Math.sqrt(mu / 6.2e6),
+    vz = 0;
+  for (let k = 0; k < steps; k++) {
+    const r2 = x * x + y * y + z * z;
+    const f = -mu / (r2 * Math.sqrt(r2));
+    vx += h * f * x;
+    vy += h * f * y;
+    vz += h * f * z;
+    x += h * vx;
+    y += h * vy;
+    z += h * vz;
+  }
+  return x + y + z;
+}
