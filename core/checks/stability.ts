@@ -46,7 +46,7 @@ import { InputError, SolverError, WaymarkError, requireFinite } from '../math/in
 import { fixedStepper } from '../integrate/index.ts';
 import { mutualAccel } from '../integrate/index.ts';
 import { stateToElements } from '../orbit/index.ts';
-import { wisdomHolmanStepper } from './wisdomHolman.ts';
+import { wisdomHolmanRun } from './wisdomHolman.ts';
 import type { StarSystem } from '../system/index.ts';
 import { initialStates } from '../system/index.ts';
 import { MAX_STABILITY_BODIES, MAX_STABILITY_SAMPLES, MAX_STABILITY_STEPS, MAX_STABILITY_WORK, requireWithinLimit } from '../system/index.ts';
@@ -429,8 +429,16 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
     energyHist[s] = totalEnergy(x, v, mus);
   };
 
-  const stepper = wh ? wisdomHolmanStepper(mus, jacobiOrder(parts, bodies)) : fixedStepper(method, mutualAccel(mus), 3 * N);
   sample(0, 0);
+  // Wisdom–Holman keeps its own (Jacobi) state: positions every step in run.x, the whole state read at samples
+  const run = wh ? wisdomHolmanRun(mus, x, v, h, jacobiOrder(parts, bodies)) : null;
+  const stepper = run ? null : fixedStepper(method as Exclude<StabilityMethod, 'wisdom-holman'>, mutualAccel(mus), 3 * N);
+  const xs = run ? run.x : x;
+  // sibling pairs as flat index lists, closest approaches squared (a square root only on a new minimum)
+  const pairI = Int32Array.from(pairs, (p) => 3 * p.i);
+  const pairJ = Int32Array.from(pairs, (p) => 3 * p.j);
+  const pairMin2 = new Float64Array(pairs.length).fill(Infinity);
+  const pairTMin = new Float64Array(pairs.length);
   const E0 = energyHist[0];
   const sampleAt = (s: number): number => Math.round((s * nSteps) / (nSamples - 1));
   let nextSample = 1;
@@ -443,14 +451,20 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
     if (k % CANCEL_CHECK_STEPS === 0 && options.signal?.aborted) {
       throw new SolverError('stability', 'cancelled', `cancelled at ${years(k * h, yearLength)} years`, { t: k * h });
     }
-    fevals += stepper.step(k * h, h, x, v);
+    if (run) run.advance();
+    else fevals += (stepper as NonNullable<typeof stepper>).step(k * h, h, x, v);
     const t = (k + 1) * h;
     // closest approaches of siblings
-    for (const p of pairs) {
-      const d = Math.hypot(x[3 * p.j] - x[3 * p.i], x[3 * p.j + 1] - x[3 * p.i + 1], x[3 * p.j + 2] - x[3 * p.i + 2]);
-      if (d < p.minDistance) {
-        p.minDistance = d;
-        p.tMin = t;
+    for (let q = 0; q < pairI.length; q++) {
+      const i = pairI[q],
+        j = pairJ[q];
+      const dx = xs[j] - xs[i],
+        dy = xs[j + 1] - xs[i + 1],
+        dz = xs[j + 2] - xs[i + 2];
+      const d2 = dx * dx + dy * dy + dz * dz;
+      if (d2 < pairMin2[q]) {
+        pairMin2[q] = d2;
+        pairTMin[q] = t;
       }
     }
     // collisions, any pair
@@ -458,9 +472,9 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
     let hitJ = -1;
     for (let i = 0; i < N && hit < 0; i++) {
       for (let j = i + 1; j < N; j++) {
-        const dx = x[3 * j] - x[3 * i],
-          dy = x[3 * j + 1] - x[3 * i + 1],
-          dz = x[3 * j + 2] - x[3 * i + 2];
+        const dx = xs[3 * j] - xs[3 * i],
+          dy = xs[3 * j + 1] - xs[3 * i + 1],
+          dz = xs[3 * j + 2] - xs[3 * i + 2];
         const rr = radii[i] + radii[j];
         if (dx * dx + dy * dy + dz * dz < rr * rr) {
           hit = i;
@@ -469,10 +483,16 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
         }
       }
     }
-    if (!Number.isFinite(x[0] + x[3 * N - 1] + v[0] + v[3 * N - 1])) {
+    if (!Number.isFinite(xs[0] + xs[3 * N - 1] + (run ? 0 : v[0] + v[3 * N - 1]))) {
       throw new SolverError('stability', 'non-finite', `the state became non-finite at ${years(t, yearLength)} years`, { t });
     }
     while (nextSample < nSamples && k + 1 >= sampleAt(nextSample)) {
+      if (run) {
+        run.read(x, v);
+        if (!Number.isFinite(v[0] + v[3 * N - 1])) {
+          throw new SolverError('stability', 'non-finite', `the state became non-finite at ${years(t, yearLength)} years`, { t });
+        }
+      }
       sample(nextSample, t);
       nextSample++;
       options.onProgress?.((k + 1) / nSteps);
@@ -493,6 +513,11 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
   const stepsDone = Math.min(k, nSteps);
   const nDone = status === 'done' ? nSamples : nextSample;
   if (status === 'collision' && nDone < nSamples) notes.push(`the run stopped at the collision, ${years(stepsDone * h, yearLength)} years in`);
+  if (run) fevals = run.fevals;
+  pairs.forEach((p, q) => {
+    p.minDistance = Math.sqrt(pairMin2[q]);
+    p.tMin = pairTMin[q];
+  });
   for (const p of pairs) {
     p.minHill = p.minDistance / p.mutualHill;
     if (p.minHill < CLOSE_ENCOUNTER_HILL) {

@@ -10,18 +10,20 @@
  *   H_I = Σ_{k≥1} m_k M_{k−1}/r'_k − Σ_{i<j} m_i m_j / r_ij.
  * One step is kick(h/2, H_I) · drift(h, H_K) · kick(h/2, H_I). The drift moves every Jacobi
  * body on its Kepler orbit with the Lagrange coefficients in the change of eccentric anomaly
- * (Murray & Dermott, Solar System Dynamics, eqs. 2.71; Danby, Fundamentals of Celestial
- * Mechanics, 2nd ed., §6.9: ΔM = x − e·cosE0·sin x + e·sinE0·(1 − cos x), solved by Newton from
- * x = ΔM) when the orbit is bound and |ΔM| ≤ π — the universal-variable solver
- * (`keplerCoefficients`, core/orbit/kepler.ts) took 5× the time of the whole step and stays
- * the path for every other case (unbound, a long drift, Newton not settled); the kick's accelerations come from Cartesian positions:
+ * (ellipticDrift.ts: Newton without trigonometric calls per iteration) when the orbit is bound
+ * and |ΔM| ≤ π — the universal-variable solver (`keplerCoefficients`, core/orbit/kepler.ts)
+ * took 5× the time of the whole step and stays the path for every other case (unbound, a long
+ * drift, Newton not settled); the kick's accelerations come from Cartesian positions:
  *   a_i = −Σ_j μ_j (x_i − x_j)/r_ij³ (every pair but the first two bodies', whose term cancels
  *   exactly against k = 1), plus for k ≥ 2: M_{k−1} r'_k/r'_k³ on body k and −μ_k r'_k/r'_k³
  *   on each body inside it,
  * turned into Jacobi accelerations a'_k = a_k − (μ-weighted mean of a over bodies 0 … k−1).
  * The closing half kick of one step and the opening half kick of the next use the same
  * positions, so the accelerations are kept (one force evaluation per step) while the caller
- * leaves x unchanged between steps.
+ * leaves x unchanged between steps. `wisdomHolmanRun` keeps the Jacobi state between steps
+ * and merges those two half kicks into one (Wisdom & Holman §3; the same map up to rounding),
+ * so a long run converts to Cartesian only the positions every step (the kick needs them) and
+ * the velocities only when the caller reads the state.
  * The map is exact for two bodies (H_I = 0) and its error is O(ε·h²) for planets of mass
  * ratio ε; no symplectic corrector is applied (Wisdom, Holman & Touma 1996 would remove the
  * O(ε·h²) part of the energy oscillation, not a secular drift).
@@ -30,22 +32,26 @@
  * so H_I is not small for it and the map is then only as good as leapfrog at the same step.
  */
 import { keplerCoefficients } from '../orbit/index.ts';
-
-/** Newton iterations for the change of eccentric anomaly before the universal solver takes over. */
-const WH_NEWTON_MAX = 12;
-/** Newton stop: the last correction at the rounding of x (quadratic convergence leaves the next below ε). */
-const WH_NEWTON_TOL = 4e-16;
+import { DRIFT_SLOTS, driftMemo, ellipticDrift } from './ellipticDrift.ts';
 
 export interface WisdomHolmanStepper {
   /** Advances the barycentric Cartesian state (x, v: 3N each) by h seconds in place; returns the force evaluations used. */
   step(t: number, h: number, x: Float64Array, v: Float64Array): number;
 }
 
-/**
- * A Wisdom–Holman stepper for the bodies of gravitational parameters mus (m³/s²), taken in
- * Jacobi order `order` (indices into mus; default 0, 1, …, N−1). Allocation-free per step.
- */
-export function wisdomHolmanStepper(mus: ArrayLike<number>, order?: ArrayLike<number>): WisdomHolmanStepper {
+export interface WisdomHolmanRun {
+  /** Barycentric positions (3N, caller's order) at the current time; written by every advance. */
+  readonly x: Float64Array;
+  /** Force evaluations so far (one per step, one at the start). */
+  readonly fevals: number;
+  /** Advances the run by its step h. */
+  advance(): void;
+  /** Writes the barycentric state at the current time into x and v (3N each, caller's order); the run is not disturbed. */
+  read(x: Float64Array, v: Float64Array): void;
+}
+
+/** The map's working state and its parts (kick, drift, coordinate changes) for the bodies of mus in Jacobi order `order`. */
+function whCore(mus: ArrayLike<number>, order?: ArrayLike<number>) {
   const N = mus.length;
   const o = Int32Array.from(order ?? Array.from({ length: N }, (_, k) => k));
   const mu = Float64Array.from(o, (j) => mus[j]); // in Jacobi order
@@ -59,13 +65,12 @@ export function wisdomHolmanStepper(mus: ArrayLike<number>, order?: ArrayLike<nu
   const vj = new Float64Array(3 * N);
   const xc = new Float64Array(3 * N); // Cartesian positions in Jacobi order
   const ac = new Float64Array(3 * N); // Cartesian interaction accelerations in Jacobi order
-  const xLast = new Float64Array(3 * N); // positions the cached accelerations belong to (caller's order)
-  let cached = false;
+  const memo = driftMemo(N); // ellipticDrift's per-body guesses and reference angles
   const st = new Float64Array(6);
   const cf = new Float64Array(5);
 
-  /** Cartesian (caller's order) → Jacobi positions (and Cartesian copy in Jacobi order). */
-  const toJacobi = (src: Float64Array, dst: Float64Array, copy: Float64Array | null): void => {
+  /** Cartesian (caller's order) → Jacobi (and Cartesian copy in Jacobi order). */
+  const toJacobi = (src: ArrayLike<number>, dst: Float64Array, copy: Float64Array | null): void => {
     let rx = 0,
       ry = 0,
       rz = 0;
@@ -105,21 +110,26 @@ export function wisdomHolmanStepper(mus: ArrayLike<number>, order?: ArrayLike<nu
       cy -= f * src[3 * k + 1];
       cz -= f * src[3 * k + 2];
       const j = 3 * o[k];
-      dst[j] = cx + src[3 * k];
-      dst[j + 1] = cy + src[3 * k + 1];
-      dst[j + 2] = cz + src[3 * k + 2];
+      const px = cx + src[3 * k],
+        py = cy + src[3 * k + 1],
+        pz = cz + src[3 * k + 2];
+      dst[j] = px;
+      dst[j + 1] = py;
+      dst[j + 2] = pz;
+      if (copy) {
+        copy[3 * k] = px;
+        copy[3 * k + 1] = py;
+        copy[3 * k + 2] = pz;
+      }
     }
     const j0 = 3 * o[0];
     dst[j0] = cx;
     dst[j0 + 1] = cy;
     dst[j0 + 2] = cz;
     if (copy) {
-      for (let k = 0; k < N; k++) {
-        const j = 3 * o[k];
-        copy[3 * k] = dst[j];
-        copy[3 * k + 1] = dst[j + 1];
-        copy[3 * k + 2] = dst[j + 2];
-      }
+      copy[0] = cx;
+      copy[1] = cy;
+      copy[2] = cz;
     }
   };
 
@@ -127,20 +137,31 @@ export function wisdomHolmanStepper(mus: ArrayLike<number>, order?: ArrayLike<nu
   const interaction = (): void => {
     ac.fill(0);
     for (let i = 0; i < N; i++) {
-      for (let k = i + 1; k < N; k++) {
-        if (i === 0 && k === 1) continue;
-        const dx = xc[3 * k] - xc[3 * i],
-          dy = xc[3 * k + 1] - xc[3 * i + 1],
-          dz = xc[3 * k + 2] - xc[3 * i + 2];
+      const xi = xc[3 * i],
+        yi = xc[3 * i + 1],
+        zi = xc[3 * i + 2];
+      const mi = mu[i];
+      let ax = 0,
+        ay = 0,
+        az = 0;
+      for (let k = i === 0 ? 2 : i + 1; k < N; k++) {
+        const dx = xc[3 * k] - xi,
+          dy = xc[3 * k + 1] - yi,
+          dz = xc[3 * k + 2] - zi;
         const r2 = dx * dx + dy * dy + dz * dz;
         const inv3 = 1 / (r2 * Math.sqrt(r2));
-        ac[3 * i] += mu[k] * inv3 * dx;
-        ac[3 * i + 1] += mu[k] * inv3 * dy;
-        ac[3 * i + 2] += mu[k] * inv3 * dz;
-        ac[3 * k] -= mu[i] * inv3 * dx;
-        ac[3 * k + 1] -= mu[i] * inv3 * dy;
-        ac[3 * k + 2] -= mu[i] * inv3 * dz;
+        const fk = mu[k] * inv3,
+          fi = mi * inv3;
+        ax += fk * dx;
+        ay += fk * dy;
+        az += fk * dz;
+        ac[3 * k] -= fi * dx;
+        ac[3 * k + 1] -= fi * dy;
+        ac[3 * k + 2] -= fi * dz;
       }
+      ac[3 * i] += ax;
+      ac[3 * i + 1] += ay;
+      ac[3 * i + 2] += az;
     }
     // the Jacobi terms m_k M_{k−1}/r'_k, k ≥ 2; tx.. sums the pull on bodies inside k
     let tx = 0,
@@ -165,66 +186,25 @@ export function wisdomHolmanStepper(mus: ArrayLike<number>, order?: ArrayLike<nu
     }
   };
 
-  /** Kicks the Jacobi velocities by dt with the accelerations ac. */
-  const kick = (dt: number): void => {
+  /** Kicks the Jacobi velocities w by dt with the accelerations ac. */
+  const kick = (w: Float64Array, dt: number): void => {
     let sx = 0,
       sy = 0,
       sz = 0;
     for (let k = 0; k < N; k++) {
       if (k > 0) {
         const m = M[k - 1];
-        vj[3 * k] += dt * (ac[3 * k] - sx / m);
-        vj[3 * k + 1] += dt * (ac[3 * k + 1] - sy / m);
-        vj[3 * k + 2] += dt * (ac[3 * k + 2] - sz / m);
+        w[3 * k] += dt * (ac[3 * k] - sx / m);
+        w[3 * k + 1] += dt * (ac[3 * k + 1] - sy / m);
+        w[3 * k + 2] += dt * (ac[3 * k + 2] - sz / m);
       }
       sx += mu[k] * ac[3 * k];
       sy += mu[k] * ac[3 * k + 1];
       sz += mu[k] * ac[3 * k + 2];
     }
-    vj[0] += (dt * sx) / M[N - 1];
-    vj[1] += (dt * sy) / M[N - 1];
-    vj[2] += (dt * sz) / M[N - 1];
-  };
-
-  /**
-   * Lagrange coefficients [f, g, ḟ, ġ] of a bound drift into cf (eqs. 2.71 of Murray & Dermott);
-   * false when the fast path does not apply.
-   */
-  const ellipticCoefficients = (m: number, dt: number): boolean => {
-    const r0 = Math.sqrt(st[0] * st[0] + st[1] * st[1] + st[2] * st[2]);
-    const v2 = st[3] * st[3] + st[4] * st[4] + st[5] * st[5];
-    const sigma = st[0] * st[3] + st[1] * st[4] + st[2] * st[5];
-    const ia = 2 / r0 - v2 / m;
-    if (!(ia > 0)) return false;
-    const a = 1 / ia;
-    const n = Math.sqrt(m * ia * ia * ia);
-    const dM = n * dt;
-    if (!(Math.abs(dM) <= Math.PI)) return false;
-    const ec = 1 - r0 * ia;
-    const es = sigma / (n * a * a);
-    let x = dM;
-    let ok = false;
-    for (let it = 0; it < WH_NEWTON_MAX; it++) {
-      const sx = Math.sin(x),
-        cx = Math.cos(x);
-      const F = x - ec * sx + es * (1 - cx) - dM;
-      const dF = 1 - ec * cx + es * sx;
-      const dx = F / dF;
-      x -= dx;
-      if (Math.abs(dx) <= WH_NEWTON_TOL * (1 + Math.abs(x))) {
-        ok = true;
-        break;
-      }
-    }
-    if (!ok) return false;
-    const sx = Math.sin(x),
-      cx = Math.cos(x);
-    const r = a * (1 - ec * cx + es * sx);
-    cf[0] = 1 + (a * (cx - 1)) / r0;
-    cf[1] = dt + (sx - x) / n;
-    cf[2] = (-a * a * n * sx) / (r * r0);
-    cf[3] = 1 + (a * (cx - 1)) / r;
-    return true;
+    w[0] += (dt * sx) / M[N - 1];
+    w[1] += (dt * sy) / M[N - 1];
+    w[2] += (dt * sz) / M[N - 1];
   };
 
   /** Moves the barycentre and every Jacobi body on its Kepler orbit for dt. */
@@ -234,26 +214,35 @@ export function wisdomHolmanStepper(mus: ArrayLike<number>, order?: ArrayLike<nu
     xj[2] += dt * vj[2];
     for (let k = 1; k < N; k++) {
       const b = 3 * k;
-      st[0] = xj[b];
-      st[1] = xj[b + 1];
-      st[2] = xj[b + 2];
-      st[3] = vj[b];
-      st[4] = vj[b + 1];
-      st[5] = vj[b + 2];
-      if (!ellipticCoefficients(M[k], dt)) keplerCoefficients(M[k], st, dt, cf);
+      if (ellipticDrift(M[k], dt, xj, vj, b, memo, DRIFT_SLOTS * k)) continue;
+      for (let c = 0; c < 3; c++) {
+        st[c] = xj[b + c];
+        st[3 + c] = vj[b + c];
+      }
+      keplerCoefficients(M[k], st, dt, cf);
       const f = cf[0],
         g = cf[1],
         fd = cf[2],
         gd = cf[3];
-      xj[b] = f * st[0] + g * st[3];
-      xj[b + 1] = f * st[1] + g * st[4];
-      xj[b + 2] = f * st[2] + g * st[5];
-      vj[b] = fd * st[0] + gd * st[3];
-      vj[b + 1] = fd * st[1] + gd * st[4];
-      vj[b + 2] = fd * st[2] + gd * st[5];
+      for (let c = 0; c < 3; c++) {
+        xj[b + c] = f * st[c] + g * st[3 + c];
+        vj[b + c] = fd * st[c] + gd * st[3 + c];
+      }
     }
   };
 
+  return { N, xj, vj, xc, toJacobi, fromJacobi, interaction, kick, drift };
+}
+
+/**
+ * A Wisdom–Holman stepper for the bodies of gravitational parameters mus (m³/s²), taken in
+ * Jacobi order `order` (indices into mus; default 0, 1, …, N−1). Allocation-free per step.
+ */
+export function wisdomHolmanStepper(mus: ArrayLike<number>, order?: ArrayLike<number>): WisdomHolmanStepper {
+  const c = whCore(mus, order);
+  const N = c.N;
+  const xLast = new Float64Array(3 * N); // positions the cached accelerations belong to (caller's order)
+  let cached = false;
   return {
     step(_t: number, h: number, x: Float64Array, v: Float64Array): number {
       let evals = 0;
@@ -266,22 +255,61 @@ export function wisdomHolmanStepper(mus: ArrayLike<number>, order?: ArrayLike<nu
           }
         }
       }
-      toJacobi(x, xj, xc);
-      toJacobi(v, vj, null);
+      c.toJacobi(x, c.xj, c.xc);
+      c.toJacobi(v, c.vj, null);
       if (!same) {
-        interaction();
+        c.interaction();
         evals++;
       }
-      kick(0.5 * h);
-      drift(h);
-      fromJacobi(xj, x, xc);
-      interaction();
+      c.kick(c.vj, 0.5 * h);
+      c.drift(h);
+      c.fromJacobi(c.xj, x, c.xc);
+      c.interaction();
       evals++;
-      kick(0.5 * h);
-      fromJacobi(vj, v, null);
+      c.kick(c.vj, 0.5 * h);
+      c.fromJacobi(c.vj, v, null);
       xLast.set(x);
       cached = true;
       return evals;
+    },
+  };
+}
+
+/**
+ * A Wisdom–Holman run from the barycentric state x0, v0 (3N each, caller's order) with step h:
+ * the same map as `wisdomHolmanStepper` with the Jacobi state kept between steps and the two
+ * half kicks between steps merged into one. Allocation-free per step and per read.
+ */
+export function wisdomHolmanRun(mus: ArrayLike<number>, x0: ArrayLike<number>, v0: ArrayLike<number>, h: number, order?: ArrayLike<number>): WisdomHolmanRun {
+  const c = whCore(mus, order);
+  const N = c.N;
+  const x = new Float64Array(3 * N);
+  const w = new Float64Array(3 * N); // scratch for read
+  c.toJacobi(x0, c.xj, c.xc);
+  c.toJacobi(v0, c.vj, null);
+  for (let i = 0; i < 3 * N; i++) x[i] = x0[i];
+  c.interaction();
+  let fevals = 1;
+  // the kick still owed to vj: 0 at the start, h/2 after each step (the closing half kick)
+  let owed = 0;
+  return {
+    x,
+    get fevals(): number {
+      return fevals;
+    },
+    advance(): void {
+      c.kick(c.vj, owed + 0.5 * h);
+      c.drift(h);
+      c.fromJacobi(c.xj, x, c.xc);
+      c.interaction();
+      fevals++;
+      owed = 0.5 * h;
+    },
+    read(xo: Float64Array, vo: Float64Array): void {
+      xo.set(x);
+      w.set(c.vj);
+      if (owed !== 0) c.kick(w, owed);
+      c.fromJacobi(w, vo, null);
     },
   };
 }
