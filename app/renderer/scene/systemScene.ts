@@ -71,6 +71,8 @@ interface BodyView {
 }
 
 interface BurnMarker {
+  /** Everything the marker is drawn from (the next result reuses a marker with the same key). */
+  key: string;
   /** Central body whose frame the marker sits in, and its position relative to it (m). */
   central: number;
   rel: THREE.Vector3;
@@ -79,6 +81,15 @@ interface BurnMarker {
   rowId: string;
   /** Placed on the truth model's n-body flight (not on the patched-conic path). */
   onTrack: boolean;
+}
+
+/** The line of one segment of the result: kept for the next result, whose segment in the same place rewrites its positions. */
+interface SegmentLine {
+  burn: boolean;
+  geometry: THREE.BufferGeometry;
+  positions: THREE.BufferAttribute;
+  /** A coast's line, or a burn's group of a line and beads. */
+  object: THREE.Object3D;
 }
 
 /** What one frame cost, for the status line and the scrub benchmark. */
@@ -244,6 +255,8 @@ export class SystemScene {
   readonly software: boolean;
   /** Called after every rendered frame. */
   onFrame: ((stats: FrameStats) => void) | null = null;
+  /** Camera moves the user has started (drags, wheel), counted: a framing the user has not touched can be redone. */
+  userMoves = 0;
   /** Called when a label is clicked (the component turns it into a focus change). */
   onPick: ((target: FocusTarget) => void) | null = null;
 
@@ -257,6 +270,8 @@ export class SystemScene {
   /** One group per central body for the trajectory and markers drawn in that body's frame. */
   private frames = new Map<number, THREE.Group>();
   private markers: BurnMarker[] = [];
+  /** The result's segment lines, in the order of its drawn segments. */
+  private segmentLines: SegmentLine[] = [];
   private ship: THREE.Mesh;
   private shipLabel: CSS2DObject;
   private starLight = new THREE.PointLight(0xffffff, 2.6, 0, 0);
@@ -295,9 +310,18 @@ export class SystemScene {
 
   constructor(private readonly container: HTMLElement) {
     // Multisampling roughly doubles the frame time of a software rasteriser (SwiftShader,
-    // llvmpipe): off there, on with a GPU.
-    this.software = isSoftwareRenderer();
-    this.renderer = new THREE.WebGLRenderer({ antialias: !this.software, logarithmicDepthBuffer: true, powerPreference: 'high-performance' });
+    // llvmpipe): off there, on with a GPU. The renderer is made without it and asked what it
+    // runs on; with a GPU it is made again with it (a second context is cheap there, and a
+    // software rasteriser is spared one).
+    const make = (antialias: boolean) => new THREE.WebGLRenderer({ antialias, logarithmicDepthBuffer: true, powerPreference: 'high-performance' });
+    let renderer = make(false);
+    this.software = isSoftwareRenderer(renderer.getContext());
+    if (!this.software) {
+      renderer.dispose();
+      renderer.forceContextLoss();
+      renderer = make(true);
+    }
+    this.renderer = renderer;
     this.renderer.setPixelRatio(Math.min(window.devicePixelRatio || 1, 2));
     this.renderer.setClearColor(new THREE.Color(PALETTE.ground), 1);
     this.renderer.domElement.className = 'scene-canvas';
@@ -316,6 +340,7 @@ export class SystemScene {
     this.controls.maxDistance = 5e7;
     this.controls.zoomSpeed = 1.4;
     this.controls.addEventListener('change', () => this.requestRender());
+    this.controls.addEventListener('start', () => this.userMoves++);
 
     this.scene.add(new THREE.AmbientLight(0xffffff, 0.22));
     this.scene.add(this.starLight);
@@ -400,43 +425,82 @@ export class SystemScene {
     this.requestRender();
   }
 
+  /**
+   * Draws the plan's result. The drawing of the previous result is reused where it fits (an edit
+   * changes a few segments and burns): each segment's line keeps its geometry and GPU buffer and
+   * only its positions are rewritten; a burn marker drawn from the same figures is kept as is.
+   */
   setResult(result: PlanResult | null, shipName = 'ship'): void {
-    this.clearResult();
-    this.frames.clear();
-    this.markers = [];
     this.result = result;
     (this.shipLabel.element as HTMLElement).textContent = shipName;
     if (!result || !this.system) {
+      this.clearResult();
       this.ship.visible = false;
       this.requestRender();
       return;
     }
+    const old: (SegmentLine | null)[] = this.segmentLines;
+    const lines: SegmentLine[] = [];
     for (const seg of result.segments) {
       const n = seg.sampleT.length;
       if (n < 2) continue;
-      const pos = new Float32Array(3 * n);
-      for (let k = 0; k < 3 * n; k++) pos[k] = seg.samples[k] * U;
       const burn = seg.kind === 'burn';
-      let line: THREE.Object3D;
-      const geo = new THREE.BufferGeometry();
-      geo.setAttribute('position', new THREE.BufferAttribute(pos, 3));
-      if (burn) {
-        // Finite burns: an amber line beaded with screen-size dots, so it reads as a bold band
-        // (GL points and lines stay cheap on software rasterisers, unlike wide-line shaders).
-        line = new THREE.Group();
-        line.add(new THREE.Line(geo, this.shared.burnLine));
-        line.add(new THREE.Points(geo, this.shared.burnDots));
-      } else {
-        // Coasts: a thin mint line (faint when the truth model's path is the main one).
-        line = new THREE.Line(geo, this.resultIsComparison ? this.shared.comparison : this.shared.coast);
-      }
-      line.userData.kind = seg.kind;
-      this.resultFrame(seg.central).add(line);
+      const j = lines.length;
+      let line = old[j] ?? null;
+      if (line && line.burn === burn && line.positions.count >= n) old[j] = null;
+      else line = this.segmentLine(burn, n);
+      const pos = line.positions.array as Float32Array;
+      for (let k = 0; k < 3 * n; k++) pos[k] = seg.samples[k] * U;
+      // a longer buffer than the segment: its tail repeats the last point (not drawn; the bounds stay the segment's)
+      for (let k = 3 * n; k < pos.length; k++) pos[k] = pos[k - 3];
+      line.positions.needsUpdate = true;
+      line.geometry.setDrawRange(0, n);
+      line.geometry.boundingSphere = null;
+      line.geometry.boundingBox = null;
+      // Coasts: a thin mint line (faint when the truth model's path is the main one).
+      if (!burn) (line.object as THREE.Line).material = this.resultIsComparison ? this.shared.comparison : this.shared.coast;
+      line.object.userData.kind = seg.kind;
+      this.resultFrame(seg.central).add(line.object);
+      lines.push(line);
     }
+    for (const line of old) if (line) this.dropSegmentLine(line);
+    this.segmentLines = lines;
     this.placeMarkers();
+    this.pruneFrames();
     this.ship.visible = true;
     this.applyOptions();
     this.requestRender();
+  }
+
+  /** A new segment line with room for `n` points. */
+  private segmentLine(burn: boolean, n: number): SegmentLine {
+    const geometry = new THREE.BufferGeometry();
+    const positions = new THREE.BufferAttribute(new Float32Array(3 * n), 3);
+    geometry.setAttribute('position', positions);
+    let object: THREE.Object3D;
+    if (burn) {
+      // Finite burns: an amber line beaded with screen-size dots, so it reads as a bold band
+      // (GL points and lines stay cheap on software rasterisers, unlike wide-line shaders).
+      object = new THREE.Group();
+      object.add(new THREE.Line(geometry, this.shared.burnLine));
+      object.add(new THREE.Points(geometry, this.shared.burnDots));
+    } else object = new THREE.Line(geometry, this.shared.coast);
+    return { burn, geometry, positions, object };
+  }
+
+  private dropSegmentLine(line: SegmentLine): void {
+    line.object.removeFromParent();
+    line.geometry.dispose();
+  }
+
+  /** Removes the frames (groups per central body) left with nothing in them. */
+  private pruneFrames(): void {
+    for (const [c, g] of this.frames) {
+      if (g.children.length === 0) {
+        g.removeFromParent();
+        this.frames.delete(c);
+      }
+    }
   }
 
   /** The group of the plan's drawing in `central`'s frame (made on first use). */
@@ -450,15 +514,33 @@ export class SystemScene {
     return g;
   }
 
-  /** (Re)places the burn markers: on the truth model's n-body flight when there is one, else on the result's path. */
+  /**
+   * (Re)places the burn markers: on the truth model's n-body flight when there is one, else on the
+   * result's path. A marker drawn from the same figures as one already there is kept.
+   */
   private placeMarkers(): void {
-    for (const m of this.markers) m.group.removeFromParent(); // shared geometry and materials: nothing to free
+    const old = new Map<string, BurnMarker>();
+    for (const m of this.markers) {
+      const twin = old.get(m.key);
+      if (twin) this.dropMarker(twin); // two markers drawn alike: one is enough to reuse
+      old.set(m.key, m);
+    }
     this.markers = [];
-    if (!this.result) return;
-    for (const row of this.result.budget.rows) this.addMarker(row);
+    if (this.result) for (const row of this.result.budget.rows) this.addMarker(row, old);
+    for (const m of old.values()) this.dropMarker(m);
   }
 
-  private addMarker(row: BudgetRow): void {
+  /** Frees what a marker owns (its dashed or dotted shafts; dots, rings, heads and solid shafts are shared). */
+  private dropMarker(m: BurnMarker): void {
+    m.group.removeFromParent();
+    const sh = this.shared;
+    m.arrows.traverse((o) => {
+      const g = (o as THREE.Mesh).geometry;
+      if (g && g !== sh.shaft && g !== sh.head && g !== sh.diamond && g !== sh.bar) g.dispose();
+    });
+  }
+
+  private addMarker(row: BudgetRow, reusable: Map<string, BurnMarker>): void {
     if (!this.result || !this.system) return;
     // State just before the burn: its frame axes are defined there.
     const s6 = new Float64Array(6);
@@ -469,6 +551,15 @@ export class SystemScene {
       const k = shipStateAt(this.result, tBefore, s6);
       if (k < 0) return;
       central = this.result.segments[k].central;
+    }
+    // what the marker is drawn from: the same key draws the same marker
+    const key = `${row.planEventId}|${central}|${onTrack}|${row.frame}|${s6.join()}|${row.dvFrame.join()}|${row.dvInertial.join()}`;
+    const same = reusable.get(key);
+    if (same) {
+      reusable.delete(key);
+      this.resultFrame(central).add(same.group);
+      this.markers.push(same);
+      return;
     }
     const r = [s6[0], s6[1], s6[2]];
     const v = [s6[3], s6[4], s6[5]];
@@ -501,27 +592,17 @@ export class SystemScene {
     }
     group.add(arrows);
     this.resultFrame(central).add(group);
-    this.markers.push({ central, rel: new THREE.Vector3(r[0] * U, r[1] * U, r[2] * U), group, arrows, rowId: row.planEventId, onTrack });
+    this.markers.push({ key, central, rel: new THREE.Vector3(r[0] * U, r[1] * U, r[2] * U), group, arrows, rowId: row.planEventId, onTrack });
   }
 
   /** Empties the plan's drawing: per-segment geometry is freed, shared materials and geometry kept. */
   private clearResult(): void {
-    const keep = new Set<unknown>([
-      this.shared.dotGeometry,
-      this.shared.ringGeometry,
-      this.shared.shaft,
-      this.shared.head,
-      this.shared.diamond,
-      this.shared.bar,
-    ]);
-    this.resultRoot.traverse((o) => {
-      const g = (o as THREE.Mesh).geometry;
-      if (g && !keep.has(g)) {
-        keep.add(g); // burn lines and dots share one geometry: dispose once
-        g.dispose();
-      }
-    });
+    for (const line of this.segmentLines) this.dropSegmentLine(line);
+    this.segmentLines = [];
+    for (const m of this.markers) this.dropMarker(m);
+    this.markers = [];
     this.resultRoot.clear();
+    this.frames.clear();
   }
 
   private clearGroup(g: THREE.Group): void {
@@ -569,6 +650,7 @@ export class SystemScene {
     this.clearLines(this.truthRoot, this.truthFrames);
     this.track = track && track.t.length >= 2 ? track : null;
     this.placeMarkers();
+    this.pruneFrames();
     this.applyOptions();
     for (const p of paths ?? []) {
       const f32 = new Float32Array(p.points.length);

@@ -166,7 +166,8 @@ export function timelineData(system: StarSystem, plan: Plan, result: PlanResult,
 /** Distance from the ship to body `targetIndex` over a patched-conic result, from its own samples (empty for −1). */
 export function conicDistance(system: StarSystem, result: PlanResult, targetIndex: number): Series {
   const { segments } = result;
-  const dist: [number, number][] = [];
+  const ts: number[] = [];
+  const ds: number[] = [];
   if (targetIndex >= 0) {
     let total = 0;
     for (const s of segments) total += s.sampleT.length;
@@ -183,11 +184,15 @@ export function conicDistance(system: StarSystem, result: PlanResult, targetInde
         const dx = c[0] + s.samples[3 * k] - g[0];
         const dy = c[1] + s.samples[3 * k + 1] - g[1];
         const dz = c[2] + s.samples[3 * k + 2] - g[2];
-        dist.push([t, Math.hypot(dx, dy, dz)]);
+        ts.push(t);
+        ds.push(Math.hypot(dx, dy, dz));
         if (k === n - 1) break;
       }
     }
-    dist.sort((a, b) => a[0] - b[0]);
   }
-  return series(dist);
+  // in time order (the segments come in time order: sorting is needed only when they do not)
+  let ordered = true;
+  for (let k = 1; k < ts.length && ordered; k++) ordered = ts[k - 1] <= ts[k];
+  if (ordered) return { t: Float64Array.from(ts), v: Float64Array.from(ds) };
+  return series(ts.map((t, k) => [t, ds[k]] as [number, number]).sort((a, b) => a[0] - b[0]));
 }
