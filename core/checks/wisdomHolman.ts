@@ -10,23 +10,20 @@
  *   H_I = Σ_{k≥1} m_k M_{k−1}/r'_k − Σ_{i<j} m_i m_j / r_ij.
  * One step is kick(h/2, H_I) · drift(h, H_K) · kick(h/2, H_I). The drift moves every Jacobi
  * body on its Kepler orbit with the Lagrange coefficients in the change of eccentric anomaly
- * (ellipticDrift.ts: Newton without trigonometric calls per iteration) when the orbit is bound
+ * (ellipticDrift.ts: Halley's method without trigonometric calls) when the orbit is bound
  * and |ΔM| ≤ π — the universal-variable solver (`keplerCoefficients`, core/orbit/kepler.ts)
  * took 5× the time of the whole step and stays the path for every other case (unbound, a long
- * drift, Newton not settled); the kick's accelerations come from Cartesian positions:
+ * drift, the iteration not settled); the kick's accelerations come from Cartesian positions:
  *   a_i = −Σ_j μ_j (x_i − x_j)/r_ij³ (every pair but the first two bodies', whose term cancels
  *   exactly against k = 1), plus for k ≥ 2: M_{k−1} r'_k/r'_k³ on body k and −μ_k r'_k/r'_k³
  *   on each body inside it,
  * turned into Jacobi accelerations a'_k = a_k − (μ-weighted mean of a over bodies 0 … k−1).
  * The closing half kick of one step and the opening half kick of the next use the same
  * positions, so the accelerations are kept (one force evaluation per step) while the caller
- * leaves x unchanged between steps. `wisdomHolmanRun` keeps the Jacobi state between steps
- * and merges those two half kicks into one (Wisdom & Holman §3; the same map up to rounding),
- * so a long run converts to Cartesian only the positions every step (the kick needs them) and
- * the velocities only when the caller reads the state.
+ * leaves x unchanged between steps.
  * The map is exact for two bodies (H_I = 0) and its error is O(ε·h²) for planets of mass
- * ratio ε; no symplectic corrector is applied (Wisdom, Holman & Touma 1996 would remove the
- * O(ε·h²) part of the energy oscillation, not a secular drift).
+ * ratio ε. Long runs use `wisdomHolmanRun` (wisdomHolmanRun.ts): the drift–kick–drift form of
+ * the same map with the Jacobi state kept between steps and symplectic correctors.
  * Order matters: the first body should dominate (the star), then bodies outward; a moon placed
  * after its planet orbits the barycentre of everything inside it, which its planet dominates,
  * so H_I is not small for it and the map is then only as good as leapfrog at the same step.
@@ -39,19 +36,11 @@ export interface WisdomHolmanStepper {
   step(t: number, h: number, x: Float64Array, v: Float64Array): number;
 }
 
-export interface WisdomHolmanRun {
-  /** Barycentric positions (3N, caller's order) at the current time; written by every advance. */
-  readonly x: Float64Array;
-  /** Force evaluations so far (one per step, one at the start). */
-  readonly fevals: number;
-  /** Advances the run by its step h. */
-  advance(): void;
-  /** Writes the barycentric state at the current time into x and v (3N each, caller's order); the run is not disturbed. */
-  read(x: Float64Array, v: Float64Array): void;
-}
-
-/** The map's working state and its parts (kick, drift, coordinate changes) for the bodies of mus in Jacobi order `order`. */
-function whCore(mus: ArrayLike<number>, order?: ArrayLike<number>) {
+/**
+ * The map's working state and its parts (kick, drift, coordinate changes) for the bodies of mus
+ * in Jacobi order `order`; shared by the stepper and `wisdomHolmanRun` (wisdomHolmanRun.ts).
+ */
+export function whCore(mus: ArrayLike<number>, order?: ArrayLike<number>) {
   const N = mus.length;
   const o = Int32Array.from(order ?? Array.from({ length: N }, (_, k) => k));
   const mu = Float64Array.from(o, (j) => mus[j]); // in Jacobi order
@@ -68,6 +57,7 @@ function whCore(mus: ArrayLike<number>, order?: ArrayLike<number>) {
   const memo = driftMemo(N); // ellipticDrift's per-body guesses and reference angles
   const st = new Float64Array(6);
   const cf = new Float64Array(5);
+  const bodyDrift = ellipticDrift; // a local binding: the hot loop calls it without a module-namespace lookup
 
   /** Cartesian (caller's order) → Jacobi (and Cartesian copy in Jacobi order). */
   const toJacobi = (src: ArrayLike<number>, dst: Float64Array, copy: Float64Array | null): void => {
@@ -214,7 +204,7 @@ function whCore(mus: ArrayLike<number>, order?: ArrayLike<number>) {
     xj[2] += dt * vj[2];
     for (let k = 1; k < N; k++) {
       const b = 3 * k;
-      if (ellipticDrift(M[k], dt, xj, vj, b, memo, DRIFT_SLOTS * k)) continue;
+      if (bodyDrift(M[k], dt, xj, vj, b, memo, DRIFT_SLOTS * k)) continue;
       for (let c = 0; c < 3; c++) {
         st[c] = xj[b + c];
         st[3 + c] = vj[b + c];
@@ -231,7 +221,7 @@ function whCore(mus: ArrayLike<number>, order?: ArrayLike<number>) {
     }
   };
 
-  return { N, xj, vj, xc, toJacobi, fromJacobi, interaction, kick, drift };
+  return { N, xj, vj, xc, ac, memo, toJacobi, fromJacobi, interaction, kick, drift };
 }
 
 /**
@@ -271,45 +261,6 @@ export function wisdomHolmanStepper(mus: ArrayLike<number>, order?: ArrayLike<nu
       xLast.set(x);
       cached = true;
       return evals;
-    },
-  };
-}
-
-/**
- * A Wisdom–Holman run from the barycentric state x0, v0 (3N each, caller's order) with step h:
- * the same map as `wisdomHolmanStepper` with the Jacobi state kept between steps and the two
- * half kicks between steps merged into one. Allocation-free per step and per read.
- */
-export function wisdomHolmanRun(mus: ArrayLike<number>, x0: ArrayLike<number>, v0: ArrayLike<number>, h: number, order?: ArrayLike<number>): WisdomHolmanRun {
-  const c = whCore(mus, order);
-  const N = c.N;
-  const x = new Float64Array(3 * N);
-  const w = new Float64Array(3 * N); // scratch for read
-  c.toJacobi(x0, c.xj, c.xc);
-  c.toJacobi(v0, c.vj, null);
-  for (let i = 0; i < 3 * N; i++) x[i] = x0[i];
-  c.interaction();
-  let fevals = 1;
-  // the kick still owed to vj: 0 at the start, h/2 after each step (the closing half kick)
-  let owed = 0;
-  return {
-    x,
-    get fevals(): number {
-      return fevals;
-    },
-    advance(): void {
-      c.kick(c.vj, owed + 0.5 * h);
-      c.drift(h);
-      c.fromJacobi(c.xj, x, c.xc);
-      c.interaction();
-      fevals++;
-      owed = 0.5 * h;
-    },
-    read(xo: Float64Array, vo: Float64Array): void {
-      xo.set(x);
-      w.set(c.vj);
-      if (owed !== 0) c.kick(w, owed);
-      c.fromJacobi(w, vo, null);
     },
   };
 }
