@@ -103,37 +103,47 @@ export function meanToEccentric(M: number, e: number): number {
  * otherwise repeat.
  */
 export function solveEllipticKepler(M: number, e: number, sinCos?: Float64Array): number {
-  const m = Math.abs(M);
-  let E = 0;
-  if (m === 0) {
-    SC[0] = 0;
-    SC[1] = 1;
-  } else E = solveEllipticReduced(m, e);
+  // small enough to be inlined into the caller, so M and e reach SC unboxed
+  SC[0] = Math.abs(M);
+  SC[1] = e;
+  solveEllipticReduced();
   if (sinCos) {
-    sinCos[0] = M < 0 ? -SC[0] : SC[0];
-    sinCos[1] = SC[1];
+    sinCos[0] = M < 0 ? -SC[3] : SC[3];
+    sinCos[1] = SC[4];
   }
-  return M < 0 ? -E : E;
+  return M < 0 ? -SC[2] : SC[2];
 }
 
-// sin E and cos E of the last solveEllipticReduced result (see solveEllipticKepler); in a
-// typed array, since a number stored in a module variable is boxed on every store.
-const SC = new Float64Array(2);
+// In and out of solveEllipticReduced: 0 m, 1 e (in); 2 E, 3 sin E, 4 cos E (out). Numbers
+// travel through a typed array, not as arguments and a return value, which a call that is not
+// inlined would box on every evaluation (the ephemeris makes one per body state).
+const SC = new Float64Array(5);
 
-function withSinCos(E: number): number {
-  SC[0] = Math.sin(E);
-  SC[1] = Math.cos(E);
-  return E;
+function withSinCos(E: number): void {
+  SC[2] = E;
+  SC[3] = Math.sin(E);
+  SC[4] = Math.cos(E);
 }
 
 /** Below this eccentricity the iteration starts from E₀ = M and uses the plain residual forms. */
 const LOW_E = 0.3;
 
-/** Solves E − e sin E = m for m ∈ (0, π]; leaves sin E and cos E in SC[0], SC[1]. */
-function solveEllipticReduced(m: number, e: number): number {
+/** Solves E − e sin E = m for m = SC[0] ∈ [0, π], e = SC[1]; leaves E, sin E, cos E in SC[2..4]. */
+function solveEllipticReduced(): void {
+  const m = SC[0];
+  const e = SC[1];
+  if (m === 0) {
+    SC[2] = 0;
+    SC[3] = 0;
+    SC[4] = 1;
+    return;
+  }
   // tiny M: E = M/(1 − e) exactly to rounding once the cubic term e·E³/6 is below ε·(1 − e)·E
   const lin = m / (1 - e);
-  if (e * lin * lin < 6 * EPS * (1 - e)) return withSinCos(lin);
+  if (e * lin * lin < 6 * EPS * (1 - e)) {
+    withSinCos(lin);
+    return;
+  }
   let lo = m;
   let hi = Math.min(Math.PI, m + e);
   let E: number;
@@ -178,9 +188,10 @@ function solveEllipticReduced(m: number, e: number): number {
       fp = cosE > 0 ? 1 - e + (e * sinE * sinE) / (1 + cosE) : 1 - e * cosE;
     }
     if (f === 0) {
-      SC[0] = sinE;
-      SC[1] = cosE;
-      return E;
+      SC[2] = E;
+      SC[3] = sinE;
+      SC[4] = cosE;
+      return;
     }
     if (f < 0) lo = E;
     else hi = E;
@@ -197,14 +208,18 @@ function solveEllipticReduced(m: number, e: number): number {
       const s2 = step * step;
       const cs = 1 - s2 * (0.5 - s2 / 24);
       const sn = step * (1 - s2 * (1 / 6 - s2 / 120));
-      SC[0] = sinE * cs + cosE * sn;
-      SC[1] = cosE * cs - sinE * sn;
-      return E + step;
+      SC[2] = E + step;
+      SC[3] = sinE * cs + cosE * sn;
+      SC[4] = cosE * cs - sinE * sn;
+      return;
     }
     let En = E + step;
     if (!(En > lo && En < hi)) {
       En = 0.5 * (lo + hi);
-      if (hi - lo <= 4 * EPS * hi + TINY) return withSinCos(En);
+      if (hi - lo <= 4 * EPS * hi + TINY) {
+        withSinCos(En);
+        return;
+      }
       E = En;
       continue;
     }

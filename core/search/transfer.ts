@@ -31,7 +31,7 @@
  */
 import { InputError } from '../math/index.ts';
 import { hyperbolaPeriapsisSpeed, lambertBest, lambertCodeRevs, lambertSingleRev, orbitPeriapsisSpeed } from '../orbit/index.ts';
-import { bodyState } from '../system/index.ts';
+import { conicState } from '../system/index.ts';
 import type { StarSystem } from '../system/index.ts';
 import { normalizeRequest, type PorkchopMetric, type PorkchopRequest } from './request.ts';
 
@@ -170,8 +170,9 @@ function burnFromOrbitInPlane(r: Float64Array, vx: number, vy: number, vz: numbe
 }
 
 // Fills lastCell from the arc's terminal velocities v1, v2 (read from arrays: a call with six
-// number arguments would box them per cell); returns the metric (Infinity if not finite).
-function finish(s: TransferSetup, v1: Float64Array, v2: Float64Array): number {
+// number arguments would box them per cell); returns whether every value is finite (a boolean,
+// not the metric: a number returned by a call that is not inlined is boxed per cell).
+function finish(s: TransferSetup, v1: Float64Array, v2: Float64Array): boolean {
   const v1x = v1[0];
   const v1y = v1[1];
   const v1z = v1[2];
@@ -218,7 +219,7 @@ function finish(s: TransferSetup, v1: Float64Array, v2: Float64Array): number {
   lastCell[CELL_VINF_ARRIVE] = vInfA;
   lastCell[CELL_METRIC] = m;
   // one test catches NaN and ±Infinity in any slot
-  return Math.abs(total + c3 + vInfD + vInfA) < Infinity && !Number.isNaN(m) ? m : Infinity;
+  return Math.abs(total + c3 + vInfD + vInfA) < Infinity && !Number.isNaN(m);
 }
 
 const CV1 = new Float64Array(3);
@@ -230,7 +231,7 @@ const cost = (v1x: number, v1y: number, v1z: number, v2x: number, v2y: number, v
   CV2[0] = v2x;
   CV2[1] = v2y;
   CV2[2] = v2z;
-  return finish(current as TransferSetup, CV1, CV2);
+  return finish(current as TransferSetup, CV1, CV2) ? lastCell[CELL_METRIC] : Infinity;
 };
 
 /**
@@ -240,6 +241,16 @@ const cost = (v1x: number, v1y: number, v1z: number, v2x: number, v2y: number, v
  * usable transfer. Allocates nothing.
  */
 export function solveCell(s: TransferSetup, dep6: Float64Array, arr6: Float64Array, tof: number): boolean {
+  // small enough to be inlined into the grid's loop, so tof reaches TOF unboxed
+  TOF[0] = tof;
+  return solveCellAt(s, dep6, arr6);
+}
+
+// The time of flight of the cell being solved (see solveCell).
+const TOF = new Float64Array(1);
+
+function solveCellAt(s: TransferSetup, dep6: Float64Array, arr6: Float64Array): boolean {
+  const tof = TOF[0];
   if (!(tof > 0)) return unsolved();
   if (s.kind !== FROM_PARENT) {
     R1[0] = dep6[0];
@@ -270,7 +281,7 @@ export function solveCell(s: TransferSetup, dep6: Float64Array, arr6: Float64Arr
   }
   if (s.maxRevs === 0) {
     if (lambertSingleRev(s.mu, R1[0], R1[1], R1[2], R2[0], R2[1], R2[2], tof, s.retrograde, V1, V2) < 0) return unsolved();
-    if (finish(s, V1, V2) === Infinity) return unsolved();
+    if (!finish(s, V1, V2)) return unsolved();
     lastCell[CELL_REVS] = 0;
     lastCell[CELL_BRANCH] = 0;
     return true;
@@ -279,7 +290,7 @@ export function solveCell(s: TransferSetup, dep6: Float64Array, arr6: Float64Arr
   const code = lambertBest(s.mu, R1, R2, tof, s.maxRevs, s.retrograde, cost, V1, V2);
   current = null;
   if (code < 0) return unsolved();
-  if (finish(s, V1, V2) === Infinity) return unsolved();
+  if (!finish(s, V1, V2)) return unsolved();
   lastCell[CELL_REVS] = lambertCodeRevs(code);
   lastCell[CELL_BRANCH] = code === 0 ? 0 : code % 2 === 1 ? 1 : 2;
   return true;
@@ -288,13 +299,19 @@ export function solveCell(s: TransferSetup, dep6: Float64Array, arr6: Float64Arr
 const DEP6 = new Float64Array(6);
 const ARR6 = new Float64Array(6);
 
-/** State of body `index` relative to the setup's central body into out6 (zeros for the central body itself). */
+/**
+ * State of body `index` (the setup's departure or arrival body) relative to the setup's central
+ * body at time t into out6 (zeros for the central body itself). InputError for a non-finite t.
+ */
 export function stateAboutCentral(system: StarSystem, s: TransferSetup, index: number, t: number, out6: Float64Array): Float64Array {
+  if (!(Math.abs(t) < Infinity)) throw new InputError('t', 'must be a finite number', t);
   if (index === s.central) {
     out6.fill(0);
     return out6;
   }
-  return bodyState(system, index, t, out6, s.central);
+  // the setup's other body orbits the central one (prepareTransfer): one conic, no chain
+  conicState(system.ephemeris, index, t, out6);
+  return out6;
 }
 
 /**

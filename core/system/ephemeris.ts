@@ -80,6 +80,9 @@ export function buildEphemerisTables(bodies: readonly Body[]): EphemerisTables {
 const TWO_PI = 2 * Math.PI;
 // [sin E, cos E] of the last Kepler solve
 const sinCosE = new Float64Array(2);
+// The time of the current evaluation: accumulate reads it here rather than as an argument, which
+// a call that is not inlined would box once per body state.
+const TIME = new Float64Array(1);
 
 function checkIndex(tables: EphemerisTables, index: number, field: string): void {
   if (!(index >= 0 && index < tables.count && (index | 0) === index)) {
@@ -91,11 +94,11 @@ function checkTime(t: number): void {
   if (!Number.isFinite(t)) throw new InputError('t', 'must be a finite number', t);
 }
 
-// Adds (sign = +1) or subtracts (sign = −1) body j's state relative to its parent into out.
-function accumulate(k: Float64Array, j: number, t: number, out: Float64Array, sign: number, withVelocity: boolean): void {
+// Adds (sign = +1) or subtracts (sign = −1) body j's state relative to its parent at t = TIME[0] into out.
+function accumulate(k: Float64Array, j: number, out: Float64Array, sign: number, withVelocity: boolean): void {
   const o = j * EPHEMERIS_STRIDE;
   const e = k[o + E];
-  const M = k[o + M0] + k[o + N] * t;
+  const M = k[o + M0] + k[o + N] * TIME[0];
   solveEllipticKepler(M - TWO_PI * Math.round(M / TWO_PI), e, sinCosE);
   const sinE = sinCosE[0];
   const cosE = sinCosE[1];
@@ -115,6 +118,34 @@ function accumulate(k: Float64Array, j: number, t: number, out: Float64Array, si
 }
 
 /**
+ * State of body `index` (not the star) relative to its parent at time t into out6, for hot
+ * loops such as porkchop grids: no input checks (`index` must name a body with an orbit, t must
+ * be finite). The operations of bodyStateRelativeToParent, so the same numbers (a zero
+ * component may be −0 where that gives +0); small enough to be inlined into the caller's loop,
+ * so t is not boxed.
+ */
+export function conicState(tables: EphemerisTables, index: number, t: number, out6: Float64Array): void {
+  const k = tables.k;
+  const o = index * EPHEMERIS_STRIDE;
+  const e = k[o + E];
+  const M = k[o + M0] + k[o + N] * t;
+  solveEllipticKepler(M - TWO_PI * Math.round(M / TWO_PI), e, sinCosE);
+  const sinE = sinCosE[0];
+  const cosE = sinCosE[1];
+  const px = k[o + A] * (cosE - e);
+  const qy = k[o + B] * sinE;
+  out6[0] = px * k[o + PX] + qy * k[o + QX];
+  out6[1] = px * k[o + PY] + qy * k[o + QY];
+  out6[2] = px * k[o + PZ] + qy * k[o + QZ];
+  const f = k[o + NA] / (1 - e * cosE);
+  const vp = -sinE * f;
+  const vq = k[o + SQ] * cosE * f;
+  out6[3] = vp * k[o + PX] + vq * k[o + QX];
+  out6[4] = vp * k[o + PY] + vq * k[o + QY];
+  out6[5] = vp * k[o + PZ] + vq * k[o + QZ];
+}
+
+/**
  * State [x, y, z, vx, vy, vz] (m, m/s) of body `index` at time t (s from epoch) relative to
  * its parent; zeros for the star.
  */
@@ -123,25 +154,29 @@ export function bodyStateRelativeToParent(system: StarSystem, index: number, t: 
   checkIndex(tables, index, 'index');
   checkTime(t);
   out6[0] = out6[1] = out6[2] = out6[3] = out6[4] = out6[5] = 0;
-  if (index !== 0) accumulate(tables.k, index, t, out6, 1, true);
+  if (index !== 0) {
+    TIME[0] = t;
+    accumulate(tables.k, index, out6, 1, true);
+  }
   return out6;
 }
 
 function chain(tables: EphemerisTables, index: number, relativeTo: number, t: number, out: Float64Array, withVelocity: boolean): void {
   const { k, parent, depth } = tables;
+  TIME[0] = t;
   let a = index;
   let b = relativeTo;
   while (depth[a] > depth[b]) {
-    accumulate(k, a, t, out, 1, withVelocity);
+    accumulate(k, a, out, 1, withVelocity);
     a = parent[a];
   }
   while (depth[b] > depth[a]) {
-    accumulate(k, b, t, out, -1, withVelocity);
+    accumulate(k, b, out, -1, withVelocity);
     b = parent[b];
   }
   while (a !== b) {
-    accumulate(k, a, t, out, 1, withVelocity);
-    accumulate(k, b, t, out, -1, withVelocity);
+    accumulate(k, a, out, 1, withVelocity);
+    accumulate(k, b, out, -1, withVelocity);
     a = parent[a];
     b = parent[b];
   }

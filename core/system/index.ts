@@ -6,7 +6,7 @@ export { buildStarSystem, systemToDocument } from './build.ts';
 export { STANDARD_DAY, dateParts, formatCompactDate, formatDate, formatDayLength, formatElapsed, parseDate } from './calendar.ts';
 export { SYSTEM_FORMAT, SYSTEM_VERSION } from './document.ts';
 export type { SystemDocument } from './document.ts';
-export { bodyPosition, bodyState, bodyStateRelativeToParent, sampleOrbit } from './ephemeris.ts';
+export { bodyPosition, bodyState, bodyStateRelativeToParent, conicState, sampleOrbit } from './ephemeris.ts';
 export {
   MAX_BODIES,
   MAX_DISPERSION_SAMPLES,

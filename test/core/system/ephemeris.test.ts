@@ -4,7 +4,7 @@ import { parseSystemFile } from '../../../core/io/systemFile.ts';
 import { meanToTrue } from '../../../core/orbit/anomaly.ts';
 import { elementsToState } from '../../../core/orbit/elements.ts';
 import { propagateKepler } from '../../../core/orbit/kepler.ts';
-import { bodyPosition, bodyState, bodyStateRelativeToParent, sampleOrbit } from '../../../core/system/ephemeris.ts';
+import { bodyPosition, bodyState, bodyStateRelativeToParent, conicState, sampleOrbit } from '../../../core/system/ephemeris.ts';
 import type { StarSystem } from '../../../core/system/model.ts';
 import { ODEX_CONVERGED, odexSolve, odexTwoBody } from '../integrate/odexRef.ts';
 import { demoText, planet, smallSystem } from './fixtures.ts';
@@ -210,6 +210,21 @@ describe('relative states through the parent chain', () => {
     expect(Array.from(st(idx('tessel'), idx('tessel')))).toEqual([0, 0, 0, 0, 0, 0]);
     expect(Array.from(st(0))).toEqual([0, 0, 0, 0, 0, 0]);
     expect(Array.from(st(0, idx('tessel'))).map((x, c) => x + relParent(idx('tessel'))[c])).toEqual([0, 0, 0, 0, 0, 0]);
+  });
+
+  it('gives conicState (the unchecked form for hot loops) the numbers of bodyStateRelativeToParent exactly, for every body, before and long after the epoch', () => {
+    const out = new Float64Array(6);
+    let compared = 0;
+    for (let i = 1; i < demo.bodies.length; i++) {
+      for (const time of [-4.1e9, -1, 0, 1, t, 8.3e10]) {
+        conicState(demo.ephemeris, i, time, out);
+        const ref = bodyStateRelativeToParent(demo, i, time, new Float64Array(6));
+        // === rather than toEqual: a zero component may come out as −0 (stored, not added to 0)
+        for (let c = 0; c < 6; c++) expect(out[c] === ref[c]).toBe(true);
+        compared++;
+      }
+    }
+    expect(compared).toBe(6 * (demo.bodies.length - 1));
   });
 
   it('gives bodyPosition equal to the position part of bodyState', () => {
