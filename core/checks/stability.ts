@@ -6,7 +6,8 @@
  * Method: the Wisdom–Holman map (default; Wisdom & Holman, AJ 102 (1991) 1528,
  * wisdomHolman.ts: Jacobi coordinates, star then planets outward, each planet's flown moons
  * after it) with symplectic correctors (Wisdom, Holman & Touma 1996, wisdomHolmanRun.ts;
- * h = shortest period / DEFAULT_WH_STEPS_PER_PERIOD), or, as the cross-check,
+ * h = shortest period / DEFAULT_WH_STEPS_PER_PERIOD) — with flown moons the uncorrected map at
+ * DEFAULT_WH_MOON_STEPS_PER_PERIOD —, or, as the cross-check,
  * Yoshida's 4th-order composition of leapfrog (Yoshida, Phys. Lett. A 150 (1990) 262,
  * core/integrate/yoshida4.ts) or leapfrog itself on `mutualAccel` (core/integrate/gravity.ts), from the barycentric epoch states of `initialStates`
  * (nbodyEphemeris.ts: each conic read as the orbit of its body's subsystem barycentre).
@@ -47,6 +48,7 @@ import { InputError, SolverError, WaymarkError, requireFinite } from '../math/in
 import { fixedStepper } from '../integrate/index.ts';
 import { mutualAccel } from '../integrate/index.ts';
 import { stateToElements } from '../orbit/index.ts';
+import { wisdomHolmanStepper } from './wisdomHolman.ts';
 import { wisdomHolmanRun } from './wisdomHolmanRun.ts';
 import type { StarSystem } from '../system/index.ts';
 import { initialStates } from '../system/index.ts';
@@ -62,7 +64,8 @@ export interface StabilityOptions {
   method?: StabilityMethod;
   /**
    * Steps per orbit of the fastest flown body: for 'wisdom-holman' per period (default
-   * DEFAULT_WH_STEPS_PER_PERIOD, h = shortest period / 10), for 'yoshida4' and 'verlet' per
+   * DEFAULT_WH_STEPS_PER_PERIOD, h = shortest period / 10; DEFAULT_WH_MOON_STEPS_PER_PERIOD when
+   * moons are flown), for 'yoshida4' and 'verlet' per
    * periapsis time scale T·(1 − e)^{3/2} (default DEFAULT_STEPS_PER_ORBIT).
    */
   stepsPerOrbit?: number;
@@ -89,6 +92,15 @@ export const DEFAULT_STEPS_PER_ORBIT = 200;
  */
 export const DEFAULT_WH_STEPS_PER_PERIOD = 10;
 export const DEFAULT_METHOD: StabilityMethod = 'wisdom-holman';
+/**
+ * Wisdom–Holman steps per shortest period when moons are flown: the map without the corrector
+ * at common practice's 1/20. A flown moon orbits the barycentre of everything inside it in
+ * Jacobi coordinates, so its planet's pull is in the interaction term (not small) and the
+ * corrector's premise fails: on the demo over 100 years, the corrected map at period/10 moved
+ * the moons' eccentricity drifts hundreds of times further from a Yoshida 4 run (400 steps per
+ * periapsis time scale) than the kick–drift–kick map at period/20, which is kept for them.
+ */
+export const DEFAULT_WH_MOON_STEPS_PER_PERIOD = 20;
 /** With 'wisdom-holman' and mergeMoons 'auto', moons are merged when flying them needs more than this × the steps of the planets alone. */
 export const WH_MOON_STEP_FACTOR = 4;
 /** Step budget of 'wisdom-holman' (one force evaluation per step; 1,000,000 years of the demo, moons merged, take 3.1e7 steps). */
@@ -245,6 +257,8 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
   }
   const wh = method === 'wisdom-holman';
   const stepsPerOrbit = posInt('stepsPerOrbit', options.stepsPerOrbit, wh ? DEFAULT_WH_STEPS_PER_PERIOD : DEFAULT_STEPS_PER_ORBIT, 4);
+  // flown moons: the uncorrected map at its usual step (see DEFAULT_WH_MOON_STEPS_PER_PERIOD)
+  const moonStepsPerOrbit = wh ? (options.stepsPerOrbit ?? DEFAULT_WH_MOON_STEPS_PER_PERIOD) : stepsPerOrbit;
   const maxSteps = requireWithinLimit(
     'maxSteps',
     posInt('maxSteps', options.maxSteps, wh ? DEFAULT_WH_MAX_STEPS : DEFAULT_MAX_STEPS, 1),
@@ -259,9 +273,9 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
 
   const planets = bodies[0].children;
   const all = bodies.slice(1).map((b) => b.index);
-  const hAll = stepFor(system, all, stepsPerOrbit, wh);
-  const hPlanets = stepFor(system, planets, stepsPerOrbit, wh);
   const hasMoons = all.length > planets.length;
+  const hAll = stepFor(system, all, hasMoons ? moonStepsPerOrbit : stepsPerOrbit, wh);
+  const hPlanets = stepFor(system, planets, stepsPerOrbit, wh);
   // the work of a run: steps × force evaluations per step × body pairs (the star counts)
   const evalsPerStep = method === 'yoshida4' ? 3 : 1; // Wisdom–Holman: one, plus the Kepler drifts
   const pairsOf = (flown: number): number => ((flown + 1) * flown) / 2;
@@ -439,8 +453,14 @@ export function checkStability(system: StarSystem, options: StabilityOptions = {
   sample(0, 0);
   // Wisdom–Holman keeps its own (Jacobi) state: positions every step in run.x (at the middle of
   // the step, run.xLag before its end), the corrected state read at samples
-  const run = wh ? wisdomHolmanRun(mus, x, v, h, { order: jacobiOrder(parts, bodies) }) : null;
-  const stepper = run ? null : fixedStepper(method as Exclude<StabilityMethod, 'wisdom-holman'>, mutualAccel(mus), 3 * N);
+  // (flown moons: the kick–drift–kick stepper on the caller's state, see DEFAULT_WH_MOON_STEPS_PER_PERIOD)
+  const moonsFlown = hasMoons && !merged;
+  const run = wh && !moonsFlown ? wisdomHolmanRun(mus, x, v, h, { order: jacobiOrder(parts, bodies) }) : null;
+  const stepper = run
+    ? null
+    : wh
+      ? wisdomHolmanStepper(mus, jacobiOrder(parts, bodies))
+      : fixedStepper(method as Exclude<StabilityMethod, 'wisdom-holman'>, mutualAccel(mus), 3 * N);
   const xs = run ? run.x : x;
   // every pair as flat lists (offsets 3i, 3j, contact distance squared, index in pairs if siblings
   // or −1); closest approaches kept squared (a square root only at the end)
