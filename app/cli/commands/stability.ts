@@ -90,7 +90,7 @@ export function addStabilityCommand(program: Command): void {
     .option('--method <m>', `integrator, by id or name: ${integratorChoices(STABILITY_METHODS)}`, STABILITY_METHODS[0])
     .option(
       '--steps-per-orbit <n>',
-      'steps per orbit of the fastest body (wisdom-holman: per period, default 20; yoshida4/verlet: per periapsis time scale, default 200)',
+      'steps per orbit of the fastest body (wisdom-holman: per period, default 10 with the corrector, 20 when moons are flown; yoshida4/verlet: per periapsis time scale, default 200)',
     )
     .option('--max-steps <n>', 'step budget')
     .option('--samples <n>', 'element-history samples')
