@@ -1,16 +1,20 @@
 /**
- * Runs porkchop jobs in a Web Worker: one job at a time (a new run cancels the previous one),
- * progress callbacks, cancel. The worker factory is injectable for tests.
+ * Runs porkchop jobs on a small pool of Web Workers (one per core, up to two), kept between
+ * jobs and warmed before the first one: the grid's departure rows are split into one band per
+ * worker (core/search/chunks.ts partitionRows); the first worker leads (it gathers the other
+ * bands over MessageChannel ports, finds the windows and rasterises the picture), so the page
+ * receives one message with the typed arrays transferred. One job at a time (a new run cancels
+ * the previous one), progress summed over the workers, cancel. The worker factory and the pool
+ * size are injectable for tests.
  */
-import type { PorkchopRequest } from '../../../core/search/index.ts';
-import type { WindowOptions } from '../../../core/search/index.ts';
+import { partitionRows, type PorkchopRequest, type WindowOptions } from '../../../core/search/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
-import type { FromWorker, ToWorker } from './protocol.ts';
+import type { FromWorker, RasterSize, ToWorker } from './protocol.ts';
 
 export type DoneMessage = Extract<FromWorker, { type: 'done' }>;
 
 export interface WorkerLike {
-  postMessage(m: ToWorker): void;
+  postMessage(m: ToWorker, transfer?: Transferable[]): void;
   onmessage: ((e: MessageEvent<FromWorker>) => void) | null;
   terminate(): void;
 }
@@ -19,51 +23,112 @@ export function defaultWorker(): WorkerLike {
   return new Worker(new URL('../workers/porkchop.worker.ts', import.meta.url), { type: 'module', name: 'porkchop' }) as unknown as WorkerLike;
 }
 
+/** Most workers a job is split over. */
+export const MAX_WORKERS = 2;
+
+/** One worker per core the page reports, at least one and at most MAX_WORKERS. */
+export function defaultPoolSize(): number {
+  const cores = typeof navigator !== 'undefined' ? navigator.hardwareConcurrency || 1 : 1;
+  return Math.max(1, Math.min(MAX_WORKERS, cores));
+}
+
+interface Pending {
+  resolve: (m: DoneMessage | null) => void;
+  reject: (e: Error) => void;
+  onProgress: (done: number, total: number) => void;
+  /** Cells done per worker, and the job's total. */
+  done: number[];
+  total: number;
+}
+
 export class PorkchopClient {
-  #worker: WorkerLike | null = null;
+  #workers: WorkerLike[] = [];
   #id = 0;
-  #pending = new Map<number, { resolve: (m: DoneMessage | null) => void; reject: (e: Error) => void; onProgress: (done: number, total: number) => void }>();
+  #warmed = false;
+  #pending = new Map<number, Pending>();
 
-  constructor(private readonly factory: () => WorkerLike = defaultWorker) {}
+  constructor(
+    private readonly factory: () => WorkerLike = defaultWorker,
+    private readonly size: number = defaultPoolSize(),
+  ) {}
 
-  #ensure(): WorkerLike {
-    if (this.#worker) return this.#worker;
-    const w = this.factory();
-    w.onmessage = (e) => {
-      const m = e.data;
-      const p = this.#pending.get(m.id);
-      if (!p) return;
-      if (m.type === 'progress') p.onProgress(m.done, m.total);
-      else {
-        this.#pending.delete(m.id);
-        if (m.type === 'done') p.resolve(m);
-        else if (m.type === 'cancelled') p.resolve(null);
-        else p.reject(new Error(m.message));
-      }
-    };
-    this.#worker = w;
-    return w;
+  /** Workers in the pool (started on the first use). */
+  get poolSize(): number {
+    return Math.max(1, Math.floor(this.size));
   }
 
-  /** Starts a job (cancelling any running one); resolves to the result, or null when cancelled. */
-  run(system: StarSystem, request: PorkchopRequest, windows: WindowOptions, onProgress: (done: number, total: number) => void): Promise<DoneMessage | null> {
+  #ensure(): WorkerLike[] {
+    if (this.#workers.length) return this.#workers;
+    const n = typeof MessageChannel === 'undefined' ? 1 : this.poolSize;
+    for (let k = 0; k < n; k++) {
+      const w = this.factory();
+      w.onmessage = (e) => this.#onMessage(k, e.data);
+      this.#workers.push(w);
+    }
+    // each helper gets a port to the leader
+    for (let k = 1; k < n; k++) {
+      const ch = new MessageChannel();
+      this.#workers[0].postMessage({ type: 'peer', port: ch.port1 }, [ch.port1]);
+      this.#workers[k].postMessage({ type: 'peer', port: ch.port2 }, [ch.port2]);
+    }
+    return this.#workers;
+  }
+
+  #onMessage(worker: number, m: FromWorker): void {
+    const p = this.#pending.get(m.id);
+    if (!p) return;
+    if (m.type === 'progress') {
+      p.done[worker] = m.done;
+      let sum = 0;
+      for (const d of p.done) sum += d || 0;
+      p.onProgress(Math.min(sum, p.total), p.total);
+      return;
+    }
+    this.#pending.delete(m.id);
+    if (m.type === 'done') p.resolve(m);
+    else if (m.type === 'cancelled') p.resolve(null);
+    else p.reject(new Error(m.message));
+  }
+
+  /** Starts the workers and has each compile its code on a small grid of `request` (once per pool). */
+  warm(system: StarSystem, request: PorkchopRequest): void {
+    if (this.#warmed) return;
+    this.#warmed = true;
+    for (const w of this.#ensure()) w.postMessage({ type: 'warm', system, request });
+  }
+
+  /**
+   * Starts a job (cancelling any running one); resolves to the result, or null when cancelled.
+   * With `raster`, the result carries the picture rasterised at that size.
+   */
+  run(
+    system: StarSystem,
+    request: PorkchopRequest,
+    windows: WindowOptions,
+    onProgress: (done: number, total: number) => void,
+    raster: RasterSize | null = null,
+  ): Promise<DoneMessage | null> {
     this.cancel();
     const id = ++this.#id;
-    const w = this.#ensure();
+    const workers = this.#ensure();
+    const nRows = request.depart.n;
+    // a malformed row count goes to the leader whole, whose validation words the error
+    const bands = Number.isInteger(nRows) && nRows >= 1 ? partitionRows(nRows, workers.length) : [{ rowStart: 0, rowEnd: nRows }];
     return new Promise((resolve, reject) => {
-      this.#pending.set(id, { resolve, reject, onProgress });
-      w.postMessage({ type: 'run', id, system, request, windows });
+      this.#pending.set(id, { resolve, reject, onProgress, done: [], total: request.depart.n * request.second.n });
+      workers[0].postMessage({ type: 'run', id, system, request, windows, rows: bands[0], helpers: bands.length - 1, raster });
+      for (let k = 1; k < bands.length; k++) workers[k].postMessage({ type: 'rows', id, system, request, rows: bands[k] });
     });
   }
 
   cancel(): void {
-    for (const id of this.#pending.keys()) this.#worker?.postMessage({ type: 'cancel', id });
+    for (const id of this.#pending.keys()) for (const w of this.#workers) w.postMessage({ type: 'cancel', id });
   }
 
   dispose(): void {
     for (const p of this.#pending.values()) p.resolve(null);
     this.#pending.clear();
-    this.#worker?.terminate();
-    this.#worker = null;
+    for (const w of this.#workers) w.terminate();
+    this.#workers = [];
   }
 }

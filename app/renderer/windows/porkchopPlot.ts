@@ -1,6 +1,8 @@
 /**
- * The porkchop plot's imperative d3 code: filled contours (d3-contour, marching squares) of a
- * Δv plane over departure (x, system calendar) × time of flight (y, days), the transfer
+ * The porkchop plot: the Δv picture of a plane over departure (x, system calendar) × time of
+ * flight (y, days) as one canvas image (porkchopRaster.ts: filled bands with a line on every
+ * fourth level, rasterised in the Windows worker beside the grid, here only when the plot
+ * changes size), and over it an SVG layer of d3 code: axes, the colour ramp, the transfer
  * windows marked and numbered, a crosshair with a hover callback, and clicks reported as
  * (departure, time of flight). Low Δv is bright, high Δv fades into the ground.
  */
@@ -11,16 +13,19 @@ import type { PorkchopMetric } from '../../../core/search/index.ts';
 import type { TransferWindow } from '../../../core/search/index.ts';
 import type { SystemCalendar } from '../../../core/system/index.ts';
 import { calendarTicks } from '../timeline/ticks.ts';
+import { flightSpan, type PlotLevels, plotLevels, RAMP, rasterPorkchop } from './porkchopRaster.ts';
 
 export const PLOT_MARGIN = { left: 58, right: 86, top: 12, bottom: 40 } as const;
-/** Contour levels: from the grid minimum up to LEVEL_SPAN × minimum, in LEVELS steps. */
-export const LEVELS = 22;
-export const LEVEL_SPAN = 2.2;
-/** Most samples per side the contours are traced on. */
-export const CONTOUR_CELLS = 200;
+/** The plot's ground (and the colour of the worst band). */
+const GROUND = '#16303a';
 
-/** Sand (best) → mint → deep teal (worst): the Windows view's own ramp. */
-export const RAMP = d3.interpolateRgbBasis(['#f6ecbd', '#9fdcae', '#3fa08f', '#1e5a61', '#16303a']);
+/** A picture of a grid rasterised elsewhere (the worker): its size in device pixels, RGBA pixels and colour scale. */
+export interface PlotImage {
+  width: number;
+  height: number;
+  pixels: Uint8ClampedArray;
+  levels: PlotLevels;
+}
 
 export interface HoverCell {
   i: number;
@@ -35,8 +40,8 @@ export interface PlotCallbacks {
 }
 
 export class PorkchopPlot {
+  private canvas: HTMLCanvasElement;
   private svg: d3.Selection<SVGSVGElement, unknown, null, undefined>;
-  private gContours: d3.Selection<SVGGElement, unknown, null, undefined>;
   private gAxes: d3.Selection<SVGGElement, unknown, null, undefined>;
   private gMarks: d3.Selection<SVGGElement, unknown, null, undefined>;
   private gLegend: d3.Selection<SVGGElement, unknown, null, undefined>;
@@ -44,6 +49,9 @@ export class PorkchopPlot {
   private grid: PorkchopGrid | null = null;
   private cal: SystemCalendar | null = null;
   private metric: PorkchopMetric = 'total';
+  private levels: PlotLevels = { lo: Infinity, hi: 1 };
+  /** The picture on the canvas (from the worker, or rasterised here after a resize). */
+  private image: PlotImage | null = null;
   private windows: TransferWindow[] = [];
   private width = 600;
   private height = 400;
@@ -54,9 +62,12 @@ export class PorkchopPlot {
     private readonly container: HTMLElement,
     private readonly cb: PlotCallbacks,
   ) {
+    this.canvas = document.createElement('canvas');
+    this.canvas.className = 'porkchop-image';
+    this.canvas.style.position = 'absolute';
+    this.canvas.style.background = GROUND;
+    container.append(this.canvas);
     this.svg = d3.select(container).append('svg').attr('class', 'porkchop-svg');
-    this.svg.append('rect').attr('class', 'plot-bg').attr('fill', '#16303a');
-    this.gContours = this.svg.append('g').attr('class', 'contours');
     this.gAxes = this.svg.append('g').attr('class', 'axes');
     this.gMarks = this.svg.append('g').attr('class', 'marks');
     this.gLegend = this.svg.append('g').attr('class', 'legend');
@@ -78,10 +89,13 @@ export class PorkchopPlot {
     this.resize();
   }
 
-  setGrid(grid: PorkchopGrid | null, cal: SystemCalendar, metric: PorkchopMetric = 'total'): void {
+  /** Shows a grid; `image` is its picture when already rasterised at `rasterSize()` (else it is rasterised here). */
+  setGrid(grid: PorkchopGrid | null, cal: SystemCalendar, metric: PorkchopMetric = 'total', image: PlotImage | null = null): void {
     this.grid = grid;
     this.cal = cal;
     this.metric = metric;
+    this.image = grid ? image : null;
+    this.levels = this.image ? this.image.levels : grid ? plotLevels(metricPlane(grid.planes, metric)) : { lo: Infinity, hi: 1 };
     this.draw();
   }
 
@@ -97,92 +111,79 @@ export class PorkchopPlot {
     this.draw();
   }
 
+  /** Size in device pixels of the picture the plot shows now (what a worker should rasterise). */
+  rasterSize(): { width: number; height: number } {
+    const L = this.layout();
+    const dpr = globalThis.devicePixelRatio || 1;
+    return { width: Math.max(1, Math.round((L.x1 - L.x0) * dpr)), height: Math.max(1, Math.round((L.y1 - L.y0) * dpr)) };
+  }
+
   private layout(): { x0: number; x1: number; y0: number; y1: number } {
     const M = PLOT_MARGIN;
     return { x0: M.left, x1: this.width - M.right, y0: M.top, y1: this.height - M.bottom };
   }
 
+  /** Puts the grid's picture on the canvas: the given image when it fits, else one rasterised now. */
+  private drawImage(): void {
+    const L = this.layout();
+    const c = this.canvas;
+    c.style.left = `${L.x0}px`;
+    c.style.top = `${L.y0}px`;
+    c.style.width = `${L.x1 - L.x0}px`;
+    c.style.height = `${L.y1 - L.y0}px`;
+    const { width, height } = this.rasterSize();
+    if (c.width !== width || c.height !== height) {
+      c.width = width;
+      c.height = height;
+    }
+    const ctx = c.getContext('2d');
+    if (!ctx) return;
+    const g = this.grid;
+    if (!g) {
+      ctx.clearRect(0, 0, width, height);
+      return;
+    }
+    let img = this.image;
+    if (!img || img.width !== width || img.height !== height) {
+      const plane = metricPlane(g.planes, this.metric);
+      const pixels = rasterPorkchop(
+        { plane, departTimes: g.departTimes, secondValues: g.secondValues, secondAxis: g.request.secondAxis },
+        this.levels,
+        width,
+        height,
+        img?.pixels,
+      );
+      img = { width, height, pixels, levels: this.levels };
+      this.image = img;
+    }
+    ctx.putImageData(new ImageData(img.pixels as Uint8ClampedArray<ArrayBuffer>, width, height), 0, 0);
+  }
+
   private draw(): void {
     const L = this.layout();
-    this.svg
-      .select('rect.plot-bg')
-      .attr('x', L.x0)
-      .attr('y', L.y0)
-      .attr('width', L.x1 - L.x0)
-      .attr('height', L.y1 - L.y0);
     this.svg
       .select('rect.hit')
       .attr('x', L.x0)
       .attr('y', L.y0)
       .attr('width', L.x1 - L.x0)
       .attr('height', L.y1 - L.y0);
+    this.drawImage();
     const g = this.grid;
     if (!g || !this.cal) {
-      this.gContours.selectAll('*').remove();
       this.gAxes.selectAll('*').remove();
       this.gLegend.selectAll('*').remove();
       this.gMarks.selectAll('*').remove();
       return;
     }
     const nDep = g.departTimes.length;
-    const nSec = g.secondValues.length;
-    const tofs = g.request.secondAxis === 'tof';
     const d0 = g.departTimes[0];
     const d1 = g.departTimes[nDep - 1];
     // y is the time of flight in days; an arrival-axis grid is drawn over its flight-time span.
-    const yMin = tofs ? g.secondValues[0] / 86400 : (g.secondValues[0] - d1) / 86400;
-    const yMax = tofs ? g.secondValues[nSec - 1] / 86400 : (g.secondValues[nSec - 1] - d0) / 86400;
+    const span = flightSpan({ departTimes: g.departTimes, secondValues: g.secondValues, secondAxis: g.request.secondAxis });
     this.x.domain([d0, d1]).range([L.x0, L.x1]);
-    this.y.domain([yMin, yMax]).range([L.y1, L.y0]);
-
-    // Values on a departure (x) × second-axis (y) grid, row-major in y; unsolved cells become the
-    // cap. Grids finer than CONTOUR_CELLS per side are drawn from every k-th sample (the picture
-    // needs no more; the hover readout reads the full grid).
-    const plane = metricPlane(g.planes, this.metric);
-    let lo = Infinity;
-    for (let k = 0; k < plane.length; k++) if (plane[k] < lo) lo = plane[k];
-    const hiLevel = Number.isFinite(lo) ? lo * LEVEL_SPAN : 1;
-    const stride = Math.max(1, Math.ceil(Math.max(nDep, nSec) / CONTOUR_CELLS));
-    const mDep = Math.ceil((nDep - 1) / stride) + 1;
-    const mSec = Math.ceil((nSec - 1) / stride) + 1;
-    const at = (k: number, n: number) => Math.min(n - 1, k * stride);
-    const values = new Array<number>(mDep * mSec);
-    for (let a = 0; a < mDep; a++) {
-      const i = at(a, nDep);
-      for (let b = 0; b < mSec; b++) {
-        const v = plane[i * nSec + at(b, nSec)];
-        values[b * mDep + a] = Number.isFinite(v) ? Math.min(v, hiLevel * 1.5) : hiLevel * 1.5;
-      }
-    }
-    const thresholds = d3.range(LEVELS).map((k) => lo + ((hiLevel - lo) * k) / (LEVELS - 1));
+    this.y.domain([span.min / 86400, span.max / 86400]).range([L.y1, L.y0]);
+    const { lo, hi: hiLevel } = this.levels;
     const colour = d3.scaleSequential(RAMP).domain([lo, hiLevel]);
-    const contours = d3.contours().size([mDep, mSec]).thresholds(thresholds)(values);
-    // Contour coordinates (sample centres at half-integers) → continuous grid indices → pixels.
-    const gi = (gx: number) => Math.min(nDep - 1, Math.max(0, (gx - 0.5) * stride));
-    const gj = (gy: number) => Math.min(nSec - 1, Math.max(0, (gy - 0.5) * stride));
-    const px = (gx: number) => L.x0 + (gi(gx) / Math.max(1, nDep - 1)) * (L.x1 - L.x0);
-    const pyOf = (gx: number, gy: number) => {
-      const i = Math.round(gi(gx));
-      const secVal = g.secondValues[0] + (gj(gy) / Math.max(1, nSec - 1)) * (g.secondValues[nSec - 1] - g.secondValues[0]);
-      const days = (tofs ? secVal : secVal - g.departTimes[i]) / 86400;
-      return this.y(days);
-    };
-    const proj = d3.geoTransform({
-      point(gx: number, gy: number) {
-        this.stream.point(px(gx), pyOf(gx, gy));
-      },
-    });
-    const path = d3.geoPath(proj);
-    this.gContours.attr('clip-path', null);
-    this.gContours
-      .selectAll<SVGPathElement, d3.ContourMultiPolygon>('path')
-      .data(contours)
-      .join('path')
-      .attr('d', (c) => path(c))
-      .attr('fill', (c) => colour(c.value))
-      .attr('stroke', (_c, k) => (k % 4 === 0 ? '#0f1416' : 'none'))
-      .attr('stroke-opacity', 0.35)
-      .attr('stroke-width', 0.6);
 
     // Axes.
     this.gAxes.selectAll('*').remove();

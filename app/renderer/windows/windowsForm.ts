@@ -6,7 +6,7 @@
  */
 import { orbitAltitude, porkchopRanges, safeAltitude } from '../../../core/io/index.ts';
 import type { Plan } from '../../../core/plan/index.ts';
-import type { PorkchopPair } from '../../../core/search/index.ts';
+import type { PorkchopPair, PorkchopRequest } from '../../../core/search/index.ts';
 import type { Body, StarSystem } from '../../../core/system/index.ts';
 import { numberKind, type FieldKind } from '../plan/fieldKinds.ts';
 import { UNITS } from '../plan/fieldText.ts';
@@ -96,6 +96,22 @@ export function initialWindowsForm(system: StarSystem, plan: Plan, gridN: number
   const p = pairDefaults(system, plan, from, to)!;
   const r = porkchopRanges(system, leg.from, leg.to, plan.start.epoch, p.parkingAlt);
   return { from, to, departStart: r.depart.start, departEnd: r.depart.end, gridN, ...p };
+}
+
+/** The search a form describes (total Δv over departure × flight time), or null when it names no leg. */
+export function windowsRequest(system: StarSystem, form: WindowsForm): PorkchopRequest | null {
+  const leg = legOf(system, form.from, form.to);
+  if (!leg) return null;
+  return {
+    from: leg.from,
+    to: leg.to,
+    depart: { start: form.departStart, end: form.departEnd, n: form.gridN },
+    secondAxis: 'tof',
+    second: { start: form.tofMin, end: form.tofMax, n: form.gridN },
+    parkingAltitude: form.parkingAlt,
+    arrivalAltitude: form.captureAlt,
+    metric: 'total',
+  };
 }
 
 /** An altitude field that refuses values below `body`'s minimum safe altitude. */

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
-import { altitudeKind, bodyGroups, bodyLabel, initialWindowsForm, legOf, pairDefaults } from '../../../../app/renderer/windows/windowsForm.ts';
+import { altitudeKind, bodyGroups, bodyLabel, initialWindowsForm, legOf, pairDefaults, windowsRequest } from '../../../../app/renderer/windows/windowsForm.ts';
 import { blankPlan } from '../../../../app/renderer/state/session.ts';
 import { parsePlanFile } from '../../../../core/io/index.ts';
 import { demoSystem } from '../../../core/search/fixtures.ts';
@@ -68,5 +68,23 @@ describe('Windows form', () => {
     expect(viaMoon).toEqual(direct);
     expect(pairDefaults(system, plan, 'tessel', 'quill')!.tofMax).toBeLessThan(direct.tofMin); // a moon is days away, a planet months
     expect(legOf(system, 'tessel', 'tessel')).toBeNull();
+  });
+
+  it("asks for total Δv over the form's ranges, on the leg of its pair, and for nothing when the pair has no leg", () => {
+    const plan = demoPlan('tessel-to-ochre.plan.json');
+    const form = initialWindowsForm(system, plan, 120);
+    const r = windowsRequest(system, form)!;
+    const leg = legOf(system, form.from, form.to)!;
+    expect(r).toEqual({
+      from: leg.from,
+      to: leg.to,
+      depart: { start: form.departStart, end: form.departEnd, n: 120 },
+      secondAxis: 'tof',
+      second: { start: form.tofMin, end: form.tofMax, n: 120 },
+      parkingAltitude: form.parkingAlt,
+      arrivalAltitude: form.captureAlt,
+      metric: 'total',
+    });
+    expect(windowsRequest(system, { ...form, to: form.from })).toBeNull();
   });
 });
