@@ -7,7 +7,9 @@
  *   bits. Nothing allocates per cell: the departure body's state is computed once per row; in
  *   arrival-time mode the arrival body's states are computed once per column for the whole
  *   band; in time-of-flight mode every cell has its own arrival time, so the arrival state is
- *   computed per cell.
+ *   computed per cell. Two bodies of one parent at a single revolution (the common case) go
+ *   row by row through transfer.ts's solveSiblingRow, the rest cell by cell through solveCell;
+ *   both give the bits of solveCell.
  * - `computePorkchop` (synchronous) and `computePorkchopAsync` (yields to the event loop
  *   between row blocks so a progress display can redraw) compute a whole grid in the calling
  *   thread, with a progress callback and cancellation: `signal.aborted` is checked before each
@@ -33,7 +35,9 @@ import {
   evaluateTransfer,
   lastCell,
   prepareTransfer,
+  SIBLINGS,
   solveCell,
+  solveSiblingRow,
   stateAboutCentral,
   type TransferCell,
   type TransferSetup,
@@ -94,6 +98,17 @@ export function computePorkchopRows(
   const signal = options.signal;
   const onRow = options.onRow;
   let bad = 0;
+  if (s.kind === SIBLINGS && s.maxRevs === 0) {
+    // the common case, one loop per row with the cell written out (transfer.ts)
+    for (let i = rowStart; i < rowEnd; i++) {
+      if (signal?.aborted) throw cancelled(i);
+      const tDep = axisValue(req.depart, i);
+      stateAboutCentral(system, s, s.from, tDep, DEP6);
+      bad += solveSiblingRow(system, s, tDep, DEP6, arrCache, out, (i - out.rowStart) * nCols);
+      if (onRow !== undefined) onRow(i);
+    }
+    return bad;
+  }
   for (let i = rowStart; i < rowEnd; i++) {
     if (signal?.aborted) throw cancelled(i);
     const tDep = axisValue(req.depart, i);

@@ -33,7 +33,8 @@ import { InputError } from '../math/index.ts';
 import { hyperbolaPeriapsisSpeed, lambertBest, lambertCodeRevs, lambertSingleRev, orbitPeriapsisSpeed } from '../orbit/index.ts';
 import { conicState } from '../system/index.ts';
 import type { StarSystem } from '../system/index.ts';
-import { normalizeRequest, type PorkchopMetric, type PorkchopRequest } from './request.ts';
+import type { PorkchopPlanes } from './planes.ts';
+import { axisValue, normalizeRequest, type PorkchopMetric, type PorkchopRequest } from './request.ts';
 
 export const SIBLINGS = 0;
 export const FROM_PARENT = 1;
@@ -298,6 +299,99 @@ function solveCellAt(s: TransferSetup, dep6: Float64Array, arr6: Float64Array): 
 
 const DEP6 = new Float64Array(6);
 const ARR6 = new Float64Array(6);
+
+/**
+ * One row of a grid of SIBLINGS single-revolution cells (setup kind SIBLINGS, maxRevs 0), the
+ * porkchop's common case: solveCell's work for that geometry written out in one loop — Lambert
+ * arc, then finish's SIBLINGS branch with the same operations in the same order, so the same
+ * bits — storing each cell straight into `out` at planeIndex, planeIndex + 1, ... . It leaves
+ * out the per-cell calls, copies and lastCell round trip of solveCell, which cost a grid about a
+ * tenth of its time.
+ *
+ * `dep6` is the departure body's state at tDep. Arrival states come from `arrCache` (6 numbers
+ * per column, arrival-time mode: tof = column value − tDep) or, when it is null, from the
+ * ephemeris per cell (time-of-flight mode: arrival at tDep + column value). Returns the number
+ * of unsolved cells written. Allocates nothing.
+ */
+export function solveSiblingRow(
+  system: StarSystem,
+  s: TransferSetup,
+  tDep: number,
+  dep6: Float64Array,
+  arrCache: Float64Array | null,
+  out: PorkchopPlanes,
+  planeIndex: number,
+): number {
+  const second = s.request.second;
+  const nCols = second.n;
+  const mu = s.mu;
+  const retrograde = s.retrograde;
+  // 2μ/r_p of the two periapsis speeds (hyperbolaPeriapsisSpeed's operations)
+  const twoMuFromRp = (2 * s.muFrom) / s.rPark;
+  const twoMuToRp = (2 * s.muTo) / s.rArrive;
+  const vPark = s.vPark;
+  const vTarget = s.vTarget;
+  const flyby = s.flyby;
+  const r1x = dep6[0];
+  const r1y = dep6[1];
+  const r1z = dep6[2];
+  const vfx = dep6[3];
+  const vfy = dep6[4];
+  const vfz = dep6[5];
+  const { dvDepart, dvArrive, dvTotal, c3, vInfDepart, vInfArrive, revs, branch } = out;
+  let bad = 0;
+  let idx = planeIndex;
+  for (let j = 0; j < nCols; j++, idx++) {
+    let tof: number;
+    if (arrCache !== null) {
+      tof = axisValue(second, j) - tDep;
+      for (let c = 0; c < 6; c++) ARR6[c] = arrCache[6 * j + c];
+    } else {
+      tof = axisValue(second, j);
+      stateAboutCentral(system, s, s.to, tDep + tof, ARR6);
+    }
+    let ok = tof > 0 && lambertSingleRev(mu, r1x, r1y, r1z, ARR6[0], ARR6[1], ARR6[2], tof, retrograde, V1, V2) >= 0;
+    if (ok) {
+      let dx = V1[0] - vfx;
+      let dy = V1[1] - vfy;
+      let dz = V1[2] - vfz;
+      const c3v = dx * dx + dy * dy + dz * dz;
+      const vInfD = Math.sqrt(c3v);
+      const dvD = Math.sqrt(c3v + twoMuFromRp) - vPark;
+      dx = V2[0] - ARR6[3];
+      dy = V2[1] - ARR6[4];
+      dz = V2[2] - ARR6[5];
+      const w2 = dx * dx + dy * dy + dz * dz;
+      const vInfA = Math.sqrt(w2);
+      const dvA = flyby ? 0 : Math.sqrt(w2 + twoMuToRp) - vTarget;
+      const total = dvD + dvA;
+      // finish's test: one sum catches NaN and ±Infinity in any value
+      ok = Math.abs(total + c3v + vInfD + vInfA) < Infinity;
+      if (ok) {
+        dvDepart[idx] = dvD;
+        dvArrive[idx] = dvA;
+        dvTotal[idx] = total;
+        c3[idx] = c3v;
+        vInfDepart[idx] = vInfD;
+        vInfArrive[idx] = vInfA;
+        revs[idx] = 0;
+        branch[idx] = 0;
+      }
+    }
+    if (!ok) {
+      bad++;
+      dvDepart[idx] = Infinity;
+      dvArrive[idx] = Infinity;
+      dvTotal[idx] = Infinity;
+      c3[idx] = Infinity;
+      vInfDepart[idx] = Infinity;
+      vInfArrive[idx] = Infinity;
+      revs[idx] = -1;
+      branch[idx] = -1;
+    }
+  }
+  return bad;
+}
 
 /**
  * State of body `index` (the setup's departure or arrival body) relative to the setup's central

@@ -296,6 +296,32 @@ describe('grid conventions', () => {
     expect(full.unsolved).toBe(inf);
   });
 
+  it('the row loop for two bodies of one parent at one revolution gives the cells of the cell-by-cell evaluation (gridCell) exactly, in both axis modes, flyby, retrograde and unsolved cells included', () => {
+    const variants: PorkchopRequest[] = [
+      base,
+      { ...base, arrivalEccentricity: 'flyby', parkingEccentricity: 0.2 },
+      { ...base, retrograde: true },
+      { ...base, secondAxis: 'arrival', second: { start: 0, end: 1200 * DAY, n: 49 } },
+    ];
+    let unsolved = 0;
+    for (const req of variants) {
+      const g = computePorkchop(sys, req);
+      const p = g.planes;
+      for (let i = 0; i < p.nRows; i++) {
+        for (let j = 0; j < p.nCols; j++) {
+          const k = i * p.nCols + j;
+          const c = gridCell(sys, g, i, j);
+          // the planes hold binary32 roundings of the cell's doubles
+          const want = [c.dvDepart, c.dvArrive, c.dvTotal, c.c3, c.vInfDepart, c.vInfArrive].map(Math.fround);
+          expect([p.dvDepart[k], p.dvArrive[k], p.dvTotal[k], p.c3[k], p.vInfDepart[k], p.vInfArrive[k]]).toEqual(want);
+          expect([p.revs[k], p.branch[k]]).toEqual(c.solved ? [0, 0] : [-1, -1]);
+          if (!c.solved) unsolved++;
+        }
+      }
+    }
+    expect(unsolved).toBeGreaterThan(0);
+  });
+
   it('rows computed in chunks and merged equal the whole grid bit for bit; the async path too', async () => {
     const whole = computePorkchop(sys, base);
     const merged = createPlanes(0, 24, 20);
