@@ -20,6 +20,7 @@ import { buildRenderer } from '../../app/renderer/build/buildRenderer.ts';
 import { serveStatic } from '../../app/renderer/build/serve.ts';
 import { GOAL as PORKCHOP_GOAL, porkchopInApp } from './appPorkchop.ts';
 import { printTable } from './table.ts';
+import { quantiles, traceClickCpu } from './traceCpu.ts';
 
 const CHROMIUM = '/usr/bin/chromium';
 const ARGS = [
@@ -119,6 +120,10 @@ export async function run(): Promise<void> {
     const whole = (await page.evaluate(SCRUB(400, 'star'))) as { ref: Q; js: Q; wall: Q; gpu: Q; iso: boolean };
     const ship = (await page.evaluate(SCRUB(400, 'ship'))) as { ref: Q; js: Q; wall: Q; gpu: Q; iso: boolean };
     const edit = (await page.evaluate(EDIT(40))) as { wall: Q; evalMs: Q; task: Q };
+    // the same edits again, traced: their main-thread CPU time (the wall time above waits for a core on a loaded machine)
+    const { cpu: editCpu } = await traceClickCpu(browser, page, () => page.evaluate(EDIT(20)));
+    const cpuClick = quantiles(editCpu.click);
+    const cpuToFrame = quantiles(editCpu.toFrame);
 
     // Porkchop in the Windows view's workers against the same job in this Node process (appPorkchop.ts).
     const pork = await porkchopInApp(page);
@@ -154,6 +159,24 @@ export async function run(): Promise<void> {
         ],
         ['  of which plan evaluation', edit.evalMs[0], edit.evalMs[1], '', '', '', ''],
         ['  of which click task (evaluation, stores, Svelte updates)', edit.task[0], edit.task[1], '', '', '', ''],
+        [
+          'edit: main-thread CPU, click task (with its style, layout, paint; 20 edits traced)',
+          cpuClick[0],
+          cpuClick[1],
+          'empty rAF round trip',
+          whole.ref[0],
+          whole.ref[1],
+          cpuClick[0] / whole.ref[0],
+        ],
+        [
+          'edit: main-thread CPU, click → scene frame drawn',
+          cpuToFrame[0],
+          cpuToFrame[1],
+          'empty rAF round trip',
+          whole.ref[0],
+          whole.ref[1],
+          cpuToFrame[0] / whole.ref[0],
+        ],
         ...pork,
       ],
     );
