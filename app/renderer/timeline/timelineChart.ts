@@ -76,6 +76,33 @@ export interface TimelineExtra {
   draw(x: d3.ScaleLinear<number, number>, width: number): void;
 }
 
+/** A coordinate as d3-shape writes it into a path: rounded to 3 decimals (its default `digits`). */
+const r3 = (v: number) => Math.round(v * 1000) / 1000;
+
+/**
+ * The SVG path of a polyline through (xs[k], ys[k]): the string d3.line draws with its default
+ * (linear) curve and precision, written directly; a chart redraws on every edit and this skips
+ * d3-shape's per-point generator calls. Null for no points (as d3.line).
+ */
+export function linePath(xs: ArrayLike<number>, ys: ArrayLike<number>): string | null {
+  const n = xs.length;
+  if (n === 0) return null;
+  let d = `M${r3(xs[0])},${r3(ys[0])}`;
+  for (let k = 1; k < n; k++) d += `L${r3(xs[k])},${r3(ys[k])}`;
+  return n === 1 ? `${d}Z` : d;
+}
+
+/** The SVG path of the area between the polyline and the level `base`: d3.area's string (linear curve, y0 = base). */
+export function areaPath(xs: ArrayLike<number>, ys: ArrayLike<number>, base: number): string | null {
+  const n = xs.length;
+  if (n === 0) return null;
+  const b = r3(base);
+  let d = `M${r3(xs[0])},${r3(ys[0])}`;
+  for (let k = 1; k < n; k++) d += `L${r3(xs[k])},${r3(ys[k])}`;
+  for (let k = n - 1; k >= 0; k--) d += `L${r3(xs[k])},${b}`;
+  return `${d}Z`;
+}
+
 export class TimelineChart {
   private svg: d3.Selection<SVGSVGElement, unknown, null, undefined>;
   private gAxis: d3.Selection<SVGGElement, unknown, null, undefined>;
@@ -552,27 +579,27 @@ export class TimelineChart {
         .scaleLinear()
         .domain([Math.min(0, lo), hi > lo ? hi * 1.05 : lo + 1])
         .range([L.chart - 2, 3]);
-    const idx = d3.range(n);
-    const line = d3
-      .line<number>()
-      .x((k) => this.x(s.t[k]))
-      .y((k) => y(Math.max(log ? 1 : -Infinity, s.v[k])));
-    const area = d3
-      .area<number>()
-      .x((k) => this.x(s.t[k]))
-      .y0(L.chart - 2)
-      .y1((k) => y(Math.max(log ? 1 : -Infinity, s.v[k])));
-    g.select('.chart-line').attr('d', line(idx));
-    g.select('.chart-area').attr('d', area(idx));
+    const floor = log ? 1 : -Infinity;
+    const xs = new Float64Array(n);
+    const ys = new Float64Array(n);
+    for (let k = 0; k < n; k++) {
+      xs[k] = this.x(s.t[k]);
+      ys[k] = y(Math.max(floor, s.v[k]));
+    }
+    g.select('.chart-line').attr('d', linePath(xs, ys));
+    g.select('.chart-area').attr('d', areaPath(xs, ys, L.chart - 2));
     if (key === 'distance') {
       const c = g.select('.chart-comparison');
       if (cmp) {
         const cs = cmp.distance;
-        const cline = d3
-          .line<number>()
-          .x((k) => this.x(cs.t[k]))
-          .y((k) => y(Math.max(1, cs.v[k])));
-        c.attr('d', cline(d3.range(cs.t.length)));
+        const m = cs.t.length;
+        const cx = new Float64Array(m);
+        const cy = new Float64Array(m);
+        for (let k = 0; k < m; k++) {
+          cx[k] = this.x(cs.t[k]);
+          cy[k] = y(Math.max(1, cs.v[k]));
+        }
+        c.attr('d', linePath(cx, cy));
         c.select('title').text(`distance to the target in ${cmp.label} (the comparison)`);
       } else c.attr('d', null);
     }
