@@ -1,7 +1,7 @@
 /**
  * Game-step check: flies a plan with a game's own physics — fixed step, simple integrator,
  * float32 or float64, optional floating origin, patched-conic or all-body gravity, burns as the
- * game applies them — and compares it with the reference flight of the same model (RK45 at a
+ * game applies them — and compares it with the reference flight of the same model (DOP853 at a
  * tight tolerance, reference.ts).
  *
  * What is measured, against time: position and velocity error (|game − reference| in the star

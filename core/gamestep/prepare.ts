@@ -1,7 +1,9 @@
 /**
  * Preparation of a game-step check (check.ts): the game's physics filled in and checked, the
- * plan's burns as the game flies them, the mission's spans and the reference flight (RK45,
- * reference.ts) with an estimate of its own error, shared by every run of the plan.
+ * plan's burns as the game flies them, the mission's spans and the reference flight (DOP853
+ * through the propagation front door, reference.ts) with an estimate of its own error — the
+ * difference to a run of the same method at a tenth of its rtol (at most down to MIN_RTOL) —
+ * shared by every run of the plan.
  */
 import { InputError, requireFinite } from '../math/index.ts';
 import { bodyState } from '../system/index.ts';

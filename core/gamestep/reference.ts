@@ -1,14 +1,18 @@
 /**
  * The reference flight of the game-step check: the same plan, the same gravity model and the
- * same burn model as the game, integrated with Dormand–Prince RK45 at a tight tolerance
- * (core/integrate/rk45.ts) and kept as dense output, so the game's state at any of its step
- * times can be compared with it. The forces are the ship force model's
+ * same burn model as the game, integrated through the propagation front door
+ * (core/integrate/propagate.ts) at a tight tolerance — at rtol ≤ 1e-10 it chooses DOP853, and the
+ * method and its reason are kept in the stats — and kept as dense output, so the game's state
+ * at any of its step times can be compared with it. No fallback: a piece the adaptive method
+ * cannot finish is an error, not a change of method. With 'all' gravity the step is bounded by
+ * the n-body model's field step limit (core/nbody/stepLimit.ts: half the shortest period of a
+ * pulling body), as in the n-body verification. The forces are the ship force model's
  * (core/dynamics/shipForces.ts), the one every non-conic flight of Waymark uses.
  *
  * Gravity models
  * - 'central' (patched conics, what most games do): the force model's two-body mode — only the
  *   central body pulls; the state is kept relative to it. The sphere-of-influence changes are
- *   RK45 events: leaving the central body's SOI (|r| rising through its Laplace radius) and
+ *   integration events: leaving the central body's SOI (|r| rising through its Laplace radius) and
  *   entering a child's (distance to the child falling through the child's radius); at an event
  *   the state is re-expressed about the new central body with the conic ephemeris
  *   (core/system/ephemeris.ts).
@@ -26,12 +30,13 @@
  * along the fixed inertial direction of the Δv from tStart until |Δv| is delivered, with
  * m(t) = m0 − ṁ·(t − tStart) and F = |Δv_plan|·ṁ / ln(m0/m1) (Tsiolkovsky; for a single-stage
  * burn F is the stage's thrust), so the plan's own Δv takes the plan's duration (the force
- * model's thrust phase). Burn times, burn ends and frame switches are breakpoints: no RK45 step
+ * model's thrust phase). Burn times, burn ends and frame switches are breakpoints: no step
  * crosses them.
  */
 import { InputError, SolverError } from '../math/index.ts';
 import type { DenseOutput } from '../integrate/index.ts';
-import { rk45, type EventSpec } from '../integrate/index.ts';
+import { propagate, type EventSpec } from '../integrate/index.ts';
+import { fieldStepLimit } from '../nbody/index.ts';
 import { bodyPosition, bodyState, bodyStateRelativeToParent } from '../system/index.ts';
 import type { StarSystem } from '../system/index.ts';
 import { ShipForces, type ThrustPhase } from '../dynamics/index.ts';
@@ -40,11 +45,17 @@ import type { GameBurn, GameBurnModel, GameGravity } from './burns.ts';
 
 export type { GameBurn, GameBurnModel, GameGravity } from './burns.ts';
 
-/** Default relative tolerance of the reference flight. */
-export const REFERENCE_RTOL = 1e-12;
+/**
+ * Default relative tolerance of the reference flight. DOP853 flies it (the front door's choice at
+ * rtol ≤ 1e-10); its error estimate is close to its true error where RK45's is pessimistic, so it
+ * needs a tenth of RK45's rtol for the same accuracy: at 1e-13 the demo's reference is within
+ * 1.6 m of the analytic Kepler arcs at arrival, as RK45 was at 1e-12, with 16,600 evaluations
+ * instead of 43,200.
+ */
+export const REFERENCE_RTOL = 1e-13;
 /** Default absolute tolerance (m and m/s) of the reference flight. */
 export const REFERENCE_ATOL = 1e-9;
-/** RK45 step budget per reference piece. */
+/** Step budget per reference piece (attempted steps of the adaptive method). */
 export const REFERENCE_MAX_STEPS = 2_000_000;
 
 export interface ReferenceSettings {
@@ -56,7 +67,7 @@ export interface ReferenceSettings {
   /** 'all': frame body schedule — frame body frames.central[k] from frames.t[k] on (t ascending, t[0] ≤ start). */
   frames: { t: number[]; central: number[] };
   rtol?: number;
-  /** RK45 step budget per piece (default REFERENCE_MAX_STEPS). */
+  /** Step budget per piece (default REFERENCE_MAX_STEPS). */
   maxSteps?: number;
   atol?: number;
   signal?: { aborted: boolean };
@@ -76,6 +87,9 @@ export interface ReferenceStats {
   fevals: number;
   /** SOI changes ('central' model). */
   soiChanges: number;
+  /** Method the front door chose ('' before any piece is flown) and its reason, as in FlownSpan. */
+  method: string;
+  reason: string;
   /** Burns whose solve failed (flown with the plan's Δv instead). */
   solveFailures: string[];
 }
@@ -144,9 +158,11 @@ export function flyReference(
   const done = burns.map((b) => (isSpread(b) ? b.tStart < t0 : b.t < t0));
   let active: { b: GameBurn; dv: [number, number, number]; tEnd: number } | null = null;
   const pieces: ReferencePiece[] = [];
-  const stats: ReferenceStats = { steps: 0, rejected: 0, fevals: 0, soiChanges: 0, solveFailures: [] };
+  const stats: ReferenceStats = { steps: 0, rejected: 0, fevals: 0, soiChanges: 0, method: '', reason: '', solveFailures: [] };
   const dv: [number, number, number] = [0, 0, 0];
   const forces = new ShipForces(system, { gravity: s.gravity === 'all' ? 'n-body' : 'two-body' });
+  const limit = fieldStepLimit(forces);
+  const maxStep = Number.isFinite(limit) ? limit : undefined;
   const u = new Float64Array(3);
   let t = t0;
   let guard = 0;
@@ -196,12 +212,29 @@ export function flyReference(
     } else {
       forces.setThrust(null, 0, u, null);
     }
-    const f = forces.deriv;
     const events = s.gravity === 'central' ? soiEvents(system, c) : [];
-    const res = rk45(f, t, y, tb, { rtol, atol, dense: keepDense, events, maxSteps: s.maxSteps ?? REFERENCE_MAX_STEPS, signal: s.signal });
-    stats.steps += res.stats.accepted;
-    stats.rejected += res.stats.rejected;
-    stats.fevals += res.stats.fevals;
+    const res = propagate({
+      accel: forces.accel,
+      t0: t,
+      x0: y.subarray(0, 3),
+      v0: y.subarray(3, 6),
+      tEnd: tb,
+      rtol,
+      atol,
+      maxStep,
+      maxSteps: s.maxSteps ?? REFERENCE_MAX_STEPS,
+      fallback: false,
+      dense: keepDense,
+      events,
+      signal: s.signal,
+    });
+    for (const span of res.spans) {
+      stats.steps += span.stats.accepted;
+      stats.rejected += span.stats.rejected;
+      stats.fevals += span.stats.fevals;
+      stats.method = span.method;
+      stats.reason = span.reason;
+    }
     if (res.status === 'cancelled') throw new SolverError('game-step reference', 'cancelled', `cancelled at t = ${res.t} s`);
     if (res.status !== 'done' && res.status !== 'event') {
       throw new SolverError('game-step reference', res.status === 'step-budget' ? 'step-budget' : 'step-underflow', `${res.message} (t = ${res.t} s)`, {
@@ -210,7 +243,8 @@ export function flyReference(
     }
     if (res.t > t) pieces.push({ t0: t, t1: res.t, central: c, dense: res.dense ?? null });
     t = res.t;
-    y.set(res.y);
+    y.set(res.x, 0);
+    y.set(res.v, 3);
     if (res.status === 'event') {
       const hit = res.events[res.events.length - 1];
       const next = hit.index === 0 && c !== 0 ? bodies[c].parentIndex : eventChild(system, c, hit.index);

@@ -6,7 +6,11 @@
  * Policy (method 'auto'):
  * - by default Dormand–Prince RK45 (rk45.ts), reason 'default';
  * - at tight tolerances (rtol ≤ DOP853_RTOL) the 8th-order DOP853 (dop853.ts), reason
- *   'tight tolerance: rtol … ≤ 1e-11' — a quarter of RK45's evaluations at rtol 1e-12;
+ *   'tight tolerance: rtol … ≤ 1e-10' — a quarter of RK45's evaluations at rtol 1e-12 on a
+ *   smooth orbit. Its error estimate is close to its true local error where RK45's is tens of
+ *   times pessimistic, so at the same rtol it takes much longer steps: a caller whose
+ *   acceleration varies faster than its motion shows (a moon circling a planet far from the
+ *   ship) must bound the step with maxStep, or the embedded estimates alias the fast terms;
  * - when a period estimate is given and the span exceeds longCoastRevs revolutions, a
  *   symplectic method (LONG_COAST_METHOD, Yoshida 4) flies it at fixedStep or
  *   period / DEFAULT_STEPS_PER_REV, reason 'long coast: N revolutions > M' — symplectic
@@ -17,7 +21,9 @@
  *   size RK45 proposed; reason 'RK45 failed: <status> at t=…; fell back to yoshida4 with h=…'.
  *   No fallback when it would need more than FALLBACK_MAX_STEPS steps: the result then keeps
  *   RK45's status and the message says why.
- * An explicit method is always honoured (reason 'requested by caller'), with no fallback.
+ * An explicit method is always honoured (reason 'requested by caller'), with no fallback; so is
+ * fallback: false (the result keeps the adaptive method's status, for references that must fail
+ * rather than change method).
  *
  * State layout for events and dense output: y = [x, v] (2n components, n = x0.length). On
  * fixed-step spans events and dense output use the cubic Hermite interpolant through (x, v, a)
@@ -46,6 +52,10 @@ export interface PropagateRequest {
   fixedStep?: number;
   /** Step budget of RK45. */
   maxSteps?: number;
+  /** Largest step of RK45 and DOP853 (s, > 0; default the whole span); the fixed-step methods ignore it. */
+  maxStep?: number;
+  /** Under 'auto', fly the rest with FALLBACK_METHOD when RK45 or DOP853 fails (default true). */
+  fallback?: boolean;
   /** Events on y = [x, v]. */
   events?: EventSpec[];
   dense?: boolean;
@@ -76,8 +86,11 @@ export interface PropagateResult {
   dense?: DenseOutput;
 }
 
-/** Tolerance at and below which 'auto' flies with DOP853 instead of RK45 (tighter than the n-body default 1e-10, whose callers stay on RK45). */
-export const DOP853_RTOL = 1e-11;
+/**
+ * Tolerance at and below which 'auto' flies with DOP853 instead of RK45: the n-body default
+ * (1e-10) and the game-step reference (1e-12) fly with DOP853.
+ */
+export const DOP853_RTOL = 1e-10;
 /** Revolutions above which 'auto' flies a coast with a symplectic method. */
 export const DEFAULT_LONG_COAST_REVS = 500;
 /** Fixed steps per revolution when the step comes from the period estimate. */
@@ -113,6 +126,8 @@ export function propagate(req: PropagateRequest): PropagateResult {
   positive('fixedStep', req.fixedStep);
   positive('period', req.period);
   positive('longCoastRevs', req.longCoastRevs);
+  positive('maxStep', req.maxStep);
+  if (req.fallback !== undefined && typeof req.fallback !== 'boolean') throw new InputError('fallback', 'must be true or false', req.fallback);
   if (req.maxSteps !== undefined && (!Number.isInteger(req.maxSteps) || req.maxSteps < 1)) {
     throw new InputError('maxSteps', 'must be an integer >= 1', req.maxSteps);
   }
@@ -193,13 +208,14 @@ export function propagate(req: PropagateRequest): PropagateResult {
     rtol: req.rtol,
     atol: req.atol,
     maxSteps: req.maxSteps,
+    maxStep: req.maxStep,
     events,
     dense: req.dense,
     signal: req.signal,
   });
   spans.push({ t0, t1: r.t, method: first, reason, stats: r.stats });
   const failed = r.status === 'step-budget' || r.status === 'step-underflow';
-  if (!failed || method !== 'auto') return result(r.t, r.y, r.status, r.message, r.events, r.dense);
+  if (!failed || method !== 'auto' || req.fallback === false) return result(r.t, r.y, r.status, r.message, r.events, r.dense);
 
   // Fallback from where RK45 (DOP853) stopped.
   const hFallback = req.fixedStep ?? (req.period !== undefined ? req.period / DEFAULT_STEPS_PER_REV : Math.abs(r.hNext));

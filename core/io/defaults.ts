@@ -141,11 +141,12 @@ export const RESOLVE_NAMES: Readonly<Record<DispersionDefaults['resolve'], strin
 // ---------------------------------------------------------------------------------------------
 // Integrators: one id ↔ one display name
 
-export type IntegratorId = 'rk45' | 'wisdom-holman' | 'yoshida4' | 'verlet' | 'symplectic-euler' | 'explicit-euler' | 'rk4';
+export type IntegratorId = 'rk45' | 'dop853' | 'wisdom-holman' | 'yoshida4' | 'verlet' | 'symplectic-euler' | 'explicit-euler' | 'rk4';
 
 /** Each integrator's display name; the command line accepts the id or the name's slug. */
 export const INTEGRATOR_NAMES: Readonly<Record<IntegratorId, string>> = {
   rk45: 'RK45 (Dormand–Prince)',
+  dop853: 'DOP853 (Dormand–Prince 8th order)',
   'wisdom-holman': 'Wisdom–Holman map',
   yoshida4: 'Yoshida 4th-order symplectic',
   verlet: 'velocity Verlet (leapfrog)',

@@ -208,6 +208,7 @@ export function probePeriapsis(
         rtol: model.rtol,
         atol: model.atol,
         maxSteps: model.maxSteps,
+        maxStep: model.maxStep,
         events: [{ g: (_t, y) => y[0] * y[3] + y[1] * y[4] + y[2] * y[5], terminal: true, name: 'periapsis' }],
         signal,
       });

@@ -11,7 +11,8 @@
  * relative tolerances then apply to numbers of the size of the orbit about the nearest body.
  *
  * Integration: every coast and every burn phase goes through the propagation front door
- * (core/integrate/propagate.ts) — Dormand–Prince RK45 at rtol DEFAULT_NBODY_RTOL, with the
+ * (core/integrate/propagate.ts) at rtol DEFAULT_NBODY_RTOL — DOP853 at the default 1e-10, RK45
+ * above DOP853_RTOL — with steps no longer than the model's field step limit (stepLimit.ts), the
  * front door's symplectic fallback and long-coast policy (the osculating period is passed
  * when the orbit about o is closed); the FlownSpans say which method flew each span and why.
  * Impulsive burns change the velocity at the instant; finite burns fly their thrust phases.
@@ -287,6 +288,7 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
         rtol: model.rtol,
         atol: model.atol,
         maxSteps: model.maxSteps,
+        maxStep: model.maxStep,
         events,
         dense: sampler !== null || grid !== null,
         period,

@@ -8,6 +8,7 @@ export { disperse, mergeBlocks, prepareDispersion, runSamples, summarizeDispersi
 export { SAMPLE_FLOWN, SAMPLE_IMPACT, SAMPLE_NO_ARRIVAL, SAMPLE_NOT_EVALUATED } from './disperse.ts';
 export type { DispersionOptions, DispersionResult, SampleBlock } from './disperse.ts';
 export { nbodyStatesToEphemeris } from './states.ts';
+export { STEPS_PER_FASTEST_PERIOD, fieldStepLimit } from './stepLimit.ts';
 export { verifyNBody } from './verify.ts';
 export type { NBodyResult } from './verify.ts';
 export { freezePlan } from './correct.ts';

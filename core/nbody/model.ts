@@ -7,10 +7,11 @@ import type { MethodChoice } from '../integrate/index.ts';
 import { InputError, requireFinite } from '../math/index.ts';
 import type { StarSystem } from '../system/index.ts';
 import { ShipForces, type ShipForcesOptions } from '../dynamics/index.ts';
+import { fieldStepLimit } from './stepLimit.ts';
 
 export type { ThrustPhase, Vec3Tuple } from '../dynamics/index.ts';
 
-/** Relative tolerance of the n-body integration. */
+/** Relative tolerance of the n-body integration (the front door flies it with DOP853, DOP853_RTOL). */
 export const DEFAULT_NBODY_RTOL = 1e-10;
 
 /**
@@ -35,8 +36,10 @@ export interface NBodyModelOptions extends ShipForcesOptions {
   atol?: number;
   /** Integrator choice handed to the front door (default 'auto'). */
   method?: MethodChoice;
-  /** RK45 step budget per integration piece (front-door default when omitted). */
+  /** Step budget of the adaptive method per integration piece (front-door default when omitted). */
   maxSteps?: number;
+  /** Largest step of the adaptive integrators, s (default fieldStepLimit: half the shortest period of a pulling body). */
+  maxStep?: number;
 }
 
 /** The force model and integrator settings of one system (reuse it across flights). */
@@ -46,6 +49,8 @@ export class NBodyModel extends ShipForces {
   readonly atol: number;
   readonly method: MethodChoice;
   readonly maxSteps: number | undefined;
+  /** Largest adaptive step, s (undefined: no bound). */
+  readonly maxStep: number | undefined;
 
   constructor(system: StarSystem, options: NBodyModelOptions = {}) {
     super(system, options);
@@ -57,5 +62,11 @@ export class NBodyModel extends ShipForces {
     if (!(this.atol > 0)) throw new InputError('options.atol', 'must be > 0', this.atol);
     this.method = options.method ?? 'auto';
     this.maxSteps = options.maxSteps;
+    if (options.maxStep !== undefined) {
+      requireFinite('options.maxStep', options.maxStep);
+      if (!(options.maxStep > 0)) throw new InputError('options.maxStep', 'must be > 0', options.maxStep);
+    }
+    const limit = options.maxStep ?? fieldStepLimit(this);
+    this.maxStep = Number.isFinite(limit) ? limit : undefined;
   }
 }

@@ -9,9 +9,24 @@
  * the issue's DOP853 reference count (~74 900 evaluations for 0.58 m; target ≤ 1.2×). Errors are against the analytic solution
  * (Kepler's equation solved by Newton in test/core/integrate/twoBody.ts). Timing: both solvers
  * warmed up, then run alternately; median. Target: time ratio RK45/odex ≤ 1.0.
+ * A third table asks whether 1e-3 m after 100 revolutions is reachable: DOP853 swept down to the
+ * tightest accepted rtol (MIN_RTOL) on the e = 0.3 orbit and on a circular one of the same a,
+ * with odex's best beside it. A fourth flies the n-body verification of the demo plan with RK45
+ * forced and with the front door's choice (DOP853 at the n-body default rtol 1e-10, steps bounded
+ * by the field step limit), alternately in the same run: evaluations, median time and the end
+ * position against a run at rtol 2.5e-14 with quarter-of-the-limit steps.
  */
+import { readFileSync } from 'node:fs';
+import { evaluate } from '../../core/conic/evaluate.ts';
 import { dop853 } from '../../core/integrate/dop853.ts';
-import { rk45 } from '../../core/integrate/rk45.ts';
+import { DOP853_RTOL } from '../../core/integrate/propagate.ts';
+import { MIN_RTOL, rk45 } from '../../core/integrate/rk45.ts';
+import { parseSystemFile } from '../../core/io/systemFile.ts';
+import { fieldStepLimit } from '../../core/nbody/stepLimit.ts';
+import { NBodyModel } from '../../core/nbody/model.ts';
+import { verifyNBody } from '../../core/nbody/verify.ts';
+import { bodyState } from '../../core/system/ephemeris.ts';
+import { demoPlan } from '../fixtures/demoPlan.ts';
 import { odexSolve, odexTwoBody } from '../core/integrate/odexRef.ts';
 import { type Ellipse, period, posError, stateAt, twoBodyOde } from '../core/integrate/twoBody.ts';
 import { printTable } from './table.ts';
@@ -94,6 +109,78 @@ export async function run(): Promise<void> {
   );
   console.log(`  target: wall-time ratio ≤ 1.0 at comparable error → ${myTime / refTime <= 1 ? 'met' : 'not met'} (${(myTime / refTime).toFixed(2)})`);
   runHighOrder();
+  runMillimetre();
+  runNBodyVerification();
+}
+
+/** Goal of issue 16, item 4: 1e-3 m after 100 revolutions reachable. */
+const MM_GOAL = 1e-3;
+
+/** DOP853 swept four per decade from 1e-11 down to MIN_RTOL, and odex from 1e-12 to 1e-15: the smallest final error of each. */
+function runMillimetre(): void {
+  const rows: (string | number)[][] = [];
+  for (const e of [ORBIT.e, 0]) {
+    const o: Ellipse = { ...ORBIT, e };
+    const T = REVS * period(o);
+    const y0 = stateAt(o, 0);
+    const exact = stateAt(o, T);
+    const f = twoBodyOde(MU);
+    const g = odexTwoBody(MU);
+    let dp = { tol: Number.NaN, err: Infinity, fevals: 0 };
+    for (let k = 0; ; k++) {
+      const tol = Math.max(MIN_RTOL, 1e-11 * 10 ** (-k / 4));
+      const r = dop853(f, 0, y0, T, { rtol: tol, atol: tol, maxSteps: 5_000_000 });
+      const err = posError(r.y, exact);
+      if (err < dp.err) dp = { tol, err, fevals: r.stats.fevals };
+      if (tol === MIN_RTOL) break;
+    }
+    let ox = { tol: Number.NaN, err: Infinity, fevals: 0 };
+    for (let k = 0; k <= 12; k++) {
+      const tol = 1e-12 * 10 ** (-k / 4);
+      const r = odexSolve(g, 0, y0, T, tol, tol);
+      const err = posError(r.y, exact);
+      if (err < ox.err) ox = { tol, err, fevals: r.nEval };
+    }
+    rows.push([`e = ${e}: DOP853 (best)`, dp.tol.toExponential(2), dp.fevals, dp.err, dp.err <= MM_GOAL ? 'reached' : 'not reached']);
+    rows.push([`e = ${e}: odex (best, reference)`, ox.tol.toExponential(2), ox.fevals, ox.err, ox.err <= MM_GOAL ? 'reached' : 'not reached']);
+  }
+  console.log(
+    `  ${MM_GOAL} m after ${REVS} revolutions (a = ${ORBIT.a / 1e3} km): smallest final error over a tolerance sweep (DOP853 down to MIN_RTOL ${MIN_RTOL.toExponential(2)})`,
+  );
+  printTable(['case', 'tolerance', 'function evaluations', 'final position error (m)', `≤ ${MM_GOAL} m`], rows);
+}
+
+/** The demo plan's n-body verification: RK45 forced against the front door's choice, alternately. */
+function runNBodyVerification(): void {
+  const { system } = parseSystemFile(readFileSync(new URL('../../assets/systems/ilmar.system.json', import.meta.url), 'utf8'));
+  const conic = evaluate(system, demoPlan, { samplesPerSegment: 0 });
+  const b6 = new Float64Array(6);
+  const endOf = (o: Parameters<typeof verifyNBody>[3]) => {
+    const v = verifyNBody(system, demoPlan, conic, { ...o, samples: false });
+    bodyState(system, v.end.origin, v.end.t, b6, 0);
+    return { x: [0, 1, 2].map((i) => v.end.x[i] + b6[i]), fevals: v.stats.fevals, methods: [...new Set(v.spans.map((s) => s.method))].join(', ') };
+  };
+  const limit = fieldStepLimit(new NBodyModel(system));
+  const ref = endOf({ method: 'dop853', rtol: 2.5e-14, maxStep: limit / 4 });
+  const rk = endOf({ method: 'rk45' });
+  const auto = endOf({});
+  const miss = (x: number[]) => Math.hypot(x[0] - ref.x[0], x[1] - ref.x[1], x[2] - ref.x[2]);
+  const [tRk, tAuto] = timeBoth(
+    () => verifyNBody(system, demoPlan, conic, { method: 'rk45', samples: false }),
+    () => verifyNBody(system, demoPlan, conic, { samples: false }),
+  );
+  console.log(
+    `  n-body verification of the demo plan at the n-body default rtol 1e-10 (DOP853_RTOL ${DOP853_RTOL}); field step limit ${(limit / 86400).toFixed(2)} days`,
+  );
+  printTable(
+    ['figure', 'RK45 forced (before)', 'auto (after)', 'ratio before/after'],
+    [
+      ['methods flown', rk.methods, auto.methods, ''],
+      ['function evaluations', rk.fevals, auto.fevals, rk.fevals / auto.fevals],
+      ['end position vs rtol 2.5e-14 run (m)', miss(rk.x), miss(auto.x), miss(rk.x) / miss(auto.x)],
+      [`wall time, median of ${RUNS} alternated (ms)`, tRk, tAuto, tRk / tAuto],
+    ],
+  );
 }
 
 const HI_RTOL = 1e-12;

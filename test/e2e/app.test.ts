@@ -249,7 +249,7 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
     await page.click('[data-action=nbody-verify]');
     await page.waitForSelector('[data-testid=nbody-result]', { timeout: HANG_GUARD_MS });
     expect(await page.textContent('[data-testid=nbody-miss]')).toMatch(/(km|Gm)$/);
-    expect(await page.textContent('[data-testid=status-nbody]')).toMatch(/n-body: RK45/);
+    expect(await page.textContent('[data-testid=status-nbody]')).toMatch(/n-body: DOP853/);
     expect(await js<boolean>('window.waymarkDebug.scene.nbodyLine !== null')).toBe(true);
     await page.click('[data-action=nbody-correct]');
     await page.waitForSelector('[data-action=nbody-apply]', { timeout: HANG_GUARD_MS });

@@ -5,7 +5,7 @@
  * - `--model` (default: the plan's truth model, `conic` when it names none), read through
  *   core/target truthReport: `conic` patched conics (core/conic/evaluate.ts), `finite` patched
  *   conics with every burn finite, `nbody` the plan's burns as a timed schedule flown through
- *   the restricted n-body model (core/nbody/verify.ts, RK45 through the propagation front door);
+ *   the restricted n-body model (core/nbody/verify.ts, through the propagation front door: DOP853 at its default rtol);
  *   n-body prints which method flew each span and the arrival difference from the patched-conic
  *   flight of the same burns, and exports the n-body states. Every model prints the target's
  *   goals as that model reaches them (value, wanted ± tolerance, met).
@@ -136,7 +136,7 @@ export function addFlyCommand(program: Command): void {
               objectName: plan.vehicle.name,
               creationDate: new Date().toISOString().slice(0, 19),
               comments: [
-                `Plan: ${plan.name}; ${nbody ? 'restricted n-body model (RK45)' : `patched-conic model${model === 'finite' ? ', every burn finite' : ''}`}; ${nbody && step !== null ? `step ${step} s` : stepWords(step, spanSteps)}.`,
+                `Plan: ${plan.name}; ${nbody ? `restricted n-body model (${[...new Set(nbody.spans.map((s) => integratorName(s.method)))].join(', ')})` : `patched-conic model${model === 'finite' ? ', every burn finite' : ''}`}; ${nbody && step !== null ? `step ${step} s` : stepWords(step, spanSteps)}.`,
               ],
               spanComments: burnComments(result, plan, eph.spans),
             });

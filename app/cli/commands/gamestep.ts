@@ -142,7 +142,7 @@ export function checkText(system: StarSystem, planName: string, r: GameStepResul
       `${p.gravity === 'central' ? 'central-body gravity' : 'gravity of all bodies'}, ${p.burns} burns, ${p.guidance === 'resolve' ? 're-solved' : 'open-loop'} guidance`,
   );
   out.push(
-    `reference: RK45 rtol ${r.reference.rtol} (${r.reference.stats.steps} steps); its own error ≈ ${len(r.reference.errorEstimate)} (errors below that are not resolved)`,
+    `reference: ${integratorName(r.reference.stats.method)} rtol ${r.reference.rtol} (${r.reference.stats.steps} steps); its own error ≈ ${len(r.reference.errorEstimate)} (errors below that are not resolved)`,
   );
   out.push('');
   out.push(

@@ -46,8 +46,9 @@ const REASONS: Record<string, string> = {
 
 const SOLVERS: Record<string, string> = {
   'game-step': 'The game-step flight',
-  'game-step reference': 'The reference flight (RK45)',
+  'game-step reference': 'The reference flight (DOP853)',
   rk45: 'The RK45 integrator',
+  dop853: 'The DOP853 integrator',
   stability: 'The stability run',
 };
 

@@ -158,7 +158,7 @@ export function gameVerdict(system: StarSystem, r: GameStepResult): GameVerdict 
   lines.push({
     key: 'reference',
     label: 'Reference',
-    value: `RK45, rtol ${ratio(r.reference.rtol, 0)}`,
+    value: `${INTEGRATOR_NAMES[r.reference.stats.method as keyof typeof INTEGRATOR_NAMES] ?? r.reference.stats.method}, rtol ${ratio(r.reference.rtol, 0)}`,
     note: `its own error ≈ ${errorLength(r.reference.errorEstimate)}`,
   });
 

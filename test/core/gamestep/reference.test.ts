@@ -14,10 +14,11 @@ const result = evaluate(sys, demoPlan, { samplesPerSegment: 0 });
 const tExit = result.events.find((e) => e.kind === 'soi-exit')!.t;
 
 describe("the game-step reference with 'all' gravity flies the ship force model", () => {
-  // Both flights use core/dynamics/shipForces.ts, but with different integrators, origins and
-  // switches: the reference RK45 about the plan's central body of the time (frames switched at
-  // the conic segment boundaries), the n-body verification through the front door about the SOI
-  // body (switched at its own SOI crossing). Given the same burns they fly one flight.
+  // Both flights use core/dynamics/shipForces.ts and the propagation front door (DOP853 at
+  // these tolerances), but with different tolerances, origins and switches: the reference at
+  // rtol 1e-13 about the plan's central body of the time (frames switched at the conic segment
+  // boundaries), the n-body verification at rtol 1e-12 about the SOI body (switched at its own
+  // SOI crossing). Given the same burns they fly one flight.
   const prep = prepareGameStep(sys, demoPlan, { gravity: 'all', guidance: 'open-loop', result });
   const model = new NBodyModel(sys, { rtol: 1e-12 });
   const { actions } = burnActions(demoPlan, result);
@@ -30,10 +31,17 @@ describe("the game-step reference with 'all' gravity flies the ship force model"
     return Math.hypot(n.x[0] + b[0] - a[0], n.x[1] + b[1] - a[1], n.x[2] + b[2] - a[2]);
   };
 
+  it('is flown by DOP853, the front door’s choice at its rtol, and says so', () => {
+    expect(prep.rtol).toBe(1e-13);
+    expect(prep.referenceStats.method).toBe('dop853');
+    expect(prep.referenceStats.reason).toBe('tight tolerance: rtol 1e-13 ≤ 1e-10');
+  });
+
   it('and agrees with the n-body verification, given the same burns, to 5 cm over the first 5.9 days (parking orbit, departure, SOI exit, mid-course burn)', () => {
     const n = flyNBody(model, start, actions, start.t + 5.9 * DAY).state;
-    // two RK45 flights at rtol 1e-12, partly on star-centred numbers (~1.1e11 m: 0.1 m of
-    // tolerance per step, errors of opposite sign mostly cancelling): measured 6.5 mm. Before the
+    // partly on star-centred numbers (~1.1e11 m: 0.1 m of tolerance per step at rtol 1e-12,
+    // errors of opposite sign mostly cancelling): measured 2.2 cm (two RK45 flights at rtol 1e-12:
+    // 9 mm). Before the
     // force model was shared they parted by 2,353 km here (the reference had no indirect term;
     // the verification accelerated Tessel by Quill's pull, which its conic does not feel).
     expect(gap(prep.reference, n)).toBeLessThan(0.05);
@@ -52,7 +60,7 @@ describe("the game-step reference with 'all' gravity flies the ship force model"
       actions.filter((a) => a.t >= tExit),
       tEnd,
     ).state;
-    // measured 0.2 mm; without the star's indirect term in the reference they parted by 26 km
+    // measured 0.4 mm; without the star's indirect term in the reference they parted by 26 km
     // (½·Σμ_k/R_k²·t², Moravel's 1.6e-7 m/s² the most of it)
     expect(gap(ref, n)).toBeLessThan(0.01);
   });

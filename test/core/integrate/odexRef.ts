@@ -21,6 +21,8 @@ export interface OdexResult {
 export interface OdexSolver {
   n: number;
   maxSteps: number;
+  /** Largest step (ODEX's HMAX; 0: the whole interval). */
+  maxStepSize: number;
   relativeTolerance: number | number[];
   absoluteTolerance: number | number[];
   initialStepSize: number;

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../../core/math/errors.ts';
-import { DEFAULT_LONG_COAST_REVS, DEFAULT_STEPS_PER_REV, type PropagateRequest, propagate } from '../../../core/integrate/propagate.ts';
+import { DEFAULT_LONG_COAST_REVS, DEFAULT_STEPS_PER_REV, DOP853_RTOL, type PropagateRequest, propagate } from '../../../core/integrate/propagate.ts';
 import { type Ellipse, meanMotion, period, posError, specificEnergy, stateAt, twoBodyAccel } from './twoBody.ts';
 
 // Earth's μ (Vallado, 4th ed., Table D-3, from memory) as a realistic reference input.
@@ -20,29 +20,48 @@ const radialRate = (_t: number, y: Float64Array) => y[0] * y[3] + y[1] * y[4] + 
 const periTime = (o: Ellipse, k: number) => (2 * Math.PI * k - o.M0) / meanMotion(o);
 
 describe('propagate: the front door picks the integrator and records why', () => {
-  it("'auto' picks rk45 with reason 'default' and matches the analytic orbit", () => {
-    const r = propagate(base({ rtol: 1e-10, atol: 1e-10 }));
+  it("'auto' picks rk45 with reason 'default' above rtol 1e-10 and matches the analytic orbit", () => {
+    const r = propagate(base({ rtol: 1e-9, atol: 1e-9 }));
     expect(r.status).toBe('done');
     expect(r.spans).toHaveLength(1);
     expect(r.spans[0]).toMatchObject({ t0: 0, t1: 2 * P, method: 'rk45', reason: 'default' });
     expect(r.spans[0].stats.accepted).toBeGreaterThan(0);
     expect(r.t).toBe(2 * P);
     const ex = stateAt(O, 2 * P);
+    // two revolutions at rtol 1e-9: measured 2.0e-8 (position) and 2.6e-8 (velocity) relative
     expect(posError(r.x, ex) / O.a).toBeLessThan(1e-7);
     expect(posError(r.v, ex.subarray(3)) / Math.sqrt(MU / O.a)).toBeLessThan(1e-7);
   });
 
-  it("'auto' at rtol 1e-12 (≤ 1e-11) picks dop853 with its reason and matches the analytic orbit", () => {
+  it("'auto' at rtol ≤ 1e-10 (the n-body default) picks dop853 with its reason and matches the analytic orbit", () => {
+    expect(DOP853_RTOL).toBe(1e-10);
+    const at = propagate(base({ rtol: 1e-10, atol: 1e-10 }));
+    expect(at.spans[0]).toMatchObject({ method: 'dop853', reason: 'tight tolerance: rtol 1e-10 ≤ 1e-10' });
+    const ex = stateAt(O, 2 * P);
+    // measured 1.3e-10 (position) and 5.9e-10 (velocity) relative after two revolutions
+    expect(posError(at.x, ex) / O.a).toBeLessThan(1e-9);
+    expect(posError(at.v, ex.subarray(3)) / Math.sqrt(MU / O.a)).toBeLessThan(3e-9);
     const r = propagate(base({ rtol: 1e-12, atol: 1e-12, dense: true }));
     expect(r.status).toBe('done');
     expect(r.spans).toHaveLength(1);
-    expect(r.spans[0]).toMatchObject({ t0: 0, t1: 2 * P, method: 'dop853', reason: 'tight tolerance: rtol 1e-12 ≤ 1e-11' });
-    const ex = stateAt(O, 2 * P);
+    expect(r.spans[0]).toMatchObject({ t0: 0, t1: 2 * P, method: 'dop853', reason: 'tight tolerance: rtol 1e-12 ≤ 1e-10' });
     // Two revolutions at rtol 1e-12: DOP853 reaches ~1e-12 relative (analytic Kepler); 1e-10 leaves margin.
     expect(posError(r.x, ex) / O.a).toBeLessThan(1e-10);
     expect(posError(r.dense!.at(0.7 * P), stateAt(O, 0.7 * P)) / O.a).toBeLessThan(1e-10);
     // Explicitly requested, the same method with the caller's reason.
     expect(propagate(base({ method: 'dop853', rtol: 1e-9, atol: 1e-9 })).spans[0]).toMatchObject({ method: 'dop853', reason: 'requested by caller' });
+  });
+
+  it('maxStep bounds the steps of rk45 and dop853 (at least span/maxStep accepted steps, fewer without it)', () => {
+    const maxStep = P / 400;
+    for (const method of ['rk45', 'dop853'] as const) {
+      const free = propagate(base({ method, rtol: 1e-9, atol: 1e-9 }));
+      const bound = propagate(base({ method, rtol: 1e-9, atol: 1e-9, maxStep }));
+      expect(free.spans[0].stats.accepted, method).toBeLessThan(800);
+      expect(bound.spans[0].stats.accepted, method).toBeGreaterThanOrEqual(800);
+      // shorter steps only shrink the error: two revolutions at rtol 1e-9 stay within 1e-7 of the orbit
+      expect(posError(bound.x, stateAt(O, 2 * P)) / O.a, method).toBeLessThan(1e-7);
+    }
   });
 
   it("a long coast (2400 revolutions > 500) is flown by a symplectic method, reason 'long coast: 2400 revolutions > 500'", () => {
@@ -99,6 +118,15 @@ describe('propagate: the front door picks the integrator and records why', () =>
     expect(r.spans[1].stats.accepted).toBe(Math.ceil((5 * P - r.spans[1].t0) / h - 1e-9));
   });
 
+  it('fallback: false keeps the adaptive method’s failure under auto (one span, its status)', () => {
+    const r = propagate(base({ tEnd: 5 * P, maxSteps: 50, period: P, rtol: 1e-10, atol: 1e-10, fallback: false }));
+    expect(r.spans).toHaveLength(1);
+    expect(r.spans[0]).toMatchObject({ method: 'dop853', reason: 'tight tolerance: rtol 1e-10 ≤ 1e-10' });
+    expect(r.status).toBe('step-budget');
+    expect(r.t).toBeLessThan(5 * P);
+    expect(posError(r.x, stateAt(O, r.t)) / O.a).toBeLessThan(1e-8);
+  });
+
   it('an explicit request is honoured: rk45 with a small budget does not fall back', () => {
     const r = propagate(base({ method: 'rk45', maxSteps: 50 }));
     expect(r.spans).toHaveLength(1);
@@ -121,7 +149,7 @@ describe('propagate: the front door picks the integrator and records why', () =>
 
   it('events on rk45 and on fixed-step spans (Hermite interpolant) at the analytic periapsis times', () => {
     const ev = [{ g: radialRate, direction: 1 as const, name: 'periapsis' }];
-    const rk = propagate(base({ tEnd: 3 * P, rtol: 1e-11, atol: 1e-11, events: ev }));
+    const rk = propagate(base({ tEnd: 3 * P, method: 'rk45', rtol: 1e-11, atol: 1e-11, events: ev }));
     expect(rk.events).toHaveLength(3);
     rk.events.forEach((h, k) => expect(Math.abs(h.t - periTime(O, k + 1))).toBeLessThan(1e-9 * h.t));
     const fx = propagate(base({ tEnd: 3 * P, method: 'yoshida4', fixedStep: P / 2000, events: ev }));
@@ -178,6 +206,9 @@ describe('propagate: the front door picks the integrator and records why', () =>
       ['period negative', { period: -5 }, /^period must be > 0/],
       ['longCoastRevs 0', { longCoastRevs: 0 }, /^longCoastRevs must be > 0/],
       ['maxSteps fractional', { maxSteps: 2.5 }, /^maxSteps must be an integer >= 1/],
+      ['maxStep 0', { maxStep: 0 }, /^maxStep must be > 0/],
+      ['maxStep Infinity', { maxStep: Infinity }, /^maxStep must be a finite number/],
+      ['fallback', { fallback: 'no' as never }, /^fallback must be true or false/],
       ['accel', { accel: undefined as never }, /^accel must be a function/],
     ];
     for (const [label, over, msg] of cases) {

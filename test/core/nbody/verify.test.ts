@@ -59,7 +59,9 @@ describe('verifyNBody: the model reduces to two-body motion (analytic Kepler, un
     expect(v.end.t).toBeCloseTo(t0 + 100 * DAY, 6);
     expect(relErr(got, end, 0)).toBeLessThan(1e-8);
     expect(relErr(got, end, 3)).toBeLessThan(1e-8);
-    expect(v.spans.every((s) => s.method === 'rk45' && s.reason === 'default')).toBe(true);
+    // the n-body default rtol 1e-10 is tight: the front door flies DOP853 and says why; with only
+    // the star pulling there is no fast body, so no step bound
+    expect(v.spans.every((s) => s.method === 'dop853' && s.reason === 'tight tolerance: rtol 1e-10 ≤ 1e-10')).toBe(true);
     // states on a fixed grid (for ephemeris exports): 10-day steps, the end closes the grid
     const g = verifyNBody(sys, p, conic, { pull: ['ilmar'], samples: false, step: 10 * DAY }).states!;
     expect(g.t.length).toBe(11);
@@ -187,7 +189,7 @@ describe('verifyNBody: the full model against an independent integrator', () => 
 describe('verifyNBody on the demo plan', () => {
   const v = verifyNBody(sys, demoPlan, nominal);
 
-  it('flies every burn at its conic time with its conic inertial Δv, and records the spans (RK45, front-door reason)', () => {
+  it('flies every burn at its conic time with its conic inertial Δv, and records the spans (DOP853 at the default rtol 1e-10, front-door reason)', () => {
     expect(v.model).toBe('nbody');
     expect(v.status).toBe('done');
     expect(v.burns.map((b) => b.planEventId)).toEqual(nominal.budget.rows.map((r) => r.planEventId));
@@ -197,9 +199,12 @@ describe('verifyNBody on the demo plan', () => {
     });
     expect(v.spans.length).toBeGreaterThan(5);
     for (const s of v.spans) {
-      expect(s.method).toBe('rk45');
-      expect(s.reason).toBe('default');
+      expect(s.method).toBe('dop853');
+      expect(s.reason).toBe('tight tolerance: rtol 1e-10 ≤ 1e-10');
     }
+    // forced to RK45, the same flight records that instead
+    const rk = verifyNBody(sys, demoPlan, nominal, { method: 'rk45', samples: false });
+    expect(rk.spans.every((s) => s.method === 'rk45' && s.reason === 'requested by caller')).toBe(true);
     expect(v.stats.steps).toBeGreaterThan(100);
     expect(allFinite(v)).toBeNull();
   });

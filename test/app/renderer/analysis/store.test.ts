@@ -58,7 +58,7 @@ describe('on-demand analyses of the plan (n-body, correction, dispersion)', () =
     expect(a.verify.value?.model).toBe('nbody');
     expect(a.verify.value!.spans.length).toBeGreaterThan(0);
     expect(isCurrent(a, a.verify)).toBe(true);
-    expect(methodSummary(a.verify.value!.spans)).toMatch(/RK45/);
+    expect(methodSummary(a.verify.value!.spans)).toMatch(/DOP853/);
     s.doc.edit('Edit reserve', (p) => edits.setReserve(p, { percent: 7 }));
     expect(isCurrent(s.analysis.get(), s.analysis.get().verify)).toBe(false);
   });

@@ -147,7 +147,7 @@ describe("the core's errors in the panel's words", () => {
       'The game-step flight was cancelled: cancelled at t = 5 s',
     );
     expect(checkError(new SolverError('game-step reference', 'step-budget', 'too many pieces').message).message).toBe(
-      'The reference flight (RK45) ran out of its step budget: too many pieces',
+      'The reference flight (DOP853) ran out of its step budget: too many pieces',
     );
     expect(checkError(new InputError('span', 'needs 3e7 steps', 1).message).message).toBe('Span needs 3e7 steps (got 1)');
     expect(checkError('something odd happened')).toEqual({ message: 'something odd happened', detail: 'something odd happened' });
