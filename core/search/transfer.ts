@@ -324,6 +324,7 @@ export function solveSiblingRow(
 ): number {
   const second = s.request.second;
   const nCols = second.n;
+  const ephemeris = system.ephemeris;
   const mu = s.mu;
   const retrograde = s.retrograde;
   // 2μ/r_p of the two periapsis speeds (hyperbolaPeriapsisSpeed's operations)
@@ -348,7 +349,10 @@ export function solveSiblingRow(
       for (let c = 0; c < 6; c++) ARR6[c] = arrCache[6 * j + c];
     } else {
       tof = axisValue(second, j);
-      stateAboutCentral(system, s, s.to, tDep + tof, ARR6);
+      // stateAboutCentral's work, written here so that the call is inlined (t not boxed)
+      const t = tDep + tof;
+      if (!(Math.abs(t) < Infinity)) throw new InputError('t', 'must be a finite number', t);
+      conicState(ephemeris, s.to, t, ARR6);
     }
     let ok = tof > 0 && lambertSingleRev(mu, r1x, r1y, r1z, ARR6[0], ARR6[1], ARR6[2], tof, retrograde, V1, V2) >= 0;
     if (ok) {
