@@ -1,13 +1,12 @@
 /**
- * Runs porkchop jobs on a small pool of Web Workers (one per core, up to two), kept between
- * jobs and warmed before the first one: the grid's departure rows are split into one band per
- * worker (core/search/chunks.ts partitionRows); the first worker leads (it gathers the other
- * bands over MessageChannel ports, finds the windows and rasterises the picture), so the page
- * receives one message with the typed arrays transferred. One job at a time (a new run cancels
- * the previous one), progress summed over the workers, cancel. The worker factory and the pool
- * size are injectable for tests.
+ * Runs porkchop jobs on one or two Web Workers (one per core, up to two), kept between jobs and
+ * warmed before the first one. With two, the first leads and the second helps from the grid's
+ * far end, the two sharing the rows as fast as each gets processor time (windows/porkchopJob.ts);
+ * the page receives one message with the typed arrays transferred. One job at a time (a new run
+ * cancels the previous one), progress, cancel. The worker factory and the pool size are
+ * injectable for tests.
  */
-import { partitionRows, type PorkchopRequest, type WindowOptions } from '../../../core/search/index.ts';
+import type { PorkchopRequest, WindowOptions } from '../../../core/search/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import type { FromWorker, RasterSize, ToWorker } from './protocol.ts';
 
@@ -36,9 +35,6 @@ interface Pending {
   resolve: (m: DoneMessage | null) => void;
   reject: (e: Error) => void;
   onProgress: (done: number, total: number) => void;
-  /** Cells done per worker, and the job's total. */
-  done: number[];
-  total: number;
 }
 
 export class PorkchopClient {
@@ -62,26 +58,24 @@ export class PorkchopClient {
     const n = typeof MessageChannel === 'undefined' ? 1 : this.poolSize;
     for (let k = 0; k < n; k++) {
       const w = this.factory();
-      w.onmessage = (e) => this.#onMessage(k, e.data);
+      w.onmessage = (e) => this.#onMessage(e.data);
       this.#workers.push(w);
     }
-    // each helper gets a port to the leader
-    for (let k = 1; k < n; k++) {
+    // the leader and its helper talk over a port of their own
+    if (n > 1) {
       const ch = new MessageChannel();
       this.#workers[0].postMessage({ type: 'peer', port: ch.port1 }, [ch.port1]);
-      this.#workers[k].postMessage({ type: 'peer', port: ch.port2 }, [ch.port2]);
+      this.#workers[1].postMessage({ type: 'peer', port: ch.port2 }, [ch.port2]);
     }
     return this.#workers;
   }
 
-  #onMessage(worker: number, m: FromWorker): void {
+  #onMessage(m: FromWorker): void {
     const p = this.#pending.get(m.id);
     if (!p) return;
     if (m.type === 'progress') {
-      p.done[worker] = m.done;
-      let sum = 0;
-      for (const d of p.done) sum += d || 0;
-      p.onProgress(Math.min(sum, p.total), p.total);
+      // the leader reports the whole grid's cells (its own and its helper's)
+      p.onProgress(m.done, m.total);
       return;
     }
     this.#pending.delete(m.id);
@@ -111,13 +105,11 @@ export class PorkchopClient {
     this.cancel();
     const id = ++this.#id;
     const workers = this.#ensure();
-    const nRows = request.depart.n;
-    // a malformed row count goes to the leader whole, whose validation words the error
-    const bands = Number.isInteger(nRows) && nRows >= 1 ? partitionRows(nRows, workers.length) : [{ rowStart: 0, rowEnd: nRows }];
+    const helped = workers.length > 1;
     return new Promise((resolve, reject) => {
-      this.#pending.set(id, { resolve, reject, onProgress, done: [], total: request.depart.n * request.second.n });
-      workers[0].postMessage({ type: 'run', id, system, request, windows, rows: bands[0], helpers: bands.length - 1, raster });
-      for (let k = 1; k < bands.length; k++) workers[k].postMessage({ type: 'rows', id, system, request, rows: bands[k] });
+      this.#pending.set(id, { resolve, reject, onProgress });
+      workers[0].postMessage({ type: 'run', id, system, request, windows, helped, raster });
+      if (helped) workers[1].postMessage({ type: 'help', id, system, request });
     });
   }
 

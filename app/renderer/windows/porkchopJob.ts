@@ -1,20 +1,23 @@
 /**
  * One porkchop computation as the Windows workers run it (plain code over injected hooks, so
- * vitest runs it without a Worker):
- * - `computeBand`: a band of departure rows (core/search/porkchop.ts computePorkchopRows), block
- *   by block, yielding between blocks so a cancel message can arrive, reporting progress;
- * - `runPorkchopJob`: the leader's whole job: its own band into the full grid, the other
- *   workers' bands merged in (core/search/chunks.ts), the transfer windows
- *   (core/search/windows.ts), and the picture (porkchopRaster.ts);
- * - `warmPorkchop`: a small grid and its windows, so the first real job runs compiled code.
+ * vitest runs it without a Worker). The grid's departure rows are shared from both ends: the
+ * leader computes blocks from the first row down while a helper computes blocks from the last
+ * row up and sends each one over (merged into the leader's grid as it arrives); the leader stops
+ * where it meets the helper's rows and tells it to stop. A helper that gets no processor time
+ * (a busy machine) costs the leader nothing but a block computed twice; an idle second core
+ * halves the grid time. Then the leader finds the transfer windows (core/search/windows.ts) and
+ * rasterises the picture (porkchopRaster.ts). `warmPorkchop` runs a small grid so the first
+ * real job runs compiled code.
  */
 import { SolverError } from '../../../core/math/index.ts';
 import {
   computePorkchopRows,
   createGrid,
+  createPlanes,
   findWindows,
   mergeChunk,
   metricPlane,
+  prepareTransfer,
   type PorkchopGrid,
   type PorkchopPlanes,
   type PorkchopRequest,
@@ -23,10 +26,10 @@ import {
 } from '../../../core/search/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import { plotLevels, rasterPorkchop } from './porkchopRaster.ts';
-import type { DoneImage, RasterSize, Rows } from './protocol.ts';
+import type { DoneImage, RasterSize } from './protocol.ts';
 
-/** Cells per block between yields (and progress reports). */
-export const CELLS_PER_BLOCK = 10_000;
+/** Cells per block between yields (and progress reports, and a helper's messages). */
+export const CELLS_PER_BLOCK = 4000;
 /** Samples per axis of the warm-up grid. */
 export const WARM_N = 48;
 
@@ -38,17 +41,49 @@ export interface JobHooks {
   yieldNow?(): Promise<void>;
 }
 
-/** A band computed by another worker. */
-export interface Band {
-  planes: PorkchopPlanes;
-  unsolved: number;
+/** The leader's side of a helper: the rows it has sent so far, and a way to stop it. */
+export interface HelperLink {
+  /** The first row of the contiguous run [row, nRows) received from the helper (nRows: none yet). */
+  received(): number;
+  /** Tells the helper the grid is complete. */
+  stop(): void;
+}
+
+/**
+ * The leader's record of its helper's blocks: each block that continues the run up from the
+ * last row is merged into the grid's planes (core/search/chunks.ts mergeChunk); any other is
+ * refused (the leader computes those rows itself).
+ */
+export class HelperBlocks implements HelperLink {
+  #received: number;
+
+  constructor(
+    readonly planes: PorkchopPlanes,
+    private readonly onStop: () => void,
+  ) {
+    this.#received = planes.rowStart + planes.nRows;
+  }
+
+  /** Merges `block` when it ends where the run received so far starts; returns whether it did. */
+  accept(block: PorkchopPlanes): boolean {
+    if (block.rowStart + block.nRows !== this.#received || block.rowStart < this.planes.rowStart) return false;
+    mergeChunk(this.planes, block);
+    this.#received = block.rowStart;
+    return true;
+  }
+
+  received(): number {
+    return this.#received;
+  }
+
+  stop(): void {
+    this.onStop();
+  }
 }
 
 export interface JobOptions {
-  /** The rows this worker computes; default the whole grid. */
-  rows?: Rows;
-  /** The other workers' bands (together with `rows`, the whole grid). */
-  bands?: () => Promise<Band[]>;
+  /** A helper computing from the last row up; given the grid's planes to merge its blocks into. */
+  helper?: (planes: PorkchopPlanes) => HelperLink;
   /** Rasterise the picture at this size. */
   raster?: RasterSize | null;
 }
@@ -87,33 +122,31 @@ export function macrotask(): Promise<void> {
 
 const cancelledAt = (row: number) => new SolverError('porkchop', 'cancelled', `cancelled after row ${row}`, { row });
 
-/** Rows `rows` of `request` into `out` (which holds them), block by block; returns the unsolved cells. */
-export async function computeBand(
+/** Rows per block for a grid of nCols columns. */
+export function rowsPerBlock(nCols: number): number {
+  return Math.max(1, Math.floor(CELLS_PER_BLOCK / nCols));
+}
+
+/**
+ * The helper's side: blocks of rows from the last row up, each computed into planes of its own
+ * and handed to `send` (which transfers them), until `shouldStop` or the first row.
+ */
+export async function helpFromBottom(
   system: StarSystem,
-  setup: Parameters<typeof computePorkchopRows>[1],
-  rows: Rows,
-  out: PorkchopPlanes,
-  hooks: JobHooks,
-): Promise<number> {
-  const nCols = out.nCols;
-  const per = Math.max(1, Math.floor(CELLS_PER_BLOCK / nCols));
-  const total = (rows.rowEnd - rows.rowStart) * nCols;
-  const signal = {
-    get aborted() {
-      return hooks.isCancelled();
-    },
-  };
-  let unsolved = 0;
-  for (let r = rows.rowStart; r < rows.rowEnd; r += per) {
-    const end = Math.min(rows.rowEnd, r + per);
-    unsolved += computePorkchopRows(system, setup, r, end, out, { signal });
-    hooks.onProgress((end - rows.rowStart) * nCols, total);
-    if (end < rows.rowEnd) {
-      await (hooks.yieldNow ?? macrotask)();
-      if (hooks.isCancelled()) throw cancelledAt(end);
-    }
+  request: PorkchopRequest,
+  hooks: { shouldStop(): boolean; send(planes: PorkchopPlanes): void; yieldNow?(): Promise<void> },
+): Promise<void> {
+  const setup = prepareTransfer(system, request);
+  const nRows = request.depart.n;
+  const nCols = request.second.n;
+  const per = rowsPerBlock(nCols);
+  for (let end = nRows; end > 0 && !hooks.shouldStop(); end -= per) {
+    const start = Math.max(0, end - per);
+    const planes = createPlanes(start, end - start, nCols);
+    computePorkchopRows(system, setup, start, end, planes);
+    hooks.send(planes);
+    await (hooks.yieldNow ?? macrotask)();
   }
-  return unsolved;
 }
 
 export async function runPorkchopJob(
@@ -125,15 +158,46 @@ export async function runPorkchopJob(
 ): Promise<JobResult> {
   const t0 = performance.now();
   const { grid, setup } = createGrid(system, request);
-  const rows = options.rows ?? { rowStart: 0, rowEnd: grid.planes.nRows };
-  grid.unsolved = await computeBand(system, setup, rows, grid.planes, hooks);
-  if (options.bands) {
-    for (const b of await options.bands()) {
-      if (hooks.isCancelled()) throw cancelledAt(rows.rowEnd);
-      mergeChunk(grid.planes, b.planes);
-      grid.unsolved += b.unsolved;
+  const { nRows, nCols } = grid.planes;
+  const link = options.helper?.(grid.planes);
+  const per = rowsPerBlock(nCols);
+  const total = nRows * nCols;
+  const signal = {
+    get aborted() {
+      return hooks.isCancelled();
+    },
+  };
+  // rows [0, top) done here, [bottom, nRows) received from the helper
+  let top = 0;
+  let reported = 0;
+  const report = (done: number) => {
+    if (done <= reported) return;
+    reported = done;
+    hooks.onProgress(done, total);
+  };
+  let bottom = link ? link.received() : nRows;
+  try {
+    while (top < bottom) {
+      const end = Math.min(bottom, top + per);
+      computePorkchopRows(system, setup, top, end, grid.planes, { signal });
+      top = end;
+      if (link) bottom = Math.min(bottom, link.received());
+      report(Math.min(total, (top + nRows - bottom) * nCols));
+      if (top < bottom) {
+        await (hooks.yieldNow ?? macrotask)();
+        if (hooks.isCancelled()) throw cancelledAt(top);
+        if (link) bottom = Math.min(bottom, link.received());
+      }
     }
+  } finally {
+    link?.stop();
   }
+  report(total);
+  // rows may have been computed on both sides where the two met: count the unsolved cells once
+  let unsolved = 0;
+  const revs = grid.planes.revs;
+  for (let k = 0; k < revs.length; k++) if (revs[k] < 0) unsolved++;
+  grid.unsolved = unsolved;
   const t1 = performance.now();
   const windows = findWindows(system, grid, windowOptions);
   const t2 = performance.now();

@@ -1,18 +1,13 @@
 /**
- * Messages between the Windows view and its porkchop workers. One worker leads a job: it
- * computes its band of rows, receives the other workers' bands over a port of its own (as
- * transferred typed arrays, never copied through the page), then finds the windows and
- * rasterises the picture, and sends the page one `done` with everything transferred.
+ * Messages between the Windows view and its porkchop workers. One worker leads a job and the
+ * other (when there are two) helps from the grid's far end, sending its blocks of rows straight
+ * to the leader over a MessageChannel port (typed arrays transferred, never copied through the
+ * page); the leader finds the windows, rasterises the picture and sends the page one `done`
+ * with everything transferred (windows/porkchopJob.ts).
  */
 import type { PorkchopGrid, PorkchopPlanes, PorkchopRequest, TransferWindow, WindowOptions } from '../../../core/search/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import type { PlotLevels } from './porkchopRaster.ts';
-
-/** A band of departure rows [rowStart, rowEnd). */
-export interface Rows {
-  rowStart: number;
-  rowEnd: number;
-}
 
 /** Size in device pixels of the picture to rasterise. */
 export interface RasterSize {
@@ -21,20 +16,18 @@ export interface RasterSize {
 }
 
 export type ToWorker =
-  /** To the leader: the port a helper sends its bands on. */
+  /** The port to the other worker (the leader's to its helper, the helper's to its leader). */
   | { type: 'peer'; port: MessagePort }
   /** Compile the hot code before the first real job: a small grid of `request` and its windows. */
   | { type: 'warm'; system: StarSystem; request: PorkchopRequest }
-  /** To the leader: compute `rows`, gather `helpers` bands from the peers, find the windows, rasterise. */
-  | { type: 'run'; id: number; system: StarSystem; request: PorkchopRequest; windows: WindowOptions; rows: Rows; helpers: number; raster: RasterSize | null }
-  /** To a helper: compute `rows` and send them to the leader. */
-  | { type: 'rows'; id: number; system: StarSystem; request: PorkchopRequest; rows: Rows }
+  /** To the leader: the job; `helped` when the other worker helps from the far end. */
+  | { type: 'run'; id: number; system: StarSystem; request: PorkchopRequest; windows: WindowOptions; helped: boolean; raster: RasterSize | null }
+  /** To the helper: compute blocks from the last row up and send them to the leader, until told to stop. */
+  | { type: 'help'; id: number; system: StarSystem; request: PorkchopRequest }
   | { type: 'cancel'; id: number };
 
-/** From a helper to the leader, over the peer port. */
-export type PeerMessage =
-  | { type: 'band'; id: number; planes: PorkchopPlanes; unsolved: number }
-  | { type: 'failed'; id: number; message: string; cancelled: boolean };
+/** Between the two workers, over their port: a helper's block to the leader; the leader's stop to the helper. */
+export type PeerMessage = { type: 'band'; id: number; planes: PorkchopPlanes } | { type: 'stop'; id: number };
 
 export interface DoneImage extends RasterSize {
   pixels: Uint8ClampedArray;

@@ -1,71 +1,55 @@
 /// <reference lib="webworker" />
 /**
- * A Windows view worker (windows/porkchopClient.ts keeps one per core, up to two, started
- * before the first job). As the leader of a job it computes its band of rows, merges the
- * helpers' bands arriving on its peer ports, finds the windows and rasterises the picture
- * (windows/porkchopJob.ts); as a helper it computes its band and sends it to the leader.
- * Typed arrays are transferred, never copied.
+ * A Windows view worker (windows/porkchopClient.ts keeps one or two, started and warmed before
+ * the first job). As the leader of a job it computes rows from the top, merges the blocks its
+ * helper sends from the bottom, finds the windows and rasterises the picture
+ * (windows/porkchopJob.ts); as the helper it computes blocks from the bottom and sends them to
+ * the leader until told to stop. Typed arrays are transferred, never copied.
  */
 import { SolverError } from '../../../core/math/index.ts';
-import { createPlanes, planeBuffers, prepareTransfer } from '../../../core/search/index.ts';
-import { computeBand, runPorkchopJob, warmPorkchop, type Band } from '../windows/porkchopJob.ts';
+import { planeBuffers, type PorkchopPlanes } from '../../../core/search/index.ts';
+import { HelperBlocks, type HelperLink, helpFromBottom, runPorkchopJob, warmPorkchop } from '../windows/porkchopJob.ts';
 import type { FromWorker, PeerMessage, ToWorker } from '../windows/protocol.ts';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 /** Pause between the two warm-up rounds, ms. */
 const WARM_PAUSE_MS = 300;
 const cancelled = new Set<number>();
-/** Ports to the helpers (leader only). */
-const peers: MessagePort[] = [];
-/** The leader's latest job; bands of earlier jobs are dropped. */
-let currentRun = 0;
-/** Bands received per job id, and the job waiting for them. */
-const received = new Map<number, Band[]>();
-const waiters = new Map<number, { need: number; resolve: (b: Band[]) => void; reject: (e: Error) => void }>();
+/** The port to the other worker. */
+let peer: MessagePort | null = null;
+/** Leader: the running job's id and its helper's blocks. */
+let merging: { id: number; blocks: HelperBlocks } | null = null;
+/** Helper: the jobs the leader has stopped. */
+const stopped = new Set<number>();
 
 function post(m: FromWorker, transfer: Transferable[] = []): void {
   scope.postMessage(m, transfer);
 }
 
-function settle(id: number): void {
-  const w = waiters.get(id);
-  const got = received.get(id) ?? [];
-  if (w && got.length >= w.need) {
-    waiters.delete(id);
-    received.delete(id);
-    w.resolve(got);
-  }
-}
-
 function onPeer(e: MessageEvent<PeerMessage>): void {
   const m = e.data;
-  if (m.id < currentRun) return;
-  if (m.type === 'band') {
-    if (cancelled.has(m.id)) return;
-    const list = received.get(m.id) ?? [];
-    list.push({ planes: m.planes, unsolved: m.unsolved });
-    received.set(m.id, list);
-    settle(m.id);
-  } else {
-    const w = waiters.get(m.id);
-    waiters.delete(m.id);
-    received.delete(m.id);
-    w?.reject(m.cancelled ? new SolverError('porkchop', 'cancelled', 'a helper was cancelled', {}) : new Error(m.message));
+  if (m.type === 'stop') {
+    stopped.add(m.id);
+    return;
   }
+  // a block of the running job (a port keeps the blocks in the order they were sent)
+  if (merging?.id === m.id) merging.blocks.accept(m.planes);
 }
 
-function bandsOf(id: number, need: number): () => Promise<Band[]> {
-  return () =>
-    new Promise<Band[]>((resolve, reject) => {
-      waiters.set(id, { need, resolve, reject });
-      settle(id);
+function helperLink(id: number): (planes: PorkchopPlanes) => HelperLink {
+  return (planes) => {
+    const blocks = new HelperBlocks(planes, () => {
+      if (merging?.blocks === blocks) merging = null;
+      peer?.postMessage({ type: 'stop', id } satisfies PeerMessage);
     });
+    merging = { id, blocks };
+    return blocks;
+  };
 }
 
 const isCancel = (err: unknown) => err instanceof SolverError && err.reason === 'cancelled';
-const text = (err: unknown) => (err instanceof Error ? err.message : String(err));
 
-/** Progress at most every 50 ms (and at the end of a band). */
+/** Progress at most every 50 ms (and at the end). */
 function progress(id: number): (done: number, total: number) => void {
   let last = 0;
   return (done, total) => {
@@ -80,17 +64,13 @@ function progress(id: number): (done: number, total: number) => void {
 scope.onmessage = async (e: MessageEvent<ToWorker>) => {
   const m = e.data;
   switch (m.type) {
-    case 'cancel': {
+    case 'cancel':
       cancelled.add(m.id);
-      const w = waiters.get(m.id);
-      waiters.delete(m.id);
-      received.delete(m.id);
-      w?.reject(new SolverError('porkchop', 'cancelled', 'cancelled while waiting for the other bands', {}));
+      stopped.add(m.id);
       return;
-    }
     case 'peer':
-      m.port.onmessage = onPeer;
-      peers.push(m.port);
+      peer = m.port;
+      peer.onmessage = onPeer;
       return;
     case 'warm':
       try {
@@ -102,32 +82,30 @@ scope.onmessage = async (e: MessageEvent<ToWorker>) => {
         // a request the form would refuse: nothing to warm
       }
       return;
-    case 'rows': {
-      // a helper: the band goes to the leader over this worker's peer port
-      const port = peers[0];
+    case 'help': {
+      const port = peer;
       try {
-        const setup = prepareTransfer(m.system, m.request);
-        const planes = createPlanes(m.rows.rowStart, m.rows.rowEnd - m.rows.rowStart, m.request.second.n);
-        const unsolved = await computeBand(m.system, setup, m.rows, planes, { isCancelled: () => cancelled.has(m.id), onProgress: progress(m.id) });
-        port?.postMessage({ type: 'band', id: m.id, planes, unsolved } satisfies PeerMessage, planeBuffers(planes));
-      } catch (err) {
-        port?.postMessage({ type: 'failed', id: m.id, message: text(err), cancelled: isCancel(err) } satisfies PeerMessage);
+        await helpFromBottom(m.system, m.request, {
+          shouldStop: () => stopped.has(m.id) || !port,
+          send: (planes) => port?.postMessage({ type: 'band', id: m.id, planes } satisfies PeerMessage, planeBuffers(planes)),
+        });
+      } catch {
+        // the leader computes what a failed helper leaves and reports any error itself
       } finally {
+        stopped.delete(m.id);
         cancelled.delete(m.id);
       }
       return;
     }
     case 'run': {
-      currentRun = m.id;
       const startedAt = performance.timeOrigin + performance.now();
-      for (const id of received.keys()) if (id < m.id) received.delete(id);
       try {
         const r = await runPorkchopJob(
           m.system,
           m.request,
           m.windows,
           { isCancelled: () => cancelled.has(m.id), onProgress: progress(m.id) },
-          { rows: m.rows, bands: m.helpers > 0 ? bandsOf(m.id, m.helpers) : undefined, raster: m.raster },
+          { helper: m.helped && peer ? helperLink(m.id) : undefined, raster: m.raster },
         );
         const transfer: Transferable[] = planeBuffers(r.grid.planes);
         if (r.image) transfer.push(r.image.pixels.buffer as ArrayBuffer);
@@ -135,7 +113,7 @@ scope.onmessage = async (e: MessageEvent<ToWorker>) => {
         post({ type: 'done', id: m.id, ...r, startedAt, sentAt }, transfer);
       } catch (err) {
         if (isCancel(err)) post({ type: 'cancelled', id: m.id });
-        else post({ type: 'error', id: m.id, message: text(err) });
+        else post({ type: 'error', id: m.id, message: err instanceof Error ? err.message : String(err) });
       } finally {
         cancelled.delete(m.id);
       }

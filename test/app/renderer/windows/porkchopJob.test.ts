@@ -4,10 +4,8 @@ import { SolverError } from '../../../../core/math/errors.ts';
 import { parseSystemFile } from '../../../../core/io/systemFile.ts';
 import { computePorkchop } from '../../../../core/search/porkchop.ts';
 import type { PorkchopRequest } from '../../../../core/search/request.ts';
-import { computeBand, macrotask, runPorkchopJob, warmPorkchop } from '../../../../app/renderer/windows/porkchopJob.ts';
+import { HelperBlocks, helpFromBottom, macrotask, rowsPerBlock, runPorkchopJob, warmPorkchop } from '../../../../app/renderer/windows/porkchopJob.ts';
 import { createPlanes, FLOAT_PLANES, INT_PLANES } from '../../../../core/search/planes.ts';
-import { partitionRows } from '../../../../core/search/chunks.ts';
-import { prepareTransfer } from '../../../../core/search/transfer.ts';
 import { findWindows } from '../../../../core/search/windows.ts';
 import { plotLevels, rasterPorkchop } from '../../../../app/renderer/windows/porkchopRaster.ts';
 import { PorkchopClient, type WorkerLike } from '../../../../app/renderer/windows/porkchopClient.ts';
@@ -45,37 +43,89 @@ describe('porkchop job (what the Windows worker runs)', () => {
     expect(Math.abs(first.tof / DAY - 241)).toBeLessThan(3);
   });
 
-  it("split over two bands (the leader's and a helper's), gives the same grid, windows and picture as the core in one thread", async () => {
-    const [lead, help] = partitionRows(request.depart.n, 2);
-    const hooks = { isCancelled: () => false, onProgress: () => undefined };
-    const helper = createPlanes(help.rowStart, help.rowEnd - help.rowStart, request.second.n);
-    const helperUnsolved = await computeBand(system, prepareTransfer(system, request), help, helper, hooks);
-    const r = await runPorkchopJob(system, request, { count: 3 }, hooks, {
-      rows: lead,
-      bands: async () => [{ planes: helper, unsolved: helperUnsolved }],
-      raster: { width: 90, height: 70 },
-    });
+  it('shared with a helper from the far end, gives the same grid, windows and picture as the core in one thread, however fast the helper runs', async () => {
     const ref = computePorkchop(system, request);
-    for (const k of [...FLOAT_PLANES, ...INT_PLANES]) expect(Array.from(r.grid.planes[k])).toEqual(Array.from(ref.planes[k]));
-    expect(r.grid.unsolved).toBe(ref.unsolved);
-    expect(r.windows).toEqual(findWindows(system, ref, { count: 3 }));
+    const refWindows = findWindows(system, ref, { count: 3 });
     const levels = plotLevels(ref.planes.dvTotal);
-    expect(r.image?.levels).toEqual(levels);
     const picture = rasterPorkchop(
       { plane: ref.planes.dvTotal, departTimes: ref.departTimes, secondValues: ref.secondValues, secondAxis: 'tof' },
       levels,
       90,
       70,
     );
-    expect(Array.from(r.image!.pixels)).toEqual(Array.from(picture));
+    const per = rowsPerBlock(request.second.n);
+    // the helper: interleaved with the leader block by block, never scheduled, or done before the leader starts
+    for (const pace of ['interleaved', 'starved', 'ahead'] as const) {
+      let blocks: HelperBlocks | null = null;
+      let stops = 0;
+      const pending: Parameters<HelperBlocks['accept']>[0][] = [];
+      const helper = helpFromBottom(system, request, {
+        shouldStop: () => stops > 0,
+        send: (planes) => pending.push(planes),
+        yieldNow: macrotask,
+      });
+      if (pace === 'ahead') await helper;
+      const r = await runPorkchopJob(
+        system,
+        request,
+        { count: 3 },
+        {
+          isCancelled: () => false,
+          onProgress: () => undefined,
+          // the helper's messages arrive while the leader yields
+          yieldNow: async () => {
+            await macrotask();
+            if (pace !== 'starved') while (pending.length) blocks!.accept(pending.shift()!);
+          },
+        },
+        {
+          helper: (planes) => {
+            blocks = new HelperBlocks(planes, () => void stops++);
+            if (pace === 'ahead') while (pending.length) blocks.accept(pending.shift()!);
+            return blocks;
+          },
+          raster: { width: 90, height: 70 },
+        },
+      );
+      await helper;
+      expect(stops).toBe(1);
+      if (pace === 'ahead') expect(blocks!.received()).toBe(0);
+      if (pace === 'interleaved') expect(blocks!.received()).toBeLessThan(request.depart.n - per);
+      if (pace === 'starved') expect(blocks!.received()).toBe(request.depart.n);
+      for (const k of [...FLOAT_PLANES, ...INT_PLANES]) expect(Array.from(r.grid.planes[k])).toEqual(Array.from(ref.planes[k]));
+      expect(r.grid.unsolved).toBe(ref.unsolved);
+      expect(r.windows).toEqual(refWindows);
+      expect(r.image?.levels).toEqual(levels);
+      expect(Array.from(r.image!.pixels)).toEqual(Array.from(picture));
+    }
   });
 
-  it('a band reports progress in its own cells, up to its total', async () => {
+  it("the leader takes only a block that continues the helper's run from the last row", () => {
+    const planes = createPlanes(0, 10, 4);
+    const blocks = new HelperBlocks(planes, () => undefined);
+    const block = (start: number, n: number) => {
+      const b = createPlanes(start, n, 4);
+      b.dvTotal.fill(start + 1);
+      return b;
+    };
+    expect(blocks.accept(block(5, 3))).toBe(false); // rows 5..7 leave 8..9 missing
+    expect(blocks.accept(block(7, 3))).toBe(true);
+    expect(blocks.accept(block(3, 4))).toBe(true);
+    expect(blocks.received()).toBe(3);
+    expect(Array.from(planes.dvTotal.subarray(12, 28))).toEqual([...Array(16).fill(4)]);
+    expect(Array.from(planes.dvTotal.subarray(28, 40))).toEqual([...Array(12).fill(8)]);
+    expect(Array.from(planes.dvTotal.subarray(0, 12))).toEqual([...Array(12).fill(0)]);
+  });
+
+  it('reports progress in cells of the whole grid, up to the total', async () => {
     const seen: [number, number][] = [];
-    const rows = { rowStart: 30, rowEnd: 120 };
-    const out = createPlanes(30, 90, request.second.n);
-    await computeBand(system, request, rows, out, { isCancelled: () => false, onProgress: (d, t) => seen.push([d, t]), yieldNow: async () => undefined });
-    expect(seen.at(-1)).toEqual([90 * request.second.n, 90 * request.second.n]);
+    await runPorkchopJob(system, request, {}, { isCancelled: () => false, onProgress: (d, t) => seen.push([d, t]), yieldNow: async () => undefined });
+    const total = request.depart.n * request.second.n;
+    expect(seen.at(-1)).toEqual([total, total]);
+    for (const [d, t] of seen) {
+      expect(t).toBe(total);
+      expect(d).toBeLessThanOrEqual(total);
+    }
   });
 
   it('the warm-up runs a small grid of the same pair and its windows', async () => {
@@ -83,19 +133,6 @@ describe('porkchop job (what the Windows worker runs)', () => {
     expect(r.grid.planes.nRows * r.grid.planes.nCols).toBeLessThan(request.depart.n * request.second.n);
     expect(r.grid.request.from).toBe(request.from);
     expect(r.windows.length).toBe(1);
-  });
-
-  it('a macrotask lets a message posted before it in', async () => {
-    const ch = new MessageChannel();
-    let got = false;
-    ch.port1.onmessage = () => {
-      got = true;
-    };
-    ch.port2.postMessage(0);
-    await macrotask();
-    await macrotask();
-    ch.port1.close();
-    expect(got).toBe(true);
   });
 
   it('stops with a cancelled SolverError when cancelled between blocks', async () => {
@@ -133,11 +170,10 @@ describe('porkchop client', () => {
     const c = new PorkchopClient(() => w, 1);
     const onProgress = vi.fn();
     const p1 = c.run(system, request, {}, onProgress);
-    expect(sent[0]).toMatchObject({ type: 'run', rows: { rowStart: 0, rowEnd: request.depart.n }, helpers: 0, raster: null });
+    expect(sent[0]).toMatchObject({ type: 'run', helped: false, raster: null });
     const id1 = (sent[0] as { id: number }).id;
     w.emit({ type: 'progress', id: id1, done: 5, total: 10 });
-    // progress in cells of the whole grid
-    expect(onProgress).toHaveBeenCalledWith(5, request.depart.n * request.second.n);
+    expect(onProgress).toHaveBeenCalledWith(5, 10);
     // A second run cancels the first.
     const p2 = c.run(system, request, {}, vi.fn());
     expect(sent[1]).toEqual({ type: 'cancel', id: id1 });
@@ -148,7 +184,7 @@ describe('porkchop client', () => {
     await expect(p2).rejects.toThrow('bad request');
   });
 
-  it('splits a job over two workers: the leader gets the first band and a port, the helper the second band and the other end; progress is summed; a cancel reaches both', async () => {
+  it('shares a job between two workers: the leader gets the job and a port, the helper the other end and the far end of the grid; a cancel reaches both', async () => {
     const a = fakeWorker();
     const b = fakeWorker();
     const made = [a.w, b.w];
@@ -156,16 +192,14 @@ describe('porkchop client', () => {
     const onProgress = vi.fn();
     const job = c.run(system, request, { count: 2 }, onProgress, { width: 40, height: 30 });
     const [peerA, runA] = a.sent;
-    const [peerB, rowsB] = b.sent;
+    const [peerB, helpB] = b.sent;
     expect(peerA.type).toBe('peer');
     expect(peerB.type).toBe('peer');
-    const bands = partitionRows(request.depart.n, 2);
-    expect(runA).toMatchObject({ type: 'run', rows: bands[0], helpers: 1, raster: { width: 40, height: 30 } });
-    expect(rowsB).toMatchObject({ type: 'rows', rows: bands[1] });
+    expect(runA).toMatchObject({ type: 'run', helped: true, raster: { width: 40, height: 30 }, request });
+    expect(helpB).toMatchObject({ type: 'help', request, id: (runA as { id: number }).id });
     const id = (runA as { id: number }).id;
-    a.w.emit({ type: 'progress', id, done: 100, total: 60 * 90 });
-    b.w.emit({ type: 'progress', id, done: 200, total: 60 * 90 });
-    expect(onProgress).toHaveBeenLastCalledWith(300, request.depart.n * request.second.n);
+    a.w.emit({ type: 'progress', id, done: 300, total: 120 * 90 });
+    expect(onProgress).toHaveBeenLastCalledWith(300, 120 * 90);
     c.cancel();
     expect(a.sent.at(-1)).toEqual({ type: 'cancel', id });
     expect(b.sent.at(-1)).toEqual({ type: 'cancel', id });
