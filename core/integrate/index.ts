@@ -9,4 +9,4 @@ export { mutualAccel } from './gravity.ts';
 export { propagate } from './propagate.ts';
 export type { FlownSpan, MethodChoice } from './propagate.ts';
 export { MIN_RTOL, rk45 } from './rk45.ts';
-export { dop853 } from './dop853.ts';
+export { DOP853_MIN_RTOL, dop853 } from './dop853.ts';
