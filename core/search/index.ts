@@ -1,5 +1,5 @@
 /**
- * Front door of core/search. Transfer-window search: porkchop grids, work chunks, window minima refined.
+ * Front door of core/search. Transfer-window search: porkchop grids, work chunks, window minima refined; multi-leg flyby sequences.
  * Other folders of core/ and the app import from here only.
  */
 export { mergeChunk, partitionRows } from './chunks.ts';
@@ -13,5 +13,7 @@ export { porkchopPair } from './pair.ts';
 export type { PorkchopPair } from './pair.ts';
 export { FROM_PARENT, SIBLINGS, TO_PARENT, prepareTransfer } from './transfer.ts';
 export type { TransferCell } from './transfer.ts';
+export { SEQUENCE_METHOD, searchSequence } from './sequence.ts';
+export type { SequenceFlyby, SequenceLeg, SequenceRequest, SequenceResult, SequenceSolution } from './sequence.ts';
 export { findWindows } from './windows.ts';
 export type { TransferWindow, WindowOptions } from './windows.ts';
