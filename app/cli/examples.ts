@@ -48,6 +48,10 @@ export const COMMAND_EXAMPLES: Readonly<Record<string, readonly string[]>> = {
     'waymark fly assets/plans/tessel-to-ochre.plan.json --csv - --step 10min',
   ],
   windows: ['waymark windows --system assets/systems/ilmar.system.json --from Tessel --to ochre --depart 0d..400d --grid 100x100'],
+  sequence: [
+    'waymark sequence tessel moravel fennick --system assets/systems/ilmar.system.json --depart 412-001..413-001',
+    'waymark sequence tessel moravel fennick --system assets/systems/ilmar.system.json --unpowered --flyby --keep 3 --json',
+  ],
   gamestep: ['waymark gamestep assets/plans/tessel-to-ochre.plan.json --dt 1/60 --float32'],
   handoff: [
     'waymark handoff assets/plans/tessel-to-ochre.plan.json --integrator symplectic-euler --dt 1/60 --schedule burns.schedule.json',

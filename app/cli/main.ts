@@ -16,6 +16,7 @@ import { addStabilityCommand } from './commands/stability.ts';
 import { addCorrectCommand } from './commands/correct.ts';
 import { addDisperseCommand } from './commands/disperse.ts';
 import { addRouteCommand } from './commands/route.ts';
+import { addSequenceCommand } from './commands/sequence.ts';
 import { addTargetCommand } from './commands/target.ts';
 import { addWindowsCommand } from './commands/windows.ts';
 import { EXIT_BAD_INPUT, EXIT_OK, termSafe } from './output.ts';
@@ -34,6 +35,7 @@ export function buildProgram(): Command {
   addCalcCommands(program);
   addPlanCommands(program);
   addWindowsCommand(program);
+  addSequenceCommand(program);
   addGamestepCommand(program);
   addHandoffCommand(program);
   addStabilityCommand(program);
