@@ -79,7 +79,13 @@ export async function run(): Promise<void> {
 
   const prep = time(() => prepareGameStep(system, demoPlan));
   const ref = prep.value.referenceStats;
-  rows.push([`reference flight of the plan (${ref.method}, rtol ${prep.value.rtol}, with its self-check run)`, `${prep.ms.toFixed(0)} ms`, `${ref.steps} steps`, '', '']);
+  rows.push([
+    `reference flight of the plan (${ref.method}, rtol ${prep.value.rtol}, with its self-check run)`,
+    `${prep.ms.toFixed(0)} ms`,
+    `${ref.steps} steps`,
+    '',
+    '',
+  ]);
 
   for (const physics of [
     { integrator: 'verlet' as const, dt: 1 / 60 },

@@ -7,7 +7,11 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { areaPath, linePath } from '../../../../app/renderer/timeline/timelineChart.ts';
 
-const coord = fc.oneof(fc.double({ noNaN: true, min: -1e6, max: 1e6 }), fc.integer({ min: -2000, max: 2000 }), fc.constantFrom(0, -0, 0.1, 1 / 3, 0.0005, -0.0005, Number.NaN, Number.POSITIVE_INFINITY));
+const coord = fc.oneof(
+  fc.double({ noNaN: true, min: -1e6, max: 1e6 }),
+  fc.integer({ min: -2000, max: 2000 }),
+  fc.constantFrom(0, -0, 0.1, 1 / 3, 0.0005, -0.0005, Number.NaN, Number.POSITIVE_INFINITY),
+);
 const points = fc.array(fc.tuple(coord, coord), { maxLength: 60 });
 
 describe('chart paths (d3-shape as the reference)', () => {
