@@ -1,6 +1,7 @@
 /**
  * Messages between the renderer and the analysis worker (n-body verification, correction,
- * dispersion, targeting the plan in a model, the plan read in its truth model, and the checks of
+ * dispersion, targeting the plan in a model, the plan read in its truth model, a multi-leg sequence
+ * search (the Windows view's sequence mode), and the checks of
  * analysis/checkJobs.ts: game-step check, step sweep, retargeting for a game, system stability and its run-time estimate).
  * A targeting job's progress carries the targeter's own report (leg, flights, residual). A job
  * refused for its input (InputError: a route's intent) keeps the field and rule across, so the
@@ -13,6 +14,7 @@ import type { NBodyResult } from '../../../core/nbody/index.ts';
 import type { Plan, TruthModel } from '../../../core/plan/index.ts';
 import type { TargetProgress, TargetResult, TruthReport } from '../../../core/target/index.ts';
 import type { PlanResult } from '../../../core/plan/index.ts';
+import type { SequenceRequest, SequenceResult } from '../../../core/search/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import type { CheckJob, CheckOutput } from './checkJobs.ts';
 import type { RouteIntent, RouteResult } from '../route/routeCore.ts';
@@ -24,6 +26,7 @@ export type AnalysisJob =
   | { kind: 'target'; system: StarSystem; plan: Plan; model: TruthModel }
   | { kind: 'truth'; system: StarSystem; plan: Plan; model: TruthModel }
   | { kind: 'route'; system: StarSystem; intent: RouteIntent }
+  | { kind: 'sequence'; system: StarSystem; request: SequenceRequest }
   | CheckJob;
 
 export type AnalysisOutput =
@@ -33,6 +36,7 @@ export type AnalysisOutput =
   | { kind: 'target'; target: TargetResult }
   | { kind: 'truth'; truth: TruthReport }
   | { kind: 'route'; route: RouteResult }
+  | { kind: 'sequence'; sequence: SequenceResult }
   | CheckOutput;
 
 export type ToAnalysisWorker = { type: 'run'; id: number; job: AnalysisJob };

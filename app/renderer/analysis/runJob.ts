@@ -2,7 +2,8 @@
  * One analysis job as the worker runs it: n-body verification (core/nbody/verify.ts),
  * differential correction (core/nbody/correct.ts), a dispersion run (core/nbody/disperse.ts),
  * targeting the plan in a model (core/target targetPlan), the plan read in its truth model
- * (core/target truthReport), a route for an intent (core/route planRoute) or one of the checks
+ * (core/target truthReport), a route for an intent (core/route planRoute), a multi-leg sequence
+ * search (core/search searchSequence) or one of the checks
  * (analysis/checkJobs.ts), with progress as a fraction and a note (a targeting job adds the
  * targeter's own report). Plain code, tested without a Worker.
  */
@@ -15,6 +16,7 @@ import type { AnalysisJob, AnalysisOutput } from './protocol.ts';
 import { runCheckJob } from './checkJobs.ts';
 import { targetFraction } from '../target/progress.ts';
 import { planRoute } from '../route/routeCore.ts';
+import { searchSequence } from '../../../core/search/index.ts';
 
 export function runAnalysisJob(job: AnalysisJob, onProgress: (fraction: number, note: string, detail?: TargetProgress) => void): AnalysisOutput {
   switch (job.kind) {
@@ -65,6 +67,11 @@ export function runAnalysisJob(job: AnalysisJob, onProgress: (fraction: number, 
       };
     case 'route':
       return { kind: 'route', route: planRoute(job.system, job.intent, { onProgress: (fraction, words) => onProgress(fraction, words) }) };
+    case 'sequence':
+      return {
+        kind: 'sequence',
+        sequence: searchSequence(job.system, job.request, (fraction) => onProgress(fraction, `searching ${job.request.bodies.length - 1} legs`)),
+      };
     default:
       return runCheckJob(job, onProgress);
   }
