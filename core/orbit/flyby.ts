@@ -141,12 +141,30 @@ function twoHyperbolaRp(a: number, b: number, turn: number): number {
  * Returns false (slots Infinity) on a zero or non-finite speed. B-plane angle: see poweredFlyby.
  */
 export function flybyCostInto(mu: number, vin: ArrayLike<number>, vout: ArrayLike<number>, rpMin: number, powered: boolean, out: Float64Array): boolean {
-  const ix = vin[0];
-  const iy = vin[1];
-  const iz = vin[2];
-  const ox = vout[0];
-  const oy = vout[1];
-  const oz = vout[2];
+  // small enough to be inlined into the caller's loop, so mu and rpMin reach FP unboxed
+  FP[0] = mu;
+  FP[1] = rpMin;
+  FP[2] = vin[0];
+  FP[3] = vin[1];
+  FP[4] = vin[2];
+  FP[5] = vout[0];
+  FP[6] = vout[1];
+  FP[7] = vout[2];
+  return flybyCostFromInput(powered, out);
+}
+
+// The input of flybyCostInto: μ, rpMin, v∞ in (3), v∞ out (3).
+const FP = new Float64Array(8);
+
+function flybyCostFromInput(powered: boolean, out: Float64Array): boolean {
+  const mu = FP[0];
+  const rpMin = FP[1];
+  const ix = FP[2];
+  const iy = FP[3];
+  const iz = FP[4];
+  const ox = FP[5];
+  const oy = FP[6];
+  const oz = FP[7];
   const vi2 = ix * ix + iy * iy + iz * iz;
   const vo2 = ox * ox + oy * oy + oz * oz;
   const vi = Math.sqrt(vi2);

@@ -159,8 +159,23 @@ const resonantCost = (v1x: number, v1y: number, v1z: number): number => {
   return flybyCostInto(c.bodyMu[costBody], VIN, VOUT, c.rpMin[costBody], c.powered, FB) ? FB[FLYBY_DV_TOTAL] : Infinity;
 };
 
+// Numbers handed to and from the hot helpers through typed arrays (a double passed to or returned
+// from a call that is not inlined is boxed, i.e. allocated): TT = [leave time, time of flight],
+// RES[0] = the Δv a helper computed.
+const TT = new Float64Array(2);
+const RES = new Float64Array(1);
+
 /** Lambert leg k leaving at t with time of flight tof: v∞ vectors into VDEP/VARR slot k. False when unsolved. */
 function solveLeg(c: Chain, k: number, t: number, tof: number): boolean {
+  // small enough to be inlined, so t and tof reach TT unboxed
+  TT[0] = t;
+  TT[1] = tof;
+  return solveLegAt(c, k);
+}
+
+function solveLegAt(c: Chain, k: number): boolean {
+  const t = TT[0];
+  const tof = TT[1];
   if (!(tof > 0)) return false;
   const eph = c.system.ephemeris;
   conicState(eph, c.idx[k], t, S_DEP);
@@ -204,27 +219,47 @@ const departCost = (v1x: number, v1y: number, v1z: number): number => {
   return hyperbolaPeriapsisSpeed(c.bodyMu[0], dx * dx + dy * dy + dz * dz, c.rPark);
 };
 
-function departDv(c: Chain): number {
+/** Departure burn of leg 0 into RES[0]. */
+function departDvAt(c: Chain): void {
   const w2 = VDEP[0] * VDEP[0] + VDEP[1] * VDEP[1] + VDEP[2] * VDEP[2];
-  return hyperbolaPeriapsisSpeed(c.bodyMu[0], w2, c.rPark) - c.vPark;
+  RES[0] = Math.sqrt(w2 + (2 * c.bodyMu[0]) / c.rPark) - c.vPark;
 }
 
-function captureDv(c: Chain): number {
-  if (!c.capture) return 0;
+/** Capture burn at the end of the last leg into RES[0] (0 without capture). */
+function captureDvAt(c: Chain): void {
+  if (!c.capture) {
+    RES[0] = 0;
+    return;
+  }
   const o = 3 * (c.legs - 1);
   const w2 = VARR[o] * VARR[o] + VARR[o + 1] * VARR[o + 1] + VARR[o + 2] * VARR[o + 2];
-  return hyperbolaPeriapsisSpeed(c.bodyMu[c.legs], w2, c.rArrive) - c.vTarget;
+  RES[0] = Math.sqrt(w2 + (2 * c.bodyMu[c.legs]) / c.rArrive) - c.vTarget;
 }
 
-/** Flyby cost at body j of the sequence (1 ≤ j ≤ legs − 1) from VARR[j−1] and VDEP[j]. */
-function flybyDv(c: Chain, j: number): number {
+/** Flyby cost at body j of the sequence (1 ≤ j ≤ legs − 1) from VARR[j−1] and VDEP[j] into RES[0] (Infinity when unusable). */
+function flybyDvAt(c: Chain, j: number): void {
   VIN[0] = VARR[3 * j - 3];
   VIN[1] = VARR[3 * j - 2];
   VIN[2] = VARR[3 * j - 1];
   VOUT[0] = VDEP[3 * j];
   VOUT[1] = VDEP[3 * j + 1];
   VOUT[2] = VDEP[3 * j + 2];
-  return flybyCostInto(c.bodyMu[j], VIN, VOUT, c.rpMin[j], c.powered, FB) ? FB[FLYBY_DV_TOTAL] : Infinity;
+  RES[0] = flybyCostInto(c.bodyMu[j], VIN, VOUT, c.rpMin[j], c.powered, FB) ? FB[FLYBY_DV_TOTAL] : Infinity;
+}
+
+function departDv(c: Chain): number {
+  departDvAt(c);
+  return RES[0];
+}
+
+function captureDv(c: Chain): number {
+  captureDvAt(c);
+  return RES[0];
+}
+
+function flybyDv(c: Chain, j: number): number {
+  flybyDvAt(c, j);
+  return RES[0];
 }
 
 /** Total Δv of the chain for the times in x = [t0, tof1, …, tofN] (Infinity when any leg is unsolved). */
@@ -414,6 +449,58 @@ function bestDirect(system: StarSystem, c: Chain, req: SequenceRequest, nDep: nu
   return { depart: r.x[0], arrive: r.x[0] + r.x[1], dvTotal: r.fx };
 }
 
+// The grid cell being solved: [departure, first-leg time of flight, total Δv (out)].
+const GRID = new Float64Array(3);
+
+/**
+ * One grid cell (departure GRID[0], first-leg time GRID[1]): leg 0, then each later leg's time
+ * scanned on its 1-D grid keeping the cheapest flyby there (plus capture on the last leg), the
+ * chosen times into `later` at cell·(legs − 1). Total into GRID[2]; false when some leg has no
+ * solution. Allocates nothing of its own (numbers pass through GRID, TT and RES).
+ */
+function gridCell(c: Chain, nTof: number, later: Float64Array, cell: number): boolean {
+  counters.evaluations++;
+  const legs = c.legs;
+  const t0 = GRID[0];
+  const tof1 = GRID[1];
+  if (!solveLeg(c, 0, t0, tof1)) return false;
+  departDvAt(c);
+  let total = RES[0];
+  if (legs === 1) {
+    captureDvAt(c);
+    total += RES[0];
+  }
+  let t = t0 + tof1;
+  for (let k = 1; k < legs; k++) {
+    let bestK = Infinity;
+    let bestTof = 0;
+    const lo = c.lo[k];
+    const span = c.hi[k] - lo;
+    for (let m = 0; m < nTof; m++) {
+      const tof = lo + (span * m) / (nTof - 1);
+      if (!solveLeg(c, k, t, tof)) continue;
+      flybyDvAt(c, k);
+      let v = RES[0];
+      if (k === legs - 1) {
+        captureDvAt(c);
+        v += RES[0];
+      }
+      if (v < bestK) {
+        bestK = v;
+        bestTof = tof;
+      }
+    }
+    if (!(bestK < Infinity)) return false;
+    // leave the chosen leg's v∞ in VDEP/VARR for the next leg's flyby (resonant legs read VARR)
+    solveLeg(c, k, t, bestTof);
+    later[cell * (legs - 1) + k - 1] = bestTof;
+    total += bestK;
+    t += bestTof;
+  }
+  GRID[2] = total;
+  return total < Infinity;
+}
+
 function refine(c: Chain, x0: number[], req: SequenceRequest, nDep: number, nTof: number): { x: number[]; fx: number } {
   const dim = c.legs + 1;
   const lower = [req.departFrom];
@@ -454,41 +541,11 @@ export function searchSequence(system: StarSystem, req: SequenceRequest, onProgr
   const cost = new Float64Array(cells).fill(Infinity);
   const later = new Float64Array(cells * Math.max(1, c.legs - 1));
   const legs = c.legs;
-  const lastLeg = legs - 1;
   for (let i = 0; i < nDep; i++) {
-    const t0 = gridValue(req.departFrom, req.departTo, nDep, i);
+    GRID[0] = gridValue(req.departFrom, req.departTo, nDep, i);
     for (let j = 0; j < nTof; j++) {
-      const tof1 = gridValue(c.lo[0], c.hi[0], nTof, j);
-      counters.evaluations++;
-      if (!solveLeg(c, 0, t0, tof1)) continue;
-      let total = departDv(c);
-      if (legs === 1) total += captureDv(c);
-      let t = t0 + tof1;
-      let ok = true;
-      for (let k = 1; k < legs && ok; k++) {
-        let bestK = Infinity;
-        let bestTof = 0;
-        for (let m = 0; m < nTof; m++) {
-          const tof = gridValue(c.lo[k], c.hi[k], nTof, m);
-          if (!solveLeg(c, k, t, tof)) continue;
-          let v = flybyDv(c, k);
-          if (k === lastLeg) v += captureDv(c);
-          if (v < bestK) {
-            bestK = v;
-            bestTof = tof;
-          }
-        }
-        if (!(bestK < Infinity)) {
-          ok = false;
-          break;
-        }
-        // leave the chosen leg's v∞ in VDEP/VARR for the next leg's flyby (resonant legs read VARR)
-        solveLeg(c, k, t, bestTof);
-        later[(i * nTof + j) * (legs - 1) + k - 1] = bestTof;
-        total += bestK;
-        t += bestTof;
-      }
-      if (ok && total < Infinity) cost[i * nTof + j] = total;
+      GRID[1] = gridValue(c.lo[0], c.hi[0], nTof, j);
+      if (gridCell(c, nTof, later, i * nTof + j)) cost[i * nTof + j] = GRID[2];
     }
     if (onProgress) onProgress((0.8 * (i + 1)) / nDep);
   }
