@@ -293,14 +293,16 @@ describe.skipIf(!have)('Waymark in the browser (e2e)', () => {
       expect(Math.abs(w.arrival - expected[k].arrival)).toBeLessThanOrEqual(1e-12 * Math.abs(expected[k].arrival));
       expect(Math.abs(w.dv - expected[k].dvTotal)).toBeLessThanOrEqual(1e-12 * expected[k].dvTotal);
     });
-    // The picture is one canvas image, drawn (not blank) over the plot area.
-    const painted = await js<number>(`(() => {
+    // The picture is one canvas image, drawn (not blank) over the plot area; it follows the list.
+    const painted = () =>
+      js<number>(`(() => {
       const c = document.querySelector('[data-testid=porkchop] canvas.porkchop-image');
+      if (!c) return 0;
       const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
       const colours = new Set();
       for (let k = 0; k < d.length; k += 4 * 97) colours.add((d[k] << 16) | (d[k + 1] << 8) | d[k + 2]);
       return colours.size; })()`);
-    expect(painted).toBeGreaterThan(5);
+    await expect.poll(painted, { timeout: HANG_GUARD_MS }).toBeGreaterThan(5);
     const plot = (await page.locator('[data-testid=porkchop] svg rect.hit').boundingBox())!;
     await page.mouse.move(plot.x + plot.width * 0.3, plot.y + plot.height * 0.4);
     await expect.poll(() => page.textContent('[data-testid=porkchop-readout]')).toMatch(/Δv total/);

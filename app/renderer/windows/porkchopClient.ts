@@ -2,7 +2,8 @@
  * Runs porkchop jobs on one or two Web Workers (one per core, up to two), kept between jobs and
  * warmed before the first one. With two, the first leads and the second helps from the grid's
  * far end, the two sharing the rows as fast as each gets processor time (windows/porkchopJob.ts);
- * the page receives one message with the typed arrays transferred. One job at a time (a new run
+ * the page receives the windows as soon as they are found (`onListed`), then one message with
+ * the grid and the picture, typed arrays transferred. One job at a time (a new run
  * cancels the previous one), progress, cancel. The worker factory and the pool size are
  * injectable for tests.
  */
@@ -11,6 +12,7 @@ import type { StarSystem } from '../../../core/system/index.ts';
 import type { FromWorker, RasterSize, ToWorker } from './protocol.ts';
 
 export type DoneMessage = Extract<FromWorker, { type: 'done' }>;
+export type ListedMessage = Extract<FromWorker, { type: 'listed' }>;
 
 export interface WorkerLike {
   postMessage(m: ToWorker, transfer?: Transferable[]): void;
@@ -35,6 +37,7 @@ interface Pending {
   resolve: (m: DoneMessage | null) => void;
   reject: (e: Error) => void;
   onProgress: (done: number, total: number) => void;
+  onListed?: (m: ListedMessage) => void;
 }
 
 export class PorkchopClient {
@@ -78,6 +81,11 @@ export class PorkchopClient {
       p.onProgress(m.done, m.total);
       return;
     }
+    if (m.type === 'listed') {
+      // a job a newer one has replaced lists nothing
+      if (m.id === this.#id) p.onListed?.(m);
+      return;
+    }
     this.#pending.delete(m.id);
     if (m.type === 'done') p.resolve(m);
     else if (m.type === 'cancelled') p.resolve(null);
@@ -93,7 +101,8 @@ export class PorkchopClient {
 
   /**
    * Starts a job (cancelling any running one); resolves to the result, or null when cancelled.
-   * With `raster`, the result carries the picture rasterised at that size.
+   * With `raster`, the result carries the picture rasterised at that size. `onListed` gets the
+   * windows before the picture is rasterised.
    */
   run(
     system: StarSystem,
@@ -101,13 +110,14 @@ export class PorkchopClient {
     windows: WindowOptions,
     onProgress: (done: number, total: number) => void,
     raster: RasterSize | null = null,
+    onListed?: (m: ListedMessage) => void,
   ): Promise<DoneMessage | null> {
     this.cancel();
     const id = ++this.#id;
     const workers = this.#ensure();
     const helped = workers.length > 1;
     return new Promise((resolve, reject) => {
-      this.#pending.set(id, { resolve, reject, onProgress });
+      this.#pending.set(id, { resolve, reject, onProgress, onListed });
       workers[0].postMessage({ type: 'run', id, system, request, windows, helped, raster });
       if (helped) workers[1].postMessage({ type: 'help', id, system, request });
     });

@@ -5,8 +5,9 @@
  * row up and sends each one over (merged into the leader's grid as it arrives); the leader stops
  * where it meets the helper's rows and tells it to stop. A helper that gets no processor time
  * (a busy machine) costs the leader nothing but a block computed twice; an idle second core
- * halves the grid time. Then the leader finds the transfer windows (core/search/windows.ts) and
- * rasterises the picture (porkchopRaster.ts). `warmPorkchop` runs a small grid so the first
+ * halves the grid time. Then the leader finds the transfer windows (core/search/windows.ts),
+ * hands them on (`onWindows`, so the page lists them at once) and rasterises the picture
+ * (porkchopRaster.ts). `warmPorkchop` runs a small grid so the first
  * real job runs compiled code.
  */
 import { SolverError } from '../../../core/math/index.ts';
@@ -86,6 +87,8 @@ export interface JobOptions {
   helper?: (planes: PorkchopPlanes) => HelperLink;
   /** Rasterise the picture at this size. */
   raster?: RasterSize | null;
+  /** Called with the windows (and the grid and window times, ms) before the picture is rasterised. */
+  onWindows?(windows: TransferWindow[], gridMs: number, windowsMs: number): void;
 }
 
 export interface JobResult {
@@ -201,6 +204,7 @@ export async function runPorkchopJob(
   const t1 = performance.now();
   const windows = findWindows(system, grid, windowOptions);
   const t2 = performance.now();
+  options.onWindows?.(windows, t1 - t0, t2 - t1);
   let image: DoneImage | null = null;
   if (options.raster) {
     const plane = metricPlane(grid.planes, grid.request.metric);

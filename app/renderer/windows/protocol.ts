@@ -2,8 +2,9 @@
  * Messages between the Windows view and its porkchop workers. One worker leads a job and the
  * other (when there are two) helps from the grid's far end, sending its blocks of rows straight
  * to the leader over a MessageChannel port (typed arrays transferred, never copied through the
- * page); the leader finds the windows, rasterises the picture and sends the page one `done`
- * with everything transferred (windows/porkchopJob.ts).
+ * page); the leader finds the windows and sends them to the page at once (`listed`, a few
+ * dozen numbers), then rasterises the picture and sends one `done` with the grid and the
+ * picture transferred (windows/porkchopJob.ts), so the list never waits for the picture.
  */
 import type { PorkchopGrid, PorkchopPlanes, PorkchopRequest, TransferWindow, WindowOptions } from '../../../core/search/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
@@ -37,6 +38,18 @@ export interface DoneImage extends RasterSize {
 export type FromWorker =
   /** Cells finished of this worker's band. */
   | { type: 'progress'; id: number; done: number; total: number }
+  /** The job's windows, sent before the picture is rasterised; the `done` that follows repeats them. */
+  | {
+      type: 'listed';
+      id: number;
+      windows: TransferWindow[];
+      /** The leader's times, ms: grid (until every band is in), windows. */
+      gridMs: number;
+      windowsMs: number;
+      /** When the leader started the job and sent this message (performance.timeOrigin + now, ms). */
+      startedAt: number;
+      sentAt: number;
+    }
   | {
       type: 'done';
       id: number;

@@ -2,8 +2,8 @@
 /**
  * A Windows view worker (windows/porkchopClient.ts keeps one or two, started and warmed before
  * the first job). As the leader of a job it computes rows from the top, merges the blocks its
- * helper sends from the bottom, finds the windows and rasterises the picture
- * (windows/porkchopJob.ts); as the helper it computes blocks from the bottom and sends them to
+ * helper sends from the bottom, finds the windows and sends them to the page, then rasterises
+ * the picture (windows/porkchopJob.ts); as the helper it computes blocks from the bottom and sends them to
  * the leader until told to stop. Typed arrays are transferred, never copied.
  */
 import { SolverError } from '../../../core/math/index.ts';
@@ -49,12 +49,15 @@ function helperLink(id: number): (planes: PorkchopPlanes) => HelperLink {
 
 const isCancel = (err: unknown) => err instanceof SolverError && err.reason === 'cancelled';
 
-/** Progress at most every 50 ms (and at the end). */
+/**
+ * Progress at most every 50 ms, and none at the end: the windows follow at once, and a progress
+ * message just before them would have the page draw a frame while they wait.
+ */
 function progress(id: number): (done: number, total: number) => void {
   let last = 0;
   return (done, total) => {
     const now = performance.now();
-    if (now - last > 50 || done === total) {
+    if (now - last > 50 && done < total) {
       last = now;
       post({ type: 'progress', id, done, total });
     }
@@ -105,7 +108,13 @@ scope.onmessage = async (e: MessageEvent<ToWorker>) => {
           m.request,
           m.windows,
           { isCancelled: () => cancelled.has(m.id), onProgress: progress(m.id) },
-          { helper: m.helped && peer ? helperLink(m.id) : undefined, raster: m.raster },
+          {
+            helper: m.helped && peer ? helperLink(m.id) : undefined,
+            raster: m.raster,
+            // the list goes to the page before the picture is rasterised
+            onWindows: (windows, gridMs, windowsMs) =>
+              post({ type: 'listed', id: m.id, windows, gridMs, windowsMs, startedAt, sentAt: performance.timeOrigin + performance.now() }),
+          },
         );
         const transfer: Transferable[] = planeBuffers(r.grid.planes);
         if (r.image) transfer.push(r.image.pixels.buffer as ArrayBuffer);

@@ -100,6 +100,31 @@ describe('porkchop job (what the Windows worker runs)', () => {
     }
   });
 
+  it('hands the windows on before the picture is rasterised, the same windows the result carries', async () => {
+    const order: string[] = [];
+    let handed: unknown = null;
+    const r = await runPorkchopJob(
+      system,
+      request,
+      { count: 3 },
+      { isCancelled: () => false, onProgress: () => undefined, yieldNow: async () => undefined },
+      {
+        raster: { width: 60, height: 40 },
+        onWindows: (windows, gridMs, windowsMs) => {
+          order.push('windows');
+          handed = windows;
+          expect(gridMs).toBeGreaterThanOrEqual(0);
+          expect(windowsMs).toBeGreaterThanOrEqual(0);
+        },
+      },
+    );
+    order.push('returned');
+    expect(order).toEqual(['windows', 'returned']);
+    expect(handed).toBe(r.windows);
+    expect(r.windows).toEqual(findWindows(system, computePorkchop(system, request), { count: 3 }));
+    expect(r.image?.pixels.length).toBe(60 * 40 * 4);
+  });
+
   it("the leader takes only a block that continues the helper's run from the last row", () => {
     const planes = createPlanes(0, 10, 4);
     const blocks = new HelperBlocks(planes, () => undefined);
@@ -182,6 +207,27 @@ describe('porkchop client', () => {
     const id2 = (sent[2] as { id: number }).id;
     w.emit({ type: 'error', id: id2, message: 'bad request' });
     await expect(p2).rejects.toThrow('bad request');
+  });
+
+  it("hands the current job's windows on before its result, and a replaced job's never", async () => {
+    const { w, sent } = fakeWorker();
+    const c = new PorkchopClient(() => w, 1);
+    const listed1 = vi.fn();
+    const listed2 = vi.fn();
+    const p1 = c.run(system, request, {}, vi.fn(), null, listed1);
+    const id1 = (sent[0] as { id: number }).id;
+    const p2 = c.run(system, request, {}, vi.fn(), null, listed2);
+    const id2 = (sent[2] as { id: number }).id;
+    const listed = (id: number): FromWorker => ({ type: 'listed', id, windows: [], gridMs: 1, windowsMs: 1, startedAt: 0, sentAt: 0 });
+    // the first job finished before the cancel reached it: its windows are not shown
+    w.emit(listed(id1));
+    expect(listed1).not.toHaveBeenCalled();
+    w.emit({ type: 'cancelled', id: id1 });
+    await expect(p1).resolves.toBeNull();
+    w.emit(listed(id2));
+    expect(listed2).toHaveBeenCalledWith(listed(id2));
+    w.emit({ type: 'cancelled', id: id2 });
+    await expect(p2).resolves.toBeNull();
   });
 
   it('shares a job between two workers: the leader gets the job and a port, the helper the other end and the far end of the grid; a cancel reaches both', async () => {
