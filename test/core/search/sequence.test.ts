@@ -94,10 +94,11 @@ describe('searchSequence', () => {
     const r = searchSequence(system(), REQ);
     expect(r.solutions.length).toBeGreaterThan(0);
     const best = r.solutions[0];
-    // the reported total is the independent cost at the reported times (same model, separate code);
-    // 1e-6 relative: Lambert's own tolerance (1e-11) carried through v∞ differences
+    // the reported total is the independent cost at the reported times (same model and Lambert
+    // solver, separate states and burn formulas): they agree to ~1e-12 m/s; 1e-9 relative leaves
+    // room for the ephemeris's Kepler solve against the closed-form circular positions here
     const again = chainCost(best.depart, best.legs[0].tof, best.legs[1].tof);
-    expect(Math.abs(again - best.dvTotal)).toBeLessThan(1e-6 * best.dvTotal);
+    expect(Math.abs(again - best.dvTotal)).toBeLessThan(1e-9 * best.dvTotal);
     expect(best.dvTotal).toBeCloseTo(best.dvDepart + best.dvFlybys + best.dvCapture, 6);
     expect(best.flybys[0].dvPeriapsis).toBe(0);
     // brute force: 100 × 80 × 80 cells over the same box
@@ -137,8 +138,8 @@ describe('searchSequence', () => {
     const s = system();
     const up = searchSequence(s, REQ).solutions[0].dvTotal;
     const pw = searchSequence(s, { ...REQ, powered: true }).solutions[0];
-    // 1 m/s: the two searches refine separately
-    expect(pw.dvTotal).toBeLessThanOrEqual(up + 1);
+    // 1e-3 m/s: the two searches refine separately, each stopping at the simplex's f-spread of 1e-3 m/s
+    expect(pw.dvTotal).toBeLessThanOrEqual(up + 1e-3);
     const f = pw.flybys[0];
     expect(f.periapsisAltitude).toBeGreaterThanOrEqual(SAFE - 1e-6);
     expect(f.dv).toBeCloseTo(f.dvPeriapsis + f.dvExtra, 9);
