@@ -18,6 +18,9 @@
  *   an SOI change, an altitude or a node; "until" conditions are looked for on every conic flown
  *   (the first occurrence ends the coast).
  * - stage: drops the active stage.
+ * - flyby: a marker; at the end the pass of its body nearest it is reported (flybyReport.ts) in
+ *   `flybys` and the budget's `flybys` (free Δv beside the burns), with a 'flyby-low' warning when
+ *   the periapsis is below the body's safe altitude and 'flyby-missed' when there was no pass.
  * The plan ends at the last event, or later at `plan.end`. An impact ends the flight there.
  *
  * Trajectory events: start, burn (impulsive; finite burns also burn-start/burn-end), stage,
@@ -45,7 +48,7 @@ import { summarizeBudget } from '../plan/index.ts';
 import { checkPlan } from '../plan/index.ts';
 import { flyFiniteBurn } from './finiteBurn.ts';
 import type { BurnEvent, CoastUntil, Plan } from '../plan/index.ts';
-import type { BudgetRow, Flag, PlanResult, TargetReport, TrajectoryEvent, TrajectoryEventKind, TrajectorySegment } from '../plan/index.ts';
+import type { BudgetRow, FlybyReport, Flag, PlanResult, TargetReport, TrajectoryEvent, TrajectoryEventKind, TrajectorySegment } from '../plan/index.ts';
 import { sampleConic } from './sampleConic.ts';
 import {
   CIRCULAR_E,
@@ -61,6 +64,7 @@ import {
   type EntryResult,
 } from './soiCrossing.ts';
 import { solveBurn } from './solveBurn.ts';
+import { flybyReport, type FlybyMark } from './flybyReport.ts';
 import { createBurnBook, createVehicleState, deltaVLeft, dropStage, spendBurn, type BurnBook, type VehicleState } from '../plan/index.ts';
 
 export interface EvaluateOptions {
@@ -151,6 +155,7 @@ class Flight {
   readonly rows: BudgetRow[] = [];
   readonly target: number;
   ca = { t: Infinity, distance: Infinity };
+  readonly flybyMarks: FlybyMark[] = [];
   tLimit = Infinity;
   t0 = 0;
 
@@ -172,6 +177,7 @@ class Flight {
       if (this.ended) return;
       if (ev.type === 'coast') this.coast(ev.until, ev.id, `events[${k}]`);
       else if (ev.type === 'stage') this.stage(ev.id, ev.name);
+      else if (ev.type === 'flyby') this.flybyMarks.push({ id: ev.id, name: ev.name, body: findBodyIndex(this.system, ev.body), t: this.t });
       else this.burn(ev, `events[${k}]`);
     });
     if (!this.ended && plan.end !== null && plan.end > this.t) this.coast({ kind: 'time', t: plan.end }, null, 'end');
@@ -729,6 +735,29 @@ class Flight {
     const capacity = deltaVLeft(vehicle);
     const { budget, flags } = summarizeBudget(this.rows, { capacity, dvLeft: deltaVLeft(vehicle, this.vs), finalMass: this.vs.mass }, plan.reserve);
     for (const f of flags) this.flags.push(f);
+    let flybys: FlybyReport[] | undefined;
+    if (this.flybyMarks.length > 0) {
+      flybys = [];
+      budget.flybys = [];
+      for (const m of this.flybyMarks) {
+        const b = this.bodies[m.body];
+        const rep = flybyReport(this.system, m, this.segments, this.events, this.rows);
+        if (!rep) {
+          this.flag('flyby-missed', 'warning', `${m.name}: the ship does not pass through ${b.name}'s sphere of influence`, m.id);
+          continue;
+        }
+        flybys.push(rep);
+        budget.flybys.push({ planEventId: m.id, name: m.name, freeDv: rep.freeDv });
+        if (rep.periapsisAltitude < b.safeAlt) {
+          this.flag(
+            'flyby-low',
+            'warning',
+            `${m.name}: periapsis ${km(rep.periapsisAltitude)} above ${b.name} is below its minimum safe altitude (${km(b.safeAlt)})`,
+            m.id,
+          );
+        }
+      }
+    }
     let target: TargetReport | null = null;
     if (plan.target) {
       const tg = plan.target;
@@ -788,6 +817,7 @@ class Flight {
       budget,
       target,
       flags: this.flags,
+      ...(flybys ? { flybys } : {}),
       model: 'conic',
     };
   }

@@ -16,6 +16,14 @@
  *   from memory), on the side that makes the arrival orbit prograde about +z, and B is corrected
  *   by Newton steps until the patched-conic periapsis at the target matches (|Δr_p| < 1 m,
  *   at most TRANSFER_AIM_ITERATIONS steps; the last aim is kept if it has not converged).
+ * - transfer, direct with `flyby` (the target is a flyby body): the outgoing leg is the Lambert
+ *   arc from the target (at the predicted periapsis time) to `next` at `flyby.arrive`; its v∞ and
+ *   the incoming v∞ give the powered flyby (core/orbit/flyby.ts poweredFlyby: periapsis radius,
+ *   no lower than radius + safe altitude, and B-plane angle θ). The aim point is the target's
+ *   centre plus B·(cos θ T + sin θ R), B = r_p·√(1 + 2μ/(r_p·v∞²)) (BMW §7.4, from memory);
+ *   the patched-conic B vector got at the SOI entry (Ŝ × h / v∞, Vallado 4th ed. §12.4, from
+ *   memory) is driven to the wanted one by fixed-point steps on the aim (the aim offset maps
+ *   nearly one to one onto B), until |ΔB| < TRANSFER_AIM_TOL or TRANSFER_AIM_ITERATIONS.
  * - capture: along ±V at the current point, the speed that gives eccentricity e; at periapsis
  *   the periapsis stays put (vis-viva: v = √(μ(1 + e)/r_p)). Away from periapsis, of the two
  *   speeds that give e the one nearer the current speed is taken.
@@ -30,7 +38,7 @@
  */
 import { SolverError } from '../math/index.ts';
 import { brent } from '../math/index.ts';
-import { propagateKepler } from '../orbit/index.ts';
+import { poweredFlyby, propagateKepler } from '../orbit/index.ts';
 import { solveLambert, type LambertSolution } from '../orbit/index.ts';
 import { bodyPosition, bodyState } from '../system/index.ts';
 import { findBodyIndex, type StarSystem } from '../system/index.ts';
@@ -61,6 +69,28 @@ export interface SolveInfo {
   predictedPeriapsis: number | null;
   /** transfer, direct with periapsisAltitude: aim iterations used. */
   iterations: number;
+  /** transfer, direct with flyby: the pass the aim solved for (patched conics), else null/absent. */
+  flyby?: FlybyAim | null;
+}
+
+/** The flyby an aimed transfer solved for (patched conics at the flyby body). */
+export interface FlybyAim {
+  /** Periapsis radius wanted (powered-flyby solution) and predicted (the aim's incoming hyperbola), m. */
+  rpWanted: number;
+  rpPredicted: number;
+  /** Predicted periapsis time, s from epoch. */
+  tPeriapsis: number;
+  /** B-plane angle θ (T → R), rad, and |B| wanted, m. */
+  bAngle: number;
+  b: number;
+  /** v∞ in (predicted) and the v∞ out the next leg needs, m/s. */
+  vInfIn: [number, number, number];
+  vInfOut: [number, number, number];
+  /** Δv at periapsis of the powered flyby, m/s; the periapsis was held at the minimum (limited). */
+  dvPeriapsis: number;
+  limited: boolean;
+  /** |ΔB| left at the end, m. */
+  bError: number;
 }
 
 function fail(detail: string, inputs: Record<string, unknown> = {}): never {
@@ -121,6 +151,7 @@ export function solveTransfer(ctx: SolveContext, solve: Extract<BurnSolve, { kin
     info.vInf = null;
     info.predictedPeriapsis = null;
     info.iterations = 0;
+    info.flyby = null;
   }
   if (tb.parentIndex === central) {
     // direct: Lambert from the ship's own position in this SOI
@@ -139,7 +170,9 @@ export function solveTransfer(ctx: SolveContext, solve: Extract<BurnSolve, { kin
       return s;
     };
     let sol = lambert([tgt6[0], tgt6[1], tgt6[2]]);
-    if (solve.periapsisAltitude !== undefined) {
+    if (solve.flyby !== undefined) {
+      sol = aimForFlyby(ctx, target, tof, solve.flyby, sol, lambert, info);
+    } else if (solve.periapsisAltitude !== undefined) {
       sol = aimForPeriapsis(ctx, target, tof, tb.radius + solve.periapsisAltitude, sol, lambert, info);
     } else if (info) {
       info.vInf = [sol.v2[0] - tgt6[3], sol.v2[1] - tgt6[4], sol.v2[2] - tgt6[5]];
@@ -247,20 +280,12 @@ function aimForPeriapsis(
 }
 
 /**
- * Periapsis radius about the target of the arc (ship state at ctx.t with velocity sol.v1),
- * patched at the target's SOI surface: the entry is found by Brent on the distance before the
- * arrival time (the arc ends at the aim point, inside the SOI). NaN when no entry is found.
+ * SOI entry of the arc (ship state at ctx.t with velocity sol.v1) at the target: the entry is
+ * found by Brent on the distance before the arrival time (the arc ends at the aim point, inside
+ * the SOI); the state relative to the target at the entry is left in `aimRel`. Returns the entry
+ * time, or NaN when no entry is found.
  */
-function predictedPeriapsis(
-  ctx: SolveContext,
-  target: number,
-  sol: LambertSolution,
-  muC: number,
-  Rsoi: number,
-  arrive: number,
-  muT: number,
-  vinf: number,
-): number {
+function predictedEntry(ctx: SolveContext, target: number, sol: LambertSolution, muC: number, Rsoi: number, arrive: number, vinf: number): number {
   const { system, t, state } = ctx;
   aimShip[0] = state[0];
   aimShip[1] = state[1];
@@ -293,9 +318,148 @@ function predictedPeriapsis(
   propagateKepler(muC, aimShip, te - t, aimRel);
   bodyState(system, target, te, aimTgt, ctx.central);
   for (let i = 0; i < 6; i++) aimRel[i] -= aimTgt[i];
+  return te;
+}
+
+/** Periapsis radius about the target of the arc, patched at the SOI entry (NaN when none). */
+function predictedPeriapsis(
+  ctx: SolveContext,
+  target: number,
+  sol: LambertSolution,
+  muC: number,
+  Rsoi: number,
+  arrive: number,
+  muT: number,
+  vinf: number,
+): number {
+  if (!Number.isFinite(predictedEntry(ctx, target, sol, muC, Rsoi, arrive, vinf))) return NaN;
   const c = conicInfo(muT, aimRel, ci);
   if (!(c.rv < 0)) return NaN;
   return c.rp;
+}
+
+const fbBody6 = new Float64Array(6);
+const fbNext3 = new Float64Array(3);
+
+/** Fixed-point iteration of a flyby aim (see the module comment). */
+function aimForFlyby(
+  ctx: SolveContext,
+  target: number,
+  tof: number,
+  flyby: { next: string; arrive: number },
+  centreSol: LambertSolution,
+  lambert: (aim: ArrayLike<number>) => LambertSolution,
+  info?: SolveInfo,
+): LambertSolution {
+  const { system, central, t } = ctx;
+  const tb = system.bodies[target];
+  const muT = tb.mu;
+  const Rsoi = tb.derived.soiRadius;
+  const muC = system.bodies[central].mu;
+  const arrive = t + tof;
+  const next = findBodyIndex(system, flyby.next);
+  if (next < 0) fail(`unknown body after the flyby "${flyby.next}"`);
+  if (system.bodies[next].parentIndex !== central || next === target) {
+    fail(`the body after the flyby (${system.bodies[next].name}) must orbit ${system.bodies[central].name} like ${tb.name}`);
+  }
+  const rpMin = tb.radius + tb.safeAlt;
+  const ax = [0, 0, 0];
+  let sol = centreSol;
+  let iter = 0;
+  let result: FlybyAim | null = null;
+  const vin = [0, 0, 0];
+  const vout = [0, 0, 0];
+  for (;;) {
+    const vinfGuess = Math.hypot(sol.v2[0] - tgt6[3], sol.v2[1] - tgt6[4], sol.v2[2] - tgt6[5]);
+    const te = predictedEntry(ctx, target, sol, muC, Rsoi, arrive, vinfGuess);
+    if (!Number.isFinite(te)) fail(`the arc aimed at ${tb.name} does not enter its sphere of influence`);
+    const c = conicInfo(muT, aimRel, ci);
+    if (!(c.e > 1) || !(c.rv < 0)) fail(`the approach to ${tb.name} is not an incoming hyperbola`);
+    const vinf = Math.sqrt(-muT * c.alpha);
+    const e = c.e;
+    const sq = Math.sqrt(e * e - 1) / e;
+    // incoming asymptote Ŝ = P/e + √(e² − 1)/e·Q
+    const Sx = c.P[0] / e + sq * c.Q[0],
+      Sy = c.P[1] / e + sq * c.Q[1],
+      Sz = c.P[2] / e + sq * c.Q[2];
+    vin[0] = vinf * Sx;
+    vin[1] = vinf * Sy;
+    vin[2] = vinf * Sz;
+    const tp = te - c.M / c.n;
+    // the next leg: Lambert from the flyby body at the periapsis time to `next`
+    bodyState(system, target, tp, fbBody6, central);
+    bodyPosition(system, next, flyby.arrive, fbNext3, central);
+    if (!(flyby.arrive > tp)) fail(`the arrival at ${system.bodies[next].name} is not after the flyby`);
+    let sols: LambertSolution[];
+    try {
+      sols = solveLambert(muC, [fbBody6[0], fbBody6[1], fbBody6[2]], fbNext3, flyby.arrive - tp, { revs: 0 });
+    } catch (err) {
+      fail(`Lambert arc from ${tb.name} to ${system.bodies[next].name} not found: ${(err as Error).message}`);
+    }
+    const out = pickLambert(sols, 0, fbBody6[3], fbBody6[4], fbBody6[5]);
+    if (!out) fail(`no Lambert arc from ${tb.name} to ${system.bodies[next].name}`);
+    vout[0] = out.v1[0] - fbBody6[3];
+    vout[1] = out.v1[1] - fbBody6[4];
+    vout[2] = out.v1[2] - fbBody6[5];
+    const pf = poweredFlyby(muT, vin, vout, rpMin);
+    if (!Number.isFinite(pf.rp)) fail(`no turn is needed at ${tb.name}: aim a direct transfer instead`);
+    // wanted B on T = Ŝ × ẑ normalised, R = Ŝ × T
+    let Tx = Sy,
+      Ty = -Sx;
+    let Tz = 0;
+    const tn = Math.hypot(Tx, Ty);
+    if (tn > 1e-12) {
+      Tx /= tn;
+      Ty /= tn;
+    } else {
+      Tx = 1;
+      Ty = 0;
+      Tz = 0;
+    }
+    const Rx = Sy * Tz - Sz * Ty,
+      Ry = Sz * Tx - Sx * Tz,
+      Rz = Sx * Ty - Sy * Tx;
+    const Bw = pf.rp * Math.sqrt(1 + (2 * muT) / (pf.rp * vinf * vinf));
+    const cb = Math.cos(pf.bAngle),
+      sb = Math.sin(pf.bAngle);
+    const bwx = Bw * (cb * Tx + sb * Rx),
+      bwy = Bw * (cb * Ty + sb * Ry),
+      bwz = Bw * (cb * Tz + sb * Rz);
+    // got: B = Ŝ × h / v∞
+    const bgx = (Sy * c.hz - Sz * c.hy) / vinf,
+      bgy = (Sz * c.hx - Sx * c.hz) / vinf,
+      bgz = (Sx * c.hy - Sy * c.hx) / vinf;
+    const dx = bwx - bgx,
+      dy = bwy - bgy,
+      dz = bwz - bgz;
+    const bErr = Math.hypot(dx, dy, dz);
+    result = {
+      rpWanted: pf.rp,
+      rpPredicted: c.rp,
+      tPeriapsis: tp,
+      bAngle: pf.bAngle,
+      b: Bw,
+      vInfIn: [vin[0], vin[1], vin[2]],
+      vInfOut: [vout[0], vout[1], vout[2]],
+      dvPeriapsis: pf.dvPeriapsis,
+      limited: pf.limited,
+      bError: bErr,
+    };
+    iter++;
+    if (bErr < TRANSFER_AIM_TOL || iter >= TRANSFER_AIM_ITERATIONS) break;
+    ax[0] += dx;
+    ax[1] += dy;
+    ax[2] += dz;
+    if (!(Math.hypot(ax[0], ax[1], ax[2]) < Rsoi)) fail(`the flyby aim point lies outside ${tb.name}'s sphere of influence`);
+    sol = lambert([tgt6[0] + ax[0], tgt6[1] + ax[1], tgt6[2] + ax[2]]);
+  }
+  if (info) {
+    info.vInf = [sol.v2[0] - tgt6[3], sol.v2[1] - tgt6[4], sol.v2[2] - tgt6[5]];
+    info.predictedPeriapsis = result.rpPredicted;
+    info.iterations = iter;
+    info.flyby = result;
+  }
+  return sol;
 }
 
 /**

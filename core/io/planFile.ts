@@ -363,6 +363,7 @@ function solveFromDocument(s: SolveDocument | undefined): BurnSolve {
       if (s.revs !== undefined) out.revs = s.revs;
       if (s.retrograde !== undefined) out.retrograde = s.retrograde;
       if (s.periapsis_altitude_m !== undefined) out.periapsisAltitude = s.periapsis_altitude_m;
+      if (s.flyby !== undefined) out.flyby = { next: s.flyby.next, arrive: s.flyby.arrive_s };
       return out;
     }
     case 'capture':
@@ -410,6 +411,8 @@ function eventFromDocument(ev: EventDocument): PlanEvent {
       return { type: 'coast', id: ev.id, name: ev.name, until: untilFromDocument(ev.until) };
     case 'stage':
       return { type: 'stage', id: ev.id, name: ev.name };
+    case 'flyby':
+      return { type: 'flyby', id: ev.id, name: ev.name, body: ev.body };
   }
 }
 
@@ -515,6 +518,7 @@ function solveToDocument(s: BurnSolve): SolveDocument {
       if (s.revs !== undefined) out.revs = s.revs;
       if (s.retrograde !== undefined) out.retrograde = s.retrograde;
       if (s.periapsisAltitude !== undefined) out.periapsis_altitude_m = s.periapsisAltitude;
+      if (s.flyby !== undefined) out.flyby = { next: s.flyby.next, arrive_s: s.flyby.arrive };
       return out;
     }
     case 'capture':
@@ -564,6 +568,8 @@ function eventToDocument(ev: PlanEvent): EventDocument {
       return { type: 'coast', id: ev.id, name: ev.name, until: untilToDocument(ev.until) };
     case 'stage':
       return { type: 'stage', id: ev.id, name: ev.name };
+    case 'flyby':
+      return { type: 'flyby', id: ev.id, name: ev.name, body: ev.body };
   }
 }
 

@@ -126,6 +126,16 @@ const solve = z
               "Direct transfers only (the target orbits the ship's central body, e.g. a mid-course correction): aim off the target's centre so that the arrival hyperbola's periapsis is at this altitude above the target's mean radius, m. Absent: aim at the centre.",
           })
           .optional(),
+        flyby: z
+          .strictObject({
+            next: bodyId.meta({ description: 'Id of the body the leg after the flyby reaches.' }),
+            arrive_s: time.meta({ description: 'Arrival time at that body, s from the system epoch.' }),
+          })
+          .meta({
+            description:
+              "Direct transfers only: the target is a flyby body; aim off its centre so that the hyperbola's outgoing asymptote matches the Lambert leg to `next` arriving at `arrive_s` (periapsis and B-plane angle solved; not with periapsis_altitude_m).",
+          })
+          .optional(),
       })
       .meta({ description: 'Lambert transfer to a body.' }),
     z
@@ -272,9 +282,13 @@ const stageEvent = z
   .strictObject({ type: z.literal('stage'), id: eventId, name: eventName })
   .meta({ description: 'Drop the active stage now (its remaining propellant is lost).' });
 
-const event = z.discriminatedUnion('type', [burnEvent, coastEvent, stageEvent]).meta({
+const flybyEvent = z
+  .strictObject({ type: z.literal('flyby'), id: eventId, name: eventName, body: bodyId.meta({ description: 'Id of the body passed.' }) })
+  .meta({ description: 'Marks a flyby of a body: nothing is flown; the result reports the pass (periapsis, v∞ in and out, turn, B-plane, free Δv).' });
+
+const event = z.discriminatedUnion('type', [burnEvent, coastEvent, stageEvent, flybyEvent]).meta({
   id: 'event',
-  description: 'One event of the plan, flown in order: a "burn", a "coast" or a "stage" (drop the active stage).',
+  description: 'One event of the plan, flown in order: a "burn", a "coast", a "stage" (drop the active stage) or a "flyby" (a marker reported from the pass).',
 });
 
 const target = z

@@ -108,6 +108,15 @@ export function checkPlan(system: StarSystem, plan: Plan): void {
           if (sv.retrograde !== undefined && typeof sv.retrograde !== 'boolean')
             throw new InputError(`${p}.solve.retrograde`, 'must be a boolean', sv.retrograde);
           if (sv.periapsisAltitude !== undefined) altitude(system, tk, `${p}.solve.periapsisAltitude`, sv.periapsisAltitude);
+          if (sv.flyby !== undefined) {
+            obj(`${p}.solve.flyby`, sv.flyby);
+            const nk = bodyId(system, `${p}.solve.flyby.next`, sv.flyby.next);
+            if (nk === tk || nk === 0) throw new InputError(`${p}.solve.flyby.next`, 'must name a body other than the flyby body and the star', sv.flyby.next);
+            requireFinite(`${p}.solve.flyby.arrive`, sv.flyby.arrive);
+            if (!(sv.flyby.arrive > sv.arrive)) throw new InputError(`${p}.solve.flyby.arrive`, 'must be after the flyby (solve.arrive)', sv.flyby.arrive);
+            if (sv.periapsisAltitude !== undefined)
+              throw new InputError(`${p}.solve.periapsisAltitude`, 'must be omitted with flyby (the periapsis is solved)', sv.periapsisAltitude);
+          }
           break;
         }
         case 'capture':
@@ -149,8 +158,10 @@ export function checkPlan(system: StarSystem, plan: Plan): void {
         default:
           throw new InputError(`${p}.until.kind`, 'must be a known coast condition', (u as { kind: unknown }).kind);
       }
+    } else if (ev.type === 'flyby') {
+      bodyId(system, `${p}.body`, ev.body);
     } else if (ev.type !== 'stage') {
-      throw new InputError(`${p}.type`, "must be 'burn', 'coast' or 'stage'", (ev as { type: unknown }).type);
+      throw new InputError(`${p}.type`, "must be 'burn', 'coast', 'stage' or 'flyby'", (ev as { type: unknown }).type);
     }
   });
   if (plan.target !== null) {

@@ -18,10 +18,11 @@ export type {
   ReservePolicy,
   Stage,
   StageEvent,
+  FlybyEvent,
   TruthModel,
   Vehicle,
 } from './plan.ts';
-export type { Budget, BudgetRow, Flag, PlanResult, TargetReport, TrajectoryEvent, TrajectoryEventKind, TrajectorySegment } from './result.ts';
+export type { Budget, BudgetRow, FlybyReport, Flag, PlanResult, TargetReport, TrajectoryEvent, TrajectoryEventKind, TrajectorySegment } from './result.ts';
 export { G0, burnDuration, propellantForDeltaV, rocketDeltaV } from './rocket.ts';
 export { TRUTH_MODELS, planTruthModel, truthModelLabel } from './truthModel.ts';
 export {

@@ -91,6 +91,14 @@ export type BurnSolve =
        * altitude above the target's mean radius, m. Omitted: aim at the centre.
        */
       periapsisAltitude?: number;
+      /**
+       * Direct transfers only: the target is a flyby body. The arc aims off its centre so that the
+       * patched-conic hyperbola's outgoing asymptote matches the Lambert leg from the target (at the
+       * periapsis time) to `next` arriving at `arrive` (s from epoch): periapsis radius and B-plane
+       * angle of a powered flyby (no lower than the target's radius + safe altitude). Excludes
+       * `periapsisAltitude`.
+       */
+      flyby?: { next: string; arrive: number };
     }
   | { kind: 'capture'; e: number }
   | { kind: 'plane'; i: number }
@@ -146,7 +154,20 @@ export interface StageEvent {
   name: string;
 }
 
-export type PlanEvent = BurnEvent | CoastEvent | StageEvent;
+/**
+ * Marks the pass of a flyby body: nothing is flown; the evaluation reports the pass (periapsis,
+ * v∞ in and out, turn, B-plane, the free heliocentric Δv) from the ship's stay in the body's
+ * sphere of influence nearest this point of the plan.
+ */
+export interface FlybyEvent {
+  type: 'flyby';
+  id: string;
+  name: string;
+  /** Body id passed. */
+  body: string;
+}
+
+export type PlanEvent = BurnEvent | CoastEvent | StageEvent | FlybyEvent;
 
 /** The orbit the plan must end in. */
 export interface PlanTarget {

@@ -77,7 +77,11 @@ export type FlagCode =
   /** A 'stage' event found no stage left to drop. */
   | 'no-stage-left'
   /** A coast condition was not met within the evaluation's maxDuration (the coast stopped there). */
-  | 'condition-not-met';
+  | 'condition-not-met'
+  /** A flyby's periapsis lies below the body's minimum safe altitude. */
+  | 'flyby-low'
+  /** A flyby marker found no pass of its body (the ship never entered its sphere of influence). */
+  | 'flyby-missed';
 
 export interface Flag {
   code: FlagCode;
@@ -138,6 +142,39 @@ export interface Budget {
    * row number from 1. While any is listed the margin is not valid: the plan does not hold.
    */
   failedBurns: { planEventId: string; name: string; row: number }[];
+  /**
+   * Flybys beside the burns: the free heliocentric Δv |v∞ out − v∞ in| of each pass (not spent,
+   * not in `total`); null when the ship did not leave the body. Absent when the plan has none.
+   */
+  flybys?: { planEventId: string; name: string; freeDv: number | null }[];
+}
+
+/** What a flyby plan event reports (core/conic/flybyReport.ts). SI units, rad. */
+export interface FlybyReport {
+  planEventId: string;
+  name: string;
+  /** Body index passed. */
+  body: number;
+  /** SOI entry and exit times (exit null when the ship did not leave), s. */
+  tEntry: number;
+  tExit: number | null;
+  /** Periapsis of the incoming hyperbola: time, radius and altitude above the mean radius. */
+  tPeriapsis: number;
+  periapsisRadius: number;
+  periapsisAltitude: number;
+  /** v∞ in (incoming asymptote) and out (outgoing asymptote of the last conic inside), m/s. */
+  vInfIn: [number, number, number];
+  vInfOut: [number, number, number] | null;
+  /** Angle between v∞ in and out, rad (null without v∞ out). */
+  turn: number | null;
+  /** B-plane of the incoming hyperbola: B·T, B·R (m), θ = atan2(B·R, B·T) (rad). */
+  bT: number;
+  bR: number;
+  bAngle: number;
+  /** |v∞ out − v∞ in|, m/s: the heliocentric Δv of the pass (null without v∞ out). */
+  freeDv: number | null;
+  /** Δv burned inside the sphere during the pass, m/s. */
+  dvBurned: number;
 }
 
 /** How the final orbit compares with the plan's target. */
@@ -160,6 +197,8 @@ export interface PlanResult {
   budget: Budget;
   target: TargetReport | null;
   flags: Flag[];
+  /** Flyby plan events, in plan order (absent when the plan has none). */
+  flybys?: FlybyReport[];
   /** Model used: patched conics. */
   model: 'conic';
 }

@@ -71,7 +71,7 @@ export function scheduleActions(plan: Plan, t0: number): { actions: NBodyAction[
     } else if (ev.type === 'coast') {
       if (ev.until.kind === 'time') t = Math.max(t, ev.until.t);
       else if (ev.until.kind === 'duration') t += ev.until.dt;
-    } else {
+    } else if (ev.type === 'burn') {
       const tb = ev.t ?? t;
       const mag = Math.hypot(ev.dv[0], ev.dv[1], ev.dv[2]);
       spendBurn(vehicle, vs, mag, book);

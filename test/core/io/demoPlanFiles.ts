@@ -10,6 +10,8 @@ import { serializePlanFile, type PlanSystemRef } from '../../../core/io/planFile
 import type { Plan } from '../../../core/plan/plan.ts';
 import { demoPlan, heavyDemoPlan } from '../../fixtures/demoPlan.ts';
 import { skerryPlan } from '../../fixtures/skerryPlan.ts';
+import { flybyPlan } from '../../fixtures/flybyPlan.ts';
+import { demoSystem } from '../plan/helpers.ts';
 
 export const DEMO_SYSTEM_REF: PlanSystemRef = { kind: 'path', path: '../systems/ilmar.system.json' };
 
@@ -17,6 +19,7 @@ export const DEMO_PLAN_FILES: { file: string; plan: Plan }[] = [
   { file: 'tessel-to-ochre.plan.json', plan: demoPlan },
   { file: 'tessel-to-ochre-heavy.plan.json', plan: heavyDemoPlan },
   { file: 'tessel-to-skerry.plan.json', plan: skerryPlan() },
+  { file: 'tessel-moravel-fennick.plan.json', plan: flybyPlan(demoSystem()) },
 ];
 
 export const PLANS_DIR = new URL('../../../assets/plans/', import.meta.url);

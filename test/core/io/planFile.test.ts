@@ -345,7 +345,7 @@ const BAD_FILES: { name: string; text: () => string; expected: string[] }[] = [
   {
     name: 'more staging than stages',
     text: () => edited((d) => d.events.push({ type: 'stage', id: 's2', name: 'x' }, { type: 'stage', id: 's3', name: 'y' })),
-    expected: ['events[14]: drops a stage but none is left (the vehicle has 2 stages)'],
+    expected: ['events[16]: drops a stage but none is left (the vehicle has 2 stages)'],
   },
   {
     name: 'vehicle without mass',

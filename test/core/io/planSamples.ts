@@ -81,6 +81,18 @@ export function samplePlan(): Plan {
       },
       { type: 'coast', id: 'low', name: 'Wait for low pass', until: { kind: 'altitude', altitude: 390000 } },
       { type: 'coast', id: 'settle', name: 'Settle', until: { kind: 'duration', dt: 7200 } },
+      {
+        type: 'burn',
+        id: 'flyby-aim',
+        name: 'Flyby aim',
+        t: null,
+        frame: 'vnb',
+        dv: [0, 0, 0],
+        solve: { kind: 'transfer', to: 'moravel', arrive: 4.5e7, flyby: { next: 'ochre', arrive: 5.1e7 } },
+        mode: 'impulsive',
+        pointing: 'velocity',
+      },
+      { type: 'flyby', id: 'moravel-pass', name: 'Moravel pass', body: 'moravel' },
     ],
     target: {
       body: 'ochre',
