@@ -4,15 +4,15 @@
  * departures (one synodic period of Tessel and Moravel from the plan's epoch): the search runs in
  * the analysis worker, the list of solutions is the core's answer for the same request (computed
  * here), the chart draws one mark per solution and the direct transfer's line, a picked
- * solution shows its legs and the Moravel flyby. A longer search is cancelled. Screenshots at
- * 1024×640 and 1920×1080 go to test/output/e2e/. Waits are hang guards only.
+ * solution shows its legs and the Moravel flyby, and the System view draws its legs. A search
+ * is cancelled. Screenshots at 1024×640 and 1920×1080 go to test/output/e2e/. Waits are hang
+ * guards only.
  */
 import { readFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parsePlanFile, parseSystemFile } from '../../core/io/index.ts';
 import { searchSequence } from '../../core/search/index.ts';
-import { formatCompactDate } from '../../core/system/index.ts';
 import { chainChanged, initialSequenceForm, sequenceRequest } from '../../app/renderer/windows/sequenceForm.ts';
 import { HANG_GUARD_MS, OUT, buildApp, requireChromium, startApp, type E2eApp } from './harness.ts';
 
@@ -105,22 +105,29 @@ describe.skipIf(!have)('sequence search in the Windows screen (e2e)', () => {
     await page.setViewportSize({ width: 1024, height: 640 });
   });
 
-  it('Cancel stops a longer search: the worker is stopped, the last answer stays', async () => {
-    const before = await page.locator('[data-testid=sequence-list] tr[data-solution]').count();
-    // ten synodic periods of departures: ten times the work of the search above
-    const to = page.locator('[data-path="seq.departEnd"]');
-    const start = form0();
-    const end = start.departStart + 10 * (start.departEnd - start.departStart);
-    await to.fill(formatCompactDate(system.calendar, end, { seconds: false }));
-    // leaving the field commits it (Enter would also submit the form, starting the search at once)
-    await to.press('Tab');
-    await page.click('[data-testid=seq-search]');
-    const cancel = page.locator('[data-testid=seq-cancel]');
-    await cancel.waitFor({ timeout: HANG_GUARD_MS });
-    await cancel.click();
+  it("the System view draws the picked solution's legs as Lambert arcs", async () => {
+    await page.click('[data-tab=system]');
+    await expect.poll(() => page.evaluate('window.waymarkDebug.scene.sequenceLines()'), { timeout: HANG_GUARD_MS }).toBe(CHAIN.length - 1);
+    await page.waitForTimeout(150); // one frame for the scene to paint
+    await page.screenshot({ path: `${OUT}sequence-system-view.png` });
+    await page.click('[data-tab=windows]');
+  });
+
+  it('Cancel stops a search: the worker is stopped, the last answer stays', async () => {
+    const rows = () => page.$$eval('[data-testid=sequence-list] tr[data-solution]', (r) => r.map((e) => e.getAttribute('data-dv')));
+    const before = await rows();
+    // Search, then Cancel as soon as it shows (the next task: the search takes far longer than that)
+    const shown = await page.evaluate(async () => {
+      (document.querySelector('[data-testid=seq-search]') as HTMLButtonElement).click();
+      await new Promise((r) => setTimeout(r, 0));
+      const cancel = document.querySelector<HTMLButtonElement>('[data-testid=seq-cancel]');
+      cancel?.click();
+      return cancel !== null;
+    });
+    expect(shown).toBe(true);
     await page.waitForSelector('[data-testid=seq-search]:not([disabled])', { timeout: HANG_GUARD_MS });
     expect(await page.textContent('[data-testid=seq-message]')).toBe('Cancelled.');
-    expect(await page.locator('[data-testid=sequence-list] tr[data-solution]').count()).toBe(before);
+    expect(await rows()).toEqual(before);
     expect(errors).toEqual([]);
   });
 });

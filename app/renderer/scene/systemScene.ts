@@ -144,6 +144,8 @@ class SharedDrawing {
   readonly truthLine = new THREE.LineBasicMaterial({ color: PALETTE.path });
   /** A path shown as the comparison (the patched-conic flight beside the truth model's): faint. */
   readonly comparison = new THREE.LineBasicMaterial({ color: PALETTE.muted, transparent: true, opacity: 0.45 });
+  /** The legs of the sequence solution picked in the Windows screen (Lambert arcs): amber dashes. */
+  readonly sequenceLine = new THREE.LineDashedMaterial({ color: PALETTE.warn, dashSize: 1, gapSize: 0.5 });
   /** The game-step check's flight (dashes in units of its own length, see setGameStep) and its reference. */
   readonly gameLine = new THREE.LineDashedMaterial({ color: GAME_STYLE.game, dashSize: 0.6, gapSize: 0.4 });
   readonly gameReference = new THREE.LineBasicMaterial({ color: GAME_STYLE.reference, transparent: true, opacity: 0.5 });
@@ -221,6 +223,7 @@ class SharedDrawing {
       this.nbody,
       this.truthLine,
       this.comparison,
+      this.sequenceLine,
       this.gameLine,
       this.gameReference,
       this.gameDots,
@@ -289,6 +292,9 @@ export class SystemScene {
   /** A patched-conic flight drawn as the comparison, per central body. */
   private comparisonRoot = new THREE.Group();
   private comparisonFrames = new Map<number, THREE.Group>();
+  /** The legs of the picked sequence solution, per central body. */
+  private sequenceRoot = new THREE.Group();
+  private sequenceFrames = new Map<number, THREE.Group>();
   /** The result's own path is drawn as the comparison (the truth model's path is the main one). */
   private resultIsComparison = false;
   private grid: THREE.Object3D | null = null;
@@ -344,7 +350,7 @@ export class SystemScene {
 
     this.scene.add(new THREE.AmbientLight(0xffffff, 0.22));
     this.scene.add(this.starLight);
-    this.scene.add(this.systemRoot, this.resultRoot, this.gameRoot, this.truthRoot, this.comparisonRoot);
+    this.scene.add(this.systemRoot, this.resultRoot, this.gameRoot, this.truthRoot, this.comparisonRoot, this.sequenceRoot);
 
     this.ship = new THREE.Mesh(new THREE.OctahedronGeometry(1, 0), new THREE.MeshBasicMaterial({ color: PALETTE.ship }));
     this.ship.visible = false;
@@ -681,6 +687,40 @@ export class SystemScene {
     this.requestRender();
   }
 
+  /**
+   * Draws (or, with null, removes) the legs of a sequence solution (windows/sequencePaths.ts):
+   * each leg's Lambert arc in its central body's frame, dashed in amber, dashes about 1 % of the
+   * legs' extent.
+   */
+  setSequence(paths: readonly { central: number; points: Float64Array }[] | null): void {
+    this.clearLines(this.sequenceRoot, this.sequenceFrames);
+    let extent = 0;
+    for (const p of paths ?? []) {
+      const f32 = new Float32Array(p.points.length);
+      for (let k = 0; k < f32.length; k++) f32[k] = p.points[k] * U;
+      const geo = new THREE.BufferGeometry();
+      geo.setAttribute('position', new THREE.BufferAttribute(f32, 3));
+      geo.computeBoundingSphere();
+      extent = Math.max(extent, geo.boundingSphere?.radius ?? 0);
+      const line = new THREE.Line(geo, this.shared.sequenceLine);
+      line.computeLineDistances();
+      line.userData.kind = 'sequence';
+      this.frameIn(this.sequenceRoot, this.sequenceFrames, p.central).add(line);
+    }
+    if (extent > 0) {
+      this.shared.sequenceLine.dashSize = extent * 0.01;
+      this.shared.sequenceLine.gapSize = extent * 0.006;
+    }
+    this.requestRender();
+  }
+
+  /** How many sequence legs are drawn (for tests). */
+  sequenceLines(): number {
+    let n = 0;
+    this.sequenceRoot.traverse((o) => void (o.userData.kind === 'sequence' && n++));
+    return n;
+  }
+
   /** Draws the result's own coasts as the comparison (faint) or as the plan's path. */
   setResultAsComparison(on: boolean): void {
     if (on === this.resultIsComparison) return;
@@ -1002,6 +1042,7 @@ export class SystemScene {
     for (const [c, g] of this.gameFrames) g.position.set((w[3 * c] - o[0]) * U, (w[3 * c + 1] - o[1]) * U, (w[3 * c + 2] - o[2]) * U);
     for (const [c, g] of this.truthFrames) g.position.set((w[3 * c] - o[0]) * U, (w[3 * c + 1] - o[1]) * U, (w[3 * c + 2] - o[2]) * U);
     for (const [c, g] of this.comparisonFrames) g.position.set((w[3 * c] - o[0]) * U, (w[3 * c + 1] - o[1]) * U, (w[3 * c + 2] - o[2]) * U);
+    for (const [c, g] of this.sequenceFrames) g.position.set((w[3 * c] - o[0]) * U, (w[3 * c + 1] - o[1]) * U, (w[3 * c + 2] - o[2]) * U);
     for (const m of this.markers) {
       m.group.position.copy(m.rel);
       const gp = this.frames.get(m.central)!.position;
@@ -1051,6 +1092,7 @@ export class SystemScene {
     this.setGameStep(null);
     this.clearLines(this.truthRoot, this.truthFrames);
     this.clearLines(this.comparisonRoot, this.comparisonFrames);
+    this.clearLines(this.sequenceRoot, this.sequenceFrames);
     this.shared.dispose();
     this.renderer.dispose();
     this.renderer.domElement.remove();
