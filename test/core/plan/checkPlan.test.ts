@@ -82,6 +82,24 @@ describe('plan input checks', () => {
     expect(problem((p) => (p.events[0].solve.retrograde = 1))).toBe('events[0].solve.retrograde');
     expect(problem((p) => (p.events[4].solve.periapsisAltitude = -4e6))).toBe('events[4].solve.periapsisAltitude'); // Ochre's radius is 3.4 Mm
     expect(problem((p) => (p.events[6].solve.e = 1))).toBe('events[6].solve.e');
+    // flyby aim: the next body must be another planet, after the flyby, and the periapsis is solved
+    const flyby = (p: Loose, f: unknown): void => {
+      p.events[4].solve = { kind: 'transfer', to: 'ochre', arrive: p.events[4].solve.arrive, flyby: f };
+    };
+    expect(problem((p) => flyby(p, { next: 'fennick', arrive: p.events[4].solve.arrive + 1e7 }))).toBe('no error');
+    expect(problem((p) => flyby(p, null))).toBe('events[4].solve.flyby');
+    expect(problem((p) => flyby(p, { next: 'nowhere', arrive: p.events[4].solve.arrive + 1e7 }))).toBe('events[4].solve.flyby.next');
+    expect(problem((p) => flyby(p, { next: 'ochre', arrive: p.events[4].solve.arrive + 1e7 }))).toBe('events[4].solve.flyby.next');
+    expect(problem((p) => flyby(p, { next: 'fennick', arrive: p.events[4].solve.arrive }))).toBe('events[4].solve.flyby.arrive');
+    expect(
+      problem((p) => {
+        flyby(p, { next: 'fennick', arrive: p.events[4].solve.arrive + 1e7 });
+        p.events[4].solve.periapsisAltitude = 4e5;
+      }),
+    ).toBe('events[4].solve.periapsisAltitude');
+    // flyby marker: a known body
+    expect(problem((p) => p.events.push({ type: 'flyby', id: 'f', name: 'Pass', body: 'moravel' }))).toBe('no error');
+    expect(problem((p) => p.events.push({ type: 'flyby', id: 'f', name: 'Pass', body: 'nowhere' }))).toBe(`events[${12}].body`);
     expect(problem((p) => (p.events[8].solve.i = 4))).toBe('events[8].solve.i'); // > π
     expect(problem((p) => (p.events[10].solve.altitude = Infinity))).toBe('events[10].solve.altitude');
     // coasts
