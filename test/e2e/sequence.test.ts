@@ -4,8 +4,8 @@
  * departures (one synodic period of Tessel and Moravel from the plan's epoch): the search runs in
  * the analysis worker, the list of solutions is the core's answer for the same request (computed
  * here), the chart draws one mark per solution and the direct transfer's line, a picked
- * solution shows its legs and the Moravel flyby, and the System view draws its legs. A search
- * is cancelled. Screenshots at 1024×640 and 1920×1080 go to test/output/e2e/. Waits are hang
+ * solution shows its legs and the Moravel flyby, and the System view draws its legs; "Make a
+ * plan from this" puts it in the plan as one edit (undone). A search is cancelled. Screenshots at 1024×640 and 1920×1080 go to test/output/e2e/. Waits are hang
  * guards only.
  */
 import { readFileSync } from 'node:fs';
@@ -110,6 +110,21 @@ describe.skipIf(!have)('sequence search in the Windows screen (e2e)', () => {
     await expect.poll(() => page.evaluate('window.waymarkDebug.scene.sequenceLines()'), { timeout: HANG_GUARD_MS }).toBe(CHAIN.length - 1);
     await page.waitForTimeout(150); // one frame for the scene to paint
     await page.screenshot({ path: `${OUT}sequence-system-view.png` });
+    await page.click('[data-tab=windows]');
+  });
+
+  it('"Make a plan from this" puts the picked solution in the plan as one edit; Undo brings the plan back', async () => {
+    const plan = () =>
+      page.evaluate('window.waymarkDebug.session.doc.get().plan') as Promise<{ events: { type: string; body?: string }[]; target: { body: string } | null }>;
+    const before = await plan();
+    await page.click('[data-testid=sequence-list] tr[data-solution="0"]');
+    await page.click('[data-testid=seq-make-plan]');
+    await expect.poll(() => page.textContent('[data-testid=seq-message]'), { timeout: HANG_GUARD_MS }).toMatch(/put in the plan/);
+    const after = await plan();
+    expect(after.events.filter((e) => e.type === 'flyby').map((e) => e.body)).toEqual(['moravel']);
+    expect(after.target?.body).toBe('fennick');
+    await page.click('[data-action=undo]');
+    expect(await plan()).toEqual(before);
     await page.click('[data-tab=windows]');
   });
 
