@@ -19,7 +19,8 @@
  * - transfer, direct with `flyby` (the target is a flyby body): the outgoing leg is the Lambert
  *   arc from the target (at the predicted periapsis time) to `next` at `flyby.arrive`; its v∞ and
  *   the incoming v∞ give the powered flyby (core/orbit/flyby.ts poweredFlyby: periapsis radius,
- *   no lower than radius + safe altitude, and B-plane angle θ). The aim point is the target's
+ *   no lower than radius + safe altitude, and B-plane angle θ; with `powered: false` the
+ *   unpowered match, unpoweredFlybyMatch: |v∞| kept, turned toward v∞ out). The aim point is the target's
  *   centre plus B·(cos θ T + sin θ R), B = r_p·√(1 + 2μ/(r_p·v∞²)) (BMW §7.4, from memory);
  *   the patched-conic B vector got at the SOI entry (Ŝ × h / v∞, Vallado 4th ed. §12.4, from
  *   memory) is driven to the wanted one by fixed-point steps on the aim (the aim offset maps
@@ -38,7 +39,7 @@
  */
 import { SolverError } from '../math/index.ts';
 import { brent } from '../math/index.ts';
-import { poweredFlyby, propagateKepler } from '../orbit/index.ts';
+import { poweredFlyby, propagateKepler, unpoweredFlybyMatch } from '../orbit/index.ts';
 import { solveLambert, type LambertSolution } from '../orbit/index.ts';
 import { bodyPosition, bodyState } from '../system/index.ts';
 import { findBodyIndex, type StarSystem } from '../system/index.ts';
@@ -86,8 +87,10 @@ export interface FlybyAim {
   /** v∞ in (predicted) and the v∞ out the next leg needs, m/s. */
   vInfIn: [number, number, number];
   vInfOut: [number, number, number];
-  /** Δv at periapsis of the powered flyby, m/s; the periapsis was held at the minimum (limited). */
+  /** Δv at periapsis of the powered flyby (0 unpowered), m/s; the periapsis was held at the minimum (limited). */
   dvPeriapsis: number;
+  /** What the pass leaves to pay after it (unpowered: the v∞ mismatch; limited: the turn short), m/s. */
+  dvExtra: number;
   limited: boolean;
   /** |ΔB| left at the end, m. */
   bError: number;
@@ -346,7 +349,7 @@ function aimForFlyby(
   ctx: SolveContext,
   target: number,
   tof: number,
-  flyby: { next: string; arrive: number },
+  flyby: { next: string; arrive: number; powered?: boolean },
   centreSol: LambertSolution,
   lambert: (aim: ArrayLike<number>) => LambertSolution,
   info?: SolveInfo,
@@ -401,7 +404,7 @@ function aimForFlyby(
     vout[0] = out.v1[0] - fbBody6[3];
     vout[1] = out.v1[1] - fbBody6[4];
     vout[2] = out.v1[2] - fbBody6[5];
-    const pf = poweredFlyby(muT, vin, vout, rpMin);
+    const pf = flyby.powered === false ? unpoweredFlybyMatch(muT, vin, vout, rpMin) : poweredFlyby(muT, vin, vout, rpMin);
     if (!Number.isFinite(pf.rp)) fail(`no turn is needed at ${tb.name}: aim a direct transfer instead`);
     // wanted B on T = Ŝ × ẑ normalised, R = Ŝ × T
     let Tx = Sy,
@@ -442,6 +445,7 @@ function aimForFlyby(
       vInfIn: [vin[0], vin[1], vin[2]],
       vInfOut: [vout[0], vout[1], vout[2]],
       dvPeriapsis: pf.dvPeriapsis,
+      dvExtra: pf.dvExtra,
       limited: pf.limited,
       bError: bErr,
     };

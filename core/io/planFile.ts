@@ -363,7 +363,10 @@ function solveFromDocument(s: SolveDocument | undefined): BurnSolve {
       if (s.revs !== undefined) out.revs = s.revs;
       if (s.retrograde !== undefined) out.retrograde = s.retrograde;
       if (s.periapsis_altitude_m !== undefined) out.periapsisAltitude = s.periapsis_altitude_m;
-      if (s.flyby !== undefined) out.flyby = { next: s.flyby.next, arrive: s.flyby.arrive_s };
+      if (s.flyby !== undefined) {
+        out.flyby = { next: s.flyby.next, arrive: s.flyby.arrive_s };
+        if (s.flyby.powered !== undefined) out.flyby.powered = s.flyby.powered;
+      }
       return out;
     }
     case 'capture':
@@ -518,7 +521,10 @@ function solveToDocument(s: BurnSolve): SolveDocument {
       if (s.revs !== undefined) out.revs = s.revs;
       if (s.retrograde !== undefined) out.retrograde = s.retrograde;
       if (s.periapsisAltitude !== undefined) out.periapsis_altitude_m = s.periapsisAltitude;
-      if (s.flyby !== undefined) out.flyby = { next: s.flyby.next, arrive_s: s.flyby.arrive };
+      if (s.flyby !== undefined) {
+        out.flyby = { next: s.flyby.next, arrive_s: s.flyby.arrive };
+        if (s.flyby.powered !== undefined) out.flyby.powered = s.flyby.powered;
+      }
       return out;
     }
     case 'capture':

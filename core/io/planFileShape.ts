@@ -130,6 +130,13 @@ const solve = z
           .strictObject({
             next: bodyId.meta({ description: 'Id of the body the leg after the flyby reaches.' }),
             arrive_s: time.meta({ description: 'Arrival time at that body, s from the system epoch.' }),
+            powered: z
+              .boolean()
+              .meta({
+                description:
+                  'Powered flyby (a burn at periapsis meets the next leg; the default) or unpowered (false: |v∞| kept, the periapsis and B-plane angle that turn v∞ toward the next leg; a later correction pays the rest).',
+              })
+              .optional(),
           })
           .meta({
             description:

@@ -113,6 +113,8 @@ export function checkPlan(system: StarSystem, plan: Plan): void {
             const nk = bodyId(system, `${p}.solve.flyby.next`, sv.flyby.next);
             if (nk === tk || nk === 0) throw new InputError(`${p}.solve.flyby.next`, 'must name a body other than the flyby body and the star', sv.flyby.next);
             requireFinite(`${p}.solve.flyby.arrive`, sv.flyby.arrive);
+            if (sv.flyby.powered !== undefined && typeof sv.flyby.powered !== 'boolean')
+              throw new InputError(`${p}.solve.flyby.powered`, 'must be a boolean', sv.flyby.powered);
             if (!(sv.flyby.arrive > sv.arrive)) throw new InputError(`${p}.solve.flyby.arrive`, 'must be after the flyby (solve.arrive)', sv.flyby.arrive);
             if (sv.periapsisAltitude !== undefined)
               throw new InputError(`${p}.solve.periapsisAltitude`, 'must be omitted with flyby (the periapsis is solved)', sv.periapsisAltitude);

@@ -95,10 +95,11 @@ export type BurnSolve =
        * Direct transfers only: the target is a flyby body. The arc aims off its centre so that the
        * patched-conic hyperbola's outgoing asymptote matches the Lambert leg from the target (at the
        * periapsis time) to `next` arriving at `arrive` (s from epoch): periapsis radius and B-plane
-       * angle of a powered flyby (no lower than the target's radius + safe altitude). Excludes
-       * `periapsisAltitude`.
+       * angle of a powered flyby (no lower than the target's radius + safe altitude); with
+       * `powered: false` of an unpowered one (|v∞| kept: the mismatch is left to a later
+       * correction). Excludes `periapsisAltitude`.
        */
-      flyby?: { next: string; arrive: number };
+      flyby?: { next: string; arrive: number; powered?: boolean };
     }
   | { kind: 'capture'; e: number }
   | { kind: 'plane'; i: number }

@@ -4,7 +4,7 @@ import { segmentStateAt } from '../../../core/conic/shipState.ts';
 import { solveBurn, TRANSFER_AIM_TOL, type SolveInfo } from '../../../core/conic/solveBurn.ts';
 import { conicInfo } from '../../../core/conic/soiCrossing.ts';
 import { propagateKepler } from '../../../core/orbit/kepler.ts';
-import { flybyTurnAngle, poweredFlyby } from '../../../core/orbit/flyby.ts';
+import { flybyTurnAngle, poweredFlyby, unpoweredFlybyMatch } from '../../../core/orbit/flyby.ts';
 import type { BurnEvent, Plan } from '../../../core/plan/plan.ts';
 import { flybyPlan } from '../../fixtures/flybyPlan.ts';
 import { demoSystem } from '../plan/helpers.ts';
@@ -100,6 +100,37 @@ describe('flyby plans in patched conics (the Tessel → Moravel → Fennick demo
     expect(Math.abs(f.freeDv - 2 * vin * Math.sin(f.turn / 2)) / vin).toBeLessThan(1e-9);
     // the eccentricity from the report's periapsis agrees with the conic flown
     expect(conicInfo(M.mu, first.state0).rp).toBeCloseTo(f.periapsisRadius, 3);
+  });
+
+  it('an unpowered aim (powered: false) flies the pass unpoweredFlybyMatch gives, a later correction paying the mismatch', () => {
+    const events = plan.events
+      .filter((e) => e.id !== 'flyby-burn')
+      .map((e) =>
+        e.id === 'flyby-aim' && e.type === 'burn' && e.solve.kind === 'transfer' && e.solve.flyby
+          ? { ...e, solve: { ...e.solve, flyby: { ...e.solve.flyby, powered: false } } }
+          : e,
+      );
+    const r = evaluate(system, { ...plan, events }, { samplesPerSegment: 0 });
+    const f = r.flybys?.[0];
+    if (!f?.vInfOut || f.turn === null) throw new Error('no complete pass');
+    expect(f.dvBurned).toBe(0);
+    const row = r.budget.rows.find((x) => x.planEventId === 'flyby-aim');
+    if (!row) throw new Error('no aim row');
+    const k = r.segments.findIndex((sg) => sg.kind === 'coast' && sg.t1 === row.t);
+    const st = segmentStateAt(r.segments, k, row.t, new Float64Array(6));
+    const info: SolveInfo = { vInf: null, predictedPeriapsis: null, iterations: 0 };
+    solveBurn({ system, central: 0, t: row.t, state: st }, (events.find((e) => e.id === 'flyby-aim') as BurnEvent).solve, [0, 0, 0], info);
+    if (!info.flyby) throw new Error('no flyby aim info');
+    // the aim's unpowered match (|v∞ out| = |v∞ in|, turned by δ(r_p)) is what is flown
+    const um = unpoweredFlybyMatch(M.mu, info.flyby.vInfIn, info.flyby.vInfOut, M.radius + M.safeAlt);
+    expect(info.flyby.dvPeriapsis).toBe(0);
+    // B met to TRANSFER_AIM_TOL (dB/dr_p ≥ 1, so r_p as close) plus 1 m for the SOI entry found in both
+    expect(Math.abs(um.rp - f.periapsisRadius)).toBeLessThan(TRANSFER_AIM_TOL + 1);
+    expect(Math.abs(norm(f.vInfIn) - norm(f.vInfOut)) / norm(f.vInfIn)).toBeLessThan(1e-9);
+    expect(Math.abs(f.turn - flybyTurnAngle(M.mu, f.periapsisRadius, norm(f.vInfIn)))).toBeLessThan(1e-9);
+    // the correction after the pass pays at least the mismatch's share: Fennick is still reached
+    expect(info.flyby.dvExtra).toBeGreaterThan(0);
+    expect(r.target?.reached).toBe(true);
   });
 
   it('warns when the periapsis is below the safe altitude, and when the marked body is never passed', () => {

@@ -88,7 +88,7 @@ export function samplePlan(): Plan {
         t: null,
         frame: 'vnb',
         dv: [0, 0, 0],
-        solve: { kind: 'transfer', to: 'moravel', arrive: 4.5e7, flyby: { next: 'ochre', arrive: 5.1e7 } },
+        solve: { kind: 'transfer', to: 'moravel', arrive: 4.5e7, flyby: { next: 'ochre', arrive: 5.1e7, powered: false } },
         mode: 'impulsive',
         pointing: 'velocity',
       },
