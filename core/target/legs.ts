@@ -15,6 +15,12 @@
  * leg's goals are the plan's target orbit at the end of the plan; an eccentricity goal on a closed orbit is aimed as the
  * apoapsis altitude it gives (smooth where the eccentricity is not, e.g. at a circular target).
  *
+ * A flyby leg (the plan marks the body with a 'flyby' event, plan.ts FlybyEvent) ends at a pass
+ * through that body's sphere with no burn inside it (an unpowered flyby): its goals are those of
+ * an arrival leg — the B-plane point and the periapsis time of the pass — met by the burns before
+ * it, so the leg after it starts from the pass the designer planned. (A powered flyby burns at
+ * the periapsis and is an arrival leg already.)
+ *
  * Tolerances: the caller's (TargetTolerances); a B-plane tolerance is the altitude tolerance
  * carried through |B| = √(r_p² + 2μ r_p / v∞²) (so dB/dr_p = (r_p + μ/v∞²)/|B|).
  */
@@ -86,6 +92,8 @@ export function planLegs(system: StarSystem, plan: Plan, reference: PlanResult, 
   const burns = plan.events.filter((e) => e.type === 'burn' && rows.has(e.id)).map((e) => e.id);
   if (burns.length === 0) throw new InputError('plan.events', 'must hold at least one burn the flight reaches: there is nothing to target with', plan.name);
   const entries = reference.events.filter((e) => e.kind === 'soi-entry');
+  const flybyBodies = new Set<number>();
+  for (const e of plan.events) if (e.type === 'flyby') flybyBodies.add(findBodyIndex(system, e.body));
   const legs: Leg[] = [];
   let current: string[] = [];
   let since = reference.t0;
@@ -94,9 +102,23 @@ export function planLegs(system: StarSystem, plan: Plan, reference: PlanResult, 
     const row = rows.get(id);
     const c = burnCentral.get(id) ?? -1;
     const tb = row ? row.tStart : Number.POSITIVE_INFINITY;
-    const entry = c !== here && c > 0 ? entries.find((e) => e.central === c && e.t > since && e.t <= tb) : undefined;
+    let entry = c !== here && c > 0 ? entries.find((e) => e.central === c && e.t > since && e.t <= tb) : undefined;
+    let k = c;
+    let tEnd = tb;
+    let flyby = false;
+    if (!entry && flybyBodies.size > 0) {
+      // an unpowered pass of a marked flyby body, entered and left before this burn
+      const pass = entries.find((e) => flybyBodies.has(e.central) && e.central !== c && e.t > since && e.t <= tb);
+      const exit = pass ? reference.events.find((e) => e.kind === 'soi-exit' && e.central === pass.central && e.t > pass.t) : undefined;
+      if (pass && exit && exit.t <= tb) {
+        entry = pass;
+        k = pass.central;
+        tEnd = exit.t;
+        flyby = true;
+      }
+    }
     if (entry && current.length > 0) {
-      const leg = arrivalLeg(system, reference, c, entry.t, tb, current, tol, arrivalTime);
+      const leg = arrivalLeg(system, reference, k, entry.t, tEnd, current, tol, arrivalTime, flyby);
       if (leg) legs.push(leg);
       else if (legs.length > 0) legs[legs.length - 1].burns.push(...current);
       current = [];
@@ -120,6 +142,7 @@ function arrivalLeg(
   burns: string[],
   tol: TargetTolerances,
   arrivalTime: boolean,
+  flyby = false,
 ): Leg | null {
   const body = system.bodies[k];
   const peri = ref.events.find((e) => e.kind === 'periapsis' && e.central === k && e.t >= tEntry && e.t <= tBurn + 1e-6);
@@ -137,7 +160,7 @@ function arrivalLeg(
   const vinf2 = -info.mu * info.alpha;
   const dBdrp = (info.rp + info.mu / vinf2) / Math.max(b.b, 1);
   const bTol = tol.altitude * dBdrp;
-  const name = `arrival at ${body.name}`;
+  const name = flyby ? `flyby of ${body.name}` : `arrival at ${body.name}`;
   const T: [number, number, number] = [axes.T[0], axes.T[1], axes.T[2]];
   const R: [number, number, number] = [axes.R[0], axes.R[1], axes.R[2]];
   const timeGoal: FlightGoal = {

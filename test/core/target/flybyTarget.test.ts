@@ -54,4 +54,21 @@ describe('the flyby demo targeted', () => {
       expect(pass?.periapsisAltitude).toBeGreaterThan(m?.safeAlt ?? Infinity);
     });
   });
+
+  it('unpowered in n-body: the pass with no burn inside Moravel’s sphere is a flyby leg (its B-plane point and periapsis time), then Fennick', () => {
+    const plan = { ...flybyPlan(sys, false), truthModel: 'nbody' as const };
+    const r = targetPlan(sys, plan, { maxFlights: 200 });
+    expect(r.status).toBe('met');
+    expect(r.legs.map((l) => l.name)).toEqual(['flyby of Moravel', 'arrival at Fennick', 'final orbit about Fennick']);
+    // the flyby leg is met with the burns before the pass only
+    expect([...new Set(r.legs[0].controls.map((c) => c.burnId))]).toEqual(['departure', 'correction-1', 'flyby-aim']);
+    for (const l of r.legs) for (const g of l.goals) expect(g.met, `${l.name}: ${g.name}`).toBe(true);
+    const report = truthReport(sys, r.plan, { samples: false });
+    expect(report.reached).toBe(true);
+    expect(report.budget.margin).toBeGreaterThan(0);
+    // without the flyby marker there is no leg at the pass (no burn inside the sphere)
+    const unmarked = { ...plan, events: plan.events.filter((e) => e.type !== 'flyby') };
+    const conic = targetPlan(sys, unmarked, { model: 'conic', maxFlights: 200 });
+    expect(conic.legs.map((l) => l.name)).toEqual(['arrival at Fennick', 'final orbit about Fennick']);
+  });
 });
