@@ -4,7 +4,8 @@
  * planFromWindow for the first leg), and for each leg a correction 3 days after leaving the
  * body, at mid-leg the aim — for a flyby body a direct 'transfer' with `flyby` (the hyperbola
  * leaves along the next leg), coast to periapsis, the flyby marker and the periapsis burn to the
- * next body (what an unpowered flyby leaves to pay) — and for the last body the mid-course aim at
+ * next body (an unpowered flyby: the aim keeps |v∞| and no burn is made at periapsis; the next
+ * correction pays the mismatch) — and for the last body the mid-course aim at
  * the capture periapsis, coast to periapsis and the capture burn.
  */
 import { planFromWindow } from '../../../core/conic/index.ts';
@@ -27,6 +28,8 @@ export interface SequencePlanOptions {
   /** Capture periapsis altitude at the last body, m, and eccentricity; null: fly past (no capture). */
   captureAltitude: number;
   captureE: number | null;
+  /** Unpowered flybys (false): the aim keeps |v∞| (the transfer's flyby with powered: false) and no burn is made at periapsis; the correction after the pass pays the mismatch. Default true. */
+  powered?: boolean;
 }
 
 /** The plan for a solution: the vehicle, reserve and name of `base`; the target orbit at the last body when it is captured. */
@@ -56,17 +59,18 @@ export function sequencePlan(system: StarSystem, solution: SequenceSolution, bas
       { type: 'coast', id: `cruise-${n}`, name: 'Cruise to mid-leg', until: { kind: 'time', t: 0.5 * (leg.depart + leg.arrive) } },
     );
     if (!last) {
+      const powered = o.powered !== false;
       events.push(
         burn(`aim-${n}`, `Aim for the ${name(leg.to)} flyby`, {
           kind: 'transfer',
           to: leg.to,
           arrive: leg.arrive,
-          flyby: { next: next.to, arrive: next.arrive },
+          flyby: powered ? { next: next.to, arrive: next.arrive } : { next: next.to, arrive: next.arrive, powered: false },
         }),
         { type: 'coast', id: `approach-${n}`, name: `Approach ${name(leg.to)}`, until: { kind: 'periapsis', body: leg.to } },
         { type: 'flyby', id: `flyby-${n}`, name: `${name(leg.to)} flyby`, body: leg.to },
-        burn(`periapsis-${n}`, `Periapsis burn to ${name(next.to)}`, { kind: 'transfer', to: next.to, arrive: next.arrive }),
       );
+      if (powered) events.push(burn(`periapsis-${n}`, `Periapsis burn to ${name(next.to)}`, { kind: 'transfer', to: next.to, arrive: next.arrive }));
     } else if (o.captureE !== null) {
       events.push(
         burn('mid-course', 'Mid-course correction', { kind: 'transfer', to: leg.to, arrive: leg.arrive, periapsisAltitude: o.captureAltitude }),

@@ -25,7 +25,10 @@ describe('"Make a plan from this": a sequence solution as plan events', () => {
         powered,
       });
       const sol = r.solutions[0];
-      const plan = sequencePlan(system, sol, base, { ...ends, captureE: 0 });
+      const plan = sequencePlan(system, sol, base, { ...ends, captureE: 0, powered });
+      // unpowered: no burn between the pass and leaving Moravel's sphere
+      const k = plan.events.findIndex((e) => e.type === 'flyby');
+      expect(plan.events[k + 1].type).toBe(powered ? 'burn' : 'coast');
       expect(plan.vehicle).toEqual(base.vehicle);
       expect(plan.events.filter((e) => e.type === 'flyby').map((e) => (e as { body: string }).body)).toEqual(['moravel']);
       const res = evaluate(system, plan);
