@@ -118,6 +118,15 @@ export function budgetText(system: StarSystem, plan: Plan, result: PlanResult, f
           : 'DOES NOT HOLD'
     }`,
   );
+  // flybys: the heliocentric Δv each pass gives for free, beside the burns (not part of the planned total)
+  for (const f of result.flybys ?? []) {
+    const body = system.bodies[f.body]?.name ?? f.name;
+    out.push(
+      `flyby      ${pad(f.freeDv === null ? '—' : num(f.freeDv, 1), 10, true)} m/s  free at ${body} (${f.name || f.planEventId}): periapsis ${num(f.periapsisAltitude / 1000, 0)} km on ${formatCompactDate(cal, f.tPeriapsis)}${
+        f.turn === null ? '' : `, turn ${num((f.turn * 180) / Math.PI, 2)}°`
+      }${f.dvBurned > 0 ? `, ${num(f.dvBurned, 1)} m/s burned in the pass` : ''}`,
+    );
+  }
   if (flags.length > 0) {
     out.push('');
     for (const f of flags) out.push(`${f.severity.padEnd(7)} ${f.code}: ${f.message}`);

@@ -32,6 +32,18 @@ describe.concurrent('waymark check', () => {
     expect(r.stdout).toContain("judged in patched conics (the plan's truth model): HOLDS");
   });
 
+  it('the flyby demo: the Moravel pass is printed with its free Δv beside the burns, not added to the planned total', async () => {
+    const j = JSON.parse((await runCli(['check', 'assets/plans/tessel-moravel-fennick.plan.json', '--json'])).stdout);
+    const f = j.budget.flybys[0];
+    expect(f.name).toBe('Moravel flyby');
+    // the planned total is the burns' Δv alone (sum of the rows, to the 0.1 m/s the rows are printed with)
+    const rows = j.budget.rows.reduce((a: number, r: { dv: number }) => a + r.dv, 0);
+    expect(Math.abs(j.budget.total - rows)).toBeLessThan(1e-6 * rows);
+    const t = await runCli(['check', 'assets/plans/tessel-moravel-fennick.plan.json']);
+    expect(t.code).toBe(0);
+    expect(t.stdout).toMatch(new RegExp(`flyby +${f.freeDv.toFixed(1)} m/s {2}free at Moravel \\(Moravel flyby\\): periapsis \\d+ km`));
+  });
+
   it('the negative-margin demo: exits 1 and says why', async () => {
     const r = await runCli(['check', HEAVY]);
     expect(r.code).toBe(1);
