@@ -522,6 +522,9 @@ function refine(c: Chain, x0: number[], req: SequenceRequest, nDep: number, nTof
   }
 }
 
+/** Solutions costing more than this many times the best found are not listed (edge-of-range minima far above the best). */
+export const SEQUENCE_KEEP_FACTOR = 2;
+
 /**
  * Multi-leg sequence search: the best `keep` distinct solutions for the body sequence over the
  * departure range, with the best direct first → last transfer for comparison. See the header
@@ -593,6 +596,8 @@ export function searchSequence(system: StarSystem, req: SequenceRequest, onProgr
   for (const r of refined) {
     if (solutions.length >= keep) break;
     if (!(r.fx < Infinity)) continue;
+    // a local minimum at the edge of the ranges costing several times the best is no option a designer weighs
+    if (refined.length > 0 && r.fx > SEQUENCE_KEEP_FACTOR * refined[0].fx) break;
     const same = chosen.some((x) => x.every((v, k) => Math.abs(v - r.x[k]) <= tol[k]));
     if (same) continue;
     const s = describe(c, r.x);

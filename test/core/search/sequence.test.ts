@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../../core/math/errors.ts';
 import { lambertSingleRev } from '../../../core/orbit/lambert.ts';
-import { searchSequence } from '../../../core/search/sequence.ts';
+import { SEQUENCE_KEEP_FACTOR, searchSequence } from '../../../core/search/sequence.ts';
 import type { SequenceRequest } from '../../../core/search/sequence.ts';
 import { circularSystem } from './fixtures.ts';
 
@@ -143,6 +143,15 @@ describe('searchSequence', () => {
     const f = pw.flybys[0];
     expect(f.periapsisAltitude).toBeGreaterThanOrEqual(SAFE - 1e-6);
     expect(f.dv).toBeCloseTo(f.dvPeriapsis + f.dvExtra, 9);
+  });
+
+  it('lists solutions best first, none costing more than SEQUENCE_KEEP_FACTOR times the best', () => {
+    const r = searchSequence(system(), { ...REQ, keep: 20 });
+    const best = r.solutions[0].dvTotal;
+    for (let k = 1; k < r.solutions.length; k++) {
+      expect(r.solutions[k].dvTotal).toBeGreaterThanOrEqual(r.solutions[k - 1].dvTotal);
+      expect(r.solutions[k].dvTotal).toBeLessThanOrEqual(SEQUENCE_KEEP_FACTOR * best);
+    }
   });
 
   it('evaluates a resonant return (the giant twice)', () => {
