@@ -31,10 +31,10 @@ describe("the game-step reference with 'all' gravity flies the ship force model"
     return Math.hypot(n.x[0] + b[0] - a[0], n.x[1] + b[1] - a[1], n.x[2] + b[2] - a[2]);
   };
 
-  it('is flown by DOP853, the front door’s choice at its rtol, and says so', () => {
-    expect(prep.rtol).toBe(1e-13);
-    expect(prep.referenceStats.method).toBe('dop853');
-    expect(prep.referenceStats.reason).toBe('tight tolerance: rtol 1e-13 ≤ 1e-10');
+  it('is flown by RK45 through the front door (requested: REFERENCE_METHOD), and says so', () => {
+    expect(prep.rtol).toBe(1e-12);
+    expect(prep.referenceStats.method).toBe('rk45');
+    expect(prep.referenceStats.reason).toBe('requested by caller');
   });
 
   it('and agrees with the n-body verification, given the same burns, to 5 cm over the first 5.9 days (parking orbit, departure, SOI exit, mid-course burn)', () => {
