@@ -47,9 +47,11 @@ export type { GameBurn, GameBurnModel, GameGravity } from './burns.ts';
 
 /**
  * Method of the reference flight, passed to the front door. RK45: with DOP853 (the front door's
- * own choice at this rtol) the energy-drift probe of a heliocentric coast measured a drift of
- * 2.7e-2 per orbit for every integrator and step on the demo (RK45: 4.8e-7), so every sweep step
- * failed; until that is understood the reference stays on the method its figures were checked with.
+ * own choice at this rtol) at 1e-13 the energy-drift probe of the demo's heliocentric coast
+ * (check.ts: a whole orbit without burns, which passes close by Ochre) read 2.7e-2 per orbit for
+ * every integrator (RK45 at 1e-12: 4.8e-7): the close pass parts the game and the reference by an
+ * amount that depends on the method. Until the probe stops at the first change of sphere of
+ * influence, the reference stays on the method its figures were checked with.
  */
 export const REFERENCE_METHOD = 'rk45' as const;
 /** Default relative tolerance of the reference flight (RK45). */
