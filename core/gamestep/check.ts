@@ -579,12 +579,20 @@ class GameStepRun {
     const B = new Float64Array(6);
     const pt: number[] = [];
     const pe: number[] = [];
+    let left = false;
     const st = pf.fly(t0 + len, hs, {
       land: true,
       checkEvery: Math.max(1, Math.floor(len / hs / PROBE_POINTS)),
       onCheck: (t) => {
+        if (left) return;
         pf.state(g);
         const rc = pref.at(t, r);
+        // the drift of the span's own orbit: a probe that reaches another sphere of influence (an
+        // encounter its whole orbit passes through) stops counting there
+        if (this.physics.gravity === 'central' && rc !== c0) {
+          left = true;
+          return;
+        }
         const b = this.physics.gravity === 'central' ? rc : frameAt(prep.settings.frames, t);
         bodyState(this.system, b, t, B);
         const mu = this.system.bodies[b].mu;

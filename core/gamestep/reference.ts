@@ -50,8 +50,9 @@ export type { GameBurn, GameBurnModel, GameGravity } from './burns.ts';
  * own choice at this rtol) at 1e-13 the energy-drift probe of the demo's heliocentric coast
  * (check.ts: a whole orbit without burns, which passes close by Ochre) read 2.7e-2 per orbit for
  * every integrator (RK45 at 1e-12: 4.8e-7): the close pass parts the game and the reference by an
- * amount that depends on the method. Until the probe stops at the first change of sphere of
- * influence, the reference stays on the method its figures were checked with.
+ * amount that depends on the method. The probe now stops counting at the first change of sphere
+ * of influence; the reference stays on the method its figures were checked with until DOP853 is
+ * re-checked there.
  */
 export const REFERENCE_METHOD = 'rk45' as const;
 /** Default relative tolerance of the reference flight (RK45). */

@@ -189,6 +189,18 @@ describe('game-step check of the demo plan (Ilmar, Tessel to Ochre)', () => {
     expect(r.arrival!.basis).toBe('measured');
   });
 
+  it("measures a coast's energy drift on its own orbit: the probe stops counting where it reaches another sphere of influence", () => {
+    // the heliocentric coast's orbit passes close by Ochre within a period; velocity Verlet is
+    // symplectic, so on the conic itself its energy error stays bounded with no secular drift
+    // (common practice): measured 1.6e-11 per orbit, where a probe counted through the Ochre
+    // encounter read 4.8e-7 (RK45 reference) or 2.7e-2 (DOP853 at 1e-13)
+    const r = gameStepCheck(demo, demoPlan, { physics: { integrator: 'verlet', dt: 8 }, result });
+    const s = r.spans[3];
+    expect(s.central).toBe(0);
+    expect(s.driftMethod).toBe('probe');
+    expect(Math.abs(s.driftPerOrbit!)).toBeLessThan(1e-9);
+  });
+
   it('spread burns: the game and the reference fly the same finite burns', () => {
     const r = gameStepCheck(demo, demoPlan, { physics: { integrator: 'verlet', dt: 4, burns: 'spread' }, result, maxStepsPerSpan: 1_000_000 });
     expect(r.passes).toBe(true);
