@@ -16,6 +16,9 @@ import type { StarSystem } from '../system/index.ts';
 import type { FlybyReport, TrajectoryEvent, TrajectorySegment } from '../plan/index.ts';
 import { propagateKepler } from '../orbit/index.ts';
 import { conicInfo, createConicInfo } from './soiCrossing.ts';
+import { bPlaneFrame } from './bPlaneFrame.ts';
+
+const frameScratch = new Float64Array(6);
 
 export interface FlybyMark {
   id: string;
@@ -80,21 +83,13 @@ export function flybyReport(
   const bx = (Sy * info.hz - Sz * info.hy) / vinIn,
     by = (Sz * info.hx - Sx * info.hz) / vinIn,
     bz = (Sx * info.hy - Sy * info.hx) / vinIn;
-  let Tx = Sy,
-    Ty = -Sx,
-    Tz = 0;
-  const tn = Math.hypot(Tx, Ty);
-  if (tn > 1e-12) {
-    Tx /= tn;
-    Ty /= tn;
-  } else {
-    Tx = 1;
-    Ty = 0;
-    Tz = 0;
-  }
-  const Rx = Sy * Tz - Sz * Ty,
-    Ry = Sz * Tx - Sx * Tz,
-    Rz = Sx * Ty - Sy * Tx;
+  const fr = bPlaneFrame(Sx, Sy, Sz, frameScratch);
+  const Tx = fr[0],
+    Ty = fr[1],
+    Tz = fr[2],
+    Rx = fr[3],
+    Ry = fr[4],
+    Rz = fr[5];
   const bT = bx * Tx + by * Ty + bz * Tz;
   const bR = bx * Rx + by * Ry + bz * Rz;
   // outgoing: the last conic flown inside (only when the ship left the sphere)

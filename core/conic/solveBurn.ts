@@ -46,6 +46,9 @@ import { findBodyIndex, type StarSystem } from '../system/index.ts';
 import type { Vec3 } from '../math/index.ts';
 import type { BurnSolve } from '../plan/index.ts';
 import { conicInfo, createConicInfo } from './soiCrossing.ts';
+import { bPlaneFrame } from './bPlaneFrame.ts';
+
+const frameScratch = new Float64Array(6);
 
 /** Newton steps on the aim offset of a direct transfer with a periapsis altitude. */
 export const TRANSFER_AIM_ITERATIONS = 12;
@@ -407,21 +410,13 @@ function aimForFlyby(
     const pf = flyby.powered === false ? unpoweredFlybyMatch(muT, vin, vout, rpMin) : poweredFlyby(muT, vin, vout, rpMin);
     if (!Number.isFinite(pf.rp)) fail(`no turn is needed at ${tb.name}: aim a direct transfer instead`);
     // wanted B on T = Ŝ × ẑ normalised, R = Ŝ × T
-    let Tx = Sy,
-      Ty = -Sx;
-    let Tz = 0;
-    const tn = Math.hypot(Tx, Ty);
-    if (tn > 1e-12) {
-      Tx /= tn;
-      Ty /= tn;
-    } else {
-      Tx = 1;
-      Ty = 0;
-      Tz = 0;
-    }
-    const Rx = Sy * Tz - Sz * Ty,
-      Ry = Sz * Tx - Sx * Tz,
-      Rz = Sx * Ty - Sy * Tx;
+    const fr = bPlaneFrame(Sx, Sy, Sz, frameScratch);
+    const Tx = fr[0],
+      Ty = fr[1],
+      Tz = fr[2],
+      Rx = fr[3],
+      Ry = fr[4],
+      Rz = fr[5];
     const Bw = pf.rp * Math.sqrt(1 + (2 * muT) / (pf.rp * vinf * vinf));
     const cb = Math.cos(pf.bAngle),
       sb = Math.sin(pf.bAngle);
