@@ -749,6 +749,27 @@ export class SystemScene {
     };
   }
 
+  /**
+   * The plan's path drawn in `central`'s frame (the truth model's when it is n-body, else the
+   * result's coasts), for tests: how many lines, and the closest drawn vertex to the body, m.
+   */
+  pathInFrame(central: number): { lines: number; closest: number } {
+    const truth = this.truthFrames.get(central);
+    const group = truth && truth.children.length > 0 ? truth : this.frames.get(central);
+    let lines = 0;
+    let closest = Number.POSITIVE_INFINITY;
+    group?.traverse((o) => {
+      const kind = o.userData.kind;
+      if (kind !== 'truth' && kind !== 'coast') return;
+      lines++;
+      const geo = (o as THREE.Line).geometry;
+      const p = geo.getAttribute('position');
+      const n = Math.min(p.count, geo.drawRange.count);
+      for (let k = 0; k < n; k++) closest = Math.min(closest, Math.hypot(p.getX(k), p.getY(k), p.getZ(k)) / U);
+    });
+    return { lines, closest };
+  }
+
   private frameIn(root: THREE.Group, frames: Map<number, THREE.Group>, central: number): THREE.Group {
     let g = frames.get(central);
     if (!g) {
