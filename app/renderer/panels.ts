@@ -1,6 +1,6 @@
 /**
  * The panels the window mounts after the System view's first frame (App.svelte): the Plan editor,
- * Budget, Timeline, status line, Windows view, the checks and the route panel, with what they
+ * Budget, Timeline, status line, Windows view, Survey view, the checks and the route panel, with what they
  * need (d3, the check store, the Timeline's extra lanes). One dynamic import of this module is a
  * chunk of its own, so the first 3D frame waits neither for parsing nor for mounting them.
  */
@@ -9,6 +9,7 @@ export { default as BudgetPanel } from './components/BudgetPanel.svelte';
 export { default as Timeline } from './components/Timeline.svelte';
 export { default as StatusLine } from './components/StatusLine.svelte';
 export { default as WindowsView } from './components/WindowsView.svelte';
+export { default as SurveyView } from './components/SurveyView.svelte';
 export { default as GameStepPanel } from './components/GameStepPanel.svelte';
 export { default as StabilityPanel } from './components/StabilityPanel.svelte';
 export { default as StabilityCharts } from './components/StabilityCharts.svelte';

@@ -1,6 +1,6 @@
 /**
  * The layers of core/ (DESIGN.md, DEVELOPERS.md):
- *   math ← integrate ← orbit ← system ← dynamics ← plan ← conic ← nbody ← target ← gamestep ← checks ← search ← route ← io.
+ *   math ← integrate ← orbit ← system ← sky ← runtime ← dynamics ← plan ← conic ← nbody ← target ← gamestep ← handoff ← checks ← search ← survey ← route ← io.
  * A folder imports only itself and the folders below it, and another folder only through its
  * front door (index.ts); no module takes part in an import cycle; and core/ imports no Node
  * built-in, no DOM-only module and no UI package, so it runs unchanged in the renderer, workers
@@ -15,6 +15,7 @@ const LAYERS = [
   'integrate',
   'orbit',
   'system',
+  'sky',
   'runtime',
   'dynamics',
   'plan',
@@ -25,6 +26,7 @@ const LAYERS = [
   'handoff',
   'checks',
   'search',
+  'survey',
   'route',
   'io',
 ];
