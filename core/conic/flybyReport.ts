@@ -1,12 +1,15 @@
 /**
- * The report of a flyby plan event (plan.ts FlybyEvent), read from the flown patched-conic
+ * The report of a flyby plan event (plan.ts FlybyEvent). `passReport` builds it from the ship's
+ * states relative to the body at the sphere's entry and exit (shared with the n-body reading,
+ * core/target/nbodyFlybys.ts); `flybyReport` reads those from the flown patched-conic
  * segments: the ship's stay in the body's sphere of influence nearest the marker, its incoming
  * conic (the one it entered on) and outgoing conic (the last one before it left).
  *
  * - v∞ in/out: the asymptotes of those conics, Ŝ_in = P/e + √(e² − 1)/e·Q and
  *   Ŝ_out = −P/e + √(e² − 1)/e·Q, |v∞| = √(−μ/a) (two-body hyperbola; Curtis, Orbital Mechanics
  *   for Engineering Students, §8.9 — from memory). The turn is the angle between them.
- * - Periapsis (radius, altitude, time) of the incoming conic: t_p = t_entry − M/n.
+ * - Periapsis (radius, altitude, time) of the incoming conic: t_p = t_entry − M/n (a model that
+ *   flies the pass itself may give its own periapsis instead, `periapsisMethod` saying how found).
  * - B-plane of the incoming conic: B = Ŝ × h / v∞ on T = Ŝ × ẑ normalised, R = Ŝ × T (Vallado,
  *   Fundamentals of Astrodynamics and Applications, 4th ed., §12.4 — from memory); θ from T to R.
  * - The free heliocentric Δv: |v∞ out − v∞ in| (the change of the parent-relative velocity the
@@ -40,6 +43,91 @@ function asymptote(sign: number, mu: number): [number, number, number] | null {
   return [vinf * ((sign * info.P[0]) / e + q * info.Q[0]), vinf * ((sign * info.P[1]) / e + q * info.Q[1]), vinf * ((sign * info.P[2]) / e + q * info.Q[2])];
 }
 
+/**
+ * What a pass report is built from, whatever model flew the pass: the ship's state relative to the
+ * body when it entered the sphere (`stateIn`, at `tEntry`) and when it left (`stateOut`, at
+ * `tExit`; both null when it did not leave), the Δv burned inside, and optionally the periapsis
+ * found by the model itself (else the periapsis of the osculating hyperbola at entry).
+ */
+export interface PassStates {
+  planEventId: string;
+  name: string;
+  body: number;
+  tEntry: number;
+  stateIn: ArrayLike<number>;
+  /** Time of `stateIn` when it is not exactly tEntry (the incoming conic's start), s. */
+  tIn?: number;
+  tExit: number | null;
+  stateOut: ArrayLike<number> | null;
+  dvBurned: number;
+  periapsis?: { t: number; radius: number; method: 'probe' | 'osculating' };
+}
+
+/**
+ * The report of a pass from its entry and exit states (see the module comment): v∞ in, the
+ * B-plane and the periapsis from the osculating hyperbola about the body at entry, v∞ out from the
+ * one at exit. Null when the entry state is not on a hyperbola about the body.
+ */
+export function passReport(system: StarSystem, pass: PassStates): FlybyReport | null {
+  const k = pass.body;
+  const b = system.bodies[k];
+  const mu = b.mu;
+  conicInfo(mu, pass.stateIn, info);
+  const vIn = asymptote(1, mu);
+  if (!vIn) return null;
+  const rp = pass.periapsis ? pass.periapsis.radius : info.rp;
+  const tPeriapsis = pass.periapsis ? pass.periapsis.t : (pass.tIn ?? pass.tEntry) - info.M / info.n;
+  const vinIn = Math.hypot(vIn[0], vIn[1], vIn[2]);
+  const Sx = vIn[0] / vinIn,
+    Sy = vIn[1] / vinIn,
+    Sz = vIn[2] / vinIn;
+  const bx = (Sy * info.hz - Sz * info.hy) / vinIn,
+    by = (Sz * info.hx - Sx * info.hz) / vinIn,
+    bz = (Sx * info.hy - Sy * info.hx) / vinIn;
+  const fr = bPlaneFrame(Sx, Sy, Sz, frameScratch);
+  const Tx = fr[0],
+    Ty = fr[1],
+    Tz = fr[2],
+    Rx = fr[3],
+    Ry = fr[4],
+    Rz = fr[5];
+  const bT = bx * Tx + by * Ty + bz * Tz;
+  const bR = bx * Rx + by * Ry + bz * Rz;
+  let vOut: [number, number, number] | null = null;
+  if (pass.tExit !== null && pass.stateOut) {
+    conicInfo(mu, pass.stateOut, info);
+    vOut = asymptote(-1, mu);
+  }
+  let turn: number | null = null;
+  let freeDv: number | null = null;
+  if (vOut) {
+    const vo = Math.hypot(vOut[0], vOut[1], vOut[2]);
+    const c = (vIn[0] * vOut[0] + vIn[1] * vOut[1] + vIn[2] * vOut[2]) / (vinIn * vo);
+    turn = Math.acos(Math.max(-1, Math.min(1, c)));
+    freeDv = Math.hypot(vOut[0] - vIn[0], vOut[1] - vIn[1], vOut[2] - vIn[2]);
+  }
+  const report: FlybyReport = {
+    planEventId: pass.planEventId,
+    name: pass.name,
+    body: k,
+    tEntry: pass.tEntry,
+    tExit: pass.tExit,
+    tPeriapsis,
+    periapsisRadius: rp,
+    periapsisAltitude: rp - b.radius,
+    vInfIn: vIn,
+    vInfOut: vOut,
+    turn,
+    bT,
+    bR,
+    bAngle: Math.atan2(bR, bT),
+    freeDv,
+    dvBurned: pass.dvBurned,
+  };
+  if (pass.periapsis) report.periapsisMethod = pass.periapsis.method;
+  return report;
+}
+
 /** The report of one flyby marker, or null when the ship never entered the body's SOI. */
 export function flybyReport(
   system: StarSystem,
@@ -49,7 +137,6 @@ export function flybyReport(
   burnRows: { t: number; dv: number }[],
 ): FlybyReport | null {
   const k = mark.body;
-  const b = system.bodies[k];
   // the stay: the last entry at or before the marker, else the first after it
   let entry = -1;
   for (const ev of events) {
@@ -70,61 +157,14 @@ export function flybyReport(
   if (inside.length === 0) return null;
   const first = inside[0];
   const last = inside[inside.length - 1];
-  const mu = b.mu;
-  conicInfo(mu, first.state0, info);
-  const vIn = asymptote(1, mu);
-  if (!vIn) return null;
-  const rp = info.rp;
-  const tPeriapsis = first.t0 - info.M / info.n;
-  const vinIn = Math.hypot(vIn[0], vIn[1], vIn[2]);
-  const Sx = vIn[0] / vinIn,
-    Sy = vIn[1] / vinIn,
-    Sz = vIn[2] / vinIn;
-  const bx = (Sy * info.hz - Sz * info.hy) / vinIn,
-    by = (Sz * info.hx - Sx * info.hz) / vinIn,
-    bz = (Sx * info.hy - Sy * info.hx) / vinIn;
-  const fr = bPlaneFrame(Sx, Sy, Sz, frameScratch);
-  const Tx = fr[0],
-    Ty = fr[1],
-    Tz = fr[2],
-    Rx = fr[3],
-    Ry = fr[4],
-    Rz = fr[5];
-  const bT = bx * Tx + by * Ty + bz * Tz;
-  const bR = bx * Rx + by * Ry + bz * Rz;
-  // outgoing: the last conic flown inside (only when the ship left the sphere)
-  let vOut: [number, number, number] | null = null;
+  // outgoing: the last conic flown inside, at its end (only when the ship left the sphere)
+  let stateOut: Float64Array | null = null;
   if (tExit !== null) {
-    propagateKepler(mu, last.state0, last.t1 - last.t0, st6);
-    conicInfo(mu, st6, info);
-    vOut = asymptote(-1, mu);
-  }
-  let turn: number | null = null;
-  let freeDv: number | null = null;
-  if (vOut) {
-    const vo = Math.hypot(vOut[0], vOut[1], vOut[2]);
-    const c = (vIn[0] * vOut[0] + vIn[1] * vOut[1] + vIn[2] * vOut[2]) / (vinIn * vo);
-    turn = Math.acos(Math.max(-1, Math.min(1, c)));
-    freeDv = Math.hypot(vOut[0] - vIn[0], vOut[1] - vIn[1], vOut[2] - vIn[2]);
+    propagateKepler(system.bodies[k].mu, last.state0, last.t1 - last.t0, st6);
+    stateOut = st6;
   }
   let dvBurned = 0;
   for (const r of burnRows) if (r.t >= tEntry && (tExit === null || r.t <= tExit)) dvBurned += r.dv;
-  return {
-    planEventId: mark.id,
-    name: mark.name,
-    body: k,
-    tEntry,
-    tExit,
-    tPeriapsis,
-    periapsisRadius: rp,
-    periapsisAltitude: rp - b.radius,
-    vInfIn: vIn,
-    vInfOut: vOut,
-    turn,
-    bT,
-    bR,
-    bAngle: Math.atan2(bR, bT),
-    freeDv,
-    dvBurned,
-  };
+  // the incoming conic's own start time (the entry, to the event's rounding) dates its periapsis
+  return passReport(system, { planEventId: mark.id, name: mark.name, body: k, tEntry, tIn: first.t0, stateIn: first.state0, tExit, stateOut, dvBurned });
 }

@@ -5,6 +5,8 @@
 export { sampleEphemeris } from './ephemerisSampler.ts';
 export type { EphemerisSpan, SampledEphemeris } from './ephemerisSampler.ts';
 export { evaluate } from './evaluate.ts';
+export { passReport } from './flybyReport.ts';
+export type { PassStates } from './flybyReport.ts';
 export { planFromWindow } from './fromWindow.ts';
 export { conicInfo, createConicInfo, timeToApsis } from './soiCrossing.ts';
 export type { ConicInfo } from './soiCrossing.ts';

@@ -96,6 +96,21 @@ export interface NBodySamples {
   origin: Int32Array;
 }
 
+/** Position and velocity [x, y, z, vx, vy, vz], m and m/s. */
+export type Vec3Tuple6 = [number, number, number, number, number, number];
+
+/**
+ * An SOI change of the n-body flight: time, the body left ('exit') or entered ('entry'), and the
+ * ship's state relative to that body at the crossing (|r| = its SOI radius to the event locator's
+ * tolerance): at an exit the state before the origin switch, at an entry the state after it.
+ */
+export interface NBodySoiChange {
+  t: number;
+  kind: 'exit' | 'entry';
+  body: number;
+  state: Vec3Tuple6;
+}
+
 export interface FlyResult {
   /** Where the flight stopped (tEnd, or an impact). */
   state: NBodyState;
@@ -106,8 +121,8 @@ export interface FlyResult {
   checkpoints: Map<string, NBodyState>;
   spans: FlownSpan[];
   stats: NBodyStats;
-  /** SOI changes of the n-body flight: time, body left/entered. */
-  soiChanges: { t: number; kind: 'exit' | 'entry'; body: number }[];
+  /** SOI changes of the n-body flight (see NBodySoiChange). */
+  soiChanges: NBodySoiChange[];
   samples: NBodySamples | null;
   /** First periapsis passage about `periapsisOf` (burns included), or null. */
   periapsis: NBodyState | null;
@@ -344,6 +359,9 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
           return false;
         }
         if (what.kind === 'exit') {
+          // the state relative to the body left, before the switch
+          const left: Vec3Tuple6 = [cur.x[0], cur.x[1], cur.x[2], cur.v[0], cur.v[1], cur.v[2]];
+          soiChanges.push({ t: cur.t, kind: 'exit', body: what.body, state: left });
           bodyStateRelativeToParent(system, o, cur.t, fly6);
           for (let i = 0; i < 3; i++) {
             cur.x[i] += fly6[i];
@@ -357,8 +375,9 @@ export function flyNBody(model: NBodyModel, start: NBodyState, actions: readonly
             cur.v[i] -= fly6[i + 3];
           }
           cur.origin = what.body;
+          // the state relative to the body entered, after the switch
+          soiChanges.push({ t: cur.t, kind: 'entry', body: what.body, state: [cur.x[0], cur.x[1], cur.x[2], cur.v[0], cur.v[1], cur.v[2]] });
         }
-        soiChanges.push({ t: cur.t, kind: what.kind === 'exit' ? 'exit' : 'entry', body: what.body });
       }
     }
     return true;

@@ -13,4 +13,4 @@ export { verifyNBody } from './verify.ts';
 export type { NBodyResult } from './verify.ts';
 export { freezePlan } from './correct.ts';
 export { NBodyModel, bPlane, bPlaneAxes, burnActions, conicStart, flyNBody } from './verify.ts';
-export type { BPlane, NBodyAction, NBodyModelOptions, NBodyState, FlyResult } from './verify.ts';
+export type { BPlane, NBodyAction, NBodyModelOptions, NBodySoiChange, NBodyState, FlyResult } from './verify.ts';

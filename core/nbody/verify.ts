@@ -20,7 +20,7 @@ import type { Plan } from '../plan/index.ts';
 import type { PlanResult } from '../plan/index.ts';
 import { conicInfo } from '../conic/index.ts';
 import { NBodyModel, type NBodyModelOptions, type NBodyState, type Vec3Tuple } from './model.ts';
-import { flyNBody, type NBodyAction, type NBodySamples, type NBodyStates, type NBodyStats } from './flight.ts';
+import { flyNBody, type NBodyAction, type NBodySamples, type NBodySoiChange, type NBodyStates, type NBodyStats } from './flight.ts';
 import {
   burnActions,
   compareArrival,
@@ -35,7 +35,7 @@ import {
 export { DEFAULT_ATOL_FACTOR, DEFAULT_NBODY_RTOL, NBodyModel } from './model.ts';
 export type { NBodyModelOptions, NBodyState, Vec3Tuple } from './model.ts';
 export { MAX_SAMPLES, SAMPLE_ANGLE, flyNBody, sortActions } from './flight.ts';
-export type { FlyOptions, FlyResult, NBodyAction, NBodySamples, NBodyStates, NBodyStats, ThrustPhase } from './flight.ts';
+export type { FlyOptions, FlyResult, NBodyAction, NBodySamples, NBodySoiChange, Vec3Tuple6, NBodyStates, NBodyStats, ThrustPhase } from './flight.ts';
 export { bPlane, bPlaneAxes } from './bPlane.ts';
 export type { BPlane } from './bPlane.ts';
 export { PROBE_MAX, burnActions, compareArrival, conicArrival, conicStart, probePeriapsis, stateRelativeTo } from './arrival.ts';
@@ -78,7 +78,8 @@ export interface NBodyResult {
   stats: NBodyStats;
   /** The burns as flown. */
   burns: { planEventId: string; t: number; mode: 'impulsive' | 'finite'; dvInertial: Vec3Tuple }[];
-  soiChanges: { t: number; kind: 'exit' | 'entry'; body: number }[];
+  /** SOI changes of the flight, with the ship's state relative to the body left or entered (flight.ts NBodySoiChange). */
+  soiChanges: NBodySoiChange[];
   /** Arrival at the target in both models (null without a target or a conic arrival). */
   arrival: ArrivalComparison | null;
   /** The n-body flight's own first periapsis about the target (burns included), or null. */

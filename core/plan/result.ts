@@ -175,6 +175,11 @@ export interface FlybyReport {
   freeDv: number | null;
   /** Δv burned inside the sphere during the pass, m/s. */
   dvBurned: number;
+  /**
+   * How a model that flies the pass itself found the periapsis (n-body): 'probe' (flown to
+   * x·v = 0) or 'osculating' (the hyperbola at entry). Absent: the incoming conic's periapsis.
+   */
+  periapsisMethod?: 'probe' | 'osculating';
 }
 
 /** How the final orbit compares with the plan's target. */

@@ -21,4 +21,6 @@ export { targetPlan } from './targetPlan.ts';
 export type { ArrivalGoal, ControlChange, FailureReason, LegReport, TargetOptions, TargetProgress, TargetResult } from './targetPlan.ts';
 export { burnsNotFlown, scheduleBudget } from './scheduleBudget.ts';
 export { truthReport } from './truth.ts';
+export { nbodyFlybyReports } from './nbodyFlybys.ts';
+export type { NBodyFlybyOptions } from './nbodyFlybys.ts';
 export type { TruthGoal, TruthOptions, TruthReport } from './truth.ts';

@@ -10,16 +10,18 @@
  *   about the target at the end of the flight. The budget is the schedule's own (scheduleBudget.ts:
  *   every burn counted from its fixed vector, thrust and duration, whatever the path); the
  *   patched-conic reading of the schedule gives only the times and path figures, and when it ends
- *   before a burn (an impact the n-body ship does not meet) a note says so.
+ *   before a burn (an impact the n-body ship does not meet) a note says so. The flyby passes are
+ *   measured from the n-body flight (nbodyFlybys.ts) and listed in the budget as the conic ones are.
  */
 import type { StarSystem } from '../system/index.ts';
 import { findBodyIndex } from '../system/index.ts';
-import type { Budget, Plan, PlanResult, TruthModel } from '../plan/index.ts';
+import type { Budget, FlybyReport, Plan, PlanResult, TruthModel } from '../plan/index.ts';
 import { planTruthModel, truthModelLabel } from '../plan/index.ts';
 import { evaluate } from '../conic/index.ts';
 import { verifyNBody, type NBodyModelOptions, type NBodyResult } from '../nbody/index.ts';
 import { freezeSchedule, isSchedule, planForModel, scheduleActions } from './modelFlight.ts';
 import { burnsNotFlown, scheduleBudget } from './scheduleBudget.ts';
+import { nbodyFlybyReports } from './nbodyFlybys.ts';
 
 const DEG = Math.PI / 180;
 
@@ -45,6 +47,8 @@ export interface TruthReport {
   /** The n-body flight ('nbody' only). */
   nbody: NBodyResult | null;
   budget: Budget;
+  /** Flyby plan events' passes in this model (n-body: measured from the n-body flight, nbodyFlybys.ts; else the patched-conic reports). */
+  flybys: FlybyReport[];
   /** Final orbit about the target at the end of the flight, or null (no target, the ship ends elsewhere, an impact). */
   achieved: { periapsisAltitude: number; apoapsisAltitude: number | null; e: number; i: number } | null;
   /** The plan's target, judged with its own tolerances (empty without a target). */
@@ -111,7 +115,23 @@ export function truthReport(system: StarSystem, plan: Plan, options: TruthOption
   const failures: string[] = [];
   // n-body: the schedule's own budget, every burn counted (the patched-conic reading may end before the last)
   const schedule = model === 'nbody' && isSchedule(flown);
-  const budget = schedule ? scheduleBudget(flown, conic) : conic.budget;
+  let budget = schedule ? scheduleBudget(flown, conic) : conic.budget;
+  // the flyby passes as this model flies them (n-body: measured from its flight, not the conic reading's)
+  let flybys: FlybyReport[] = conic.flybys ?? [];
+  if (nbody) {
+    const { rtol, atol, method, maxSteps, maxStep, gravity, pull, signal } = options;
+    flybys = nbodyFlybyReports(system, flown, nbody, conic, { rtol, atol, method, maxSteps, maxStep, gravity, pull, signal });
+    let marks = 0;
+    for (const e of flown.events) {
+      if (e.type !== 'flyby') continue;
+      marks++;
+      if (flybys.some((f) => f.planEventId === e.id)) continue;
+      const name = system.bodies[findBodyIndex(system, e.body)]?.name ?? e.body;
+      notes.push(`${e.name}: the n-body flight does not pass through ${name}'s sphere of influence`);
+    }
+    // listed as the patched-conic budget lists them: one row per pass found
+    if (marks > 0) budget = { ...budget, flybys: flybys.map((f) => ({ planEventId: f.planEventId, name: f.name, freeDv: f.freeDv })) };
+  }
   if (model === 'nbody') {
     const missed = burnsNotFlown(flown, conic);
     if (missed.length > 0) {
@@ -163,6 +183,7 @@ export function truthReport(system: StarSystem, plan: Plan, options: TruthOption
     conic,
     nbody,
     budget,
+    flybys,
     achieved,
     goals,
     reached: t !== null && achieved !== null && goals.every((g) => g.met),

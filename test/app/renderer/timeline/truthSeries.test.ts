@@ -9,6 +9,8 @@ import { demoPlan } from '../../../fixtures/demoPlan.ts';
 import { demoSystem } from '../../../core/plan/helpers.ts';
 
 const system = demoSystem();
+/** The crossing state (relative to the body) is not read by the timeline; a zero placeholder. */
+const AT: [number, number, number, number, number, number] = [0, 0, 0, 0, 0, 0];
 const index = (id: string) => system.bodies.findIndex((b) => b.id === id);
 const tessel = index('tessel');
 const ochre = index('ochre');
@@ -26,8 +28,8 @@ describe('sphere-of-influence spans of an n-body flight', () => {
     const spans = nbodySoiSpans(
       system,
       [
-        { t: 2 * DAY, kind: 'exit', body: tessel },
-        { t: 240 * DAY, kind: 'entry', body: ochre },
+        { t: 2 * DAY, kind: 'exit', body: tessel, state: AT },
+        { t: 240 * DAY, kind: 'entry', body: ochre, state: AT },
       ],
       tessel,
       0,
@@ -45,11 +47,11 @@ describe('sphere-of-influence spans of an n-body flight', () => {
     const spans = nbodySoiSpans(
       system,
       [
-        { t: 0, kind: 'entry', body: quill },
-        { t: DAY, kind: 'entry', body: quill },
-        { t: DAY, kind: 'exit', body: quill },
-        { t: 5 * DAY, kind: 'exit', body: tessel },
-        { t: 9 * DAY, kind: 'entry', body: ochre },
+        { t: 0, kind: 'entry', body: quill, state: AT },
+        { t: DAY, kind: 'entry', body: quill, state: AT },
+        { t: DAY, kind: 'exit', body: quill, state: AT },
+        { t: 5 * DAY, kind: 'exit', body: tessel, state: AT },
+        { t: 9 * DAY, kind: 'entry', body: ochre, state: AT },
       ],
       tessel,
       0,
@@ -115,8 +117,8 @@ describe('events of an n-body flight', () => {
     ].map((e) => ({ ...e, central: 0, body: -1, distance: 0, altitude: 0, planEventId: null })),
   };
   const soiChanges = [
-    { t: 2 * DAY, kind: 'exit' as const, body: tessel },
-    { t: 239 * DAY, kind: 'entry' as const, body: ochre },
+    { t: 2 * DAY, kind: 'exit' as const, body: tessel, state: AT },
+    { t: 239 * DAY, kind: 'entry' as const, body: ochre, state: AT },
   ];
   const none = { t: new Float64Array(0), v: new Float64Array(0) };
 
