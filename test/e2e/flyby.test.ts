@@ -3,9 +3,10 @@
  * harness.ts). "Far Lantern to Fennick by Moravel" is opened through File → Open; the Budget
  * lists the Moravel pass's free Δv beside the burns; the Target panel lists the flyby leg and
  * targets the plan in n-body in its worker; the targeted plan is applied, and the Budget and the
- * target readout say Fennick's goals are met in n-body. Then the System view is focused on
+ * target readout say Fennick's goals are met in n-body, and the Budget's flyby row becomes the
+ * pass measured from the n-body flight, at the planned periapsis. Then the System view is focused on
  * Moravel at the pass's periapsis time: the n-body path drawn inside Moravel's sphere of
- * influence is the flyby hyperbola, its closest point at the planned periapsis radius. Screenshots at 1024×640
+ * influence is the flyby hyperbola, its closest point at the n-body periapsis. Screenshots at 1024×640
  * and 1920×1080 go to test/output/e2e/. Waits are hang guards only.
  */
 import type { Page } from 'playwright-core';
@@ -21,6 +22,15 @@ let page: Page;
 let errors: string[] = [];
 /** The Moravel pass of the opened plan in patched conics: the point the n-body targeting aims its flyby leg at. */
 let planned: Pass;
+/** The same pass measured from the n-body flight after targeting (the truth report's). */
+let nbodyPass: Pass;
+
+/** A speed as the Budget shows it ("8 990.3 m/s", "8.99 km/s"), in m/s. */
+function shownSpeed(text: string): number {
+  const m = /^([\d\s\u202f.,]+) (m\/s|km\/s)$/.exec(text.trim());
+  expect(m, text).not.toBeNull();
+  return Number(m![1].replace(/[\s\u202f,]/g, '')) * (m![2] === 'km/s' ? 1e3 : 1);
+}
 
 const js = <T>(expr: string): Promise<T> => page.evaluate(expr) as Promise<T>;
 /** Polls the page every 50 ms until `expr` is true, for at most HANG_GUARD_MS (a hang guard, not a speed check). */
@@ -51,11 +61,8 @@ describe.skipIf(!have)('the flyby demo in the app (e2e)', () => {
     await until('window.waymarkDebug.session.evaluation.get().result?.flybys?.length === 1');
     const pass = await js<Pass>('window.waymarkDebug.session.evaluation.get().result.flybys[0]');
     planned = pass;
-    const free = (await page.textContent('[data-testid=flyby-free]'))!;
     // the shown free Δv is the report's, in km/s or m/s as the panel formats speeds
-    const m = /^([\d\s\u202f.,]+) (m\/s|km\/s)$/.exec(free.trim());
-    expect(m, free).not.toBeNull();
-    const shown = Number(m![1].replace(/[\s\u202f,]/g, '')) * (m![2] === 'km/s' ? 1e3 : 1);
+    const shown = shownSpeed((await page.textContent('[data-testid=flyby-free]'))!);
     // the panel rounds to its shown digits: within 1 % of the report
     expect(Math.abs(shown - pass.freeDv!)).toBeLessThan(0.01 * pass.freeDv!);
     expect(await page.textContent('[data-testid=target]')).toMatch(/Fennick/);
@@ -82,19 +89,25 @@ describe.skipIf(!have)('the flyby demo in the app (e2e)', () => {
     expect(await page.getAttribute('[data-testid=target]', 'data-reached')).toBe('true');
     expect(await page.textContent('[data-testid=target]')).toMatch(/Fennick: target reached \(n-body\)/);
     expect(await page.textContent('[data-testid=budget-model]')).toBe('n-body');
+    // the Budget's flyby row is now the pass measured from the n-body flight (the truth report's)
+    const flown = await js<Pass & { periapsisMethod?: string }>('window.waymarkDebug.session.truth.get().report.flybys[0]');
+    expect(flown.periapsisMethod).toBe('probe');
+    expect(Math.abs(shownSpeed((await page.textContent('[data-testid=flyby-free]'))!) - flown.freeDv!)).toBeLessThan(0.01 * flown.freeDv!);
+    // targeted in n-body, the flown periapsis is the planned one to the B-plane goal's tolerance (0.1 %)
+    expect(Math.abs(flown.periapsisRadius - planned.periapsisRadius)).toBeLessThan(1e-3 * planned.periapsisRadius);
+    nbodyPass = flown;
     expect(errors).toEqual([]);
   });
 
   it('focused on Moravel at periapsis, the System view draws the flyby hyperbola', async () => {
-    const pass = planned;
+    const pass = nbodyPass;
     await page.selectOption('[data-testid=focus]', `body:${pass.body}`);
     await page.evaluate(
       (t) => (window as unknown as { waymarkDebug: { session: { cursor: { set(t: number): void } } } }).waymarkDebug.session.cursor.set(t),
       pass.tPeriapsis,
     );
-    // the n-body path drawn in Moravel's frame: its closest point to Moravel is the periapsis the
-    // targeting aimed at (the planned pass's; the flyby leg's B-plane goal is met to its
-    // tolerance, and the drawn polyline samples the hyperbola: within 2 % of it)
+    // the n-body path drawn in Moravel's frame: its closest point to Moravel is the n-body
+    // periapsis (the drawn polyline samples the hyperbola: within 2 % of it)
     const drawn = await js<{ lines: number; closest: number }>(`window.waymarkDebug.scene.pathInFrame(${pass.body})`);
     expect(drawn.lines).toBeGreaterThan(0);
     expect(drawn.closest).toBeGreaterThan(pass.periapsisRadius * 0.98);

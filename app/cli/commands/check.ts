@@ -175,14 +175,15 @@ export function addCheckCommand(program: Command): void {
             failures,
             budget: report.budget,
             flags: modelFlags(report),
+            flybys: report.flybys,
             target: model === 'nbody' ? null : report.conic.target,
             truth: { reached: report.reached, marginHolds: report.marginHolds, achieved: report.achieved, goals: report.goals, notes: report.notes },
             warnings: loaded.warnings,
           });
         } else {
           printWarnings(loaded.warnings);
-          // the budget in the model judged (n-body: the schedule's, every burn counted)
-          const out = [budgetText(system, plan, { ...report.conic, budget: report.budget }, modelFlags(report))];
+          // the budget and the flyby passes in the model judged (n-body: the schedule's, every burn counted; the passes measured from the n-body flight)
+          const out = [budgetText(system, plan, { ...report.conic, budget: report.budget, flybys: report.flybys }, modelFlags(report))];
           const target = targetText(system, report);
           if (target.length > 0) out.push('', ...target);
           for (const n of report.notes) out.push(`note: ${n}`);

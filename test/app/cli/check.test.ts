@@ -44,6 +44,22 @@ describe.concurrent('waymark check', () => {
     expect(t.stdout).toMatch(new RegExp(`flyby +${f.freeDv.toFixed(1)} m/s {2}free at Moravel \\(Moravel flyby\\): periapsis \\d+ km`));
   });
 
+  it('the flyby demo read in n-body: the pass printed and in --json is the one measured from the n-body flight', async () => {
+    const args = ['check', 'assets/plans/tessel-moravel-fennick.plan.json', '--model', 'nbody'];
+    const j = JSON.parse((await runCli([...args, '--json'])).stdout);
+    const conic = JSON.parse((await runCli(['check', 'assets/plans/tessel-moravel-fennick.plan.json', '--model', 'conic', '--json'])).stdout);
+    const f = j.flybys[0];
+    expect(f.periapsisMethod).toBe('probe');
+    // the untargeted plan drifts over its 1000-day cruise in n-body: its pass is not the patched-conic one
+    // (the n-body periapsis lies far outside the planned one), so the line cannot be the conic reading
+    expect(f.periapsisRadius).toBeGreaterThan(2 * conic.flybys[0].periapsisRadius);
+    expect(j.budget.flybys[0].freeDv).toBe(f.freeDv);
+    const t = await runCli(args);
+    expect(t.stdout).toMatch(
+      new RegExp(`flyby +${f.freeDv.toFixed(1)} m/s {2}free at Moravel \\(Moravel flyby\\): periapsis ${Math.round(f.periapsisAltitude / 1000)} km`),
+    );
+  });
+
   it('the negative-margin demo: exits 1 and says why', async () => {
     const r = await runCli(['check', HEAVY]);
     expect(r.code).toBe(1);
