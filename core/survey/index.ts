@@ -1,2 +1,16 @@
-/** The whole system at a glance: the Δv map and the window calendar (front door). */
-export {};
+export { ASCENT_RULES, LOW_ORBIT_MARGIN, apoapsisBurn, ascentFigures, lowOrbitAltitude } from './ascent.ts';
+export type { AscentFigures } from './ascent.ts';
+export {
+  CALENDAR_RESOLUTION,
+  CALENDAR_WITHIN,
+  CALENDAR_YEARS,
+  MAX_CALENDAR_YEARS,
+  TOF_SAMPLES,
+  assembleCalendar,
+  calendarPair,
+  pairPorkchopRequest,
+  planetPairs,
+  resolveCalendarRequest,
+  windowCalendar,
+} from './calendar.ts';
+export type { Calendar, CalendarOptions, CalendarPair, CalendarPairRequest, CalendarRequest, CalendarWindow, ResolvedCalendar, ResolvedPair } from './calendar.ts';

@@ -30,6 +30,8 @@ export function buildStarSystem(doc: SystemDocument): StarSystem {
       massKg: s.mu_m3_s2 !== undefined ? null : (s.mass_kg as number),
       radius: s.radius_m,
       safeAlt: s.min_safe_altitude_m ?? 0,
+      atmosphereHeight: 0,
+      hasSurface: false,
       rotationPeriod: null,
       colour: s.colour ?? null,
       elements: null,
@@ -52,6 +54,8 @@ export function buildStarSystem(doc: SystemDocument): StarSystem {
       massKg: b.mu_m3_s2 !== undefined ? null : (b.mass_kg as number),
       radius: b.radius_m,
       safeAlt: b.min_safe_altitude_m,
+      atmosphereHeight: b.atmosphere_height_m ?? 0,
+      hasSurface: b.surface ?? true,
       rotationPeriod: b.rotation_period_s ?? null,
       colour: b.colour ?? null,
       elements: {
@@ -150,6 +154,8 @@ export function systemToDocument(system: StarSystem): SystemDocument {
     else d.mu_m3_s2 = b.mu;
     d.radius_m = b.radius;
     d.min_safe_altitude_m = b.safeAlt;
+    if (b.atmosphereHeight !== 0) d.atmosphere_height_m = b.atmosphereHeight;
+    if (!b.hasSurface) d.surface = false;
     if (b.rotationPeriod !== null) d.rotation_period_s = b.rotationPeriod;
     if (b.colour !== null) d.colour = b.colour;
     const el = b.elements!;

@@ -67,6 +67,10 @@ export interface Body {
   radius: number;
   /** Minimum safe altitude above the mean radius (atmosphere top or terrain), m. */
   safeAlt: number;
+  /** Height of the atmosphere above the mean radius, m: where the air is too thin to matter; 0 for an airless body. */
+  atmosphereHeight: number;
+  /** False for a body without a solid surface to land on or launch from (a gas giant, and the star); true otherwise. */
+  hasSurface: boolean;
   /** Sidereal rotation period, s (negative: retrograde), or null when not given. */
   rotationPeriod: number | null;
   /** Display colour #rrggbb, or null when the file gives none (the view picks one). */

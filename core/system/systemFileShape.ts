@@ -92,6 +92,19 @@ const body = z
     min_safe_altitude_m: z.number().min(0).max(1e13).meta({
       description: 'Minimum safe altitude above the mean radius in metres: top of the atmosphere, or highest terrain for an airless body.',
     }),
+    atmosphere_height_m: z
+      .number()
+      .min(0)
+      .max(1e13)
+      .meta({
+        description:
+          'Optional height of the atmosphere above the mean radius in metres: where the air becomes too thin to matter (for ascent losses and aerobraking). Absent or 0: airless.',
+      })
+      .optional(),
+    surface: z
+      .boolean()
+      .meta({ description: 'Optional: false for a body without a solid surface to land on or launch from (a gas giant). Default true.' })
+      .optional(),
     rotation_period_s: z
       .number()
       .min(-1e12)

@@ -11,7 +11,8 @@
  * lies beyond half the parent's Hill radius, sibling orbits whose distance ranges overlap
  * (at most MAX_OVERLAP_WARNINGS of them, then one warning counting the rest),
  * a periapsis inside the parent's atmosphere / terrain band, an implausible minimum safe
- * altitude (larger than the body's radius), an implausible mean density, a sphere of
+ * altitude (larger than the body's radius), an atmosphere higher than the body's radius or than
+ * its minimum safe altitude, an implausible mean density, a sphere of
  * influence smaller than the body itself.
  */
 
@@ -38,6 +39,8 @@ interface Node {
   muField: string;
   radius: number;
   safeAlt: number;
+  /** Atmosphere height, m (0 airless, and for the star). */
+  air: number;
   parent: number; // index into nodes, −1 for the star, −2 unknown
   a: number;
   e: number;
@@ -59,6 +62,7 @@ export function checkSystemDocument(doc: SystemDocument): ValidationIssue[] {
     muField: s.mu_m3_s2 !== undefined ? 'mu_m3_s2' : 'mass_kg',
     radius: s.radius_m,
     safeAlt: s.min_safe_altitude_m ?? 0,
+    air: 0,
     parent: -1,
     a: 0,
     e: 0,
@@ -71,6 +75,7 @@ export function checkSystemDocument(doc: SystemDocument): ValidationIssue[] {
       muField: b.mu_m3_s2 !== undefined ? 'mu_m3_s2' : 'mass_kg',
       radius: b.radius_m,
       safeAlt: b.min_safe_altitude_m,
+      air: b.atmosphere_height_m ?? 0,
       parent: -2,
       a: b.orbit.a_m,
       e: b.orbit.e,
@@ -198,6 +203,14 @@ export function checkSystemDocument(doc: SystemDocument): ValidationIssue[] {
     }
     if (n.safeAlt > n.radius) {
       warn(`${n.path}.min_safe_altitude_m`, `is larger than the body's radius (${km(n.safeAlt)} > ${km(n.radius)}); check the units`);
+    }
+    if (n.air > n.radius) {
+      warn(`${n.path}.atmosphere_height_m`, `is larger than "${n.id}"'s radius (${km(n.air)} > ${km(n.radius)}); check the units`);
+    } else if (n.air > n.safeAlt) {
+      warn(
+        `${n.path}.atmosphere_height_m`,
+        `is above "${n.id}"'s minimum safe altitude (${km(n.air)} > ${km(n.safeAlt)}); the minimum safe altitude is meant to clear the air`,
+      );
     }
     const density = n.mu / G_NEWTON / ((4 / 3) * Math.PI * n.radius ** 3);
     if (density < PLAUSIBLE_DENSITY_KG_M3[0] || density > PLAUSIBLE_DENSITY_KG_M3[1]) {

@@ -54,6 +54,12 @@ const BAD_FILES: { name: string; text: () => string; expected: string[] }[] = [
   { name: 'e >= 1', text: () => edited((d) => (d.bodies[3].orbit.e = 1)), expected: ['bodies[3].orbit.e: must be < 1'] },
   { name: 'negative e', text: () => edited((d) => (d.bodies[3].orbit.e = -0.1)), expected: ['bodies[3].orbit.e: must be >= 0'] },
   { name: 'negative radius', text: () => edited((d) => (d.bodies[1].radius_m = -5)), expected: ['bodies[1].radius_m: must be > 0'] },
+  {
+    name: 'negative atmosphere height',
+    text: () => edited((d) => (d.bodies[1].atmosphere_height_m = -1)),
+    expected: ['bodies[1].atmosphere_height_m: must be >= 0'],
+  },
+  { name: 'surface not a boolean', text: () => edited((d) => (d.bodies[1].surface = 'no')), expected: ['bodies[1].surface: must be true or false'] },
   { name: 'a <= 0', text: () => edited((d) => (d.bodies[1].orbit.a_m = 0)), expected: ['bodies[1].orbit.a_m: must be > 0'] },
   { name: 'inclination > 180', text: () => edited((d) => (d.bodies[1].orbit.i_deg = 200)), expected: ['bodies[1].orbit.i_deg: must be <= 180'] },
   { name: 'number as a string', text: () => edited((d) => (d.bodies[1].mu_m3_s2 = '3e14')), expected: ['bodies[1].mu_m3_s2: must be a number'] },
@@ -405,5 +411,33 @@ describe('the schema', () => {
   it('documents units and degrees in its description', () => {
     expect(schema.description).toMatch(/DEGREES/);
     expect(schema.description).toMatch(/_m metres/);
+  });
+});
+
+describe('atmosphere_height_m and surface (optional body fields)', () => {
+  it('reads the demo: Tessel air 90 km, Ochre 40 km, Moravel 1,000 km without a surface, the others airless with one', () => {
+    const { system } = parseSystemFile(demoText());
+    const by = (id: string) => system.bodies[system.indexById[id]];
+    expect(by('tessel').atmosphereHeight).toBe(90000);
+    expect(by('ochre').atmosphereHeight).toBe(40000);
+    expect(by('moravel').atmosphereHeight).toBe(1e6);
+    expect(by('moravel').hasSurface).toBe(false);
+    for (const id of ['kiln', 'quill', 'skerry', 'lough', 'fennick']) {
+      expect(by(id).atmosphereHeight).toBe(0);
+      expect(by(id).hasSurface).toBe(true);
+    }
+  });
+
+  it('loads a file without the fields as airless with a surface and writes it back without them, byte for byte', () => {
+    // The demo as written before the fields existed: their lines taken out of the text.
+    const t = demoText()
+      .split('\n')
+      .filter((line) => !/"(atmosphere_height_m|surface)":/.test(line))
+      .join('\n');
+    expect(t).not.toBe(demoText());
+    const { system } = parseSystemFile(t);
+    expect(system.bodies.every((b) => b.atmosphereHeight === 0)).toBe(true);
+    expect(system.bodies.slice(1).every((b) => b.hasSurface)).toBe(true);
+    expect(serializeSystemFile(system)).toBe(t);
   });
 });

@@ -113,3 +113,17 @@ describe('model → document', () => {
     expect(out.bodies[0].orbit.i_deg).toBe(0);
   });
 });
+
+describe('atmosphere and surface', () => {
+  it('builds airless bodies with a surface by default, the star without one, and writes the fields back only when set', () => {
+    const doc = smallDocument([planet('p', { a_m: 1e11 }), planet('g', { a_m: 2e11 }, { atmosphere_height_m: 5e4, surface: false })]);
+    const sys = buildStarSystem(doc);
+    expect([sys.bodies[0].hasSurface, sys.bodies[1].hasSurface, sys.bodies[2].hasSurface]).toEqual([false, true, false]);
+    expect([sys.bodies[1].atmosphereHeight, sys.bodies[2].atmosphereHeight]).toEqual([0, 5e4]);
+    const back = systemToDocument(sys);
+    expect('atmosphere_height_m' in back.bodies[0]).toBe(false);
+    expect('surface' in back.bodies[0]).toBe(false);
+    expect(back.bodies[1].atmosphere_height_m).toBe(5e4);
+    expect(back.bodies[1].surface).toBe(false);
+  });
+});

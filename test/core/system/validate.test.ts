@@ -97,3 +97,16 @@ describe('checkSystemDocument: errors', () => {
     ]);
   });
 });
+
+describe('checkSystemDocument: atmosphere height', () => {
+  it("warns when the air reaches above the body's minimum safe altitude, or beyond its radius (units)", () => {
+    const above = smallDocument([planet('p', { a_m: 1e11 }, { atmosphere_height_m: 2e5 })]);
+    expect(rules(above, 'warning')).toEqual([
+      'bodies[0].atmosphere_height_m: is above "p"\'s minimum safe altitude (200 km > 100 km); the minimum safe altitude is meant to clear the air',
+    ]);
+    const huge = smallDocument([planet('p', { a_m: 1e11 }, { atmosphere_height_m: 7e6 })]);
+    expect(rules(huge, 'warning')).toEqual(['bodies[0].atmosphere_height_m: is larger than "p"\'s radius (7,000 km > 6,000 km); check the units']);
+    const fine = smallDocument([planet('p', { a_m: 1e11 }, { atmosphere_height_m: 1e5, surface: false })]);
+    expect(checkSystemDocument(fine)).toEqual([]);
+  });
+});
