@@ -72,6 +72,10 @@ export const EXPORT_FILTERS: Record<ExportKind, FileFilter> = {
   'schedule-csv': { name: 'Burn schedule for a game (CSV)', extensions: ['csv'] },
   'runtime-json': { name: 'Runtime ephemeris (JSON)', extensions: ['json'] },
   'runtime-bin': { name: 'Runtime ephemeris (binary)', extensions: ['bin'] },
+  'map-svg': { name: 'Δv map (SVG)', extensions: ['svg'] },
+  'map-png': { name: 'Δv map (PNG)', extensions: ['png'] },
+  'map-json': { name: 'Δv map (JSON)', extensions: ['json'] },
+  'map-csv': { name: 'Δv map table (CSV)', extensions: ['csv'] },
 };
 const EXPORT_EXTENSIONS: Record<ExportKind, string[]> = {
   oem: ['.oem', '.txt'],
@@ -82,6 +86,10 @@ const EXPORT_EXTENSIONS: Record<ExportKind, string[]> = {
   'schedule-csv': ['.csv'],
   'runtime-json': ['.json'],
   'runtime-bin': ['.bin'],
+  'map-svg': ['.svg'],
+  'map-png': ['.png'],
+  'map-json': ['.json'],
+  'map-csv': ['.csv'],
 };
 
 export interface HandlerDeps {

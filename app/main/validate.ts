@@ -55,7 +55,20 @@ export function requireFileName(name: string, v: unknown): string {
   return s;
 }
 
-export const EXPORT_KINDS: readonly ExportKind[] = ['oem', 'csv', 'burns-csv', 'report', 'schedule-json', 'schedule-csv', 'runtime-json', 'runtime-bin'];
+export const EXPORT_KINDS: readonly ExportKind[] = [
+  'oem',
+  'csv',
+  'burns-csv',
+  'report',
+  'schedule-json',
+  'schedule-csv',
+  'runtime-json',
+  'runtime-bin',
+  'map-svg',
+  'map-png',
+  'map-json',
+  'map-csv',
+];
 
 /** Bytes (a Uint8Array) within the size limit. */
 export function requireBytes(name: string, v: unknown, max = MAX_FILE_CHARS): Uint8Array {

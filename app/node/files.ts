@@ -468,6 +468,10 @@ export const OUTPUT_KIND_WORDS: Record<OutputKind, string> = {
   'schedule-csv': 'a burn schedule for a game (CSV)',
   'runtime-json': 'a runtime ephemeris (JSON)',
   'runtime-bin': 'a runtime ephemeris (binary)',
+  'map-svg': 'a Δv map diagram (SVG)',
+  'map-png': 'a Δv map diagram (PNG)',
+  'map-json': 'a Δv map (JSON)',
+  'map-csv': 'a Δv map table (CSV)',
   'grid-json': 'a porkchop grid (JSON)',
   'grid-csv': 'a porkchop grid (CSV)',
 };
@@ -486,6 +490,11 @@ const EXPORT_SIGNATURES: [ExportKind | 'grid-json' | 'grid-csv', RegExp][] = [
   ['schedule-csv', /^step,elapsed_(?:s|steps),id,name,central,dv_x_/],
   ['runtime-json', /^\{\s*"format"\s*:\s*"waymark-runtime-ephemeris"/],
   ['runtime-bin', /^WMRE/],
+  // the Δv map: the SVG's root names the map's system (core/io deltaVMapSvg.ts), the PNG signature (ISO/IEC 15948 §5.2; byte 0x89 reads as U+FFFD), the JSON's first key, the table's header
+  ['map-svg', /^<svg xmlns="http:\/\/www\.w3\.org\/2000\/svg"[^>]* data-map-system="/],
+  ['map-png', /^\uFFFDPNG\r\n/],
+  ['map-json', /^\{\s*"system"\s*:\s*"[^"]*"\s*,\s*"nodes"\s*:/],
+  ['map-csv', /^from,to,kind,dv_mps,/],
   ['grid-json', /^\{"request":\{/],
   ['grid-csv', /^i,j,departure_s,(tof_s|arrival_s),/],
 ];

@@ -67,10 +67,12 @@ export type PlanExportKind = 'oem' | 'csv' | 'burns-csv' | 'report';
  * CSV (core/io gameSchedule.ts) and the runtime ephemeris as JSON or binary (core/runtime format.ts).
  */
 export type HandoffExportKind = 'schedule-json' | 'schedule-csv' | 'runtime-json' | 'runtime-bin';
-export type ExportKind = PlanExportKind | HandoffExportKind;
+/** The Survey screen's Δv map (core/io deltaVMapSvg.ts; core/survey deltaVMap): the diagram as SVG or PNG, the map as JSON, its table as CSV. */
+export type MapExportKind = 'map-svg' | 'map-png' | 'map-json' | 'map-csv';
+export type ExportKind = PlanExportKind | HandoffExportKind | MapExportKind;
 
 /** The exports whose data is bytes (a Uint8Array), not text. */
-export const BINARY_EXPORTS: readonly ExportKind[] = ['runtime-bin'];
+export const BINARY_EXPORTS: readonly ExportKind[] = ['runtime-bin', 'map-png'];
 
 /** What a menu item asks the renderer to do. */
 export type MenuCommand =

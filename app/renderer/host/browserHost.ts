@@ -62,6 +62,10 @@ const EXPORT_MIME: Record<ExportKind, string> = {
   'schedule-csv': 'text/csv',
   'runtime-json': 'application/json',
   'runtime-bin': 'application/octet-stream',
+  'map-svg': 'image/svg+xml',
+  'map-png': 'image/png',
+  'map-json': 'application/json',
+  'map-csv': 'text/csv',
 };
 
 function isAbort(err: unknown): boolean {

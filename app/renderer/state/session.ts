@@ -38,6 +38,7 @@ import type { StarSystem } from '../../../core/system/index.ts';
 import {
   NewerVersionError,
   type PlanExportKind,
+  type ExportKind,
   type FileRef,
   type Host,
   type MenuCommand,
@@ -436,6 +437,16 @@ export class Session {
       await this.deps.host.exportFile(kind, f.name, f.text);
     } catch (err) {
       this.noticeFromError('The export failed', err);
+    }
+  }
+
+  /** Saves data a screen made (a Survey export) through the host; false when cancelled or failed (the failure is a notice). */
+  async exportData(kind: ExportKind, suggestedName: string, data: string | Uint8Array): Promise<boolean> {
+    try {
+      return await this.deps.host.exportFile(kind, suggestedName, data);
+    } catch (err) {
+      this.noticeFromError('The export failed', err);
+      return false;
     }
   }
 
