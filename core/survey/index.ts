@@ -14,3 +14,5 @@ export {
   windowCalendar,
 } from './calendar.ts';
 export type { Calendar, CalendarOptions, CalendarPair, CalendarPairRequest, CalendarRequest, CalendarWindow, ResolvedCalendar, ResolvedPair } from './calendar.ts';
+export { DEFAULT_MAP_SAMPLES, MAP_TOF_SPAN, deltaVMap, escapeBurn, hohmannEstimate, mapPath, mapTransferRequest } from './deltaVMap.ts';
+export type { DeltaVMap, DeltaVMapOptions, MapEdge, MapEdgeKind, MapNode, MapNodeKind } from './deltaVMap.ts';
