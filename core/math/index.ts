@@ -11,3 +11,5 @@ export { stream } from './random.ts';
 export type { Seed } from './random.ts';
 export { brent } from './roots.ts';
 export type { Vec3, Vec3Like } from './vec3.ts';
+export { minimize } from './roots.ts';
+export type { MinimumResult } from './roots.ts';

@@ -17,3 +17,5 @@ export { SEQUENCE_METHOD, searchSequence } from './sequence.ts';
 export type { SequenceFlyby, SequenceLeg, SequenceRequest, SequenceResult, SequenceSolution } from './sequence.ts';
 export { findWindows } from './windows.ts';
 export type { TransferWindow, WindowOptions } from './windows.ts';
+export { evaluateTransfer, transferMetric } from './transfer.ts';
+export { nelderMead } from './refine.ts';

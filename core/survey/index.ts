@@ -5,7 +5,7 @@ export {
   CALENDAR_WITHIN,
   CALENDAR_YEARS,
   MAX_CALENDAR_YEARS,
-  TOF_SAMPLES,
+  TOF_SAMPLES_PER_PERIOD,
   assembleCalendar,
   calendarPair,
   pairPorkchopRequest,
@@ -13,6 +13,15 @@ export {
   resolveCalendarRequest,
   windowCalendar,
 } from './calendar.ts';
-export type { Calendar, CalendarOptions, CalendarPair, CalendarPairRequest, CalendarRequest, CalendarWindow, ResolvedCalendar, ResolvedPair } from './calendar.ts';
+export type {
+  Calendar,
+  CalendarOptions,
+  CalendarPair,
+  CalendarPairRequest,
+  CalendarRequest,
+  CalendarWindow,
+  ResolvedCalendar,
+  ResolvedPair,
+} from './calendar.ts';
 export { DEFAULT_MAP_SAMPLES, MAP_TOF_SPAN, deltaVMap, escapeBurn, hohmannEstimate, mapPath, mapTransferRequest } from './deltaVMap.ts';
 export type { DeltaVMap, DeltaVMapOptions, MapEdge, MapEdgeKind, MapNode, MapNodeKind } from './deltaVMap.ts';
