@@ -53,3 +53,6 @@ export { parseSystemFile } from './systemFile.ts';
 export { parseQuantity, parseRange, parseVector } from './units.ts';
 export type { Dimension } from './units.ts';
 export { decodeUtf8, invalidUtf8Offset } from './utf8.ts';
+export { deltaVMapLayout, deltaVMapSvg, dvWords, mapLayoutBodies } from './deltaVMapSvg.ts';
+export type { DeltaVMapLayout, DeltaVMapSvgOptions, MapLayoutBody } from './deltaVMapSvg.ts';
+export { MAP_CSV_COLUMNS, deltaVMapCsv } from './deltaVMapCsv.ts';
