@@ -19,6 +19,7 @@ import { addRouteCommand } from './commands/route.ts';
 import { addSequenceCommand } from './commands/sequence.ts';
 import { addTargetCommand } from './commands/target.ts';
 import { addWindowsCommand } from './commands/windows.ts';
+import { addMapCommand } from './commands/map.ts';
 import { EXIT_BAD_INPUT, EXIT_OK, termSafe } from './output.ts';
 import { addAllExamples } from './examples.ts';
 
@@ -43,6 +44,7 @@ export function buildProgram(): Command {
   addTargetCommand(program);
   addRouteCommand(program);
   addDisperseCommand(program);
+  addMapCommand(program);
   addAllExamples(program);
   return program;
 }
