@@ -102,6 +102,7 @@ export async function buildCommandLine(): Promise<void> {
     entryPoints: {
       'workers/porkchopWorker': `${repo}app/cli/workers/porkchopWorker.ts`,
       'workers/disperseWorker': `${repo}app/cli/workers/disperseWorker.ts`,
+      'workers/calendarWorker': `${repo}app/cli/workers/calendarWorker.ts`,
       worker: join(dirname(createRequire(import.meta.url).resolve('piscina')), 'worker.js'),
     },
     outdir: `${dist}/cli`,

@@ -66,6 +66,10 @@ export const COMMAND_EXAMPLES: Readonly<Record<string, readonly string[]>> = {
   route: ['waymark route --system assets/systems/ilmar.system.json --from tessel:300km --to Skerry:500km --after 10d --before 200d -o route.plan.json'],
   disperse: ['waymark disperse assets/plans/tessel-to-ochre.plan.json --samples 200 --seed 7'],
   map: ['waymark map --system assets/systems/ilmar.system.json', 'waymark map --system assets/systems/ilmar.system.json --aero --json'],
+  calendar: [
+    'waymark calendar --system assets/systems/ilmar.system.json',
+    'waymark calendar --system assets/systems/ilmar.system.json --years 5 --within 5 --pair tessel:ochre --pair ochre:tessel --csv',
+  ],
 };
 
 /** The path of names of a command (`calc kepler`), without the program's name. */

@@ -20,6 +20,7 @@ import { addSequenceCommand } from './commands/sequence.ts';
 import { addTargetCommand } from './commands/target.ts';
 import { addWindowsCommand } from './commands/windows.ts';
 import { addMapCommand } from './commands/map.ts';
+import { addCalendarCommand } from './commands/calendar.ts';
 import { EXIT_BAD_INPUT, EXIT_OK, termSafe } from './output.ts';
 import { addAllExamples } from './examples.ts';
 
@@ -45,6 +46,7 @@ export function buildProgram(): Command {
   addRouteCommand(program);
   addDisperseCommand(program);
   addMapCommand(program);
+  addCalendarCommand(program);
   addAllExamples(program);
   return program;
 }

@@ -56,3 +56,4 @@ export { decodeUtf8, invalidUtf8Offset } from './utf8.ts';
 export { deltaVMapLayout, deltaVMapSvg, dvWords, mapLayoutBodies } from './deltaVMapSvg.ts';
 export type { DeltaVMapLayout, DeltaVMapSvgOptions, MapLayoutBody } from './deltaVMapSvg.ts';
 export { MAP_CSV_COLUMNS, deltaVMapCsv } from './deltaVMapCsv.ts';
+export { CALENDAR_CSV_COLUMNS, calendarCsv } from './calendarCsv.ts';

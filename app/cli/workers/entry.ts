@@ -4,7 +4,7 @@
  * In the built command line (app/cli/build.ts) this module is part of dist/cli/waymark.js and
  * the bodies are built JavaScript in dist/cli/workers/, started with no loader at all.
  */
-export type WorkerName = 'porkchopWorker' | 'disperseWorker';
+export type WorkerName = 'porkchopWorker' | 'disperseWorker' | 'calendarWorker';
 
 const here = import.meta.url;
 
