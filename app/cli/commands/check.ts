@@ -19,13 +19,22 @@
  * (value, wanted ± tolerance, met) and the verdict with the model it was judged in; file
  * warnings go to stderr. An n-body check shows a progress bar on a terminal's stderr. `--json`:
  * { plan, system, model, label, truthModel, comparison, holds, failures, budget, flags, target,
- * truth, warnings } in SI (`target` is the patched-conic readout, null when judged in n-body;
+ * truth, warnings, sky } in SI (`target` is the patched-conic readout, null when judged in n-body;
  * `truth` the goals, the orbit reached and the notes of the model judged).
+ * After the target lines, the author's readouts (core/sky, skyReadout): one line per shadow pass
+ * (body, umbra or penumbra, from – to in the system calendar, duration; conical shadow model) and
+ * the one-way light time to the home body (the calendar's home world, else the plan's start
+ * body), min – max over the flight; read off the patched-conic flight of the model judged
+ * (`conic`, `finite`), or of the burn schedule when judged in n-body (the command line keeps no
+ * n-body samples), labelled with the model read. `--json`: `sky: { model, shadowModel, passes,
+ * eclipses, inShadow, light: { body, min, max } }` in s.
  */
 import type { Command } from 'commander';
 import type { Flag, Plan, PlanResult } from '../../../core/plan/index.ts';
 import { planTruthModel, truthModelLabel, type TruthModel } from '../../../core/plan/index.ts';
-import { formatCompactDate } from '../../../core/system/index.ts';
+import { shipStateAt } from '../../../core/conic/index.ts';
+import { lightTimeAt, type ShadowPass, shadowPasses } from '../../../core/sky/index.ts';
+import { bodyState, findBodyIndex, formatCompactDate, formatElapsed } from '../../../core/system/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import type { TruthReport } from '../../../core/target/index.ts';
 import { loadPlanFile } from '../../node/files.ts';
@@ -134,6 +143,82 @@ export function budgetText(system: StarSystem, plan: Plan, result: PlanResult, f
   return out.join('\n');
 }
 
+/** The author's readouts of a plan read in a model (see the module comment). */
+export interface SkyReadout {
+  /** Words of the flight read ("patched conics", "finite burns"). */
+  model: string;
+  shadowModel: 'conical';
+  passes: ShadowPass[];
+  eclipses: number;
+  /** Time in shadow, s. */
+  inShadow: number;
+  light: { body: string; min: number; max: number; samples: number };
+}
+
+/** Light-time samples over the flight for its range. */
+const LIGHT_SAMPLES = 400;
+
+/** Shadow passes and the light-time range of the flight the report reads in patched conics (see the module comment). */
+export function skyReadout(system: StarSystem, report: TruthReport): SkyReadout | null {
+  const r = report.conic;
+  if (r.segments.length === 0 || !(r.t1 >= r.t0)) return null;
+  const s6 = new Float64Array(6);
+  const c6 = new Float64Array(6);
+  const shipAt = (t: number, out: Float64Array) => {
+    const k = shipStateAt(r, t, s6);
+    bodyState(system, r.segments[k].central, t, c6, 0);
+    for (let j = 0; j < 6; j++) out[j] = s6[j] + c6[j];
+  };
+  const shadow = shadowPasses(system, shipAt, r.t0, r.t1, { model: 'conical' });
+  const home = system.calendar.homeIndex;
+  const start = findBodyIndex(system, report.plan.start.body);
+  const body = home >= 0 ? home : Math.max(0, start);
+  let min = Infinity;
+  let max = -Infinity;
+  const p = new Float64Array(6);
+  for (let k = 0; k < LIGHT_SAMPLES; k++) {
+    const t = r.t0 + ((r.t1 - r.t0) * k) / (LIGHT_SAMPLES - 1);
+    shipAt(t, p);
+    const tau = lightTimeAt(system, body, t, p[0], p[1], p[2]);
+    min = Math.min(min, tau);
+    max = Math.max(max, tau);
+  }
+  return {
+    model: report.model === 'finite' ? 'finite burns' : 'patched conics',
+    shadowModel: 'conical',
+    passes: shadow.passes,
+    eclipses: shadow.eclipses,
+    inShadow: shadow.inShadow,
+    light: { body: system.bodies[body].name, min, max, samples: LIGHT_SAMPLES },
+  };
+}
+
+/** A duration in words: "0.02 s", "13 min 52 s", "2 h 05 min" (longer: the calendar's elapsed time). */
+function span(system: StarSystem, s: number): string {
+  if (s < 60) return `${s.toFixed(s < 10 ? 2 : 1)} s`;
+  if (s < 3600) return `${Math.floor(s / 60)} min ${String(Math.floor(s % 60)).padStart(2, '0')} s`;
+  if (s < 86400) return `${Math.floor(s / 3600)} h ${String(Math.floor((s % 3600) / 60)).padStart(2, '0')} min`;
+  return formatElapsed(system.calendar, s);
+}
+
+/** The readouts' text lines: one per shadow pass, then the light-time range. */
+export function skyText(system: StarSystem, sky: SkyReadout, judged: TruthModel): string[] {
+  const cal = system.calendar;
+  const read = judged === 'nbody' ? `${sky.model}: the burn schedule's flight, the n-body flight keeps no samples here` : sky.model;
+  const out = [`sky (${read}; ${sky.shadowModel} shadow model):`];
+  for (const p of sky.passes)
+    out.push(
+      `  shadow  ${pad(`${p.bodyName} ${p.kind}`, 20)} ${formatCompactDate(cal, p.t0, { seconds: true })} – ${formatCompactDate(cal, p.t1, { seconds: true })}  ${span(system, p.t1 - p.t0)}`,
+    );
+  out.push(
+    `  ${sky.eclipses === 0 ? 'no shadow: sunlight all the flight' : `${sky.eclipses} eclipse${sky.eclipses === 1 ? '' : 's'}, ${span(system, sky.inShadow)} in shadow`}`,
+  );
+  out.push(
+    `  light time to ${sky.light.body}  ${span(system, sky.light.min)} – ${span(system, sky.light.max)}  (one way; min – max of ${sky.light.samples} times)`,
+  );
+  return out;
+}
+
 /** The verdict line and the failing conditions. */
 export function verdictText(report: TruthReport, truth: TruthModel, failures: readonly string[]): string[] {
   const head = `judged in ${modelWords(report.model, truth)}: ${failures.length === 0 ? 'HOLDS' : 'DOES NOT HOLD'}`;
@@ -163,6 +248,7 @@ export function addCheckCommand(program: Command): void {
         const report = readInModel(system, plan, model, !!o.json);
         const failures = failingConditions(system, report);
         const holds = failures.length === 0;
+        const sky = skyReadout(system, report);
         if (o.json) {
           printJson({
             plan: plan.name,
@@ -179,6 +265,7 @@ export function addCheckCommand(program: Command): void {
             target: model === 'nbody' ? null : report.conic.target,
             truth: { reached: report.reached, marginHolds: report.marginHolds, achieved: report.achieved, goals: report.goals, notes: report.notes },
             warnings: loaded.warnings,
+            sky,
           });
         } else {
           printWarnings(loaded.warnings);
@@ -186,6 +273,7 @@ export function addCheckCommand(program: Command): void {
           const out = [budgetText(system, plan, { ...report.conic, budget: report.budget, flybys: report.flybys }, modelFlags(report))];
           const target = targetText(system, report);
           if (target.length > 0) out.push('', ...target);
+          if (sky) out.push('', ...skyText(system, sky, model));
           for (const n of report.notes) out.push(`note: ${n}`);
           out.push('', ...verdictText(report, truth, failures));
           printText(out.join('\n'));
