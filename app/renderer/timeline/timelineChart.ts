@@ -5,6 +5,8 @@
  * component passes data in and receives cursor intents; moving the cursor only moves one group.
  * The corner above the lane titles names the model the lanes show; the distance chart draws the
  * comparison model's distance faint and dashed behind the truth model's.
+ * Below the charts, the sky lanes (skySeries.ts; hidden with setSkyShown(false)): the one-way light
+ * time to a body as a chart, and the ship's shadow passes as bands (penumbra light, umbra dark).
  */
 import * as d3 from 'd3';
 import type { SystemCalendar } from '../../../core/system/index.ts';
@@ -12,6 +14,7 @@ import { formatCompactDate } from '../../../core/system/index.ts';
 import { distance as formatDistance } from '../format/format.ts';
 import { PALETTE } from '../scene/palette.ts';
 import type { Series, TimelineData } from './series.ts';
+import { type SkyData, lightTimeText, passText, shadowLabel, shadowTitle } from './skySeries.ts';
 import { calendarTicks } from './ticks.ts';
 import { BURN_HIT_PX, DRAG_THRESHOLD_PX } from './burnDrag.ts';
 
@@ -63,6 +66,19 @@ export interface TimelineCallbacks {
 
 type ChartKey = (typeof CHARTS)[number]['key'];
 
+/** Colours of the sunlight lane's bands: penumbra (partly lit) and umbra (dark), of our own. */
+export const SHADOW_COLOURS = { penumbra: '#8d83c9', umbra: '#5a4fb0', light: '#c9b7ff' } as const;
+
+/** Height of the lanes and charts above the sky lanes, px. */
+export function chartsHeight(L: TimelineLayout): number {
+  return L.axis + LANES.length * L.lane + L.gap + CHARTS.length * (L.chart + L.gap);
+}
+
+/** Height of the sky lanes (the light-time chart and the sunlight lane), px. */
+export function skyHeight(L: TimelineLayout): number {
+  return L.chart + L.gap + L.lane + L.gap;
+}
+
 /**
  * Extra lanes below the charts (e.g. the game-step check's error lanes), drawn against the
  * Timeline's own time scale, so they zoom and pan with it and the cursor crosses them.
@@ -110,6 +126,9 @@ export class TimelineChart {
   private gCharts: d3.Selection<SVGGElement, unknown, null, undefined>;
   private gCursor: d3.Selection<SVGGElement, unknown, null, undefined>;
   private gExtra: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private gSky: d3.Selection<SVGGElement, unknown, null, undefined>;
+  private sky: SkyData | null = null;
+  private skyShown = true;
   private extra: TimelineExtra | null = null;
   private baseHeight = 0;
   private clipId = `tl-clip-${Math.random().toString(36).slice(2, 8)}`;
@@ -128,11 +147,12 @@ export class TimelineChart {
   constructor(
     private readonly container: HTMLElement,
     private readonly cb: TimelineCallbacks,
-    options: { dense?: boolean } = {},
+    options: { dense?: boolean; sky?: boolean } = {},
   ) {
     this.L = options.dense ? DENSE_LAYOUT : LAYOUT;
     const L = this.L;
-    this.height = L.axis + LANES.length * L.lane + L.gap + CHARTS.length * (L.chart + L.gap);
+    this.skyShown = options.sky ?? true;
+    this.height = chartsHeight(L) + (this.skyShown ? skyHeight(L) : 0);
     this.baseHeight = this.height;
     this.svg = d3.select(container).append('svg').attr('class', 'timeline-svg').attr('height', this.height);
     this.svg.append('defs').append('clipPath').attr('id', this.clipId).append('rect');
@@ -140,6 +160,11 @@ export class TimelineChart {
     this.gAxis = plot.append('g').attr('class', 'axis');
     this.gLanes = plot.append('g').attr('class', 'lanes');
     this.gCharts = plot.append('g').attr('class', 'charts');
+    this.gSky = plot
+      .append('g')
+      .attr('class', 'sky')
+      .attr('transform', `translate(0,${chartsHeight(L)})`)
+      .attr('display', this.skyShown ? null : 'none');
     this.gExtra = plot.append('g').attr('class', 'extra').attr('transform', `translate(0,${this.baseHeight})`);
     this.gCursor = plot.append('g').attr('class', 'cursor');
     this.buildStatic();
@@ -289,9 +314,146 @@ export class TimelineChart {
       inner.append('path').attr('class', 'chart-line').attr('stroke', c.colour).attr('fill', 'none').attr('stroke-width', 1.5);
       if (c.key === 'distance') g.append('text').attr('class', 'chart-legend').attr('y', 11).attr('text-anchor', 'end');
     });
+    this.buildSky();
     this.gCursor.append('line').attr('class', 'cursor-line').attr('y1', 0).attr('y2', this.height).attr('stroke', PALETTE.cursor);
     const handle = this.gCursor.append('g').attr('class', 'cursor-handle');
     handle.append('path').attr('d', 'M-7,0 H7 V12 L0,19 L-7,12 Z').attr('fill', PALETTE.cursor);
+  }
+
+  /** The sky lanes' static parts: the light-time chart (its title beside the body chooser the component lays over it) and the sunlight lane. */
+  private buildSky(): void {
+    const L = this.L;
+    const dense = L.chart < LAYOUT.chart;
+    const g = this.gSky.append('g').attr('class', 'chart chart-light').attr('data-testid', 'sky-light');
+    g.append('text')
+      .attr('class', 'lane-label')
+      .attr('x', 10)
+      .attr('y', dense ? 10 : 14)
+      .text('Light')
+      .append('title')
+      .text('One-way light time from the ship to the body chosen beside: the distance at the same instant over c');
+    g.append('text')
+      .attr('class', 'chart-scale chart-max')
+      .attr('x', 10)
+      .attr('y', dense ? 21 : 28);
+    g.append('text')
+      .attr('class', 'chart-scale chart-min')
+      .attr('x', 10)
+      .attr('y', L.chart - 2);
+    g.append('rect').attr('class', 'chart-bg').attr('x', L.left).attr('y', 0).attr('height', L.chart);
+    const inner = g.append('g').attr('clip-path', `url(#${this.clipId})`);
+    inner.append('path').attr('class', 'chart-area').attr('fill', SHADOW_COLOURS.light).attr('fill-opacity', 0.12);
+    inner.append('path').attr('class', 'chart-line').attr('stroke', SHADOW_COLOURS.light).attr('fill', 'none').attr('stroke-width', 1.5);
+    g.append('text').attr('class', 'chart-legend').attr('y', 11).attr('text-anchor', 'end');
+    const lane = this.gSky
+      .append('g')
+      .attr('class', 'lane sky-sun')
+      .attr('data-testid', 'sky-sun')
+      .attr('transform', `translate(0,${L.chart + L.gap})`);
+    lane
+      .append('text')
+      .attr('class', 'lane-label')
+      .attr('x', 10)
+      .attr('y', L.lane / 2 + 4)
+      .append('title');
+    lane.append('line').attr('class', 'lane-rule').attr('x1', L.left).attr('y1', L.lane).attr('y2', L.lane);
+    lane.append('g').attr('class', 'items').attr('clip-path', `url(#${this.clipId})`);
+  }
+
+  /** The sky lanes' readouts (null: none yet); `stale` while those of the plan before the last edit are shown. */
+  setSky(sky: SkyData | null, stale: boolean): void {
+    this.sky = sky;
+    this.gSky.classed('stale', stale);
+    this.drawSky();
+  }
+
+  /** Shows or hides the sky lanes; the Timeline's height follows. */
+  setSkyShown(shown: boolean): void {
+    if (shown === this.skyShown) return;
+    this.skyShown = shown;
+    this.gSky.attr('display', shown ? null : 'none');
+    this.baseHeight = chartsHeight(this.L) + (shown ? skyHeight(this.L) : 0);
+    this.gExtra.attr('transform', `translate(0,${this.baseHeight})`);
+    this.relayout();
+  }
+
+  private relayout(): void {
+    this.height = this.baseHeight + (this.extra ? this.extra.height : 0);
+    this.svg.attr('height', this.height);
+    this.gCursor.select('.cursor-line').attr('y2', this.height);
+    this.resize();
+  }
+
+  private drawSky(): void {
+    if (!this.skyShown) return;
+    const L = this.L;
+    const x = this.x;
+    const sky = this.sky;
+    const g = this.gSky.select('.chart-light');
+    const sun = this.gSky.select('.sky-sun');
+    const n = sky ? sky.light.t.length : 0;
+    if (!sky || n === 0) {
+      g.selectAll('path').attr('d', null);
+      g.select('.chart-max').text('');
+      g.select('.chart-min')
+        .text(sky ? 'no flight' : 'computing…')
+        .attr('data-value', null);
+      g.select('.chart-legend').text('');
+      sun.select('.lane-label').text('Sunlight').attr('data-eclipses', null).append('title').text("The ship in sunlight or in a body's shadow (computing…)");
+      sun.select('.items').selectAll('*').remove();
+      return;
+    }
+    const s = sky.light;
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (let k = 0; k < n; k++) {
+      lo = Math.min(lo, s.v[k]);
+      hi = Math.max(hi, s.v[k]);
+    }
+    const y = d3
+      .scaleLinear()
+      .domain([0, hi > 0 ? hi * 1.05 : 1])
+      .range([L.chart - 2, 3]);
+    const xs = new Float64Array(n);
+    const ys = new Float64Array(n);
+    for (let k = 0; k < n; k++) {
+      xs[k] = x(s.t[k]);
+      ys[k] = y(s.v[k]);
+    }
+    g.select('.chart-line').attr('d', linePath(xs, ys));
+    g.select('.chart-area').attr('d', areaPath(xs, ys, L.chart - 2));
+    g.select('.chart-max')
+      .text(`max ${lightTimeText(hi)}`)
+      .attr('data-value', hi);
+    g.select('.chart-min')
+      .text(`min ${lightTimeText(lo)}`)
+      .attr('data-value', lo);
+    g.select('.chart-legend').text(sky.model);
+    const label = sun.select('.lane-label');
+    label.text('Shadow').attr('data-eclipses', sky.eclipses);
+    label
+      .append('tspan')
+      .attr('class', 'sky-count')
+      .text(` ${shadowLabel(sky)}`);
+    label.append('title').text(shadowTitle(sky));
+    const minW = 2;
+    sun
+      .select('.items')
+      .selectAll<SVGRectElement, SkyData['passes'][number]>('rect.pass')
+      .data(sky.passes, (d) => `${d.body}-${d.kind}-${d.t0}`)
+      .join((enter) => {
+        const r = enter.append('rect');
+        r.append('title');
+        return r;
+      })
+      .attr('class', (d) => `pass pass-${d.kind}`)
+      .attr('fill', (d) => SHADOW_COLOURS[d.kind])
+      .attr('y', (d) => (d.kind === 'umbra' ? 2 : 5))
+      .attr('height', (d) => (d.kind === 'umbra' ? L.lane - 4 : L.lane - 10))
+      .attr('x', (d) => Math.min(x(d.t0), (x(d.t0) + x(d.t1)) / 2 - minW / 2))
+      .attr('width', (d) => Math.max(minW, x(d.t1) - x(d.t0)))
+      .select('title')
+      .text((d) => `${passText(d)} (${sky.model})`);
   }
 
   /** Shows extra lanes below the charts (null: none); the Timeline grows by their height. */
@@ -381,6 +543,9 @@ export class TimelineChart {
     this.gLanes.selectAll('.lane-rule').attr('x2', this.width - LAYOUT.right);
     this.gCharts.selectAll('.chart-bg').attr('width', this.width - LAYOUT.left - LAYOUT.right);
     this.gCharts.selectAll('.chart-legend').attr('x', this.width - LAYOUT.right - 5);
+    this.gSky.selectAll('.chart-bg').attr('width', this.width - LAYOUT.left - LAYOUT.right);
+    this.gSky.selectAll('.chart-legend').attr('x', this.width - LAYOUT.right - 5);
+    this.gSky.selectAll('.lane-rule').attr('x2', this.width - LAYOUT.right);
     this.zoom.extent([
       [LAYOUT.left, 0],
       [this.width - LAYOUT.right, this.height],
@@ -535,6 +700,7 @@ export class TimelineChart {
       .text((d) => d.label);
     // Charts.
     CHARTS.forEach((c) => this.drawChart(c.key, data[c.key] as Series, c.key === 'distance' ? data.comparison : null));
+    this.drawSky();
     this.extra?.draw(x, this.width);
     this.placeCursor();
   }
