@@ -57,8 +57,9 @@ export interface LayoutLine {
   tone: 'ink' | 'muted' | 'aero' | 'path';
   /** The edge whose figure this line shows. */
   edge?: string;
-  /** Draw the aero glyph before the text (the text starts after it). */
-  glyph?: boolean;
+  /** The aerobraked figure, drawn after the aero glyph in a column of the block at `aeroX`. */
+  aero?: string;
+  aeroX?: number;
 }
 
 /** A block of lines and its box (x, y top, w, h): what must not overlap another block. */
@@ -111,11 +112,11 @@ const TEXT = 11;
 const SMALL = 10;
 const LINE = 14;
 /** Estimated advance per character as a fraction of the font size: DejaVu Sans digits are 0.636 em and its lower case narrower, the widest of the stack's likely fallbacks (common practice: size for the widest font). */
-const EM_NORMAL = 0.62;
-const EM_BOLD = 0.68;
+const EM_NORMAL = 0.58;
+const EM_BOLD = 0.64;
 const GLYPH_W = 12;
 const MARGIN = 24;
-const SEG_H = 96;
+const SEG_H = 80;
 const RAIL_DX = 14;
 const FAMILY_GAP = 34;
 const NAME_H = 34;
@@ -125,8 +126,11 @@ export function textWidth(text: string, size: number, bold = false): number {
   return [...text].length * size * (bold ? EM_BOLD : EM_NORMAL);
 }
 
-function lineWidth(l: LayoutLine): number {
-  return textWidth(l.text, l.size, l.bold) + (l.glyph ? GLYPH_W : 0);
+/** Gap between a line's text and its block's aerobraked column, px. */
+const AERO_GAP = 10;
+
+function mainWidth(l: Omit<LayoutLine, 'x' | 'y'>): number {
+  return textWidth(l.text, l.size, l.bold);
 }
 
 function grouped(int: string): string {
@@ -150,32 +154,28 @@ export function dvWords(mps: number): string {
 
 const RUNG_ORDER: Record<MapNodeKind, number> = { 'soi-edge': 0, 'low-orbit': 1, surface: 2 };
 
+/** Lines stacked from `y`; the aerobraked figures in a column after the widest text. */
 function block(x: number, y: number, lines: Omit<LayoutLine, 'x' | 'y'>[], halo = false): LayoutBlock {
-  const out: LayoutLine[] = [];
-  let w = 0;
-  lines.forEach((l, k) => {
-    const line: LayoutLine = { ...l, x, y: y + (k + 1) * LINE - 3 };
-    out.push(line);
-    w = Math.max(w, lineWidth(line));
-  });
-  return { x, y, w, h: lines.length * LINE, lines: out, halo };
+  const textW = lines.reduce((m, l) => Math.max(m, mainWidth(l)), 0);
+  const aeroW = lines.reduce((m, l) => (l.aero === undefined ? m : Math.max(m, GLYPH_W + textWidth(l.aero, l.size))), 0);
+  const aeroX = x + textW + AERO_GAP;
+  const out: LayoutLine[] = lines.map((l, k) => ({ ...l, x, y: y + (k + 1) * LINE - 3, ...(l.aero === undefined ? {} : { aeroX }) }));
+  return { x, y, w: aeroW > 0 ? textW + AERO_GAP + aeroW : textW, h: lines.length * LINE, lines: out, halo };
 }
 
 function moveBlock(b: LayoutBlock, x: number, y: number): LayoutBlock {
   const dx = x - b.x;
   const dy = y - b.y;
-  return { ...b, x, y, lines: b.lines.map((l) => ({ ...l, x: l.x + dx, y: l.y + dy })) };
+  return { ...b, x, y, lines: b.lines.map((l) => ({ ...l, x: l.x + dx, y: l.y + dy, ...(l.aeroX === undefined ? {} : { aeroX: l.aeroX + dx }) })) };
 }
 
 export function overlaps(a: { x: number; y: number; w: number; h: number }, b: { x: number; y: number; w: number; h: number }): boolean {
   return a.x < b.x + b.w && b.x < a.x + a.w && a.y < b.y + b.h && b.y < a.y + a.h;
 }
 
-/** The figure lines of one edge (its Δv, and the aerobraked Δv below it when asked and there is one). */
+/** The figure line of one edge: its Δv, and its aerobraked Δv beside it when asked and there is one. */
 function edgeLines(e: MapEdge, head: string, aero: boolean): Omit<LayoutLine, 'x' | 'y'>[] {
-  const lines: Omit<LayoutLine, 'x' | 'y'>[] = [{ text: `${head}${dvWords(e.dv)}`, size: TEXT, tone: 'ink', edge: e.id }];
-  if (aero && e.dvAero !== null) lines.push({ text: dvWords(e.dvAero), size: TEXT, tone: 'aero', edge: e.id, glyph: true });
-  return lines;
+  return [{ text: `${head}${dvWords(e.dv)}`, size: TEXT, tone: 'ink', edge: e.id, ...(aero && e.dvAero !== null ? { aero: dvWords(e.dvAero) } : {}) }];
 }
 
 interface Family {
@@ -252,7 +252,12 @@ export function deltaVMapLayout(map: DeltaVMap, options: DeltaVMapSvgOptions = {
     for (const n of nodesOf.get(body) ?? []) w = Math.max(w, textWidth(n.label, SMALL) + 12);
     for (const [key, s] of segEdges) {
       if (!key.startsWith(`${body}|`)) continue;
-      for (const e of [...s.up, ...s.down]) for (const l of edgeLines(e, '↑ ', aero)) w = Math.max(w, textWidth(l.text, l.size) + (l.glyph ? GLYPH_W : 0) + 12);
+      const b = block(
+        0,
+        0,
+        [...s.up, ...s.down].flatMap((e) => edgeLines(e, '↑ ', aero)),
+      );
+      w = Math.max(w, b.w + 12);
     }
     return Math.ceil(w) + RAIL_DX + 18;
   };
@@ -570,9 +575,9 @@ export function deltaVMapSvg(map: DeltaVMap, options: DeltaVMapSvgOptions = {}):
   // text: each edge's lines in its own group with its title
   const tone = (t: LayoutLine['tone']) => (t === 'ink' ? p.ink : t === 'muted' ? p.muted : t === 'aero' ? p.aero : p.path);
   const lineSvg = (l: LayoutLine): string => {
-    const tx = l.glyph ? l.x + GLYPH_W : l.x;
-    const g = l.glyph ? glyph(l.x, l.y, p.aero) : '';
-    return `${g}<text x="${n1(tx)}" y="${n1(l.y)}" font-size="${l.size}"${l.bold ? ' font-weight="600"' : ''} fill="${tone(l.tone)}">${xmlText(l.text)}</text>`;
+    const main = `<text x="${n1(l.x)}" y="${n1(l.y)}" font-size="${l.size}"${l.bold ? ' font-weight="600"' : ''} fill="${tone(l.tone)}">${xmlText(l.text)}</text>`;
+    if (l.aero === undefined || l.aeroX === undefined) return main;
+    return `${main}${glyph(l.aeroX, l.y, p.aero)}<text x="${n1(l.aeroX + GLYPH_W)}" y="${n1(l.y)}" font-size="${l.size}" fill="${p.aero}">${xmlText(l.aero)}</text>`;
   };
   for (const b of L.blocks) {
     if (b.halo) out.push(`<rect x="${n1(b.x - 3)}" y="${n1(b.y)}" width="${n1(b.w + 6)}" height="${n1(b.h)}" rx="3" fill="${p.bg}" opacity="0.92"/>`);

@@ -16,6 +16,7 @@ import type { TargetProgress, TargetResult, TruthReport } from '../../../core/ta
 import type { PlanResult } from '../../../core/plan/index.ts';
 import type { SequenceRequest, SequenceResult } from '../../../core/search/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
+import type { DeltaVMap } from '../../../core/survey/index.ts';
 import type { CheckJob, CheckOutput } from './checkJobs.ts';
 import type { RouteIntent, RouteResult } from '../route/routeCore.ts';
 
@@ -27,6 +28,8 @@ export type AnalysisJob =
   | { kind: 'truth'; system: StarSystem; plan: Plan; model: TruthModel }
   | { kind: 'route'; system: StarSystem; intent: RouteIntent }
   | { kind: 'sequence'; system: StarSystem; request: SequenceRequest }
+  /** The Survey screen's Δv map of the whole system (core/survey deltaVMap); samples: porkchop samples per axis (default the core's). */
+  | { kind: 'dv-map'; system: StarSystem; samples?: number }
   | CheckJob;
 
 export type AnalysisOutput =
@@ -37,6 +40,7 @@ export type AnalysisOutput =
   | { kind: 'truth'; truth: TruthReport }
   | { kind: 'route'; route: RouteResult }
   | { kind: 'sequence'; sequence: SequenceResult }
+  | { kind: 'dv-map'; map: DeltaVMap }
   | CheckOutput;
 
 export type ToAnalysisWorker = { type: 'run'; id: number; job: AnalysisJob };

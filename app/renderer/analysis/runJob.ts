@@ -3,7 +3,7 @@
  * differential correction (core/nbody/correct.ts), a dispersion run (core/nbody/disperse.ts),
  * targeting the plan in a model (core/target targetPlan), the plan read in its truth model
  * (core/target truthReport), a route for an intent (core/route planRoute), a multi-leg sequence
- * search (core/search searchSequence) or one of the checks
+ * search (core/search searchSequence), the system's Δv map (core/survey deltaVMap) or one of the checks
  * (analysis/checkJobs.ts), with progress as a fraction and a note (a targeting job adds the
  * targeter's own report). Plain code, tested without a Worker.
  */
@@ -17,6 +17,7 @@ import { runCheckJob } from './checkJobs.ts';
 import { targetFraction } from '../target/progress.ts';
 import { planRoute } from '../route/routeCore.ts';
 import { searchSequence } from '../../../core/search/index.ts';
+import { deltaVMap } from '../../../core/survey/index.ts';
 
 export function runAnalysisJob(job: AnalysisJob, onProgress: (fraction: number, note: string, detail?: TargetProgress) => void): AnalysisOutput {
   switch (job.kind) {
@@ -71,6 +72,14 @@ export function runAnalysisJob(job: AnalysisJob, onProgress: (fraction: number, 
       return {
         kind: 'sequence',
         sequence: searchSequence(job.system, job.request, (fraction) => onProgress(fraction, `searching ${job.request.bodies.length - 1} legs`)),
+      };
+    case 'dv-map':
+      return {
+        kind: 'dv-map',
+        map: deltaVMap(job.system, {
+          samples: job.samples,
+          onProgress: (done, total) => onProgress(total > 0 ? done / total : 0, `${done} of ${total} transfers`),
+        }),
       };
     default:
       return runCheckJob(job, onProgress);
