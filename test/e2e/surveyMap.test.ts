@@ -123,6 +123,15 @@ describe.skipIf(!have)('Survey: the Δv map (e2e)', () => {
       await page.locator('[data-testid=dv-map-table]').scrollIntoViewIfNeeded();
       await page.screenshot({ path: `${OUT}survey-map-${w}x${h}-table.png` });
       await page.locator('[data-testid=dv-map-panel]').evaluate((el) => el.parentElement?.scrollTo(0, 0));
+      // the diagram over the whole window; Esc brings it back
+      await page.click('[data-testid=dv-map-large]');
+      const box = await page.locator('[data-testid=dv-map-whole]').boundingBox();
+      expect(box?.width).toBeGreaterThan(w - 20);
+      expect(box?.height).toBeGreaterThan(h - 20);
+      await page.waitForTimeout(200);
+      await page.screenshot({ path: `${OUT}survey-map-${w}x${h}-whole-window.png` });
+      await page.keyboard.press('Escape');
+      await expect.poll(() => page.locator('[data-testid=dv-map-whole]').count(), G).toBe(0);
     }
     await page.setViewportSize({ width: 1024, height: 640 });
     expect(errors).toEqual([]);
