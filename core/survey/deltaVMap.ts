@@ -253,7 +253,7 @@ function transferEdge(system: StarSystem, from: number, to: number, samples: num
     `Range over the period: for each departure date the best over flight times.`,
     capAero === null
       ? ''
-      : `Aerobraked: departure burn + ${mps(capAero)} (the air at half its ${km(B.atmosphereHeight)} height takes the arrival to an ellipse with apoapsis at the low orbit; one burn there raises the periapsis).`,
+      : `Aerobraked: the best window's departure burn + ${mps(capAero)} (the air at half its ${km(B.atmosphereHeight)} height takes the arrival to an ellipse with apoapsis at the low orbit; one burn there raises the periapsis).`,
     `Hohmann estimate ${mps(est)}: circular coplanar orbits at the semi-major axes, patched to the low orbits.`,
   ]
     .filter((s) => s !== '')
