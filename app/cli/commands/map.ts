@@ -10,13 +10,18 @@
  * Hohmann estimate), then the rules as footnotes. `--aero`: the Δv columns take the aerobraked
  * figure wherever the arriving body has air (marked *). `--json`: the DeltaVMap in SI (m/s, s,
  * m), both figures of every edge whatever `--aero` says. Progress on stderr at a terminal.
+ * `--svg FILE`: also the diagram (core/io deltaVMapSvg, paper theme, aerobraked figures with
+ * `--aero`), written atomically with a backup through the output guard (never over the system
+ * file read, nor over a file Waymark cannot tell for an earlier map diagram); `-` writes it to
+ * standard output instead of the text.
  * Exit codes: 0 done, 2 bad input or file, 3 numerical failure.
  */
 import type { Command } from 'commander';
 import { InputError } from '../../../core/math/index.ts';
 import { DEFAULT_MAP_SAMPLES, deltaVMap, type DeltaVMap, type MapEdge } from '../../../core/survey/index.ts';
 import { formatCompactDate, type StarSystem } from '../../../core/system/index.ts';
-import { loadSystemFile } from '../../node/files.ts';
+import { deltaVMapSvg, mapLayoutBodies } from '../../../core/io/index.ts';
+import { STDOUT, checkOutputs, loadSystemFile, writeOutput, type OutputRules, type OutputTarget } from '../../node/files.ts';
 import { EXIT_OK, guard, printJson, printText, printWarnings } from '../output.ts';
 import { createProgress, progressEnabled } from '../progress.ts';
 
@@ -27,10 +32,11 @@ export interface MapCliOptions {
   json?: boolean;
   aero?: boolean;
   samples: string;
+  svg?: string;
 }
 
 /** The flags that set each core field, for errors in the user's words. */
-const MAP_FLAGS = { samples: '--samples' } as const;
+const MAP_FLAGS = { samples: '--samples', svg: '--svg' } as const;
 
 function parseSamples(text: string): number {
   const v = Number(text);
@@ -125,10 +131,16 @@ export function addMapCommand(program: Command): void {
     .option('--samples <n>', 'porkchop samples per axis for each transfer', String(DEFAULT_MAP_SAMPLES))
     .option('--json', 'machine-readable output (the whole map in SI units)')
     // further output options of the map (files of the diagram) go here
+    .option('--svg <file>', 'also write the diagram as SVG (paper theme; - for standard output instead of the text)')
     .action((o: MapCliOptions) =>
       guard({ json: !!o.json, flags: MAP_FLAGS }, async () => {
         const samples = parseSamples(o.samples);
+        const svgOut: OutputTarget | null = o.svg === undefined ? null : { flag: '--svg', path: o.svg, kind: 'map-svg' };
+        if (svgOut?.path === STDOUT && o.json)
+          throw new InputError('--svg', 'cannot be - (standard output) together with --json: both would go to standard output', STDOUT);
         const { system, warnings } = await loadSystemFile(o.system);
+        const outputRules: OutputRules = { inputs: [{ path: o.system, what: 'the system file read (--system)' }] };
+        if (svgOut) await checkOutputs([svgOut], outputRules);
         const bar = createProgress('map', 'transfers', progressEnabled(!!o.json));
         let map: DeltaVMap;
         try {
@@ -136,7 +148,9 @@ export function addMapCommand(program: Command): void {
         } finally {
           bar.stop();
         }
+        if (svgOut) await writeOutput(svgOut, deltaVMapSvg(map, { theme: 'paper', aero: !!o.aero, bodies: mapLayoutBodies(system) }), outputRules);
         if (o.json) printJson({ ...map, warnings });
+        else if (svgOut?.path === STDOUT) printWarnings(warnings);
         else {
           printWarnings(warnings);
           printText(mapText(system, map, !!o.aero));
