@@ -146,12 +146,12 @@ export function passText(p: ShadowPass): string {
   return `in ${p.bodyName}'s ${p.kind} ${duration(p.t1 - p.t0)}`;
 }
 
-/** The sunlight lane's count beside its title: "13 × 9.2 h" (eclipses and the time in shadow), "none". */
+/** The sunlight lane's count beside its title: "13× 9.2 h" (eclipses and the time in shadow), "none". */
 export function shadowLabel(sky: Pick<SkyData, 'eclipses' | 'inShadow'>): string {
   if (sky.eclipses === 0) return 'none';
   const h = sky.inShadow / 3600;
   const total = h >= 1 ? `${h.toFixed(1)} h` : `${Math.max(1, Math.round(sky.inShadow / 60))} min`;
-  return `${sky.eclipses} · ${total}`;
+  return `${sky.eclipses}× ${total}`;
 }
 
 /** The sunlight lane's tooltip: eclipses per body, time in shadow, the shadow model and the flight's model. */

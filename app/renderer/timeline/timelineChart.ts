@@ -129,6 +129,8 @@ export class TimelineChart {
   private gSky: d3.Selection<SVGGElement, unknown, null, undefined>;
   private sky: SkyData | null = null;
   private skyShown = true;
+  /** What the sky lanes were last drawn for (figures, time axis): an edit redraws the other lanes, not these. */
+  private skyDrawn: { sky: SkyData | null; d0: number; d1: number; r0: number; r1: number } | null = null;
   private extra: TimelineExtra | null = null;
   private baseHeight = 0;
   private clipId = `tl-clip-${Math.random().toString(36).slice(2, 8)}`;
@@ -344,7 +346,11 @@ export class TimelineChart {
     const inner = g.append('g').attr('clip-path', `url(#${this.clipId})`);
     inner.append('path').attr('class', 'chart-area').attr('fill', SHADOW_COLOURS.light).attr('fill-opacity', 0.12);
     inner.append('path').attr('class', 'chart-line').attr('stroke', SHADOW_COLOURS.light).attr('fill', 'none').attr('stroke-width', 1.5);
-    g.append('text').attr('class', 'chart-legend').attr('y', 11).attr('text-anchor', 'end');
+    // the model read, bottom right (the light time grows away from the start body: the curve is high on the right)
+    g.append('text')
+      .attr('class', 'chart-legend')
+      .attr('y', L.chart - 4)
+      .attr('text-anchor', 'end');
     const lane = this.gSky
       .append('g')
       .attr('class', 'lane sky-sun')
@@ -362,8 +368,10 @@ export class TimelineChart {
 
   /** The sky lanes' readouts (null: none yet); `stale` while those of the plan before the last edit are shown. */
   setSky(sky: SkyData | null, stale: boolean): void {
-    this.sky = sky;
     this.gSky.classed('stale', stale);
+    // the same figures marked stale (an edit: new ones come after it settles): no redraw
+    if (sky === this.sky) return;
+    this.sky = sky;
     this.drawSky();
   }
 
@@ -372,6 +380,7 @@ export class TimelineChart {
     if (shown === this.skyShown) return;
     this.skyShown = shown;
     this.gSky.attr('display', shown ? null : 'none');
+    this.skyDrawn = null;
     this.baseHeight = chartsHeight(this.L) + (shown ? skyHeight(this.L) : 0);
     this.gExtra.attr('transform', `translate(0,${this.baseHeight})`);
     this.relayout();
@@ -389,6 +398,11 @@ export class TimelineChart {
     const L = this.L;
     const x = this.x;
     const sky = this.sky;
+    const [d0, d1] = x.domain();
+    const [r0, r1] = x.range();
+    const was = this.skyDrawn;
+    if (was && was.sky === sky && was.d0 === d0 && was.d1 === d1 && was.r0 === r0 && was.r1 === r1) return;
+    this.skyDrawn = { sky, d0, d1, r0, r1 };
     const g = this.gSky.select('.chart-light');
     const sun = this.gSky.select('.sky-sun');
     const n = sky ? sky.light.t.length : 0;

@@ -88,7 +88,7 @@ describe('sky lanes: the flight read', () => {
     const sky = skyData(system, conicFlight(system, result, 'patched conics')!, system.calendar.homeIndex);
     expect(sky.passes[0].bodyName).toBe('Tessel');
     expect(sky.eclipses).toBeGreaterThan(1);
-    expect(shadowLabel(sky)).toMatch(/^\d+ · \d+(\.\d)? (h|min)$/);
+    expect(shadowLabel(sky)).toMatch(/^\d+× \d+(\.\d)? (h|min)$/);
     expect(shadowTitle(sky)).toMatch(/eclipses \(Tessel \d+, Ochre \d+\), .* in shadow\. Conical shadow model/);
     expect(passText({ body: 2, bodyName: 'Tessel', kind: 'umbra', t0: 0, t1: 42 * 60 })).toBe("in Tessel's umbra 42 min 00 s");
     expect(shadowLabel({ eclipses: 0, inShadow: 0 })).toBe('none');
