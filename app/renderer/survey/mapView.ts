@@ -32,6 +32,14 @@ const KIND_WORDS: Record<MapEdge['kind'], string> = {
   transfer: 'transfer',
 };
 
+/** Lowest – median – highest: one unit at the end when all three share it ("5.12 – 5.40 – 7.91 km/s"). */
+export function dvRange(min: number, median: number, max: number): string {
+  const words = [min, median, max].map(dvWords);
+  const unit = / (k?m\/s)$/.exec(words[0])?.[1];
+  if (unit && words.every((w) => w.endsWith(` ${unit}`))) return `${words.map((w) => w.slice(0, -unit.length - 1)).join(' – ')} ${unit}`;
+  return words.join(' – ');
+}
+
 /** A node in words: "Tessel low orbit 100 km". */
 export function nodeWords(n: MapNode | undefined, id: string): string {
   return n ? `${n.bodyName} ${n.label}` : id;
@@ -51,7 +59,7 @@ export function mapTableRows(map: DeltaVMap, cal: SystemCalendar): MapTableRow[]
       dvAero: e.dvAero === null ? '—' : dvWords(e.dvAero),
       window: w ? date(cal, w.depart) : '—',
       tof: w ? duration(w.tof) : '—',
-      range: w ? `${dvWords(w.range.min)} – ${dvWords(w.range.median)} – ${dvWords(w.range.max)}` : '—',
+      range: w ? dvRange(w.range.min, w.range.median, w.range.max) : '—',
       hohmann: e.hohmann === null ? '—' : dvWords(e.hohmann),
       how: e.how,
     };

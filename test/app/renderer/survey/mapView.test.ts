@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { parseCsv } from '../../../../core/io/csv.ts';
 import { dvWords } from '../../../../core/io/index.ts';
 import { formatDate } from '../../../../core/system/index.ts';
-import { mapFile, mapFileBase, mapFitsSystem, mapPngName, mapTableRows } from '../../../../app/renderer/survey/mapView.ts';
+import { dvRange, mapFile, mapFileBase, mapFitsSystem, mapPngName, mapTableRows } from '../../../../app/renderer/survey/mapView.ts';
 import { fixtureMap } from '../../../core/io/deltaVMapFixture.ts';
 import { ilmar } from '../../../core/io/syntheticResult.ts';
 
@@ -19,6 +19,12 @@ describe('Δv map panel helpers', () => {
     expect(mapFile('map-csv', map, ilmar, false).name).toBe('ilmar.dv-map.csv');
   });
 
+  it('a range writes its unit once when the three figures share it', () => {
+    expect(dvRange(5123, 5404, 7911)).toBe('5.12 – 5.40 – 7.91 km/s');
+    expect(dvRange(312, 450, 998)).toBe('312 – 450 – 998 m/s');
+    expect(dvRange(850, 1200, 2500)).toBe('850 m/s – 1.20 km/s – 2.50 km/s');
+  });
+
   it('the table: one row per edge, every figure with its unit, dates in the system calendar, "—" where nothing applies', () => {
     const map = fixtureMap();
     const rows = mapTableRows(map, ilmar.calendar);
@@ -31,7 +37,7 @@ describe('Δv map panel helpers', () => {
       expect(r.from.startsWith(map.nodes.find((n) => n.id === e.from)?.bodyName ?? '?')).toBe(true);
       if (e.window) {
         expect(r.window).toBe(formatDate(ilmar.calendar, e.window.depart, { seconds: false }));
-        expect(r.range.split(' – ')).toEqual([dvWords(e.window.range.min), dvWords(e.window.range.median), dvWords(e.window.range.max)]);
+        expect(r.range).toBe(dvRange(e.window.range.min, e.window.range.median, e.window.range.max));
         expect(r.tof).toMatch(/ d /);
       } else {
         expect([r.window, r.tof, r.range, r.hohmann]).toEqual(['—', '—', '—', '—']);
