@@ -7,12 +7,14 @@
  * layout probe (layoutProbe.ts) finds nothing cramped at 1024×640 and 1920×1080; screenshots go
  * to test/output/e2e/survey-map-*.png.
  */
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { dvWords, parseSystemFile } from '../../core/io/index.ts';
 import { deltaVMap, type DeltaVMap } from '../../core/survey/index.ts';
-import { HANG_GUARD_MS, OUT, buildApp, requireChromium, startApp, type E2eApp } from './harness.ts';
+import { HANG_GUARD_MS, OUT, buildApp, openFile, requireChromium, startApp, type E2eApp } from './harness.ts';
 import { layoutProblems } from './layoutProbe.ts';
 
 const have = requireChromium();
@@ -134,6 +136,23 @@ describe.skipIf(!have)('Survey: the Δv map (e2e)', () => {
       await expect.poll(() => page.locator('[data-testid=dv-map-whole]').count(), G).toBe(0);
     }
     await page.setViewportSize({ width: 1024, height: 640 });
+    expect(errors).toEqual([]);
+  });
+
+  it('another system opened: the map is computed again for it, names drawn as text', async () => {
+    const system = JSON.parse(readFileSync(new URL('../../assets/systems/ilmar.system.json', import.meta.url), 'utf8'));
+    system.name = 'Ilmar <revised> & co';
+    for (const b of system.bodies) if (b.id === 'tessel') b.name = 'Tessel <b>bold</b>';
+    const plan = JSON.parse(readFileSync(new URL('../../assets/plans/tessel-to-ochre.plan.json', import.meta.url), 'utf8'));
+    plan.system = { embedded: system };
+    const path = join(mkdtempSync(join(tmpdir(), 'wm-survey-map-')), 'revised.plan.json');
+    writeFileSync(path, JSON.stringify(plan, null, 2));
+    await openFile(page, path);
+    await expect.poll(() => page.locator('[data-testid=dv-map-diagram] svg').getAttribute('data-map-system'), G).toBe('Ilmar <revised> & co');
+    await expect.poll(() => page.locator('[data-testid=dv-map-stale]').count(), G).toBe(0);
+    expect(await page.locator('[data-testid=dv-map-diagram] b').count()).toBe(0);
+    expect(await page.locator('[data-testid=dv-map-diagram] text', { hasText: 'Tessel <b>bold</b>' }).count()).toBeGreaterThan(0);
+    expect(await page.locator('[data-testid=dv-map-table] td', { hasText: 'Tessel <b>bold</b> low orbit' }).count()).toBeGreaterThan(0);
     expect(errors).toEqual([]);
   });
 });
