@@ -76,6 +76,8 @@ export const EXPORT_FILTERS: Record<ExportKind, FileFilter> = {
   'map-png': { name: 'Δv map (PNG)', extensions: ['png'] },
   'map-json': { name: 'Δv map (JSON)', extensions: ['json'] },
   'map-csv': { name: 'Δv map table (CSV)', extensions: ['csv'] },
+  'calendar-csv': { name: 'Window calendar (CSV)', extensions: ['csv'] },
+  'calendar-json': { name: 'Window calendar (JSON)', extensions: ['json'] },
 };
 const EXPORT_EXTENSIONS: Record<ExportKind, string[]> = {
   oem: ['.oem', '.txt'],
@@ -90,6 +92,8 @@ const EXPORT_EXTENSIONS: Record<ExportKind, string[]> = {
   'map-png': ['.png'],
   'map-json': ['.json'],
   'map-csv': ['.csv'],
+  'calendar-csv': ['.csv'],
+  'calendar-json': ['.json'],
 };
 
 export interface HandlerDeps {

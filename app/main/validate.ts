@@ -68,6 +68,8 @@ export const EXPORT_KINDS: readonly ExportKind[] = [
   'map-png',
   'map-json',
   'map-csv',
+  'calendar-csv',
+  'calendar-json',
 ];
 
 /** Bytes (a Uint8Array) within the size limit. */

@@ -472,6 +472,8 @@ export const OUTPUT_KIND_WORDS: Record<OutputKind, string> = {
   'map-png': 'a Δv map diagram (PNG)',
   'map-json': 'a Δv map (JSON)',
   'map-csv': 'a Δv map table (CSV)',
+  'calendar-csv': 'a window calendar (CSV)',
+  'calendar-json': 'a window calendar (JSON)',
   'grid-json': 'a porkchop grid (JSON)',
   'grid-csv': 'a porkchop grid (CSV)',
 };
@@ -495,6 +497,9 @@ const EXPORT_SIGNATURES: [ExportKind | 'grid-json' | 'grid-csv', RegExp][] = [
   ['map-png', /^\uFFFDPNG\r\n/],
   ['map-json', /^\{\s*"system"\s*:\s*"[^"]*"\s*,\s*"nodes"\s*:/],
   ['map-csv', /^from,to,kind,dv_mps,/],
+  // the window calendar: the CSV's header (core/io calendarCsv.ts), the Calendar's first keys (core/survey calendar.ts)
+  ['calendar-csv', /^from,to,window,opens_s,opens_date,/],
+  ['calendar-json', /^\{\s*"system"\s*:\s*"[^"]*"\s*,\s*"start"\s*:/],
   ['grid-json', /^\{"request":\{/],
   ['grid-csv', /^i,j,departure_s,(tof_s|arrival_s),/],
 ];

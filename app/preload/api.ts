@@ -69,7 +69,9 @@ export type PlanExportKind = 'oem' | 'csv' | 'burns-csv' | 'report';
 export type HandoffExportKind = 'schedule-json' | 'schedule-csv' | 'runtime-json' | 'runtime-bin';
 /** The Survey screen's Δv map (core/io deltaVMapSvg.ts; core/survey deltaVMap): the diagram as SVG or PNG, the map as JSON, its table as CSV. */
 export type MapExportKind = 'map-svg' | 'map-png' | 'map-json' | 'map-csv';
-export type ExportKind = PlanExportKind | HandoffExportKind | MapExportKind;
+/** The Survey screen's window calendar (core/survey calendar.ts): its windows as CSV (core/io calendarCsv.ts), the Calendar as JSON. */
+export type CalendarExportKind = 'calendar-csv' | 'calendar-json';
+export type ExportKind = PlanExportKind | HandoffExportKind | MapExportKind | CalendarExportKind;
 
 /** The exports whose data is bytes (a Uint8Array), not text. */
 export const BINARY_EXPORTS: readonly ExportKind[] = ['runtime-bin', 'map-png'];

@@ -66,6 +66,8 @@ const EXPORT_MIME: Record<ExportKind, string> = {
   'map-png': 'image/png',
   'map-json': 'application/json',
   'map-csv': 'text/csv',
+  'calendar-csv': 'text/csv',
+  'calendar-json': 'application/json',
 };
 
 function isAbort(err: unknown): boolean {

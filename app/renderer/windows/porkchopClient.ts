@@ -74,6 +74,8 @@ export class PorkchopClient {
   }
 
   #onMessage(m: FromWorker): void {
+    // the window calendar's messages go to its own client (survey/calendarClient.ts)
+    if (m.type === 'calendar-progress' || m.type === 'calendar-pair-done') return;
     const p = this.#pending.get(m.id);
     if (!p) return;
     if (m.type === 'progress') {

@@ -7,6 +7,7 @@
  * picture transferred (windows/porkchopJob.ts), so the list never waits for the picture.
  */
 import type { PorkchopGrid, PorkchopPlanes, PorkchopRequest, TransferWindow, WindowOptions } from '../../../core/search/index.ts';
+import type { CalendarPair, CalendarRequest } from '../../../core/survey/index.ts';
 import type { StarSystem } from '../../../core/system/index.ts';
 import type { PlotLevels } from './porkchopRaster.ts';
 
@@ -25,7 +26,12 @@ export type ToWorker =
   | { type: 'run'; id: number; system: StarSystem; request: PorkchopRequest; windows: WindowOptions; helped: boolean; raster: RasterSize | null }
   /** To the helper: compute blocks from the last row up and send them to the leader, until told to stop. */
   | { type: 'help'; id: number; system: StarSystem; request: PorkchopRequest }
-  | { type: 'cancel'; id: number };
+  | { type: 'cancel'; id: number }
+  /**
+   * The Survey screen's window calendar (survey/calendarClient.ts): the windows of one pair of the
+   * request (core/survey calendarPair); the page hands the pairs out one per free worker.
+   */
+  | { type: 'calendar-pair'; id: number; system: StarSystem; request: CalendarRequest; pairIndex: number };
 
 /** Between the two workers, over their port: a helper's block to the leader; the leader's stop to the helper. */
 export type PeerMessage = { type: 'band'; id: number; planes: PorkchopPlanes } | { type: 'stop'; id: number };
@@ -65,4 +71,7 @@ export type FromWorker =
       image: DoneImage | null;
     }
   | { type: 'cancelled'; id: number }
-  | { type: 'error'; id: number; message: string };
+  | { type: 'error'; id: number; message: string }
+  /** A calendar pair's departure samples done (throttled), and its result (curve arrays transferred). */
+  | { type: 'calendar-progress'; id: number; pairIndex: number; done: number; total: number }
+  | { type: 'calendar-pair-done'; id: number; pairIndex: number; pair: CalendarPair; ms: number };

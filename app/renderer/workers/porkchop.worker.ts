@@ -8,6 +8,7 @@
  */
 import { SolverError } from '../../../core/math/index.ts';
 import { planeBuffers, type PorkchopPlanes } from '../../../core/search/index.ts';
+import { calendarPair } from '../../../core/survey/index.ts';
 import { HelperBlocks, type HelperLink, helpFromBottom, runPorkchopJob, warmPorkchop } from '../windows/porkchopJob.ts';
 import type { FromWorker, PeerMessage, ToWorker } from '../windows/protocol.ts';
 
@@ -97,6 +98,27 @@ scope.onmessage = async (e: MessageEvent<ToWorker>) => {
       } finally {
         stopped.delete(m.id);
         cancelled.delete(m.id);
+      }
+      return;
+    }
+    case 'calendar-pair': {
+      // one pair of the window calendar (survey/calendarClient.ts); a cancel takes effect between pairs
+      const t0 = performance.now();
+      let last = 0;
+      try {
+        const pair = calendarPair(m.system, m.request, m.pairIndex, {
+          onProgress: (done, total) => {
+            const now = performance.now();
+            if (now - last > 50 && done < total) {
+              last = now;
+              post({ type: 'calendar-progress', id: m.id, pairIndex: m.pairIndex, done, total });
+            }
+          },
+        });
+        const transfer: Transferable[] = pair.curve ? [pair.curve.t.buffer as ArrayBuffer, pair.curve.dv.buffer as ArrayBuffer] : [];
+        post({ type: 'calendar-pair-done', id: m.id, pairIndex: m.pairIndex, pair, ms: performance.now() - t0 }, transfer);
+      } catch (err) {
+        post({ type: 'error', id: m.id, message: err instanceof Error ? err.message : String(err) });
       }
       return;
     }
