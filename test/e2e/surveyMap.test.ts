@@ -92,6 +92,7 @@ describe.skipIf(!have)('Survey: the Δv map (e2e)', () => {
 
     const png = await downloaded(() => page.click('[data-testid=dv-map-export-png]'));
     expect(png.name).toBe('ilmar.dv-map.png');
+    writeFileSync(`${OUT}survey-map-export.png`, png.bytes);
     // PNG signature and IHDR (ISO/IEC 15948 §5.2, §11.2.2): width and height big-endian at bytes 16 and 20
     expect([...png.bytes.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
     expect(png.bytes.subarray(12, 16).toString('latin1')).toBe('IHDR');
