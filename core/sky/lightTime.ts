@@ -1,5 +1,5 @@
 /**
- * One-way light time between the ship and a body: the instantaneous geometric distance between
+ * One-way light time between the ship and a body's centre: the instantaneous geometric distance between
  * them at the same time t, divided by c. No light-time iteration (the body's position is not
  * taken at t − d/c) and no relativity (no Shapiro delay, no aberration): a readout for an author
  * ("a message takes 14 min to reach Tessel"), not a navigation observable.

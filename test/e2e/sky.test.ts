@@ -111,4 +111,31 @@ describe.skipIf(!have)("the author's readouts on the Timeline (e2e)", () => {
       await context.close();
     }
   });
+
+  it('in n-body the lanes read the n-body flight and say so; the readout still follows the cursor', async () => {
+    const { page, context, errors } = await app.openPage({ viewport: { width: 1440, height: 900 } });
+    await page.selectOption('[data-testid=truth-model]', 'nbody');
+    await expect.poll(() => page.textContent('[data-testid=sky-light] .chart-legend'), { timeout: HANG_GUARD_MS }).toBe('n-body');
+    await expect
+      .poll(async () => Number(await page.getAttribute('[data-testid=sky-sun] .lane-label', 'data-eclipses')), { timeout: HANG_GUARD_MS })
+      .toBeGreaterThan(0);
+    // the n-body flight leaves the same parking orbit: its first shadow is Tessel's, within the first orbit (~1.6 h)
+    const first = await page.locator('[data-testid=sky-sun] rect.pass title').first().textContent();
+    expect(first).toMatch(/^in Tessel's (penumbra|umbra) .* \(n-body\)$/);
+    // 10 min into the parking orbit both models fly the same start state: the light time to Tessel agrees to the n-body samples'
+    // chord (samples ~3° of arc apart on a 6 200 km orbit: the chord sags r·(1 − cos 1.5°) ≈ 2 km, 3.4e-4 of the distance; 1e-3 leaves room)
+    const t = result.t0 + 600;
+    await page.evaluate(
+      (tt) => (window as unknown as { waymarkDebug: { session: { cursor: { set(t: number): void } } } }).waymarkDebug.session.cursor.set(tt),
+      t,
+    );
+    shipAt(t, s6);
+    const conic = lightTimeAt(system, system.calendar.homeIndex, t, s6[0], s6[1], s6[2]);
+    await expect
+      .poll(async () => Math.abs(Number(await page.getAttribute('[data-testid=read-light]', 'data-value')) / conic - 1), { timeout: HANG_GUARD_MS })
+      .toBeLessThan(1e-3);
+    await page.screenshot({ path: `${OUT}sky-timeline-nbody-1440x900.png` });
+    expect(errors).toEqual([]);
+    await context.close();
+  });
 });
