@@ -35,9 +35,12 @@
  *    and the flight-time range, stopped at a spread of REFINE_FTOL.
  * 4. Opening and closing: the threshold is (1 + within)·best. The curve is now the exact best
  *    over flight time per departure: a 1-D minimisation (Brent, core/math minimize) over the
- *    flight times between the neighbouring samples' best columns. The samples bracket the
- *    crossing (walking out from the best while the exact value stays under the threshold) and
- *    Brent's root finder (core/math brent, bisection-safeguarded) closes it to OPEN_CLOSE_TOL.
+ *    flight times scanned at the grid's samples, then polished between the best sample's
+ *    neighbours. The samples bracket the crossing: walking out from the best departure over the
+ *    samples at or under the threshold (the sampled curve is never below the exact one, so these
+ *    are inside), then on while the exact value stays under it; Brent's root finder (core/math
+ *    brent, bisection-safeguarded) closes the bracket to OPEN_CLOSE_TOL. Two windows whose exact
+ *    spans meet (a bump of about `within` hidden between samples) become one.
  *    The exact per-departure minimisation (rather than interpolating the samples) is used so the
  *    opening and closing dates are those of the continuous curve, not of the flight-time grid:
  *    a crossing read off the samples would move by the row minimum's error (a few m/s on the
