@@ -1,7 +1,7 @@
 /// <reference lib="webworker" />
 /**
  * The analysis worker: n-body verification, correction, dispersion runs, targeting and the plan
- * read in its truth model, off the UI thread.
+ * read in its truth model, the Survey screen's Δv map of the whole system, off the UI thread.
  * The core runs each job synchronously; cancelling terminates the worker (analysis/client.ts).
  */
 import { runAnalysisJob } from '../analysis/runJob.ts';
