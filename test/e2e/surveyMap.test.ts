@@ -140,6 +140,21 @@ describe.skipIf(!have)('Survey: the Δv map (e2e)', () => {
     expect(errors).toEqual([]);
   });
 
+  it('Cancel stops a computation at once and keeps the map shown', async () => {
+    // both clicks in one page task: the job (hundreds of ms in the worker) cannot finish in between
+    const cancelled = await page.evaluate(async () => {
+      (document.querySelector('[data-testid=dv-map-compute]') as HTMLButtonElement).click();
+      await new Promise((r) => setTimeout(r, 0));
+      const cancel = document.querySelector('[data-testid=dv-map-cancel]') as HTMLButtonElement | null;
+      cancel?.click();
+      return cancel !== null;
+    });
+    expect(cancelled).toBe(true);
+    await expect.poll(() => page.textContent('[data-testid=dv-map-message]'), G).toBe('Cancelled.');
+    expect(await page.locator('[data-testid=dv-map-diagram] g[data-edge]').count()).toBe(map.edges.length);
+    expect(await page.locator('[data-testid=dv-map-cancel]').count()).toBe(0);
+  });
+
   it('another system opened: the map is computed again for it, names drawn as text', async () => {
     const system = JSON.parse(readFileSync(new URL('../../assets/systems/ilmar.system.json', import.meta.url), 'utf8'));
     system.name = 'Ilmar <revised> & co';
