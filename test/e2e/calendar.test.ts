@@ -35,7 +35,8 @@ async function sideways(): Promise<string[]> {
     if (view.scrollWidth > view.clientWidth + 1) out.push('the panel scrolls sideways');
     for (const el of Array.from(view.querySelectorAll('input, button, summary, svg, table'))) {
       const r = el.getBoundingClientRect();
-      if (r.width === 0 || el.closest('.pair-grid') || el.closest('.table-wrap')) continue;
+      // hidden (a closed pair grid) or in the table's own scroller
+      if (r.width === 0 || !el.checkVisibility() || el.closest('.table-wrap')) continue;
       if (r.left < v.left - 1 || r.right > v.right + 1) out.push(`${el.tagName} '${(el.textContent ?? '').trim().slice(0, 20)}' sticks out`);
     }
     return out;
@@ -118,6 +119,17 @@ describe.skipIf(!have)('window calendar in the Survey screen (e2e)', () => {
       expect(rel(Number(rows[k + 1][3]), w.opens)).toBeLessThanOrEqual(1e-9);
       expect(rel(Number(rows[k + 1][11]), w.best.dv)).toBeLessThanOrEqual(1e-9);
     });
+  });
+
+  it('chooses pairs in a From × To grid', async () => {
+    await page.click('[data-testid=calendar-pairs] summary');
+    await page.uncheck('[data-testid=calendar-pair-moravel-fennick]');
+    expect(await page.textContent('[data-testid=calendar-pairs] summary')).toBe('Pairs: 19 of 20');
+    expect(await sideways()).toEqual([]);
+    await page.screenshot({ path: `${OUT}calendar-pairs-1024x640.png` });
+    await page.check('[data-testid=calendar-pair-moravel-fennick]');
+    await page.click('[data-testid=calendar-pairs] summary');
+    expect(await page.textContent('[data-testid=calendar-pairs] summary')).toBe('Pairs: 20 of 20');
   });
 
   it('fits at 1920×1080 too, and no page errors', async () => {
