@@ -5,7 +5,7 @@
  * are the core's for the same request (computed here: the same code, so to 1e-9 relative — the
  * worker's V8 may differ from this process's in the last bits of its floating-point library); the
  * table lists every window; hovering a window shows its dates, Δv and flight time; the CSV export
- * downloads one row per window. Screenshots at 1024×640 and 1920×1080 go to test/output/e2e/.
+ * downloads one row per window, the rows `waymark calendar --csv` prints for the same system. Screenshots at 1024×640 and 1920×1080 go to test/output/e2e/.
  * Nothing sticks out sideways. Waits are hang guards only.
  */
 import { readFileSync } from 'node:fs';
@@ -14,6 +14,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseCsv } from '../../core/io/csv.ts';
 import { CALENDAR_CSV_COLUMNS, parseSystemFile } from '../../core/io/index.ts';
 import { planetPairs, windowCalendar } from '../../core/survey/index.ts';
+import { runCli } from '../app/cli/runCli.ts';
 import { HANG_GUARD_MS, OUT, buildApp, requireChromium, startApp, type E2eApp } from './harness.ts';
 
 const have = requireChromium();
@@ -119,6 +120,24 @@ describe.skipIf(!have)('window calendar in the Survey screen (e2e)', () => {
       expect(rel(Number(rows[k + 1][3]), w.opens)).toBeLessThanOrEqual(1e-9);
       expect(rel(Number(rows[k + 1][11]), w.best.dv)).toBeLessThanOrEqual(1e-9);
     });
+  });
+
+  it('the exported CSV is what `waymark calendar --csv` prints for the same system (app → file → command line)', async () => {
+    const [d] = await Promise.all([page.waitForEvent('download', G), page.click('[data-testid=calendar-export-csv]')]);
+    const app = parseCsv(readFileSync(await d.path(), 'utf8'));
+    const run = await runCli(['calendar', '--system', 'assets/systems/ilmar.system.json', '--years', '20', '--within', '10', '--csv', '--workers', '0']);
+    expect(run.code, run.stderr).toBe(0);
+    const cli = parseCsv(run.stdout);
+    expect(cli.length).toBe(app.length);
+    expect(cli[0]).toEqual(app[0]);
+    // text columns equal; numbers to 1e-9 relative (the page's V8 and this Node's may differ in
+    // the last bits of their floating-point libraries)
+    for (let r = 1; r < app.length; r++)
+      app[r].forEach((cell, c) => {
+        const a = Number(cell);
+        if (cell === '' || Number.isNaN(a)) expect(cli[r][c]).toBe(cell);
+        else expect(rel(Number(cli[r][c]), a)).toBeLessThanOrEqual(1e-9);
+      });
   });
 
   it('chooses pairs in a From × To grid', async () => {

@@ -4,7 +4,7 @@
  * every transfer of the core's map (computed here with core/survey deltaVMap) is in the diagram
  * with its Δv; the aerobraking toggle adds the aerobraked figures; the SVG and PNG exports
  * download (paper theme; the PNG at twice the diagram's size) and the table lists every edge. The
- * layout probe (layoutProbe.ts) finds nothing cramped at 1024×640 and 1920×1080; screenshots go
+ * exported JSON is the map `waymark map --json` prints. The layout probe (layoutProbe.ts) finds nothing cramped at 1024×640 and 1920×1080; screenshots go
  * to test/output/e2e/survey-map-*.png.
  */
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
@@ -16,6 +16,7 @@ import { dvWords, parseSystemFile } from '../../core/io/index.ts';
 import { deltaVMap, type DeltaVMap } from '../../core/survey/index.ts';
 import { HANG_GUARD_MS, OUT, buildApp, openFile, requireChromium, startApp, type E2eApp } from './harness.ts';
 import { layoutProblems } from './layoutProbe.ts';
+import { runCli } from '../app/cli/runCli.ts';
 
 const have = requireChromium();
 const BUILD = new URL('../../dist/e2e-survey-map/', import.meta.url).pathname;
@@ -110,6 +111,24 @@ describe.skipIf(!have)('Survey: the Δv map (e2e)', () => {
         .filter((l) => l !== '').length,
     ).toBe(map.edges.length + 1);
     expect(errors).toEqual([]);
+  });
+
+  it('the exported JSON is the map `waymark map --json` prints for the same system (app → file → command line)', async () => {
+    const json = await downloaded(() => page.click('[data-testid=dv-map-export-json]'));
+    const fromApp = JSON.parse(json.bytes.toString('utf8')) as DeltaVMap;
+    const run = await runCli(['map', '--system', 'assets/systems/ilmar.system.json', '--json']);
+    expect(run.code, run.stderr).toBe(0);
+    const fromCli = JSON.parse(run.stdout) as DeltaVMap;
+    // the figures to 1e-9 relative (the page's V8 and this Node's may differ in the last bits of
+    // their floating-point libraries: the SOI radii already do), the words exactly
+    expect(fromCli.nodes.map((n) => [n.id, n.label])).toEqual(fromApp.nodes.map((n) => [n.id, n.label]));
+    fromApp.nodes.forEach((n, k) => expect(Math.abs(fromCli.nodes[k].altitude - n.altitude)).toBeLessThanOrEqual(1e-9 * n.altitude));
+    expect(fromCli.edges.map((e) => [e.id, e.kind, e.how])).toEqual(fromApp.edges.map((e) => [e.id, e.kind, e.how]));
+    fromApp.edges.forEach((e, k) => {
+      const c = fromCli.edges[k];
+      expect(Math.abs(c.dv - e.dv)).toBeLessThanOrEqual(1e-9 * e.dv);
+      if (e.window) expect(Math.abs(c.window!.depart - e.window.depart)).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(e.window.depart)));
+    });
   });
 
   it('looks right at 1024×640 and 1920×1080: nothing overlaps or leaves its panel (screenshots)', async () => {
