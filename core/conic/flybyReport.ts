@@ -19,7 +19,7 @@ import type { StarSystem } from '../system/index.ts';
 import type { FlybyReport, TrajectoryEvent, TrajectorySegment } from '../plan/index.ts';
 import { propagateKepler } from '../orbit/index.ts';
 import { conicInfo, createConicInfo } from './soiCrossing.ts';
-import { bPlaneFrame } from './bPlaneFrame.ts';
+import { bPlaneFrame } from '../orbit/index.ts';
 
 const frameScratch = new Float64Array(6);
 

@@ -46,7 +46,7 @@ import { findBodyIndex, type StarSystem } from '../system/index.ts';
 import type { Vec3 } from '../math/index.ts';
 import type { BurnSolve } from '../plan/index.ts';
 import { conicInfo, createConicInfo } from './soiCrossing.ts';
-import { bPlaneFrame } from './bPlaneFrame.ts';
+import { bPlaneFrame } from '../orbit/index.ts';
 
 const frameScratch = new Float64Array(6);
 

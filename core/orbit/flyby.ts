@@ -16,6 +16,7 @@
  * Hot loops (core/search/sequence.ts) use flybyCostInto, which allocates nothing.
  */
 import { InputError, requireFiniteVector, requireNonNegative, requirePositive } from '../math/index.ts';
+import { bPlaneFrame } from './bPlaneFrame.ts';
 
 /** Turning angle of a hyperbola: δ = 2·asin(1/e), e = 1 + r_p·v∞²/μ (Curtis §8.9). */
 export function flybyTurnAngle(mu: number, rp: number, vInf: number): number {
@@ -25,28 +26,8 @@ export function flybyTurnAngle(mu: number, rp: number, vInf: number): number {
   return 2 * Math.asin(1 / (1 + (rp * vInf * vInf) / mu));
 }
 
-// T and R axes of the B-plane for the unit vector (sx, sy, sz), into AX[0..5].
+// T and R axes of the B-plane of the unit vector Ŝ (bPlaneFrame.ts), written by bPlaneFrame.
 const AX = new Float64Array(6);
-function bPlaneAxesInto(sx: number, sy: number, sz: number): void {
-  let tx = sy;
-  let ty = -sx;
-  let tz = 0;
-  const tn = Math.sqrt(tx * tx + ty * ty);
-  if (tn > 1e-12) {
-    tx /= tn;
-    ty /= tn;
-  } else {
-    tx = 1;
-    ty = 0;
-    tz = 0;
-  }
-  AX[0] = tx;
-  AX[1] = ty;
-  AX[2] = tz;
-  AX[3] = sy * tz - sz * ty;
-  AX[4] = sz * tx - sx * tz;
-  AX[5] = sx * ty - sy * tx;
-}
 
 /**
  * Unpowered flyby: v∞ out = v∞ in rotated by δ(r_p) in the plane of the hyperbola; the B-plane
@@ -63,7 +44,7 @@ export function unpoweredFlyby(mu: number, vInfIn: ArrayLike<number>, rp: number
   const sx = vInfIn[0] / v;
   const sy = vInfIn[1] / v;
   const sz = vInfIn[2] / v;
-  bPlaneAxesInto(sx, sy, sz);
+  bPlaneFrame(sx, sy, sz, AX);
   const c = Math.cos(bAngle);
   const s = Math.sin(bAngle);
   const bx = c * AX[0] + s * AX[3];
@@ -238,7 +219,7 @@ export function flybyBPlaneAngle(vInfIn: ArrayLike<number>, vInfOut: ArrayLike<n
   const py = -(uy - c * sy);
   const pz = -(uz - c * sz);
   if (!(Math.sqrt(px * px + py * py + pz * pz) > 1e-12)) return 0;
-  bPlaneAxesInto(sx, sy, sz);
+  bPlaneFrame(sx, sy, sz, AX);
   const bt = px * AX[0] + py * AX[1] + pz * AX[2];
   const br = px * AX[3] + py * AX[4] + pz * AX[5];
   const th = Math.atan2(br, bt);

@@ -1,5 +1,5 @@
 /**
- * Front door of core/orbit. Two-body orbits: anomalies, elements <-> state, Stumpff functions, universal-variable Kepler, Lambert, Hohmann, bi-elliptic, synodic period, sphere of influence, hyperbolic departure and arrival, flyby geometry (unpowered and powered).
+ * Front door of core/orbit. Two-body orbits: anomalies, elements <-> state, Stumpff functions, universal-variable Kepler, Lambert, Hohmann, bi-elliptic, synodic period, sphere of influence, hyperbolic departure and arrival, flyby geometry (unpowered and powered) and the B-plane axes.
  * Other folders of core/ and the app import from here only.
  */
 export { eccentricToMean, hyperbolicToMean, solveEllipticKepler, trueToEccentric, trueToHyperbolic } from './anomaly.ts';
@@ -22,6 +22,7 @@ export {
   unpoweredFlyby,
   unpoweredFlybyMatch,
 } from './flyby.ts';
+export { bPlaneFrame } from './bPlaneFrame.ts';
 export type { PoweredFlyby } from './flyby.ts';
 export { hohmann } from './hohmann.ts';
 export { hyperbolaPeriapsisSpeed, orbitPeriapsisSpeed } from './hyperbolic.ts';

@@ -1,7 +1,8 @@
 /**
  * The B-plane axes of an incoming asymptote Ŝ: T = Ŝ × ẑ normalised (x̂ when Ŝ is along ±ẑ), R = Ŝ × T
  * (Vallado, Fundamentals of Astrodynamics and Applications, 4th ed., §12.4 — from memory; the
- * convention of core/nbody/bPlane.ts). Writes [Tx, Ty, Tz, Rx, Ry, Rz] into `out`.
+ * convention of core/nbody/bPlane.ts; used by the flyby geometry here and the flyby aim and report
+ * in core/conic). Writes [Tx, Ty, Tz, Rx, Ry, Rz] into `out`.
  */
 export function bPlaneFrame(Sx: number, Sy: number, Sz: number, out: Float64Array): Float64Array {
   let Tx = Sy,

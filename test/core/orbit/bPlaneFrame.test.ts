@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { bPlaneFrame } from '../../../core/conic/bPlaneFrame.ts';
+import { bPlaneFrame } from '../../../core/orbit/bPlaneFrame.ts';
 
 describe('bPlaneFrame', () => {
   it('gives T in the reference plane and perpendicular to Ŝ, R = Ŝ × T, an orthonormal right-handed triad (definition of the B-plane axes)', () => {
